@@ -1,0 +1,56 @@
+#pragma once
+// Shared plumbing of the command-line front end: option parsing, formats, exit codes.
+// Commands only parse, call the library and format; nothing here knows physics.
+#include <limitline/error.hpp>
+#include <limitline/units.hpp>
+
+#include <boost/program_options.hpp>
+
+#include <initializer_list>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace limitline::cli {
+
+namespace po = boost::program_options;
+
+enum class Format { text, json, csv, md };
+
+Format parse_format(std::string_view text, std::initializer_list<Format> allowed);
+std::string_view format_name(Format f);
+
+// One subcommand: `run` gets the arguments after the command name.
+struct Command {
+  std::string_view name;
+  std::string_view summary;
+  int (*run)(const std::vector<std::string>& args);
+};
+
+// Declared by each src/cli/cmd_*.cpp.
+int run_state(const std::vector<std::string>& args);
+
+// Parses `args` against `options` (and positionals). When --help is present it prints
+// `usage`, the options and `details` and returns false; otherwise fills `vm` and returns true.
+// Parse failures are UsageError.
+bool parse_options(const std::vector<std::string>& args, const po::options_description& options,
+                   const po::positional_options_description& positional, std::string_view usage,
+                   std::string_view details, po::variables_map& vm);
+
+// Adds --units and --format (with the formats this command accepts) and --help.
+void add_common_options(po::options_description& options, std::string_view formats);
+
+struct Common {
+  units::System units;
+  Format format;
+};
+Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed);
+
+// Reads option `name` as a quantity of `kind`, in the --units system for bare numbers.
+double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
+                units::System system);
+
+// Writes text to stdout exactly (no added newline); exits with failure if stdout fails.
+void write_out(const std::string& text);
+
+}  // namespace limitline::cli

@@ -1,0 +1,62 @@
+// limitline: economizer high-limit analysis. Dispatches to one subcommand per file.
+#include "common.hpp"
+
+#include <fmt/format.h>
+
+#include <cstdio>
+#include <exception>
+#include <string>
+#include <vector>
+
+namespace {
+
+using limitline::cli::Command;
+
+// Every subcommand, in the order the help lists them.
+const Command kCommands[] = {
+    {"state", "properties of one moist-air state, or of every row of a CSV file",
+     limitline::cli::run_state},
+};
+
+void print_overview() {
+  std::string out =
+      "limitline: choose and check air-side economizer high-limit controls\n\n"
+      "usage: limitline COMMAND [options]   (limitline COMMAND --help for details)\n\n"
+      "commands:\n";
+  for (const Command& c : kCommands) out += fmt::format("  {:<10} {}\n", c.name, c.summary);
+  out += "\nExit codes: 0 success, 1 usage error, 2 bad input.\n";
+  std::fputs(out.c_str(), stdout);
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  const std::vector<std::string> all(argv + 1, argv + argc);
+  if (all.empty() || all[0] == "--help" || all[0] == "-h" || all[0] == "help") {
+    print_overview();
+    return all.empty() ? 1 : 0;
+  }
+  if (all[0] == "--version") {
+    std::puts("limitline " LIMITLINE_CLI_VERSION);
+    return 0;
+  }
+  for (const Command& c : kCommands) {
+    if (c.name != all[0]) continue;
+    try {
+      return c.run(std::vector<std::string>(all.begin() + 1, all.end()));
+    } catch (const limitline::UsageError& e) {
+      std::fprintf(stderr, "limitline %s: %s (see limitline %s --help)\n", all[0].c_str(),
+                   e.what(), all[0].c_str());
+      return 1;
+    } catch (const limitline::InputError& e) {
+      std::fprintf(stderr, "limitline %s: error: %s\n", all[0].c_str(), e.what());
+      return 2;
+    } catch (const std::exception& e) {
+      std::fprintf(stderr, "limitline %s: internal error: %s\n", all[0].c_str(), e.what());
+      return 3;
+    }
+  }
+  std::fprintf(stderr, "limitline: '%s' is not a command (see limitline --help)\n",
+               all[0].c_str());
+  return 1;
+}

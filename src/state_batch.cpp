@@ -1,0 +1,128 @@
+#include <limitline/state_batch.hpp>
+
+#include <limitline/csv.hpp>
+#include <limitline/psychro.hpp>
+#include <limitline/report/state.hpp>
+
+#include <fmt/format.h>
+
+#include <istream>
+#include <optional>
+#include <ostream>
+
+namespace limitline {
+namespace {
+
+using psychro::HumidityInput;
+using units::Kind;
+
+struct HumidityColumn {
+  std::string_view name;
+  HumidityInput input;
+  Kind kind;
+};
+
+constexpr HumidityColumn kHumidityColumns[] = {
+    {"rh", HumidityInput::relative_humidity, Kind::fraction},
+    {"relative_humidity", HumidityInput::relative_humidity, Kind::fraction},
+    {"wet_bulb", HumidityInput::wet_bulb, Kind::temperature},
+    {"dew_point", HumidityInput::dew_point, Kind::temperature},
+    {"humidity_ratio", HumidityInput::humidity_ratio, Kind::humidity_ratio},
+    {"enthalpy", HumidityInput::enthalpy, Kind::enthalpy},
+};
+
+}  // namespace
+
+std::size_t write_state_batch(std::istream& in, std::ostream& out,
+                              const StateBatchOptions& opt) {
+  std::string line;
+  std::size_t line_no = 0;
+  // Header: the first non-blank line.
+  while (std::getline(in, line)) {
+    ++line_no;
+    if (line.find_first_not_of(" \t\r") != std::string::npos) break;
+  }
+  if (line_no == 0 || line.find_first_not_of(" \t\r") == std::string::npos)
+    throw InputError(fmt::format("{}: no header line (expected e.g. dry_bulb,rh)", opt.origin));
+  const char delim = csv::guess_delimiter(line);
+  const auto header = csv::split_line(line, delim);
+  std::optional<std::size_t> dry_bulb, pressure, elevation, humidity;
+  const HumidityColumn* humidity_kind = nullptr;
+  for (std::size_t i = 0; i < header.size(); ++i) {
+    std::string h = header[i];
+    for (char& c : h) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    if (h == "dry_bulb") { dry_bulb = i; continue; }
+    if (h == "pressure") { pressure = i; continue; }
+    if (h == "elevation") { elevation = i; continue; }
+    bool known = false;
+    for (const HumidityColumn& c : kHumidityColumns) {
+      if (c.name != h) continue;
+      known = true;
+      if (humidity)
+        throw InputError(fmt::format("{}:{}: columns '{}' and '{}' both give humidity; keep one",
+                                     opt.origin, line_no, header[*humidity], header[i]));
+      humidity = i;
+      humidity_kind = &c;
+    }
+    if (!known)
+      throw InputError(fmt::format(
+          "{}:{}: column '{}' is not known (allowed: dry_bulb, rh, relative_humidity, "
+          "wet_bulb, dew_point, humidity_ratio, enthalpy, pressure, elevation)",
+          opt.origin, line_no, header[i]));
+  }
+  if (!dry_bulb) throw InputError(fmt::format("{}:{}: no dry_bulb column", opt.origin, line_no));
+  if (!humidity)
+    throw InputError(fmt::format("{}:{}: no humidity column (one of rh, wet_bulb, dew_point, "
+                                 "humidity_ratio, enthalpy)",
+                                 opt.origin, line_no));
+  if (pressure && elevation)
+    throw InputError(fmt::format("{}:{}: give pressure or elevation, not both", opt.origin,
+                                 line_no));
+
+  const auto fields = report::property_fields();
+  std::string buffer;
+  for (std::size_t i = 0; i < fields.size(); ++i)
+    buffer += (i ? "," : "") + report::property_key(fields[i], opt.system);
+  buffer += '\n';
+
+  std::size_t rows = 0;
+  while (std::getline(in, line)) {
+    ++line_no;
+    if (line.find_first_not_of(" \t\r") == std::string::npos) continue;
+    const auto cells = csv::split_line(line, delim);
+    if (cells.size() != header.size())
+      throw InputError(fmt::format("{}:{}: {} fields where the header has {}", opt.origin,
+                                   line_no, cells.size(), header.size()));
+    auto where = [&](std::size_t col) {
+      return fmt::format("{}:{} column {}", opt.origin, line_no, header[col]);
+    };
+    try {
+      const double t = units::parse(Kind::temperature, cells[*dry_bulb], opt.system, where(*dry_bulb));
+      double p = opt.default_pressure_kpa;
+      if (pressure) p = units::parse(Kind::pressure, cells[*pressure], opt.system, where(*pressure));
+      if (elevation)
+        p = psychro::standard_pressure_kpa(
+            units::parse(Kind::length, cells[*elevation], opt.system, where(*elevation)));
+      const double h = units::parse(humidity_kind->kind, cells[*humidity], opt.system, where(*humidity));
+      const auto props = psychro::properties(psychro::state_from(t, humidity_kind->input, h, p));
+      for (std::size_t i = 0; i < fields.size(); ++i) {
+        if (i) buffer += ',';
+        fmt::format_to(std::back_inserter(buffer), "{:.8g}",
+                       report::property_value(fields[i], props, opt.system));
+      }
+      buffer += '\n';
+    } catch (const RangeError& e) {
+      throw InputError(fmt::format("{}:{}: {}", opt.origin, line_no, e.what()));
+    }
+    ++rows;
+    if (buffer.size() > (1u << 16)) {
+      out.write(buffer.data(), static_cast<std::streamsize>(buffer.size()));
+      buffer.clear();
+    }
+  }
+  out.write(buffer.data(), static_cast<std::streamsize>(buffer.size()));
+  if (!out) throw std::runtime_error("cannot write the batch output");
+  return rows;
+}
+
+}  // namespace limitline
