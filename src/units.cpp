@@ -48,6 +48,10 @@ constexpr Unit kEnthalpy[] = {
     {"btu/lb", kEnthalpyIpScale, -7.68 * kEnthalpyIpScale},
     {"btu/lbm", kEnthalpyIpScale, -7.68 * kEnthalpyIpScale},
 };
+constexpr Unit kEnthalpyDifference[] = {
+    {"kj/kg", 1, 0}, {"j/kg", 1e-3, 0}, {"btu/lb", kEnthalpyIpScale, 0},
+    {"btu/lbm", kEnthalpyIpScale, 0},
+};
 constexpr Unit kPressure[] = {
     {"kpa", 1, 0},          {"pa", 1e-3, 0},          {"hpa", 0.1, 0},    {"mbar", 0.1, 0},
     {"bar", 100, 0},        {"psia", 6.894757293, 0}, {"psi", 6.894757293, 0},
@@ -83,6 +87,8 @@ constexpr KindInfo kKinds[] = {
      "k", "°F", "K", "delta_f", "delta_k"},
     {Kind::enthalpy, "an enthalpy", kEnthalpy, "btu/lb", "kj/kg", "Btu/lb", "kJ/kg",
      "btu_per_lb", "kj_per_kg"},
+    {Kind::enthalpy_difference, "an enthalpy difference", kEnthalpyDifference, "btu/lb",
+     "kj/kg", "Btu/lb", "kJ/kg", "delta_btu_per_lb", "delta_kj_per_kg"},
     {Kind::pressure, "a pressure", kPressure, "psia", "kpa", "psia", "kPa", "psia", "kpa"},
     {Kind::length, "a length", kLength, "ft", "m", "ft", "m", "ft", "m"},
     {Kind::fraction, "a percentage", kFraction, "%", "%", "%", "%", "pct", "pct"},

@@ -23,6 +23,7 @@ enum class Kind {
   temperature,             // °C
   temperature_difference,  // K
   enthalpy,                // kJ/kg dry air, 0 °C datum
+  enthalpy_difference,     // kJ/kg dry air (no datum: offsets, deadbands, loads per kg)
   pressure,                // kPa
   length,                  // m
   fraction,                // 0–1 (written as a percentage)
