@@ -113,6 +113,11 @@ struct EnergyWeights {
   double heating = 1.0;
 };
 
+// Energy differences smaller than this (weighted kJ per kg of dry air) between enabling and
+// disabling are a tie: neither choice counts as wrong. About 0.004 Btu/lb, far below what any
+// sensor could resolve.
+inline constexpr double kDecisionToleranceKjPerKg = 0.01;
+
 // One hour's operation of the air handler.
 struct Operation {
   double oa_fraction;
