@@ -154,6 +154,7 @@ Prepared prepare(const airside::AirHandler& unit, const ReturnAirSpec& ret_spec,
     iv.source_index = static_cast<std::uint32_t>(i);
     iv.month = static_cast<std::uint8_t>(w.month);
     iv.hours = hours;
+    iv.pressure_kpa = w.pressure_kpa;
     const double kg = mass_flow * hours * 3600.0;
     iv.tolerance_kwh = airside::kDecisionToleranceKjPerKg * kg / 3600.0;
     const airside::HourChoice choice = airside::choose(unit, air, opt.weights);

@@ -54,6 +54,7 @@ struct PreparedInterval {
   std::uint8_t month;          // 1–12
   bool cooling_needed;
   double hours;  // occupied hours in the interval (occupied share × length)
+  double pressure_kpa;  // this interval's pressure (outdoor and return air alike)
   highlimit::AirValues outdoor, ret;
   Outcome disabled, enabled, optimal;
   bool enabling_pays() const {
