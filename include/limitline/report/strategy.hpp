@@ -1,0 +1,24 @@
+#pragma once
+// High-limit conditions in words, with their setpoints in display units.
+#include <limitline/highlimit.hpp>
+#include <limitline/units.hpp>
+
+#include <string>
+
+namespace limitline::report {
+
+// The unit kind of a quantity's values and of its differences (offsets, deadbands).
+units::Kind value_kind(highlimit::Quantity q);
+units::Kind difference_kind(highlimit::Quantity q);
+
+// A quantity's value or difference formatted as a specifier writes it ("75 °F", "28.0 Btu/lb").
+std::string format_value(highlimit::Quantity q, double si, units::System s);
+std::string format_difference(highlimit::Quantity q, double si, units::System s);
+
+// "outdoor enthalpy above 28.0 Btu/lb (deadband 0.5 Btu/lb)",
+// "outdoor dry-bulb above return-air dry-bulb − 2.0 °F".
+std::string describe_condition(const highlimit::Condition& c, units::System s);
+// "off when " + conditions joined by " or ".
+std::string describe_strategy(const highlimit::Strategy& s, units::System units);
+
+}  // namespace limitline::report

@@ -1,0 +1,82 @@
+#pragma once
+// Everything `limitline year` (and the report, chart and sensor commands) needs, assembled
+// from a unit file: its weather series read with the unit's mapping, its schedule, its
+// strategies, the prepared year and the context lines of the report.
+#include <limitline/annual.hpp>
+#include <limitline/report/year.hpp>
+#include <limitline/schedule.hpp>
+#include <limitline/unit_file.hpp>
+#include <limitline/weather.hpp>
+
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace limitline {
+
+// Where the unit file came from: a path, or the name of an embedded demo unit.
+struct UnitSource {
+  std::string path;        // file path, or the embedded name
+  bool embedded = false;
+};
+
+// Demo names and their embedded unit files ("harbourside" → "demo-harbourside.toml").
+std::vector<std::string> demo_names();
+UnitSource demo_unit(std::string_view demo_name);  // InputError for an unknown name
+
+// Overrides from the command line, applied on top of the unit file's [weather] table.
+struct WeatherOverrides {
+  std::optional<std::string> file;  // --weather
+  // --column QUANTITY=HEADER[:UNIT], e.g. "dry_bulb=Temp:F"
+  std::vector<std::string> columns;
+  std::optional<std::string> humidity;       // --humidity
+  std::optional<std::string> on_bad_row;     // --on-bad-row
+  std::optional<std::string> time_convention;  // --time-convention
+};
+
+struct YearInputs {
+  UnitFile unit;
+  std::string unit_label;  // the path, or "embedded demo unit NAME"
+  weather::WeatherSeries weather;
+  std::string weather_label;
+  Schedule schedule;
+  std::vector<highlimit::Strategy> strategies;
+};
+
+// Loads the unit file (or embedded demo), reads its weather, schedule and strategies.
+// `weather_file` replaces the weather file named by the unit (used by batch runs).
+YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& overrides);
+// The same unit with another weather file (batch mode): reuses the parsed unit.
+YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
+                        const WeatherOverrides& overrides);
+
+// The weather series as the annual engine's intervals.
+std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w);
+annual::ReturnAirSpec return_air_spec(const UnitFile& unit);
+
+annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point = true);
+
+// The report's header lines and strategy descriptions.
+report::YearContext year_context(const YearInputs& in, units::System units);
+
+}  // namespace limitline
+
+namespace limitline {
+
+// One site of a batch run: its result, or the one-line error that stopped it.
+struct BatchSite {
+  std::string weather_path;
+  bool ok = false;
+  std::string error;
+  double operating_hours = 0;
+  annual::YearResult result;
+};
+
+// Every *.csv file of `dir` (sorted by name) evaluated with the unit of `base`, on `threads`
+// threads (0: all cores). Results are in file order whatever the thread count. `progress` is
+// called after each site with (done, total), from the worker threads.
+std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string& dir,
+                                      const WeatherOverrides& overrides, unsigned threads,
+                                      void (*progress)(std::size_t, std::size_t) = nullptr);
+
+}  // namespace limitline

@@ -1,0 +1,75 @@
+#include <limitline/report/strategy.hpp>
+
+#include <fmt/format.h>
+
+#include <cmath>
+
+namespace limitline::report {
+
+using highlimit::Quantity;
+using units::Kind;
+
+units::Kind value_kind(Quantity q) {
+  switch (q) {
+    case Quantity::dry_bulb:
+    case Quantity::dew_point: return Kind::temperature;
+    case Quantity::enthalpy: return Kind::enthalpy;
+    case Quantity::humidity_ratio: return Kind::humidity_ratio;
+  }
+  return Kind::temperature;
+}
+
+units::Kind difference_kind(Quantity q) {
+  switch (q) {
+    case Quantity::dry_bulb:
+    case Quantity::dew_point: return Kind::temperature_difference;
+    case Quantity::enthalpy: return Kind::enthalpy_difference;
+    case Quantity::humidity_ratio: return Kind::humidity_ratio;
+  }
+  return Kind::temperature_difference;
+}
+
+namespace {
+int decimals(Quantity q) {
+  switch (q) {
+    case Quantity::dry_bulb:
+    case Quantity::dew_point: return 1;
+    case Quantity::enthalpy: return 1;
+    case Quantity::humidity_ratio: return 4;
+  }
+  return 1;
+}
+}  // namespace
+
+std::string format_value(Quantity q, double si, units::System s) {
+  return units::format(value_kind(q), s, si, decimals(q));
+}
+
+std::string format_difference(Quantity q, double si, units::System s) {
+  return units::format(difference_kind(q), s, si, decimals(q));
+}
+
+std::string describe_condition(const highlimit::Condition& c, units::System s) {
+  const std::string_view name = highlimit::quantity_name(c.quantity);
+  std::string out;
+  if (c.reference == highlimit::Reference::fixed) {
+    out = fmt::format("outdoor {} above {}", name, format_value(c.quantity, c.limit, s));
+  } else {
+    out = fmt::format("outdoor {} above return-air {}", name, name);
+    if (std::fabs(c.limit) > 1e-12)
+      out += fmt::format(" {} {}", c.limit > 0 ? "+" : "-",
+                         format_difference(c.quantity, std::fabs(c.limit), s));
+  }
+  if (c.deadband > 0.0)
+    out += fmt::format(" (deadband {})", format_difference(c.quantity, c.deadband, s));
+  return out;
+}
+
+std::string describe_strategy(const highlimit::Strategy& st, units::System s) {
+  std::string out = "off when ";
+  for (std::size_t i = 0; i < st.conditions.size(); ++i)
+    out += (i ? " or " : "") + describe_condition(st.conditions[i], s);
+  return out;
+}
+
+}  // namespace limitline::report

@@ -1,0 +1,229 @@
+#include <limitline/year_job.hpp>
+
+#include <limitline/embedded.hpp>
+#include <limitline/error.hpp>
+#include <limitline/report/strategy.hpp>
+
+#include <fmt/format.h>
+
+#include <filesystem>
+
+namespace limitline {
+namespace {
+
+namespace fs = std::filesystem;
+
+struct Demo {
+  std::string_view name;
+  std::string_view unit_file;
+};
+constexpr Demo kDemos[] = {
+    {"harbourside", "demo-harbourside.toml"},
+    {"mesa-alta", "demo-mesa-alta.toml"},
+};
+
+weather::Mapping mapping_for(const UnitFile& unit, const WeatherOverrides& o) {
+  weather::Mapping m;
+  if (unit.weather) m = weather::read_mapping(*unit.weather, unit.path);
+  for (const std::string& spec : o.columns) {
+    const std::string origin = fmt::format("--column {}", spec);
+    const auto eq = spec.find('=');
+    if (eq == std::string::npos || eq == 0 || eq + 1 == spec.size())
+      throw UsageError(fmt::format("{}: write QUANTITY=HEADER or QUANTITY=HEADER:UNIT, e.g. "
+                                   "dry_bulb=Temperature:C",
+                                   origin));
+    const auto q = weather::quantity_from_key(spec.substr(0, eq));
+    if (!q)
+      throw UsageError(fmt::format("{}: '{}' is not a weather quantity (dry_bulb, dew_point, "
+                                   "relative_humidity, wet_bulb, humidity_ratio, pressure, "
+                                   "timestamp, date, time, year, month, day, hour, minute)",
+                                   origin, spec.substr(0, eq)));
+    std::string header = spec.substr(eq + 1);
+    weather::ColumnOverride& c = m.column(*q);
+    const auto colon = header.rfind(':');
+    // A colon followed by a unit; a header may itself hold a colon, so only split when the
+    // part after it is short and has no spaces.
+    if (colon != std::string::npos && colon + 1 < header.size() && header.size() - colon <= 8 &&
+        header.find(' ', colon) == std::string::npos) {
+      c.unit = header.substr(colon + 1);
+      header = header.substr(0, colon);
+    }
+    c.column = header;
+    c.origin = origin;
+  }
+  if (o.humidity) m.humidity = weather::parse_humidity_source(*o.humidity, "--humidity");
+  if (o.on_bad_row) m.on_bad_row = weather::parse_bad_row_policy(*o.on_bad_row, "--on-bad-row");
+  if (o.time_convention)
+    m.time_convention = weather::parse_time_convention(*o.time_convention, "--time-convention");
+  return m;
+}
+
+weather::WeatherSeries read_weather(const UnitFile& unit, bool embedded_unit,
+                                    const weather::Mapping& m, const std::optional<std::string>& cli_file,
+                                    std::string& label) {
+  const double site_p = unit.site.design_pressure_kpa();
+  if (cli_file) {
+    label = *cli_file;
+    return weather::read_file(*cli_file, m, site_p);
+  }
+  if (!m.file)
+    throw InputError(fmt::format("{}: no weather file: give --weather FILE, or file = \"...\" in "
+                                 "the unit file's [weather] table",
+                                 unit.path));
+  if (embedded_unit) {
+    const auto text = embedded::find(*m.file);
+    if (!text)
+      throw InputError(fmt::format("embedded demo weather '{}' is missing from this build", *m.file));
+    label = fmt::format("{} (embedded invented demo climate)", *m.file);
+    return weather::read_text(*text, *m.file, m, site_p);
+  }
+  // A relative path in the unit file is relative to the unit file's folder.
+  fs::path p(*m.file);
+  if (p.is_relative()) p = fs::path(unit.path).parent_path() / p;
+  label = p.string();
+  return weather::read_file(p, m, site_p);
+}
+
+}  // namespace
+
+std::vector<std::string> demo_names() {
+  std::vector<std::string> out;
+  for (const auto& d : kDemos) out.emplace_back(d.name);
+  return out;
+}
+
+UnitSource demo_unit(std::string_view name) {
+  for (const auto& d : kDemos)
+    if (d.name == name) return {std::string(d.unit_file), true};
+  std::string allowed;
+  for (const auto& d : kDemos) allowed += (allowed.empty() ? "" : ", ") + std::string(d.name);
+  throw InputError(fmt::format("--demo: '{}' is not a demo (allowed: {})", name, allowed));
+}
+
+YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& overrides) {
+  YearInputs in;
+  if (source.embedded) {
+    const auto text = embedded::find(source.path);
+    if (!text) throw InputError(fmt::format("embedded demo unit '{}' is missing from this build", source.path));
+    in.unit = parse_unit_file(*text, source.path);
+    in.unit_label = fmt::format("{} (embedded invented demo unit)", source.path);
+  } else {
+    in.unit = load_unit_file(source.path);
+    in.unit_label = source.path;
+  }
+  const weather::Mapping m = mapping_for(in.unit, overrides);
+  in.weather = read_weather(in.unit, source.embedded, m, overrides.file, in.weather_label);
+  if (in.unit.schedule) in.schedule = read_schedule(*in.unit.schedule, in.unit.path);
+  in.strategies = strategies_or_presets(in.unit);
+  return in;
+}
+
+YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
+                        const WeatherOverrides& overrides) {
+  YearInputs in;
+  in.unit = base.unit;
+  in.unit_label = base.unit_label;
+  in.schedule = base.schedule;
+  in.strategies = base.strategies;
+  WeatherOverrides o = overrides;
+  o.file = weather_path;
+  in.weather = read_weather(in.unit, false, mapping_for(in.unit, o), o.file, in.weather_label);
+  return in;
+}
+
+std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w) {
+  std::vector<annual::OutdoorInterval> out;
+  out.reserve(w.hours.size());
+  for (const auto& h : w.hours)
+    out.push_back({h.month, h.day, h.day_of_year, h.hour * 60 + h.minute, h.weight_h,
+                   h.dry_bulb_c, h.humidity_ratio, h.pressure_kpa});
+  return out;
+}
+
+annual::ReturnAirSpec return_air_spec(const UnitFile& unit) {
+  return {unit.return_air.dry_bulb_c, unit.return_air.humidity_kind,
+          unit.return_air.humidity_value};
+}
+
+annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point) {
+  const auto intervals = outdoor_intervals(in.weather);
+  annual::PrepareOptions opt;
+  opt.weights = in.unit.weights;
+  opt.compute_dew_point = compute_dew_point;
+  return annual::prepare(in.unit.air_handler, return_air_spec(in.unit), intervals, in.schedule, opt);
+}
+
+report::YearContext year_context(const YearInputs& in, units::System s) {
+  report::YearContext c;
+  c.units = s;
+  c.title = in.unit.site.name.empty() ? in.unit.path : in.unit.site.name;
+  c.unit_source = in.unit_label;
+  const Site& site = in.unit.site;
+  std::string basis;
+  if (site.pressure_kpa) basis = "site pressure as given";
+  else if (site.elevation_m)
+    basis = fmt::format("standard pressure at {}", units::format(units::Kind::length, s, *site.elevation_m, 0));
+  else basis = "sea-level standard pressure (no elevation given)";
+  c.site = fmt::format("{}{}design pressure {} ({}){}", site.name, site.name.empty() ? "" : "; ",
+                       units::format(units::Kind::pressure, s, site.design_pressure_kpa(), 3), basis,
+                       in.weather.info.pressure_from_file ? "; hourly pressure from the weather file" : "");
+  c.weather_source = in.weather_label;
+  c.weather_notes = weather::describe(in.weather.info);
+  c.schedule = in.schedule.describe();
+  for (const auto& st : in.strategies) c.strategy_descriptions[st.name] = report::describe_strategy(st, s);
+  return c;
+}
+
+}  // namespace limitline
+
+#include <algorithm>
+#include <atomic>
+#include <thread>
+
+namespace limitline {
+
+std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string& dir,
+                                      const WeatherOverrides& overrides, unsigned threads,
+                                      void (*progress)(std::size_t, std::size_t)) {
+  std::error_code ec;
+  if (!fs::is_directory(dir, ec))
+    throw InputError(fmt::format("--batch: '{}' is not a folder", dir));
+  std::vector<std::string> files;
+  for (const auto& e : fs::directory_iterator(dir)) {
+    std::string ext = e.path().extension().string();
+    std::transform(ext.begin(), ext.end(), ext.begin(), [](unsigned char c) { return std::tolower(c); });
+    if (e.is_regular_file() && ext == ".csv") files.push_back(e.path().string());
+  }
+  std::sort(files.begin(), files.end());
+  if (files.empty()) throw InputError(fmt::format("--batch: no .csv files in '{}'", dir));
+
+  std::vector<BatchSite> sites(files.size());
+  std::atomic<std::size_t> next{0}, done{0};
+  auto worker = [&] {
+    for (std::size_t i; (i = next.fetch_add(1)) < files.size();) {
+      BatchSite& s = sites[i];
+      s.weather_path = files[i];
+      try {
+        const YearInputs in = with_weather(base, files[i], overrides);
+        const annual::Prepared p = prepare_year(in);
+        s.result = annual::evaluate(in.strategies, p);
+        s.operating_hours = p.operating_hours;
+        s.ok = true;
+      } catch (const std::exception& e) {
+        // Any failure stays with its site; an exception must never leave a worker thread.
+        s.error = e.what();
+      }
+      const std::size_t d = ++done;
+      if (progress) progress(d, files.size());
+    }
+  };
+  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  threads = std::min<unsigned>(threads, static_cast<unsigned>(files.size()));
+  std::vector<std::thread> pool;
+  for (unsigned t = 1; t < threads; ++t) pool.emplace_back(worker);
+  worker();
+  for (auto& t : pool) t.join();
+  return sites;
+}
+
+}  // namespace limitline
