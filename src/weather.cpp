@@ -1,0 +1,1724 @@
+// Hourly weather import: finding the header, the columns, their units and the time layout
+// of a CSV file, then validating every row and resolving it to SI moist-air states.
+#include <limitline/weather.hpp>
+
+#include <limitline/csv.hpp>
+#include <limitline/psychro.hpp>
+#include <limitline/units.hpp>
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cctype>
+#include <charconv>
+#include <cmath>
+#include <cstring>
+#include <fstream>
+#include <span>
+#include <sstream>
+
+namespace limitline::weather {
+namespace {
+
+using units::Kind;
+
+constexpr std::size_t idx(Quantity q) { return static_cast<std::size_t>(q); }
+
+// --- Tables -------------------------------------------------------------------------------
+
+struct QuantityInfo {
+  Quantity quantity;
+  std::string_view key;
+  std::string_view label;
+  // Header names that mean this quantity, reduced to lower-case letters and digits.
+  std::string_view aliases;
+  bool has_unit;
+  Kind kind;  // meaningful when has_unit
+};
+
+// "pressure" means station pressure here: sea-level pressure columns (SLP, MSLP) are left
+// alone on purpose, since psychrometrics needs the pressure the air is actually at.
+constexpr QuantityInfo kQuantities[] = {
+    {Quantity::dry_bulb, "dry_bulb", "dry-bulb",
+     "drybulb|drybulbtemperature|drybulbtemp|temperature|temp|t2m|airtemperature|airtemp|"
+     "tdry|tdb|dbt",
+     true, Kind::temperature},
+    {Quantity::dew_point, "dew_point", "dew point",
+     "dewpoint|dewpointtemperature|dewpointtemp|dewpt|tdew|td|d2m|t2mdew", true,
+     Kind::temperature},
+    {Quantity::relative_humidity, "relative_humidity", "relative humidity",
+     "relativehumidity|rh|rhum|relhum|rh2m", true, Kind::fraction},
+    {Quantity::wet_bulb, "wet_bulb", "wet-bulb",
+     "wetbulb|wetbulbtemperature|wetbulbtemp|twet|twb|t2mwet", true, Kind::temperature},
+    {Quantity::humidity_ratio, "humidity_ratio", "humidity ratio", "humidityratio|mixingratio",
+     true, Kind::humidity_ratio},
+    {Quantity::pressure, "pressure", "pressure",
+     "pressure|stationpressure|sp|surfacepressure|atmosphericpressure|barometricpressure|"
+     "airpressure|ps|pres|stnpres",
+     true, Kind::pressure},
+    {Quantity::timestamp, "timestamp", "timestamp", "timestamp|datetime|dateandtime|datetimeutc",
+     false, Kind::temperature},
+    {Quantity::date, "date", "date", "date|localdate", false, Kind::temperature},
+    {Quantity::time, "time", "time", "time|timeutc|localtime|clocktime|timeofday", false,
+     Kind::temperature},
+    {Quantity::year, "year", "year", "year|yr", false, Kind::temperature},
+    {Quantity::month, "month", "month", "month|mo", false, Kind::temperature},
+    {Quantity::day, "day", "day", "day|dy|dayofmonth", false, Kind::temperature},
+    {Quantity::hour, "hour", "hour", "hour|hr|hourofday", false, Kind::temperature},
+    {Quantity::minute, "minute", "minute", "minute|min", false, Kind::temperature},
+};
+static_assert(std::size(kQuantities) == kQuantityCount);
+
+const QuantityInfo& info(Quantity q) { return kQuantities[idx(q)]; }
+
+// Unit spellings found in weather headers. The conversion itself comes from the units layer
+// (through `canonical`), so this table only knows how headers spell things.
+struct HeaderUnit {
+  Kind kind;
+  std::string_view help;       // spelling shown in "allowed: ..."
+  std::string_view label;      // display label
+  std::string_view canonical;  // spelling units::parse knows; empty: a plain 0–1 fraction
+  std::string_view spellings;  // normalised (lower case; no spaces, '_' or '.'), '|'-separated
+  bool candidate;              // tried when a column without unit is inferred from its values
+};
+
+constexpr HeaderUnit kHeaderUnits[] = {
+    {Kind::temperature, "C", "°C", "c",
+     "c|°c|ºc|℃|degc|degreec|degreesc|celsius|degcelsius|degreecelsius|degreescelsius", true},
+    {Kind::temperature, "F", "°F", "f",
+     "f|°f|ºf|℉|degf|degreef|degreesf|fahrenheit|degfahrenheit|degreefahrenheit|"
+     "degreesfahrenheit",
+     true},
+    {Kind::temperature, "K", "K", "k", "k|kelvin|degk", true},
+    {Kind::pressure, "Pa", "Pa", "pa", "pa|pascal|pascals", true},
+    {Kind::pressure, "hPa", "hPa", "hpa", "hpa", true},
+    {Kind::pressure, "mbar", "mbar", "mbar", "mbar|mb|millibar|millibars", false},
+    {Kind::pressure, "kPa", "kPa", "kpa", "kpa", true},
+    {Kind::pressure, "bar", "bar", "bar", "bar", false},
+    {Kind::pressure, "inHg", "inHg", "inhg", "inhg|inchhg|inchesofmercury|inchesmercury", true},
+    {Kind::pressure, "psia", "psia", "psia", "psia|psi", true},
+    {Kind::pressure, "atm", "atm", "atm", "atm", false},
+    {Kind::fraction, "%", "%", "%", "%|percent|pct|%rh", true},
+    {Kind::fraction, "fraction", "fraction (0–1)", "", "fraction|frac|0-1|0to1", true},
+    {Kind::humidity_ratio, "kg/kg", "kg/kg", "kg/kg", "kg/kg|kgkg", true},
+    {Kind::humidity_ratio, "g/kg", "g/kg", "g/kg", "g/kg|gkg", true},
+    {Kind::humidity_ratio, "gr/lb", "gr/lb", "gr/lb", "gr/lb|grains/lb|grainsperlb", true},
+    {Kind::humidity_ratio, "lb/lb", "lb/lb", "lb/lb", "lb/lb", false},
+};
+
+// Values a weather file can plausibly hold (SI), used to check rows and to infer a unit the
+// header does not give. A unit is inferred only when exactly one candidate puts every value
+// in [lo, hi] and the file's largest value in [max_lo, max_hi].
+struct Plausible {
+  Kind kind;
+  double lo, hi, max_lo, max_hi;
+  std::string_view why;
+};
+constexpr Plausible kPlausible[] = {
+    // Air temperatures recorded on Earth span about −89 °C to 57 °C (from memory); the
+    // warmest hour of any year at a site with an economizer is above 5 °C.
+    {Kind::temperature, -90.0, 60.0, 5.0, 60.0, "the range of air temperatures on Earth"},
+    // Eq. 3 gives about 107 kPa at −500 m and 50 kPa at 5500 m; weather adds a few kPa.
+    {Kind::pressure, 48.0, 112.0, 48.0, 112.0,
+     "station pressures from below sea level to about 5500 m"},
+    {Kind::fraction, 0.0, 1.01, 0.3, 1.01, "relative humidity"},
+    // A dew point of 35 °C, about the highest recorded (from memory), is 0.037 kg/kg at sea
+    // level; a year whose most humid hour is below 0.002 kg/kg (−13 °C dew point) is not one.
+    {Kind::humidity_ratio, 0.0, 0.05, 0.002, 0.05, "outdoor humidity ratios"},
+};
+
+const Plausible& plausible(Kind k) {
+  for (const Plausible& p : kPlausible)
+    if (p.kind == k) return p;
+  throw std::logic_error("weather: kind missing from the plausibility table");
+}
+
+// Values that weather files use to mark a missing reading (common practice: TMY and
+// station exports use -9999 and 9999, NOAA ISD 99999, some loggers -9900).
+constexpr double kSentinels[] = {-9999.0, -9900.0, 9999.0, 99999.0};
+constexpr std::string_view kMissingWords[] = {"na", "n/a", "nan", "null"};
+
+// Relative humidity a little over 100 % is sensor or rounding error, read as saturation.
+constexpr double kRelativeHumidityTolerance = 0.01;
+// A dew point or wet-bulb above the dry-bulb by up to 1 °F (the rounding of a file in whole
+// °F) is read as saturation.
+constexpr double kTemperatureToleranceK = 1.0 / 1.8;
+// A humidity ratio up to 1 % above saturation is read as saturation (same tolerance as RH).
+constexpr double kHumidityRatioTolerance = 0.01;
+
+constexpr std::string_view kMonthNames[] = {"Jan", "Feb", "Mar", "Apr", "May", "Jun",
+                                            "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"};
+constexpr int kDaysInMonth[] = {31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31};
+
+// --- Small text helpers --------------------------------------------------------------------
+
+bool is_space(char c) { return c == ' ' || c == '\t' || c == '\r' || c == '\n'; }
+
+std::string_view trim(std::string_view s) {
+  while (!s.empty() && is_space(s.front())) s.remove_prefix(1);
+  while (!s.empty() && is_space(s.back())) s.remove_suffix(1);
+  return s;
+}
+
+char lower(char c) { return static_cast<char>(std::tolower(static_cast<unsigned char>(c))); }
+
+bool iequals(std::string_view a, std::string_view b) {
+  if (a.size() != b.size()) return false;
+  for (std::size_t i = 0; i < a.size(); ++i)
+    if (lower(a[i]) != lower(b[i])) return false;
+  return true;
+}
+
+bool icontains(std::string_view s, std::string_view part) {
+  if (part.size() > s.size()) return false;
+  for (std::size_t i = 0; i + part.size() <= s.size(); ++i)
+    if (iequals(s.substr(i, part.size()), part)) return true;
+  return false;
+}
+
+// Lower-case ASCII letters and digits only: "Dry-bulb" and "dry_bulb" are the same name.
+std::string name_key(std::string_view s) {
+  std::string out;
+  for (char c : s)
+    if (std::isalnum(static_cast<unsigned char>(c))) out.push_back(lower(c));
+  return out;
+}
+
+std::string unit_key(std::string_view s) {
+  std::string out;
+  for (char c : s)
+    if (c != ' ' && c != '_' && c != '.' && c != '\t') out.push_back(lower(c));
+  return out;
+}
+
+// True when `word` is one of the '|'-separated entries of `list`.
+bool in_list(std::string_view list, std::string_view word) {
+  while (!list.empty()) {
+    const std::size_t bar = list.find('|');
+    if (list.substr(0, bar) == word) return true;
+    if (bar == std::string_view::npos) break;
+    list.remove_prefix(bar + 1);
+  }
+  return false;
+}
+
+std::string quoted_list(const std::vector<std::string>& items) {
+  std::string out;
+  for (const std::string& s : items) {
+    if (!out.empty()) out += ", ";
+    out += '\'';
+    out += s;
+    out += '\'';
+  }
+  return out;
+}
+
+// Splits `line` on `delim` into views of it, without copying: the reader's hot path. Quotes
+// around a field are removed; a doubled quote inside stays doubled, which can only matter in
+// a text field the reader never interprets. A field with text after its closing quote is
+// kept whole, quotes included, so that it fails to read instead of losing the text.
+void split_views(std::string_view line, char delim, std::vector<std::string_view>& out) {
+  out.clear();
+  const std::size_t n = line.size();
+  std::size_t i = 0;
+  for (;;) {
+    while (i < n && line[i] != delim && (line[i] == ' ' || line[i] == '\t')) ++i;
+    const std::size_t start = i;
+    if (i < n && line[i] == '"') {
+      std::size_t j = i + 1;
+      while (j < n && !(line[j] == '"' && !(j + 1 < n && line[j + 1] == '"')))
+        j += line[j] == '"' ? 2 : 1;
+      std::string_view field = line.substr(i + 1, std::min(j, n) - (i + 1));
+      i = j < n ? j + 1 : n;
+      while (i < n && line[i] != delim && (line[i] == ' ' || line[i] == '\t')) ++i;
+      if (i < n && line[i] != delim) {
+        while (i < n && line[i] != delim) ++i;
+        field = trim(line.substr(start, i - start));
+      }
+      out.push_back(field);
+    } else {
+      while (i < n && line[i] != delim) ++i;
+      out.push_back(trim(line.substr(start, i - start)));
+    }
+    if (i >= n) break;
+    ++i;
+  }
+}
+
+// --- Units -------------------------------------------------------------------------------
+
+struct Conversion {
+  double scale = 1.0, offset = 0.0;  // si = value·scale + offset
+  std::string_view label;
+};
+
+const HeaderUnit* find_unit(Kind kind, std::string_view text) {
+  const std::string key = unit_key(text);
+  if (key.empty()) return nullptr;
+  for (const HeaderUnit& u : kHeaderUnits)
+    if (u.kind == kind && in_list(u.spellings, key)) return &u;
+  return nullptr;
+}
+
+bool is_any_unit(std::string_view text) {
+  const std::string key = unit_key(text);
+  for (const HeaderUnit& u : kHeaderUnits)
+    if (in_list(u.spellings, key)) return true;
+  return false;
+}
+
+Conversion conversion(const HeaderUnit& u) {
+  if (u.canonical.empty()) return {1.0, 0.0, u.label};
+  const auto at = [&](const char* number) {
+    return units::parse(u.kind, std::string(number) + std::string(u.canonical),
+                        units::System::si, "weather unit table");
+  };
+  const double zero = at("0");
+  return {at("1") - zero, zero, u.label};
+}
+
+std::string allowed_units(Kind kind) {
+  std::string out;
+  for (const HeaderUnit& u : kHeaderUnits) {
+    if (u.kind != kind) continue;
+    if (!out.empty()) out += ", ";
+    out += u.help;
+  }
+  return out;
+}
+
+std::string_view first_unit(Kind kind) {
+  for (const HeaderUnit& u : kHeaderUnits)
+    if (u.kind == kind) return u.help;
+  return "";
+}
+
+std::string_view kind_word(Kind kind) {
+  switch (kind) {
+    case Kind::temperature: return "temperature";
+    case Kind::pressure: return "pressure";
+    case Kind::fraction: return "relative-humidity";
+    default: return "humidity-ratio";
+  }
+}
+
+// --- Header fields -------------------------------------------------------------------------
+
+struct HeaderField {
+  std::string text;       // as written
+  std::string name;       // name_key of the name part
+  std::string unit_text;  // text in brackets or a trailing unit word; may be empty
+};
+
+HeaderField parse_header_field(std::string text) {
+  HeaderField f;
+  const std::string_view t = trim(text);
+  const std::size_t open = t.find_first_of("([");
+  if (open != std::string_view::npos) {
+    const char close = t[open] == '(' ? ')' : ']';
+    const std::size_t end = t.find(close, open + 1);
+    f.name = name_key(t.substr(0, open));
+    f.unit_text = std::string(trim(t.substr(open + 1, end == std::string_view::npos
+                                                          ? std::string_view::npos
+                                                          : end - open - 1)));
+  } else {
+    // "Temp C", "pressure_hPa": a last word that is a unit is the unit.
+    const std::size_t cut = t.find_last_of(" _");
+    if (cut != std::string_view::npos && cut + 1 < t.size() && is_any_unit(t.substr(cut + 1))) {
+      f.name = name_key(t.substr(0, cut));
+      f.unit_text = std::string(t.substr(cut + 1));
+    } else {
+      f.name = name_key(t);
+    }
+  }
+  f.text = std::string(t);
+  return f;
+}
+
+// Columns of one candidate header line, per quantity.
+struct HeaderMatch {
+  std::array<int, kQuantityCount> column;
+  std::array<int, kQuantityCount> extra{};
+  std::array<bool, kQuantityCount> by_override{};
+  HeaderMatch() { column.fill(-1); }
+  int operator[](Quantity q) const { return column[idx(q)]; }
+  int count() const {
+    return static_cast<int>(std::count_if(column.begin(), column.end(), [](int c) { return c >= 0; }));
+  }
+};
+
+HeaderMatch match_header(const std::vector<HeaderField>& fields, const Mapping& mapping) {
+  HeaderMatch m;
+  std::vector<bool> claimed(fields.size(), false);
+  for (const QuantityInfo& q : kQuantities) {
+    const auto& name = mapping.column(q.quantity).column;
+    if (!name) continue;
+    for (std::size_t i = 0; i < fields.size(); ++i)
+      if (iequals(fields[i].text, trim(*name))) {
+        m.column[idx(q.quantity)] = static_cast<int>(i);
+        m.by_override[idx(q.quantity)] = true;
+        claimed[i] = true;
+        break;
+      }
+  }
+  for (const QuantityInfo& q : kQuantities) {
+    if (mapping.column(q.quantity).column) continue;
+    for (std::size_t i = 0; i < fields.size(); ++i) {
+      if (claimed[i] || fields[i].name.empty() || !in_list(q.aliases, fields[i].name)) continue;
+      if (m.column[idx(q.quantity)] < 0)
+        m.column[idx(q.quantity)] = static_cast<int>(i);
+      else
+        ++m.extra[idx(q.quantity)];
+    }
+  }
+  return m;
+}
+
+// Where a row's date and clock time come from.
+struct TimeColumns {
+  int stamp = -1;                                  // date and clock in one field
+  int date = -1, year = -1, month = -1, day = -1;  // the date
+  int clock = -1, hour = -1, minute = -1;          // the clock time
+  bool ok() const {
+    return stamp >= 0 || ((date >= 0 || (month >= 0 && day >= 0)) && (clock >= 0 || hour >= 0));
+  }
+};
+
+TimeColumns resolve_time(const HeaderMatch& m) {
+  TimeColumns t;
+  if (m[Quantity::timestamp] >= 0) {
+    t.stamp = m[Quantity::timestamp];
+    return t;
+  }
+  const bool date_fields = m[Quantity::month] >= 0 && m[Quantity::day] >= 0;
+  const bool has_date = m[Quantity::date] >= 0 || date_fields;
+  const bool has_clock = m[Quantity::time] >= 0 || m[Quantity::hour] >= 0;
+  if (has_date && has_clock) {
+    if (m[Quantity::date] >= 0) {
+      t.date = m[Quantity::date];
+    } else {
+      t.year = m[Quantity::year];
+      t.month = m[Quantity::month];
+      t.day = m[Quantity::day];
+    }
+    if (m[Quantity::time] >= 0) {
+      t.clock = m[Quantity::time];
+    } else {
+      t.hour = m[Quantity::hour];
+      t.minute = m[Quantity::minute];
+    }
+  } else if (m[Quantity::date] >= 0) {
+    t.stamp = m[Quantity::date];  // a date column with no clock column holds both
+  } else if (m[Quantity::time] >= 0 && !has_date) {
+    t.stamp = m[Quantity::time];  // "time(UTC)": a time column with no date column holds both
+  }
+  return t;
+}
+
+// --- Time stamps ---------------------------------------------------------------------------
+
+struct Stamp {
+  int year = 0;  // 0: not given
+  int month = 0, day = 0;
+  int minute = 0;  // minute of the day, 0–1440 (1440 is 24:00)
+};
+
+struct Zone {
+  Clock clock = Clock::local;
+  int offset_min = 0;
+};
+
+enum class DateForm { iso, ymd_slash, mdy, dmy, dmy_dot, compact };
+enum class ClockForm { hh_mm, hh_mm_ss, hhmm };
+
+constexpr std::string_view date_form_text(DateForm f) {
+  switch (f) {
+    case DateForm::iso: return "YYYY-MM-DD";
+    case DateForm::ymd_slash: return "YYYY/MM/DD";
+    case DateForm::mdy: return "MM/DD/YYYY";
+    case DateForm::dmy: return "DD/MM/YYYY";
+    case DateForm::dmy_dot: return "DD.MM.YYYY";
+    case DateForm::compact: return "YYYYMMDD";
+  }
+  return "";
+}
+constexpr std::string_view clock_form_text(ClockForm f) {
+  switch (f) {
+    case ClockForm::hh_mm: return "HH:MM";
+    case ClockForm::hh_mm_ss: return "HH:MM:SS";
+    case ClockForm::hhmm: return "HHMM";
+  }
+  return "";
+}
+
+bool is_leap(int year) { return (year % 4 == 0 && year % 100 != 0) || year % 400 == 0; }
+
+int days_in_month(int month, int year) {
+  // With no year given, Feb 29 is allowed: it can only come from a leap year.
+  if (month == 2 && (year == 0 || is_leap(year))) return 29;
+  return kDaysInMonth[month - 1];
+}
+
+bool valid_date(const Stamp& s) {
+  return s.month >= 1 && s.month <= 12 && s.day >= 1 && s.day <= days_in_month(s.month, s.year);
+}
+
+// Whole non-negative number of 1 to `max_digits` digits.
+bool read_uint(std::string_view s, int& v, std::size_t max_digits = 4) {
+  if (s.empty() || s.size() > max_digits) return false;
+  v = 0;
+  for (char c : s) {
+    if (c < '0' || c > '9') return false;
+    v = v * 10 + (c - '0');
+  }
+  return true;
+}
+
+bool all_digits(std::string_view s) {
+  return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) { return c >= '0' && c <= '9'; });
+}
+
+bool parse_date(std::string_view s, bool day_first, Stamp& st, DateForm& form) {
+  if (s.size() == 8 && all_digits(s)) {
+    form = DateForm::compact;
+    if (!read_uint(s.substr(0, 4), st.year) || !read_uint(s.substr(4, 2), st.month) ||
+        !read_uint(s.substr(6, 2), st.day))
+      return false;
+    return valid_date(st);
+  }
+  const std::size_t a = s.find_first_of("-/.");
+  if (a == std::string_view::npos) return false;
+  const char sep = s[a];
+  const std::size_t b = s.find(sep, a + 1);
+  if (b == std::string_view::npos) return false;
+  const std::string_view p0 = s.substr(0, a), p1 = s.substr(a + 1, b - a - 1),
+                         p2 = s.substr(b + 1);
+  int v0 = 0, v1 = 0, v2 = 0;
+  if (!read_uint(p0, v0) || !read_uint(p1, v1, 2) || !read_uint(p2, v2)) return false;
+  if (p0.size() == 4 && sep != '.') {
+    if (p2.size() > 2) return false;
+    form = sep == '-' ? DateForm::iso : DateForm::ymd_slash;
+    st.year = v0, st.month = v1, st.day = v2;
+  } else if (p2.size() == 4 && p0.size() <= 2) {
+    if (sep == '-') return false;
+    form = sep == '.' ? DateForm::dmy_dot : (day_first ? DateForm::dmy : DateForm::mdy);
+    const bool dmy = form != DateForm::mdy;
+    st.year = v2, st.month = dmy ? v1 : v0, st.day = dmy ? v0 : v1;
+  } else {
+    return false;
+  }
+  return valid_date(st);
+}
+
+// HH:MM, HH:MM:SS (seconds 00) or HHMM; 24:00 allowed (end of the day).
+bool parse_clock(std::string_view s, int& minute_of_day, ClockForm& form) {
+  int h = 0, m = 0, sec = 0;
+  if (s.size() == 4 && all_digits(s)) {
+    form = ClockForm::hhmm;
+    read_uint(s.substr(0, 2), h);
+    read_uint(s.substr(2, 2), m);
+  } else {
+    const std::size_t a = s.find(':');
+    if (a == std::string_view::npos || !read_uint(s.substr(0, a), h, 2)) return false;
+    std::string_view rest = s.substr(a + 1);
+    const std::size_t b = rest.find(':');
+    if (b == std::string_view::npos) {
+      form = ClockForm::hh_mm;
+      if (rest.size() != 2 || !read_uint(rest, m)) return false;
+    } else {
+      form = ClockForm::hh_mm_ss;
+      std::string_view secs = rest.substr(b + 1);
+      // Fractional seconds, if any, must be zero too ("13:00:00.000").
+      const std::size_t dot = secs.find('.');
+      if (dot != std::string_view::npos) {
+        const std::string_view frac = secs.substr(dot + 1);
+        if (!all_digits(frac) || frac.find_first_not_of('0') != std::string_view::npos)
+          return false;
+        secs = secs.substr(0, dot);
+      }
+      if (b != 2 || !read_uint(rest.substr(0, 2), m) || secs.size() != 2 ||
+          !read_uint(secs, sec))
+        return false;
+    }
+  }
+  if (h > 24 || m > 59 || sec != 0 || (h == 24 && m != 0)) return false;
+  minute_of_day = h * 60 + m;
+  return true;
+}
+
+struct StampForm {
+  DateForm date;
+  ClockForm clock;
+  char separator;
+};
+
+// ISO 8601 ("2019-07-01T13:00", "2019-07-01 13:00:00Z", "...+01:00"), PVGIS
+// ("20190701:1300") or a date and a time separated by a space.
+bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone, StampForm& form) {
+  std::string_view date, rest;
+  if (s.size() >= 13 && s[8] == ':' && all_digits(s.substr(0, 8))) {
+    date = s.substr(0, 8);
+    rest = s.substr(9);
+    form.separator = ':';
+  } else {
+    const std::size_t sep = s.find_first_of("T ");
+    if (sep == std::string_view::npos) return false;
+    date = s.substr(0, sep);
+    rest = trim(s.substr(sep + 1));
+    form.separator = s[sep];
+  }
+  zone = {};
+  if (!rest.empty() && (rest.back() == 'Z' || rest.back() == 'z')) {
+    zone.clock = Clock::utc;
+    rest.remove_suffix(1);
+  } else if (const std::size_t sign = rest.find_first_of("+-"); sign != std::string_view::npos) {
+    std::string_view off = rest.substr(sign + 1);
+    int oh = 0, om = 0;
+    if (off.size() == 5 && off[2] == ':') {
+      if (!read_uint(off.substr(0, 2), oh) || !read_uint(off.substr(3, 2), om)) return false;
+    } else if (off.size() == 4) {
+      if (!read_uint(off.substr(0, 2), oh) || !read_uint(off.substr(2, 2), om)) return false;
+    } else if (!read_uint(off, oh, 2)) {
+      return false;
+    }
+    if (oh > 14 || om > 59) return false;
+    zone.clock = Clock::offset;
+    zone.offset_min = (rest[sign] == '-' ? -1 : 1) * (oh * 60 + om);
+    rest = rest.substr(0, sign);
+  }
+  return parse_date(date, day_first, st, form.date) &&
+         parse_clock(trim(rest), st.minute, form.clock);
+}
+
+std::string stamp_text(const Stamp& s) {
+  std::string out = s.year > 0 ? fmt::format("{:04}-{:02}-{:02}", s.year, s.month, s.day)
+                               : fmt::format("{:02}-{:02}", s.month, s.day);
+  out += fmt::format(" {:02}:{:02}", s.minute / 60, s.minute % 60);
+  return out;
+}
+
+// --- Cells ---------------------------------------------------------------------------------
+
+enum class Cell : unsigned char { ok, sentinel, empty, marker, not_number };
+
+bool is_sentinel(double v) {
+  for (double s : kSentinels)
+    if (v == s) return true;
+  return false;
+}
+
+Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_comma) {
+  if (s.empty()) return Cell::empty;
+  std::string_view n = s.front() == '+' ? s.substr(1) : s;
+  char buf[64];
+  if (decimal_comma && n.find(',') != std::string_view::npos && n.size() < sizeof buf &&
+      n.find('.') == std::string_view::npos) {
+    std::memcpy(buf, n.data(), n.size());
+    std::replace(buf, buf + n.size(), ',', '.');
+    n = std::string_view(buf, n.size());
+    used_comma = true;
+  }
+  const auto r = std::from_chars(n.data(), n.data() + n.size(), v);
+  if (r.ec == std::errc() && r.ptr == n.data() + n.size()) {
+    if (std::isnan(v)) return Cell::marker;
+    if (std::isinf(v)) return Cell::not_number;
+    return is_sentinel(v) ? Cell::sentinel : Cell::ok;
+  }
+  for (std::string_view w : kMissingWords)
+    if (iequals(s, w)) return Cell::marker;
+  return Cell::not_number;
+}
+
+// --- The reader ----------------------------------------------------------------------------
+
+// The three values each row contributes.
+enum Slot : std::size_t { kDry = 0, kHumidity = 1, kPressure = 2 };
+
+struct Row {
+  int line;
+  Stamp stamp;                               // as written
+  std::array<double, 3> raw{};
+  std::array<Cell, 3> cell{};
+  std::array<std::string_view, 3> text{};
+  int month = 0, day = 0, hour = 0;  // of the interval's start, after the convention
+  double position = 0.0;             // time steps from the first row, gaps included
+};
+
+struct LineSpan {
+  std::string_view text;
+  int number;
+};
+
+std::vector<LineSpan> split_lines(std::string_view text) {
+  std::vector<LineSpan> lines;
+  lines.reserve(text.size() / 32 + 16);
+  if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);  // UTF-8 byte-order mark
+  int number = 1;
+  while (!text.empty()) {
+    const std::size_t nl = text.find('\n');
+    std::string_view line = text.substr(0, nl);
+    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
+    lines.push_back({line, number++});
+    if (nl == std::string_view::npos) break;
+    text.remove_prefix(nl + 1);
+  }
+  return lines;
+}
+
+bool blank(std::string_view s) { return trim(s).empty(); }
+
+class Reader {
+ public:
+  Reader(std::string_view text, std::string_view source, const Mapping& mapping, double site)
+      : lines_(split_lines(text)), mapping_(mapping), site_pressure_(site) {
+    out_.info.source = std::string(source);
+    out_.info.policy = mapping.on_bad_row;
+    out_.info.site_pressure_kpa = site;
+  }
+
+  WeatherSeries run() {
+    find_header();
+    choose_columns();
+    read_rows();
+    check_after_table();
+    analyse_time();
+    resolve_units();
+    convert();
+    return std::move(out_);
+  }
+
+ private:
+  std::vector<LineSpan> lines_;
+  const Mapping& mapping_;
+  double site_pressure_;
+  WeatherSeries out_;
+
+  std::size_t header_index_ = 0;
+  std::vector<HeaderField> header_;
+  HeaderMatch match_;
+  TimeColumns time_;
+  char delim_ = ',';
+  bool day_first_ = false;
+  std::array<int, 3> slot_column_{-1, -1, -1};
+  std::array<Quantity, 3> slot_quantity_{Quantity::dry_bulb, Quantity::dew_point,
+                                         Quantity::pressure};
+  std::array<Conversion, 3> conv_{};
+  std::vector<Row> rows_;
+  std::size_t table_end_ = 0;  // index of the first line after the table
+
+  const std::string& src() const { return out_.info.source; }
+
+  [[noreturn]] void fail_at(int line, const std::string& what) const {
+    throw InputError(fmt::format("{}:{}: {}", src(), line, what));
+  }
+
+  std::vector<std::string> header_texts() const {
+    std::vector<std::string> t;
+    for (const HeaderField& f : header_) t.push_back(f.text);
+    return t;
+  }
+
+  // The first line naming a dry-bulb column and the time columns is the header.
+  void find_header() {
+    int best_line = 0, best_count = 0;
+    std::string best_lacks;
+    for (std::size_t i = 0; i < lines_.size(); ++i) {
+      const std::string_view line = lines_[i].text;
+      if (blank(line)) continue;
+      const char delim = csv::guess_delimiter(line);
+      std::vector<std::string> raw = csv::split_line(line, delim);
+      if (raw.size() < 2) continue;
+      std::vector<HeaderField> fields;
+      fields.reserve(raw.size());
+      for (std::string& r : raw) fields.push_back(parse_header_field(std::move(r)));
+      HeaderMatch m = match_header(fields, mapping_);
+      const TimeColumns t = resolve_time(m);
+      const bool dry = m[Quantity::dry_bulb] >= 0;
+      if (dry && t.ok()) {
+        header_index_ = i;
+        header_ = std::move(fields);
+        match_ = m;
+        time_ = t;
+        delim_ = delim;
+        return;
+      }
+      if (m.count() > best_count) {
+        best_count = m.count();
+        best_line = lines_[i].number;
+        best_lacks = !dry && !t.ok() ? "a dry-bulb column and time columns"
+                     : !dry         ? "a dry-bulb column"
+                                    : "time columns";
+      }
+    }
+    std::string closest =
+        best_line > 0 ? fmt::format("; the closest, line {}, has no {}", best_line, best_lacks)
+                      : std::string();
+    throw InputError(fmt::format(
+        "{}: no header line found: no line names both a dry-bulb column (e.g. 'Dry-bulb', "
+        "'Temperature', 'Temp', 'T2m') and time columns (a timestamp, a date and a time, or "
+        "month, day and hour){}; name the columns in [weather], e.g. dry_bulb = {{ column = "
+        "\"...\" }}",
+        src(), closest));
+  }
+
+  ColumnUse use_of(Quantity q) const {
+    ColumnUse u;
+    u.quantity = q;
+    u.index = match_[q];
+    u.header = header_[static_cast<std::size_t>(u.index)].text;
+    u.found = match_.by_override[idx(q)] ? ColumnFound::override : ColumnFound::header_name;
+    u.other_matches = match_.extra[idx(q)];
+    if (u.found == ColumnFound::override) u.unit_origin = mapping_.column(q).origin;
+    return u;
+  }
+
+  void choose_columns() {
+    WeatherInfo& inf = out_.info;
+    const int header_line = lines_[header_index_].number;
+    inf.header_line = header_line;
+    inf.delimiter = delim_;
+
+    // Every override must name a column of this header.
+    for (const QuantityInfo& q : kQuantities) {
+      const ColumnOverride& o = mapping_.column(q.quantity);
+      if (o.column && match_[q.quantity] < 0)
+        throw InputError(fmt::format(
+            "{}: column '{}' given for {} is not in the header of {} (line {}: {})",
+            o.origin.empty() ? std::string("the weather mapping") : o.origin, *o.column,
+            q.label, src(), header_line, quoted_list(header_texts())));
+    }
+
+    // Time columns, in the order they are read.
+    const std::pair<int, Quantity> time_parts[] = {
+        {time_.stamp, match_[Quantity::timestamp] == time_.stamp ? Quantity::timestamp
+                      : match_[Quantity::date] == time_.stamp     ? Quantity::date
+                                                                  : Quantity::time},
+        {time_.date, Quantity::date},   {time_.year, Quantity::year},
+        {time_.month, Quantity::month}, {time_.day, Quantity::day},
+        {time_.clock, Quantity::time},  {time_.hour, Quantity::hour},
+        {time_.minute, Quantity::minute}};
+    std::vector<std::string> names;
+    for (const auto& [column, q] : time_parts) {
+      if (column < 0) continue;
+      ColumnUse u = use_of(q);
+      names.push_back("'" + u.header + "'");
+      const std::string& h = u.header;
+      if (icontains(h, "utc") || icontains(h, "gmt")) inf.time.clock = Clock::utc;
+      if (icontains(h, "dd/mm")) day_first_ = true;
+      inf.columns.push_back(std::move(u));
+    }
+    for (std::size_t i = 0; i < names.size(); ++i)
+      inf.time.columns += (i ? " + " : "") + names[i];
+
+    slot_column_[kDry] = match_[Quantity::dry_bulb];
+    inf.columns.push_back(use_of(Quantity::dry_bulb));
+
+    // Humidity: the preferred source, else the first present in the default order.
+    constexpr std::pair<HumiditySource, Quantity> kHumidityOrder[] = {
+        {HumiditySource::dew_point, Quantity::dew_point},
+        {HumiditySource::humidity_ratio, Quantity::humidity_ratio},
+        {HumiditySource::wet_bulb, Quantity::wet_bulb},
+        {HumiditySource::relative_humidity, Quantity::relative_humidity}};
+    std::optional<std::pair<HumiditySource, Quantity>> chosen;
+    if (mapping_.humidity) {
+      for (const auto& h : kHumidityOrder)
+        if (h.first == *mapping_.humidity) chosen = h;
+      if (match_[chosen->second] < 0)
+        throw InputError(fmt::format(
+            "{}:{}: humidity = \"{}\" was asked for, but the header has no {} column "
+            "(columns: {}); name it in [weather], e.g. {} = {{ column = \"...\" }}",
+            src(), header_line, humidity_source_name(chosen->first), info(chosen->second).label,
+            quoted_list(header_texts()), info(chosen->second).key));
+      inf.humidity_overridden = true;
+    } else {
+      for (const auto& h : kHumidityOrder)
+        if (!chosen && match_[h.second] >= 0) chosen = h;
+      if (!chosen)
+        throw InputError(fmt::format(
+            "{}:{}: no humidity column: the header names none of dew point, humidity ratio, "
+            "wet-bulb, relative humidity (columns: {}); name one in [weather], e.g. "
+            "dew_point = {{ column = \"...\" }}",
+            src(), header_line, quoted_list(header_texts())));
+    }
+    inf.humidity = chosen->first;
+    slot_quantity_[kHumidity] = chosen->second;
+    slot_column_[kHumidity] = match_[chosen->second];
+    inf.columns.push_back(use_of(chosen->second));
+    for (const auto& h : kHumidityOrder)
+      if (h.second != chosen->second && match_[h.second] >= 0)
+        inf.unused_humidity.push_back(use_of(h.second));
+
+    if (match_[Quantity::pressure] >= 0) {
+      inf.pressure_from_file = true;
+      slot_column_[kPressure] = match_[Quantity::pressure];
+      inf.columns.push_back(use_of(Quantity::pressure));
+    } else {
+      try {
+        psychro::check_pressure(site_pressure_, "site pressure");
+      } catch (const RangeError& e) {
+        throw InputError(fmt::format("{}: the file has no pressure column and the {}", src(),
+                                     e.what()));
+      }
+    }
+  }
+
+  // Reads the stamp of a data row; on failure returns the field at fault and what is allowed.
+  struct StampFault {
+    int column = -1;
+    std::string_view allowed;
+  };
+
+  StampFault read_stamp(const std::vector<std::string_view>& f, Stamp& st, Zone& zone,
+                        StampForm& form) const {
+    const auto field = [&](int c) {
+      return c < static_cast<int>(f.size()) ? f[static_cast<std::size_t>(c)] : std::string_view();
+    };
+    if (time_.stamp >= 0) {
+      if (!parse_stamp(field(time_.stamp), day_first_, st, zone, form))
+        return {time_.stamp,
+                "a date and time such as 2019-07-01T13:00, 2019-07-01 13:00:00Z, "
+                "07/01/2019 13:00 or 20190701:1300"};
+      return {};
+    }
+    zone = {};
+    if (time_.date >= 0) {
+      if (!parse_date(field(time_.date), day_first_, st, form.date))
+        return {time_.date,
+                "a date as YYYY-MM-DD, YYYY/MM/DD, MM/DD/YYYY (DD/MM/YYYY when the header "
+                "says so), DD.MM.YYYY or YYYYMMDD"};
+    } else {
+      st.year = 0;
+      if (time_.year >= 0 && !read_uint(field(time_.year), st.year))
+        return {time_.year, "a year such as 2019"};
+      if (!read_uint(field(time_.month), st.month, 2) || st.month < 1 || st.month > 12)
+        return {time_.month, "a month 1 to 12"};
+      if (!read_uint(field(time_.day), st.day, 2) || !valid_date(st))
+        return {time_.day, "a day of the month, 1 to its length"};
+    }
+    if (time_.clock >= 0) {
+      if (!parse_clock(field(time_.clock), st.minute, form.clock))
+        return {time_.clock, "a time of day as HH:MM, HH:MM:SS or HHMM, 00:00 to 24:00"};
+    } else {
+      int h = 0, m = 0;
+      if (!read_uint(field(time_.hour), h, 2) || h > 24) return {time_.hour, "an hour 0 to 24"};
+      if (time_.minute >= 0 && (!read_uint(field(time_.minute), m, 2) || m > 59 ||
+                                (h == 24 && m != 0)))
+        return {time_.minute, "a minute 0 to 59 (0 with hour 24)"};
+      st.minute = h * 60 + m;
+    }
+    return {};
+  }
+
+  std::string format_text(const StampForm& f, const Zone& z) const {
+    std::string zone = z.clock == Clock::utc ? "Z" : z.clock == Clock::offset ? "±hh:mm" : "";
+    if (time_.stamp >= 0)
+      return fmt::format("{}{}{}{}", date_form_text(f.date),
+                         f.separator == ' ' ? std::string(" ") : std::string(1, f.separator),
+                         clock_form_text(f.clock), zone);
+    const std::string date =
+        time_.date >= 0 ? std::string(date_form_text(f.date))
+                        : (time_.year >= 0 ? "year, month, day columns" : "month, day columns");
+    const std::string clock =
+        time_.clock >= 0 ? std::string(clock_form_text(f.clock))
+                         : (time_.minute >= 0 ? "hour, minute columns" : "hour column");
+    return date + " + " + clock;
+  }
+
+  void read_rows() {
+    const std::size_t width = header_.size();
+    std::vector<std::string_view> f;
+    f.reserve(width + 4);
+    rows_.reserve(lines_.size() - header_index_);
+    const bool comma_decimal = delim_ != ',';
+    bool used_comma = false;
+    std::size_t i = header_index_ + 1;
+    table_end_ = lines_.size();
+    for (; i < lines_.size(); ++i) {
+      const LineSpan& l = lines_[i];
+      if (blank(l.text)) {
+        if (rows_.empty()) continue;
+        break;
+      }
+      split_views(l.text, delim_, f);
+      if (f.size() == 1 && width > 1) break;  // a legend or note line ends the table
+      std::size_t used = f.size();
+      while (used > width && f[used - 1].empty()) --used;
+      if (used != width)
+        fail_at(l.number, fmt::format("the row has {} fields but the header (line {}) has {}; "
+                                      "allowed: one value per header column",
+                                      used, out_.info.header_line, width));
+      Row r;
+      r.line = l.number;
+      Zone zone;
+      StampForm form{};
+      const StampFault fault = read_stamp(f, r.stamp, zone, form);
+      if (fault.column >= 0)
+        fail_at(l.number, fmt::format("column '{}' value '{}' is not readable as a time; "
+                                      "allowed: {}",
+                                      header_[static_cast<std::size_t>(fault.column)].text,
+                                      f[static_cast<std::size_t>(fault.column)], fault.allowed));
+      if (rows_.empty()) {
+        out_.info.time.format = format_text(form, zone);
+        if (zone.clock != Clock::local) {
+          out_.info.time.clock = zone.clock;
+          out_.info.time.utc_offset_min = zone.offset_min;
+        }
+        out_.info.first_data_line = l.number;
+      }
+      for (std::size_t s = 0; s < 3; ++s) {
+        if (slot_column_[s] < 0) continue;
+        const std::string_view cell = f[static_cast<std::size_t>(slot_column_[s])];
+        r.text[s] = cell;
+        r.cell[s] = read_cell(cell, comma_decimal, r.raw[s], used_comma);
+      }
+      out_.info.last_data_line = l.number;
+      rows_.push_back(r);
+    }
+    table_end_ = i;
+    out_.info.decimal_comma = used_comma;
+    out_.info.rows_read = static_cast<int>(rows_.size());
+    if (rows_.empty())
+      fail_at(out_.info.header_line, "the header is followed by no data rows");
+  }
+
+  // Nothing after the end of the table may look like data: it would be lost silently.
+  void check_after_table() const {
+    std::vector<std::string_view> f;
+    for (std::size_t i = table_end_; i < lines_.size(); ++i) {
+      if (blank(lines_[i].text)) continue;
+      split_views(lines_[i].text, delim_, f);
+      if (f.size() < header_.size()) continue;
+      Stamp st;
+      Zone z;
+      StampForm form{};
+      if (read_stamp(f, st, z, form).column < 0)
+        fail_at(lines_[i].number,
+                fmt::format("this line looks like a data row, but the table ended at line {}; "
+                            "allowed: data rows together, with no blank or note line between "
+                            "them",
+                            lines_[table_end_].number));
+    }
+  }
+
+  void analyse_time() {
+    TimeInfo& ti = out_.info.time;
+    struct Block {
+      int year, month, first_line, last_line;
+    };
+    std::vector<Block> blocks;
+    int step = 0;
+    const auto key = [](const Stamp& s) { return (s.day - 1) * 1440 + s.minute; };
+    // Pass 1: order within each month, and the time step.
+    for (std::size_t i = 0; i < rows_.size(); ++i) {
+      const Row& r = rows_[i];
+      if (i == 0 || r.stamp.year != rows_[i - 1].stamp.year ||
+          r.stamp.month != rows_[i - 1].stamp.month) {
+        for (const Block& b : blocks)
+          if (b.year == r.stamp.year && b.month == r.stamp.month)
+            fail_at(r.line, fmt::format("{}{} starts again here; it already ran from line {} "
+                                        "to line {}; allowed: the rows of one month together",
+                                        kMonthNames[r.stamp.month - 1],
+                                        r.stamp.year > 0 ? fmt::format(" {}", r.stamp.year) : "",
+                                        b.first_line, b.last_line));
+        blocks.push_back({r.stamp.year, r.stamp.month, r.line, r.line});
+        continue;
+      }
+      blocks.back().last_line = r.line;
+      const Row& p = rows_[i - 1];
+      const int diff = key(r.stamp) - key(p.stamp);
+      if (diff <= 0)
+        fail_at(r.line,
+                fmt::format("time {} {} the row at line {}{}; allowed: rows within a month in "
+                            "time order, each time once",
+                            stamp_text(r.stamp), diff == 0 ? "repeats" : "comes before", p.line,
+                            diff == 0 ? std::string() : " (" + stamp_text(p.stamp) + ")"));
+      if (step == 0 || diff < step) step = diff;
+    }
+    if (step == 0) step = 60;
+    if (60 % step != 0)
+      throw InputError(fmt::format("{}: time step {} min; allowed: 60 min or a whole fraction "
+                                   "of an hour (1, 2, 3, 4, 5, 6, 10, 12, 15, 20 or 30 min)",
+                                   src(), step));
+    ti.step_min = step;
+    ti.weight_h = step / 60.0;
+
+    // Pass 2: gaps, positions in time, and the convention of the stamps.
+    bool has_24 = false;
+    int first_24 = 0, first_00 = 0;
+    for (const Row& r : rows_) {
+      if (r.stamp.minute == 1440 && !has_24) has_24 = true, first_24 = r.line;
+      if (r.stamp.minute == 0 && first_00 == 0) first_00 = r.line;
+    }
+    switch (mapping_.time_convention) {
+      case TimeConvention::automatic:
+        ti.hour_ending = has_24;
+        if (has_24 && first_00 > 0)
+          fail_at(first_00, fmt::format("time 00:00 in a file that also marks midnight as "
+                                        "24:00 (line {}); allowed: one of the two",
+                                        first_24));
+        break;
+      case TimeConvention::hour_beginning:
+        if (has_24)
+          fail_at(first_24, "time 24:00 cannot start an interval (time_convention = "
+                            "\"hour-beginning\"); allowed: 00:00 to 23:59");
+        ti.convention_overridden = true;
+        break;
+      case TimeConvention::hour_ending:
+        ti.hour_ending = true;
+        ti.convention_overridden = true;
+        break;
+    }
+    double position = 0.0;
+    for (std::size_t i = 0; i < rows_.size(); ++i) {
+      Row& r = rows_[i];
+      if (i > 0) {
+        const Row& p = rows_[i - 1];
+        if (r.stamp.year == p.stamp.year && r.stamp.month == p.stamp.month) {
+          const int diff = key(r.stamp) - key(p.stamp);
+          if (diff % step != 0)
+            fail_at(r.line, fmt::format("time {} is {} min after the row at line {}; allowed: "
+                                        "whole multiples of the {}-min time step",
+                                        stamp_text(r.stamp), diff, p.line, step));
+          ti.missing_steps += diff / step - 1;
+          position += diff / step;
+        } else {
+          position += 1.0;
+        }
+      }
+      r.position = position;
+      // The interval's start: hour-ending stamps move back one step, maybe to the day before.
+      Stamp s = r.stamp;
+      s.minute -= ti.hour_ending ? step : 0;
+      if (s.minute < 0) {
+        s.minute += 1440;
+        if (--s.day < 1) {
+          if (--s.month < 1) s.month = 12, s.year = s.year > 0 ? s.year - 1 : 0;
+          s.day = days_in_month(s.month, s.year);
+        }
+      }
+      r.month = s.month;
+      r.day = s.day;
+      r.hour = s.minute / 60;
+      if (r.month == 2 && r.day == 29) ++ti.leap_day_rows;
+    }
+
+    // Typical years: each month from a different year, so time jumps at month boundaries.
+    for (std::size_t b = 0; b < blocks.size(); ++b) {
+      if (blocks[b].year > 0) ti.month_year[static_cast<std::size_t>(blocks[b].month - 1)] = blocks[b].year;
+      if (b == 0 || blocks[b].year == 0) continue;
+      const Block& p = blocks[b - 1];
+      const Block& c = blocks[b];
+      const bool calendar_step = (c.year == p.year && c.month == p.month + 1) ||
+                                 (c.year == p.year + 1 && p.month == 12 && c.month == 1);
+      if (!calendar_step) ti.typical_year = true;
+      if (c.year * 12 + c.month < p.year * 12 + p.month) ti.months_out_of_order = true;
+    }
+  }
+
+  // --- Units ---
+
+  struct Legend {
+    std::string_view name, unit;
+    int line;
+  };
+
+  // "SP: Surface (air) pressure (Pa)": legend lines outside the table name a column and give
+  // its unit in the last brackets.
+  std::vector<Legend> legends() const {
+    std::vector<Legend> out;
+    const auto scan = [&](std::size_t from, std::size_t to) {
+      for (std::size_t i = from; i < to && i < lines_.size(); ++i) {
+        const std::string_view l = lines_[i].text;
+        const std::size_t colon = l.find(':');
+        const std::size_t open = l.rfind('('), close = l.rfind(')');
+        if (colon == std::string_view::npos || open == std::string_view::npos ||
+            close == std::string_view::npos || close < open || open < colon)
+          continue;
+        out.push_back({trim(l.substr(0, colon)), trim(l.substr(open + 1, close - open - 1)),
+                       lines_[i].number});
+      }
+    };
+    scan(0, header_index_);
+    scan(table_end_, lines_.size());
+    return out;
+  }
+
+  [[noreturn]] void unknown_unit(const ColumnUse& u, std::string_view unit,
+                                 std::string_view from) const {
+    const Kind kind = info(u.quantity).kind;
+    throw InputError(fmt::format(
+        "{}: column '{}' has unit '{}' ({}), which is not a {} unit (allowed: {}); set it in "
+        "[weather], e.g. {} = {{ unit = \"{}\" }}",
+        src(), u.header, unit, from, kind_word(kind), allowed_units(kind), info(u.quantity).key,
+        first_unit(kind)));
+  }
+
+  Conversion infer_unit(ColumnUse& u, std::size_t slot) const {
+    const Kind kind = info(u.quantity).kind;
+    const Plausible& pl = plausible(kind);
+    double lo = HUGE_VAL, hi = -HUGE_VAL;
+    for (const Row& r : rows_)
+      if (r.cell[slot] == Cell::ok) lo = std::min(lo, r.raw[slot]), hi = std::max(hi, r.raw[slot]);
+    std::vector<const HeaderUnit*> fits;
+    if (lo <= hi) {
+      for (const HeaderUnit& h : kHeaderUnits) {
+        if (h.kind != kind || !h.candidate) continue;
+        const Conversion c = conversion(h);
+        const double a = lo * c.scale + c.offset, b = hi * c.scale + c.offset;
+        if (a >= pl.lo && b <= pl.hi && b >= pl.max_lo && b <= pl.max_hi) fits.push_back(&h);
+      }
+    }
+    if (fits.size() == 1) {
+      u.unit_found = UnitFound::inferred;
+      u.unit_origin = fmt::format("no unit in the header; values {:g} to {:g} are plausible "
+                                  "only in {}",
+                                  lo, hi, fits[0]->label);
+      return conversion(*fits[0]);
+    }
+    std::string which;
+    for (const HeaderUnit* h : fits) which += (which.empty() ? "" : ", ") + std::string(h->help);
+    const std::string values = lo <= hi ? fmt::format("its values ({:g} to {:g}) ", lo, hi)
+                                        : std::string("it has no readable values and ");
+    throw InputError(fmt::format(
+        "{}:{}: column '{}' has no unit in the header and {}{}; allowed: a unit in the header "
+        "or in [weather], e.g. {} = {{ unit = \"{}\" }} (units: {})",
+        src(), out_.info.header_line, u.header, values,
+        fits.empty() ? fmt::format("fit no {} unit ({})", kind_word(kind), pl.why)
+                     : fmt::format("fit {} alike", which),
+        info(u.quantity).key, fits.empty() ? first_unit(kind) : fits[0]->help,
+        allowed_units(kind)));
+  }
+
+  void resolve_units() {
+    std::vector<Legend> legend;
+    bool legend_read = false;
+    std::optional<Conversion> dry_conversion;
+    for (ColumnUse& u : out_.info.columns) {
+      if (!info(u.quantity).has_unit) continue;
+      const Kind kind = info(u.quantity).kind;
+      const std::size_t slot = u.quantity == Quantity::dry_bulb   ? kDry
+                               : u.quantity == Quantity::pressure ? kPressure
+                                                                  : kHumidity;
+      const HeaderField& h = header_[static_cast<std::size_t>(u.index)];
+      const ColumnOverride& o = mapping_.column(u.quantity);
+      Conversion c;
+      if (o.unit) {
+        const HeaderUnit* hu = find_unit(kind, *o.unit);
+        if (!hu)
+          throw InputError(fmt::format("{}: unit '{}' given for {} is not a {} unit (allowed: {})",
+                                       o.origin.empty() ? "the weather mapping" : o.origin,
+                                       *o.unit, info(u.quantity).label, kind_word(kind),
+                                       allowed_units(kind)));
+        c = conversion(*hu);
+        u.unit_found = UnitFound::override;
+        u.unit_origin = o.origin;
+      } else if (!h.unit_text.empty()) {
+        const HeaderUnit* hu = find_unit(kind, h.unit_text);
+        if (!hu) unknown_unit(u, h.unit_text, fmt::format("header line {}", out_.info.header_line));
+        c = conversion(*hu);
+        u.unit_found = UnitFound::header;
+      } else {
+        if (!legend_read) legend = legends(), legend_read = true;
+        const Legend* found = nullptr;
+        for (const Legend& l : legend)
+          if (iequals(l.name, h.text)) found = &l;
+        if (found) {
+          const HeaderUnit* hu = find_unit(kind, found->unit);
+          if (!hu) unknown_unit(u, found->unit, fmt::format("legend line {}", found->line));
+          c = conversion(*hu);
+          u.unit_found = UnitFound::legend;
+          u.unit_origin = fmt::format("line {}", found->line);
+        } else if (kind == Kind::temperature && u.quantity != Quantity::dry_bulb &&
+                   dry_conversion) {
+          c = *dry_conversion;
+          u.unit_found = UnitFound::same_as_dry_bulb;
+        } else {
+          c = infer_unit(u, slot);
+        }
+      }
+      u.unit = std::string(c.label);
+      conv_[slot] = c;
+      if (u.quantity == Quantity::dry_bulb) dry_conversion = c;
+    }
+  }
+
+  // --- Rows to states ---
+
+  struct State {
+    double t, w, p;
+  };
+
+  // The value of a slot in SI, or the reason it is not usable.
+  bool value(const Row& r, std::size_t slot, double& v, std::string& why) const {
+    const Conversion& c = conv_[slot];
+    switch (r.cell[slot]) {
+      case Cell::ok:
+        v = r.raw[slot] * c.scale + c.offset;
+        return true;
+      case Cell::sentinel: {
+        // 99999 Pa is a real pressure: a marker value that is plausible is a value.
+        v = r.raw[slot] * c.scale + c.offset;
+        const Plausible& pl = plausible(info(slot_quantity_[slot]).kind);
+        if (v >= pl.lo && v <= pl.hi) return true;
+        why = "is a missing-value marker; allowed: a measured value";
+        return false;
+      }
+      case Cell::empty:
+        why = "is empty (missing); allowed: a measured value";
+        return false;
+      case Cell::marker:
+        why = "is a missing-value marker; allowed: a measured value";
+        return false;
+      case Cell::not_number:
+        why = fmt::format("is not a number; allowed: a number in {}", c.label);
+        return false;
+    }
+    return false;
+  }
+
+  // Resolves a row to a state; on a bad row returns the slot at fault and the reason.
+  bool resolve(const Row& r, State& s, bool& capped, std::size_t& bad_slot, std::string& why) const {
+    capped = false;
+    bad_slot = kDry;
+    if (!value(r, kDry, s.t, why)) return false;
+    const Plausible& tp = plausible(Kind::temperature);
+    if (s.t < tp.lo || s.t > tp.hi) {
+      why = fmt::format("is {:.4g} °C; allowed {:g} °C to {:g} °C ({})", s.t, tp.lo, tp.hi, tp.why);
+      return false;
+    }
+    if (slot_column_[kPressure] >= 0) {
+      bad_slot = kPressure;
+      if (!value(r, kPressure, s.p, why)) return false;
+      const Plausible& pp = plausible(Kind::pressure);
+      if (s.p < pp.lo || s.p > pp.hi) {
+        why = fmt::format("is {:.5g} kPa; allowed {:g} kPa to {:g} kPa ({})", s.p, pp.lo, pp.hi,
+                          pp.why);
+        return false;
+      }
+    } else {
+      s.p = site_pressure_;
+    }
+    bad_slot = kHumidity;
+    double h = 0.0;
+    if (!value(r, kHumidity, h, why)) return false;
+    try {
+      switch (out_.info.humidity) {
+        case HumiditySource::dew_point:
+        case HumiditySource::wet_bulb: {
+          const bool dew = out_.info.humidity == HumiditySource::dew_point;
+          const char* what = dew ? "dew point" : "wet-bulb";
+          if (h > s.t + kTemperatureToleranceK) {
+            why = fmt::format("is a {} of {:.4g} °C, above the dry-bulb {:.4g} °C; allowed: up "
+                              "to the dry-bulb (up to {:.2f} K above is read as saturation)",
+                              what, h, s.t, kTemperatureToleranceK);
+            return false;
+          }
+          if (h > s.t) h = s.t, capped = true;
+          s.w = dew ? psychro::humidity_ratio_from_dew_point(h, s.p)
+                    : psychro::humidity_ratio_from_wet_bulb(s.t, h, s.p);
+          break;
+        }
+        case HumiditySource::relative_humidity: {
+          if (h < 0.0 || h > 1.0 + kRelativeHumidityTolerance) {
+            why = fmt::format("is {:.4g} % relative humidity; allowed 0 % to 100 % (up to {:g} % "
+                              "is read as 100 %)",
+                              h * 100.0, 100.0 * (1.0 + kRelativeHumidityTolerance));
+            return false;
+          }
+          if (h > 1.0) h = 1.0, capped = true;
+          s.w = psychro::humidity_ratio_from_relative_humidity(s.t, h, s.p);
+          break;
+        }
+        case HumiditySource::humidity_ratio: {
+          const double ws = psychro::saturation_humidity_ratio(s.t, s.p);
+          if (h < 0.0 || h > ws * (1.0 + kHumidityRatioTolerance)) {
+            why = fmt::format("is {:.5g} kg/kg; allowed 0 to saturation, {:.5g} kg/kg at {:.4g} "
+                              "°C and {:.5g} kPa (up to 1 % above is read as saturation)",
+                              h, ws, s.t, s.p);
+            return false;
+          }
+          if (h > ws) h = ws, capped = true;
+          s.w = h;
+          break;
+        }
+      }
+    } catch (const RangeError& e) {
+      why = fmt::format("is not a possible state: {}", e.what());
+      return false;
+    }
+    return true;
+  }
+
+  void convert() {
+    WeatherInfo& inf = out_.info;
+    const std::size_t n = rows_.size();
+    std::vector<State> states(n);
+    std::vector<unsigned char> bad(n, 0);
+    int good = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+      const Row& r = rows_[i];
+      bool capped = false;
+      std::size_t slot = 0;
+      std::string why;
+      if (resolve(r, states[i], capped, slot, why)) {
+        ++good;
+        if (capped) ++inf.months[static_cast<std::size_t>(r.month - 1)].capped;
+        continue;
+      }
+      if (mapping_.on_bad_row == BadRowPolicy::error)
+        fail_at(r.line, fmt::format("column '{}' value '{}' {} (or set on_bad_row to skip or "
+                                    "fill)",
+                                    header_[static_cast<std::size_t>(slot_column_[slot])].text,
+                                    r.text[slot], why));
+      bad[i] = 1;
+      MonthCounts& mc = inf.months[static_cast<std::size_t>(r.month - 1)];
+      ++(mapping_.on_bad_row == BadRowPolicy::skip ? mc.skipped : mc.filled);
+    }
+    if (good == 0)
+      throw InputError(fmt::format("{}: none of the {} data rows (lines {} to {}) has usable "
+                                   "values; allowed: at least one",
+                                   src(), n, inf.first_data_line, inf.last_data_line));
+    if (mapping_.on_bad_row == BadRowPolicy::fill) fill(states, bad);
+
+    // Feb 29 shifts the later days of the year only when the file has it.
+    const bool leap = inf.time.leap_day_rows > 0;
+    int cumulative[13] = {0};
+    for (int m = 1; m <= 12; ++m)
+      cumulative[m] = cumulative[m - 1] + kDaysInMonth[m - 1] + (m == 2 && leap ? 1 : 0);
+    out_.hours.reserve(n);
+    for (std::size_t i = 0; i < n; ++i) {
+      if (bad[i] && mapping_.on_bad_row == BadRowPolicy::skip) continue;
+      const Row& r = rows_[i];
+      WeatherHour h;
+      h.month = r.month;
+      h.day = r.day;
+      h.hour = r.hour;
+      h.day_of_year = cumulative[r.month - 1] + r.day - 1;
+      h.weight_h = inf.time.weight_h;
+      h.dry_bulb_c = states[i].t;
+      h.humidity_ratio = states[i].w;
+      h.pressure_kpa = states[i].p;
+      ++inf.months[static_cast<std::size_t>(r.month - 1)].rows;
+      out_.hours.push_back(h);
+    }
+  }
+
+  // Linear interpolation in time between the nearest good rows; a run at either end of the
+  // file takes the nearest good row.
+  void fill(std::vector<State>& states, const std::vector<unsigned char>& bad) {
+    const std::size_t n = rows_.size();
+    std::size_t i = 0;
+    while (i < n) {
+      if (!bad[i]) {
+        ++i;
+        continue;
+      }
+      std::size_t j = i;
+      while (j < n && bad[j]) ++j;
+      out_.info.fill_longest_run = std::max(out_.info.fill_longest_run, static_cast<int>(j - i));
+      const bool has_before = i > 0, has_after = j < n;
+      for (std::size_t k = i; k < j; ++k) {
+        if (!has_before) {
+          states[k] = states[j];
+        } else if (!has_after) {
+          states[k] = states[i - 1];
+        } else {
+          const State& a = states[i - 1];
+          const State& b = states[j];
+          const double f = (rows_[k].position - rows_[i - 1].position) /
+                           (rows_[j].position - rows_[i - 1].position);
+          State s{a.t + f * (b.t - a.t), a.w + f * (b.w - a.w), a.p + f * (b.p - a.p)};
+          // Saturation is convex in t, so the chord between two states can pass above it.
+          s.w = std::min(s.w, psychro::saturation_humidity_ratio(s.t, s.p));
+          states[k] = s;
+        }
+      }
+      i = j;
+    }
+  }
+};
+
+template <typename Enum, std::size_t N>
+Enum parse_name(const std::array<std::pair<Enum, std::string_view>, N>& names,
+                std::string_view text, std::string_view origin, std::string_view what) {
+  for (const auto& [value, name] : names)
+    if (iequals(trim(text), name)) return value;
+  std::string allowed;
+  for (const auto& [value, name] : names) allowed += (allowed.empty() ? "" : ", ") + std::string(name);
+  throw InputError(fmt::format("{}: '{}' is not {} (allowed: {})", origin, text, what, allowed));
+}
+
+template <typename Enum, std::size_t N>
+std::string_view name_of(const std::array<std::pair<Enum, std::string_view>, N>& names, Enum e) {
+  for (const auto& [value, name] : names)
+    if (value == e) return name;
+  return "";
+}
+
+constexpr std::array<std::pair<HumiditySource, std::string_view>, 4> kHumidityNames{{
+    {HumiditySource::dew_point, "dew-point"},
+    {HumiditySource::humidity_ratio, "humidity-ratio"},
+    {HumiditySource::wet_bulb, "wet-bulb"},
+    {HumiditySource::relative_humidity, "relative-humidity"},
+}};
+constexpr std::array<std::pair<BadRowPolicy, std::string_view>, 3> kPolicyNames{{
+    {BadRowPolicy::error, "error"},
+    {BadRowPolicy::skip, "skip"},
+    {BadRowPolicy::fill, "fill"},
+}};
+constexpr std::array<std::pair<TimeConvention, std::string_view>, 3> kConventionNames{{
+    {TimeConvention::automatic, "automatic"},
+    {TimeConvention::hour_beginning, "hour-beginning"},
+    {TimeConvention::hour_ending, "hour-ending"},
+}};
+
+}  // namespace
+
+// --- Names ---------------------------------------------------------------------------------
+
+std::string_view quantity_key(Quantity q) { return info(q).key; }
+std::string_view quantity_label(Quantity q) { return info(q).label; }
+std::optional<Quantity> quantity_from_key(std::string_view key) {
+  for (const QuantityInfo& q : kQuantities)
+    if (q.key == key) return q.quantity;
+  return std::nullopt;
+}
+
+std::string_view humidity_source_name(HumiditySource h) { return name_of(kHumidityNames, h); }
+HumiditySource parse_humidity_source(std::string_view text, std::string_view origin) {
+  return parse_name(kHumidityNames, text, origin, "a humidity source");
+}
+std::string_view bad_row_policy_name(BadRowPolicy p) { return name_of(kPolicyNames, p); }
+BadRowPolicy parse_bad_row_policy(std::string_view text, std::string_view origin) {
+  return parse_name(kPolicyNames, text, origin, "a bad-row policy");
+}
+std::string_view time_convention_name(TimeConvention c) { return name_of(kConventionNames, c); }
+TimeConvention parse_time_convention(std::string_view text, std::string_view origin) {
+  return parse_name(kConventionNames, text, origin, "a time convention");
+}
+
+// --- Reading -------------------------------------------------------------------------------
+
+int WeatherInfo::skipped() const {
+  int n = 0;
+  for (const MonthCounts& m : months) n += m.skipped;
+  return n;
+}
+int WeatherInfo::filled() const {
+  int n = 0;
+  for (const MonthCounts& m : months) n += m.filled;
+  return n;
+}
+int WeatherInfo::capped() const {
+  int n = 0;
+  for (const MonthCounts& m : months) n += m.capped;
+  return n;
+}
+const ColumnUse* WeatherInfo::find(Quantity q) const {
+  for (const ColumnUse& c : columns)
+    if (c.quantity == q) return &c;
+  return nullptr;
+}
+
+WeatherSeries read_text(std::string_view text, std::string_view source_name,
+                        const Mapping& mapping, double site_pressure_kpa) {
+  return Reader(text, source_name, mapping, site_pressure_kpa).run();
+}
+
+WeatherSeries read_file(const std::filesystem::path& path, const Mapping& mapping,
+                        double site_pressure_kpa) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in)
+    throw InputError(fmt::format("{}: cannot open the weather file ({})", path.string(),
+                                 std::strerror(errno)));
+  std::ostringstream buffer;
+  buffer << in.rdbuf();
+  if (in.bad()) throw InputError(fmt::format("{}: cannot read the weather file", path.string()));
+  return read_text(buffer.str(), path.filename().string(), mapping, site_pressure_kpa);
+}
+
+// --- The [weather] table -------------------------------------------------------------------
+
+Mapping read_mapping(const toml::table& table, std::string_view file_name) {
+  Mapping m;
+  const auto where = [&](const toml::source_region& r) {
+    return fmt::format("{}:{}", file_name, r.begin.line);
+  };
+  const auto text_of = [&](const toml::node& node, const std::string& origin,
+                           std::string_view key) -> std::string {
+    if (const auto* s = node.as_string()) return s->get();
+    throw InputError(fmt::format("{}: [weather] {} must be a string in quotes", origin, key));
+  };
+  for (auto&& [key, node] : table) {
+    const std::string origin = where(key.source());
+    const std::string_view k = key.str();
+    if (k == "file") {
+      m.file = text_of(node, origin, k);
+    } else if (k == "humidity") {
+      m.humidity = parse_humidity_source(text_of(node, origin, k), origin + ": [weather] humidity");
+    } else if (k == "on_bad_row") {
+      m.on_bad_row = parse_bad_row_policy(text_of(node, origin, k), origin + ": [weather] on_bad_row");
+    } else if (k == "time_convention") {
+      m.time_convention =
+          parse_time_convention(text_of(node, origin, k), origin + ": [weather] time_convention");
+    } else if (const std::optional<Quantity> q = quantity_from_key(k)) {
+      const toml::table* sub = node.as_table();
+      const bool has_unit = info(*q).has_unit;
+      if (!sub)
+        throw InputError(fmt::format("{}: [weather] {} must be a table, e.g. {} = {{ column = "
+                                     "\"...\"{} }}",
+                                     origin, k, k, has_unit ? ", unit = \"...\"" : ""));
+      ColumnOverride& o = m.column(*q);
+      o.origin = origin;
+      for (auto&& [sub_key, sub_node] : *sub) {
+        const std::string sub_origin = where(sub_key.source());
+        const std::string name = fmt::format("{}.{}", k, sub_key.str());
+        if (sub_key.str() == "column") {
+          o.column = text_of(sub_node, sub_origin, name);
+        } else if (sub_key.str() == "unit" && has_unit) {
+          const std::string unit = text_of(sub_node, sub_origin, name);
+          if (!find_unit(info(*q).kind, unit))
+            throw InputError(fmt::format("{}: [weather] {} '{}' is not a {} unit (allowed: {})",
+                                         sub_origin, name, unit, kind_word(info(*q).kind),
+                                         allowed_units(info(*q).kind)));
+          o.unit = unit;
+        } else {
+          throw InputError(fmt::format("{}: [weather] key '{}' is not known (allowed: {})",
+                                       sub_origin, name,
+                                       has_unit ? "column, unit" : "column; a time column has no unit"));
+        }
+      }
+    } else {
+      std::string allowed = "file, humidity, on_bad_row, time_convention";
+      for (const QuantityInfo& qi : kQuantities) allowed += ", " + std::string(qi.key);
+      throw InputError(
+          fmt::format("{}: [weather] key '{}' is not known (allowed: {})", origin, k, allowed));
+    }
+  }
+  return m;
+}
+
+// --- Description ---------------------------------------------------------------------------
+
+namespace {
+
+std::string found_text(const ColumnUse& c) {
+  const std::string column = c.found == ColumnFound::override
+                                 ? fmt::format("column set by {}", c.unit_origin.empty() ? "the mapping" : c.unit_origin)
+                                 : std::string("found by header");
+  std::string unit;
+  switch (c.unit_found) {
+    case UnitFound::none: break;
+    case UnitFound::header: unit = c.found == ColumnFound::header_name ? "" : "unit from header"; break;
+    case UnitFound::legend: unit = "unit from legend " + c.unit_origin; break;
+    case UnitFound::override: unit = "unit set by " + (c.unit_origin.empty() ? std::string("the mapping") : c.unit_origin); break;
+    case UnitFound::inferred: unit = "unit inferred: " + c.unit_origin; break;
+    case UnitFound::same_as_dry_bulb: unit = "no unit in the header: same as the dry-bulb"; break;
+  }
+  std::string out = column;
+  if (!unit.empty()) out += "; " + unit;
+  if (c.other_matches > 0)
+    out += fmt::format("; first of {} matching columns", c.other_matches + 1);
+  return out;
+}
+
+std::string month_list(const std::array<MonthCounts, 12>& months, int MonthCounts::*field) {
+  std::string out;
+  for (std::size_t m = 0; m < 12; ++m)
+    if (months[m].*field > 0)
+      out += fmt::format("{}{} {}", out.empty() ? "" : ", ", kMonthNames[m], months[m].*field);
+  return out;
+}
+
+}  // namespace
+
+std::vector<std::string> describe(const WeatherInfo& inf) {
+  std::vector<std::string> lines;
+  int rows = 0;
+  for (const MonthCounts& m : inf.months) rows += m.rows;
+  const std::string delim = inf.delimiter == '\t' ? "tab" : fmt::format("'{}'", inf.delimiter);
+  lines.push_back(fmt::format("weather: {}, {} rows (lines {} to {}; header on line {}; "
+                              "delimiter {}{})",
+                              inf.source, rows, inf.first_data_line, inf.last_data_line,
+                              inf.header_line, delim,
+                              inf.decimal_comma ? ", decimal comma" : ""));
+
+  const TimeInfo& t = inf.time;
+  std::string clock = t.clock == Clock::utc      ? "UTC clock (hours of the day are UTC)"
+                      : t.clock == Clock::offset ? fmt::format("clock at UTC{:+03}:{:02}, used as written",
+                                                               t.utc_offset_min / 60,
+                                                               std::abs(t.utc_offset_min) % 60)
+                                                 : "local clock";
+  std::string convention =
+      t.hour_ending ? (t.convention_overridden
+                           ? "hour-ending stamps (set by the mapping) read as hour-beginning hours"
+                           : "hour-ending stamps (24:00 present) read as hour-beginning hours 0-23")
+                    : "hour-beginning stamps";
+  lines.push_back(fmt::format("time: {}, {}, {}; {}", t.columns, t.format, clock, convention));
+
+  for (const ColumnUse& c : inf.columns) {
+    switch (c.quantity) {
+      case Quantity::dry_bulb:
+        lines.push_back(fmt::format("dry-bulb: column '{}', {} ({})", c.header, c.unit, found_text(c)));
+        break;
+      case Quantity::pressure:
+        lines.push_back(fmt::format("pressure: column '{}', {} ({})", c.header, c.unit, found_text(c)));
+        break;
+      case Quantity::dew_point:
+      case Quantity::humidity_ratio:
+      case Quantity::wet_bulb:
+      case Quantity::relative_humidity: {
+        std::string line = fmt::format("humidity: {}, column '{}', {} ({}{})", quantity_label(c.quantity),
+                                       c.header, c.unit, found_text(c),
+                                       inf.humidity_overridden ? "; chosen by the mapping" : "");
+        if (!inf.unused_humidity.empty()) {
+          line += "; not used:";
+          for (std::size_t i = 0; i < inf.unused_humidity.size(); ++i)
+            line += fmt::format("{} '{}'", i ? "," : "", inf.unused_humidity[i].header);
+        }
+        lines.push_back(line);
+        break;
+      }
+      default: break;
+    }
+  }
+  if (!inf.pressure_from_file)
+    lines.push_back(fmt::format("pressure: {:.2f} kPa at every hour from the site (the file has "
+                                "no pressure column)",
+                                inf.site_pressure_kpa));
+
+  lines.push_back(fmt::format("time step: {} min, each row weighs {:g} h{}", t.step_min,
+                              t.weight_h,
+                              t.missing_steps > 0
+                                  ? fmt::format("; {} steps missing between rows", t.missing_steps)
+                                  : std::string()));
+  if (t.typical_year) {
+    std::string years;
+    for (std::size_t m = 0; m < 12; ++m)
+      if (t.month_year[m] > 0)
+        years += fmt::format("{}{} {}", years.empty() ? "" : ", ", kMonthNames[m], t.month_year[m]);
+    lines.push_back(fmt::format("typical year: months from different years ({}){}; accepted",
+                                years,
+                                t.months_out_of_order ? ", not in time order at month boundaries"
+                                                      : ""));
+  }
+  if (t.leap_day_rows > 0)
+    lines.push_back(fmt::format("leap day: Feb 29 present ({} rows), kept", t.leap_day_rows));
+
+  const std::string skipped = month_list(inf.months, &MonthCounts::skipped);
+  const std::string filled = month_list(inf.months, &MonthCounts::filled);
+  const std::string capped = month_list(inf.months, &MonthCounts::capped);
+  if (skipped.empty() && filled.empty())
+    lines.push_back(fmt::format("bad rows: none (on_bad_row = {})", bad_row_policy_name(inf.policy)));
+  if (!skipped.empty())
+    lines.push_back(fmt::format("bad rows skipped: {} ({})", inf.skipped(), skipped));
+  if (!filled.empty())
+    lines.push_back(fmt::format("bad rows filled by interpolation: {} ({}; longest run {})",
+                                inf.filled(), filled, inf.fill_longest_run));
+  if (!capped.empty())
+    lines.push_back(fmt::format("read as saturation (within tolerance above it): {} ({})",
+                                inf.capped(), capped));
+  return lines;
+}
+
+}  // namespace limitline::weather
