@@ -99,6 +99,13 @@ CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& lim, const AirSta
                    : mixed;
   const double t_cl = lim.leaving_temp_c;
   const double w_ce = c.entering.humidity_ratio;
+  // Entering air on the leaving temperature (the economizer's x*, up to rounding of the mixed
+  // dry-bulb) needs neither coil. Without the tolerance, humid air above the leaving cap would
+  // flip between zero and a latent load on the last bit of t_m.
+  if (std::fabs(c.entering.dry_bulb_c - t_cl) <= kTargetToleranceK) {
+    c.leaving = c.entering;
+    return c;
+  }
   if (c.entering.dry_bulb_c > t_cl) {
     const double w_cl = std::min(w_ce, lim.leaving_humidity_ratio_cap);
     c.leaving = air_state(t_cl, w_cl);
