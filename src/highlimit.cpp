@@ -16,6 +16,16 @@ constexpr std::pair<Quantity, std::string_view> kQuantityNames[] = {
     {Quantity::dew_point, "dew-point"},
     {Quantity::humidity_ratio, "humidity-ratio"},
 };
+struct QuantityKinds {
+  Quantity quantity;
+  units::Kind value, difference;
+};
+constexpr QuantityKinds kQuantityKinds[] = {
+    {Quantity::dry_bulb, units::Kind::temperature, units::Kind::temperature_difference},
+    {Quantity::enthalpy, units::Kind::enthalpy, units::Kind::enthalpy_difference},
+    {Quantity::dew_point, units::Kind::temperature, units::Kind::temperature_difference},
+    {Quantity::humidity_ratio, units::Kind::humidity_ratio, units::Kind::humidity_ratio},
+};
 constexpr std::pair<Reference, std::string_view> kReferenceNames[] = {
     {Reference::fixed, "fixed"},
     {Reference::return_air, "return"},
@@ -84,10 +94,12 @@ double deadband_for(const PresetSettings& s, Quantity q) {
 }
 
 // One condition's new status given its previous tripped flag: trips above the limit, clears
-// below limit − deadband, holds in between.
+// below limit − deadband, holds in between. Without a deadband there is nothing to hold: a
+// value back at the limit is clear whatever came before (weather on a 0.1 °C grid sits exactly
+// on a 24 °C limit often enough for this to matter).
 inline ConditionStatus evaluate(double outdoor, double limit, double deadband, bool was_tripped) {
   if (outdoor > limit) return ConditionStatus::tripped;
-  if (was_tripped && outdoor >= limit - deadband) return ConditionStatus::held;
+  if (was_tripped && deadband > 0.0 && outdoor >= limit - deadband) return ConditionStatus::held;
   return ConditionStatus::clear;
 }
 
@@ -103,6 +115,18 @@ std::optional<Quantity> quantity_from_name(std::string_view name) {
   for (auto [k, n] : kQuantityNames)
     if (n == name) return k;
   return std::nullopt;
+}
+
+units::Kind quantity_kind(Quantity q) {
+  for (const auto& k : kQuantityKinds)
+    if (k.quantity == q) return k.value;
+  return units::Kind::temperature;
+}
+
+units::Kind quantity_difference_kind(Quantity q) {
+  for (const auto& k : kQuantityKinds)
+    if (k.quantity == q) return k.difference;
+  return units::Kind::temperature_difference;
 }
 
 std::string_view reference_name(Reference r) {

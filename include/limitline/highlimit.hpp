@@ -6,6 +6,8 @@
 // return-air value plus an offset; with a deadband, once tripped it clears only when the
 // outdoor value falls below limit − deadband, so the state carries from one evaluation to the
 // next. A value exactly at the limit does not trip (codes word the limits as "off when above").
+#include <limitline/units.hpp>
+
 #include <array>
 #include <cstdint>
 #include <optional>
@@ -25,6 +27,11 @@ std::string_view quantity_name(Quantity q);  // "dry-bulb", "enthalpy", "dew-poi
 std::optional<Quantity> quantity_from_name(std::string_view name);
 std::string_view reference_name(Reference r);  // "fixed", "return"
 std::optional<Reference> reference_from_name(std::string_view name);
+
+// The kind of a quantity's values (limits, readings) and of its differences (offsets,
+// deadbands, excess over a limit), for parsing and display at the edges.
+units::Kind quantity_kind(Quantity q);
+units::Kind quantity_difference_kind(Quantity q);
 
 // The values a decision is made on (sensor readings, or the true state), SI, indexed by
 // Quantity: °C, kJ/kg, °C, kg/kg.
