@@ -1,5 +1,6 @@
 #include <limitline/year_job.hpp>
 
+#include <limitline/codes.hpp>
 #include <limitline/embedded.hpp>
 #include <limitline/error.hpp>
 #include <limitline/report/strategy.hpp>
@@ -224,6 +225,35 @@ std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string&
   worker();
   for (auto& t : pool) t.join();
   return sites;
+}
+
+}  // namespace limitline
+
+namespace limitline {
+
+void add_compliance(report::YearContext& c, const YearInputs& in, const CodeSelection& code) {
+  const Site& site = in.unit.site;
+  const std::string edition = code.edition ? *code.edition : site.energy_code;
+  const std::string zone = code.zone ? *code.zone : site.climate_zone;
+  if (edition.empty() && zone.empty()) return;
+  if (edition.empty())
+    throw InputError(fmt::format("{}: climate_zone is given but no energy_code (set [site] "
+                                 "energy_code or --edition)",
+                                 in.unit.path));
+  if (zone.empty())
+    throw InputError(fmt::format("{}: energy_code is given but no climate_zone (set [site] "
+                                 "climate_zone or --zone)",
+                                 in.unit.path));
+  std::vector<std::filesystem::path> extra(code.extra_tables.begin(), code.extra_tables.end());
+  const codes::CodeTables tables = codes::CodeTables::load_installed(extra);
+  const auto words = codes::compliance_words(tables, edition, zone, site.design_pressure_kpa(),
+                                             in.strategies);
+  for (std::size_t i = 0; i < in.strategies.size() && i < words.size(); ++i)
+    c.compliance[in.strategies[i].name] = words[i];
+  const codes::Edition& e = tables.edition(edition, code.edition ? "--edition" : site.energy_code_origin);
+  c.code_label = fmt::format("{}, climate zone {} (tables from memory; verify against the "
+                             "adopted edition — see limitline code)",
+                             e.title, zone);
 }
 
 }  // namespace limitline

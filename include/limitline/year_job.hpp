@@ -59,6 +59,20 @@ annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point = tru
 // The report's header lines and strategy descriptions.
 report::YearContext year_context(const YearInputs& in, units::System units);
 
+// Which energy-code edition and climate zone to judge the strategies against: the unit
+// file's [site] energy_code and climate_zone, unless given here; extra code-table files as
+// with `limitline code --code-table`.
+struct CodeSelection {
+  std::optional<std::string> edition;
+  std::optional<std::string> zone;
+  std::vector<std::string> extra_tables;
+};
+
+// Adds the compliance column (one word per strategy) and the code line to the report context
+// when an edition and a zone are known; does nothing when neither is. One without the other
+// is an InputError naming the missing key.
+void add_compliance(report::YearContext& context, const YearInputs& in, const CodeSelection& code);
+
 }  // namespace limitline
 
 namespace limitline {

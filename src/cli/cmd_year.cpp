@@ -89,7 +89,11 @@ int run_year(const std::vector<std::string>& args) {
       ("time-convention", po::value<std::string>(), "weather stamps: hour-beginning or hour-ending (default: found from the file)")
       ("hourly", po::value<std::string>(), "also write every hour's states, decisions and loads to this CSV file")
       ("batch", po::value<std::string>(), "evaluate every .csv weather file of this folder; per-site summary")
-      ("threads", po::value<unsigned>()->default_value(0), "threads for --batch (0: all cores)");
+      ("threads", po::value<unsigned>()->default_value(0), "threads for --batch (0: all cores)")
+      ("edition", po::value<std::string>(), "energy-code edition for the compliance column (default: [site] energy_code)")
+      ("zone", po::value<std::string>(), "climate zone for the compliance column (default: [site] climate_zone)")
+      ("code-table", po::value<std::vector<std::string>>()->composing(),
+       "extra code-table file (a jurisdiction's amendments; repeatable)");
   add_common_options(options, "text, json, csv, md");
   po::positional_options_description pos;
   pos.add("unit", 1);
@@ -135,7 +139,12 @@ int run_year(const std::vector<std::string>& args) {
   annual::RunOptions run;
   run.keep_decisions = vm.count("hourly") > 0;
   const annual::YearResult y = annual::evaluate(in.strategies, prepared, run);
-  const report::YearContext ctx = year_context(in, common.units);
+  report::YearContext ctx = year_context(in, common.units);
+  CodeSelection code;
+  if (vm.count("edition")) code.edition = vm["edition"].as<std::string>();
+  if (vm.count("zone")) code.zone = vm["zone"].as<std::string>();
+  if (vm.count("code-table")) code.extra_tables = vm["code-table"].as<std::vector<std::string>>();
+  add_compliance(ctx, in, code);
 
   if (vm.count("hourly")) {
     const std::string path = vm["hourly"].as<std::string>();

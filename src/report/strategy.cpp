@@ -9,25 +9,8 @@ namespace limitline::report {
 using highlimit::Quantity;
 using units::Kind;
 
-units::Kind value_kind(Quantity q) {
-  switch (q) {
-    case Quantity::dry_bulb:
-    case Quantity::dew_point: return Kind::temperature;
-    case Quantity::enthalpy: return Kind::enthalpy;
-    case Quantity::humidity_ratio: return Kind::humidity_ratio;
-  }
-  return Kind::temperature;
-}
-
-units::Kind difference_kind(Quantity q) {
-  switch (q) {
-    case Quantity::dry_bulb:
-    case Quantity::dew_point: return Kind::temperature_difference;
-    case Quantity::enthalpy: return Kind::enthalpy_difference;
-    case Quantity::humidity_ratio: return Kind::humidity_ratio;
-  }
-  return Kind::temperature_difference;
-}
+units::Kind value_kind(Quantity q) { return highlimit::quantity_kind(q); }
+units::Kind difference_kind(Quantity q) { return highlimit::quantity_difference_kind(q); }
 
 namespace {
 int decimals(Quantity q) {
