@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <vector>
 
 namespace limitline::psychro {
 namespace {
@@ -40,6 +41,26 @@ inline double ln_pws_pa(double t_c) {
   return t_c < 0.0 ? ln_pws_ice(T, lnT) : ln_pws_water(T, lnT);
 }
 
+// p_ws (kPa) of eq. 5/6 at one temperature with the first two derivatives of ln p_ws, sharing
+// 1/T and ln T: what each step of the wet-bulb solver needs.
+struct Saturation {
+  double pws_kpa;
+  double log_slope_per_k;      // d ln p_ws/dT
+  double log_curvature_per_k2;  // d² ln p_ws/dT²
+};
+inline Saturation saturation_at(double t_c) {
+  const double T = t_c + kKelvinOffset;
+  const double inv = 1.0 / T;
+  const double lnT = std::log(T);
+  if (t_c < 0.0)
+    return {std::exp(C1 * inv + C2 + T * (C3 + T * (C4 + T * (C5 + T * C6))) + C7 * lnT) * 1e-3,
+            (-C1 * inv + C7) * inv + C3 + T * (2 * C4 + T * (3 * C5 + T * 4 * C6)),
+            (2 * C1 * inv - C7) * inv * inv + 2 * C4 + T * (6 * C5 + T * 12 * C6)};
+  return {std::exp(C8 * inv + C9 + T * (C10 + T * (C11 + T * C12)) + C13 * lnT) * 1e-3,
+          (-C8 * inv + C13) * inv + C10 + T * (2 * C11 + T * 3 * C12),
+          (2 * C8 * inv - C13) * inv * inv + 2 * C11 + T * 6 * C12};
+}
+
 [[noreturn]] void out_of_range(const char* what, double value, const char* unit,
                                const char* allowed) {
   throw RangeError(fmt::format("{} {:.6g} {} is outside the range the psychrometric model "
@@ -47,11 +68,109 @@ inline double ln_pws_pa(double t_c) {
                                what, value, unit, allowed));
 }
 
-// Saturation pressure at the two ends of the fits, kPa (for the dew-point inverse).
-const double kPwsAtMinKpa = std::exp(ln_pws_pa(kMinTemperatureC)) / 1000.0;
-const double kPwsAtMaxKpa = std::exp(ln_pws_pa(kMaxTemperatureC)) / 1000.0;
-// Both fits at 0 °C; the ice one is used below 0 °C, the water one from 0 °C.
-const double kLnPwsWaterAt0 = ln_pws_water(kKelvinOffset, std::log(kKelvinOffset));
+void check_non_negative(double w, const char* what) {
+  if (!(w >= 0.0) || !std::isfinite(w))
+    throw RangeError(fmt::format("{} {:.6g} kg/kg is not allowed (0 or more)", what, w));
+}
+
+// W_s from p_ws (eq. 23), refusing temperatures at which water boils at this pressure.
+double saturation_ratio(double pws_kpa, double t_c, double p_kpa) {
+  if (!(pws_kpa < p_kpa))
+    throw RangeError(fmt::format("dry-bulb {:.4g} °C is at or above the boiling point at "
+                                 "{:.6g} kPa; moist air cannot be saturated there",
+                                 t_c, p_kpa));
+  return kMolecularMassRatio * pws_kpa / (p_kpa - pws_kpa);
+}
+
+void check_not_supersaturated(double w, double ws, double t_c, double p_kpa, const char* what) {
+  // A relative tolerance absorbs rounding of values that were printed and read back.
+  if (w > ws * (1.0 + 1e-6) + 1e-12)
+    throw RangeError(fmt::format(
+        "{} {:.6g} kg/kg is above saturation ({:.6g} kg/kg at {:.4g} °C, {:.6g} kPa)", what, w,
+        ws, t_c, p_kpa));
+}
+
+// Saturation pressure at the two ends of the fits, kPa, computed exactly as
+// saturation_pressure_kpa() does, so saturated air at either end still has a dew point.
+const double kPwsAtMinKpa = std::exp(ln_pws_pa(kMinTemperatureC)) * 1e-3;
+const double kPwsAtMaxKpa = std::exp(ln_pws_pa(kMaxTemperatureC)) * 1e-3;
+
+// One branch of eq. 5/6 inverted: t(y) with y = ln p_ws (Pa), tabulated on a uniform grid in
+// y together with the exact slope dt/dy = 1/(d ln p_ws/dT). Cubic Hermite interpolation
+// between nodes lands within 1e-7 K; one Newton step on the fit itself then gives the exact
+// inverse to rounding (1e-11 K), for a single logarithm instead of the three or four a Newton
+// iteration from a rough start costs.
+class InverseBranch {
+ public:
+  InverseBranch(bool ice, double t_lo, double t_hi) : ice_(ice) {
+    y_lo_ = ln_pws(t_lo);
+    const double span = ln_pws(t_hi) - y_lo_;
+    const int intervals = static_cast<int>(std::ceil(span / kMaxStep));
+    const double step = span / intervals;
+    inv_step_ = 1.0 / step;
+    nodes_.reserve(static_cast<std::size_t>(intervals) + 1);
+    double t = t_lo;
+    for (int i = 0; i <= intervals; ++i) {
+      t = i == 0 ? t_lo : i == intervals ? t_hi : newton(y_lo_ + i * step, t, 1e-12);
+      nodes_.push_back({t, step / log_slope(t)});
+    }
+  }
+
+  double ln_pws(double t_c) const {
+    const double T = t_c + kKelvinOffset;
+    return ice_ ? ln_pws_ice(T, std::log(T)) : ln_pws_water(T, std::log(T));
+  }
+  double log_slope(double t_c) const {
+    const double T = t_c + kKelvinOffset;
+    return ice_ ? ln_pws_ice_slope(T) : ln_pws_water_slope(T);
+  }
+
+  // t with ln p_ws(t) = y, for y within the branch.
+  double invert(double y) const {
+    const double x = (y - y_lo_) * inv_step_;
+    const std::size_t i = std::min(static_cast<std::size_t>(std::max(x, 0.0)), nodes_.size() - 2);
+    const double u = x - static_cast<double>(i);
+    const Node& a = nodes_[i];
+    const Node& b = nodes_[i + 1];
+    const double rise = b.t - a.t;
+    const double t = a.t + u * (a.dt + u * ((3.0 * rise - 2.0 * a.dt - b.dt) +
+                                            u * (a.dt + b.dt - 2.0 * rise)));
+    // The Newton step takes its slope from the table: interpolated to about 1e-4, it leaves
+    // 1e-4 of a 1e-7 K error, and saves a division.
+    const double dt_dy = ((1.0 - u) * a.dt + u * b.dt) * inv_step_;
+    return t - (ln_pws(t) - y) * dt_dy;
+  }
+
+ private:
+  static constexpr double kMaxStep = 0.05;  // in ln p: 260 ice and 157 water intervals
+  struct Node {
+    double t;   // °C
+    double dt;  // dt/dy times the grid step
+  };
+  double newton(double y, double t, double tolerance) const {
+    for (int k = 0; k < 100; ++k) {
+      const double step = (ln_pws(t) - y) / log_slope(t);
+      t -= step;
+      if (std::fabs(step) < tolerance) break;
+    }
+    return t;
+  }
+  bool ice_;
+  double y_lo_ = 0.0, inv_step_ = 0.0;
+  std::vector<Node> nodes_;
+};
+
+struct DewPointTables {
+  InverseBranch ice{true, kMinTemperatureC, 0.0};
+  InverseBranch water{false, 0.0, kMaxTemperatureC};
+  double y_ice_top = ice.ln_pws(0.0);
+  double y_water_bottom = water.ln_pws(0.0);
+};
+// Built on first use, so no static initialisation elsewhere can run before it exists.
+const DewPointTables& dew_point_tables() {
+  static const DewPointTables tables;
+  return tables;
+}
 
 }  // namespace
 
@@ -66,14 +185,8 @@ void check_pressure(double p_kpa, const char* what) {
 }
 
 void check_humidity_ratio(double w, double t_c, double p_kpa, const char* what) {
-  if (!(w >= 0.0) || !std::isfinite(w))
-    throw RangeError(fmt::format("{} {:.6g} kg/kg is not allowed (0 or more)", what, w));
-  const double ws = saturation_humidity_ratio(t_c, p_kpa);
-  // A relative tolerance absorbs rounding of values that were printed and read back.
-  if (w > ws * (1.0 + 1e-6) + 1e-12)
-    throw RangeError(fmt::format(
-        "{} {:.6g} kg/kg is above saturation ({:.6g} kg/kg at {:.4g} °C, {:.6g} kPa)", what, w,
-        ws, t_c, p_kpa));
+  check_non_negative(w, what);
+  check_not_supersaturated(w, saturation_humidity_ratio(t_c, p_kpa), t_c, p_kpa, what);
 }
 
 double saturation_pressure_kpa(double t_c) {
@@ -96,18 +209,14 @@ double humidity_ratio_from_vapor_pressure(double pw_kpa, double p_kpa) {
 }
 
 double vapor_pressure_from_humidity_ratio(double w, double p_kpa) {
-  if (!(w >= 0.0) || !std::isfinite(w))
-    throw RangeError(fmt::format("humidity ratio {:.6g} kg/kg is not allowed (0 or more)", w));
+  check_non_negative(w, "humidity ratio");
+  check_pressure(p_kpa);
   return p_kpa * w / (kMolecularMassRatio + w);
 }
 
 double saturation_humidity_ratio(double t_c, double p_kpa) {
-  const double pws = saturation_pressure_kpa(t_c);
-  if (!(pws < p_kpa))
-    throw RangeError(fmt::format("dry-bulb {:.4g} °C is at or above the boiling point at "
-                                 "{:.6g} kPa; moist air cannot be saturated there",
-                                 t_c, p_kpa));
-  return kMolecularMassRatio * pws / (p_kpa - pws);
+  check_pressure(p_kpa);
+  return saturation_ratio(saturation_pressure_kpa(t_c), t_c, p_kpa);
 }
 
 double humidity_ratio_from_relative_humidity(double t_c, double rh, double p_kpa) {
@@ -122,29 +231,20 @@ double relative_humidity_from_humidity_ratio(double t_c, double w, double p_kpa)
 }
 
 double dew_point_from_vapor_pressure_c(double pw_kpa) {
-  if (!(pw_kpa >= kPwsAtMinKpa && pw_kpa <= kPwsAtMaxKpa))
+  // The margin lets saturated air at either end of the range, whose vapour pressure went
+  // through a humidity ratio and back with rounding, keep its dew point.
+  if (!(pw_kpa >= kPwsAtMinKpa * (1.0 - 1e-9) && pw_kpa <= kPwsAtMaxKpa * (1.0 + 1e-9)))
     throw RangeError(fmt::format("vapour pressure {:.6g} kPa has no dew point between -100 °C "
                                  "and 200 °C ({:.3g} kPa to {:.4g} kPa)",
                                  pw_kpa, kPwsAtMinKpa, kPwsAtMaxKpa));
-  const double target = std::log(pw_kpa * 1000.0);
-  const bool over_water = target >= kLnPwsWaterAt0;
-  // Start from the Magnus-type fit (within a fraction of a kelvin over the HVAC range), then
-  // Newton on ln p_ws(T), whose slope is cheap and smooth: two or three steps reach 1e-9 K.
-  const double gamma = target - std::log(over_water ? 610.94 : 611.21);
-  double t = over_water ? 243.04 * gamma / (17.625 - gamma) : 273.86 * gamma / (22.587 - gamma);
-  double T = std::clamp(t, kMinTemperatureC, kMaxTemperatureC) + kKelvinOffset;
-  for (int i = 0; i < 50; ++i) {
-    const double lnT = std::log(T);
-    const double f = (over_water ? ln_pws_water(T, lnT) : ln_pws_ice(T, lnT)) - target;
-    const double step = f / (over_water ? ln_pws_water_slope(T) : ln_pws_ice_slope(T));
-    T -= step;
-    if (std::fabs(step) < 1e-9) break;
-  }
-  t = T - kKelvinOffset;
-  // Where the ice fit at 0 °C lies below the water fit, a vapour pressure between them has
-  // its dew point at the junction.
-  if (!over_water && t > 0.0) t = 0.0;
-  return std::clamp(t, kMinTemperatureC, kMaxTemperatureC);
+  const DewPointTables& tables = dew_point_tables();
+  const double y = std::log(pw_kpa * 1000.0);
+  if (y >= tables.y_water_bottom)
+    return std::clamp(tables.water.invert(y), 0.0, kMaxTemperatureC);
+  if (y < tables.y_ice_top) return std::clamp(tables.ice.invert(y), kMinTemperatureC, 0.0);
+  // The ice fit at 0 °C lies below the water fit: a vapour pressure between the two has its
+  // dew point at the junction.
+  return 0.0;
 }
 
 double dew_point_from_humidity_ratio_c(double w, double p_kpa) {
@@ -156,17 +256,48 @@ double humidity_ratio_from_dew_point(double dew_point_c, double p_kpa) {
 }
 
 namespace {
-// Eq. 33 (t* ≥ 0 °C) and eq. 35 (t* < 0 °C): numerator N and denominator D of W = N/D, and
-// their derivatives with respect to t*, given W_s* and dW_s*/dt*.
-struct WetBulbTerms {
-  double n, d, dn, dd;
+// Eq. 33 (t* ≥ 0 °C) and eq. 35 (t* < 0 °C) as W = (A·W_s* − 1.006·(t − t*))/D with A and D
+// linear in t*: A = a0 + a1·t*, D = d0 + d1·t*.
+struct WetBulbLine {
+  double a0, a1, d0, d1;
 };
-inline WetBulbTerms wet_bulb_terms(double t, double ts, double ws, double dws) {
-  if (ts >= 0.0)
-    return {(2501.0 - 2.326 * ts) * ws - 1.006 * (t - ts), 2501.0 + 1.86 * t - 4.186 * ts,
-            -2.326 * ws + (2501.0 - 2.326 * ts) * dws + 1.006, -4.186};
-  return {(2830.0 - 0.24 * ts) * ws - 1.006 * (t - ts), 2830.0 + 1.86 * t - 2.1 * ts,
-          -0.24 * ws + (2830.0 - 0.24 * ts) * dws + 1.006, -2.1};
+inline WetBulbLine wet_bulb_line(double t, double ts) {
+  if (ts >= 0.0) return {2501.0, -2.326, 2501.0 + 1.86 * t, -4.186};  // eq. 33
+  return {2830.0, -0.24, 2830.0 + 1.86 * t, -2.1};                     // eq. 35
+}
+
+// Wet-bulb of a validated state, given the saturation at the dry-bulb. Halley's method on
+// F(t*) = 0.621945·A·p_ws* − R·(p − p_ws*),  R = 1.006·(t − t*) + W·D:
+// eq. 33/35 multiplied by D·(p − p_ws*) > 0, so F has the sign of W(t*) − W and the same
+// root, with no division but the step's. Halley (cubic convergence) needs two or three
+// steps from t* = t over the HVAC range, Newton three or four, each costing an exp and a
+// log. The root stays inside the bracket [lo, hi]; a step that would leave it bisects.
+double solve_wet_bulb(double t_c, double w, double p_kpa, Saturation sat) {
+  double ts = t_c, lo = kMinTemperatureC, hi = t_c;
+  for (int i = 0; i < 60; ++i) {
+    const WetBulbLine k = wet_bulb_line(t_c, ts);
+    const double q = sat.pws_kpa, s = sat.log_slope_per_k;
+    const double dq = q * s, d2q = q * (s * s + sat.log_curvature_per_k2);
+    const double a = k.a0 + k.a1 * ts;
+    const double r = 1.006 * (t_c - ts) + w * (k.d0 + k.d1 * ts), dr = w * k.d1 - 1.006;
+    const double f = kMolecularMassRatio * a * q - r * (p_kpa - q);
+    const double df = kMolecularMassRatio * (k.a1 * q + a * dq) - dr * (p_kpa - q) + r * dq;
+    const double d2f = kMolecularMassRatio * (2.0 * k.a1 * dq + a * d2q) + 2.0 * dr * dq + r * d2q;
+    if (f > 0.0) hi = ts; else lo = ts;
+    const double step = 2.0 * f * df / (2.0 * df * df - f * d2f);
+    const double next = ts - step;
+    if (std::fabs(step) < 1e-3) {
+      // After a Halley step s the error is of order s³/100 K: below 1e-9 K here. A step
+      // across t* = 0 °C lands on the other equation, which jumps there: the answer is then
+      // the junction itself (within 1e-3 K, or W lies in the gap between eq. 33 and eq. 35).
+      if ((next < 0.0) == (ts < 0.0)) return std::clamp(next, lo, hi);
+      return std::clamp(0.0, lo, hi);
+    }
+    if (hi - lo < 1e-9) return 0.5 * (lo + hi);
+    ts = next > lo && next < hi ? next : 0.5 * (lo + hi);
+    sat = saturation_at(ts);
+  }
+  return ts;
 }
 }  // namespace
 
@@ -176,8 +307,8 @@ double humidity_ratio_from_wet_bulb(double t_c, double wb_c, double p_kpa) {
   if (wb_c > t_c)
     throw RangeError(fmt::format("wet-bulb {:.4g} °C is above dry-bulb {:.4g} °C", wb_c, t_c));
   const double ws = saturation_humidity_ratio(wb_c, p_kpa);
-  const WetBulbTerms k = wet_bulb_terms(t_c, wb_c, ws, 0.0);
-  const double w = k.n / k.d;
+  const WetBulbLine k = wet_bulb_line(t_c, wb_c);
+  const double w = ((k.a0 + k.a1 * wb_c) * ws - 1.006 * (t_c - wb_c)) / (k.d0 + k.d1 * wb_c);
   if (w < 0.0)
     throw RangeError(fmt::format("wet-bulb {:.4g} °C is too low for dry-bulb {:.4g} °C at "
                                  "{:.6g} kPa: the air would need negative humidity",
@@ -187,30 +318,12 @@ double humidity_ratio_from_wet_bulb(double t_c, double wb_c, double p_kpa) {
 
 double wet_bulb_from_humidity_ratio_c(double t_c, double w, double p_kpa) {
   check_dry_bulb(t_c);
-  check_humidity_ratio(w, t_c, p_kpa);
-  // Newton on W(t*) − W, which rises monotonically from below the dew point to W_s at t* = t.
-  // Starting at t* = t converges from one side, so the iterate never leaves [t_low, t].
-  double ts = t_c;
-  double lo = kMinTemperatureC, hi = t_c;
-  for (int i = 0; i < 60; ++i) {
-    const double T = ts + kKelvinOffset;
-    const double lnT = std::log(T);
-    const bool ice = ts < 0.0;
-    const double pws = std::exp(ice ? ln_pws_ice(T, lnT) : ln_pws_water(T, lnT)) * 1e-3;
-    const double slope = ice ? ln_pws_ice_slope(T) : ln_pws_water_slope(T);
-    const double ws = kMolecularMassRatio * pws / (p_kpa - pws);
-    const double dws = kMolecularMassRatio * p_kpa * pws * slope / ((p_kpa - pws) * (p_kpa - pws));
-    const WetBulbTerms k = wet_bulb_terms(t_c, ts, ws, dws);
-    const double g = k.n / k.d - w;
-    if (g > 0.0) hi = ts; else lo = ts;
-    const double dg = (k.dn * k.d - k.n * k.dd) / (k.d * k.d);
-    double next = ts - g / dg;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);  // keep Newton inside the bracket
-    const double step = next - ts;
-    ts = next;
-    if (std::fabs(step) < 1e-7) break;
-  }
-  return ts;
+  check_pressure(p_kpa);
+  check_non_negative(w, "humidity ratio");
+  const Saturation sat = saturation_at(t_c);
+  check_not_supersaturated(w, saturation_ratio(sat.pws_kpa, t_c, p_kpa), t_c, p_kpa,
+                           "humidity ratio");
+  return solve_wet_bulb(t_c, w, p_kpa, sat);
 }
 
 double humidity_ratio_from_enthalpy(double t_c, double h) {
@@ -223,6 +336,9 @@ double humidity_ratio_from_enthalpy(double t_c, double h) {
 }
 
 double specific_volume_m3_per_kg(double t_c, double w, double p_kpa) {
+  check_dry_bulb(t_c);
+  check_pressure(p_kpa);
+  check_non_negative(w, "humidity ratio");
   return 0.287042 * (t_c + kKelvinOffset) * (1.0 + 1.607858 * w) / p_kpa;
 }
 
@@ -231,6 +347,7 @@ double density_kg_per_m3(double t_c, double w, double p_kpa) {
 }
 
 double degree_of_saturation(double t_c, double w, double p_kpa) {
+  check_non_negative(w, "humidity ratio");
   return w / saturation_humidity_ratio(t_c, p_kpa);
 }
 
@@ -254,20 +371,24 @@ Properties properties(const MoistAir& air) {
   const double t = air.dry_bulb_c, w = air.humidity_ratio, p = air.pressure_kpa;
   check_dry_bulb(t);
   check_pressure(p);
-  check_humidity_ratio(w, t, p);
+  check_non_negative(w, "humidity ratio");
+  // The saturation at the dry-bulb feeds W_s, RH, μ and the wet-bulb's first step: once.
+  const Saturation sat = saturation_at(t);
+  const double ws = saturation_ratio(sat.pws_kpa, t, p);
+  check_not_supersaturated(w, ws, t, p, "humidity ratio");
   Properties r{};
   r.dry_bulb_c = t;
   r.humidity_ratio = w;
   r.pressure_kpa = p;
-  r.vapor_pressure_kpa = vapor_pressure_from_humidity_ratio(w, p);
-  r.saturation_humidity_ratio = saturation_humidity_ratio(t, p);
-  r.relative_humidity = std::min(1.0, r.vapor_pressure_kpa / saturation_pressure_kpa(t));
-  r.degree_of_saturation = std::min(1.0, w / r.saturation_humidity_ratio);
+  r.vapor_pressure_kpa = p * w / (kMolecularMassRatio + w);
+  r.saturation_humidity_ratio = ws;
+  r.relative_humidity = std::min(1.0, r.vapor_pressure_kpa / sat.pws_kpa);
+  r.degree_of_saturation = std::min(1.0, w / ws);
   r.dew_point_c = std::min(t, dew_point_from_vapor_pressure_c(r.vapor_pressure_kpa));
-  r.wet_bulb_c = wet_bulb_from_humidity_ratio_c(t, std::min(w, r.saturation_humidity_ratio), p);
+  r.wet_bulb_c = solve_wet_bulb(t, std::min(w, ws), p, sat);
   r.enthalpy_kj_per_kg = enthalpy_kj_per_kg(t, w);
-  r.specific_volume_m3_per_kg = specific_volume_m3_per_kg(t, w, p);
-  r.density_kg_per_m3 = density_kg_per_m3(t, w, p);
+  r.specific_volume_m3_per_kg = 0.287042 * (t + kKelvinOffset) * (1.0 + 1.607858 * w) / p;
+  r.density_kg_per_m3 = (1.0 + w) / r.specific_volume_m3_per_kg;
   return r;
 }
 
