@@ -78,8 +78,15 @@ constexpr Unit kPower[] = {
 
 constexpr double kCubicFoot = 0.3048 * 0.3048 * 0.3048;
 constexpr double kPound = 0.45359237;
-constexpr Unit kSpecificVolume[] = {{"m3/kg", 1, 0}, {"ft3/lb", kCubicFoot / kPound, 0}};
-constexpr Unit kDensity[] = {{"kg/m3", 1, 0}, {"lb/ft3", kPound / kCubicFoot, 0}};
+// The display labels (m³/kg, lb/ft³) are spellings too: what the tool prints, it reads back.
+constexpr Unit kSpecificVolume[] = {{"m3/kg", 1, 0},
+                                    {"m³/kg", 1, 0},
+                                    {"ft3/lb", kCubicFoot / kPound, 0},
+                                    {"ft³/lb", kCubicFoot / kPound, 0}};
+constexpr Unit kDensity[] = {{"kg/m3", 1, 0},
+                             {"kg/m³", 1, 0},
+                             {"lb/ft3", kPound / kCubicFoot, 0},
+                             {"lb/ft³", kPound / kCubicFoot, 0}};
 
 constexpr KindInfo kKinds[] = {
     {Kind::temperature, "a temperature", kTemperature, "f", "c", "°F", "°C", "f", "c"},
