@@ -795,11 +795,8 @@ StrategyCheck check_strategy(const ZoneRequirements& zone, const highlimit::Stra
       if (m.setting.quantity != req.quantity || m.setting.reference != req.reference) continue;
       const Deviation d{req.quantity, req.reference, m.setting.value, req.value};
       // Differences are compared in the units of the figure the verdict uses.
-      const Kind diff_kind = req.quantity == Quantity::enthalpy ? Kind::enthalpy_difference
-                             : req.quantity == Quantity::humidity_ratio
-                                 ? Kind::humidity_ratio
-                                 : Kind::temperature_difference;
-      const double off = units::to_display(diff_kind, zone.compare_in, d.difference());
+      const double off = units::to_display(highlimit::quantity_difference_kind(req.quantity),
+                                           zone.compare_in, d.difference());
       if (std::fabs(off) > tolerance(req.quantity, zone.compare_in) + 1e-9)
         out.deviations.push_back(d);
     }
@@ -818,10 +815,11 @@ IntegrationCheck check_integration(const Edition& edition, airside::EconomizerTy
 std::vector<std::string> compliance_words(const CodeTables& tables, std::string_view edition,
                                           std::string_view zone,
                                           std::optional<double> pressure_kpa,
-                                          std::span<const highlimit::Strategy> strategies) {
-  const ZoneRequirements req =
-      requirements(tables.edition(edition, "energy_code"), zone, SiteConditions{pressure_kpa, {}},
-                   "climate_zone");
+                                          std::span<const highlimit::Strategy> strategies,
+                                          std::string_view edition_origin,
+                                          std::string_view zone_origin) {
+  const ZoneRequirements req = requirements(tables.edition(edition, edition_origin), zone,
+                                            SiteConditions{pressure_kpa, {}}, zone_origin);
   std::vector<std::string> out;
   for (const auto& s : strategies)
     out.emplace_back(verdict_word(check_strategy(req, s).verdict));
@@ -831,14 +829,7 @@ std::vector<std::string> compliance_words(const CodeTables& tables, std::string_
 // --- Text ---------------------------------------------------------------------------------
 
 Kind setting_kind(Quantity q, Reference r) {
-  const bool fixed = r == Reference::fixed;
-  switch (q) {
-    case Quantity::dry_bulb:
-    case Quantity::dew_point: return fixed ? Kind::temperature : Kind::temperature_difference;
-    case Quantity::enthalpy: return fixed ? Kind::enthalpy : Kind::enthalpy_difference;
-    case Quantity::humidity_ratio: return Kind::humidity_ratio;
-  }
-  return Kind::temperature;
+  return r == Reference::fixed ? highlimit::quantity_kind(q) : highlimit::quantity_difference_kind(q);
 }
 
 std::string setting_key(Quantity q, Reference r, System system) {
@@ -868,9 +859,7 @@ std::string control_text(const AllowedControl& c, System system) {
 
 std::string deviation_text(const Deviation& d, System system) {
   const Kind kind = setting_kind(d.quantity, d.reference);
-  const Kind diff_kind = d.quantity == Quantity::enthalpy ? Kind::enthalpy_difference
-                         : d.quantity == Quantity::humidity_ratio ? Kind::humidity_ratio
-                                                                  : Kind::temperature_difference;
+  const Kind diff_kind = highlimit::quantity_difference_kind(d.quantity);
   const int dec = decimals_for(d.quantity);
   const bool above = d.difference() > 0;
   return fmt::format("{} {} is {} {} the required {} ({})", setting_name(d.quantity, d.reference),

@@ -256,10 +256,13 @@ struct IntegrationCheck {
 IntegrationCheck check_integration(const Edition& edition, airside::EconomizerType type);
 
 // One word per strategy for the annual report's compliance column (verdict_word of each).
+// An unknown edition or zone is an InputError starting with the matching origin.
 std::vector<std::string> compliance_words(const CodeTables& tables, std::string_view edition,
                                           std::string_view zone,
                                           std::optional<double> pressure_kpa,
-                                          std::span<const highlimit::Strategy> strategies);
+                                          std::span<const highlimit::Strategy> strategies,
+                                          std::string_view edition_origin = "energy_code",
+                                          std::string_view zone_origin = "climate_zone");
 
 // --- Text -------------------------------------------------------------------------------
 
