@@ -27,6 +27,7 @@ struct KindInfo {
   std::string_view ip_default, si_default;  // spelling used for bare numbers and display
   std::string_view ip_label, si_label;
   std::string_view ip_suffix, si_suffix;
+  std::string_view example;  // what to write, for error messages
 };
 
 constexpr double kFahrenheitScale = 1.0 / 1.8;
@@ -89,25 +90,30 @@ constexpr Unit kDensity[] = {{"kg/m3", 1, 0},
                              {"lb/ft³", kPound / kCubicFoot, 0}};
 
 constexpr KindInfo kKinds[] = {
-    {Kind::temperature, "a temperature", kTemperature, "f", "c", "°F", "°C", "f", "c"},
+    {Kind::temperature, "a temperature", kTemperature, "f", "c", "°F", "°C", "f", "c",
+     "75F or 23.9C"},
     {Kind::temperature_difference, "a temperature difference", kTemperatureDifference, "f",
-     "k", "°F", "K", "delta_f", "delta_k"},
+     "k", "°F", "K", "delta_f", "delta_k", "5F or 3K"},
     {Kind::enthalpy, "an enthalpy", kEnthalpy, "btu/lb", "kj/kg", "Btu/lb", "kJ/kg",
-     "btu_per_lb", "kj_per_kg"},
+     "btu_per_lb", "kj_per_kg", "28btu/lb or 47kJ/kg"},
     {Kind::enthalpy_difference, "an enthalpy difference", kEnthalpyDifference, "btu/lb",
-     "kj/kg", "Btu/lb", "kJ/kg", "delta_btu_per_lb", "delta_kj_per_kg"},
-    {Kind::pressure, "a pressure", kPressure, "psia", "kpa", "psia", "kPa", "psia", "kpa"},
-    {Kind::length, "a length", kLength, "ft", "m", "ft", "m", "ft", "m"},
-    {Kind::fraction, "a percentage", kFraction, "%", "%", "%", "%", "pct", "pct"},
+     "kj/kg", "Btu/lb", "kJ/kg", "delta_btu_per_lb", "delta_kj_per_kg", "1btu/lb or 2kJ/kg"},
+    {Kind::pressure, "a pressure", kPressure, "psia", "kpa", "psia", "kPa", "psia", "kpa",
+     "14.696psia or 101.325kPa"},
+    {Kind::length, "a length", kLength, "ft", "m", "ft", "m", "ft", "m", "5000ft or 1524m"},
+    {Kind::fraction, "a percentage", kFraction, "%", "%", "%", "%", "pct", "pct", "50%"},
     {Kind::humidity_ratio, "a humidity ratio", kHumidityRatio, "lb/lb", "kg/kg", "lb/lb",
-     "kg/kg", "lb_per_lb", "kg_per_kg"},
-    {Kind::airflow, "an airflow", kAirflow, "cfm", "m3/s", "cfm", "m³/s", "cfm", "m3_per_s"},
-    {Kind::energy, "an energy", kEnergy, "kbtu", "kwh", "kBtu", "kWh", "kbtu", "kwh"},
-    {Kind::power, "a power", kPower, "kbtu/h", "kw", "kBtu/h", "kW", "kbtu_per_h", "kw"},
+     "kg/kg", "lb_per_lb", "kg_per_kg", "0.0093 or 65gr/lb"},
+    {Kind::airflow, "an airflow", kAirflow, "cfm", "m3/s", "cfm", "m³/s", "cfm", "m3_per_s",
+     "12000cfm or 5600L/s"},
+    {Kind::energy, "an energy", kEnergy, "kbtu", "kwh", "kBtu", "kWh", "kbtu", "kwh",
+     "3412kBtu or 1000kWh"},
+    {Kind::power, "a power", kPower, "kbtu/h", "kw", "kBtu/h", "kW", "kbtu_per_h", "kw",
+     "34kBtu/h or 10kW"},
     {Kind::specific_volume, "a specific volume", kSpecificVolume, "ft3/lb", "m3/kg", "ft³/lb",
-     "m³/kg", "ft3_per_lb", "m3_per_kg"},
+     "m³/kg", "ft3_per_lb", "m3_per_kg", "13.7ft3/lb or 0.85m3/kg"},
     {Kind::density, "a density", kDensity, "lb/ft3", "kg/m3", "lb/ft³", "kg/m³", "lb_per_ft3",
-     "kg_per_m3"},
+     "kg_per_m3", "0.075lb/ft3 or 1.2kg/m3"},
 };
 
 const KindInfo& info(Kind k) {
@@ -194,9 +200,7 @@ double parse(Kind kind, std::string_view text, System bare, std::string_view ori
   const std::size_t n = number_length(s);
   if (n == 0)
     throw InputError(fmt::format("{}: '{}' is not {} (write a number with a unit, e.g. {})",
-                                 origin, text, k.name,
-                                 kind == Kind::temperature ? "75F or 23.9C"
-                                                           : std::string(k.si_label)));
+                                 origin, text, k.name, k.example));
   double value = 0;
   std::from_chars(s.data(), s.data() + n, value);
   const std::string suffix = normalise(s.substr(n));

@@ -192,6 +192,8 @@ TEST_CASE("errors name the origin, the text, and what is allowed") {
     CHECK(contains(e, "'warm'"));
     CHECK(contains(e, "75F"));  // an example of what to write
     CHECK(contains(parse_error(Kind::enthalpy, ""), "not an enthalpy"));
+    CHECK(contains(parse_error(Kind::enthalpy, "x"), "e.g. 28btu/lb or 47kJ/kg"));
+    CHECK(contains(parse_error(Kind::fraction, "abc"), "e.g. 50%"));
   }
   SUBCASE("NaN, infinity and overflow are never a quantity") {
     for (const char* t : {"nan", "NaN", "inf", "-inf", "infinity", "nan%", "1e999", "1e999F"}) {
