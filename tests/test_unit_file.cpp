@@ -1,0 +1,457 @@
+// The unit file: what a valid file gives, and every kind of error with its message (file,
+// line, key). Unit conversions are checked against exact definitions (NIST SP 811: 1 ft =
+// 0.3048 m, °F = 1.8·°C + 32, 1 psi = 6.894757 kPa); the enthalpy datum shift against
+// DESIGN.md §3 (h_IP = h_SI/2.326 + 7.68).
+#include <doctest/doctest.h>
+
+#include <limitline/air_point.hpp>
+#include <limitline/error.hpp>
+#include <limitline/psychro.hpp>
+#include <limitline/unit_file.hpp>
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <string>
+
+using limitline::InputError;
+using limitline::parse_unit_file;
+using limitline::UnitFile;
+namespace hl = limitline::highlimit;
+namespace air = limitline::airside;
+namespace psy = limitline::psychro;
+
+namespace {
+
+constexpr double kCfm = 0.3048 * 0.3048 * 0.3048 / 60.0;  // m³/s per cfm (NIST SP 811)
+
+// A valid IP file; tests replace one line at a time, which keeps every line number.
+const std::string kBase = R"([site]
+name = "Test annex"
+elevation = "850ft"
+energy_code = "ashrae-90.1-2019"
+climate_zone = "4A"
+
+[air_handler]
+supply_airflow = "12000cfm"
+supply_air_temp = "55F"
+fan_heat = "1.5F"
+fan_position = "draw-through"
+min_outdoor_air = "25%"
+max_outdoor_air = "100%"
+economizer = "integrated"
+coil_leaving_rh_max = "95%"
+return_air_temp = "75F"
+return_air_rh = "50%"
+)";
+
+std::string replace(std::string text, const std::string& from, const std::string& to) {
+  const auto at = text.find(from);
+  REQUIRE_MESSAGE(at != std::string::npos, "test text lacks: ", from);
+  text.replace(at, from.size(), to);
+  return text;
+}
+
+// Parsing fails with a message that starts "unit.toml:LINE: KEY" and contains `detail`.
+void refuses(const std::string& text, int line, const std::string& key,
+             const std::string& detail) {
+  try {
+    parse_unit_file(text, "unit.toml");
+    FAIL("accepted; expected an error at line ", line, " for ", key);
+  } catch (const InputError& e) {
+    const std::string m = e.what();
+    INFO("message: ", m);
+    CHECK(m.rfind(fmt::format("unit.toml:{}: {}", line, key), 0) == 0);
+    CHECK(m.find(detail) != std::string::npos);
+    CHECK(m.find('\n') == std::string::npos);  // one line
+  }
+}
+
+}  // namespace
+
+TEST_CASE("a full IP unit file reads into SI") {
+  const std::string text = kBase + R"(
+[[strategy]]
+name = "code default"
+preset = "fixed-dry-bulb"
+dry_bulb_limit = "70F"
+deadband = "1F"
+
+[[strategy]]
+name = "humid-climate custom"
+conditions = [ { quantity = "enthalpy", reference = "fixed", limit = "28btu/lb" },
+               { quantity = "dew-point", reference = "fixed", limit = "55F", deadband = "2F" },
+               { quantity = "enthalpy", reference = "return", offset = "-1btu/lb" } ]
+
+[[strategy]]
+preset = "differential-enthalpy"
+enthalpy_offset = "0.5btu/lb"
+)";
+  const UnitFile u = parse_unit_file(text, "unit.toml");
+  CHECK(u.path == "unit.toml");
+  CHECK(u.units == limitline::units::System::ip);
+  CHECK(u.site.name == "Test annex");
+  REQUIRE(u.site.elevation_m);
+  CHECK(*u.site.elevation_m == doctest::Approx(850 * 0.3048));
+  CHECK_FALSE(u.site.pressure_kpa);
+  CHECK(u.site.design_pressure_kpa() == doctest::Approx(psy::standard_pressure_kpa(259.08)));
+  CHECK(u.site.energy_code == "ashrae-90.1-2019");
+  CHECK(u.site.climate_zone == "4A");
+  CHECK(u.site.climate_zone_origin == "unit.toml:5: site.climate_zone");
+
+  const air::AirHandler& a = u.air_handler;
+  CHECK(a.supply_airflow_m3_per_s == doctest::Approx(12000 * kCfm));
+  CHECK(a.supply_air_temp_c == doctest::Approx((55 - 32) / 1.8));
+  CHECK(a.fan_heat_k == doctest::Approx(1.5 / 1.8));
+  CHECK(a.fan_position == air::FanPosition::draw_through);
+  CHECK(a.min_oa_fraction == doctest::Approx(0.25));
+  CHECK(a.max_oa_fraction == doctest::Approx(1.0));
+  CHECK(a.economizer == air::EconomizerType::integrated);
+  CHECK(a.coil_leaving_rh_max == doctest::Approx(0.95));
+  CHECK(u.return_air.dry_bulb_c == doctest::Approx((75 - 32) / 1.8));
+  CHECK(u.return_air.humidity_kind == psy::HumidityInput::relative_humidity);
+  CHECK(u.return_air.humidity_value == doctest::Approx(0.5));
+  CHECK(u.weights.cooling == 1.0);
+  CHECK(u.weights.heating == 1.0);
+
+  REQUIRE(u.strategies.size() == 3);
+  CHECK_FALSE(u.strategies_defaulted);
+  const hl::Strategy& s0 = u.strategies[0];
+  CHECK(s0.name == "code default");
+  CHECK(s0.preset == "fixed-dry-bulb");
+  REQUIRE(s0.conditions.size() == 1);
+  CHECK(s0.conditions[0].limit == doctest::Approx((70 - 32) / 1.8));
+  CHECK(s0.conditions[0].deadband == doctest::Approx(1 / 1.8));
+  const hl::Strategy& s1 = u.strategies[1];
+  CHECK(s1.preset.empty());
+  REQUIRE(s1.conditions.size() == 3);
+  // 28 Btu/lb with the datum shift: (28 − 7.68)·2.326 = 47.264 kJ/kg.
+  CHECK(s1.conditions[0].limit == doctest::Approx(47.26432));
+  CHECK(s1.conditions[1].quantity == hl::Quantity::dew_point);
+  CHECK(s1.conditions[1].deadband == doctest::Approx(2 / 1.8));
+  // An offset is a difference: −1 Btu/lb = −2.326 kJ/kg, no datum shift.
+  CHECK(s1.conditions[2].reference == hl::Reference::return_air);
+  CHECK(s1.conditions[2].limit == doctest::Approx(-2.326));
+  const hl::Strategy& s2 = u.strategies[2];
+  CHECK(s2.name == "differential-enthalpy");  // named after its preset
+  CHECK(s2.conditions[0].limit == doctest::Approx(0.5 * 2.326));
+  CHECK(limitline::strategies_or_presets(u).size() == 3);
+}
+
+TEST_CASE("an SI file with bare numbers, an airflow minimum and weights") {
+  const std::string text = R"(units = "si"
+[site]
+pressure = 84.5
+[air_handler]
+supply_airflow = 6.0
+supply_air_temp = 13
+fan_heat = 1
+fan_position = "blow-through"
+min_outdoor_airflow = 1.5
+max_outdoor_air = "80%"
+economizer = "non_integrated"
+return_air_temp = 24
+return_air_dew_point = 8
+[energy]
+cooling_weight = 1
+heating_weight = "0.5"
+[[strategy]]
+preset = "fixed-dry-bulb"
+dry_bulb_limit = 21
+)";
+  const UnitFile u = parse_unit_file(text, "si.toml");
+  CHECK(u.units == limitline::units::System::si);
+  CHECK(u.site.design_pressure_kpa() == 84.5);
+  CHECK(u.air_handler.supply_airflow_m3_per_s == 6.0);
+  CHECK(u.air_handler.fan_position == air::FanPosition::blow_through);
+  CHECK(u.air_handler.economizer == air::EconomizerType::non_integrated);
+  // A ratio of standard-air volume flows is the ratio of dry-air mass flows.
+  CHECK(u.air_handler.min_oa_fraction == doctest::Approx(0.25));
+  REQUIRE(u.min_outdoor_airflow_m3_per_s);
+  CHECK(*u.min_outdoor_airflow_m3_per_s == 1.5);
+  CHECK(u.air_handler.max_oa_fraction == doctest::Approx(0.8));
+  CHECK(u.return_air.humidity_kind == psy::HumidityInput::dew_point);
+  CHECK(u.return_air.humidity_value == 8.0);
+  CHECK(u.weights.heating == 0.5);
+  CHECK(u.strategies[0].conditions[0].limit == 21.0);
+  // The return state at the site pressure: dew point 8 °C holds at any pressure.
+  CHECK(psy::properties(u.return_air.state(84.5)).dew_point_c == doctest::Approx(8.0));
+}
+
+TEST_CASE("defaults: sea level, no strategies means every preset, raw tables kept") {
+  const std::string text = R"([air_handler]
+supply_airflow = "5000cfm"
+supply_air_temp = "55F"
+min_outdoor_air = "15%"
+return_air_temp = "75F"
+return_air_humidity_ratio = "0.0090"
+
+[weather]
+file = "somewhere.csv"
+anything = { the = "weather layer checks its own keys" }
+
+[schedule]
+mon-fri = "07:00-18:00"
+
+[sensors]
+outdoor_dry_bulb = "0.5F"
+)";
+  const UnitFile u = parse_unit_file(text, "d.toml");
+  CHECK(u.site.design_pressure_kpa() == psy::kStandardPressureKpa);
+  CHECK(u.air_handler.fan_heat_k == 0.0);
+  CHECK(u.air_handler.max_oa_fraction == 1.0);
+  CHECK(u.air_handler.coil_leaving_rh_max == doctest::Approx(0.95));
+  CHECK(u.strategies.empty());
+  CHECK(u.strategies_defaulted);
+  CHECK(limitline::strategies_or_presets(u).size() == hl::presets().size());
+  REQUIRE(u.weather);
+  CHECK(u.weather->get("file")->value_or(std::string()) == "somewhere.csv");
+  REQUIRE(u.schedule);
+  REQUIRE(u.sensors);
+  // The raw tables keep their source, so their own layers can report file and line.
+  const toml::node* file = u.weather->get("file");
+  CHECK(limitline::source_origin(file->source(), "weather.file") == "d.toml:9: weather.file");
+}
+
+TEST_CASE("TOML syntax errors name the file and line") {
+  try {
+    parse_unit_file("[air_handler]\nsupply_airflow = \"5000cfm\nx = 1\n", "bad.toml");
+    FAIL("accepted broken TOML");
+  } catch (const InputError& e) {
+    const std::string m = e.what();
+    INFO(m);
+    CHECK(m.rfind("bad.toml:2: TOML syntax error", 0) == 0);
+  }
+  try {
+    parse_unit_file("[air_handler]\nsupply_airflow = 1\nsupply_airflow = 2\n", "dup.toml");
+    FAIL("accepted a duplicate key");
+  } catch (const InputError& e) {
+    CHECK(std::string(e.what()).rfind("dup.toml:3: TOML syntax error", 0) == 0);
+  }
+}
+
+TEST_CASE("unknown keys anywhere outside the raw tables are errors") {
+  refuses(kBase + "colour = \"blue\"\n", 18, "air_handler.colour", "unknown key in [air_handler]");
+  refuses("title = \"x\"\n" + kBase, 1, "title", "unknown key in the unit file");
+  refuses(replace(kBase, "climate_zone = \"4A\"", "climate = \"4A\""), 5, "site.climate",
+          "allowed: name, elevation");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\nlimit = \"70F\"\n", 20,
+          "strategy[1].limit", "unknown key in [[strategy]]");
+  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"enthalpy\", "
+                  "limit = \"28btu/lb\", hysteresis = \"1btu/lb\" } ]\n",
+          20, "strategy[1].conditions[1].hysteresis", "unknown key in a condition");
+  refuses(kBase + "[energy]\ncooling_cop = 3\n", 19, "energy.cooling_cop", "unknown key in [energy]");
+}
+
+TEST_CASE("a value of the wrong kind names the key and what was expected") {
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-enthalpy\"\nenthalpy_limit = \"75F\"\n", 20,
+          "strategy[1].enthalpy_limit", "which is not an enthalpy");
+  refuses(replace(kBase, "supply_air_temp = \"55F\"", "supply_air_temp = \"28btu/lb\""), 9,
+          "air_handler.supply_air_temp", "not a temperature");
+  refuses(replace(kBase, "supply_airflow = \"12000cfm\"", "supply_airflow = true"), 8,
+          "air_handler.supply_airflow", "not a boolean");
+  refuses(replace(kBase, "min_outdoor_air = \"25%\"", "min_outdoor_air = 0.25"), 12,
+          "air_handler.min_outdoor_air", "ambiguous");
+  refuses(replace(kBase, "fan_position = \"draw-through\"", "fan_position = \"sideways\""), 11,
+          "air_handler.fan_position", "allowed: draw-through, blow-through");
+  refuses(replace(kBase, "economizer = \"integrated\"", "economizer = 1"), 14,
+          "air_handler.economizer", "must be a string");
+  refuses(replace(kBase, "elevation = \"850ft\"", "elevation = \"850psia\""), 3,
+          "site.elevation", "not a length");
+  refuses("units = \"metric\"\n" + kBase, 1, "units", "allowed: ip, si");
+}
+
+TEST_CASE("missing required keys are reported at their table") {
+  refuses(replace(kBase, "supply_air_temp = \"55F\"\n", "\n"), 7, "air_handler.supply_air_temp",
+          "required key is missing");
+  refuses(replace(kBase, "min_outdoor_air = \"25%\"\n", "\n"), 7, "air_handler.min_outdoor_air",
+          "ventilation minimum");
+  refuses(replace(kBase, "return_air_rh = \"50%\"\n", "\n"), 7, "air_handler.return_air_rh",
+          "return-air humidity");
+  refuses(kBase + "[[strategy]]\nname = \"nothing\"\n", 18, "strategy[1].preset",
+          "give preset");
+  refuses(kBase + "[[strategy]]\nconditions = [ { quantity = \"enthalpy\", limit = 47 } ]\n",
+          18, "strategy[1].name", "needs a name");
+  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"dry-bulb\" } ]\n",
+          20, "strategy[1].conditions[1].limit", "needs its limit");
+  try {
+    parse_unit_file("[site]\nname = \"x\"\n", "none.toml");
+    FAIL("accepted a file without [air_handler]");
+  } catch (const InputError& e) {
+    CHECK(std::string(e.what()).rfind("none.toml: [air_handler] is missing", 0) == 0);
+  }
+}
+
+TEST_CASE("contradictory values are refused") {
+  refuses(replace(kBase, "max_outdoor_air = \"100%\"", "max_outdoor_air = \"20%\""), 12,
+          "air_handler.min_outdoor_air", "is above max_outdoor_air 20.0% (line 13)");
+  refuses(replace(kBase, "supply_air_temp = \"55F\"", "supply_air_temp = \"75F\""), 9,
+          "air_handler.supply_air_temp", "not below return_air_temp 75.0 °F (line 16)");
+  refuses(replace(kBase, "supply_air_temp = \"55F\"", "supply_air_temp = \"80F\""), 9,
+          "air_handler.supply_air_temp", "not below return_air_temp");
+  refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_rh = \"105%\""), 17,
+          "air_handler.return_air_rh", "105.0% is outside the allowed range (0% to 100%)");
+  refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_dew_point = \"80F\""), 17,
+          "air_handler.return_air_dew_point", "above dry-bulb");
+  refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_rh = \"50%\"\nreturn_air_dew_point = \"55F\""),
+          18, "air_handler.return_air_dew_point", "give one return-air humidity");
+  refuses(replace(kBase, "min_outdoor_air = \"25%\"", "min_outdoor_air = \"25%\"\nmin_outdoor_airflow = \"3000cfm\""),
+          13, "air_handler.min_outdoor_airflow", "not both");
+  refuses(replace(kBase, "min_outdoor_air = \"25%\"", "min_outdoor_airflow = \"13000cfm\""), 12,
+          "air_handler.min_outdoor_airflow", "up to supply_airflow 12000 cfm");
+  refuses(replace(kBase, "elevation = \"850ft\"", "elevation = \"850ft\"\npressure = \"14.2psia\""),
+          4, "site.pressure", "give elevation or pressure, not both (elevation is on line 3)");
+  refuses(replace(kBase, "coil_leaving_rh_max = \"95%\"", "coil_leaving_rh_max = \"101%\""), 15,
+          "air_handler.coil_leaving_rh_max", "above 0%, up to 100%");
+  refuses(replace(kBase, "elevation = \"850ft\"", "elevation = \"60000ft\""), 3, "site.elevation",
+          "outside the allowed range");
+  refuses(replace(kBase, "supply_airflow = \"12000cfm\"", "supply_airflow = \"0cfm\""), 8,
+          "air_handler.supply_airflow", "more than 0");
+  refuses("units = \"si\"\n[site]\nunits = \"si\"\n[air_handler]\n", 3, "site.units",
+          "already set");
+  refuses(kBase + "[energy]\ncooling_weight = 0\nheating_weight = 0\n", 18, "energy",
+          "both 0");
+  refuses(kBase + "[energy]\nheating_weight = -1\n", 19, "energy.heating_weight",
+          "outside the allowed range");
+}
+
+TEST_CASE("strategy errors: names, preset or conditions, settings the preset does not use") {
+  const std::string two = kBase + R"(
+[[strategy]]
+name = "A"
+preset = "fixed-dry-bulb"
+
+[[strategy]]
+name = "A"
+preset = "fixed-enthalpy"
+)";
+  refuses(two, 24, "strategy[2].name", "'A' is already the name of strategy[1] (line 20)");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\n[[strategy]]\npreset = "
+                  "\"fixed-dry-bulb\"\ndry_bulb_limit = \"70F\"\n",
+          20, "strategy[2].name", "already the name of strategy[1]");
+  refuses(kBase + "[[strategy]]\nname = \"x\"\npreset = \"fixed-enthalpy\"\nconditions = [ { "
+                  "quantity = \"enthalpy\", limit = 47 } ]\n",
+          21, "strategy[1].conditions", "give preset or conditions, not both (preset is on line 20)");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndew_point_limit = \"55F\"\n", 20,
+          "strategy[1].dew_point_limit",
+          "preset 'fixed-dry-bulb' does not use dew_point_limit (it takes: dry_bulb_limit, "
+          "deadband, dry_bulb_deadband)");
+  refuses(kBase + "[[strategy]]\npreset = \"differential-dry-bulb\"\ndry_bulb_limit = \"70F\"\n",
+          20, "strategy[1].dry_bulb_limit", "does not use dry_bulb_limit (it takes: dry_bulb_offset");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-enthalpy+dry-bulb\"\ndeadband = \"1F\"\n", 20,
+          "strategy[1].deadband",
+          "more than one quantity; give each its own deadband (dry_bulb_deadband, "
+          "enthalpy_deadband)");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndeadband = \"1F\"\n"
+                  "dry_bulb_deadband = \"1F\"\n",
+          21, "strategy[1].dry_bulb_deadband", "give deadband or dry_bulb_deadband, not both");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-enthalpy\"\ndeadband = \"1F\"\n", 20,
+          "strategy[1].deadband", "not an enthalpy difference");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-wet-bulb\"\n", 19, "strategy[1].preset",
+          "'fixed-wet-bulb' is not a preset (allowed: fixed-dry-bulb,");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndry_bulb_limit = \"170F\"\n", 20,
+          "strategy[1].dry_bulb_limit", "170.0 °F is outside the allowed range (-40.0 °F to 140.0 °F)");
+  refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndeadband = \"-1F\"\n", 20,
+          "strategy[1].deadband", "outside the allowed range");
+  refuses(kBase + "[strategy]\npreset = \"fixed-dry-bulb\"\n", 18, "strategy",
+          "must be an array of tables");
+}
+
+TEST_CASE("condition errors") {
+  auto cond = [](const std::string& c) {
+    return kBase + "[[strategy]]\nname = \"c\"\nconditions = [ " + c + " ]\n";
+  };
+  refuses(cond("{ quantity = \"wet-bulb\", limit = 60 }"), 20,
+          "strategy[1].conditions[1].quantity", "allowed: dry-bulb, enthalpy, dew-point, humidity-ratio");
+  refuses(cond("{ quantity = \"enthalpy\", reference = \"outdoor\", limit = 28 }"), 20,
+          "strategy[1].conditions[1].reference", "allowed: fixed, return");
+  refuses(cond("{ quantity = \"enthalpy\", offset = \"1btu/lb\" }"), 20,
+          "strategy[1].conditions[1].offset", "a fixed condition takes limit, not offset");
+  refuses(cond("{ quantity = \"enthalpy\", reference = \"return\", limit = 28 }"), 20,
+          "strategy[1].conditions[1].limit", "takes offset");
+  refuses(cond("{ quantity = \"dry-bulb\", limit = \"70F\" }, { quantity = \"dew-point\", limit "
+               "= \"28btu/lb\" }"),
+          20, "strategy[1].conditions[2].limit", "not a temperature");
+  refuses(cond("{ quantity = \"humidity-ratio\", limit = \"0.2\" }"), 20,
+          "strategy[1].conditions[1].limit", "outside the allowed range");
+  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = []\n", 20,
+          "strategy[1].conditions", "non-empty");
+  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"dry-bulb\", limit = "
+                  "70 } ]\ndeadband = \"1F\"\n",
+          21, "strategy[1].deadband", "give each condition its own deadband");
+  // A name as it is spelled in TOML keys is accepted: dew_point = dew-point.
+  const UnitFile u = parse_unit_file(cond("{ quantity = \"dew_point\", limit = \"55F\" }"), "u.toml");
+  CHECK(u.strategies[0].conditions[0].quantity == hl::Quantity::dew_point);
+}
+
+TEST_CASE("load_unit_file names a file it cannot open") {
+  try {
+    limitline::load_unit_file("/nonexistent/unit.toml");
+    FAIL("opened a missing file");
+  } catch (const InputError& e) {
+    CHECK(std::string(e.what()) == "/nonexistent/unit.toml: cannot open the unit file");
+  }
+}
+
+TEST_CASE("the example unit files all read") {
+  for (const char* name : {"office-humid-coast.toml", "lab-high-plateau.toml",
+                           "school-custom-conditions.toml"}) {
+    INFO(name);
+    const UnitFile u =
+        limitline::load_unit_file(std::string(LIMITLINE_SOURCE_DIR) + "/examples/" + name);
+    CHECK_FALSE(u.strategies.empty());
+    CHECK_NOTHROW(air::validate(u.air_handler));
+  }
+}
+
+// --- Air points ("68F/80%") ---------------------------------------------------------------
+
+TEST_CASE("air points: dry-bulb with each humidity form") {
+  using limitline::parse_air_point;
+  const auto ip = limitline::units::System::ip;
+  auto p = parse_air_point("68F/80%", ip, "--outdoor");
+  CHECK(p.dry_bulb_c == doctest::Approx(20.0));
+  CHECK(p.humidity_kind == psy::HumidityInput::relative_humidity);
+  CHECK(p.humidity_value == doctest::Approx(0.8));
+  p = parse_air_point("68/rh80", ip, "--outdoor");
+  CHECK(p.humidity_value == doctest::Approx(0.8));
+  p = parse_air_point("68F/dp58F", ip, "--outdoor");
+  CHECK(p.humidity_kind == psy::HumidityInput::dew_point);
+  CHECK(p.humidity_value == doctest::Approx((58 - 32) / 1.8));
+  p = parse_air_point(" 68F / wb62F ", ip, "--outdoor");
+  CHECK(p.humidity_kind == psy::HumidityInput::wet_bulb);
+  p = parse_air_point("20C/w0.011", ip, "--outdoor");
+  CHECK(p.dry_bulb_c == doctest::Approx(20.0));
+  CHECK(p.humidity_kind == psy::HumidityInput::humidity_ratio);
+  CHECK(p.humidity_value == doctest::Approx(0.011));
+  p = parse_air_point("20C/W9.5g/kg", ip, "--outdoor");
+  CHECK(p.humidity_value == doctest::Approx(0.0095));
+  p = parse_air_point("68F/h28btu/lb", ip, "--outdoor");
+  CHECK(p.humidity_kind == psy::HumidityInput::enthalpy);
+  CHECK(p.humidity_value == doctest::Approx(47.26432));
+  p = parse_air_point("20/dp10", limitline::units::System::si, "--outdoor");
+  CHECK(p.humidity_value == doctest::Approx(10.0));
+
+  auto bad = [&](const char* text, const char* detail) {
+    try {
+      parse_air_point(text, ip, "--outdoor");
+      FAIL("accepted ", text);
+    } catch (const InputError& e) {
+      const std::string m = e.what();
+      INFO(m);
+      CHECK(m.rfind("--outdoor", 0) == 0);
+      CHECK(m.find(detail) != std::string::npos);
+    }
+  };
+  bad("68F", "separated by '/'");
+  bad("68F/", "nothing after '/'");
+  bad("68F/hot", "is not a percentage");
+  bad("68F/dp58btu/lb", "not a temperature");
+  bad("warm/50%", "dry-bulb");
+  // The state is checked against the pressure when it is resolved.
+  const auto over = parse_air_point("68F/120%", ip, "--outdoor");
+  CHECK_THROWS_WITH_AS(over.state(101.325, "--outdoor 68F/120%"),
+                       doctest::Contains("--outdoor 68F/120%: relative humidity"), InputError);
+  const auto dp = parse_air_point("68F/dp70F", ip, "--outdoor");
+  CHECK_THROWS_AS(dp.state(101.325), InputError);
+}
