@@ -53,8 +53,14 @@ double site_pressure(const po::variables_map& vm, units::System system) {
     psychro::check_pressure(p, "--pressure");
     return p;
   }
-  if (vm.count("elevation"))
-    return psychro::standard_pressure_kpa(quantity(vm, "elevation", Kind::length, system));
+  if (vm.count("elevation")) {
+    try {
+      return psychro::standard_pressure_kpa(quantity(vm, "elevation", Kind::length, system));
+    } catch (const RangeError& e) {
+      throw InputError(
+          fmt::format("--elevation {}: {}", vm["elevation"].as<std::string>(), e.what()));
+    }
+  }
   return psychro::kStandardPressureKpa;
 }
 
@@ -133,9 +139,12 @@ int run_state(const std::vector<std::string>& args) {
   } else if (common.format == Format::csv) {
     std::string head, row;
     for (std::size_t i = 0; i < fields.size(); ++i) {
-      head += (i ? "," : "") + report::property_key(fields[i], common.units);
-      row += (i ? "," : "") +
-             fmt::format("{:.8g}", report::property_value(fields[i], props, common.units));
+      if (i) {
+        head += ',';
+        row += ',';
+      }
+      head += report::property_key(fields[i], common.units);
+      row += fmt::format("{:.8g}", report::property_value(fields[i], props, common.units));
     }
     write_out(head + "\n" + row + "\n");
   } else {

@@ -67,9 +67,11 @@ std::string batch_text(const std::vector<BatchSite>& sites, units::System s, For
   else if (f == Format::md) out = "# Annual high-limit evaluation, per site\n\n" + t.markdown();
   else out = "limitline year — per-site summary\n\n" + t.text();
   if (!errors.empty()) out += "\nSites that could not be evaluated:\n" + errors;
-  if (f != Format::csv)
-    out += "\n" + (f == Format::md ? report::cautions_markdown(report::CautionTopic::design)
-                                   : report::cautions_text(report::CautionTopic::design));
+  if (f != Format::csv) {
+    out += '\n';
+    out += f == Format::md ? report::cautions_markdown(report::CautionTopic::design)
+                           : report::cautions_text(report::CautionTopic::design);
+  }
   return out;
 }
 

@@ -1,0 +1,65 @@
+#pragma once
+// Running the built `limitline` executable from a test: exit code, stdout and stderr, and the
+// checks every output must pass (never NaN or inf).
+#include <doctest/doctest.h>
+
+#include <sys/wait.h>
+
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <regex>
+#include <sstream>
+#include <string>
+#include <vector>
+
+namespace limitline::test {
+
+struct CliRun {
+  int rc = -1;
+  std::string out, err;
+};
+
+inline std::string slurp(const std::filesystem::path& p) {
+  std::ifstream in(p, std::ios::binary);
+  std::ostringstream s;
+  s << in.rdbuf();
+  return s.str();
+}
+
+inline std::string shell_quote(const std::string& a) {
+  std::string out = "'";
+  for (char c : a) out += c == '\'' ? std::string("'\\''") : std::string(1, c);
+  return out + "'";
+}
+
+// A scratch folder for one suite, below the build folder.
+inline std::filesystem::path scratch_dir(const std::string& suite) {
+  auto d = std::filesystem::path(LIMITLINE_BINARY_DIR) / "test-scratch" / suite;
+  std::filesystem::create_directories(d);
+  return d;
+}
+
+// Runs `limitline ARGS...` in the source folder with the source tree's data (code tables).
+inline CliRun run_cli(const std::vector<std::string>& args, const std::string& suite = "cli") {
+  const auto dir = scratch_dir(suite);
+  std::string cmd = "cd " + shell_quote(LIMITLINE_SOURCE_DIR) + " && LIMITLINE_DATA_DIR=" +
+                    shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/data") + " " +
+                    shell_quote(LIMITLINE_EXE);
+  for (const auto& a : args) cmd += " " + shell_quote(a);
+  cmd += " < /dev/null > " + shell_quote((dir / "out").string()) + " 2> " +
+         shell_quote((dir / "err").string());
+  const int status = std::system(cmd.c_str());
+  REQUIRE(WIFEXITED(status));
+  CliRun r{WEXITSTATUS(status), slurp(dir / "out"), slurp(dir / "err")};
+  static const std::regex bad(R"((^|[^a-z])(nan|inf)([^a-z]|$))", std::regex::icase);
+  CHECK_FALSE(std::regex_search(r.out, bad));
+  CHECK_FALSE(std::regex_search(r.err, bad));
+  return r;
+}
+
+inline bool contains(const std::string& haystack, const std::string& needle) {
+  return haystack.find(needle) != std::string::npos;
+}
+
+}  // namespace limitline::test

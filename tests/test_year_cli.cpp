@@ -1,0 +1,140 @@
+// `limitline year` end to end: demo, formats, hourly file, batch mode and bad input.
+// Weather: tests/data/greensboro-nc-tmy3.csv and pvgis-tmy-45n-8e.csv (open data sets, see
+// tests/data/SOURCES.md). The unit files are invented scenarios of the test.
+#include "support/cli.hpp"
+
+#include <fstream>
+
+using limitline::test::contains;
+using limitline::test::run_cli;
+using limitline::test::scratch_dir;
+using limitline::test::slurp;
+
+namespace {
+
+std::filesystem::path write_unit(const std::string& name, const std::string& extra = "") {
+  const auto p = scratch_dir("year_cli") / name;
+  std::ofstream(p) << R"([site]
+name = "test school"
+elevation = "900ft"
+[air_handler]
+supply_airflow = "6000cfm"
+supply_air_temp = "55F"
+fan_heat = "1F"
+min_outdoor_air = "30%"
+return_air_temp = "75F"
+return_air_rh = "50%"
+)" << extra;
+  return p;
+}
+
+std::string data(const std::string& f) { return std::string(LIMITLINE_TEST_DATA_DIR) + "/" + f; }
+
+}  // namespace
+
+TEST_CASE("with no arguments year runs the embedded demo and ends with the cautions") {
+  const auto r = run_cli({"year"}, "year_cli");
+  CHECK(r.rc == 0);
+  CHECK(contains(r.out, "embedded invented demo"));
+  CHECK(contains(r.out, "perfect-changeover"));
+  CHECK(contains(r.out, "Best high-limit for this climate and unit"));
+  CHECK(contains(r.out, "authority having jurisdiction"));
+}
+
+TEST_CASE("json carries the results keyed by strategy name, references included") {
+  const auto unit = write_unit("json.toml");
+  const auto r = run_cli({"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"),
+                          "--format", "json"},
+                         "year_cli");
+  REQUIRE(r.rc == 0);
+  for (const char* key : {"\"results\"", "\"no-economizer\"", "\"perfect-changeover\"",
+                          "\"optimal-damper\"", "\"differential-enthalpy\"", "\"hours_enabled\"",
+                          "\"hours_economizing\"", "\"hours_free_cooling\"", "\"hours_integrated\"",
+                          "\"cooling_kwh\"", "\"latent_kwh\"", "\"heating_kwh\"", "\"harmful_hours\"",
+                          "\"harmful_kwh\"", "\"missed_hours\"", "\"missed_kwh\"",
+                          "\"savings_vs_no_economizer_kwh\"", "\"shortfall_vs_perfect_kwh\"",
+                          "\"cooling_ton_hours\"", "\"cooling_kbtu\"", "\"monthly\"", "\"cautions\""})
+    CHECK_MESSAGE(contains(r.out, key), key);
+}
+
+TEST_CASE("the weather mapping is printed at the top of the report") {
+  const auto unit = write_unit("map.toml");
+  const auto r = run_cli({"year", unit.string(), "--weather", data("pvgis-tmy-45n-8e.csv"), "--units", "si"},
+                         "year_cli");
+  REQUIRE(r.rc == 0);
+  // PVGIS layout (pvlib test data): T2m °C, RH %, SP Pa.
+  CHECK(contains(r.out, "'T2m'"));
+  CHECK(contains(r.out, "'SP'"));
+  CHECK(contains(r.out, "kWh"));
+}
+
+TEST_CASE("--hourly writes one row per weather hour with every strategy's decision") {
+  const auto unit = write_unit("hourly.toml");
+  const auto out = scratch_dir("year_cli") / "hours.csv";
+  const auto r = run_cli({"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"),
+                          "--hourly", out.string()},
+                         "year_cli");
+  REQUIRE(r.rc == 0);
+  const std::string csv = slurp(out);
+  std::size_t lines = 0;
+  for (char c : csv) lines += c == '\n';
+  CHECK(lines == 8761);
+  CHECK(contains(csv.substr(0, csv.find('\n')), "differential-dry-bulb:verdict"));
+  CHECK(contains(csv, ",harmful"));
+}
+
+TEST_CASE("--batch evaluates every weather file of a folder, in name order") {
+  const auto unit = write_unit("batch.toml");
+  const auto dir = scratch_dir("year_cli") / "sites";
+  std::filesystem::create_directories(dir);
+  std::filesystem::copy_file(data("greensboro-nc-tmy3.csv"), dir / "a-greensboro.csv",
+                             std::filesystem::copy_options::overwrite_existing);
+  std::filesystem::copy_file(data("pvgis-tmy-45n-8e.csv"), dir / "b-piedmont.csv",
+                             std::filesystem::copy_options::overwrite_existing);
+  const auto r = run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "csv"}, "year_cli");
+  REQUIRE(r.rc == 0);
+  const auto a = r.out.find("a-greensboro.csv");
+  const auto b = r.out.find("b-piedmont.csv");
+  CHECK(a != std::string::npos);
+  CHECK(b != std::string::npos);
+  CHECK(a < b);
+  // A bad file is reported by name and the run exits 2, the other sites still reported.
+  std::ofstream(dir / "c-broken.csv") << "not,a,weather,file\n1,2,3,4\n";
+  const auto bad = run_cli({"year", unit.string(), "--batch", dir.string()}, "year_cli");
+  CHECK(bad.rc == 2);
+  CHECK(contains(bad.out, "c-broken.csv"));
+  CHECK(contains(bad.out, "a-greensboro.csv"));
+  std::filesystem::remove(dir / "c-broken.csv");
+}
+
+TEST_CASE("bad input gets one line naming the problem and exit code 2") {
+  const auto unit = write_unit("bad.toml");
+  SUBCASE("missing weather file") {
+    const auto r = run_cli({"year", unit.string(), "--weather", "/nonexistent/w.csv"}, "year_cli");
+    CHECK(r.rc == 2);
+    CHECK(contains(r.err, "/nonexistent/w.csv"));
+  }
+  SUBCASE("no weather at all") {
+    const auto r = run_cli({"year", unit.string()}, "year_cli");
+    CHECK(r.rc == 2);
+    CHECK(contains(r.err, "--weather"));
+  }
+  SUBCASE("unknown demo") {
+    const auto r = run_cli({"year", "--demo", "atlantis"}, "year_cli");
+    CHECK(r.rc == 2);
+    CHECK(contains(r.err, "harbourside"));
+  }
+  SUBCASE("a sentinel value in the weather") {
+    const auto w = scratch_dir("year_cli") / "sentinel.csv";
+    std::ofstream(w) << "month,day,hour,Temperature (C),Dew point (C)\n1,1,0,5,2\n1,1,1,-9999,2\n";
+    const auto r = run_cli({"year", unit.string(), "--weather", w.string()}, "year_cli");
+    CHECK(r.rc == 2);
+    CHECK(contains(r.err, "sentinel.csv:3"));
+  }
+  SUBCASE("bad column override is a usage error") {
+    const auto r = run_cli({"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"),
+                            "--column", "colour=Red"},
+                           "year_cli");
+    CHECK(r.rc == 1);
+  }
+}
