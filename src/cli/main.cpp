@@ -16,6 +16,8 @@ using limitline::cli::Command;
 const Command kCommands[] = {
     {"state", "properties of one moist-air state, or of every row of a CSV file",
      limitline::cli::run_state},
+    {"code", "what an energy code allows for the high-limit, and verdicts for a unit",
+     limitline::cli::run_code},
 };
 
 void print_overview() {
