@@ -16,8 +16,8 @@ using limitline::cli::Command;
 const Command kCommands[] = {
     {"state", "properties of one moist-air state, or of every row of a CSV file",
      limitline::cli::run_state},
-    {"code", "what an energy code allows for the high-limit, and verdicts for a unit",
-     limitline::cli::run_code},
+    {"check", "what each high-limit strategy decides and costs at one outdoor condition",
+     limitline::cli::run_check},
 };
 
 void print_overview() {
