@@ -18,6 +18,8 @@ const Command kCommands[] = {
      limitline::cli::run_state},
     {"check", "what each high-limit strategy decides and costs at one outdoor condition",
      limitline::cli::run_check},
+    {"code", "what an energy code allows for the high-limit, and verdicts for a unit",
+     limitline::cli::run_code},
 };
 
 void print_overview() {
