@@ -1,0 +1,186 @@
+// limitline sensors: how each high-limit fares with the sensors it will actually have.
+#include "common.hpp"
+
+#include <limitline/report/sensors.hpp>
+#include <limitline/sensors.hpp>
+#include <limitline/year_job.hpp>
+
+#include <fmt/format.h>
+
+#include <atomic>
+#include <csignal>
+#include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <optional>
+#include <unistd.h>
+
+namespace limitline::cli {
+namespace {
+
+constexpr std::string_view kDetails =
+    "Runs many trials of the year. In each trial every sensor (outdoor dry-bulb, outdoor\n"
+    "humidity, return dry-bulb, return RH) reads the truth plus one persistent bias drawn from\n"
+    "its accuracy; the high-limit decides on those readings and the energy is that of the true\n"
+    "air. Per strategy: the spread over the trials of the annual shortfall against the perfect\n"
+    "changeover and of the harmful and missed hours, the chance it beats each other strategy,\n"
+    "and, for each strategy that reads a humidity sensor against each that reads dry-bulb\n"
+    "only, the humidity-sensor accuracy at which it stops being the better choice.\n\n"
+    "Accuracies come from the unit file's [sensors] table (typical commercial figures when it\n"
+    "has none): outdoor_dry_bulb = \"1F\", outdoor_rh = \"5%\" (or outdoor_dew_point,\n"
+    "outdoor_enthalpy), return_dry_bulb, return_rh, distribution = \"uniform\" | \"normal\".\n\n"
+    "The same seed gives the same results on any number of threads. Ctrl-C stops the run and\n"
+    "reports the trials that finished, marked partial (exit code 130).\n\n"
+    "Examples:\n"
+    "  limitline sensors\n"
+    "  limitline sensors unit.toml --weather site.csv --trials 2000 --seed 7\n"
+    "  limitline sensors unit.toml --sweep outdoor_rh=-10%:10%:1%\n"
+    "  limitline sensors unit.toml --format json --trials-csv trials.csv";
+
+constexpr std::size_t kMaxTrials = 100000;
+constexpr unsigned kMaxThreads = 256;
+constexpr int kInterruptedExit = 130;  // 128 + SIGINT, as shells report it
+
+// Set by the first Ctrl-C; a second one ends the process at once.
+std::atomic<bool> g_interrupted{false};
+static_assert(std::atomic<bool>::is_always_lock_free, "the signal handler needs a lock-free flag");
+
+extern "C" void on_interrupt(int) {
+  if (g_interrupted.exchange(true)) std::_Exit(kInterruptedExit);
+}
+
+// Installs the handler for the life of the command and restores the previous one after.
+class InterruptGuard {
+ public:
+  InterruptGuard() {
+    g_interrupted = false;
+    struct sigaction sa {};
+    sa.sa_handler = on_interrupt;
+    sigemptyset(&sa.sa_mask);
+    sigaction(SIGINT, &sa, &old_);
+  }
+  ~InterruptGuard() { sigaction(SIGINT, &old_, nullptr); }
+  InterruptGuard(const InterruptGuard&) = delete;
+  InterruptGuard& operator=(const InterruptGuard&) = delete;
+
+ private:
+  struct sigaction old_ {};
+};
+
+// "\r  trials: 430 of 1000" on stderr, redrawn when the whole percentage changes.
+struct ProgressLine {
+  std::string phase;
+  std::size_t last_percent = 101;
+  void operator()(std::string_view p, std::size_t done, std::size_t total) {
+    const std::size_t percent = total ? done * 100 / total : 100;
+    if (p == phase && percent == last_percent) return;
+    if (p != phase && !phase.empty() && last_percent != 100) std::fputc('\n', stderr);
+    phase = std::string(p);
+    last_percent = percent;
+    std::fprintf(stderr, "\r  %s: %zu of %zu", phase.c_str(), done, total);
+    if (done == total) std::fputc('\n', stderr);
+    std::fflush(stderr);
+  }
+};
+
+template <class T>
+T bounded(const po::variables_map& vm, const char* name, T lo, T hi) {
+  const T v = vm[name].as<T>();
+  if (v < lo || v > hi)
+    throw InputError(fmt::format("--{}: {} is outside the allowed range ({} to {})", name, v, lo, hi));
+  return v;
+}
+
+}  // namespace
+
+int run_sensors(const std::vector<std::string>& args) {
+  po::options_description options("options");
+  po::positional_options_description pos;
+  add_job_options(options, pos);
+  options.add_options()
+      ("trials", po::value<std::size_t>()->default_value(1000), "trials (1 to 100000)")
+      ("seed", po::value<std::uint64_t>()->default_value(1), "seed of the random biases")
+      ("threads", po::value<unsigned>()->default_value(0), "threads (0: all cores)")
+      ("trials-csv", po::value<std::string>(), "also write every trial's biases and results to this CSV file")
+      ("sweep", po::value<std::string>(),
+       "bias sweep of one sensor, SENSOR=FROM:TO:STEP, e.g. outdoor_rh=-10%:10%:1%")
+      ("break-even-trials", po::value<std::size_t>()->default_value(200),
+       "trials per accuracy in the break-even search (0: skip it)");
+  add_common_options(options, "text, json");
+  po::variables_map vm;
+  if (!parse_options(args, options, pos, "limitline sensors [UNIT.toml] [options]", kDetails, vm)) return 0;
+  const Common common = read_common(vm, {Format::text, Format::json});
+  const std::size_t trials = bounded<std::size_t>(vm, "trials", 1, kMaxTrials);
+  const std::size_t be_trials = bounded<std::size_t>(vm, "break-even-trials", 0, kMaxTrials);
+  const unsigned threads = bounded<unsigned>(vm, "threads", 0, kMaxThreads);
+  const std::uint64_t seed = vm["seed"].as<std::uint64_t>();
+
+  // Everything that can be wrong with the input is found before the long work starts.
+  const YearInputs in = load_year_inputs(job_source(vm), weather_overrides(vm));
+  const sensors::SensorSet set = sensors::read_sensors(in.unit.sensors ? &*in.unit.sensors : nullptr,
+                                                       in.unit.path, in.unit.units);
+  std::optional<sensors::SweepSpec> sweep_spec;
+  if (vm.count("sweep"))
+    sweep_spec = sensors::parse_sweep(vm["sweep"].as<std::string>(), set.outdoor_humidity,
+                                      common.units, "--sweep");
+  std::ofstream csv;
+  if (vm.count("trials-csv")) {
+    const std::string path = vm["trials-csv"].as<std::string>();
+    csv.open(path, std::ios::binary);
+    if (!csv) throw InputError(fmt::format("--trials-csv: cannot write '{}'", path));
+  }
+
+  const annual::Prepared prepared = prepare_year(in, true);
+  const sensors::Engine engine(prepared, in.strategies, set.outdoor_humidity);
+
+  const InterruptGuard guard;
+  sensors::RunControl control;
+  control.threads = threads;
+  control.cancel = &g_interrupted;
+  if (isatty(fileno(stderr))) control.progress = ProgressLine{};
+
+  sensors::StudyOptions study_options;
+  study_options.trials = trials;
+  study_options.seed = seed;
+  const sensors::StudyResult study = sensors::run_study(engine, set, study_options, control);
+
+  std::optional<sensors::BreakEvenResult> be;
+  if (be_trials > 0 && !g_interrupted) {
+    sensors::BreakEvenOptions o;
+    o.trials = std::min(be_trials, trials);
+    o.seed = seed;
+    be = sensors::break_even(engine, set, o, control);
+  }
+  std::optional<sensors::SweepResult> sweep;
+  if (sweep_spec && !g_interrupted) sweep = sensors::run_sweep(prepared, in.strategies, *sweep_spec, control);
+
+  const bool interrupted = g_interrupted.load();
+  std::string note;
+  if (interrupted) {
+    note = fmt::format("PARTIAL RESULTS: interrupted; {} of {} trials finished and every figure "
+                       "is over those",
+                       study.trials_completed(), study.trials_requested);
+    if (be_trials > 0 && (!be || be->partial)) note += "; the break-even search did not finish";
+    if (sweep_spec && (!sweep || sweep->partial)) note += "; the bias sweep did not finish";
+  }
+
+  const report::YearContext ctx = year_context(in, common.units);
+  report::SensorsReport rep;
+  rep.context = &ctx;
+  rep.study = &study;
+  rep.break_even = be ? &*be : nullptr;
+  rep.sweep = sweep ? &*sweep : nullptr;
+  rep.uses_humidity = engine.uses_humidity();
+  rep.interrupted_note = note;
+
+  if (csv.is_open()) {
+    report::write_trials_csv(csv, study, common.units);
+    csv.flush();
+    if (!csv) throw InputError(fmt::format("--trials-csv: cannot write '{}'", vm["trials-csv"].as<std::string>()));
+  }
+  write_out(common.format == Format::json ? report::sensors_json(rep) : report::sensors_text(rep));
+  if (interrupted) std::fprintf(stderr, "limitline sensors: interrupted; partial results written\n");
+  return interrupted ? kInterruptedExit : 0;
+}
+
+}  // namespace limitline::cli
