@@ -30,6 +30,7 @@ struct Command {
 // Declared by each src/cli/cmd_*.cpp.
 int run_state(const std::vector<std::string>& args);
 int run_check(const std::vector<std::string>& args);
+int run_year(const std::vector<std::string>& args);
 int run_sequence(const std::vector<std::string>& args);
 int run_code(const std::vector<std::string>& args);
 

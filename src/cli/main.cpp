@@ -18,6 +18,8 @@ const Command kCommands[] = {
      limitline::cli::run_state},
     {"check", "what each high-limit strategy decides and costs at one outdoor condition",
      limitline::cli::run_check},
+    {"year", "annual evaluation of every high-limit strategy for a unit and a weather year",
+     limitline::cli::run_year},
     {"sequence", "the economizer part of a sequence of operation, written from the unit file",
      limitline::cli::run_sequence},
     {"code", "what an energy code allows for the high-limit, and verdicts for a unit",
