@@ -233,6 +233,9 @@ double relative_humidity_from_humidity_ratio(double t_c, double w, double p_kpa)
 double dew_point_from_vapor_pressure_c(double pw_kpa) {
   // The margin lets saturated air at either end of the range, whose vapour pressure went
   // through a humidity ratio and back with rounding, keep its dew point.
+  if (pw_kpa == 0.0)
+    throw RangeError("perfectly dry air (vapour pressure 0) has no dew point; give a humidity "
+                     "above 0 (a dew point of -100 °C or more)");
   if (!(pw_kpa >= kPwsAtMinKpa * (1.0 - 1e-9) && pw_kpa <= kPwsAtMaxKpa * (1.0 + 1e-9)))
     throw RangeError(fmt::format("vapour pressure {:.6g} kPa has no dew point between -100 °C "
                                  "and 200 °C ({:.3g} kPa to {:.4g} kPa)",

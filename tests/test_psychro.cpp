@@ -219,6 +219,7 @@ TEST_CASE("a vapour pressure between the ice and water fits at 0 °C has its dew
 }
 
 TEST_CASE("dew point outside the fits is a RangeError") {
+  check_range_error([] { psy::dew_point_from_vapor_pressure_c(0.0); }, "dry air");
   check_range_error([] { psy::dew_point_from_vapor_pressure_c(1e-7); }, "no dew point");
   check_range_error([] { psy::dew_point_from_vapor_pressure_c(2000.0); }, "no dew point");
   check_range_error([] { psy::dew_point_from_vapor_pressure_c(kNaN); }, "no dew point");
