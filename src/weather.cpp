@@ -12,9 +12,9 @@
 #include <cctype>
 #include <charconv>
 #include <cmath>
+#include <cstdint>
 #include <cstring>
 #include <fstream>
-#include <span>
 #include <sstream>
 
 namespace limitline::weather {
@@ -41,11 +41,10 @@ struct QuantityInfo {
 constexpr QuantityInfo kQuantities[] = {
     {Quantity::dry_bulb, "dry_bulb", "dry-bulb",
      "drybulb|drybulbtemperature|drybulbtemp|temperature|temp|t2m|airtemperature|airtemp|"
-     "tdry|tdb|dbt",
+     "tdry|tdb|dbt|t|tair",
      true, Kind::temperature},
     {Quantity::dew_point, "dew_point", "dew point",
-     "dewpoint|dewpointtemperature|dewpointtemp|dewpt|tdew|td|d2m|t2mdew", true,
-     Kind::temperature},
+     "dewpoint|dewpointtemperature|dewpointtemp|dewpt|tdew|td|d2m|t2mdew", true, Kind::temperature},
     {Quantity::relative_humidity, "relative_humidity", "relative humidity",
      "relativehumidity|rh|rhum|relhum|rh2m", true, Kind::fraction},
     {Quantity::wet_bulb, "wet_bulb", "wet-bulb",
@@ -54,7 +53,7 @@ constexpr QuantityInfo kQuantities[] = {
      true, Kind::humidity_ratio},
     {Quantity::pressure, "pressure", "pressure",
      "pressure|stationpressure|sp|surfacepressure|atmosphericpressure|barometricpressure|"
-     "airpressure|ps|pres|stnpres",
+     "airpressure|ps|pres|stnpres|p",
      true, Kind::pressure},
     {Quantity::timestamp, "timestamp", "timestamp", "timestamp|datetime|dateandtime|datetimeutc",
      false, Kind::temperature},
@@ -111,20 +110,22 @@ constexpr HeaderUnit kHeaderUnits[] = {
 // in [lo, hi] and the file's largest value in [max_lo, max_hi].
 struct Plausible {
   Kind kind;
+  std::string_view word;  // "a ... unit"
   double lo, hi, max_lo, max_hi;
   std::string_view why;
 };
 constexpr Plausible kPlausible[] = {
     // Air temperatures recorded on Earth span about −89 °C to 57 °C (from memory); the
     // warmest hour of any year at a site with an economizer is above 5 °C.
-    {Kind::temperature, -90.0, 60.0, 5.0, 60.0, "the range of air temperatures on Earth"},
+    {Kind::temperature, "temperature", -90.0, 60.0, 5.0, 60.0,
+     "the range of air temperatures on Earth"},
     // Eq. 3 gives about 107 kPa at −500 m and 50 kPa at 5500 m; weather adds a few kPa.
-    {Kind::pressure, 48.0, 112.0, 48.0, 112.0,
+    {Kind::pressure, "pressure", 48.0, 112.0, 48.0, 112.0,
      "station pressures from below sea level to about 5500 m"},
-    {Kind::fraction, 0.0, 1.01, 0.3, 1.01, "relative humidity"},
+    {Kind::fraction, "relative-humidity", 0.0, 1.01, 0.3, 1.01, "relative humidity"},
     // A dew point of 35 °C, about the highest recorded (from memory), is 0.037 kg/kg at sea
     // level; a year whose most humid hour is below 0.002 kg/kg (−13 °C dew point) is not one.
-    {Kind::humidity_ratio, 0.0, 0.05, 0.002, 0.05, "outdoor humidity ratios"},
+    {Kind::humidity_ratio, "humidity-ratio", 0.0, 0.05, 0.002, 0.05, "outdoor humidity ratios"},
 };
 
 const Plausible& plausible(Kind k) {
@@ -219,29 +220,33 @@ std::string quoted_list(const std::vector<std::string>& items) {
 // kept whole, quotes included, so that it fails to read instead of losing the text.
 void split_views(std::string_view line, char delim, std::vector<std::string_view>& out) {
   out.clear();
-  const std::size_t n = line.size();
-  std::size_t i = 0;
+  const char* p = line.data();
+  const char* const end = p + line.size();
   for (;;) {
-    while (i < n && line[i] != delim && (line[i] == ' ' || line[i] == '\t')) ++i;
-    const std::size_t start = i;
-    if (i < n && line[i] == '"') {
-      std::size_t j = i + 1;
-      while (j < n && !(line[j] == '"' && !(j + 1 < n && line[j + 1] == '"')))
-        j += line[j] == '"' ? 2 : 1;
-      std::string_view field = line.substr(i + 1, std::min(j, n) - (i + 1));
-      i = j < n ? j + 1 : n;
-      while (i < n && line[i] != delim && (line[i] == ' ' || line[i] == '\t')) ++i;
-      if (i < n && line[i] != delim) {
-        while (i < n && line[i] != delim) ++i;
-        field = trim(line.substr(start, i - start));
+    while (p < end && (*p == ' ' || *p == '\t') && *p != delim) ++p;
+    if (p < end && *p == '"') {
+      const char* const start = p;
+      const char* q = p + 1;
+      while (q < end && !(*q == '"' && !(q + 1 < end && q[1] == '"'))) q += *q == '"' ? 2 : 1;
+      q = std::min(q, end);
+      std::string_view field(p + 1, static_cast<std::size_t>(q - (p + 1)));
+      p = q < end ? q + 1 : end;
+      while (p < end && *p != delim && (*p == ' ' || *p == '\t')) ++p;
+      if (p < end && *p != delim) {
+        while (p < end && *p != delim) ++p;
+        field = trim(std::string_view(start, static_cast<std::size_t>(p - start)));
       }
       out.push_back(field);
     } else {
-      while (i < n && line[i] != delim) ++i;
-      out.push_back(trim(line.substr(start, i - start)));
+      const char* q = p;
+      while (q < end && *q != delim) ++q;
+      const char* last = q;
+      while (last > p && is_space(last[-1])) --last;
+      out.emplace_back(p, static_cast<std::size_t>(last - p));
+      p = q;
     }
-    if (i >= n) break;
-    ++i;
+    if (p >= end) break;
+    ++p;
   }
 }
 
@@ -270,8 +275,8 @@ bool is_any_unit(std::string_view text) {
 Conversion conversion(const HeaderUnit& u) {
   if (u.canonical.empty()) return {1.0, 0.0, u.label};
   const auto at = [&](const char* number) {
-    return units::parse(u.kind, std::string(number) + std::string(u.canonical),
-                        units::System::si, "weather unit table");
+    return units::parse(u.kind, std::string(number) + std::string(u.canonical), units::System::si,
+                        "weather unit table");
   };
   const double zero = at("0");
   return {at("1") - zero, zero, u.label};
@@ -293,14 +298,7 @@ std::string_view first_unit(Kind kind) {
   return "";
 }
 
-std::string_view kind_word(Kind kind) {
-  switch (kind) {
-    case Kind::temperature: return "temperature";
-    case Kind::pressure: return "pressure";
-    case Kind::fraction: return "relative-humidity";
-    default: return "humidity-ratio";
-  }
-}
+std::string_view kind_word(Kind kind) { return plausible(kind).word; }
 
 // --- Header fields -------------------------------------------------------------------------
 
@@ -318,9 +316,8 @@ HeaderField parse_header_field(std::string text) {
     const char close = t[open] == '(' ? ')' : ']';
     const std::size_t end = t.find(close, open + 1);
     f.name = name_key(t.substr(0, open));
-    f.unit_text = std::string(trim(t.substr(open + 1, end == std::string_view::npos
-                                                          ? std::string_view::npos
-                                                          : end - open - 1)));
+    f.unit_text = std::string(trim(t.substr(
+        open + 1, end == std::string_view::npos ? std::string_view::npos : end - open - 1)));
   } else {
     // "Temp C", "pressure_hPa": a last word that is a unit is the unit.
     const std::size_t cut = t.find_last_of(" _");
@@ -343,7 +340,8 @@ struct HeaderMatch {
   HeaderMatch() { column.fill(-1); }
   int operator[](Quantity q) const { return column[idx(q)]; }
   int count() const {
-    return static_cast<int>(std::count_if(column.begin(), column.end(), [](int c) { return c >= 0; }));
+    return static_cast<int>(
+        std::count_if(column.begin(), column.end(), [](int c) { return c >= 0; }));
   }
 };
 
@@ -431,25 +429,12 @@ struct Zone {
 enum class DateForm { iso, ymd_slash, mdy, dmy, dmy_dot, compact };
 enum class ClockForm { hh_mm, hh_mm_ss, hhmm };
 
-constexpr std::string_view date_form_text(DateForm f) {
-  switch (f) {
-    case DateForm::iso: return "YYYY-MM-DD";
-    case DateForm::ymd_slash: return "YYYY/MM/DD";
-    case DateForm::mdy: return "MM/DD/YYYY";
-    case DateForm::dmy: return "DD/MM/YYYY";
-    case DateForm::dmy_dot: return "DD.MM.YYYY";
-    case DateForm::compact: return "YYYYMMDD";
-  }
-  return "";
-}
-constexpr std::string_view clock_form_text(ClockForm f) {
-  switch (f) {
-    case ClockForm::hh_mm: return "HH:MM";
-    case ClockForm::hh_mm_ss: return "HH:MM:SS";
-    case ClockForm::hhmm: return "HHMM";
-  }
-  return "";
-}
+// Names of the forms, in enum order, for the mapping lines.
+constexpr std::string_view kDateFormText[] = {"YYYY-MM-DD", "YYYY/MM/DD", "MM/DD/YYYY",
+                                              "DD/MM/YYYY", "DD.MM.YYYY", "YYYYMMDD"};
+constexpr std::string_view kClockFormText[] = {"HH:MM", "HH:MM:SS", "HHMM"};
+std::string_view date_form_text(DateForm f) { return kDateFormText[static_cast<int>(f)]; }
+std::string_view clock_form_text(ClockForm f) { return kClockFormText[static_cast<int>(f)]; }
 
 bool is_leap(int year) { return (year % 4 == 0 && year % 100 != 0) || year % 400 == 0; }
 
@@ -478,32 +463,56 @@ bool all_digits(std::string_view s) {
   return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) { return c >= '0' && c <= '9'; });
 }
 
+// Up to three groups of digits with one kind of separator between them ("2019-07-01",
+// "07/01/2019", "13:00:00", "20190701"), read in one pass: stamps are on every row.
+struct DigitGroups {
+  int value[3];
+  int width[3];
+  int count;
+  char separator;
+};
+
+bool digit_groups(std::string_view s, DigitGroups& g) {
+  g.count = 0;
+  g.separator = 0;
+  int v = 0, w = 0;
+  for (const char c : s) {
+    if (c >= '0' && c <= '9') {
+      if (++w > 8) return false;
+      v = v * 10 + (c - '0');
+      continue;
+    }
+    if (w == 0 || g.count == 2 || (g.separator != 0 && c != g.separator)) return false;
+    g.separator = c;
+    g.value[g.count] = v;
+    g.width[g.count++] = w;
+    v = w = 0;
+  }
+  if (w == 0) return false;
+  g.value[g.count] = v;
+  g.width[g.count++] = w;
+  return true;
+}
+
 bool parse_date(std::string_view s, bool day_first, Stamp& st, DateForm& form) {
-  if (s.size() == 8 && all_digits(s)) {
+  DigitGroups g;
+  if (!digit_groups(s, g)) return false;
+  if (g.count == 1) {
+    if (g.width[0] != 8) return false;
     form = DateForm::compact;
-    if (!read_uint(s.substr(0, 4), st.year) || !read_uint(s.substr(4, 2), st.month) ||
-        !read_uint(s.substr(6, 2), st.day))
-      return false;
+    st.year = g.value[0] / 10000, st.month = g.value[0] / 100 % 100, st.day = g.value[0] % 100;
     return valid_date(st);
   }
-  const std::size_t a = s.find_first_of("-/.");
-  if (a == std::string_view::npos) return false;
-  const char sep = s[a];
-  const std::size_t b = s.find(sep, a + 1);
-  if (b == std::string_view::npos) return false;
-  const std::string_view p0 = s.substr(0, a), p1 = s.substr(a + 1, b - a - 1),
-                         p2 = s.substr(b + 1);
-  int v0 = 0, v1 = 0, v2 = 0;
-  if (!read_uint(p0, v0) || !read_uint(p1, v1, 2) || !read_uint(p2, v2)) return false;
-  if (p0.size() == 4 && sep != '.') {
-    if (p2.size() > 2) return false;
+  if (g.count != 3 || g.width[1] > 2) return false;
+  const char sep = g.separator;
+  if (g.width[0] == 4 && g.width[2] <= 2 && (sep == '-' || sep == '/')) {
     form = sep == '-' ? DateForm::iso : DateForm::ymd_slash;
-    st.year = v0, st.month = v1, st.day = v2;
-  } else if (p2.size() == 4 && p0.size() <= 2) {
-    if (sep == '-') return false;
+    st.year = g.value[0], st.month = g.value[1], st.day = g.value[2];
+  } else if (g.width[2] == 4 && g.width[0] <= 2 && (sep == '/' || sep == '.')) {
     form = sep == '.' ? DateForm::dmy_dot : (day_first ? DateForm::dmy : DateForm::mdy);
     const bool dmy = form != DateForm::mdy;
-    st.year = v2, st.month = dmy ? v1 : v0, st.day = dmy ? v0 : v1;
+    st.year = g.value[2], st.month = dmy ? g.value[1] : g.value[0];
+    st.day = dmy ? g.value[0] : g.value[1];
   } else {
     return false;
   }
@@ -512,37 +521,45 @@ bool parse_date(std::string_view s, bool day_first, Stamp& st, DateForm& form) {
 
 // HH:MM, HH:MM:SS (seconds 00) or HHMM; 24:00 allowed (end of the day).
 bool parse_clock(std::string_view s, int& minute_of_day, ClockForm& form) {
-  int h = 0, m = 0, sec = 0;
-  if (s.size() == 4 && all_digits(s)) {
-    form = ClockForm::hhmm;
-    read_uint(s.substr(0, 2), h);
-    read_uint(s.substr(2, 2), m);
-  } else {
-    const std::size_t a = s.find(':');
-    if (a == std::string_view::npos || !read_uint(s.substr(0, a), h, 2)) return false;
-    std::string_view rest = s.substr(a + 1);
-    const std::size_t b = rest.find(':');
-    if (b == std::string_view::npos) {
-      form = ClockForm::hh_mm;
-      if (rest.size() != 2 || !read_uint(rest, m)) return false;
-    } else {
-      form = ClockForm::hh_mm_ss;
-      std::string_view secs = rest.substr(b + 1);
-      // Fractional seconds, if any, must be zero too ("13:00:00.000").
-      const std::size_t dot = secs.find('.');
-      if (dot != std::string_view::npos) {
-        const std::string_view frac = secs.substr(dot + 1);
-        if (!all_digits(frac) || frac.find_first_not_of('0') != std::string_view::npos)
-          return false;
-        secs = secs.substr(0, dot);
-      }
-      if (b != 2 || !read_uint(rest.substr(0, 2), m) || secs.size() != 2 ||
-          !read_uint(secs, sec))
-        return false;
-    }
+  // Fractional seconds, if any, must be zero too ("13:00:00.000").
+  if (const std::size_t dot = s.find('.'); dot != std::string_view::npos) {
+    const std::string_view frac = s.substr(dot + 1);
+    if (!all_digits(frac) || frac.find_first_not_of('0') != std::string_view::npos) return false;
+    s = s.substr(0, dot);
   }
-  if (h > 24 || m > 59 || sec != 0 || (h == 24 && m != 0)) return false;
+  DigitGroups g;
+  if (!digit_groups(s, g)) return false;
+  int h = 0, m = 0;
+  if (g.count == 1) {
+    if (g.width[0] != 4) return false;
+    form = ClockForm::hhmm;
+    h = g.value[0] / 100, m = g.value[0] % 100;
+  } else {
+    if (g.separator != ':' || g.width[0] > 2 || g.width[1] != 2) return false;
+    if (g.count == 3 && (g.width[2] != 2 || g.value[2] != 0)) return false;
+    form = g.count == 3 ? ClockForm::hh_mm_ss : ClockForm::hh_mm;
+    h = g.value[0], m = g.value[1];
+  }
+  if (h > 24 || m > 59 || (h == 24 && m != 0)) return false;
   minute_of_day = h * 60 + m;
+  return true;
+}
+
+// Consecutive rows mostly share their date: the last one read is kept with its text.
+struct DateCache {
+  std::string_view text;
+  Stamp stamp;
+  DateForm form = DateForm::iso;
+};
+
+bool parse_date(std::string_view s, bool day_first, Stamp& st, DateForm& form, DateCache& c) {
+  if (!c.text.empty() && s == c.text) {
+    st.year = c.stamp.year, st.month = c.stamp.month, st.day = c.stamp.day;
+    form = c.form;
+    return true;
+  }
+  if (!parse_date(s, day_first, st, form)) return false;
+  c = {s, st, form};
   return true;
 }
 
@@ -554,7 +571,8 @@ struct StampForm {
 
 // ISO 8601 ("2019-07-01T13:00", "2019-07-01 13:00:00Z", "...+01:00"), PVGIS
 // ("20190701:1300") or a date and a time separated by a space.
-bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone, StampForm& form) {
+bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone, StampForm& form,
+                 DateCache& cache) {
   std::string_view date, rest;
   if (s.size() >= 13 && s[8] == ':' && all_digits(s.substr(0, 8))) {
     date = s.substr(0, 8);
@@ -571,7 +589,9 @@ bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone, Stam
   if (!rest.empty() && (rest.back() == 'Z' || rest.back() == 'z')) {
     zone.clock = Clock::utc;
     rest.remove_suffix(1);
-  } else if (const std::size_t sign = rest.find_first_of("+-"); sign != std::string_view::npos) {
+  } else if (const std::size_t sign =
+                 rest.size() > 4 ? rest.find_first_of("+-", 4) : std::string_view::npos;
+             sign != std::string_view::npos) {
     std::string_view off = rest.substr(sign + 1);
     int oh = 0, om = 0;
     if (off.size() == 5 && off[2] == ':') {
@@ -586,7 +606,7 @@ bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone, Stam
     zone.offset_min = (rest[sign] == '-' ? -1 : 1) * (oh * 60 + om);
     rest = rest.substr(0, sign);
   }
-  return parse_date(date, day_first, st, form.date) &&
+  return parse_date(date, day_first, st, form.date, cache) &&
          parse_clock(trim(rest), st.minute, form.clock);
 }
 
@@ -607,6 +627,38 @@ bool is_sentinel(double v) {
   return false;
 }
 
+// Decimal numbers as weather files write them ("-12.5", "99870.0"): the digits as an integer
+// and one division by a power of ten. That is correctly rounded, as std::from_chars is, while
+// both operands are exact doubles (at most 15 digits, so below 2^53; powers up to 1e15).
+// Anything else (exponents, long numbers, words) is left to std::from_chars.
+bool fast_decimal(std::string_view s, double& v) {
+  constexpr double kPow10[] = {1e0, 1e1, 1e2,  1e3,  1e4,  1e5,  1e6,  1e7,
+                               1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15};
+  const char* p = s.data();
+  const char* const e = p + s.size();
+  const bool negative = p < e && *p == '-';
+  if (negative) ++p;
+  std::uint64_t mantissa = 0;
+  int digits = 0, decimals = 0;
+  bool point = false;
+  for (; p < e; ++p) {
+    const char c = *p;
+    if (c >= '0' && c <= '9') {
+      if (++digits > 15) return false;
+      mantissa = mantissa * 10 + static_cast<std::uint64_t>(c - '0');
+      decimals += point;
+    } else if (c == '.' && !point) {
+      point = true;
+    } else {
+      return false;
+    }
+  }
+  if (digits == 0) return false;
+  v = static_cast<double>(mantissa) / kPow10[decimals];
+  if (negative) v = -v;
+  return true;
+}
+
 Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_comma) {
   if (s.empty()) return Cell::empty;
   std::string_view n = s.front() == '+' ? s.substr(1) : s;
@@ -618,6 +670,7 @@ Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_com
     n = std::string_view(buf, n.size());
     used_comma = true;
   }
+  if (fast_decimal(n, v)) return is_sentinel(v) ? Cell::sentinel : Cell::ok;
   const auto r = std::from_chars(n.data(), n.data() + n.size(), v);
   if (r.ec == std::errc() && r.ptr == n.data() + n.size()) {
     if (std::isnan(v)) return Cell::marker;
@@ -636,12 +689,12 @@ enum Slot : std::size_t { kDry = 0, kHumidity = 1, kPressure = 2 };
 
 struct Row {
   int line;
-  Stamp stamp;                               // as written
+  Stamp stamp;  // as written
   std::array<double, 3> raw{};
   std::array<Cell, 3> cell{};
   std::array<std::string_view, 3> text{};
-  int month = 0, day = 0, hour = 0;  // of the interval's start, after the convention
-  double position = 0.0;             // time steps from the first row, gaps included
+  int month = 0, day = 0, hour = 0, minute = 0;  // of the interval's start, after the convention
+  double position = 0.0;                         // time steps from the first row, gaps included
 };
 
 struct LineSpan {
@@ -665,7 +718,11 @@ std::vector<LineSpan> split_lines(std::string_view text) {
   return lines;
 }
 
-bool blank(std::string_view s) { return trim(s).empty(); }
+bool blank(std::string_view s) {
+  for (char c : s)
+    if (!is_space(c)) return false;
+  return true;
+}
 
 class Reader {
  public:
@@ -677,6 +734,11 @@ class Reader {
   }
 
   WeatherSeries run() {
+    if (std::all_of(lines_.begin(), lines_.end(), [](const LineSpan& l) { return blank(l.text); }))
+      throw InputError(
+          fmt::format("{}: the weather file is empty; allowed: a header line and "
+                      "data rows",
+                      src()));
     find_header();
     choose_columns();
     read_rows();
@@ -705,6 +767,7 @@ class Reader {
   std::array<Conversion, 3> conv_{};
   std::vector<Row> rows_;
   std::size_t table_end_ = 0;  // index of the first line after the table
+  mutable DateCache date_cache_;
 
   const std::string& src() const { return out_.info.source; }
 
@@ -745,14 +808,14 @@ class Reader {
       if (m.count() > best_count) {
         best_count = m.count();
         best_line = lines_[i].number;
-        best_lacks = !dry && !t.ok() ? "a dry-bulb column and time columns"
-                     : !dry         ? "a dry-bulb column"
-                                    : "time columns";
+        best_lacks = !dry && !t.ok() ? "neither a dry-bulb column nor time columns"
+                     : !dry          ? "no dry-bulb column"
+                                     : "no time columns";
       }
     }
-    std::string closest =
-        best_line > 0 ? fmt::format("; the closest, line {}, has no {}", best_line, best_lacks)
-                      : std::string();
+    std::string closest = best_line > 0
+                              ? fmt::format("; the closest, line {}, has {}", best_line, best_lacks)
+                              : std::string();
     throw InputError(fmt::format(
         "{}: no header line found: no line names both a dry-bulb column (e.g. 'Dry-bulb', "
         "'Temperature', 'Temp', 'T2m') and time columns (a timestamp, a date and a time, or "
@@ -782,20 +845,23 @@ class Reader {
     for (const QuantityInfo& q : kQuantities) {
       const ColumnOverride& o = mapping_.column(q.quantity);
       if (o.column && match_[q.quantity] < 0)
-        throw InputError(fmt::format(
-            "{}: column '{}' given for {} is not in the header of {} (line {}: {})",
-            o.origin.empty() ? std::string("the weather mapping") : o.origin, *o.column,
-            q.label, src(), header_line, quoted_list(header_texts())));
+        throw InputError(
+            fmt::format("{}: column '{}' given for {} is not in the header of {} (line {}: {})",
+                        o.origin.empty() ? std::string("the weather mapping") : o.origin, *o.column,
+                        q.label, src(), header_line, quoted_list(header_texts())));
     }
 
     // Time columns, in the order they are read.
     const std::pair<int, Quantity> time_parts[] = {
         {time_.stamp, match_[Quantity::timestamp] == time_.stamp ? Quantity::timestamp
-                      : match_[Quantity::date] == time_.stamp     ? Quantity::date
-                                                                  : Quantity::time},
-        {time_.date, Quantity::date},   {time_.year, Quantity::year},
-        {time_.month, Quantity::month}, {time_.day, Quantity::day},
-        {time_.clock, Quantity::time},  {time_.hour, Quantity::hour},
+                      : match_[Quantity::date] == time_.stamp    ? Quantity::date
+                                                                 : Quantity::time},
+        {time_.date, Quantity::date},
+        {time_.year, Quantity::year},
+        {time_.month, Quantity::month},
+        {time_.day, Quantity::day},
+        {time_.clock, Quantity::time},
+        {time_.hour, Quantity::hour},
         {time_.minute, Quantity::minute}};
     std::vector<std::string> names;
     for (const auto& [column, q] : time_parts) {
@@ -807,8 +873,7 @@ class Reader {
       if (icontains(h, "dd/mm")) day_first_ = true;
       inf.columns.push_back(std::move(u));
     }
-    for (std::size_t i = 0; i < names.size(); ++i)
-      inf.time.columns += (i ? " + " : "") + names[i];
+    for (std::size_t i = 0; i < names.size(); ++i) inf.time.columns += (i ? " + " : "") + names[i];
 
     slot_column_[kDry] = match_[Quantity::dry_bulb];
     inf.columns.push_back(use_of(Quantity::dry_bulb));
@@ -856,8 +921,8 @@ class Reader {
       try {
         psychro::check_pressure(site_pressure_, "site pressure");
       } catch (const RangeError& e) {
-        throw InputError(fmt::format("{}: the file has no pressure column and the {}", src(),
-                                     e.what()));
+        throw InputError(
+            fmt::format("{}: the file has no pressure column and the {}", src(), e.what()));
       }
     }
   }
@@ -874,7 +939,7 @@ class Reader {
       return c < static_cast<int>(f.size()) ? f[static_cast<std::size_t>(c)] : std::string_view();
     };
     if (time_.stamp >= 0) {
-      if (!parse_stamp(field(time_.stamp), day_first_, st, zone, form))
+      if (!parse_stamp(field(time_.stamp), day_first_, st, zone, form, date_cache_))
         return {time_.stamp,
                 "a date and time such as 2019-07-01T13:00, 2019-07-01 13:00:00Z, "
                 "07/01/2019 13:00 or 20190701:1300"};
@@ -882,7 +947,7 @@ class Reader {
     }
     zone = {};
     if (time_.date >= 0) {
-      if (!parse_date(field(time_.date), day_first_, st, form.date))
+      if (!parse_date(field(time_.date), day_first_, st, form.date, date_cache_))
         return {time_.date,
                 "a date as YYYY-MM-DD, YYYY/MM/DD, MM/DD/YYYY (DD/MM/YYYY when the header "
                 "says so), DD.MM.YYYY or YYYYMMDD"};
@@ -901,8 +966,8 @@ class Reader {
     } else {
       int h = 0, m = 0;
       if (!read_uint(field(time_.hour), h, 2) || h > 24) return {time_.hour, "an hour 0 to 24"};
-      if (time_.minute >= 0 && (!read_uint(field(time_.minute), m, 2) || m > 59 ||
-                                (h == 24 && m != 0)))
+      if (time_.minute >= 0 &&
+          (!read_uint(field(time_.minute), m, 2) || m > 59 || (h == 24 && m != 0)))
         return {time_.minute, "a minute 0 to 59 (0 with hour 24)"};
       st.minute = h * 60 + m;
     }
@@ -918,9 +983,9 @@ class Reader {
     const std::string date =
         time_.date >= 0 ? std::string(date_form_text(f.date))
                         : (time_.year >= 0 ? "year, month, day columns" : "month, day columns");
-    const std::string clock =
-        time_.clock >= 0 ? std::string(clock_form_text(f.clock))
-                         : (time_.minute >= 0 ? "hour, minute columns" : "hour column");
+    const std::string clock = time_.clock >= 0
+                                  ? std::string(clock_form_text(f.clock))
+                                  : (time_.minute >= 0 ? "hour, minute columns" : "hour column");
     return date + " + " + clock;
   }
 
@@ -977,8 +1042,7 @@ class Reader {
     table_end_ = i;
     out_.info.decimal_comma = used_comma;
     out_.info.rows_read = static_cast<int>(rows_.size());
-    if (rows_.empty())
-      fail_at(out_.info.header_line, "the header is followed by no data rows");
+    if (rows_.empty()) fail_at(out_.info.header_line, "the header is followed by no data rows");
   }
 
   // Nothing after the end of the table may look like data: it would be lost silently.
@@ -1036,9 +1100,10 @@ class Reader {
     }
     if (step == 0) step = 60;
     if (60 % step != 0)
-      throw InputError(fmt::format("{}: time step {} min; allowed: 60 min or a whole fraction "
-                                   "of an hour (1, 2, 3, 4, 5, 6, 10, 12, 15, 20 or 30 min)",
-                                   src(), step));
+      throw InputError(
+          fmt::format("{}: time step {} min; allowed: 60 min or a whole fraction "
+                      "of an hour (1, 2, 3, 4, 5, 6, 10, 12, 15, 20 or 30 min)",
+                      src(), step));
     ti.step_min = step;
     ti.weight_h = step / 60.0;
 
@@ -1059,8 +1124,9 @@ class Reader {
         break;
       case TimeConvention::hour_beginning:
         if (has_24)
-          fail_at(first_24, "time 24:00 cannot start an interval (time_convention = "
-                            "\"hour-beginning\"); allowed: 00:00 to 23:59");
+          fail_at(first_24,
+                  "time 24:00 cannot start an interval (time_convention = "
+                  "\"hour-beginning\"); allowed: 00:00 to 23:59");
         ti.convention_overridden = true;
         break;
       case TimeConvention::hour_ending:
@@ -1099,12 +1165,14 @@ class Reader {
       r.month = s.month;
       r.day = s.day;
       r.hour = s.minute / 60;
+      r.minute = s.minute % 60;
       if (r.month == 2 && r.day == 29) ++ti.leap_day_rows;
     }
 
     // Typical years: each month from a different year, so time jumps at month boundaries.
     for (std::size_t b = 0; b < blocks.size(); ++b) {
-      if (blocks[b].year > 0) ti.month_year[static_cast<std::size_t>(blocks[b].month - 1)] = blocks[b].year;
+      if (blocks[b].year > 0)
+        ti.month_year[static_cast<std::size_t>(blocks[b].month - 1)] = blocks[b].year;
       if (b == 0 || blocks[b].year == 0) continue;
       const Block& p = blocks[b - 1];
       const Block& c = blocks[b];
@@ -1170,23 +1238,24 @@ class Reader {
     }
     if (fits.size() == 1) {
       u.unit_found = UnitFound::inferred;
-      u.unit_origin = fmt::format("no unit in the header; values {:g} to {:g} are plausible "
-                                  "only in {}",
-                                  lo, hi, fits[0]->label);
+      u.unit_origin = fmt::format(
+          "no unit in the header; values {:g} to {:g} are plausible "
+          "only in {}",
+          lo, hi, fits[0]->label);
       return conversion(*fits[0]);
     }
     std::string which;
     for (const HeaderUnit* h : fits) which += (which.empty() ? "" : ", ") + std::string(h->help);
-    const std::string values = lo <= hi ? fmt::format("its values ({:g} to {:g}) ", lo, hi)
-                                        : std::string("it has no readable values and ");
+    const std::string found =
+        lo > hi        ? std::string("no readable values to infer one from")
+        : fits.empty() ? fmt::format("its values ({:g} to {:g}) fit no {} unit ({})", lo, hi,
+                                     kind_word(kind), pl.why)
+                       : fmt::format("its values ({:g} to {:g}) fit {} alike", lo, hi, which);
     throw InputError(fmt::format(
-        "{}:{}: column '{}' has no unit in the header and {}{}; allowed: a unit in the header "
-        "or in [weather], e.g. {} = {{ unit = \"{}\" }} (units: {})",
-        src(), out_.info.header_line, u.header, values,
-        fits.empty() ? fmt::format("fit no {} unit ({})", kind_word(kind), pl.why)
-                     : fmt::format("fit {} alike", which),
-        info(u.quantity).key, fits.empty() ? first_unit(kind) : fits[0]->help,
-        allowed_units(kind)));
+        "{}:{}: column '{}' has no unit in the header and {}; allowed: a unit in the header or "
+        "in [weather], e.g. {} = {{ unit = \"{}\" }} (units: {})",
+        src(), out_.info.header_line, u.header, found, info(u.quantity).key,
+        fits.empty() ? first_unit(kind) : fits[0]->help, allowed_units(kind)));
   }
 
   void resolve_units() {
@@ -1206,8 +1275,8 @@ class Reader {
         const HeaderUnit* hu = find_unit(kind, *o.unit);
         if (!hu)
           throw InputError(fmt::format("{}: unit '{}' given for {} is not a {} unit (allowed: {})",
-                                       o.origin.empty() ? "the weather mapping" : o.origin,
-                                       *o.unit, info(u.quantity).label, kind_word(kind),
+                                       o.origin.empty() ? "the weather mapping" : o.origin, *o.unit,
+                                       info(u.quantity).label, kind_word(kind),
                                        allowed_units(kind)));
         c = conversion(*hu);
         u.unit_found = UnitFound::override;
@@ -1277,7 +1346,8 @@ class Reader {
   }
 
   // Resolves a row to a state; on a bad row returns the slot at fault and the reason.
-  bool resolve(const Row& r, State& s, bool& capped, std::size_t& bad_slot, std::string& why) const {
+  bool resolve(const Row& r, State& s, bool& capped, std::size_t& bad_slot,
+               std::string& why) const {
     capped = false;
     bad_slot = kDry;
     if (!value(r, kDry, s.t, why)) return false;
@@ -1308,9 +1378,10 @@ class Reader {
           const bool dew = out_.info.humidity == HumiditySource::dew_point;
           const char* what = dew ? "dew point" : "wet-bulb";
           if (h > s.t + kTemperatureToleranceK) {
-            why = fmt::format("is a {} of {:.4g} °C, above the dry-bulb {:.4g} °C; allowed: up "
-                              "to the dry-bulb (up to {:.2f} K above is read as saturation)",
-                              what, h, s.t, kTemperatureToleranceK);
+            why = fmt::format(
+                "is a {} of {:.4g} °C, above the dry-bulb {:.4g} °C; allowed: up "
+                "to the dry-bulb (up to {:.2f} K above is read as saturation)",
+                what, h, s.t, kTemperatureToleranceK);
             return false;
           }
           if (h > s.t) h = s.t, capped = true;
@@ -1320,9 +1391,10 @@ class Reader {
         }
         case HumiditySource::relative_humidity: {
           if (h < 0.0 || h > 1.0 + kRelativeHumidityTolerance) {
-            why = fmt::format("is {:.4g} % relative humidity; allowed 0 % to 100 % (up to {:g} % "
-                              "is read as 100 %)",
-                              h * 100.0, 100.0 * (1.0 + kRelativeHumidityTolerance));
+            why = fmt::format(
+                "is {:.4g} % relative humidity; allowed 0 % to 100 % (up to {:g} % "
+                "is read as 100 %)",
+                h * 100.0, 100.0 * (1.0 + kRelativeHumidityTolerance));
             return false;
           }
           if (h > 1.0) h = 1.0, capped = true;
@@ -1332,9 +1404,10 @@ class Reader {
         case HumiditySource::humidity_ratio: {
           const double ws = psychro::saturation_humidity_ratio(s.t, s.p);
           if (h < 0.0 || h > ws * (1.0 + kHumidityRatioTolerance)) {
-            why = fmt::format("is {:.5g} kg/kg; allowed 0 to saturation, {:.5g} kg/kg at {:.4g} "
-                              "°C and {:.5g} kPa (up to 1 % above is read as saturation)",
-                              h, ws, s.t, s.p);
+            why = fmt::format(
+                "is {:.5g} kg/kg; allowed 0 to saturation, {:.5g} kg/kg at {:.4g} "
+                "°C and {:.5g} kPa (up to 1 % above is read as saturation)",
+                h, ws, s.t, s.p);
             return false;
           }
           if (h > ws) h = ws, capped = true;
@@ -1375,9 +1448,10 @@ class Reader {
       ++(mapping_.on_bad_row == BadRowPolicy::skip ? mc.skipped : mc.filled);
     }
     if (good == 0)
-      throw InputError(fmt::format("{}: none of the {} data rows (lines {} to {}) has usable "
-                                   "values; allowed: at least one",
-                                   src(), n, inf.first_data_line, inf.last_data_line));
+      throw InputError(
+          fmt::format("{}: none of the {} data rows (lines {} to {}) has usable "
+                      "values; allowed: at least one",
+                      src(), n, inf.first_data_line, inf.last_data_line));
     if (mapping_.on_bad_row == BadRowPolicy::fill) fill(states, bad);
 
     // Feb 29 shifts the later days of the year only when the file has it.
@@ -1393,6 +1467,7 @@ class Reader {
       h.month = r.month;
       h.day = r.day;
       h.hour = r.hour;
+      h.minute = r.minute;
       h.day_of_year = cumulative[r.month - 1] + r.day - 1;
       h.weight_h = inf.time.weight_h;
       h.dry_bulb_c = states[i].t;
@@ -1444,7 +1519,8 @@ Enum parse_name(const std::array<std::pair<Enum, std::string_view>, N>& names,
   for (const auto& [value, name] : names)
     if (iequals(trim(text), name)) return value;
   std::string allowed;
-  for (const auto& [value, name] : names) allowed += (allowed.empty() ? "" : ", ") + std::string(name);
+  for (const auto& [value, name] : names)
+    allowed += (allowed.empty() ? "" : ", ") + std::string(name);
   throw InputError(fmt::format("{}: '{}' is not {} (allowed: {})", origin, text, what, allowed));
 }
 
@@ -1520,20 +1596,22 @@ const ColumnUse* WeatherInfo::find(Quantity q) const {
   return nullptr;
 }
 
-WeatherSeries read_text(std::string_view text, std::string_view source_name,
-                        const Mapping& mapping, double site_pressure_kpa) {
+WeatherSeries read_text(std::string_view text, std::string_view source_name, const Mapping& mapping,
+                        double site_pressure_kpa) {
   return Reader(text, source_name, mapping, site_pressure_kpa).run();
 }
 
 WeatherSeries read_file(const std::filesystem::path& path, const Mapping& mapping,
                         double site_pressure_kpa) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(path, ec))
+    throw InputError(fmt::format("{}: is a folder; allowed: a weather CSV file", path.string()));
   std::ifstream in(path, std::ios::binary);
   if (!in)
-    throw InputError(fmt::format("{}: cannot open the weather file ({})", path.string(),
-                                 std::strerror(errno)));
+    throw InputError(
+        fmt::format("{}: cannot open the weather file ({})", path.string(), std::strerror(errno)));
   std::ostringstream buffer;
   buffer << in.rdbuf();
-  if (in.bad()) throw InputError(fmt::format("{}: cannot read the weather file", path.string()));
   return read_text(buffer.str(), path.filename().string(), mapping, site_pressure_kpa);
 }
 
@@ -1557,7 +1635,8 @@ Mapping read_mapping(const toml::table& table, std::string_view file_name) {
     } else if (k == "humidity") {
       m.humidity = parse_humidity_source(text_of(node, origin, k), origin + ": [weather] humidity");
     } else if (k == "on_bad_row") {
-      m.on_bad_row = parse_bad_row_policy(text_of(node, origin, k), origin + ": [weather] on_bad_row");
+      m.on_bad_row =
+          parse_bad_row_policy(text_of(node, origin, k), origin + ": [weather] on_bad_row");
     } else if (k == "time_convention") {
       m.time_convention =
           parse_time_convention(text_of(node, origin, k), origin + ": [weather] time_convention");
@@ -1565,9 +1644,10 @@ Mapping read_mapping(const toml::table& table, std::string_view file_name) {
       const toml::table* sub = node.as_table();
       const bool has_unit = info(*q).has_unit;
       if (!sub)
-        throw InputError(fmt::format("{}: [weather] {} must be a table, e.g. {} = {{ column = "
-                                     "\"...\"{} }}",
-                                     origin, k, k, has_unit ? ", unit = \"...\"" : ""));
+        throw InputError(
+            fmt::format("{}: [weather] {} must be a table, e.g. {} = {{ column = "
+                        "\"...\"{} }}",
+                        origin, k, k, has_unit ? ", unit = \"...\"" : ""));
       ColumnOverride& o = m.column(*q);
       o.origin = origin;
       for (auto&& [sub_key, sub_node] : *sub) {
@@ -1583,9 +1663,9 @@ Mapping read_mapping(const toml::table& table, std::string_view file_name) {
                                          allowed_units(info(*q).kind)));
           o.unit = unit;
         } else {
-          throw InputError(fmt::format("{}: [weather] key '{}' is not known (allowed: {})",
-                                       sub_origin, name,
-                                       has_unit ? "column, unit" : "column; a time column has no unit"));
+          throw InputError(
+              fmt::format("{}: [weather] key '{}' is not known (allowed: {})", sub_origin, name,
+                          has_unit ? "column, unit" : "column; a time column has no unit"));
         }
       }
     } else {
@@ -1603,17 +1683,29 @@ Mapping read_mapping(const toml::table& table, std::string_view file_name) {
 namespace {
 
 std::string found_text(const ColumnUse& c) {
-  const std::string column = c.found == ColumnFound::override
-                                 ? fmt::format("column set by {}", c.unit_origin.empty() ? "the mapping" : c.unit_origin)
-                                 : std::string("found by header");
+  const std::string column =
+      c.found == ColumnFound::override
+          ? fmt::format("column set by {}", c.unit_origin.empty() ? "the mapping" : c.unit_origin)
+          : std::string("found by header");
   std::string unit;
   switch (c.unit_found) {
-    case UnitFound::none: break;
-    case UnitFound::header: unit = c.found == ColumnFound::header_name ? "" : "unit from header"; break;
-    case UnitFound::legend: unit = "unit from legend " + c.unit_origin; break;
-    case UnitFound::override: unit = "unit set by " + (c.unit_origin.empty() ? std::string("the mapping") : c.unit_origin); break;
-    case UnitFound::inferred: unit = "unit inferred: " + c.unit_origin; break;
-    case UnitFound::same_as_dry_bulb: unit = "no unit in the header: same as the dry-bulb"; break;
+    case UnitFound::none:
+      break;
+    case UnitFound::header:
+      unit = c.found == ColumnFound::header_name ? "" : "unit from header";
+      break;
+    case UnitFound::legend:
+      unit = "unit from legend " + c.unit_origin;
+      break;
+    case UnitFound::override:
+      unit = "unit set by " + (c.unit_origin.empty() ? std::string("the mapping") : c.unit_origin);
+      break;
+    case UnitFound::inferred:
+      unit = "unit inferred: " + c.unit_origin;
+      break;
+    case UnitFound::same_as_dry_bulb:
+      unit = "no unit in the header: same as the dry-bulb";
+      break;
   }
   std::string out = column;
   if (!unit.empty()) out += "; " + unit;
@@ -1637,18 +1729,18 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
   int rows = 0;
   for (const MonthCounts& m : inf.months) rows += m.rows;
   const std::string delim = inf.delimiter == '\t' ? "tab" : fmt::format("'{}'", inf.delimiter);
-  lines.push_back(fmt::format("weather: {}, {} rows (lines {} to {}; header on line {}; "
-                              "delimiter {}{})",
-                              inf.source, rows, inf.first_data_line, inf.last_data_line,
-                              inf.header_line, delim,
-                              inf.decimal_comma ? ", decimal comma" : ""));
+  lines.push_back(
+      fmt::format("weather: {}, {} rows (lines {} to {}; header on line {}; "
+                  "delimiter {}{})",
+                  inf.source, rows, inf.first_data_line, inf.last_data_line, inf.header_line, delim,
+                  inf.decimal_comma ? ", decimal comma" : ""));
 
   const TimeInfo& t = inf.time;
-  std::string clock = t.clock == Clock::utc      ? "UTC clock (hours of the day are UTC)"
-                      : t.clock == Clock::offset ? fmt::format("clock at UTC{:+03}:{:02}, used as written",
-                                                               t.utc_offset_min / 60,
-                                                               std::abs(t.utc_offset_min) % 60)
-                                                 : "local clock";
+  std::string clock = t.clock == Clock::utc ? "UTC clock (hours of the day are UTC)"
+                      : t.clock == Clock::offset
+                          ? fmt::format("clock at UTC{:+03}:{:02}, used as written",
+                                        t.utc_offset_min / 60, std::abs(t.utc_offset_min) % 60)
+                          : "local clock";
   std::string convention =
       t.hour_ending ? (t.convention_overridden
                            ? "hour-ending stamps (set by the mapping) read as hour-beginning hours"
@@ -1659,17 +1751,19 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
   for (const ColumnUse& c : inf.columns) {
     switch (c.quantity) {
       case Quantity::dry_bulb:
-        lines.push_back(fmt::format("dry-bulb: column '{}', {} ({})", c.header, c.unit, found_text(c)));
+        lines.push_back(
+            fmt::format("dry-bulb: column '{}', {} ({})", c.header, c.unit, found_text(c)));
         break;
       case Quantity::pressure:
-        lines.push_back(fmt::format("pressure: column '{}', {} ({})", c.header, c.unit, found_text(c)));
+        lines.push_back(
+            fmt::format("pressure: column '{}', {} ({})", c.header, c.unit, found_text(c)));
         break;
       case Quantity::dew_point:
       case Quantity::humidity_ratio:
       case Quantity::wet_bulb:
       case Quantity::relative_humidity: {
-        std::string line = fmt::format("humidity: {}, column '{}', {} ({}{})", quantity_label(c.quantity),
-                                       c.header, c.unit, found_text(c),
+        std::string line = fmt::format("humidity: {}, column '{}', {} ({}{})",
+                                       quantity_label(c.quantity), c.header, c.unit, found_text(c),
                                        inf.humidity_overridden ? "; chosen by the mapping" : "");
         if (!inf.unused_humidity.empty()) {
           line += "; not used:";
@@ -1679,16 +1773,17 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
         lines.push_back(line);
         break;
       }
-      default: break;
+      default:
+        break;
     }
   }
   if (!inf.pressure_from_file)
-    lines.push_back(fmt::format("pressure: {:.2f} kPa at every hour from the site (the file has "
-                                "no pressure column)",
-                                inf.site_pressure_kpa));
+    lines.push_back(
+        fmt::format("pressure: {:.2f} kPa at every hour from the site (the file has "
+                    "no pressure column)",
+                    inf.site_pressure_kpa));
 
-  lines.push_back(fmt::format("time step: {} min, each row weighs {:g} h{}", t.step_min,
-                              t.weight_h,
+  lines.push_back(fmt::format("time step: {} min, each row weighs {:g} h{}", t.step_min, t.weight_h,
                               t.missing_steps > 0
                                   ? fmt::format("; {} steps missing between rows", t.missing_steps)
                                   : std::string()));
@@ -1697,10 +1792,9 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
     for (std::size_t m = 0; m < 12; ++m)
       if (t.month_year[m] > 0)
         years += fmt::format("{}{} {}", years.empty() ? "" : ", ", kMonthNames[m], t.month_year[m]);
-    lines.push_back(fmt::format("typical year: months from different years ({}){}; accepted",
-                                years,
-                                t.months_out_of_order ? ", not in time order at month boundaries"
-                                                      : ""));
+    lines.push_back(
+        fmt::format("typical year: months from different years ({}){}; accepted", years,
+                    t.months_out_of_order ? ", not in time order at month boundaries" : ""));
   }
   if (t.leap_day_rows > 0)
     lines.push_back(fmt::format("leap day: Feb 29 present ({} rows), kept", t.leap_day_rows));
@@ -1709,7 +1803,8 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
   const std::string filled = month_list(inf.months, &MonthCounts::filled);
   const std::string capped = month_list(inf.months, &MonthCounts::capped);
   if (skipped.empty() && filled.empty())
-    lines.push_back(fmt::format("bad rows: none (on_bad_row = {})", bad_row_policy_name(inf.policy)));
+    lines.push_back(
+        fmt::format("bad rows: none (on_bad_row = {})", bad_row_policy_name(inf.policy)));
   if (!skipped.empty())
     lines.push_back(fmt::format("bad rows skipped: {} ({})", inf.skipped(), skipped));
   if (!filled.empty())

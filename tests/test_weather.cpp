@@ -84,8 +84,7 @@ bool has_line(const std::vector<std::string>& lines, const std::string& line) {
 }
 
 double rh_of(const wx::WeatherHour& h) {
-  return psy::relative_humidity_from_humidity_ratio(h.dry_bulb_c, h.humidity_ratio,
-                                                    h.pressure_kpa);
+  return psy::relative_humidity_from_humidity_ratio(h.dry_bulb_c, h.humidity_ratio, h.pressure_kpa);
 }
 
 constexpr const char* kMonths[] = {"Jan", "Feb", "Mar", "Apr", "May", "Jun",
@@ -137,13 +136,16 @@ TEST_CASE("Greensboro TMY3: layout, columns and units found") {
   for (int m = 0; m < 12; ++m) CHECK(i.months[m].rows == kDays[m] * 24);
 
   const std::vector<std::string> d = wx::describe(i);
-  CHECK(d[0] == "weather: greensboro-nc-tmy3.csv, 8760 rows (lines 3 to 8762; header on line "
-                "2; delimiter ',')");
-  CHECK(d[1] == "time: 'Date (MM/DD/YYYY)' + 'Time (HH:MM)', MM/DD/YYYY + HH:MM, local clock; "
-                "hour-ending stamps (24:00 present) read as hour-beginning hours 0-23");
+  CHECK(d[0] ==
+        "weather: greensboro-nc-tmy3.csv, 8760 rows (lines 3 to 8762; header on line "
+        "2; delimiter ',')");
+  CHECK(d[1] ==
+        "time: 'Date (MM/DD/YYYY)' + 'Time (HH:MM)', MM/DD/YYYY + HH:MM, local clock; "
+        "hour-ending stamps (24:00 present) read as hour-beginning hours 0-23");
   CHECK(has_line(d, "dry-bulb: column 'Dry-bulb (C)', °C (found by header)"));
-  CHECK(has_line(d, "humidity: dew point, column 'Dew-point (C)', °C (found by header); not "
-                    "used: 'RHum (%)'"));
+  CHECK(has_line(d,
+                 "humidity: dew point, column 'Dew-point (C)', °C (found by header); not "
+                 "used: 'RHum (%)'"));
   CHECK(has_line(d, "pressure: column 'Pressure (mbar)', mbar (found by header)"));
   CHECK(has_line(d, "time step: 60 min, each row weighs 1 h"));
   CHECK(has_line(d, "bad rows: none (on_bad_row = error)"));
@@ -277,17 +279,754 @@ TEST_CASE("PVGIS TMY: metadata lines, UTC stamps, legend units, every row") {
   CHECK(s.hours[0].humidity_ratio == doctest::Approx(0.004189192172).epsilon(1e-6));
 
   const std::vector<std::string> d = wx::describe(i);
-  CHECK(d[1] == "time: 'time(UTC)', YYYYMMDD:HHMM, UTC clock (hours of the day are UTC); "
-                "hour-beginning stamps");
+  CHECK(d[1] ==
+        "time: 'time(UTC)', YYYYMMDD:HHMM, UTC clock (hours of the day are UTC); "
+        "hour-beginning stamps");
   CHECK(has_line(d, "dry-bulb: column 'T2m', °C (found by header; unit from legend line 8780)"));
   CHECK(has_line(d, "pressure: column 'SP', Pa (found by header; unit from legend line 8788)"));
-  CHECK(has_line(d, "typical year: months from different years (Jan 2018, Feb 2007, Mar 2009, "
-                    "Apr 2013, May 2008, Jun 2006, Jul 2011, Aug 2010, Sep 2020, Oct 2006, Nov "
-                    "2007, Dec 2016), not in time order at month boundaries; accepted"));
+  CHECK(has_line(d,
+                 "typical year: months from different years (Jan 2018, Feb 2007, Mar 2009, "
+                 "Apr 2013, May 2008, Jun 2006, Jul 2011, Aug 2010, Sep 2020, Oct 2006, Nov "
+                 "2007, Dec 2016), not in time order at month boundaries; accepted"));
 }
 
-TEST_CASE("read_file: a missing file is an InputError naming it") {
+TEST_CASE("read_file and read_text: missing, folder and empty inputs") {
+  CHECK(error_of([] { wx::read_file(kData, {}, 101.325); }) ==
+        kData + ": is a folder; allowed: a weather CSV file");
+  CHECK(read_error("") == "t.csv: the weather file is empty; allowed: a header line and data rows");
+  CHECK(read_error("\n \r\n") ==
+        "t.csv: the weather file is empty; allowed: a header line and data rows");
   const std::string msg = error_of([] { wx::read_file(kData + "/no-such-file.csv", {}, 101.325); });
-  CHECK(msg == kData + "/no-such-file.csv: cannot open the weather file (No such file or "
-                       "directory)");
+  CHECK(msg == kData +
+                   "/no-such-file.csv: cannot open the weather file (No such file or "
+                   "directory)");
+}
+
+// --- Layouts ------------------------------------------------------------------------------
+
+namespace {
+// Two hours in July, ISO stamps: the base of most inline files below.
+const std::string kHeader = "Timestamp,Temp (C),Dew Point (C),Pressure (kPa)\n";
+}  // namespace
+
+TEST_CASE("layout: semicolon delimiter, quoted fields, decimal comma, station line") {
+  const std::string csv =
+      "\"Station; north yard\";\"elev. 120 m\"\n"
+      "\"Date\";\"Time\";\"Temp (°C)\";\"RH (%)\";\"Pressure (hPa)\"\n"
+      "\"2019-07-01\";\"13:00\";\"21,5\";\"55\";\"1013,2\"\n"
+      "\"2019-07-01\";\"14:00\";\"22,0\";\"50\";\"1013,0\"\n";
+  const wx::WeatherSeries s = read(csv);
+  CHECK(s.info.delimiter == ';');
+  CHECK(s.info.decimal_comma);
+  CHECK(s.info.header_line == 2);
+  REQUIRE(s.hours.size() == 2);
+  CHECK(s.hours[0].dry_bulb_c == 21.5);
+  CHECK(s.hours[0].pressure_kpa == doctest::Approx(101.32));  // 1 hPa = 0.1 kPa (SI prefix)
+  CHECK(s.hours[0].hour == 13);
+  CHECK(s.hours[0].month == 7);
+  CHECK(s.hours[0].day_of_year == 181);  // 1 July, non-leap
+  CHECK(s.info.find(wx::Quantity::dry_bulb)->unit == "°C");
+  CHECK(wx::describe(s.info)[0] ==
+        "weather: t.csv, 2 rows (lines 3 to 4; header on line 2; delimiter ';', decimal comma)");
+}
+
+TEST_CASE("layout: comma file with quoted fields holding commas") {
+  const std::string csv =
+      "\"Site, somewhere\",12\n"
+      "Timestamp,\"Temp, dry-bulb (C)\",Dry bulb (C),Dew Point (C)\n"
+      "2019-07-01T13:00,\"x, y\",\"21.5\",\"10.0\"\n";
+  const wx::WeatherSeries s = read(csv);
+  CHECK(s.info.find(wx::Quantity::dry_bulb)->header == "Dry bulb (C)");
+  CHECK(s.hours.at(0).dry_bulb_c == 21.5);
+  // No pressure column: the site pressure is used and said.
+  CHECK_FALSE(s.info.pressure_from_file);
+  CHECK(s.hours[0].pressure_kpa == 101.325);  // the site pressure passed in
+  CHECK(has_line(wx::describe(read(csv, {}, 95.0).info),
+                 "pressure: 95.00 kPa at every hour from the site (the file has no pressure "
+                 "column)"));
+}
+
+TEST_CASE("layout: ISO stamps with seconds, Z and offsets") {
+  const std::string z =
+      kHeader + "2019-07-01T13:00:00Z,20,10,101.3\n2019-07-01T14:00:00Z,21,10,101.3\n";
+  const wx::WeatherSeries a = read(z);
+  CHECK(a.info.time.clock == wx::Clock::utc);
+  CHECK(a.info.time.format == "YYYY-MM-DDTHH:MM:SSZ");
+  CHECK(a.hours[1].hour == 14);
+  const std::string off =
+      kHeader + "2019-07-01 13:00+02:00,20,10,101.3\n2019-07-01 14:00+02:00,21,10,101.3\n";
+  const wx::WeatherSeries b = read(off);
+  CHECK(b.info.time.clock == wx::Clock::offset);
+  CHECK(b.info.time.utc_offset_min == 120);
+  CHECK(b.hours[0].hour == 13);  // the written clock is used
+  CHECK(wx::describe(b.info)[1] ==
+        "time: 'Timestamp', YYYY-MM-DD HH:MM±hh:mm, clock at UTC+02:00, "
+        "used as written; hour-beginning stamps");
+  const std::string neg = kHeader + "2019-07-01T13:00:00.000-0530,20,10,101.3\n";
+  CHECK(read(neg).info.time.utc_offset_min == -330);
+}
+
+TEST_CASE("layout: year/month/day/hour columns, hour-ending 1..24") {
+  const std::string csv =
+      "Year,Month,Day,Hour,Minute,Dry Bulb (F),Dew Point\n"
+      "2019,1,1,23,0,50,40\n"
+      "2019,1,1,24,0,50,40\n"
+      "2019,1,2,1,0,50,40\n";
+  const wx::WeatherSeries s = read(csv);
+  CHECK(s.info.time.hour_ending);
+  CHECK(s.info.time.format == "year, month, day columns + hour, minute columns");
+  CHECK(s.hours[0].hour == 22);
+  CHECK(s.hours[1].hour == 23);
+  CHECK(s.hours[1].day == 1);
+  CHECK(s.hours[2].hour == 0);
+  CHECK(s.hours[2].day == 2);
+  // The dew point column has no unit: it takes the dry-bulb's.
+  const wx::ColumnUse* dew = s.info.find(wx::Quantity::dew_point);
+  CHECK(dew->unit == "°F");
+  CHECK(dew->unit_found == wx::UnitFound::same_as_dry_bulb);
+  // 50 °F = 10 °C exactly (°C = (°F − 32)/1.8, by definition).
+  CHECK(s.hours[0].dry_bulb_c == doctest::Approx(10.0).epsilon(1e-12));
+  // 40 °F = 4.444 °C dew point: the state gives it back.
+  CHECK(psy::dew_point_from_humidity_ratio_c(s.hours[0].humidity_ratio, s.hours[0].pressure_kpa) ==
+        doctest::Approx((40.0 - 32.0) / 1.8).epsilon(1e-9));
+}
+
+TEST_CASE("layout: month, day and hour without a year; date column plus hour column") {
+  const std::string a = "Mo,Dy,Hr,Temp (C),RH (%)\n7,1,0,20,50\n7,1,1,21,50\n";
+  const wx::WeatherSeries s = read(a);
+  CHECK(s.hours.size() == 2);
+  CHECK_FALSE(s.info.time.typical_year);
+  CHECK(s.info.time.month_year[6] == 0);
+  const std::string b = "Date,Hour,Temp (C),RH (%)\n01.07.2019,0,20,50\n01.07.2019,1,21,50\n";
+  const wx::WeatherSeries t = read(b);
+  CHECK(t.info.time.format == "DD.MM.YYYY + hour column");
+  CHECK(t.hours[1].month == 7);
+  CHECK(t.hours[1].day == 1);
+  CHECK(t.hours[1].hour == 1);
+}
+
+TEST_CASE("layout: day-first dates when the header says so") {
+  const std::string csv = "Date (DD/MM/YYYY),Time,Temp (C),RH (%)\n02/07/2019,00:00,20,50\n";
+  const wx::WeatherSeries s = read(csv);
+  CHECK(s.hours[0].month == 7);
+  CHECK(s.hours[0].day == 2);
+  CHECK(s.info.time.format == "DD/MM/YYYY + HH:MM");
+}
+
+TEST_CASE("layout: sub-hourly data is weighted by its time step") {
+  std::string csv = kHeader;
+  for (int m = 0; m < 120; m += 15)
+    csv += fmt::format("2019-07-01T{:02}:{:02},20,10,101.3\n", m / 60, m % 60);
+  const wx::WeatherSeries s = read(csv);
+  REQUIRE(s.hours.size() == 8);
+  CHECK(s.info.time.step_min == 15);
+  double total = 0;
+  for (const wx::WeatherHour& h : s.hours) {
+    CHECK(h.weight_h == 0.25);
+    total += h.weight_h;
+  }
+  CHECK(total == 2.0);
+  CHECK(s.hours[3].hour == 0);
+  CHECK(s.hours[3].minute == 45);
+  CHECK(s.hours[4].hour == 1);
+  CHECK(s.hours[4].minute == 0);
+  CHECK(has_line(wx::describe(s.info), "time step: 15 min, each row weighs 0.25 h"));
+
+  // Hour-ending half-hours: 23:30 and 24:00 both belong to the hour that began at 23:00.
+  const std::string ending =
+      "Date,Time,Temp (C),RH (%)\n07/01/2019,23:30,20,50\n07/01/2019,24:00,20,50\n"
+      "07/02/2019,00:30,20,50\n";
+  const wx::WeatherSeries e = read(ending);
+  CHECK(e.info.time.hour_ending);
+  CHECK(e.hours[0].hour == 23);
+  CHECK(e.hours[0].minute == 0);
+  CHECK(e.hours[1].hour == 23);
+  CHECK(e.hours[1].minute == 30);
+  CHECK(e.hours[1].day == 1);
+  CHECK(e.hours[2].hour == 0);
+  CHECK(e.hours[2].day == 2);
+  CHECK(e.hours[0].weight_h == 0.5);
+}
+
+TEST_CASE("layout: gaps are counted as missing steps") {
+  const std::string csv = kHeader +
+                          "2019-07-01T00:00,20,10,101.3\n2019-07-01T03:00,20,10,101.3\n"
+                          "2019-07-01T04:00,20,10,101.3\n";
+  const wx::WeatherSeries s = read(csv);
+  CHECK(s.info.time.step_min == 60);
+  CHECK(s.info.time.missing_steps == 2);
+  CHECK(has_line(wx::describe(s.info),
+                 "time step: 60 min, each row weighs 1 h; 2 steps missing "
+                 "between rows"));
+}
+
+TEST_CASE("layout: leap day kept, later days shifted") {
+  const std::string leap = kHeader +
+                           "2020-02-28T23:00,5,0,101.3\n2020-02-29T00:00,5,0,101.3\n"
+                           "2020-03-01T00:00,5,0,101.3\n";
+  const wx::WeatherSeries s = read(leap);
+  CHECK(s.info.time.leap_day_rows == 1);
+  CHECK(s.hours[1].month == 2);
+  CHECK(s.hours[1].day == 29);
+  CHECK(s.hours[1].day_of_year == 59);
+  CHECK(s.hours[2].day_of_year == 60);
+  CHECK(has_line(wx::describe(s.info), "leap day: Feb 29 present (1 rows), kept"));
+  const std::string plain = kHeader + "2019-02-28T23:00,5,0,101.3\n2019-03-01T00:00,5,0,101.3\n";
+  CHECK(read(plain).hours[1].day_of_year == 59);
+  // Feb 29 of a year that has none is not a date.
+  CHECK(read_error(kHeader + "2019-02-29T00:00,5,0,101.3\n") ==
+        "t.csv:2: column 'Timestamp' value '2019-02-29T00:00' is not readable as a time; "
+        "allowed: a date and time such as 2019-07-01T13:00, 2019-07-01 13:00:00Z, 07/01/2019 "
+        "13:00 or 20190701:1300");
+}
+
+TEST_CASE("layout: typical year in calendar order is not flagged; a calendar run is plain") {
+  const std::string calendar = kHeader + "2019-12-31T23:00,5,0,101.3\n2020-01-01T00:00,5,0,101.3\n";
+  const wx::WeatherSeries s = read(calendar);
+  CHECK_FALSE(s.info.time.typical_year);
+  CHECK_FALSE(s.info.time.months_out_of_order);
+  const std::string spliced = kHeader + "2001-01-31T23:00,5,0,101.3\n1995-02-01T00:00,5,0,101.3\n";
+  const wx::WeatherSeries t = read(spliced);
+  CHECK(t.info.time.typical_year);
+  CHECK(t.info.time.months_out_of_order);
+}
+
+TEST_CASE("time convention override: hour-ending stamps without 24:00") {
+  const std::string csv = kHeader + "2019-07-01T23:00,20,10,101.3\n2019-07-02T00:00,20,10,101.3\n";
+  wx::Mapping m;
+  m.time_convention = wx::TimeConvention::hour_ending;
+  const wx::WeatherSeries s = read(csv, m);
+  CHECK(s.info.time.hour_ending);
+  CHECK(s.info.time.convention_overridden);
+  CHECK(s.hours[1].day == 1);
+  CHECK(s.hours[1].hour == 23);
+  // Midnight of 1 January closes 31 December.
+  const std::string jan = kHeader + "2019-01-01T00:00,2,0,101.3\n";
+  const wx::WeatherSeries j = read(jan, m);
+  CHECK(j.hours[0].month == 12);
+  CHECK(j.hours[0].day == 31);
+  CHECK(j.hours[0].day_of_year == 364);
+}
+
+// --- Units --------------------------------------------------------------------------------
+
+TEST_CASE("units: °F, K, inHg and psia headers convert to SI") {
+  // Conversion factors (NIST SP 811, appendix B, from memory): 1 inHg (32 °F) = 3.38638 kPa;
+  // 1 psi = 6.894757 kPa; K = °C + 273.15 and °F = 1.8·°C + 32 by definition.
+  const std::string f =
+      "Timestamp,DryBulb [°F],Dewpoint [degF],Station Pressure (inHg)\n"
+      "2019-07-01T13:00,68,50,29.92\n";
+  const wx::WeatherSeries a = read(f);
+  CHECK(a.hours[0].dry_bulb_c == doctest::Approx(20.0).epsilon(1e-12));
+  CHECK(a.hours[0].pressure_kpa == doctest::Approx(29.92 * 3.38638).epsilon(1e-5));
+  CHECK(a.info.find(wx::Quantity::pressure)->unit == "inHg");
+  CHECK(a.info.find(wx::Quantity::dew_point)->unit == "°F");
+  const std::string k = "Timestamp,T (K),Tdew (K),P psia\n2019-07-01T13:00,293.15,283.15,14.696\n";
+  const wx::WeatherSeries b = read(k);
+  CHECK(b.hours[0].dry_bulb_c == doctest::Approx(20.0).epsilon(1e-12));
+  CHECK(b.hours[0].pressure_kpa == doctest::Approx(14.696 * 6.894757).epsilon(1e-6));
+  CHECK(b.info.find(wx::Quantity::pressure)->unit == "psia");
+  CHECK(b.info.find(wx::Quantity::dry_bulb)->unit == "K");
+  // psychrolib 1.1.1 GetHumRatioFromTDewPoint(15, 101325) = 0.010647455294 (15 °C = 59 °F).
+  const std::string w =
+      "Timestamp,Temp (F),Dew Point (F),Pressure (Pa)\n2019-07-01T13:00,77,59,101325\n";
+  CHECK(read(w).hours[0].humidity_ratio == doctest::Approx(0.010647455294).epsilon(1e-6));
+}
+
+TEST_CASE("units: wet-bulb and humidity-ratio columns") {
+  // psychrolib 1.1.1 GetHumRatioFromTWetBulb(30, 20, 101325) = 0.010516728279.
+  const std::string wb = "Timestamp,Temp (C),Wet Bulb (C)\n2019-07-01T13:00,30,20\n";
+  const wx::WeatherSeries a = read(wb);
+  CHECK(a.info.humidity == wx::HumiditySource::wet_bulb);
+  CHECK(a.hours[0].humidity_ratio == doctest::Approx(0.010516728279).epsilon(1e-6));
+  // g/kg: 1 g/kg = 0.001 kg/kg (SI prefix).
+  const std::string hr =
+      "Timestamp,Temp (C),Humidity Ratio (g/kg),RH (%)\n2019-07-01T13:00,25,9.5,60\n";
+  const wx::WeatherSeries b = read(hr);
+  CHECK(b.info.humidity == wx::HumiditySource::humidity_ratio);
+  CHECK(b.hours[0].humidity_ratio == doctest::Approx(0.0095).epsilon(1e-12));
+  // 7000 grains to the pound (definition of the grain).
+  const std::string gr = "Timestamp,Temp (C),Mixing Ratio (gr/lb)\n2019-07-01T13:00,25,70\n";
+  CHECK(read(gr).hours[0].humidity_ratio == doctest::Approx(0.01).epsilon(1e-12));
+}
+
+TEST_CASE("units: a pressure without unit is inferred only when unambiguous") {
+  const auto file = [](const std::string& p1, const std::string& p2) {
+    return "Timestamp,Temp (C),RH (%),Pressure\n2019-07-01T13:00,20,50," + p1 +
+           "\n2019-07-01T14:00,20,50," + p2 + "\n";
+  };
+  const wx::WeatherSeries pa = read(file("101325", "99870"));
+  const wx::ColumnUse* p = pa.info.find(wx::Quantity::pressure);
+  CHECK(p->unit == "Pa");
+  CHECK(p->unit_found == wx::UnitFound::inferred);
+  CHECK(pa.hours[0].pressure_kpa == doctest::Approx(101.325));
+  CHECK(has_line(wx::describe(pa.info),
+                 "pressure: column 'Pressure', Pa (found by header; unit inferred: no unit in "
+                 "the header; values 99870 to 101325 are plausible only in Pa)"));
+  CHECK(read(file("1013.2", "998")).info.find(wx::Quantity::pressure)->unit == "hPa");
+  CHECK(read(file("101.3", "99.8")).info.find(wx::Quantity::pressure)->unit == "kPa");
+  CHECK(read(file("29.92", "29.5")).info.find(wx::Quantity::pressure)->unit == "inHg");
+  // 14.7 psia at sea level and 14.7 inHg (about 50 kPa, near 5500 m) both fit.
+  CHECK(read_error(file("14.7", "14.6")) ==
+        "t.csv:1: column 'Pressure' has no unit in the header and its values (14.6 to 14.7) "
+        "fit inHg, psia alike; allowed: a unit in the header or in [weather], e.g. pressure = "
+        "{ unit = \"inHg\" } (units: Pa, hPa, mbar, kPa, bar, inHg, psia, atm)");
+  CHECK(read_error(file("3", "4")) ==
+        "t.csv:1: column 'Pressure' has no unit in the header and its values (3 to 4) fit no "
+        "pressure unit (station pressures from below sea level to about 5500 m); allowed: a "
+        "unit in the header or in [weather], e.g. pressure = { unit = \"Pa\" } (units: Pa, "
+        "hPa, mbar, kPa, bar, inHg, psia, atm)");
+  CHECK(read_error(file("", "NA"), policy(wx::BadRowPolicy::skip)) ==
+        "t.csv:1: column 'Pressure' has no unit in the header and no readable values to infer "
+        "one from; allowed: a unit in the header or in [weather], e.g. pressure = { unit = "
+        "\"Pa\" } (units: Pa, hPa, mbar, kPa, bar, inHg, psia, atm)");
+}
+
+TEST_CASE("units: temperature and RH without unit") {
+  const auto file = [](const std::string& t1, const std::string& t2, const std::string& rh) {
+    return "Timestamp,Temperature,RH\n2019-07-01T13:00," + t1 + "," + rh + "\n2019-07-01T14:00," +
+           t2 + "," + rh + "\n";
+  };
+  const wx::WeatherSeries f = read(file("68", "95", "40"));
+  CHECK(f.info.find(wx::Quantity::dry_bulb)->unit == "°F");  // 95 °C is no air temperature
+  CHECK(f.info.find(wx::Quantity::relative_humidity)->unit == "%");
+  CHECK(f.hours[1].dry_bulb_c == doctest::Approx(35.0).epsilon(1e-12));
+  const wx::WeatherSeries c = read(file("20", "31", "0.6"));
+  CHECK(c.info.find(wx::Quantity::dry_bulb)->unit == "°C");
+  CHECK(c.info.find(wx::Quantity::relative_humidity)->unit == "fraction (0–1)");
+  CHECK(rh_of(c.hours[0]) == doctest::Approx(0.6).epsilon(1e-9));
+  CHECK(read_error(file("41", "50", "40")) ==
+        "t.csv:1: column 'Temperature' has no unit in the header and its values (41 to 50) fit "
+        "C, F alike; allowed: a unit in the header or in [weather], e.g. dry_bulb = { unit = "
+        "\"C\" } (units: C, F, K)");
+  // An override settles it.
+  wx::Mapping m;
+  m.column(wx::Quantity::dry_bulb).unit = "F";
+  m.column(wx::Quantity::dry_bulb).origin = "unit.toml:4";
+  const wx::WeatherSeries o = read(file("41", "50", "40"), m);
+  CHECK(o.hours[0].dry_bulb_c == doctest::Approx(5.0).epsilon(1e-12));
+  CHECK(has_line(wx::describe(o.info),
+                 "dry-bulb: column 'Temperature', °F (found by header; unit set by unit.toml:4)"));
+}
+
+TEST_CASE("units: unknown units are errors naming the column") {
+  CHECK(read_error("Timestamp,Temp (R),RH (%)\n2019-07-01T13:00,500,50\n") ==
+        "t.csv: column 'Temp (R)' has unit 'R' (header line 1), which is not a temperature "
+        "unit (allowed: C, F, K); set it in [weather], e.g. dry_bulb = { unit = \"C\" }");
+  CHECK(read_error("Timestamp,Temp (C),RH (%),Pressure [Torr]\n2019-07-01T13:00,20,50,760\n") ==
+        "t.csv: column 'Pressure [Torr]' has unit 'Torr' (header line 1), which is not a "
+        "pressure unit (allowed: Pa, hPa, mbar, kPa, bar, inHg, psia, atm); set it in "
+        "[weather], e.g. pressure = { unit = \"Pa\" }");
+  CHECK(read_error("Timestamp,T2m,RH (%)\n2019-07-01T13:00,20,50\n\nT2m: temperature (deg "
+                   "Rankine)\n") ==
+        "t.csv: column 'T2m' has unit 'deg Rankine' (legend line 4), which is not a "
+        "temperature unit (allowed: C, F, K); set it in [weather], e.g. dry_bulb = { unit = "
+        "\"C\" }");
+  wx::Mapping m;
+  m.column(wx::Quantity::pressure).unit = "furlongs";
+  m.column(wx::Quantity::pressure).origin = "--column";
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n", m) ==
+        "--column: unit 'furlongs' given for pressure is not a pressure unit (allowed: Pa, "
+        "hPa, mbar, kPa, bar, inHg, psia, atm)");
+}
+
+// --- Columns and overrides ----------------------------------------------------------------
+
+TEST_CASE("columns: overrides by header text") {
+  const std::string csv =
+      "When,Outdoor (C),Moisture (C),Baro (mbar)\n2019-07-01T13:00,20,10,1000\n";
+  wx::Mapping m;
+  m.column(wx::Quantity::timestamp).column = "when";
+  m.column(wx::Quantity::dry_bulb).column = "Outdoor (C)";
+  m.column(wx::Quantity::dew_point).column = "Moisture (C)";
+  m.column(wx::Quantity::pressure).column = "Baro (mbar)";
+  m.column(wx::Quantity::pressure).origin = "unit.toml:9";
+  const wx::WeatherSeries s = read(csv, m);
+  CHECK(s.hours[0].dry_bulb_c == 20.0);
+  CHECK(s.hours[0].pressure_kpa == doctest::Approx(100.0));
+  CHECK(s.info.find(wx::Quantity::dry_bulb)->found == wx::ColumnFound::override);
+  CHECK(has_line(wx::describe(s.info),
+                 "pressure: column 'Baro (mbar)', mbar (column set by unit.toml:9; unit from "
+                 "header)"));
+  // An override naming a column the header lacks.
+  m.column(wx::Quantity::pressure).column = "Barometer";
+  CHECK(read_error(csv, m) ==
+        "unit.toml:9: column 'Barometer' given for pressure is not in the header of t.csv "
+        "(line 1: 'When', 'Outdoor (C)', 'Moisture (C)', 'Baro (mbar)')");
+}
+
+TEST_CASE("columns: missing columns") {
+  CHECK(read_error("Timestamp,Temp (C),Wind (m/s)\n2019-07-01T13:00,20,3\n") ==
+        "t.csv:1: no humidity column: the header names none of dew point, humidity ratio, "
+        "wet-bulb, relative humidity (columns: 'Timestamp', 'Temp (C)', 'Wind (m/s)'); name "
+        "one in [weather], e.g. dew_point = { column = \"...\" }");
+  CHECK(read_error("station 12\nTimestamp,Wind (m/s),RH (%)\n2019-07-01T13:00,3,50\n") ==
+        "t.csv: no header line found: no line names both a dry-bulb column (e.g. 'Dry-bulb', "
+        "'Temperature', 'Temp', 'T2m') and time columns (a timestamp, a date and a time, or "
+        "month, day and hour); the closest, line 2, has no dry-bulb column; name the columns "
+        "in [weather], e.g. dry_bulb = { column = \"...\" }");
+  CHECK(read_error("Temp (C),RH (%)\n20,50\n") ==
+        "t.csv: no header line found: no line names both a dry-bulb column (e.g. 'Dry-bulb', "
+        "'Temperature', 'Temp', 'T2m') and time columns (a timestamp, a date and a time, or "
+        "month, day and hour); the closest, line 1, has no time columns; name the columns in "
+        "[weather], e.g. dry_bulb = { column = \"...\" }");
+  wx::Mapping m;
+  m.humidity = wx::HumiditySource::wet_bulb;
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n", m) ==
+        "t.csv:1: humidity = \"wet-bulb\" was asked for, but the header has no wet-bulb column "
+        "(columns: 'Timestamp', 'Temp (C)', 'Dew Point (C)', 'Pressure (kPa)'); name it in "
+        "[weather], e.g. wet_bulb = { column = \"...\" }");
+  CHECK(read_error("Timestamp,Temp (C),RH (%)\n2019-07-01T13:00,20,50\n", {}, 5.0) ==
+        "t.csv: the file has no pressure column and the site pressure 5 kPa is outside the "
+        "range the psychrometric model supports (10 kPa to 200 kPa)");
+}
+
+TEST_CASE("columns: a second matching column is noted, the first is used") {
+  const std::string csv = "Timestamp,Temp (C),Temperature (C),RH (%)\n2019-07-01T13:00,20,25,50\n";
+  const wx::WeatherSeries s = read(csv);
+  CHECK(s.hours[0].dry_bulb_c == 20.0);
+  CHECK(s.info.find(wx::Quantity::dry_bulb)->other_matches == 1);
+  CHECK(has_line(wx::describe(s.info),
+                 "dry-bulb: column 'Temp (C)', °C (found by header; first of 2 matching columns)"));
+}
+
+// --- Bad rows -----------------------------------------------------------------------------
+
+namespace {
+std::string one_row(const std::string& header, const std::string& row) {
+  return header + "2019-07-01T12:00,20,10,101.3\n" + row + "\n2019-07-01T14:00,20,10,101.3\n";
+}
+}  // namespace
+
+// One bad value per row: what the file holds, and the message it must give.
+struct BadCase {
+  std::string csv;
+  std::string message;
+};
+
+TEST_CASE("bad rows: each kind is an error naming file, line, column and value") {
+  const std::string h = kHeader;
+  const std::string rh = "Timestamp,Temp (C),RH (%)\n";
+  const std::string wb = "Timestamp,Temp (C),Wet Bulb (C)\n";
+  // psychrolib 1.1.1 GetSatHumRatio(20, 101325) = 0.014695 appears in the last two.
+  const std::string w = "Timestamp,Temp (C),Humidity Ratio (kg/kg)\n";
+  const BadCase cases[] = {
+      {one_row(h, "2019-07-01T13:00,-9999,10,101.3"),
+       "t.csv:3: column 'Temp (C)' value '-9999' is a missing-value marker; allowed: a "
+       "measured value (or set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,20,-9900,101.3"),
+       "t.csv:3: column 'Dew Point (C)' value '-9900' is a missing-value marker; allowed: a "
+       "measured value (or set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,9999,10,101.3"),
+       "t.csv:3: column 'Temp (C)' value '9999' is a missing-value marker; allowed: a "
+       "measured value (or set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,20,10,99999"),
+       "t.csv:3: column 'Pressure (kPa)' value '99999' is a missing-value marker; allowed: a "
+       "measured value (or set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,,10,101.3"),
+       "t.csv:3: column 'Temp (C)' value '' is empty (missing); allowed: a measured value (or "
+       "set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,NA,10,101.3"),
+       "t.csv:3: column 'Temp (C)' value 'NA' is a missing-value marker; allowed: a measured "
+       "value (or set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,warm,10,101.3"),
+       "t.csv:3: column 'Temp (C)' value 'warm' is not a number; allowed: a number in °C (or "
+       "set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,75,10,101.3"),
+       "t.csv:3: column 'Temp (C)' value '75' is 75 °C; allowed -90 °C to 60 °C (the range "
+       "of air temperatures on Earth) (or set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,20,10,30"),
+       "t.csv:3: column 'Pressure (kPa)' value '30' is 30 kPa; allowed 48 kPa to 112 kPa "
+       "(station pressures from below sea level to about 5500 m) (or set on_bad_row to skip "
+       "or fill)"},
+      {one_row(h, "2019-07-01T13:00,20,23.5,101.3"),
+       "t.csv:3: column 'Dew Point (C)' value '23.5' is a dew point of 23.5 °C, above the "
+       "dry-bulb 20 °C; allowed: up to the dry-bulb (up to 0.56 K above is read as "
+       "saturation) (or set on_bad_row to skip or fill)"},
+      {one_row(h, "2019-07-01T13:00,20,-120,101.3"),
+       "t.csv:3: column 'Dew Point (C)' value '-120' is not a possible state: dry-bulb -120 "
+       "°C is outside the range the psychrometric model supports (-100 °C to 200 °C) (or set "
+       "on_bad_row to skip or fill)"},
+      {rh + "2019-07-01T13:00,20,130\n",
+       "t.csv:2: column 'RH (%)' value '130' is 130 % relative humidity; allowed 0 % to 100 % "
+       "(up to 101 % is read as 100 %) (or set on_bad_row to skip or fill)"},
+      {rh + "2019-07-01T13:00,20,-3\n",
+       "t.csv:2: column 'RH (%)' value '-3' is -3 % relative humidity; allowed 0 % to 100 % "
+       "(up to 101 % is read as 100 %) (or set on_bad_row to skip or fill)"},
+      {wb + "2019-07-01T13:00,20,22\n",
+       "t.csv:2: column 'Wet Bulb (C)' value '22' is a wet-bulb of 22 °C, above the dry-bulb "
+       "20 °C; allowed: up to the dry-bulb (up to 0.56 K above is read as saturation) (or set "
+       "on_bad_row to skip or fill)"},
+      {wb + "2019-07-01T13:00,40,5\n",
+       "t.csv:2: column 'Wet Bulb (C)' value '5' is not a possible state: wet-bulb 5 °C is "
+       "too low for dry-bulb 40 °C at 101.325 kPa: the air would need negative humidity (or "
+       "set on_bad_row to skip or fill)"},
+      {w + "2019-07-01T13:00,20,0.016\n",
+       "t.csv:2: column 'Humidity Ratio (kg/kg)' value '0.016' is 0.016 kg/kg; allowed 0 to "
+       "saturation, 0.014695 kg/kg at 20 °C and 101.33 kPa (up to 1 % above is read as "
+       "saturation) (or set on_bad_row to skip or fill)"},
+      {w + "2019-07-01T13:00,20,-0.001\n",
+       "t.csv:2: column 'Humidity Ratio (kg/kg)' value '-0.001' is -0.001 kg/kg; allowed 0 to "
+       "saturation, 0.014695 kg/kg at 20 °C and 101.33 kPa (up to 1 % above is read as "
+       "saturation) (or set on_bad_row to skip or fill)"},
+  };
+  for (const BadCase& c : cases) {
+    CAPTURE(c.csv);
+    CHECK(read_error(c.csv) == c.message);
+  }
+}
+
+TEST_CASE("bad rows: within tolerance they are read as saturation and counted") {
+  const wx::WeatherSeries rh = read("Timestamp,Temp (C),RH (%)\n2019-07-01T13:00,20,100.6\n");
+  CHECK(rh_of(rh.hours[0]) == doctest::Approx(1.0).epsilon(1e-9));
+  CHECK(rh.info.months[6].capped == 1);
+  CHECK(rh.info.capped() == 1);
+  CHECK(
+      has_line(wx::describe(rh.info), "read as saturation (within tolerance above it): 1 (Jul 1)"));
+  const wx::WeatherSeries dew = read(kHeader + "2019-07-01T13:00,20,20.3,101.3\n");
+  CHECK(psy::dew_point_from_humidity_ratio_c(dew.hours[0].humidity_ratio, 101.3) ==
+        doctest::Approx(20.0).epsilon(1e-9));
+  CHECK(dew.info.months[6].capped == 1);
+  // psychrolib 1.1.1 GetSatHumRatio(20, 101325) = 0.014695; 0.0148 is within 1 %.
+  const wx::WeatherSeries w =
+      read("Timestamp,Temp (C),Humidity Ratio (kg/kg)\n2019-07-01T13:00,20,0.0148\n");
+  CHECK(w.hours[0].humidity_ratio == doctest::Approx(0.014695).epsilon(1e-4));
+  CHECK(w.info.capped() == 1);
+  // A marker value that is a plausible reading is a reading: 99999 Pa is 99.999 kPa.
+  const wx::WeatherSeries pa =
+      read("Timestamp,Temp (C),RH (%),SP (Pa)\n2019-07-01T13:00,20,50,99999\n");
+  CHECK(pa.hours[0].pressure_kpa == doctest::Approx(99.999));
+}
+
+namespace {
+// Six hours in January and six in February; bad rows on 1 Jan 02:00 (marker), 1 Feb 03:00
+// (empty) and 1 Feb 04:00 (RH 130 %).
+std::string two_months() {
+  std::string csv = "Timestamp,Temp (C),RH (%),Pressure (kPa)\n";
+  for (int month : {1, 2})
+    for (int h = 0; h < 6; ++h) {
+      std::string t = fmt::format("{}", 2 * h), rh = "50";
+      if (month == 1 && h == 2) t = "-9999";
+      if (month == 2 && h == 3) t = "";
+      if (month == 2 && h == 4) rh = "130";
+      csv += fmt::format("2019-{:02}-01T{:02}:00,{},{},{}\n", month, h, t, rh, 100 + h);
+    }
+  return csv;
+}
+}  // namespace
+
+TEST_CASE("bad rows: skip drops them and counts them by month") {
+  const wx::WeatherSeries s = read(two_months(), policy(wx::BadRowPolicy::skip));
+  CHECK(s.hours.size() == 9);
+  CHECK(s.info.rows_read == 12);
+  CHECK(s.info.months[0].skipped == 1);
+  CHECK(s.info.months[1].skipped == 2);
+  CHECK(s.info.months[0].rows == 5);
+  CHECK(s.info.months[1].rows == 4);
+  CHECK(s.info.skipped() == 3);
+  CHECK(s.hours[2].hour == 3);  // 02:00 is gone
+  CHECK(has_line(wx::describe(s.info), "bad rows skipped: 3 (Jan 1, Feb 2)"));
+}
+
+TEST_CASE("bad rows: fill interpolates between good neighbours in time, counted by month") {
+  const wx::WeatherSeries s = read(two_months(), policy(wx::BadRowPolicy::fill));
+  REQUIRE(s.hours.size() == 12);
+  CHECK(s.info.filled() == 3);
+  CHECK(s.info.months[0].filled == 1);
+  CHECK(s.info.months[1].filled == 2);
+  CHECK(s.info.fill_longest_run == 2);
+  // 1 Jan 02:00 between 01:00 (2 °C, 101 kPa) and 03:00 (6 °C, 103 kPa).
+  CHECK(s.hours[2].dry_bulb_c == doctest::Approx(4.0));
+  CHECK(s.hours[2].pressure_kpa == doctest::Approx(102.0));
+  CHECK(s.hours[2].humidity_ratio ==
+        doctest::Approx((s.hours[1].humidity_ratio + s.hours[3].humidity_ratio) / 2));
+  // 1 Feb 03:00 and 04:00 between 02:00 (4 °C) and 05:00 (10 °C): thirds.
+  CHECK(s.hours[9].dry_bulb_c == doctest::Approx(6.0));
+  CHECK(s.hours[10].dry_bulb_c == doctest::Approx(8.0));
+  CHECK(has_line(wx::describe(s.info),
+                 "bad rows filled by interpolation: 3 (Jan 1, Feb 2; longest run 2)"));
+}
+
+TEST_CASE("bad rows: a run at the end takes the nearest good row; all bad is an error") {
+  const std::string csv = kHeader + "2019-07-01T12:00,20,10,101.3\n2019-07-01T13:00,NA,10,101.3\n";
+  const wx::WeatherSeries s = read(csv, policy(wx::BadRowPolicy::fill));
+  CHECK(s.hours[1].dry_bulb_c == 20.0);
+  const std::string bad = kHeader + "2019-07-01T12:00,NA,10,101.3\n2019-07-01T13:00,NA,10,101.3\n";
+  CHECK(read_error(bad, policy(wx::BadRowPolicy::skip)) ==
+        "t.csv: none of the 2 data rows (lines 2 to 3) has usable values; allowed: at least one");
+}
+
+// --- Time errors and table structure -------------------------------------------------------
+
+TEST_CASE("time: duplicate and unsorted stamps within a month") {
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n2019-07-01T13:00,21,10,101.3\n") ==
+        "t.csv:3: time 2019-07-01 13:00 repeats the row at line 2; allowed: rows within a month "
+        "in time order, each time once");
+  CHECK(read_error(kHeader + "2019-07-01T14:00,20,10,101.3\n2019-07-01T13:00,21,10,101.3\n") ==
+        "t.csv:3: time 2019-07-01 13:00 comes before the row at line 2 (2019-07-01 14:00); "
+        "allowed: rows within a month in time order, each time once");
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n2019-08-01T13:00,20,10,101.3\n"
+                             "2019-07-02T13:00,20,10,101.3\n") ==
+        "t.csv:4: Jul 2019 starts again here; it already ran from line 2 to line 2; allowed: "
+        "the rows of one month together");
+}
+
+TEST_CASE("time: step, convention and readability errors") {
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n2019-07-01T13:07,20,10,101.3\n") ==
+        "t.csv: time step 7 min; allowed: 60 min or a whole fraction of an hour (1, 2, 3, 4, 5, "
+        "6, 10, 12, 15, 20 or 30 min)");
+  // Three-hourly data cannot be weighted as hours of a schedule.
+  CHECK(read_error(kHeader + "2019-07-01T00:00,20,10,101.3\n2019-07-01T03:00,20,10,101.3\n") ==
+        "t.csv: time step 180 min; allowed: 60 min or a whole fraction of an hour (1, 2, 3, 4, "
+        "5, 6, 10, 12, 15, 20 or 30 min)");
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n2019-07-01T13:30,20,10,101.3\n"
+                             "2019-07-01T14:15,20,10,101.3\n") ==
+        "t.csv:4: time 2019-07-01 14:15 is 45 min after the row at line 3; allowed: whole "
+        "multiples of the 30-min time step");
+  const std::string dt = "Date,Time,Temp (C),RH (%)\n";
+  CHECK(
+      read_error(dt + "07/01/2019,00:00,20,50\n07/01/2019,01:00,20,50\n07/01/2019,24:00,20,50\n") ==
+      "t.csv:2: time 00:00 in a file that also marks midnight as 24:00 (line 4); allowed: "
+      "one of the two");
+  // 24:00 and the next day's 00:00 are the same instant.
+  CHECK(read_error(dt + "07/01/2019,24:00,20,50\n07/02/2019,00:00,20,50\n") ==
+        "t.csv:3: time 2019-07-02 00:00 repeats the row at line 2; allowed: rows within a month "
+        "in time order, each time once");
+  wx::Mapping begin;
+  begin.time_convention = wx::TimeConvention::hour_beginning;
+  CHECK(read_error(dt + "07/01/2019,23:00,20,50\n07/01/2019,24:00,20,50\n", begin) ==
+        "t.csv:3: time 24:00 cannot start an interval (time_convention = \"hour-beginning\"); "
+        "allowed: 00:00 to 23:59");
+  CHECK(read_error(dt + "13/01/2019,01:00,20,50\n") ==
+        "t.csv:2: column 'Date' value '13/01/2019' is not readable as a time; allowed: a date "
+        "as YYYY-MM-DD, YYYY/MM/DD, MM/DD/YYYY (DD/MM/YYYY when the header says so), "
+        "DD.MM.YYYY or YYYYMMDD");
+  CHECK(read_error(dt + "01/13/2019,25:00,20,50\n") ==
+        "t.csv:2: column 'Time' value '25:00' is not readable as a time; allowed: a time of day "
+        "as HH:MM, HH:MM:SS or HHMM, 00:00 to 24:00");
+  CHECK(read_error(dt + "01/13/2019,13:00:30,20,50\n") ==
+        "t.csv:2: column 'Time' value '13:00:30' is not readable as a time; allowed: a time of "
+        "day as HH:MM, HH:MM:SS or HHMM, 00:00 to 24:00");
+  const std::string ymd = "Year,Month,Day,Hour,Minute,Temp (C),RH (%)\n";
+  CHECK(read_error(ymd + "19x,7,1,0,0,20,50\n") ==
+        "t.csv:2: column 'Year' value '19x' is not readable as a time; allowed: a year such as "
+        "2019");
+  CHECK(read_error(ymd + "2019,13,1,0,0,20,50\n") ==
+        "t.csv:2: column 'Month' value '13' is not readable as a time; allowed: a month 1 to 12");
+  CHECK(read_error(ymd + "2019,6,31,0,0,20,50\n") ==
+        "t.csv:2: column 'Day' value '31' is not readable as a time; allowed: a day of the "
+        "month, 1 to its length");
+  CHECK(read_error(ymd + "2019,6,30,25,0,20,50\n") ==
+        "t.csv:2: column 'Hour' value '25' is not readable as a time; allowed: an hour 0 to 24");
+  CHECK(read_error(ymd + "2019,6,30,24,30,20,50\n") ==
+        "t.csv:2: column 'Minute' value '30' is not readable as a time; allowed: a minute 0 to "
+        "59 (0 with hour 24)");
+}
+
+TEST_CASE("table: field counts, empty tables, data after the end") {
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10\n") ==
+        "t.csv:2: the row has 3 fields but the header (line 1) has 4; allowed: one value per "
+        "header column");
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3,7\n") ==
+        "t.csv:2: the row has 5 fields but the header (line 1) has 4; allowed: one value per "
+        "header column");
+  // Trailing empty fields are a common export artefact and are ignored.
+  CHECK(read(kHeader + "2019-07-01T13:00,20,10,101.3,,\n").hours.size() == 1);
+  CHECK(read_error(kHeader + "\n\n") == "t.csv:1: the header is followed by no data rows");
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n\n2019-07-01T14:00,20,10,101.3\n") ==
+        "t.csv:4: this line looks like a data row, but the table ended at line 3; allowed: "
+        "data rows together, with no blank or note line between them");
+  CHECK(read_error(kHeader +
+                   "2019-07-01T13:00,20,10,101.3\n# note\n2019-07-01T14:00,20,10,101.3\n") ==
+        "t.csv:4: this line looks like a data row, but the table ended at line 3; allowed: "
+        "data rows together, with no blank or note line between them");
+  // Notes after the data that do not look like rows are fine.
+  const wx::WeatherSeries s =
+      read(kHeader + "2019-07-01T13:00,20,10,101.3\n\nSource: somewhere, 2019\nTemp: air\n");
+  CHECK(s.hours.size() == 1);
+  // A UTF-8 byte-order mark and CRLF line ends.
+  CHECK(read("\xEF\xBB\xBF"
+             "Timestamp,Temp (C),RH (%)\r\n2019-07-01T13:00,20,50\r\n")
+            .hours.size() == 1);
+}
+
+// --- The [weather] table ------------------------------------------------------------------
+
+namespace {
+wx::Mapping mapping_of(const std::string& toml_text) {
+  const toml::table t = toml::parse(std::string_view(toml_text), std::string_view("unit.toml"));
+  return wx::read_mapping(*t["weather"].as_table(), "unit.toml");
+}
+std::string mapping_error(const std::string& toml_text) {
+  return error_of([&] { mapping_of(toml_text); });
+}
+}  // namespace
+
+TEST_CASE("[weather]: every key read") {
+  const wx::Mapping m = mapping_of(
+      "[weather]\n"
+      "file = \"site-hourly.csv\"\n"
+      "dry_bulb = { column = \"Temperature\", unit = \"C\" }\n"
+      "dew_point = { column = \"Dew Point\", unit = \"degF\" }\n"
+      "pressure = { column = \"Pressure\", unit = \"mbar\" }\n"
+      "date = { column = \"Day\" }\n"
+      "humidity = \"relative-humidity\"\n"
+      "on_bad_row = \"fill\"\n"
+      "time_convention = \"hour-ending\"\n");
+  CHECK(m.file == "site-hourly.csv");
+  CHECK(m.column(wx::Quantity::dry_bulb).column == "Temperature");
+  CHECK(m.column(wx::Quantity::dry_bulb).unit == "C");
+  CHECK(m.column(wx::Quantity::dry_bulb).origin == "unit.toml:3");
+  CHECK(m.column(wx::Quantity::dew_point).unit == "degF");
+  CHECK(m.column(wx::Quantity::pressure).origin == "unit.toml:5");
+  CHECK(m.column(wx::Quantity::date).column == "Day");
+  CHECK_FALSE(m.column(wx::Quantity::wet_bulb).column);
+  CHECK(m.humidity == wx::HumiditySource::relative_humidity);
+  CHECK(m.on_bad_row == wx::BadRowPolicy::fill);
+  CHECK(m.time_convention == wx::TimeConvention::hour_ending);
+}
+
+TEST_CASE("[weather]: errors name file, line and key") {
+  CHECK(mapping_error("[weather]\nfile = \"a.csv\"\ndry_bulbs = { column = \"T\" }\n") ==
+        "unit.toml:3: [weather] key 'dry_bulbs' is not known (allowed: file, humidity, "
+        "on_bad_row, time_convention, dry_bulb, dew_point, relative_humidity, wet_bulb, "
+        "humidity_ratio, pressure, timestamp, date, time, year, month, day, hour, minute)");
+  CHECK(mapping_error("[weather]\n[weather.dry_bulb]\ncolumn = \"T\"\nunits = \"C\"\n") ==
+        "unit.toml:4: [weather] key 'dry_bulb.units' is not known (allowed: column, unit)");
+  CHECK(mapping_error("[weather]\ndate = { column = \"D\", unit = \"C\" }\n") ==
+        "unit.toml:2: [weather] key 'date.unit' is not known (allowed: column; a time column "
+        "has no unit)");
+  CHECK(mapping_error("[weather]\ndry_bulb = \"Temperature\"\n") ==
+        "unit.toml:2: [weather] dry_bulb must be a table, e.g. dry_bulb = { column = \"...\", "
+        "unit = \"...\" }");
+  CHECK(mapping_error("[weather]\nfile = 3\n") ==
+        "unit.toml:2: [weather] file must be a string in quotes");
+  CHECK(mapping_error("[weather]\npressure = { column = 7 }\n") ==
+        "unit.toml:2: [weather] pressure.column must be a string in quotes");
+  CHECK(mapping_error("[weather]\npressure = { unit = \"Torr\" }\n") ==
+        "unit.toml:2: [weather] pressure.unit 'Torr' is not a pressure unit (allowed: Pa, hPa, "
+        "mbar, kPa, bar, inHg, psia, atm)");
+  CHECK(mapping_error("[weather]\nhumidity = \"enthalpy\"\n") ==
+        "unit.toml:2: [weather] humidity: 'enthalpy' is not a humidity source (allowed: "
+        "dew-point, humidity-ratio, wet-bulb, relative-humidity)");
+  CHECK(mapping_error("[weather]\non_bad_row = \"ignore\"\n") ==
+        "unit.toml:2: [weather] on_bad_row: 'ignore' is not a bad-row policy (allowed: error, "
+        "skip, fill)");
+  CHECK(mapping_error("[weather]\ntime_convention = \"ending\"\n") ==
+        "unit.toml:2: [weather] time_convention: 'ending' is not a time convention (allowed: "
+        "automatic, hour-beginning, hour-ending)");
+}
+
+TEST_CASE("names: keys, labels and policies round-trip") {
+  for (std::size_t q = 0; q < wx::kQuantityCount; ++q) {
+    const auto quantity = static_cast<wx::Quantity>(q);
+    CHECK(wx::quantity_from_key(wx::quantity_key(quantity)) == quantity);
+    CHECK_FALSE(wx::quantity_label(quantity).empty());
+  }
+  CHECK_FALSE(wx::quantity_from_key("enthalpy"));
+  for (auto p : {wx::BadRowPolicy::error, wx::BadRowPolicy::skip, wx::BadRowPolicy::fill})
+    CHECK(wx::parse_bad_row_policy(wx::bad_row_policy_name(p), "--on-bad-row") == p);
+  CHECK(wx::parse_humidity_source(" Wet-Bulb ", "--humidity") == wx::HumiditySource::wet_bulb);
+  CHECK(error_of([] { wx::parse_bad_row_policy("drop", "--on-bad-row"); }) ==
+        "--on-bad-row: 'drop' is not a bad-row policy (allowed: error, skip, fill)");
 }

@@ -22,9 +22,9 @@ namespace limitline::weather {
 // stamped hour-ending, 01:00..24:00, is converted); `day_of_year` is 0-based and counts
 // Feb 29 only when the file has one.
 struct WeatherHour {
-  int month = 1;  // 1–12
-  int day = 1;    // 1–31
-  int hour = 0;   // 0–23
+  int month = 1;   // 1–12
+  int day = 1;     // 1–31
+  int hour = 0;    // 0–23
   int minute = 0;  // 0–59: start of a sub-hourly interval within its hour
   int day_of_year = 0;
   double weight_h = 1.0;  // length of the row's interval, hours (1 for hourly data)
@@ -96,9 +96,7 @@ struct Mapping {
   TimeConvention time_convention = TimeConvention::automatic;
 
   ColumnOverride& column(Quantity q) { return columns[static_cast<std::size_t>(q)]; }
-  const ColumnOverride& column(Quantity q) const {
-    return columns[static_cast<std::size_t>(q)];
-  }
+  const ColumnOverride& column(Quantity q) const { return columns[static_cast<std::size_t>(q)]; }
 };
 
 // Reads the unit file's [weather] table: file = "...", <quantity> = { column = "...",
@@ -111,12 +109,12 @@ Mapping read_mapping(const toml::table& weather_table, std::string_view file_nam
 
 enum class ColumnFound { header_name, override };
 enum class UnitFound {
-  none,               // a time column
-  header,             // from the header text, e.g. "Dry-bulb (C)"
-  legend,             // from a legend line outside the table, e.g. "SP: ... (Pa)"
-  override,           // from the mapping
-  inferred,           // from the values: the only unit that gives plausible values
-  same_as_dry_bulb,   // a dew point or wet-bulb without a unit of its own
+  none,              // a time column
+  header,            // from the header text, e.g. "Dry-bulb (C)"
+  legend,            // from a legend line outside the table, e.g. "SP: ... (Pa)"
+  override,          // from the mapping
+  inferred,          // from the values: the only unit that gives plausible values
+  same_as_dry_bulb,  // a dew point or wet-bulb without a unit of its own
 };
 
 struct ColumnUse {
@@ -149,8 +147,8 @@ struct TimeInfo {
   bool convention_overridden = false;
   int step_min = 60;  // time step
   double weight_h = 1.0;
-  int missing_steps = 0;        // steps absent between consecutive rows of a month
-  bool typical_year = false;    // months come from different years
+  int missing_steps = 0;             // steps absent between consecutive rows of a month
+  bool typical_year = false;         // months come from different years
   bool months_out_of_order = false;  // stamps go back in time at a month boundary
   std::array<int, 12> month_year{};  // year each month comes from (0: not given / absent)
   int leap_day_rows = 0;             // rows dated Feb 29 (kept)
@@ -163,7 +161,7 @@ struct WeatherInfo {
   int rows_read = 0;  // data rows in the file, bad ones included
   char delimiter = ',';
   bool decimal_comma = false;
-  std::vector<ColumnUse> columns;  // time columns first, then the value columns used
+  std::vector<ColumnUse> columns;          // time columns first, then the value columns used
   std::vector<ColumnUse> unused_humidity;  // humidity columns present but not chosen
   HumiditySource humidity = HumiditySource::dew_point;
   bool humidity_overridden = false;
@@ -188,8 +186,8 @@ struct WeatherSeries {
 // Reads a weather CSV held in memory; `source_name` names it in messages. The site pressure
 // (kPa, e.g. psychro::standard_pressure_kpa(elevation)) is used when the file has no
 // pressure column. Throws InputError for anything it cannot read without guessing.
-WeatherSeries read_text(std::string_view text, std::string_view source_name,
-                        const Mapping& mapping, double site_pressure_kpa);
+WeatherSeries read_text(std::string_view text, std::string_view source_name, const Mapping& mapping,
+                        double site_pressure_kpa);
 WeatherSeries read_file(const std::filesystem::path& path, const Mapping& mapping,
                         double site_pressure_kpa);
 
