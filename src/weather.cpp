@@ -849,6 +849,11 @@ class Reader {
             fmt::format("{}: column '{}' given for {} is not in the header of {} (line {}: {})",
                         o.origin.empty() ? std::string("the weather mapping") : o.origin, *o.column,
                         q.label, src(), header_line, quoted_list(header_texts())));
+      if (o.unit && !q.has_unit)
+        throw InputError(fmt::format(
+            "{}: unit '{}' given for the {} column; allowed: no unit (a "
+            "time column has none)",
+            o.origin.empty() ? std::string("the weather mapping") : o.origin, *o.unit, q.label));
     }
 
     // Time columns, in the order they are read.
@@ -896,6 +901,9 @@ class Reader {
             quoted_list(header_texts()), info(chosen->second).key));
       inf.humidity_overridden = true;
     } else {
+      // A humidity column named in the mapping is the one meant; else the default order.
+      for (const auto& h : kHumidityOrder)
+        if (!chosen && match_.by_override[idx(h.second)]) chosen = h;
       for (const auto& h : kHumidityOrder)
         if (!chosen && match_[h.second] >= 0) chosen = h;
       if (!chosen)

@@ -655,6 +655,22 @@ TEST_CASE("columns: overrides by header text") {
         "(line 1: 'When', 'Outdoor (C)', 'Moisture (C)', 'Baro (mbar)')");
 }
 
+TEST_CASE("columns: a humidity column named in the mapping is the one used") {
+  // Greensboro has dew point and RH; naming the RH column chooses it over the dew point.
+  wx::Mapping m;
+  m.column(wx::Quantity::relative_humidity).column = "RHum (%)";
+  const wx::WeatherSeries s = wx::read_file(kGreensboro, m, 101.325);
+  CHECK(s.info.humidity == wx::HumiditySource::relative_humidity);
+  CHECK(s.info.unused_humidity.at(0).header == "Dew-point (C)");
+  // A unit on a time column is refused.
+  wx::Mapping t;
+  t.column(wx::Quantity::timestamp).unit = "C";
+  t.column(wx::Quantity::timestamp).origin = "--column";
+  CHECK(read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n", t) ==
+        "--column: unit 'C' given for the timestamp column; allowed: no unit (a time column has "
+        "none)");
+}
+
 TEST_CASE("columns: missing columns") {
   CHECK(read_error("Timestamp,Temp (C),Wind (m/s)\n2019-07-01T13:00,20,3\n") ==
         "t.csv:1: no humidity column: the header names none of dew point, humidity ratio, "
