@@ -11,6 +11,11 @@
 #include <string_view>
 #include <vector>
 
+namespace limitline {
+struct UnitSource;
+struct WeatherOverrides;
+}  // namespace limitline
+
 namespace limitline::cli {
 
 namespace po = boost::program_options;
@@ -33,6 +38,8 @@ int run_check(const std::vector<std::string>& args);
 int run_year(const std::vector<std::string>& args);
 int run_sequence(const std::vector<std::string>& args);
 int run_code(const std::vector<std::string>& args);
+int run_chart(const std::vector<std::string>& args);
+int run_report(const std::vector<std::string>& args);
 
 // Parses `args` against `options` (and positionals). When --help is present it prints
 // `usage`, the options and `details` and returns false; otherwise fills `vm` and returns true.
@@ -53,6 +60,16 @@ Common read_common(const po::variables_map& vm, std::initializer_list<Format> al
 // Reads option `name` as a quantity of `kind`, in the --units system for bare numbers.
 double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
                 units::System system);
+
+// The unit-file and weather options of the commands that read a unit and its weather year
+// (UNIT.toml positional, --demo, --weather, --column, --humidity, --on-bad-row,
+// --time-convention), and what they select. Defined in job_options.cpp.
+void add_job_options(po::options_description& options, po::positional_options_description& positional);
+limitline::UnitSource job_source(const po::variables_map& vm);
+limitline::WeatherOverrides weather_overrides(const po::variables_map& vm);
+
+// Writes text to a file (or stdout for "-"); InputError naming `option` when it cannot.
+void write_file(const std::string& path, const std::string& text, std::string_view option);
 
 // Writes text to stdout exactly (no added newline); exits with failure if stdout fails.
 void write_out(const std::string& text);

@@ -24,6 +24,10 @@ const Command kCommands[] = {
      limitline::cli::run_sequence},
     {"code", "what an energy code allows for the high-limit, and verdicts for a unit",
      limitline::cli::run_code},
+    {"chart", "psychrometric chart (SVG) of a unit's high-limits and a climate's hours",
+     limitline::cli::run_chart},
+    {"report", "the study as one self-contained HTML page (or Markdown) for a client",
+     limitline::cli::run_report},
 };
 
 void print_overview() {

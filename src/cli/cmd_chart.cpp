@@ -1,0 +1,77 @@
+// limitline chart: the psychrometric chart of a unit's high-limits, with a climate's occupied
+// hours or one checked operating point.
+#include "common.hpp"
+
+#include <limitline/air_point.hpp>
+#include <limitline/report/chart.hpp>
+#include <limitline/report_job.hpp>
+#include <limitline/year_job.hpp>
+
+namespace limitline::cli {
+namespace {
+
+constexpr std::string_view kDetails =
+    "Draws the psychrometric chart at the site's design pressure (it changes with elevation):\n"
+    "saturation, relative humidity every 10 %, enthalpy and wet-bulb lines, and for each\n"
+    "strategy of the unit file the line beyond which its high-limit stops the economizer.\n"
+    "Differential strategies are drawn against the return air, which is marked, as is the\n"
+    "mixed-air target (supply setpoint less fan heat).\n\n"
+    "By default the occupied hours of the weather year are binned on the chart (1 °F × 5 gr/lb,\n"
+    "or 0.5 °C × 0.5 g/kg with --units si) and coloured by what the perfect changeover does:\n"
+    "economize, do not economize, or no cooling needed.\n\n"
+    "With --outdoor (and optionally --return, default the unit's return air) it draws that one\n"
+    "point instead: outdoor, return and the mixed air the damper makes of them. Add --weather\n"
+    "to draw the climate's hours as well. States are dry-bulb plus one humidity form:\n"
+    "  68F/80%   68F/dp58F   68F/wb62F   68F/w0.011   68F/h30btu/lb\n\n"
+    "Examples:\n"
+    "  limitline chart -o chart.svg\n"
+    "  limitline chart --demo mesa-alta --units si -o mesa.svg\n"
+    "  limitline chart unit.toml --weather site.csv --strategy \"fixed dry-bulb 65F\" -o chart.svg\n"
+    "  limitline chart unit.toml --outdoor 68F/80% --return 75F/50% -o point.svg";
+
+}  // namespace
+
+int run_chart(const std::vector<std::string>& args) {
+  po::options_description options("options");
+  po::positional_options_description pos;
+  add_job_options(options, pos);
+  options.add_options()
+      ("output,o", po::value<std::string>()->default_value("-"), "SVG file to write (- for standard output)")
+      ("strategy", po::value<std::vector<std::string>>()->composing(),
+       "draw only this strategy of the unit file (repeatable; default: all)")
+      ("outdoor", po::value<std::string>(), "one outdoor state to check, e.g. 68F/80%")
+      ("return", po::value<std::string>(), "its return air (default: the unit file's), e.g. 75F/50%")
+      ("units", po::value<std::string>()->default_value("ip"), "unit system of the chart and of bare numbers: ip or si")
+      ("help,h", "show this help");
+  po::variables_map vm;
+  if (!parse_options(args, options, pos, "limitline chart [UNIT.toml] [options] -o chart.svg", kDetails, vm)) return 0;
+  const units::System s = units::parse_system(vm["units"].as<std::string>());
+  if (vm.count("return") && !vm.count("outdoor")) throw UsageError("--return needs --outdoor");
+  const UnitSource source = job_source(vm);
+  const std::vector<std::string> names =
+      vm.count("strategy") ? vm["strategy"].as<std::vector<std::string>>() : std::vector<std::string>{};
+
+  report::ChartInput chart;
+  if (vm.count("outdoor")) {
+    const UnitFile unit = load_unit(source);
+    const auto all = strategies_or_presets(unit);
+    const auto chosen = select_strategies(all, names, "--strategy", unit.path);
+    const AirPoint outdoor = parse_air_point(vm["outdoor"].as<std::string>(), s, "--outdoor");
+    const AirPoint ret = vm.count("return") ? parse_air_point(vm["return"].as<std::string>(), s, "--return") : unit.return_air;
+    chart = chart_input(unit, chosen, s);
+    chart.check = check_marks(unit, all, outdoor, "--outdoor", ret, vm.count("return") ? "--return" : unit.path + ": return air");
+    chart.return_air = chart.check->ret;
+    if (vm.count("weather")) {
+      const YearInputs in = load_year_inputs(source, weather_overrides(vm));
+      add_climate(chart, prepare_year(in, false), in.weather_label);
+    }
+  } else {
+    const YearInputs in = load_year_inputs(source, weather_overrides(vm));
+    chart = chart_input(in.unit, select_strategies(in.strategies, names, "--strategy", in.unit_label), s);
+    add_climate(chart, prepare_year(in, false), in.weather_label);
+  }
+  write_file(vm["output"].as<std::string>(), report::psychrometric_chart_svg(chart), "--output");
+  return 0;
+}
+
+}  // namespace limitline::cli

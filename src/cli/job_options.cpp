@@ -1,0 +1,52 @@
+// Options shared by the commands that read a unit file and its weather year.
+#include "common.hpp"
+
+#include <limitline/year_job.hpp>
+
+#include <fmt/format.h>
+
+#include <fstream>
+
+namespace limitline::cli {
+
+void add_job_options(po::options_description& options, po::positional_options_description& positional) {
+  options.add_options()
+      ("unit", po::value<std::string>(), "unit file (TOML); omit to use an embedded demo")
+      ("demo", po::value<std::string>(), "embedded demo: harbourside (default) or mesa-alta")
+      ("weather", po::value<std::string>(), "weather CSV (instead of the unit file's [weather] file)")
+      ("column", po::value<std::vector<std::string>>()->composing(),
+       "weather column override QUANTITY=HEADER[:UNIT] (repeatable)")
+      ("humidity", po::value<std::string>(),
+       "humidity column to use: dew-point, humidity-ratio, wet-bulb or relative-humidity")
+      ("on-bad-row", po::value<std::string>(), "missing or impossible weather rows: error (default), skip or fill")
+      ("time-convention", po::value<std::string>(), "weather stamps: hour-beginning or hour-ending (default: found from the file)");
+  positional.add("unit", 1);
+}
+
+UnitSource job_source(const po::variables_map& vm) {
+  if (vm.count("unit") && vm.count("demo")) throw UsageError("give a unit file or --demo, not both");
+  if (vm.count("unit")) return {vm["unit"].as<std::string>(), false};
+  return demo_unit(vm.count("demo") ? vm["demo"].as<std::string>() : "harbourside");
+}
+
+WeatherOverrides weather_overrides(const po::variables_map& vm) {
+  WeatherOverrides o;
+  if (vm.count("weather")) o.file = vm["weather"].as<std::string>();
+  if (vm.count("column")) o.columns = vm["column"].as<std::vector<std::string>>();
+  if (vm.count("humidity")) o.humidity = vm["humidity"].as<std::string>();
+  if (vm.count("on-bad-row")) o.on_bad_row = vm["on-bad-row"].as<std::string>();
+  if (vm.count("time-convention")) o.time_convention = vm["time-convention"].as<std::string>();
+  return o;
+}
+
+void write_file(const std::string& path, const std::string& text, std::string_view option) {
+  if (path == "-") {
+    write_out(text);
+    return;
+  }
+  std::ofstream f(path, std::ios::binary);
+  if (f) f.write(text.data(), static_cast<std::streamsize>(text.size()));
+  if (!f) throw InputError(fmt::format("{}: cannot write '{}'", option, path));
+}
+
+}  // namespace limitline::cli

@@ -1,0 +1,1107 @@
+#include <limitline/report/chart.hpp>
+
+#include <limitline/psychro.hpp>
+#include <limitline/report/html.hpp>
+#include <limitline/report/strategy.hpp>
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <array>
+#include <cmath>
+#include <map>
+#include <stdexcept>
+
+namespace limitline::report {
+namespace {
+
+using highlimit::Quantity;
+using highlimit::Reference;
+using units::System;
+
+// --- Style -----------------------------------------------------------------------------
+// Warm drafting paper, ink-blue saturation curve, steel RH lines, ochre enthalpy lines,
+// sage dotted wet-bulb lines; climate cells in moss / terracotta / slate; high-limits in
+// dark inks with numbered badges.
+
+constexpr std::string_view kFont = "'DejaVu Sans', 'Segoe UI', 'Helvetica Neue', Arial, sans-serif";
+constexpr std::string_view kPaper = "#fbf8f1";
+constexpr std::string_view kPaperAbove = "#efe9dc";
+constexpr std::string_view kInk = "#1f3347";
+constexpr std::string_view kInkSoft = "#55606b";
+constexpr std::string_view kGridMinor = "#ebe4d6";
+constexpr std::string_view kGridMajor = "#d6ccb8";
+constexpr std::string_view kRh = "#8ea6bd";
+constexpr std::string_view kEnthalpy = "#bf8a3f";
+constexpr std::string_view kWetBulb = "#5f8f80";
+constexpr std::string_view kTarget = "#7d5ba6";
+
+struct OutcomeStyle {
+  HourOutcome outcome;
+  std::string_view name;
+  std::string_view colour;
+};
+constexpr OutcomeStyle kOutcomes[] = {
+    {HourOutcome::economize, "economize", "#3d8f62"},
+    {HourOutcome::do_not_economize, "do not economize", "#c8623c"},
+    {HourOutcome::no_cooling_needed, "no cooling needed", "#7288ad"},
+};
+
+// Dark inks that stay apart from the three cell colours; each line is cased in paper colour.
+constexpr std::string_view kStrategyColours[] = {"#5b2a86", "#0b4f9c", "#b0127f", "#6b4400",
+                                                 "#1b1f2a", "#d18b00", "#0096c7", "#8c1c13"};
+
+// Axes per unit system, in display units.
+struct AxisStyle {
+  double t_min, t_max, t_major, t_minor;
+  double w_max, w_major, w_minor;  // gr/lb or g/kg
+  double w_per_kgkg;               // display humidity units per kg/kg
+  std::string_view w_unit;
+  double h_step;   // enthalpy line spacing, display units
+  double wb_step;  // wet-bulb line spacing
+  BinSize bin;
+};
+constexpr AxisStyle kIp{20, 110, 10, 5, 180, 20, 10, 7000.0, "gr/lb", 5, 10, {1.0, 5.0}};
+constexpr AxisStyle kSi{-5, 45, 5, 1, 26, 2, 1, 1000.0, "g/kg", 10, 5, {0.5, 0.5}};
+const AxisStyle& axis_style(System s) { return s == System::ip ? kIp : kSi; }
+
+// Limits are put on the chart (widening it) only inside this range: a limit far outside the
+// weather is a typing error to see in the legend, not a reason to shrink the chart to nothing.
+constexpr double kLimitRangeMinC = -40.0;
+constexpr double kLimitRangeMaxC = 60.0;
+
+constexpr double kWidth = 960.0;
+constexpr PlotArea kPlot{48.0, 84.0, 812.0, 500.0};
+
+// --- SVG text --------------------------------------------------------------------------
+
+std::string num(double v) {
+  if (!std::isfinite(v)) throw std::logic_error("chart: non-finite coordinate");
+  if (std::fabs(v) < 0.005) v = 0.0;
+  return fmt::format("{:.2f}", v);
+}
+
+std::string esc(std::string_view s) { return html_escape(s); }
+
+struct Px {
+  double x, y;
+};
+
+std::string path_d(const std::vector<Px>& pts) {
+  std::string d;
+  for (std::size_t i = 0; i < pts.size(); ++i)
+    d += fmt::format("{}{} {}", i ? " L" : "M", num(pts[i].x), num(pts[i].y));
+  return d;
+}
+
+// Text with a paper-coloured halo so it reads over lines and cells.
+std::string text(double x, double y, std::string_view s, std::string_view attrs,
+                 bool halo = false) {
+  return fmt::format("<text x=\"{}\" y=\"{}\" {}{}>{}</text>\n", num(x), num(y), attrs,
+                     halo ? fmt::format(" stroke=\"{}\" stroke-width=\"3\" paint-order=\"stroke\"", kPaper)
+                          : "",
+                     esc(s));
+}
+
+std::string svg_open(double height, std::string_view label) {
+  return fmt::format(
+      "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 {} {}\" width=\"{}\" "
+      "height=\"{}\" font-family=\"{}\" role=\"img\" aria-label=\"{}\">\n",
+      num(kWidth), num(height), num(kWidth), num(height), esc(kFont), esc(label));
+}
+
+// Greedy word wrap at `width` characters.
+std::vector<std::string> wrap(const std::string& s, std::size_t width) {
+  std::vector<std::string> lines;
+  std::string line;
+  std::size_t start = 0;
+  while (start <= s.size()) {
+    std::size_t end = s.find(' ', start);
+    if (end == std::string::npos) end = s.size();
+    const std::string word = s.substr(start, end - start);
+    if (!line.empty() && line.size() + 1 + word.size() > width) {
+      lines.push_back(line);
+      line = word;
+    } else {
+      line += (line.empty() ? "" : " ") + word;
+    }
+    start = end + 1;
+  }
+  if (!line.empty()) lines.push_back(line);
+  return lines;
+}
+
+// --- Display units ---------------------------------------------------------------------
+
+double t_disp(double c, System s) { return units::to_display(units::Kind::temperature, s, c); }
+double t_si(double d, System s) { return units::from_display(units::Kind::temperature, s, d); }
+std::string_view t_unit(System s) { return units::unit_label(units::Kind::temperature, s); }
+
+// --- Psychrometric curves in (t, W) ---------------------------------------------------------
+
+using Curve = std::vector<ChartPoint>;
+
+// Bisection for a monotone predicate: lo satisfies it, hi does not.
+template <class F>
+double bisect(double lo, double hi, F&& ok) {
+  for (int i = 0; i < 60; ++i) {
+    const double mid = 0.5 * (lo + hi);
+    (ok(mid) ? lo : hi) = mid;
+  }
+  return lo;
+}
+
+struct Psy {
+  double p;
+  double w_sat(double t) const { return psychro::saturation_humidity_ratio(t, p); }
+};
+
+// Clips a polyline in (t, W) to the chart rectangle (Liang–Barsky per segment), giving the
+// runs that are inside.
+std::vector<Curve> clip(const Curve& c, const ChartGeometry& g) {
+  std::vector<Curve> runs;
+  Curve run;
+  const double x0 = g.dry_bulb_min_c(), x1 = g.dry_bulb_max_c(), y0 = 0.0, y1 = g.humidity_ratio_max();
+  auto flush = [&] {
+    if (run.size() >= 2) runs.push_back(run);
+    run.clear();
+  };
+  for (std::size_t i = 0; i + 1 < c.size(); ++i) {
+    const ChartPoint a = c[i], b = c[i + 1];
+    const double dx = b.dry_bulb_c - a.dry_bulb_c, dy = b.humidity_ratio - a.humidity_ratio;
+    double u0 = 0.0, u1 = 1.0;
+    bool inside = true;
+    const double pq[4][2] = {{-dx, a.dry_bulb_c - x0},
+                             {dx, x1 - a.dry_bulb_c},
+                             {-dy, a.humidity_ratio - y0},
+                             {dy, y1 - a.humidity_ratio}};
+    for (const auto& e : pq) {
+      if (e[0] == 0.0) {
+        if (e[1] < 0.0) inside = false;
+      } else {
+        const double r = e[1] / e[0];
+        if (e[0] < 0.0) u0 = std::max(u0, r);
+        else u1 = std::min(u1, r);
+      }
+    }
+    if (!inside || u0 > u1) {
+      flush();
+      continue;
+    }
+    const ChartPoint pa{a.dry_bulb_c + u0 * dx, a.humidity_ratio + u0 * dy};
+    const ChartPoint pb{a.dry_bulb_c + u1 * dx, a.humidity_ratio + u1 * dy};
+    if (run.empty()) run.push_back(pa);
+    run.push_back(pb);
+    if (u1 < 1.0) flush();
+  }
+  flush();
+  return runs;
+}
+
+Curve sample_t(const ChartGeometry& g, int n, auto&& w_of_t) {
+  Curve c;
+  const double a = g.dry_bulb_min_c(), b = g.dry_bulb_max_c();
+  for (int i = 0; i <= n; ++i) {
+    const double t = a + (b - a) * i / n;
+    c.push_back({t, w_of_t(t)});
+  }
+  return c;
+}
+
+Curve saturation_curve(const ChartGeometry& g, const Psy& psy) {
+  return sample_t(g, 480, [&](double t) { return psy.w_sat(t); });
+}
+
+Curve rh_curve(const ChartGeometry& g, const Psy& psy, double rh) {
+  return sample_t(g, 240, [&](double t) {
+    return psychro::humidity_ratio_from_relative_humidity(t, rh, psy.p);
+  });
+}
+
+// Dry-bulb at which the saturated air of the chart has enthalpy h, searched within the chart.
+// Returns the dry-bulb range of the constant-enthalpy line inside the chart and under the
+// saturation curve, or nothing.
+std::optional<std::pair<double, double>> enthalpy_span(const ChartGeometry& g, const Psy& psy,
+                                                       double h) {
+  const double t_top = psychro::dry_bulb_from_enthalpy_c(h, g.humidity_ratio_max());
+  const double t_zero = psychro::dry_bulb_from_enthalpy_c(h, 0.0);
+  double a = std::max(g.dry_bulb_min_c(), t_top);
+  const double b = std::min(g.dry_bulb_max_c(), t_zero);
+  if (a >= b) return std::nullopt;
+  auto above_sat = [&](double t) { return psychro::enthalpy_kj_per_kg(t, psy.w_sat(t)) < h; };
+  if (above_sat(a)) {
+    if (above_sat(b)) return std::nullopt;
+    a = bisect(a, b, above_sat);
+  }
+  return std::make_pair(a, b);
+}
+
+// W on the constant-enthalpy line; at and beyond its dry-air end (W = 0) it is 0.
+double w_at_enthalpy(double t, double h) {
+  return t < psychro::dry_bulb_from_enthalpy_c(h, 0.0) ? psychro::humidity_ratio_from_enthalpy(t, h) : 0.0;
+}
+
+Curve enthalpy_curve(const ChartGeometry& g, const Psy& psy, double h, int n = 24) {
+  Curve c;
+  const auto span = enthalpy_span(g, psy, h);
+  if (!span) return c;
+  for (int i = 0; i <= n; ++i) {
+    const double t = span->first + (span->second - span->first) * i / n;
+    c.push_back({t, std::min(w_at_enthalpy(t, h), g.humidity_ratio_max())});
+  }
+  return c;
+}
+
+std::optional<double> w_at_wet_bulb(double t, double wb, double p) {
+  try {
+    return psychro::humidity_ratio_from_wet_bulb(t, wb, p);
+  } catch (const RangeError&) {
+    return std::nullopt;
+  }
+}
+
+Curve wet_bulb_curve(const ChartGeometry& g, const Psy& psy, double wb) {
+  Curve c;
+  const double a = std::max(wb, g.dry_bulb_min_c());
+  double b = g.dry_bulb_max_c();
+  if (a >= b || !w_at_wet_bulb(a, wb, psy.p)) return c;
+  if (!w_at_wet_bulb(b, wb, psy.p)) b = bisect(a, b, [&](double t) { return w_at_wet_bulb(t, wb, psy.p).has_value(); });
+  for (int i = 0; i <= 24; ++i) {
+    const double t = a + (b - a) * i / 24;
+    c.push_back({t, std::max(0.0, *w_at_wet_bulb(t, wb, psy.p))});
+  }
+  return c;
+}
+
+// --- High-limit boundaries ------------------------------------------------------------
+
+highlimit::AirValues values_at(const ChartPoint& pt, double p) {
+  // A dew point needs some vapour; the bottom edge (W = 0) is read as a trace of it.
+  const double w_dp = std::max(pt.humidity_ratio, 1e-7);
+  return highlimit::air_values(pt.dry_bulb_c, psychro::enthalpy_kj_per_kg(pt.dry_bulb_c, pt.humidity_ratio),
+                               psychro::dew_point_from_humidity_ratio_c(w_dp, p), pt.humidity_ratio);
+}
+
+enum class Family { vertical, enthalpy, horizontal };
+
+struct Boundary {
+  std::size_t strategy;
+  std::size_t condition;
+  Family family;
+  double key;  // the line's constant: °C, kJ/kg or kg/kg
+  std::vector<Curve> runs;
+};
+
+// The line of one condition at its effective limit, inside the chart and under saturation.
+std::pair<Family, Curve> condition_line(const highlimit::Condition& c, double limit,
+                                        const ChartGeometry& g, const Psy& psy, double& key) {
+  Curve line;
+  const double t0 = g.dry_bulb_min_c(), t1 = g.dry_bulb_max_c(), wm = g.humidity_ratio_max();
+  switch (c.quantity) {
+    case Quantity::dry_bulb: {
+      key = limit;
+      if (limit >= t0 && limit <= t1 && limit >= kLimitRangeMinC && limit <= kLimitRangeMaxC) {
+        const double top = std::min(psy.w_sat(limit), wm);
+        for (int i = 0; i <= 200; ++i) line.push_back({limit, top * i / 200});
+      }
+      return {Family::vertical, line};
+    }
+    case Quantity::enthalpy: {
+      key = limit;
+      return {Family::enthalpy, enthalpy_curve(g, psy, limit, 200)};
+    }
+    case Quantity::dew_point:
+    case Quantity::humidity_ratio: {
+      double w = limit, t_dew = 0.0;
+      if (c.quantity == Quantity::dew_point) {
+        if (limit < kLimitRangeMinC || limit > kLimitRangeMaxC) return {Family::horizontal, line};
+        w = psychro::humidity_ratio_from_dew_point(limit, psy.p);
+        t_dew = limit;
+      } else {
+        if (!(w > 0.0) || w > wm) return {Family::horizontal, line};
+        t_dew = psychro::dew_point_from_humidity_ratio_c(w, psy.p);
+      }
+      key = w;
+      if (w > wm || w <= 0.0 || t_dew >= t1) return {Family::horizontal, line};
+      const double a = std::max(t0, t_dew);
+      for (int i = 0; i <= 200; ++i) line.push_back({a + (t1 - a) * i / 200, w});
+      return {Family::horizontal, line};
+    }
+  }
+  return {Family::vertical, line};
+}
+
+bool others_clear(const highlimit::Strategy& s, std::size_t self, const ChartPoint& pt,
+                  const highlimit::AirValues& ret, double p) {
+  const highlimit::AirValues v = values_at(pt, p);
+  for (std::size_t j = 0; j < s.conditions.size(); ++j) {
+    if (j == self) continue;
+    const auto& c = s.conditions[j];
+    const double lim = c.effective_limit(ret);
+    if (v[c.quantity] > lim + 1e-9 * std::max(1.0, std::fabs(lim))) return false;
+  }
+  return true;
+}
+
+// The parts of a condition's line where every other condition of the strategy is clear: the
+// edge of the region where the strategy lets the economizer run.
+std::vector<Boundary> boundaries(const std::vector<highlimit::Strategy>& strategies,
+                                 const highlimit::AirValues& ret, const ChartGeometry& g,
+                                 const Psy& psy) {
+  std::vector<Boundary> out;
+  for (std::size_t si = 0; si < strategies.size(); ++si) {
+    const auto& s = strategies[si];
+    for (std::size_t ci = 0; ci < s.conditions.size(); ++ci) {
+      const auto& c = s.conditions[ci];
+      Boundary b{si, ci, Family::vertical, 0.0, {}};
+      auto [family, line] = condition_line(c, c.effective_limit(ret), g, psy, b.key);
+      b.family = family;
+      Curve run;
+      auto keep = [&](const ChartPoint& pt) { return others_clear(s, ci, pt, ret, psy.p); };
+      auto between = [](const ChartPoint& a, const ChartPoint& z, double u) {
+        return ChartPoint{a.dry_bulb_c + u * (z.dry_bulb_c - a.dry_bulb_c),
+                          a.humidity_ratio + u * (z.humidity_ratio - a.humidity_ratio)};
+      };
+      for (std::size_t i = 0; i < line.size(); ++i) {
+        const bool k = keep(line[i]);
+        if (i > 0 && k != keep(line[i - 1])) {
+          // The crossing between the two samples, found on their chord.
+          const ChartPoint a = line[i - 1], z = line[i];
+          const bool from_kept = !k;
+          const double u = bisect(0.0, 1.0, [&](double uu) { return keep(between(a, z, uu)) == from_kept; });
+          const ChartPoint edge = between(a, z, u);
+          if (from_kept) {
+            run.push_back(edge);
+            if (run.size() >= 2) b.runs.push_back(run);
+            run.clear();
+          } else {
+            run.push_back(edge);
+          }
+        }
+        if (k) run.push_back(line[i]);
+      }
+      if (run.size() >= 2) b.runs.push_back(run);
+      out.push_back(std::move(b));
+    }
+  }
+  return out;
+}
+
+// Straight families need only their ends; the enthalpy line keeps its samples.
+Curve simplified(const Curve& run, Family f) {
+  if (f == Family::enthalpy || run.size() <= 2) return run;
+  return {run.front(), run.back()};
+}
+
+std::vector<Px> to_px(const Curve& c, const ChartGeometry& g) {
+  std::vector<Px> out;
+  out.reserve(c.size());
+  for (const auto& p : c) out.push_back({g.x(p.dry_bulb_c), g.y(p.humidity_ratio)});
+  return out;
+}
+
+std::string_view quantity_attr(Quantity q) { return highlimit::quantity_name(q); }
+
+// --- Drawing pieces ---------------------------------------------------------------------
+
+struct Ctx {
+  const ChartInput& in;
+  const ChartGeometry& g;
+  Psy psy;
+  const AxisStyle& ax;
+  System s;
+  std::string out;
+};
+
+double w_of_display(const Ctx& c, double d) { return d / c.ax.w_per_kgkg; }
+
+void draw_paper(Ctx& c) {
+  const auto& a = c.g.area();
+  c.out += fmt::format("<rect x=\"0\" y=\"0\" width=\"{}\" height=\"100%\" fill=\"{}\"/>\n", num(kWidth), kPaper);
+  // The region above saturation is tinted: no air exists there.
+  Curve sat = saturation_curve(c.g, c.psy);
+  std::vector<Px> poly;
+  const auto runs = clip(sat, c.g);
+  if (!runs.empty()) {
+    poly.push_back({a.left, a.top});
+    const Curve& r = runs.front();
+    if (r.back().humidity_ratio >= c.g.humidity_ratio_max() - 1e-12) {
+      poly.push_back({c.g.x(r.back().dry_bulb_c), a.top});
+    } else {
+      poly.push_back({a.left + a.width, a.top});
+      poly.push_back({a.left + a.width, c.g.y(r.back().humidity_ratio)});
+    }
+    for (auto it = r.rbegin(); it != r.rend(); ++it) poly.push_back({c.g.x(it->dry_bulb_c), c.g.y(it->humidity_ratio)});
+    poly.push_back({a.left, c.g.y(r.front().humidity_ratio)});
+  }
+  c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"#fffdf8\"/>\n", num(a.left),
+                       num(a.top), num(a.width), num(a.height));
+  if (!poly.empty())
+    c.out += fmt::format("<path class=\"above-saturation\" d=\"{} Z\" fill=\"{}\"/>\n", path_d(poly), kPaperAbove);
+}
+
+void draw_grid(Ctx& c) {
+  const auto& g = c.g;
+  c.out += "<g class=\"grid\" fill=\"none\">\n";
+  // Dry-bulb lines up to saturation.
+  const double d0 = t_disp(g.dry_bulb_min_c(), c.s), d1 = t_disp(g.dry_bulb_max_c(), c.s);
+  for (double d = std::ceil(d0 / c.ax.t_minor - 1e-9) * c.ax.t_minor; d <= d1 + 1e-9; d += c.ax.t_minor) {
+    const double t = t_si(d, c.s);
+    const bool major = std::fabs(std::remainder(d, c.ax.t_major)) < 1e-6;
+    const double top = std::min(c.psy.w_sat(t), g.humidity_ratio_max());
+    c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n", num(g.x(t)), num(g.y(0)),
+                         num(g.x(t)), num(g.y(top)), major ? kGridMajor : kGridMinor, major ? "0.9" : "0.6");
+  }
+  // Humidity-ratio lines from the saturation curve to the right edge.
+  const double wd1 = g.humidity_ratio_max() * c.ax.w_per_kgkg;
+  for (double d = c.ax.w_minor; d <= wd1 + 1e-9; d += c.ax.w_minor) {
+    const double w = w_of_display(c, d);
+    const double t_dew = psychro::dew_point_from_humidity_ratio_c(w, c.psy.p);
+    if (t_dew >= g.dry_bulb_max_c()) continue;
+    const double a = std::max(t_dew, g.dry_bulb_min_c());
+    const bool major = std::fabs(std::remainder(d, c.ax.w_major)) < 1e-6;
+    c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n", num(g.x(a)), num(g.y(w)),
+                         num(g.x(g.dry_bulb_max_c())), num(g.y(w)), major ? kGridMajor : kGridMinor,
+                         major ? "0.9" : "0.6");
+  }
+  c.out += "</g>\n";
+}
+
+void draw_rh(Ctx& c, const std::vector<double>& verticals) {
+  c.out += fmt::format("<g class=\"relative-humidity\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.8\">\n", kRh);
+  // Labels stacked on one dry-bulb: where the 90 % curve is at 85 % of the height, or near
+  // the right edge when it stays lower.
+  const double span = c.g.dry_bulb_max_c() - c.g.dry_bulb_min_c();
+  double t_lab = c.g.dry_bulb_max_c() - 0.05 * span;
+  auto below = [&](double t) {
+    return psychro::humidity_ratio_from_relative_humidity(t, 0.9, c.psy.p) < 0.85 * c.g.humidity_ratio_max();
+  };
+  if (!below(t_lab)) t_lab = below(c.g.dry_bulb_min_c()) ? bisect(c.g.dry_bulb_min_c(), t_lab, below) : c.g.dry_bulb_min_c();
+  // Off any vertical line (a dry-bulb limit, the mixed-air target) that would hide them.
+  for (int tries = 0; tries < 8; ++tries) {
+    bool clash = false;
+    for (double x : verticals)
+      if (std::fabs(c.g.x(t_lab) - x) < 14.0) clash = true;
+    if (!clash) break;
+    t_lab += 14.0 * span / c.g.area().width;
+  }
+  std::string labels;
+  for (int k = 1; k <= 9; ++k) {
+    const double rh = k / 10.0;
+    for (const auto& run : clip(rh_curve(c.g, c.psy, rh), c.g)) c.out += fmt::format("<path d=\"{}\"/>\n", path_d(to_px(run, c.g)));
+    const double w_lab = psychro::humidity_ratio_from_relative_humidity(t_lab, rh, c.psy.p);
+    if (w_lab < c.g.humidity_ratio_max())
+      labels += text(c.g.x(t_lab), c.g.y(w_lab) - 3, fmt::format("{}%", k * 10),
+                     "font-size=\"9.5\" fill=\"#4f6d8a\" text-anchor=\"middle\"", true);
+  }
+  c.out += "</g>\n<g class=\"relative-humidity-labels\">\n" + labels + "</g>\n";
+}
+
+void draw_enthalpy(Ctx& c) {
+  const auto& g = c.g;
+  const bool ip = c.s == System::ip;
+  auto h_disp = [&](double h) { return ip ? units::enthalpy_ip_from_si(h) : h; };
+  auto h_si = [&](double d) { return ip ? units::enthalpy_si_from_ip(d) : d; };
+  const double lo = h_disp(psychro::enthalpy_kj_per_kg(g.dry_bulb_min_c(), 0.0));
+  const double hi = h_disp(psychro::enthalpy_kj_per_kg(g.dry_bulb_max_c(), g.humidity_ratio_max()));
+  c.out += fmt::format("<g class=\"enthalpy\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.7\" stroke-opacity=\"0.8\">\n", kEnthalpy);
+  std::string labels;
+  for (double d = std::ceil(lo / c.ax.h_step) * c.ax.h_step; d <= hi; d += c.ax.h_step) {
+    const Curve line = enthalpy_curve(g, c.psy, h_si(d));
+    if (line.size() < 2) continue;
+    c.out += fmt::format("<path data-enthalpy=\"{}\" d=\"{}\"/>\n", num(d), path_d(to_px(line, g)));
+    const ChartPoint start = line.front();
+    const bool on_curve = std::fabs(start.humidity_ratio - c.psy.w_sat(start.dry_bulb_c)) < 1e-6;
+    const bool on_top = start.humidity_ratio >= g.humidity_ratio_max() - 1e-12;
+    if (!on_curve && !on_top) continue;
+    labels += text(g.x(start.dry_bulb_c) - 3, g.y(start.humidity_ratio) - 4, fmt::format("{:.0f}", d),
+                   fmt::format("font-size=\"9.5\" fill=\"{}\" text-anchor=\"end\" font-style=\"italic\"", "#8a5f22"));
+  }
+  c.out += "</g>\n<g class=\"enthalpy-labels\">\n" + labels + "</g>\n";
+}
+
+void draw_wet_bulb(Ctx& c) {
+  const auto& g = c.g;
+  const double d0 = t_disp(g.dry_bulb_min_c(), c.s), d1 = t_disp(g.dry_bulb_max_c(), c.s);
+  c.out += fmt::format(
+      "<g class=\"wet-bulb\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.9\" stroke-dasharray=\"1.2 2.8\" "
+      "stroke-linecap=\"round\">\n",
+      kWetBulb);
+  std::string labels;
+  for (double d = std::ceil(d0 / c.ax.wb_step) * c.ax.wb_step; d < d1; d += c.ax.wb_step) {
+    const double wb = t_si(d, c.s);
+    const Curve line = wet_bulb_curve(g, c.psy, wb);
+    for (const auto& run : clip(line, g)) {
+      c.out += fmt::format("<path data-wet-bulb=\"{}\" d=\"{}\"/>\n", num(d), path_d(to_px(run, g)));
+      if (std::fabs(run.front().dry_bulb_c - wb) < 1e-9 && run.front().humidity_ratio < g.humidity_ratio_max())
+        labels += text(g.x(wb) + 4, g.y(run.front().humidity_ratio) + 11, fmt::format("wb {:.0f}", d),
+                       fmt::format("font-size=\"8.5\" fill=\"{}\"", "#3f6f61"), true);
+    }
+  }
+  c.out += "</g>\n<g class=\"wet-bulb-labels\">\n" + labels + "</g>\n";
+}
+
+struct BinTally {
+  std::array<double, kHourOutcomeCount> hours{};
+  double total() const { return hours[0] + hours[1] + hours[2]; }
+};
+
+std::string_view outcome_colour(HourOutcome o) { return kOutcomes[static_cast<std::size_t>(o)].colour; }
+
+// Opacity of a cell from its hours: square-root scale, so a single hour still shows.
+double cell_opacity(double hours, double max_hours) {
+  return 0.16 + 0.74 * std::sqrt(std::clamp(hours / max_hours, 0.0, 1.0));
+}
+
+struct OverlaySummary {
+  std::array<double, kHourOutcomeCount> hours{};
+  double max_cell = 0.0;
+  std::size_t cells = 0;
+};
+
+OverlaySummary draw_climate(Ctx& c) {
+  OverlaySummary sum;
+  if (c.in.climate.empty()) return sum;
+  const BinSize bin = c.ax.bin;
+  std::map<std::pair<long, long>, BinTally> cells;
+  for (const auto& h : c.in.climate) {
+    const double td = t_disp(h.outdoor.dry_bulb_c, c.s);
+    const double wd = h.outdoor.humidity_ratio * c.ax.w_per_kgkg;
+    const auto key = std::make_pair(static_cast<long>(std::floor(td / bin.dry_bulb)),
+                                    static_cast<long>(std::floor(wd / bin.humidity_ratio)));
+    cells[key].hours[static_cast<std::size_t>(h.outcome)] += h.hours;
+    sum.hours[static_cast<std::size_t>(h.outcome)] += h.hours;
+  }
+  for (const auto& [k, t] : cells) sum.max_cell = std::max(sum.max_cell, t.total());
+  sum.cells = cells.size();
+  if (!(sum.max_cell > 0.0)) return sum;
+  c.out += "<g class=\"climate\">\n";
+  std::string mixed;
+  for (const auto& [k, t] : cells) {
+    const double total = t.total();
+    if (!(total > 0.0)) continue;
+    std::size_t dom = 0, second = 0;
+    for (std::size_t i = 1; i < kHourOutcomeCount; ++i)
+      if (t.hours[i] > t.hours[dom]) dom = i;
+    second = dom == 0 ? 1 : 0;
+    for (std::size_t i = 0; i < kHourOutcomeCount; ++i)
+      if (i != dom && t.hours[i] > t.hours[second]) second = i;
+    const double x0 = c.g.x(t_si(k.first * bin.dry_bulb, c.s));
+    const double x1 = c.g.x(t_si((k.first + 1) * bin.dry_bulb, c.s));
+    const double y0 = c.g.y((k.second + 1) * bin.humidity_ratio / c.ax.w_per_kgkg);
+    const double y1 = c.g.y(k.second * bin.humidity_ratio / c.ax.w_per_kgkg);
+    c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"{}\" fill-opacity=\"{:.3f}\"/>\n",
+                         num(x0), num(y0), num(x1 - x0), num(y1 - y0), kOutcomes[dom].colour,
+                         cell_opacity(total, sum.max_cell));
+    // A cell where another outcome holds a fifth of the hours or more carries a dot of it.
+    if (t.hours[second] >= 0.2 * total)
+      mixed += fmt::format("<circle cx=\"{}\" cy=\"{}\" r=\"1.8\" fill=\"{}\"/>\n", num(0.5 * (x0 + x1)),
+                           num(0.5 * (y0 + y1)), kOutcomes[second].colour);
+  }
+  c.out += "</g>\n<g class=\"climate-mixed\">\n" + mixed + "</g>\n";
+  return sum;
+}
+
+void draw_saturation(Ctx& c) {
+  for (const auto& run : clip(saturation_curve(c.g, c.psy), c.g))
+    c.out += fmt::format("<path id=\"saturation\" class=\"saturation\" d=\"{}\" fill=\"none\" stroke=\"{}\" "
+                         "stroke-width=\"2.4\" stroke-linejoin=\"round\"/>\n",
+                         path_d(to_px(run, c.g)), kInk);
+}
+
+std::string fmt_t(double c, System s) { return units::format(units::Kind::temperature, s, c, 1); }
+
+void draw_target(Ctx& c) {
+  const double t = c.in.mixed_air_target_c;
+  if (t < c.g.dry_bulb_min_c() || t > c.g.dry_bulb_max_c()) return;
+  const double top = std::min(c.psy.w_sat(t), c.g.humidity_ratio_max());
+  const double x = c.g.x(t);
+  c.out += fmt::format("<path class=\"mixed-air-target\" d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"1.4\" "
+                       "stroke-dasharray=\"6 3 1.5 3\" fill=\"none\"/>\n",
+                       num(x), num(c.g.y(0)), num(x), num(c.g.y(top)), kTarget);
+  c.out += fmt::format("<text transform=\"translate({} {}) rotate(-90)\" font-size=\"10\" fill=\"{}\" stroke=\"{}\" "
+                       "stroke-width=\"3\" paint-order=\"stroke\">mixed-air target {}</text>\n",
+                       num(x - 4), num(c.g.y(0) - 8), kTarget, kPaper, esc(fmt_t(t, c.s)));
+}
+
+// Boxes the badges and labels keep clear of, in SVG units.
+struct Box {
+  double x0, y0, x1, y1;
+  bool hits(const Box& o) const { return x0 < o.x1 && o.x0 < x1 && y0 < o.y1 && o.y0 < y1; }
+};
+Box around(double x, double y, double r) { return {x - r, y - r, x + r, y + r}; }
+bool clear_of(const Box& b, const std::vector<Box>& taken) {
+  return std::none_of(taken.begin(), taken.end(), [&](const Box& o) { return b.hits(o); });
+}
+
+struct Mark {
+  ChartPoint p;
+  std::string_view shape, fill, cls;
+  std::string label;
+  double dx = 9, dy = -8;  // label offset
+};
+
+// Label box of 10.5 px bold text: about 6.4 px a character.
+Box label_box(double x, double y, double dx, double dy, const std::string& label) {
+  const double w = 6.4 * static_cast<double>(label.size());
+  const double lx = dx < 0 ? x + dx - w : x + dx;
+  return {lx, y + dy - 10, lx + w, y + dy + 3};
+}
+
+std::string state_text(const ChartPoint& p, double pressure, System s) {
+  const double rh = psychro::relative_humidity_from_humidity_ratio(p.dry_bulb_c, p.humidity_ratio, pressure);
+  return fmt::format("{}, {:.0f}% RH", fmt_t(p.dry_bulb_c, s), 100.0 * rh);
+}
+
+// The marks and where their labels go: the first of four places around each mark that is
+// clear of the marks and labels before it. Their boxes are added to `taken`.
+std::vector<Mark> layout_marks(const Ctx& c, std::vector<Box>& taken) {
+  std::vector<Mark> marks;
+  if (c.in.check) {
+    const auto& k = *c.in.check;
+    marks.push_back({k.outdoor, "circle", "#b03a2e", "outdoor", "outdoor " + state_text(k.outdoor, c.psy.p, c.s)});
+    marks.push_back({k.ret, "diamond", kInk, "return-air", "return " + state_text(k.ret, c.psy.p, c.s)});
+    marks.push_back({k.mixed, "square", "#1d6b52", "mixed-air",
+                     fmt::format("mixed {} ({:.0f}% outdoor air)", fmt_t(k.mixed.dry_bulb_c, c.s), 100.0 * k.oa_fraction)});
+  } else {
+    marks.push_back({c.in.return_air, "diamond", kInk, "return-air", "return air " + state_text(c.in.return_air, c.psy.p, c.s)});
+  }
+  for (const auto& m : marks) taken.push_back(around(c.g.x(m.p.dry_bulb_c), c.g.y(m.p.humidity_ratio), 8));
+  constexpr std::pair<double, double> kPlaces[] = {{10, 18}, {10, -9}, {-10, -9}, {-10, 18}, {10, 32}, {-10, 32}};
+  for (auto& m : marks) {
+    const double x = c.g.x(m.p.dry_bulb_c), y = c.g.y(m.p.humidity_ratio);
+    for (const auto& [dx, dy] : kPlaces) {
+      m.dx = dx;
+      m.dy = dy;
+      if (clear_of(label_box(x, y, dx, dy, m.label), taken)) break;
+    }
+    taken.push_back(label_box(x, y, m.dx, m.dy, m.label));
+  }
+  return marks;
+}
+
+void draw_boundaries(Ctx& c, const std::vector<Boundary>& bs, std::vector<bool>& drawn, std::vector<Box>& taken) {
+  // Lines several strategies share are drawn as interleaved dashes so each stays visible.
+  std::map<std::pair<int, long long>, std::vector<std::size_t>> shared;
+  auto group_key = [](const Boundary& b) {
+    const double scale = b.family == Family::horizontal ? 1e6 : 100.0;
+    return std::make_pair(static_cast<int>(b.family), std::llround(b.key * scale));
+  };
+  for (const auto& b : bs)
+    if (!b.runs.empty()) {
+      auto& v = shared[group_key(b)];
+      if (std::find(v.begin(), v.end(), b.strategy) == v.end()) v.push_back(b.strategy);
+    }
+  std::string badges, casing;
+  const std::size_t casing_at = c.out.size();
+  c.out += "<g class=\"high-limits\" fill=\"none\" stroke-width=\"2.2\" stroke-linecap=\"butt\">\n";
+  for (const auto& b : bs) {
+    if (b.runs.empty()) continue;
+    drawn[b.strategy] = true;
+    const auto& st = c.in.strategies[b.strategy];
+    const auto& cond = st.conditions[b.condition];
+    const auto& group = shared[group_key(b)];
+    const std::size_t k = group.size();
+    const std::size_t pos = static_cast<std::size_t>(std::find(group.begin(), group.end(), b.strategy) - group.begin());
+    std::string dash;
+    if (k > 1) {
+      constexpr double kDash = 9.0;
+      dash = fmt::format(" stroke-dasharray=\"{} {}\" stroke-dashoffset=\"{}\"", num(kDash), num(kDash * (k - 1)),
+                         num(-kDash * pos));
+    }
+    const std::string_view colour = strategy_colour(b.strategy);
+    for (const auto& run : b.runs) {
+      const auto pts = to_px(simplified(run, b.family), c.g);
+      casing += fmt::format("<path d=\"{}\"/>\n", path_d(pts));
+      c.out += fmt::format(
+          "<path class=\"boundary\" data-strategy=\"{}\" data-quantity=\"{}\" data-reference=\"{}\" data-line-si=\"{}\" "
+          "d=\"{}\" stroke=\"{}\"{}/>\n",
+          esc(st.name), quantity_attr(cond.quantity), highlimit::reference_name(cond.reference), fmt::format("{:.8g}", b.key),
+          path_d(pts), colour, dash);
+      // Badge just above the upper end of the run, or the nearest place around it that is
+      // clear of the marks, labels and badges already placed.
+      const Px top = pts.front().y < pts.back().y ? pts.front() : pts.back();
+      Px bd{top.x, std::max(top.y - 12, c.g.area().top - 6.0)};
+      for (int ring = 0; ring < 6; ++ring) {
+        bool found = false;
+        for (double sx : {0.0, -1.0, 1.0}) {
+          const Px cand{top.x + sx * 17.0 * (ring + (sx != 0.0 ? 1 : 0)), std::max(top.y - 12 - 17.0 * ring, c.g.area().top - 6.0)};
+          if (clear_of(around(cand.x, cand.y, 8.5), taken)) {
+            bd = cand;
+            found = true;
+            break;
+          }
+        }
+        if (found) break;
+      }
+      taken.push_back(around(bd.x, bd.y, 8.5));
+      badges += fmt::format(
+          "<g class=\"badge\"><circle cx=\"{}\" cy=\"{}\" r=\"7.5\" fill=\"{}\" stroke=\"{}\" stroke-width=\"1.5\"/>"
+          "<text x=\"{}\" y=\"{}\" font-size=\"9.5\" font-weight=\"bold\" fill=\"#ffffff\" "
+          "text-anchor=\"middle\">{}</text></g>\n",
+          num(bd.x), num(bd.y), colour, kPaper, num(bd.x), num(bd.y + 3.4), b.strategy + 1);
+    }
+  }
+  c.out += "</g>\n<g class=\"badges\">\n" + badges + "</g>\n";
+  // Paper-coloured casing under every high-limit line, so each reads over the cells.
+  c.out.insert(casing_at, fmt::format("<g class=\"high-limit-casing\" fill=\"none\" stroke=\"{}\" stroke-width=\"5\" "
+                                      "stroke-opacity=\"0.9\">\n{}</g>\n",
+                                      kPaper, casing));
+}
+
+void draw_marks(Ctx& c, const std::vector<Mark>& marks) {
+  if (c.in.check) {
+    const auto& k = *c.in.check;
+    const std::vector<Px> mix = {{c.g.x(k.outdoor.dry_bulb_c), c.g.y(k.outdoor.humidity_ratio)},
+                                 {c.g.x(k.ret.dry_bulb_c), c.g.y(k.ret.humidity_ratio)}};
+    c.out += fmt::format("<path class=\"mixing-line\" d=\"{}\" stroke=\"{}\" stroke-width=\"1.3\" fill=\"none\"/>\n",
+                         path_d(mix), kInkSoft);
+  }
+  for (const auto& m : marks) {
+    const double x = c.g.x(m.p.dry_bulb_c), y = c.g.y(m.p.humidity_ratio);
+    if (m.shape == "diamond")
+      c.out += fmt::format("<path class=\"{}\" d=\"M{} {} L{} {} L{} {} L{} {} Z\" fill=\"{}\" stroke=\"{}\" stroke-width=\"1.5\"/>\n",
+                           m.cls, num(x), num(y - 7), num(x + 7), num(y), num(x), num(y + 7), num(x - 7), num(y), m.fill, kPaper);
+    else if (m.shape == "square")
+      c.out += fmt::format("<rect class=\"{}\" x=\"{}\" y=\"{}\" width=\"11\" height=\"11\" fill=\"{}\" stroke=\"{}\" "
+                           "stroke-width=\"1.5\"/>\n",
+                           m.cls, num(x - 5.5), num(y - 5.5), m.fill, kPaper);
+    else
+      c.out += fmt::format("<circle class=\"{}\" cx=\"{}\" cy=\"{}\" r=\"6\" fill=\"{}\" stroke=\"{}\" stroke-width=\"1.5\"/>\n",
+                           m.cls, num(x), num(y), m.fill, kPaper);
+    c.out += text(x + m.dx, y + m.dy, m.label,
+                  fmt::format("font-size=\"10.5\" font-weight=\"bold\" fill=\"{}\"{}", m.fill, m.dx < 0 ? " text-anchor=\"end\"" : ""),
+                  true);
+  }
+}
+
+std::string tick_label(double v) {
+  if (std::fabs(v) < 1e-9) v = 0.0;
+  return std::fabs(v - std::round(v)) < 1e-9 ? fmt::format("{:.0f}", v) : fmt::format("{:.1f}", v);
+}
+
+void draw_axes(Ctx& c) {
+  const auto& a = c.g.area();
+  const double bottom = a.top + a.height, right = a.left + a.width;
+  c.out += fmt::format("<g class=\"axes\" stroke=\"{}\" stroke-width=\"1\">\n", kInk);
+  c.out += fmt::format("<path d=\"M{} {} L{} {} L{} {}\" fill=\"none\"/>\n", num(a.left), num(bottom), num(right),
+                       num(bottom), num(right), num(a.top));
+  std::string labels;
+  const double d0 = t_disp(c.g.dry_bulb_min_c(), c.s), d1 = t_disp(c.g.dry_bulb_max_c(), c.s);
+  for (double d = std::ceil(d0 / c.ax.t_major - 1e-9) * c.ax.t_major; d <= d1 + 1e-9; d += c.ax.t_major) {
+    const double x = c.g.x(t_si(d, c.s));
+    c.out += fmt::format("<path d=\"M{} {} L{} {}\"/>\n", num(x), num(bottom), num(x), num(bottom + 5));
+    labels += text(x, bottom + 17, tick_label(d), fmt::format("font-size=\"11\" fill=\"{}\" text-anchor=\"middle\"", kInk));
+  }
+  const double wd1 = c.g.humidity_ratio_max() * c.ax.w_per_kgkg;
+  for (double d = 0; d <= wd1 + 1e-9; d += c.ax.w_major) {
+    const double y = c.g.y(w_of_display(c, d));
+    c.out += fmt::format("<path d=\"M{} {} L{} {}\"/>\n", num(right), num(y), num(right + 5), num(y));
+    labels += text(right + 8, y + 4, tick_label(d), fmt::format("font-size=\"11\" fill=\"{}\"", kInk));
+  }
+  c.out += "</g>\n";
+  c.out += labels;
+  const std::string axis_attr = fmt::format("font-size=\"10.5\" fill=\"{}\" letter-spacing=\"1.2\"", kInkSoft);
+  c.out += text(a.left + a.width / 2, bottom + 36, fmt::format("DRY-BULB {}", t_unit(c.s)),
+                axis_attr + " text-anchor=\"middle\"");
+  c.out += fmt::format("<text transform=\"translate({} {}) rotate(90)\" {} text-anchor=\"middle\">{}</text>\n",
+                       num(kWidth - 20), num(a.top + a.height / 2), axis_attr,
+                       esc(fmt::format("HUMIDITY RATIO {} DRY AIR", c.s == System::ip ? "GRAINS PER LB" : "G PER KG")));
+}
+
+void draw_title(Ctx& c) {
+  const std::string pressure = units::format(units::Kind::pressure, c.s, c.in.pressure_kpa, c.s == System::ip ? 3 : 2);
+  c.out += text(kPlot.left, 30, fmt::format("Psychrometric chart at {}", pressure),
+                fmt::format("font-size=\"19\" font-weight=\"bold\" fill=\"{}\"", kInk));
+  std::string sub = c.in.pressure_basis;
+  if (!c.in.title.empty()) sub = c.in.title + (sub.empty() ? "" : " — " + sub);
+  if (!sub.empty()) c.out += text(kPlot.left, 50, sub, fmt::format("font-size=\"12\" fill=\"{}\"", kInkSoft));
+  if (!c.in.climate_label.empty())
+    c.out += text(kPlot.left, 66, "Occupied hours: " + c.in.climate_label, fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
+  else if (c.in.check)
+    c.out += text(kPlot.left, 66, "Checked point — " + c.in.check->note, fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
+}
+
+std::string hours_text(double h) { return fmt::format("{:.0f} h", h); }
+
+// The legend under the plot; returns the height used.
+double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const OverlaySummary& ov) {
+  const double x = kPlot.left;
+  const std::string head = fmt::format("font-size=\"10\" font-weight=\"bold\" fill=\"{}\" letter-spacing=\"1.1\"", kInkSoft);
+  const std::string body = fmt::format("font-size=\"11\" fill=\"{}\"", kInk);
+  const double y0 = y;
+  c.out += "<g class=\"legend\">\n";
+  if (!c.in.strategies.empty()) {
+    c.out += text(x, y, "HIGH-LIMITS — the economizer may run on the cooler, drier side of each line", head);
+    y += 18;
+    for (std::size_t i = 0; i < c.in.strategies.size(); ++i) {
+      const auto& st = c.in.strategies[i];
+      const std::string_view colour = strategy_colour(i);
+      c.out += fmt::format("<circle cx=\"{}\" cy=\"{}\" r=\"7.5\" fill=\"{}\"/>", num(x + 8), num(y - 4), colour);
+      c.out += text(x + 8, y - 0.6, std::to_string(i + 1), "font-size=\"9.5\" font-weight=\"bold\" fill=\"#ffffff\" text-anchor=\"middle\"");
+      c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"2.2\"/>\n", num(x + 22), num(y - 4),
+                           num(x + 46), num(y - 4), colour);
+      std::string line = st.name + " — " +
+                         (st.conditions.empty() ? std::string("no high-limit: always permitted") : describe_strategy(st, c.s));
+      if (!drawn[i] && !st.conditions.empty()) line += " (its limits lie outside this chart)";
+      const auto lines = wrap(line, 118);
+      for (std::size_t l = 0; l < lines.size(); ++l) {
+        c.out += text(x + 54, y, lines[l], body);
+        y += 15;
+      }
+      y += 2;
+    }
+    y += 10;
+  }
+  if (!c.in.climate.empty()) {
+    const double total = ov.hours[0] + ov.hours[1] + ov.hours[2];
+    c.out += text(x, y, fmt::format("OCCUPIED HOURS BY WHAT THE PERFECT CHANGEOVER DOES — {} in all", hours_text(total)), head);
+    y += 20;
+    double cx = x;
+    for (const auto& o : kOutcomes) {
+      const double h = ov.hours[static_cast<std::size_t>(o.outcome)];
+      c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"14\" fill=\"{}\" fill-opacity=\"0.85\"/>\n", num(cx),
+                           num(y - 11), o.colour);
+      const std::string label = fmt::format("{} {}", o.name, hours_text(h));
+      c.out += text(cx + 20, y, label, body);
+      cx += 34 + 6.6 * static_cast<double>(label.size());
+    }
+    y += 20;
+    // Density key: four cells from one hour to the fullest cell.
+    const BinSize bin = c.ax.bin;
+    const std::string cell = fmt::format("one cell = {} {} × {} {}", tick_label(bin.dry_bulb), t_unit(c.s),
+                                         tick_label(bin.humidity_ratio), c.ax.w_unit);
+    const double qs[] = {std::min(1.0, ov.max_cell), ov.max_cell / 4, ov.max_cell / 2, ov.max_cell};
+    double kx = x;
+    for (double q : qs) {
+      c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"14\" fill=\"{}\" fill-opacity=\"{:.3f}\"/>\n", num(kx),
+                           num(y - 11), kOutcomes[0].colour, cell_opacity(q, ov.max_cell));
+      kx += 16;
+    }
+    c.out += text(kx + 6, y, fmt::format("{}; shade from 1 h to {} in a cell; a dot marks a cell where another outcome holds a "
+                                         "fifth of the hours or more",
+                                         cell, hours_text(ov.max_cell)),
+                  body);
+    y += 24;
+  }
+  c.out += text(x, y, "LINES AND MARKS", head);
+  y += 18;
+  const std::string h_unit = c.s == System::ip ? "Btu/lb (0 °F dry-air datum)" : "kJ/kg (0 °C dry-air datum)";
+  const std::string lines[] = {
+      fmt::format("relative humidity every 10 %; enthalpy every {} {} labelled above the saturation curve; wet-bulb every {} {} (dotted)",
+                  tick_label(c.ax.h_step), h_unit, tick_label(c.ax.wb_step), t_unit(c.s)),
+      c.in.check ? "outdoor (circle), return (diamond) and mixed air (square) of the checked point, on their mixing line; " +
+                       c.in.check->note
+                 : "return air (diamond): the state differential high-limits compare with",
+      fmt::format("mixed-air target {} (dash-dot): supply setpoint less fan heat", fmt_t(c.in.mixed_air_target_c, c.s)),
+  };
+  for (const auto& l : lines) {
+    c.out += text(x, y, l, body);
+    y += 15;
+  }
+  c.out += "</g>\n";
+  return y - y0;
+}
+
+}  // namespace
+
+// --- Public ------------------------------------------------------------------------------
+
+ChartGeometry::ChartGeometry(double t0, double t1, double wmax, PlotArea area)
+    : t_min_(t0), t_max_(t1), w_max_(wmax), area_(area) {
+  if (!std::isfinite(t0) || !std::isfinite(t1) || !std::isfinite(wmax) || !(t1 > t0) || !(wmax > 0) ||
+      !(area.width > 0) || !(area.height > 0))
+    throw std::invalid_argument("ChartGeometry: empty or non-finite range");
+}
+
+double ChartGeometry::x(double t) const { return area_.left + (t - t_min_) / (t_max_ - t_min_) * area_.width; }
+double ChartGeometry::y(double w) const { return area_.top + area_.height - w / w_max_ * area_.height; }
+double ChartGeometry::dry_bulb_c(double x) const { return t_min_ + (x - area_.left) / area_.width * (t_max_ - t_min_); }
+double ChartGeometry::humidity_ratio(double y) const { return (area_.top + area_.height - y) / area_.height * w_max_; }
+
+std::string_view hour_outcome_name(HourOutcome o) { return kOutcomes[static_cast<std::size_t>(o)].name; }
+
+std::vector<ClimateHour> climate_hours(const annual::Prepared& prepared) {
+  std::vector<ClimateHour> out;
+  out.reserve(prepared.intervals.size());
+  for (const auto& iv : prepared.intervals) {
+    if (!(iv.hours > 0.0)) continue;
+    const HourOutcome o = !iv.cooling_needed ? HourOutcome::no_cooling_needed
+                          : iv.enabling_pays() ? HourOutcome::economize
+                                               : HourOutcome::do_not_economize;
+    out.push_back({{iv.outdoor[Quantity::dry_bulb], iv.outdoor[Quantity::humidity_ratio]}, iv.hours, o});
+  }
+  return out;
+}
+
+BinSize overlay_bin_size(System s) { return axis_style(s).bin; }
+
+std::string_view strategy_colour(std::size_t i) { return kStrategyColours[i % std::size(kStrategyColours)]; }
+
+ChartGeometry chart_geometry(const ChartInput& in) {
+  const AxisStyle& ax = axis_style(in.units);
+  double t_lo = ax.t_min, t_hi = ax.t_max, w_hi = ax.w_max;
+  auto take = [&](const ChartPoint& p) {
+    const double d = t_disp(p.dry_bulb_c, in.units);
+    t_lo = std::min(t_lo, d);
+    t_hi = std::max(t_hi, d);
+    w_hi = std::max(w_hi, p.humidity_ratio * ax.w_per_kgkg);
+  };
+  for (const auto& h : in.climate) take(h.outdoor);
+  take(in.return_air);
+  if (in.check) {
+    take(in.check->outdoor);
+    take(in.check->ret);
+    take(in.check->mixed);
+  }
+  auto take_t = [&](double c) {
+    if (c < kLimitRangeMinC || c > kLimitRangeMaxC) return;
+    t_lo = std::min(t_lo, t_disp(c, in.units));
+    t_hi = std::max(t_hi, t_disp(c, in.units));
+  };
+  take_t(in.mixed_air_target_c);
+  highlimit::AirValues ret = values_at(in.return_air, in.pressure_kpa);
+  for (const auto& s : in.strategies)
+    for (const auto& c : s.conditions) {
+      const double lim = c.effective_limit(ret);
+      if (c.quantity == Quantity::dry_bulb) take_t(lim);
+      if (c.quantity == Quantity::dew_point && lim >= kLimitRangeMinC && lim <= kLimitRangeMaxC)
+        w_hi = std::max(w_hi, psychro::humidity_ratio_from_dew_point(lim, in.pressure_kpa) * ax.w_per_kgkg * 1.02);
+    }
+  t_lo = std::floor(t_lo / ax.t_major + 1e-9) * ax.t_major;
+  t_hi = std::ceil(t_hi / ax.t_major - 1e-9) * ax.t_major;
+  w_hi = std::ceil(w_hi / ax.w_major - 1e-9) * ax.w_major;
+  return ChartGeometry(t_si(t_lo, in.units), t_si(t_hi, in.units), w_hi / ax.w_per_kgkg, kPlot);
+}
+
+std::string psychrometric_chart_svg(const ChartInput& in) {
+  psychro::check_pressure(in.pressure_kpa, "chart pressure");
+  const ChartGeometry g = chart_geometry(in);
+  Ctx c{in, g, Psy{in.pressure_kpa}, axis_style(in.units), in.units, {}};
+  const highlimit::AirValues ret = values_at(in.return_air, in.pressure_kpa);
+  const auto bs = boundaries(in.strategies, ret, g, c.psy);
+
+  draw_paper(c);
+  draw_grid(c);
+  std::vector<double> verticals = {g.x(in.mixed_air_target_c)};
+  for (const auto& b : bs)
+    if (b.family == Family::vertical && !b.runs.empty()) verticals.push_back(g.x(b.key));
+  draw_rh(c, verticals);
+  draw_enthalpy(c);
+  draw_wet_bulb(c);
+  const OverlaySummary ov = draw_climate(c);
+  draw_saturation(c);
+  draw_target(c);
+  std::vector<bool> drawn(in.strategies.size(), false);
+  std::vector<Box> taken;
+  const std::vector<Mark> marks = layout_marks(c, taken);
+  draw_boundaries(c, bs, drawn, taken);
+  draw_marks(c, marks);
+  draw_axes(c);
+  draw_title(c);
+  const double legend_top = g.area().top + g.area().height + 66;
+  const double legend_h = draw_legend(c, legend_top, drawn, ov);
+  const double height = legend_top + legend_h + 14;
+
+  const std::string pressure = units::format(units::Kind::pressure, in.units, in.pressure_kpa, 3);
+  return svg_open(height, "Psychrometric chart at " + pressure + " with high-limit boundaries") + c.out + "</svg>\n";
+}
+
+std::string monthly_hours_svg(const annual::YearResult& year, std::span<const std::string> order,
+                              std::string_view title) {
+  constexpr std::string_view kMonths[] = {"Jan", "Feb", "Mar", "Apr", "May", "Jun",
+                                          "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"};
+  // Strategies in the given order, then any the order does not name.
+  std::vector<std::pair<std::size_t, const annual::StrategyResult*>> rows;
+  std::vector<bool> used(year.strategies.size(), false);
+  for (std::size_t i = 0; i < order.size(); ++i)
+    for (std::size_t j = 0; j < year.strategies.size(); ++j)
+      if (!used[j] && year.strategies[j].name == order[i]) {
+        rows.emplace_back(i, &year.strategies[j]);
+        used[j] = true;
+        break;
+      }
+  for (std::size_t j = 0; j < year.strategies.size(); ++j)
+    if (!used[j]) rows.emplace_back(order.size() + j, &year.strategies[j]);
+
+  double peak = 0.0;
+  for (const auto& [i, r] : rows)
+    for (const auto& m : r->monthly) peak = std::max(peak, m.hours_economizing);
+  for (const auto& m : year.perfect_changeover.monthly) peak = std::max(peak, m.hours_economizing);
+  // A 1-2-5 step giving four to eight gridlines.
+  double step = 1.0;
+  if (peak > 0) {
+    const double raw = peak / 5.0;
+    const double mag = std::pow(10.0, std::floor(std::log10(raw)));
+    for (double f : {1.0, 2.0, 5.0, 10.0})
+      if (f * mag >= raw) {
+        step = f * mag;
+        break;
+      }
+  }
+  const double top_value = std::max(step, std::ceil(peak / step) * step);
+
+  const PlotArea plot{56.0, 70.0, 872.0, 260.0};
+  const double bottom = plot.top + plot.height;
+  auto y_of = [&](double h) { return bottom - h / top_value * plot.height; };
+  std::string out;
+  out += fmt::format("<rect x=\"0\" y=\"0\" width=\"{}\" height=\"100%\" fill=\"{}\"/>\n", num(kWidth), kPaper);
+  out += text(plot.left, 30, std::string(title), fmt::format("font-size=\"17\" font-weight=\"bold\" fill=\"{}\"", kInk));
+  out += text(plot.left, 48, "Bars: hours each strategy economizes. Dark step: hours the perfect changeover economizes.",
+              fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
+  out += "<g class=\"grid\">\n";
+  for (double v = 0; v <= top_value + 1e-9; v += step) {
+    out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n", num(plot.left), num(y_of(v)),
+                       num(plot.left + plot.width), num(y_of(v)), v == 0 ? kInk : kGridMajor, v == 0 ? "1" : "0.8");
+    out += text(plot.left - 6, y_of(v) + 4, tick_label(v), fmt::format("font-size=\"10.5\" fill=\"{}\" text-anchor=\"end\"", kInk));
+  }
+  out += "</g>\n";
+  const double group_w = plot.width / 12.0;
+  const double inner = group_w - 10.0;
+  const double bar_w = rows.empty() ? inner : inner / static_cast<double>(rows.size());
+  out += "<g class=\"bars\">\n";
+  for (std::size_t m = 0; m < 12; ++m) {
+    const double gx = plot.left + group_w * static_cast<double>(m) + 5.0;
+    for (std::size_t k = 0; k < rows.size(); ++k) {
+      const auto& [ci, r] = rows[k];
+      const double h = r->monthly[m].hours_economizing;
+      const double y = y_of(h);
+      out += fmt::format("<rect class=\"bar\" data-strategy=\"{}\" data-month=\"{}\" data-hours=\"{}\" x=\"{}\" y=\"{}\" "
+                         "width=\"{}\" height=\"{}\" fill=\"{}\"><title>{}</title></rect>\n",
+                         esc(r->name), m + 1, num(h), num(gx + bar_w * static_cast<double>(k)), num(y),
+                         num(std::max(bar_w - 1.0, 0.5)), num(bottom - y), strategy_colour(ci),
+                         esc(fmt::format("{} {}: {:.0f} h", kMonths[m], r->name, h)));
+    }
+    const double ideal = year.perfect_changeover.monthly[m].hours_economizing;
+    out += fmt::format("<path class=\"ideal\" data-month=\"{}\" d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"2.5\"/>\n",
+                       m + 1, num(gx - 2), num(y_of(ideal)), num(gx + inner + 2), num(y_of(ideal)), kInk);
+    out += text(gx + inner / 2, bottom + 16, kMonths[m], fmt::format("font-size=\"11\" fill=\"{}\" text-anchor=\"middle\"", kInk));
+  }
+  out += "</g>\n";
+  out += fmt::format("<text transform=\"translate(16 {}) rotate(-90)\" font-size=\"10.5\" fill=\"{}\" letter-spacing=\"1.2\" "
+                     "text-anchor=\"middle\">ECONOMIZING HOURS</text>\n",
+                     num(plot.top + plot.height / 2), kInkSoft);
+  // Legend in two columns.
+  double y = bottom + 42;
+  out += "<g class=\"legend\">\n";
+  std::vector<std::pair<std::string, std::string>> entries;
+  for (const auto& [ci, r] : rows) entries.emplace_back(r->name, std::string(strategy_colour(ci)));
+  entries.emplace_back("perfect changeover (ideal high-limit)", "");
+  const std::size_t per_col = (entries.size() + 1) / 2;
+  for (std::size_t e = 0; e < entries.size(); ++e) {
+    const double ex = plot.left + (e < per_col ? 0.0 : plot.width / 2);
+    const double ey = y + 17.0 * static_cast<double>(e < per_col ? e : e - per_col);
+    if (entries[e].second.empty())
+      out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"2.5\"/>\n", num(ex), num(ey - 4), num(ex + 14),
+                         num(ey - 4), kInk);
+    else
+      out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"11\" fill=\"{}\"/>\n", num(ex), num(ey - 10),
+                         entries[e].second);
+    out += text(ex + 20, ey, entries[e].first, fmt::format("font-size=\"11\" fill=\"{}\"", kInk));
+  }
+  out += "</g>\n";
+  const double height = y + 17.0 * static_cast<double>(per_col) + 8;
+  return svg_open(height, std::string(title)) + out + "</svg>\n";
+}
+
+}  // namespace limitline::report
