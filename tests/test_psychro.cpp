@@ -10,6 +10,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <functional>
 #include <limits>
@@ -204,6 +205,24 @@ TEST_CASE("dew point <-> humidity ratio round trip over the whole range") {
   for (double td : {-100.0, -1e-6, 0.0, 1e-6, 150.0, 200.0})
     check_near(psy::dew_point_from_vapor_pressure_c(psy::saturation_pressure_kpa(td)), td, 1e-6,
                fmt::format("td={}", td));
+}
+
+TEST_CASE("dew point is the exact inverse of eq. 5/6 within 2e-8 K (against bisection)") {
+  // Not the eq. 39/40 regressions: the inverse of the saturation-pressure fit itself, here
+  // found by plain bisection on saturation_pressure_kpa() over the whole range.
+  const double p_lo = psy::saturation_pressure_kpa(-100.0), p_hi = psy::saturation_pressure_kpa(200.0);
+  double worst = 0.0;
+  for (int i = 0; i <= 20000; ++i) {
+    const double pw = p_lo * std::pow(p_hi / p_lo, i / 20000.0);
+    double a = -100.0, b = 200.0;
+    while (b - a > 1e-12) {
+      const double m = 0.5 * (a + b);
+      (psy::saturation_pressure_kpa(m) < pw ? a : b) = m;
+    }
+    worst = std::max(worst, std::fabs(psy::dew_point_from_vapor_pressure_c(pw) - 0.5 * (a + b)));
+  }
+  INFO("largest difference ", worst, " K");
+  CHECK(worst <= 2e-8);
 }
 
 TEST_CASE("dew point of steam-table saturation pressures") {
