@@ -20,32 +20,38 @@ constexpr double C1 = -5.6745359e3, C2 = 6.3925247, C3 = -9.6778430e-3, C4 = 6.2
 constexpr double C8 = -5.8002206e3, C9 = 1.3914993, C10 = -4.8640239e-2, C11 = 4.1764768e-5,
                  C12 = -1.4452093e-8, C13 = 6.5459673;
 
-// ln p_ws (Pa) over ice, eq. 5.
-inline double ln_pws_ice(double T, double lnT) {
-  return C1 / T + C2 + T * (C3 + T * (C4 + T * (C5 + T * C6))) + C7 * lnT;
+// ln p_ws (Pa) over ice (eq. 5) and over water (eq. 6), with the first and second derivative
+// in T, all from T, 1/T and ln T so that one division and one logarithm serve all three.
+inline double ln_pws_ice(double T, double inv, double lnT) {
+  return C1 * inv + C2 + T * (C3 + T * (C4 + T * (C5 + T * C6))) + C7 * lnT;
 }
-inline double ln_pws_ice_slope(double T) {
-  return -C1 / (T * T) + C3 + T * (2 * C4 + T * (3 * C5 + T * 4 * C6)) + C7 / T;
+inline double ln_pws_ice_slope(double T, double inv) {
+  return (-C1 * inv + C7) * inv + C3 + T * (2 * C4 + T * (3 * C5 + T * 4 * C6));
 }
-// ln p_ws (Pa) over water, eq. 6.
-inline double ln_pws_water(double T, double lnT) {
-  return C8 / T + C9 + T * (C10 + T * (C11 + T * C12)) + C13 * lnT;
+inline double ln_pws_ice_curvature(double T, double inv) {
+  return (2 * C1 * inv - C7) * inv * inv + 2 * C4 + T * (6 * C5 + T * 12 * C6);
 }
-inline double ln_pws_water_slope(double T) {
-  return -C8 / (T * T) + C10 + T * (2 * C11 + T * 3 * C12) + C13 / T;
+inline double ln_pws_water(double T, double inv, double lnT) {
+  return C8 * inv + C9 + T * (C10 + T * (C11 + T * C12)) + C13 * lnT;
+}
+inline double ln_pws_water_slope(double T, double inv) {
+  return (-C8 * inv + C13) * inv + C10 + T * (2 * C11 + T * 3 * C12);
+}
+inline double ln_pws_water_curvature(double T, double inv) {
+  return (2 * C8 * inv - C13) * inv * inv + 2 * C11 + T * 6 * C12;
 }
 
+// The fit in use at t: ice below 0 °C, water from 0 °C.
 inline double ln_pws_pa(double t_c) {
   const double T = t_c + kKelvinOffset;
-  const double lnT = std::log(T);
-  return t_c < 0.0 ? ln_pws_ice(T, lnT) : ln_pws_water(T, lnT);
+  return t_c < 0.0 ? ln_pws_ice(T, 1.0 / T, std::log(T)) : ln_pws_water(T, 1.0 / T, std::log(T));
 }
 
-// p_ws (kPa) of eq. 5/6 at one temperature with the first two derivatives of ln p_ws, sharing
-// 1/T and ln T: what each step of the wet-bulb solver needs.
+// p_ws (kPa) at one temperature with the first two derivatives of ln p_ws: what each step of
+// the wet-bulb solver needs.
 struct Saturation {
   double pws_kpa;
-  double log_slope_per_k;      // d ln p_ws/dT
+  double log_slope_per_k;       // d ln p_ws/dT
   double log_curvature_per_k2;  // d² ln p_ws/dT²
 };
 inline Saturation saturation_at(double t_c) {
@@ -53,12 +59,10 @@ inline Saturation saturation_at(double t_c) {
   const double inv = 1.0 / T;
   const double lnT = std::log(T);
   if (t_c < 0.0)
-    return {std::exp(C1 * inv + C2 + T * (C3 + T * (C4 + T * (C5 + T * C6))) + C7 * lnT) * 1e-3,
-            (-C1 * inv + C7) * inv + C3 + T * (2 * C4 + T * (3 * C5 + T * 4 * C6)),
-            (2 * C1 * inv - C7) * inv * inv + 2 * C4 + T * (6 * C5 + T * 12 * C6)};
-  return {std::exp(C8 * inv + C9 + T * (C10 + T * (C11 + T * C12)) + C13 * lnT) * 1e-3,
-          (-C8 * inv + C13) * inv + C10 + T * (2 * C11 + T * 3 * C12),
-          (2 * C8 * inv - C13) * inv * inv + 2 * C11 + T * 6 * C12};
+    return {std::exp(ln_pws_ice(T, inv, lnT)) * 1e-3, ln_pws_ice_slope(T, inv),
+            ln_pws_ice_curvature(T, inv)};
+  return {std::exp(ln_pws_water(T, inv, lnT)) * 1e-3, ln_pws_water_slope(T, inv),
+          ln_pws_water_curvature(T, inv)};
 }
 
 [[noreturn]] void out_of_range(const char* what, double value, const char* unit,
@@ -119,11 +123,11 @@ class InverseBranch {
 
   double ln_pws(double t_c) const {
     const double T = t_c + kKelvinOffset;
-    return ice_ ? ln_pws_ice(T, std::log(T)) : ln_pws_water(T, std::log(T));
+    return ice_ ? ln_pws_ice(T, 1.0 / T, std::log(T)) : ln_pws_water(T, 1.0 / T, std::log(T));
   }
   double log_slope(double t_c) const {
     const double T = t_c + kKelvinOffset;
-    return ice_ ? ln_pws_ice_slope(T) : ln_pws_water_slope(T);
+    return ice_ ? ln_pws_ice_slope(T, 1.0 / T) : ln_pws_water_slope(T, 1.0 / T);
   }
 
   // t with ln p_ws(t) = y, for y within the branch.
@@ -193,8 +197,7 @@ double saturation_pressure_kpa(double t_c) {
 
 double saturation_pressure_log_slope_per_k(double t_c) {
   check_dry_bulb(t_c);
-  const double T = t_c + kKelvinOffset;
-  return t_c < 0.0 ? ln_pws_ice_slope(T) : ln_pws_water_slope(T);
+  return saturation_at(t_c).log_slope_per_k;
 }
 
 double humidity_ratio_from_vapor_pressure(double pw_kpa, double p_kpa) {
