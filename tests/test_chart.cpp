@@ -15,6 +15,7 @@
 #include <limitline/year_job.hpp>
 
 #include "support/cli.hpp"
+#include "support/svg.hpp"
 
 #include <fmt/format.h>
 
@@ -26,79 +27,17 @@ using namespace limitline;
 using limitline::test::contains;
 using limitline::test::run_cli;
 using limitline::test::scratch_dir;
-using limitline::test::shell_quote;
 using limitline::test::slurp;
+using limitline::test::svg::attr;
+using limitline::test::svg::check_standalone;
+using limitline::test::svg::check_svg_renders;
+using limitline::test::svg::path_points;
+using limitline::test::svg::tags_with;
+using limitline::test::svg::Xy;
 
 namespace {
 
 constexpr double kHalfPixel = 0.5;
-
-struct Xy {
-  double x, y;
-};
-
-// Coordinates of an SVG path written as "M x y L x y ...".
-std::vector<Xy> path_points(const std::string& d) {
-  static const std::regex pair(R"([ML]\s*(-?[0-9.]+)[ ,]\s*(-?[0-9.]+))");
-  std::vector<Xy> out;
-  for (auto it = std::sregex_iterator(d.begin(), d.end(), pair); it != std::sregex_iterator(); ++it)
-    out.push_back({std::stod((*it)[1]), std::stod((*it)[2])});
-  return out;
-}
-
-// Every element opening tag that carries all the attribute fragments, e.g. class="boundary".
-std::vector<std::string> tags_with(const std::string& svg, const std::vector<std::string>& fragments) {
-  static const std::regex tag(R"(<[a-z]+\s[^>]*>)");
-  std::vector<std::string> out;
-  for (auto it = std::sregex_iterator(svg.begin(), svg.end(), tag); it != std::sregex_iterator(); ++it) {
-    const std::string t = it->str();
-    bool all = true;
-    for (const auto& f : fragments) all = all && contains(t, f);
-    if (all) out.push_back(t);
-  }
-  return out;
-}
-
-std::string attr(const std::string& tag, const std::string& name) {
-  const std::regex re("\\s" + name + "=\"([^\"]*)\"");
-  std::smatch m;
-  return std::regex_search(tag, m, re) ? m[1].str() : std::string();
-}
-
-int sh(const std::string& cmd) {
-  const int status = std::system(cmd.c_str());
-  return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-}
-
-// Parses with xmllint, renders with rsvg-convert and checks the picture is not blank.
-void check_svg_renders(const std::string& svg, const std::string& name) {
-  const auto dir = scratch_dir("chart");
-  const auto file = dir / (name + ".svg"), png = dir / (name + ".png"), stats = dir / (name + ".json");
-  std::ofstream(file, std::ios::binary) << svg;
-  CHECK_MESSAGE(sh("xmllint --noout " + shell_quote(file.string()) + " 2>/dev/null") == 0, name);
-  REQUIRE_MESSAGE(sh("rsvg-convert " + shell_quote(file.string()) + " -o " + shell_quote(png.string())) == 0, name);
-  REQUIRE(sh("node " + shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/tests/tools/png_stats.js") + " " +
-             shell_quote(png.string()) + " > " + shell_quote(stats.string())) == 0);
-  const std::string s = slurp(stats);
-  std::smatch m;
-  REQUIRE(std::regex_search(s, m, std::regex(R"("distinct":(\d+),"non_dominant":([0-9.e-]+))")));
-  // A chart has lines, text and cells in many colours, and a good part of it is not paper.
-  CHECK_MESSAGE(std::stoi(m[1]) > 200, name);
-  CHECK_MESSAGE(std::stod(m[2]) > 0.05, name);
-}
-
-void check_standalone(const std::string& svg) {
-  CHECK(svg.starts_with("<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 "));
-  CHECK_FALSE(contains(svg, "href"));
-  CHECK_FALSE(contains(svg, "url("));
-  CHECK_FALSE(contains(svg, "<script"));
-  CHECK_FALSE(contains(svg, "<image"));
-  // The namespace is the only URL.
-  CHECK(svg.find("http") == svg.find("http://www.w3.org/2000/svg"));
-  CHECK(svg.find("http", svg.find("http") + 1) == std::string::npos);
-  static const std::regex bad(R"((^|[^a-z])(nan|inf)([^a-z]|$))", std::regex::icase);
-  CHECK_FALSE(std::regex_search(svg, bad));
-}
 
 struct Demo {
   YearInputs in;
@@ -338,12 +277,39 @@ TEST_CASE("the climate overlay counts every occupied hour by the perfect changeo
   CHECK(inside > 100);
 }
 
+TEST_CASE("overlay cells widen when the weather was recorded in whole degrees of the other system") {
+  // The demo climate is recorded to 0.1 °C: the finest cells, 1 °F × 5 gr/lb and 0.5 °C × 0.5 g/kg.
+  const auto climate = report::climate_hours(harbourside().prepared);
+  auto ip = report::overlay_bin_size(climate, units::System::ip);
+  CHECK(ip.dry_bulb == 1.0);
+  CHECK(ip.humidity_ratio == 5.0);
+  auto si = report::overlay_bin_size(climate, units::System::si);
+  CHECK(si.dry_bulb == 0.5);
+  CHECK(si.humidity_ratio == 0.5);
+  // Whole °C readings are 1.8 °F apart, so 1 °F columns would alternate full and empty.
+  std::vector<report::ClimateHour> whole_c;
+  for (int t = -5; t <= 35; ++t)
+    for (double w : {0.004, 0.006, 0.008}) whole_c.push_back({{static_cast<double>(t), w}, 1.0, report::HourOutcome::economize});
+  ip = report::overlay_bin_size(whole_c, units::System::ip);
+  CHECK(ip.dry_bulb == 2.0);
+  // Whole °F readings are 0.56 °C apart: 0.5 °C columns leave every ninth one empty.
+  std::vector<report::ClimateHour> whole_f;
+  for (int f = 20; f <= 100; ++f)
+    whole_f.push_back({{units::celsius_from_fahrenheit(f), 0.006}, 1.0, report::HourOutcome::economize});
+  si = report::overlay_bin_size(whole_f, units::System::si);
+  CHECK(si.dry_bulb == 1.0);
+  // The chart says which cell it used.
+  report::ChartInput c = chart_input(harbourside().in.unit, {}, units::System::ip);
+  c.climate = whole_c;
+  CHECK(contains(report::psychrometric_chart_svg(c), "one cell = 2 °F × 5 gr/lb"));
+}
+
 TEST_CASE("charts parse as XML, are standalone and render to a picture that is not blank") {
   for (const units::System s : {units::System::ip, units::System::si}) {
     const auto c = demo_chart(s);
     const std::string svg = report::psychrometric_chart_svg(c);
     check_standalone(svg);
-    check_svg_renders(svg, std::string("psychrometric-") + std::string(units::system_name(s)));
+    check_svg_renders(svg, "chart", std::string("psychrometric-") + std::string(units::system_name(s)));
     CHECK(contains(svg, s == units::System::ip ? "GRAINS PER LB" : "G PER KG"));
     CHECK(contains(svg, s == units::System::ip ? "14.678 psia" : "101.20 kPa"));  // standard pressure at 33 ft, eq. 3
   }
@@ -353,7 +319,7 @@ TEST_CASE("charts parse as XML, are standalone and render to a picture that is n
   for (const auto& st : d.in.strategies) order.push_back(st.name);
   const std::string bars = report::monthly_hours_svg(year, order, "Economizing hours by month");
   check_standalone(bars);
-  check_svg_renders(bars, "monthly");
+  check_svg_renders(bars, "chart", "monthly");
 }
 
 TEST_CASE("the monthly bars carry each strategy's economizing hours and the ideal as a step") {
@@ -405,7 +371,7 @@ TEST_CASE("limitline chart writes the demo chart and one checked point") {
   REQUIRE(r.rc == 0);
   svg = slurp(pt);
   check_standalone(svg);
-  check_svg_renders(svg, "point");
+  check_svg_renders(svg, "chart", "point");
   CHECK_FALSE(contains(svg, "class=\"climate\""));
   const auto o = tags_with(svg, {"class=\"outdoor\""}), m = tags_with(svg, {"class=\"mixed-air\""}),
              ret = tags_with(svg, {"class=\"return-air\""});
@@ -439,7 +405,7 @@ enthalpy_limit = "28btu/lb"
   REQUIRE(r.rc == 0);
   const std::string svg = slurp(out);
   check_standalone(svg);
-  check_svg_renders(svg, "greensboro");
+  check_svg_renders(svg, "chart", "greensboro");
   // Greensboro has hours below −5 °C (TMY3 file, dry-bulb column): the chart widens to show them.
   CHECK(contains(svg, ">-10</text>"));
   CHECK(contains(svg, "data-strategy=\"enthalpy 28\""));

@@ -554,15 +554,32 @@ double cell_opacity(double hours, double max_hours) {
 }
 
 struct OverlaySummary {
+  BinSize bin{};
   std::array<double, kHourOutcomeCount> hours{};
   double max_cell = 0.0;
   std::size_t cells = 0;
 };
 
+// Share of the columns (or rows) spanned by the data that are empty between two filled ones.
+double stripe_share(std::span<const ClimateHour> climate, double step, auto&& coordinate) {
+  std::map<long, double> filled;
+  for (const auto& h : climate) filled[static_cast<long>(std::floor(coordinate(h) / step))] += h.hours;
+  if (filled.size() < 3) return 0.0;
+  const long lo = filled.begin()->first, hi = filled.rbegin()->first;
+  long stripes = 0;
+  for (long k = lo + 1; k < hi; ++k)
+    if (!filled.count(k) && filled.count(k - 1) && filled.count(k + 1)) ++stripes;
+  return static_cast<double>(stripes) / static_cast<double>(hi - lo + 1);
+}
+
+// More than this share of stripes is the recording's resolution showing, not the climate.
+constexpr double kStripeShare = 0.05;
+
 OverlaySummary draw_climate(Ctx& c) {
   OverlaySummary sum;
   if (c.in.climate.empty()) return sum;
-  const BinSize bin = c.ax.bin;
+  const BinSize bin = overlay_bin_size(c.in.climate, c.s);
+  sum.bin = bin;
   std::map<std::pair<long, long>, BinTally> cells;
   for (const auto& h : c.in.climate) {
     const double td = t_disp(h.outdoor.dry_bulb_c, c.s);
@@ -868,7 +885,7 @@ double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const Overl
     }
     y += 20;
     // Density key: four cells from one hour to the fullest cell.
-    const BinSize bin = c.ax.bin;
+    const BinSize bin = ov.bin;
     const std::string cell = fmt::format("one cell = {} {} × {} {}", tick_label(bin.dry_bulb), t_unit(c.s),
                                          tick_label(bin.humidity_ratio), c.ax.w_unit);
     const double qs[] = {std::min(1.0, ov.max_cell), ov.max_cell / 4, ov.max_cell / 2, ov.max_cell};
@@ -934,7 +951,21 @@ std::vector<ClimateHour> climate_hours(const annual::Prepared& prepared) {
   return out;
 }
 
-BinSize overlay_bin_size(System s) { return axis_style(s).bin; }
+BinSize overlay_bin_size(std::span<const ClimateHour> climate, System s) {
+  const AxisStyle& ax = axis_style(s);
+  BinSize bin = ax.bin;
+  for (int k = 0; k < 2 && stripe_share(climate, bin.dry_bulb, [&](const ClimateHour& h) {
+                             return t_disp(h.outdoor.dry_bulb_c, s);
+                           }) > kStripeShare;
+       ++k)
+    bin.dry_bulb *= 2;
+  for (int k = 0; k < 2 && stripe_share(climate, bin.humidity_ratio, [&](const ClimateHour& h) {
+                             return h.outdoor.humidity_ratio * ax.w_per_kgkg;
+                           }) > kStripeShare;
+       ++k)
+    bin.humidity_ratio *= 2;
+  return bin;
+}
 
 std::string_view strategy_colour(std::size_t i) { return kStrategyColours[i % std::size(kStrategyColours)]; }
 

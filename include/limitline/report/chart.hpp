@@ -74,12 +74,17 @@ struct ClimateHour {
 // perfect changeover's decision), do not economize when it does not.
 std::vector<ClimateHour> climate_hours(const annual::Prepared& prepared);
 
-// Size of one overlay cell in display units: 1 °F × 5 gr/lb (IP), 0.5 °C × 0.5 g/kg (SI).
+// Size of one overlay cell in display units.
 struct BinSize {
   double dry_bulb;        // °F or °C
   double humidity_ratio;  // gr/lb or g/kg
 };
-BinSize overlay_bin_size(units::System s);
+
+// The cell size the chart uses for `climate`: 1 °F × 5 gr/lb (IP) or 0.5 °C × 0.5 g/kg (SI),
+// each side doubled (up to four times) while the data leave empty stripes between filled
+// cells — weather recorded in whole degrees of the other unit system does, and the stripes
+// would be an artefact of the recording, not of the climate.
+BinSize overlay_bin_size(std::span<const ClimateHour> climate, units::System s);
 
 // One operating point checked on its own: outdoor and return air and the mixed air the
 // damper makes of them.
