@@ -1,0 +1,141 @@
+// limitline audit: a trend log checked against the unit's high-limit and the model.
+#include "common.hpp"
+
+#include <limitline/audit.hpp>
+#include <limitline/codes.hpp>
+#include <limitline/report/audit.hpp>
+#include <limitline/report/strategy.hpp>
+#include <limitline/trend.hpp>
+#include <limitline/unit_file.hpp>
+
+#include <fmt/format.h>
+
+namespace limitline::cli {
+namespace {
+
+constexpr std::string_view kDetails =
+    "Reads a trend log exported from the building automation system and checks, sample by\n"
+    "sample, what the economizer did against what the unit file's high-limit strategy (the\n"
+    "first one, or --strategy NAME; or the energy code's with --edition and --zone) says it\n"
+    "should have done. Each sample counts for the time to the next one, capped at --max-gap\n"
+    "(default twice the median interval). The outdoor-air fraction is measured from the\n"
+    "outdoor, return and mixed-air temperatures where they are far enough apart for the\n"
+    "sensors' accuracy, with its uncertainty.\n\n"
+    "Columns are found from the header (e.g. 'OA Temp (°F)', 'OA RH (%)', 'RAT', 'MA Temp',\n"
+    "'SA Temp', 'OA Damper Cmd (%)', 'SF Status', 'Clg Valve (%)'; a 'Timestamp' or 'Date' and\n"
+    "'Time' column). Set any of them with --column QUANTITY=HEADER[:UNIT], QUANTITY one of\n"
+    "outdoor-dry-bulb, outdoor-rh, outdoor-dew-point, return-dry-bulb, return-rh,\n"
+    "return-dew-point, mixed-air, supply-air, damper, fan, cooling; UNIT F, C, % or fraction.\n\n"
+    "Examples:\n"
+    "  limitline audit examples/audit-office.toml examples/trend-office.csv\n"
+    "  limitline audit unit.toml log.csv --strategy \"dry-bulb 65F\" --format md\n"
+    "  limitline audit unit.toml log.csv --column mixed-air=\"AHU1 MAT:C\" --max-gap 45";
+
+highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map& vm, std::string& source) {
+  const bool code = vm.count("edition") || vm.count("zone");
+  if (code) {
+    const std::string edition = vm.count("edition") ? vm["edition"].as<std::string>() : unit.site.energy_code;
+    const std::string zone = vm.count("zone") ? vm["zone"].as<std::string>() : unit.site.climate_zone;
+    if (edition.empty()) throw UsageError("--zone needs --edition (or [site] energy_code)");
+    if (zone.empty()) throw UsageError("--edition needs --zone (or [site] climate_zone)");
+    const auto tables = codes::CodeTables::load_installed();
+    const auto& ed = tables.edition(edition, vm.count("edition") ? "--edition" : "site.energy_code");
+    codes::SiteConditions site;
+    site.pressure_kpa = unit.site.design_pressure_kpa();
+    const auto req = codes::requirements(ed, zone, site, vm.count("zone") ? "--zone" : "site.climate_zone");
+    std::string names;
+    for (const auto& a : req.allowed) {
+      const auto s = a.strategy();
+      if (!s) continue;
+      names += (names.empty() ? "" : ", ") + a.row->control;
+      if (vm.count("strategy") && normalise_name(a.row->control) != normalise_name(vm["strategy"].as<std::string>()))
+        continue;
+      source = fmt::format("{} zone {}, {}", ed.id, req.zone, a.row->control);
+      return *s;
+    }
+    throw InputError(vm.count("strategy")
+                         ? fmt::format("--strategy: '{}' is not a control type {} allows in zone {} (allowed: {})",
+                                       vm["strategy"].as<std::string>(), ed.id, req.zone, names)
+                         : fmt::format("--zone: {} allows no modelled control type in zone {}", ed.id, req.zone));
+  }
+  const auto all = strategies_or_presets(unit);
+  if (!vm.count("strategy")) {
+    source = unit.strategies_defaulted ? "no strategy in the unit file: first preset at common-practice settings"
+                                       : "first strategy of the unit file";
+    return all.front();
+  }
+  const std::string want = normalise_name(vm["strategy"].as<std::string>());
+  std::string names;
+  for (const auto& s : all) {
+    if (normalise_name(s.name) == want) {
+      source = "--strategy";
+      return s;
+    }
+    names += (names.empty() ? "'" : ", '") + s.name + "'";
+  }
+  throw InputError(fmt::format("--strategy: '{}' is not a strategy of {} (strategies: {})",
+                               vm["strategy"].as<std::string>(), unit.path, names));
+}
+
+}  // namespace
+
+int run_audit(const std::vector<std::string>& args) {
+  po::options_description options("options");
+  options.add_options()
+      ("unit", po::value<std::string>(), "unit file (TOML)")
+      ("trend", po::value<std::string>(), "trend log (CSV)")
+      ("strategy", po::value<std::string>(), "strategy of the unit file to audit against (default: the first)")
+      ("edition", po::value<std::string>(), "audit against the energy code's required strategy: edition")
+      ("zone", po::value<std::string>(), "climate zone for --edition (default: [site] climate_zone)")
+      ("column", po::value<std::vector<std::string>>()->composing(),
+       "trend column QUANTITY=HEADER[:UNIT] (repeatable)")
+      ("max-gap", po::value<std::string>(), "longest time one sample stands for, minutes (default: twice the median interval)")
+      ("outdoor-accuracy", po::value<std::string>(), "outdoor-air temperature sensor accuracy (default 0.9F / 0.5K)")
+      ("return-accuracy", po::value<std::string>(), "return-air temperature sensor accuracy (default 0.9F / 0.5K)")
+      ("mixed-accuracy", po::value<std::string>(), "mixed-air temperature sensor accuracy (default 0.9F / 0.5K)");
+  add_common_options(options, "text, md, json");
+  po::positional_options_description pos;
+  pos.add("unit", 1).add("trend", 1);
+  po::variables_map vm;
+  if (!parse_options(args, options, pos, "limitline audit UNIT.toml TREND.csv [options]", kDetails, vm)) return 0;
+  const Common common = read_common(vm, {Format::text, Format::md, Format::json});
+  if (!vm.count("unit") || !vm.count("trend")) throw UsageError("give a unit file and a trend log");
+
+  const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
+  trend::ReadOptions read;
+  read.bare = common.units;
+  if (vm.count("column"))
+    for (const auto& c : vm["column"].as<std::vector<std::string>>())
+      read.columns.push_back(trend::parse_column_override(c, "--column"));
+  if (vm.count("max-gap")) {
+    const double minutes = units::parse_number(vm["max-gap"].as<std::string>(), "--max-gap");
+    if (!(minutes > 0)) throw InputError(fmt::format("--max-gap: {} is not a positive number of minutes",
+                                                     vm["max-gap"].as<std::string>()));
+    read.max_gap_s = minutes * 60.0;
+  }
+  audit::Options opt;
+  std::string source;
+  opt.strategy = pick_strategy(unit, vm, source);
+  for (auto [name, slot] : {std::pair{"outdoor-accuracy", &opt.accuracy.outdoor_k},
+                            std::pair{"return-accuracy", &opt.accuracy.return_k},
+                            std::pair{"mixed-accuracy", &opt.accuracy.mixed_k}}) {
+    if (!vm.count(name)) continue;
+    const double a = quantity(vm, name, units::Kind::temperature_difference, common.units);
+    if (!(a > 0) || a > 5.0)
+      throw InputError(fmt::format("--{}: {} is outside (0, 5] K (9 °F)", name, vm[name].as<std::string>()));
+    *slot = a;
+  }
+  const trend::TrendLog log = trend::load_trend(vm["trend"].as<std::string>(), read);
+  const audit::Result r = audit::run(unit, log, opt);
+
+  report::AuditContext ctx{unit.path, report::describe_strategy(opt.strategy, common.units), source,
+                           opt.accuracy, common.units};
+  switch (common.format) {
+    case Format::json: write_out(report::audit_json(r, log, ctx)); break;
+    case Format::md: write_out(report::audit_markdown(r, log, ctx)); break;
+    default: write_out(report::audit_text(r, log, ctx)); break;
+  }
+  return 0;
+}
+
+}  // namespace limitline::cli

@@ -1,0 +1,248 @@
+// The trend audit: measured-fraction uncertainty, a clean model-generated log, each injected
+// fault alone, the committed example, and the audit command.
+#include <limitline/audit.hpp>
+#include <limitline/trend.hpp>
+#include <limitline/unit_file.hpp>
+
+#include "support/cli.hpp"
+#include "support/trend_example.hpp"
+
+#include <doctest/doctest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdlib>
+#include <fstream>
+#include <map>
+#include <set>
+
+using namespace limitline;
+using limitline::test::contains;
+using limitline::test::run_cli;
+
+namespace {
+
+const std::string kSource = LIMITLINE_SOURCE_DIR;
+
+UnitFile example_unit() { return load_unit_file(kSource + "/examples/audit-office.toml"); }
+
+// Independent propagation: x(t_o, t_r, t_m) differentiated numerically (central differences),
+// then σ_x² = Σ (∂x/∂t_i · σ_i)² (first-order propagation of independent uncertainties, the
+// GUM's law of propagation, JCGM 100:2008 eq. 10).
+double numeric_sigma(double to, double tr, double tm, double so, double sr, double sm) {
+  auto x = [](double o, double r, double m) { return (m - r) / (o - r); };
+  const double h = 1e-5;
+  const double dxo = (x(to + h, tr, tm) - x(to - h, tr, tm)) / (2 * h);
+  const double dxr = (x(to, tr + h, tm) - x(to, tr - h, tm)) / (2 * h);
+  const double dxm = (x(to, tr, tm + h) - x(to, tr, tm - h)) / (2 * h);
+  return std::sqrt(dxo * dxo * so * so + dxr * dxr * sr * sr + dxm * dxm * sm * sm);
+}
+
+// Weights as the audit must give them: time to the next sample, capped at twice the median
+// interval; the last sample counts for the median interval.
+std::vector<double> weights_h(const std::vector<test::GeneratedRow>& rows) {
+  std::vector<double> dt;
+  for (std::size_t i = 1; i < rows.size(); ++i) dt.push_back(static_cast<double>(rows[i].time_s - rows[i - 1].time_s));
+  std::vector<double> s = dt;
+  std::sort(s.begin(), s.end());
+  const double med = s[s.size() / 2];
+  std::vector<double> w;
+  for (std::size_t i = 0; i < rows.size(); ++i) w.push_back(std::min(i + 1 < rows.size() ? dt[i] : med, 2 * med) / 3600.0);
+  return w;
+}
+
+struct Audited {
+  test::Generated gen;
+  trend::TrendLog log;
+  audit::Result result;
+};
+
+Audited audit_generated(const std::vector<test::Fault>& faults, int days = 21) {
+  const UnitFile unit = example_unit();
+  Audited a{test::generate_trend(unit, faults, days), {}, {}};
+  a.log = trend::parse_trend(a.gen.csv, "generated.csv", {});
+  REQUIRE(a.log.samples.size() == a.gen.rows.size());
+  audit::Options opt{unit.strategies.front(), {}};
+  a.result = audit::run(unit, a.log, opt);
+  return a;
+}
+
+std::set<audit::FindingKind> kinds(const audit::Result& r) {
+  std::set<audit::FindingKind> k;
+  for (const auto& f : r.findings) k.insert(f.kind);
+  return k;
+}
+
+std::string describe(const audit::Result& r) {
+  std::string s;
+  for (const auto& f : r.findings)
+    s += fmt::format("{} {:.2f} h from {} ;", audit::finding_key(f.kind), f.hours, trend::format_timestamp(f.first_s));
+  return s;
+}
+
+const double kInterval_h = 0.25;
+
+}  // namespace
+
+TEST_CASE("measured outdoor-air fraction: value and first-order uncertainty") {
+  const audit::Accuracy acc{0.5, 0.3, 0.4};
+  struct Case { double to, tr, tm; };
+  for (const Case c : {Case{5.0, 23.0, 19.4}, Case{30.0, 22.0, 25.0}, Case{12.0, 24.0, 12.5},
+                       Case{-10.0, 21.0, 14.8}}) {
+    const auto m = audit::measured_fraction(c.to, c.tr, c.tm, acc);
+    REQUIRE(m);
+    CHECK(m->fraction == doctest::Approx((c.tm - c.tr) / (c.to - c.tr)).epsilon(1e-12));
+    CHECK(m->sigma == doctest::Approx(numeric_sigma(c.to, c.tr, c.tm, 0.5, 0.3, 0.4)).epsilon(1e-6));
+  }
+  // Gate: 4 × √(0.5² + 0.3² + 0.4²) = 2.83 K.
+  CHECK_FALSE(audit::measured_fraction(21.0, 23.5, 22.0, acc));
+  CHECK(audit::measured_fraction(20.0, 23.0, 22.0, acc));
+}
+
+TEST_CASE("a clean log generated from the model has no findings") {
+  const auto a = audit_generated({});
+  INFO(describe(a.result));
+  CHECK(a.result.findings.empty());
+  CHECK(a.result.operating_intervals > 500);
+  CHECK(a.result.fraction_intervals > 100);
+  // The switching point is seen and agrees with the configured 70 °F, 2 °F deadband.
+  REQUIRE(a.result.switch_points.size() == 1);
+  const auto& sp = a.result.switch_points.front();
+  CHECK_FALSE(sp.differs);
+  CHECK(sp.estimate <= units::celsius_from_fahrenheit(70.0) + audit::kSwitchToleranceK);
+  CHECK(sp.estimate >= units::celsius_from_fahrenheit(68.0) - audit::kSwitchToleranceK);
+  // Coverage: the eighth day's five-hour outage is a gap.
+  CHECK(a.log.coverage.gaps.size() >= 1);
+  CHECK(a.log.coverage.covered_s < a.log.coverage.span_s);
+}
+
+TEST_CASE("stuck damper: found with its hours, nothing else") {
+  const auto faults = std::vector<test::Fault>{test::example_faults()[0]};
+  const auto a = audit_generated(faults);
+  INFO(describe(a.result));
+  CHECK(kinds(a.result) == std::set{audit::FindingKind::damper_not_following});
+  const auto* f = a.result.find(audit::FindingKind::damper_not_following);
+  REQUIRE(f);
+  // Expected: fan-on samples in the window where the temperatures allow a measurement and the
+  // commanded fraction is beyond 3σ + 0.15 of the real (minimum) one.
+  const auto w = weights_h(a.gen.rows);
+  double expected = 0;
+  for (std::size_t i = 0; i < a.gen.rows.size(); ++i) {
+    const auto& r = a.gen.rows[i];
+    if (!r.fan || !r.in_fault || std::abs(r.t_out_log - r.t_ret_log) < 4 * std::sqrt(0.75)) continue;
+    const double x = (r.t_mix_log - r.t_ret_log) / (r.t_out_log - r.t_ret_log);
+    const double sig = numeric_sigma(r.t_out_log, r.t_ret_log, r.t_mix_log, 0.5, 0.5, 0.5);
+    if (std::abs(x - r.x_command) > 3 * sig + 0.15) expected += w[i];
+    CHECK(r.x_true == doctest::Approx(0.2));
+  }
+  CHECK(expected > 2.0);
+  CHECK(std::abs(f->hours - expected) <= kInterval_h + 1e-9);
+  CHECK(f->first_s >= faults[0].from_s);
+  CHECK(f->last_s < faults[0].to_s);
+  REQUIRE(f->energy_kwh);
+  CHECK(*f->energy_kwh > 0);  // the economizer's free cooling lost
+}
+
+TEST_CASE("high-limit set 5 °F too high: economizing when disabled, and the switch point") {
+  const auto faults = std::vector<test::Fault>{test::example_faults()[1]};
+  const auto a = audit_generated(faults);
+  INFO(describe(a.result));
+  CHECK(kinds(a.result) == std::set{audit::FindingKind::economizing_when_disabled,
+                                    audit::FindingKind::high_limit_elsewhere});
+  const auto w = weights_h(a.gen.rows);
+  double expected = 0;
+  for (std::size_t i = 0; i < a.gen.rows.size(); ++i) {
+    const auto& r = a.gen.rows[i];
+    if (r.fan && !r.configured_enabled && r.x_command > 0.2 + audit::kDamperMarginFraction) expected += w[i];
+  }
+  const auto* f = a.result.find(audit::FindingKind::economizing_when_disabled);
+  REQUIRE(f);
+  CHECK(expected > 2.0);
+  CHECK(std::abs(f->hours - expected) <= kInterval_h + 1e-9);
+  CHECK(f->first_s >= faults[0].from_s);
+  CHECK(f->last_s < faults[0].to_s);
+  REQUIRE(a.result.switch_points.size() == 1);
+  const auto& sp = a.result.switch_points.front();
+  CHECK(sp.differs);
+  // Economizing is seen above the configured 70 °F, up to near the raised 75 °F.
+  CHECK(sp.highest_open > units::celsius_from_fahrenheit(70.0) + audit::kSwitchToleranceK);
+  CHECK(sp.highest_open <= units::celsius_from_fahrenheit(75.0) + 0.01);
+}
+
+TEST_CASE("outdoor sensor reading 3 K high: mixed air out of range at full outdoor air only") {
+  const auto faults = std::vector<test::Fault>{test::example_faults()[2]};
+  const auto a = audit_generated(faults);
+  INFO(describe(a.result));
+  CHECK(kinds(a.result) == std::set{audit::FindingKind::mixed_air_out_of_range});
+  const auto* f = a.result.find(audit::FindingKind::mixed_air_out_of_range);
+  REQUIRE(f);
+  // At full outdoor air the mixed air is the real outdoor air, 3 K below the reading: always
+  // beyond 3 × √(0.5² + 0.5²) = 2.1 K. Modulating samples near full outdoor air can add some.
+  const auto w = weights_h(a.gen.rows);
+  double full = 0, near_full = 0;
+  for (std::size_t i = 0; i < a.gen.rows.size(); ++i) {
+    const auto& r = a.gen.rows[i];
+    if (!r.fan || !r.in_fault) continue;
+    if (r.x_true > 0.999) full += w[i];
+    if (r.x_true > 0.6) near_full += w[i];
+  }
+  CHECK(full > 2.0);
+  CHECK(f->hours >= full - kInterval_h - 1e-9);
+  CHECK(f->hours <= near_full + kInterval_h + 1e-9);
+  CHECK(f->first_s >= faults[0].from_s);
+  CHECK(f->last_s < faults[0].to_s);
+  CHECK_FALSE(f->energy_kwh);  // the model cannot price a reading that is itself wrong
+}
+
+TEST_CASE("the committed example log is the generator's output") {
+  const UnitFile unit = example_unit();
+  const auto g = test::generate_trend(unit, test::example_faults(), 21);
+  const std::string path = kSource + "/examples/trend-office.csv";
+  if (std::getenv("LIMITLINE_WRITE_EXAMPLES")) {
+    std::ofstream(path, std::ios::binary) << g.csv;
+  }
+  CHECK(test::slurp(path) == g.csv);
+  // All three faults are found in it.
+  const auto log = trend::parse_trend(g.csv, "trend-office.csv", {});
+  const auto r = audit::run(unit, log, {unit.strategies.front(), {}});
+  INFO(describe(r));
+  CHECK(kinds(r) == std::set{audit::FindingKind::damper_not_following,
+                             audit::FindingKind::economizing_when_disabled,
+                             audit::FindingKind::high_limit_elsewhere,
+                             audit::FindingKind::mixed_air_out_of_range});
+}
+
+TEST_CASE("audit command: text, markdown and JSON reports with coverage, mapping and cautions") {
+  const auto t = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv"}, "audit");
+  CHECK(t.rc == 0);
+  CHECK(contains(t.out, "Damper not following its command"));
+  CHECK(contains(t.out, "Economizing while the high-limit says off"));
+  CHECK(contains(t.out, "Columns used"));
+  CHECK(contains(t.out, "OA Damper Cmd (%)"));
+  CHECK(contains(t.out, "authority having jurisdiction"));
+  CHECK(contains(t.out, "gap"));
+  const auto md = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--format", "md", "--units", "si"}, "audit");
+  CHECK(md.rc == 0);
+  CHECK(contains(md.out, "## Findings"));
+  CHECK(contains(md.out, "kWh"));
+  const auto js = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--format", "json"}, "audit");
+  CHECK(js.rc == 0);
+  CHECK(contains(js.out, "\"kind\": \"high-limit-elsewhere\""));
+  CHECK(contains(js.out, "\"energy_kbtu\""));
+}
+
+TEST_CASE("audit command: bad input and usage") {
+  const auto none = run_cli({"audit", "examples/audit-office.toml"}, "audit");
+  CHECK(none.rc == 1);
+  const auto missing = run_cli({"audit", "examples/audit-office.toml", "no-such.csv"}, "audit");
+  CHECK(missing.rc == 2);
+  CHECK(contains(missing.err, "no-such.csv"));
+  const auto strat = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--strategy", "nope"}, "audit");
+  CHECK(strat.rc == 2);
+  CHECK(contains(strat.err, "dry-bulb 70F"));
+  const auto col = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--column", "wind=Speed"}, "audit");
+  CHECK(col.rc == 2);
+  CHECK(contains(col.err, "outdoor-dry-bulb"));
+  const auto acc = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--mixed-accuracy", "-1F"}, "audit");
+  CHECK(acc.rc == 2);
+}
