@@ -926,8 +926,12 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
   if (r.pairs.empty()) return r;
   std::sort(involved.begin(), involved.end());
 
-  const std::size_t total = 2 + r.pairs.size() * static_cast<std::size_t>(opt.bisection_steps);
-  std::size_t evaluations = 0;
+  // Progress counts bisection steps; the total is known once the ends of the search are.
+  std::size_t total = 2 + r.pairs.size() * static_cast<std::size_t>(opt.bisection_steps);
+  std::size_t steps_done = 0;
+  auto step_done = [&] {
+    if (control.progress) control.progress("break-even", ++steps_done, total);
+  };
   RunControl inner = control;
   inner.progress = nullptr;
   // Mean shortfall of each strategy of `sub` with the humidity accuracies scaled; empty when
@@ -944,7 +948,6 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
           Clamps c;
           sub.run(draw_biases(s, opt.seed, k), ws, std::span(out).subspan(k * n_s, n_s), c);
         });
-    if (control.progress) control.progress("break-even", ++evaluations, total);
     if (!all_done(done)) return {};
     std::vector<double> m(n_s, 0.0);
     for (std::size_t k = 0; k < r.trials; ++k)
@@ -955,7 +958,9 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
 
   const Engine both = engine.subset(involved);
   const auto at_zero = means(both, 0.0);
+  step_done();
   const auto at_max = at_zero.empty() ? std::vector<double>{} : means(both, r.max_scale);
+  step_done();
   if (at_max.empty()) {
     r.partial = true;
     return r;
@@ -967,22 +972,26 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
   // A humidity strategy's mean at a scale, remembered: pairs with the same humidity strategy
   // share their first bisection steps.
   std::map<std::pair<std::size_t, double>, double> memo;
+  std::size_t to_bisect = 0;
   for (BreakEvenPair& pair : r.pairs) {
     // The dry-bulb strategy reads no humidity sensor, so its mean is the same at every scale.
     pair.dry_mean_kwh = at_zero[pos(pair.dry)];
     pair.humid_mean_at_zero_kwh = at_zero[pos(pair.humid)];
     pair.humid_mean_at_max_kwh = at_max[pos(pair.humid)];
-    const double f0 = pair.humid_mean_at_zero_kwh - pair.dry_mean_kwh;
-    const double f_max = pair.humid_mean_at_max_kwh - pair.dry_mean_kwh;
-    if (!(f0 < 0.0)) {
+    if (!(pair.humid_mean_at_zero_kwh < pair.dry_mean_kwh)) {
       pair.verdict = Verdict::never;
-      continue;
-    }
-    if (f_max < 0.0) {
+    } else if (pair.humid_mean_at_max_kwh < pair.dry_mean_kwh) {
       pair.verdict = Verdict::always;
       pair.scale = pair.scale_low = pair.scale_high = r.max_scale;
-      continue;
+    } else {
+      ++to_bisect;
     }
+  }
+  total = 2 + to_bisect * static_cast<std::size_t>(opt.bisection_steps);
+  for (BreakEvenPair& pair : r.pairs) {
+    if (pair.verdict != Verdict::not_run) continue;
+    const double f0 = pair.humid_mean_at_zero_kwh - pair.dry_mean_kwh;
+    const double f_max = pair.humid_mean_at_max_kwh - pair.dry_mean_kwh;
     const std::array<std::size_t, 1> one = {pair.humid};
     const Engine single = engine.subset(one);
     double lo = 0.0, hi = r.max_scale, f_lo = f0, f_hi = f_max;
@@ -998,6 +1007,7 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
         }
         it = memo.emplace(std::pair{pair.humid, mid}, m[0]).first;
       }
+      step_done();
       const double f = it->second - pair.dry_mean_kwh;
       if (f < 0.0) lo = mid, f_lo = f;
       else hi = mid, f_hi = f;

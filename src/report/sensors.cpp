@@ -140,21 +140,21 @@ std::string accuracy_pair(const sensors::BreakEvenResult& be, double scale, unit
 }
 
 std::string break_even_text(const sensors::BreakEvenResult& be, units::System s) {
+  if (be.pairs.empty())
+    return "\nBreak-even humidity-sensor accuracy: no pair to compare; it needs a strategy that "
+           "reads a humidity sensor and one that reads dry-bulb only.\n";
   std::string out = fmt::format(
       "\nBreak-even humidity-sensor accuracy: the outdoor humidity and return RH accuracies, "
       "scaled together from {} (dry-bulb sensors as above), at which the humidity-based "
       "strategy stops beating the dry-bulb-only one in mean shortfall; {} trials, searched up "
       "to {}:\n\n",
       accuracy_pair(be, 1.0, s), be.trials, accuracy_pair(be, be.max_scale, s));
-  if (be.pairs.empty())
-    return out + "  No pair: this needs a strategy that reads a humidity sensor and one that "
-                 "reads dry-bulb only.\n";
   const std::string eu(energy_unit(s));
   Table t({{"uses humidity", Align::left},
            {"dry-bulb only", Align::left},
            {"beats it while within", Align::left},
-           {"shortfall, exact humidity " + eu, Align::right},
-           {"dry-bulb shortfall " + eu, Align::right}});
+           {"its shortfall with exact humidity sensors " + eu, Align::right},
+           {"dry-bulb-only shortfall " + eu, Align::right}});
   for (const auto& p : be.pairs) {
     std::string verdict;
     switch (p.verdict) {
@@ -183,13 +183,18 @@ std::string turn_text(const sensors::SweepResult& sw, const sensors::SweepTurn& 
   return fmt::format("{} {}", holds, where);
 }
 
-std::string sweep_text(const sensors::SweepResult& sw, units::System s) {
+std::string sweep_text(const sensors::SweepResult& sw, HumidityKind study_kind, units::System s) {
   const auto& spec = sw.spec;
   const std::string label(sensors::sensor_label(spec.sensor, spec.outdoor_kind));
   std::string out = fmt::format(
       "\nBias sweep: the {} sensor reads truth + bias, every other sensor reads the truth. "
-      "Shortfall against the perfect changeover ({}):\n\n",
+      "Shortfall against the perfect changeover ({}):\n",
       label, energy_unit(s));
+  if (spec.outdoor_kind != study_kind)
+    out += fmt::format("(The unit's outdoor humidity sensor is {}; this sweep uses an {} sensor "
+                       "in its place.)\n",
+                       sensors::sensor_label(Sensor::outdoor_humidity, study_kind), label);
+  out += "\n";
   std::vector<Column> cols = {{"#", Align::right}, {"strategy", Align::left}};
   for (double v : spec.biases) cols.push_back({format_bias(spec.sensor, spec.outdoor_kind, v, s), Align::right});
   Table t(cols);
@@ -279,9 +284,9 @@ void json_break_even(Json& j, const sensors::BreakEvenResult& be, units::System 
       j.key("break_even_accuracy").null();
     }
     if (p.verdict != sensors::Verdict::not_run) {
-      json_energy(j, "humidity_shortfall_exact_humidity", p.humid_mean_at_zero_kwh, s);
-      json_energy(j, "humidity_shortfall_at_search_limit", p.humid_mean_at_max_kwh, s);
-      json_energy(j, "dry_bulb_shortfall", p.dry_mean_kwh, s);
+      json_energy(j, "humidity_strategy_shortfall_exact_humidity", p.humid_mean_at_zero_kwh, s);
+      json_energy(j, "humidity_strategy_shortfall_at_search_limit", p.humid_mean_at_max_kwh, s);
+      json_energy(j, "dry_bulb_strategy_shortfall", p.dry_mean_kwh, s);
     }
     j.end_object();
   }
@@ -385,7 +390,7 @@ std::string sensors_text(const SensorsReport& r) {
   }
   out += "\n" + clamp_line(r);
   if (r.break_even) out += break_even_text(*r.break_even, s);
-  if (r.sweep) out += sweep_text(*r.sweep, s);
+  if (r.sweep) out += sweep_text(*r.sweep, kind_of(st.sensors), s);
   return out + "\n" + cautions_text(CautionTopic::design);
 }
 
