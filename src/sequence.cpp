@@ -785,9 +785,12 @@ class Composer {
         }
         if (row.sensor == sensors::Sensor::return_rh) suffix = " RH";
         const double a = sensors::at(set.accuracy, row.sensor);
+        const std::string figure = written(sensors::bias_kind(row.sensor, kind), s_, a, Note::source);
         accuracy = fmt::format(
-            "±{}{} or better, the figure the sensor-error study assumes ({})",
-            written(sensors::bias_kind(row.sensor, kind), s_, a, Note::source), suffix,
+            "{} or better, the figure the sensor-error study assumes ({})",
+            set.distribution == sensors::BiasDistribution::normal
+                ? fmt::format("{}{} as one standard deviation", figure, suffix)
+                : fmt::format("±{}{}", figure, suffix),
             set.given[static_cast<std::size_t>(row.sensor)]
                 ? "from the unit file's [sensors] table"
                 : "a typical commercial figure, common practice");
