@@ -38,11 +38,14 @@ bool well_formed_xml(const std::filesystem::path& file) {
   return sh("xmllint --noout " + shell_quote(file.string()) + " 2>/dev/null") == 0;
 }
 
-// Anything in a page that a browser would fetch, or that names a place on the network.
+// Anything in a page that a browser would fetch or that names a place on the network, and any
+// number that is not one.
 void check_no_external_references(const std::string& page) {
   for (const char* bad : {"http:", "https:", "ftp:", "src=", "href=", "url(", "@import", "<link", "<script",
                           "<iframe", "<object", "<embed", "<img"})
     CHECK_MESSAGE(!contains(page, bad), bad);
+  static const std::regex not_a_number(R"((^|[^a-z])(nan|inf)([^a-z]|$))", std::regex::icase);
+  CHECK_FALSE(std::regex_search(page, not_a_number));
 }
 
 // The inline <svg> elements of a page, made standalone again.

@@ -293,7 +293,7 @@ section.cautions{border:1.5px solid var(--ink);padding:.2rem 1.2rem .6rem;backgr
 section.cautions h2{border-left:0;padding-left:0}
 footer{margin-top:2rem;font:.75rem var(--sans);color:var(--soft);border-top:1px solid var(--rule);padding-top:.5rem}
 @media (max-width:40rem){main{margin:0;padding:1rem .9rem 1.5rem;box-shadow:none}body{font-size:14px}h1{font-size:1.3rem}
-table{font-size:.75rem}}
+table{font-size:.75rem}figure{overflow-x:auto;-webkit-overflow-scrolling:touch}figure svg{min-width:36rem}}
 @page{margin:14mm 12mm 16mm}
 @media print{html{background:none}body{font-size:10pt}
 main{max-width:none;margin:0;padding:0;box-shadow:none;background:none}
