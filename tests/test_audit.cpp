@@ -57,12 +57,12 @@ struct Audited {
   audit::Result result;
 };
 
-Audited audit_generated(const std::vector<test::Fault>& faults, int days = 21) {
+Audited audit_generated(const std::vector<test::Fault>& faults, int days = 21, audit::Accuracy acc = {}) {
   const UnitFile unit = example_unit();
   Audited a{test::generate_trend(unit, faults, days), {}, {}};
   a.log = trend::parse_trend(a.gen.csv, "generated.csv", {});
   REQUIRE(a.log.samples.size() == a.gen.rows.size());
-  audit::Options opt{unit.strategies.front(), {}};
+  audit::Options opt{unit.strategies.front(), acc};
   a.result = audit::run(unit, a.log, opt);
   return a;
 }
@@ -194,6 +194,82 @@ TEST_CASE("outdoor sensor reading 3 K high: mixed air out of range at full outdo
   CHECK_FALSE(f->energy_kwh);  // the model cannot price a reading that is itself wrong
 }
 
+// Expected hours of a measured-fraction rule, computed here from the generator's rows with the
+// numeric propagation above: the rule as documented, `flag(x_measured, σ, row)`.
+template <class Flag>
+double expected_measured_hours(const test::Generated& g, Flag flag, double sensor_k = 0.5) {
+  const auto w = weights_h(g.rows);
+  double h = 0;
+  for (std::size_t i = 0; i < g.rows.size(); ++i) {
+    const auto& r = g.rows[i];
+    if (!r.fan || !r.in_fault || std::abs(r.t_out_log - r.t_ret_log) < 4 * std::sqrt(3.0) * sensor_k) continue;
+    const double x = (r.t_mix_log - r.t_ret_log) / (r.t_out_log - r.t_ret_log);
+    if (flag(x, numeric_sigma(r.t_out_log, r.t_ret_log, r.t_mix_log, sensor_k, sensor_k, sensor_k), r)) h += w[i];
+  }
+  return h;
+}
+
+std::vector<test::Fault> week_fault(test::FaultKind kind, double amount) {
+  const std::int64_t start = trend::parse_timestamp("2026-05-04 00:00", "t");
+  return {{kind, start + 7 * 86400, start + 12 * 86400, amount}};
+}
+
+TEST_CASE("damper stuck at 60 %: excess outdoor air at minimum command, and not following") {
+  const auto faults = week_fault(test::FaultKind::damper_stuck_at, 0.6);
+  const auto a = audit_generated(faults);
+  INFO(describe(a.result));
+  CHECK(kinds(a.result) == std::set{audit::FindingKind::damper_not_following,
+                                    audit::FindingKind::excess_outdoor_air});
+  const double excess = expected_measured_hours(a.gen, [](double x, double sig, const test::GeneratedRow& r) {
+    return r.x_command <= 0.2 + 0.05 && x > 0.2 + 3 * sig + 0.05;
+  });
+  const auto* f = a.result.find(audit::FindingKind::excess_outdoor_air);
+  REQUIRE(f);
+  CHECK(excess > 2.0);
+  CHECK(std::abs(f->hours - excess) <= kInterval_h + 1e-9);
+  CHECK(f->first_s >= faults[0].from_s);
+  CHECK(f->last_s < faults[0].to_s);
+}
+
+TEST_CASE("damper closing fully at its minimum command: outdoor air below the minimum") {
+  // The damper sits at its minimum only in the warm hours, when outdoor and return are a few
+  // kelvin apart: sensors of ±0.1 K resolve the fraction there.
+  const auto faults = week_fault(test::FaultKind::minimum_set_to, 0.0);
+  const auto a = audit_generated(faults, 21, {0.1, 0.1, 0.1});
+  INFO(describe(a.result));
+  CHECK(kinds(a.result) == std::set{audit::FindingKind::below_minimum});
+  const double below = expected_measured_hours(a.gen, [](double x, double sig, const test::GeneratedRow&) {
+    return x < 0.2 - 3 * sig - 0.05;
+  }, 0.1);
+  const auto* f = a.result.find(audit::FindingKind::below_minimum);
+  REQUIRE(f);
+  CHECK(below > 2.0);
+  CHECK(std::abs(f->hours - below) <= kInterval_h + 1e-9);
+}
+
+TEST_CASE("economizer locked out: not economizing when enabled, switching point below the band") {
+  const auto faults = week_fault(test::FaultKind::economizer_locked_out, 0.0);
+  const auto a = audit_generated(faults);
+  INFO(describe(a.result));
+  CHECK(kinds(a.result) == std::set{audit::FindingKind::not_economizing_when_enabled,
+                                    audit::FindingKind::high_limit_elsewhere});
+  const auto w = weights_h(a.gen.rows);
+  double expected = 0;
+  for (std::size_t i = 0; i < a.gen.rows.size(); ++i) {
+    const auto& r = a.gen.rows[i];
+    if (r.fan && r.in_fault && r.configured_enabled && r.x_enabled > 0.2 + 0.10) expected += w[i];
+  }
+  const auto* f = a.result.find(audit::FindingKind::not_economizing_when_enabled);
+  REQUIRE(f);
+  CHECK(expected > 2.0);
+  CHECK(std::abs(f->hours - expected) <= kInterval_h + 1e-9);
+  REQUIRE(f->energy_kwh);
+  CHECK(*f->energy_kwh > 0);  // free cooling lost
+  REQUIRE(a.result.switch_points.size() == 1);
+  CHECK(a.result.switch_points.front().differs);
+  CHECK(a.result.switch_points.front().lowest_closed < units::celsius_from_fahrenheit(68.0) - 1.0);
+}
+
 TEST_CASE("the committed example log is the generator's output") {
   const UnitFile unit = example_unit();
   const auto g = test::generate_trend(unit, test::example_faults(), 21);
@@ -245,4 +321,17 @@ TEST_CASE("audit command: bad input and usage") {
   CHECK(contains(col.err, "outdoor-dry-bulb"));
   const auto acc = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--mixed-accuracy", "-1F"}, "audit");
   CHECK(acc.rc == 2);
+  const auto zone = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--edition", "ashrae-90.1-2019"}, "audit");
+  CHECK(zone.rc == 1);  // the example's site names no climate zone
+}
+
+TEST_CASE("audit command: the energy code's strategy with --edition and --zone") {
+  const auto r = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--edition",
+                          "ashrae-90.1-2019", "--zone", "4A", "--strategy", "fixed-dry-bulb"}, "audit");
+  CHECK(r.rc == 0);
+  CHECK(contains(r.out, "ashrae-90.1-2019 zone 4A, fixed-dry-bulb"));
+  const auto bad = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--edition",
+                            "ashrae-90.1-2019", "--zone", "4A", "--strategy", "no-such-type"}, "audit");
+  CHECK(bad.rc == 2);
+  CHECK(contains(bad.err, "allowed:"));
 }

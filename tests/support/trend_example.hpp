@@ -21,7 +21,14 @@
 
 namespace limitline::test {
 
-enum class FaultKind { stuck_damper_at_minimum, high_limit_raised, outdoor_sensor_offset };
+enum class FaultKind {
+  stuck_damper_at_minimum,
+  high_limit_raised,       // amount: K added to every limit
+  outdoor_sensor_offset,   // amount: K added to the outdoor reading
+  damper_stuck_at,         // amount: the fraction the damper gives whatever its command
+  economizer_locked_out,   // the controller never enables
+  minimum_set_to,          // amount: the fraction the damper gives at its minimum command
+};
 
 struct Fault {
   FaultKind kind;
@@ -36,6 +43,7 @@ struct GeneratedRow {
   bool configured_enabled;  // the unit file's strategy on the logged readings
   double x_command;         // fraction the controller commands
   double x_true;            // fraction the damper really gives
+  double x_enabled;         // fraction the model gives with the economizer enabled
   double t_out_log, t_ret_log, t_mix_log;  // °C, as the log reads back
   bool in_fault;
 };
@@ -124,16 +132,21 @@ inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& 
     raised = configured;
     if (active && active->kind == FaultKind::high_limit_raised)
       for (auto& c : raised.conditions) c.limit += active->amount;
-    const bool ctrl_enabled = highlimit::permits(raised, ov, rv, ctrl);
+    const bool ctrl_enabled = highlimit::permits(raised, ov, rv, ctrl) &&
+                              !(active && active->kind == FaultKind::economizer_locked_out);
 
-    GeneratedRow row{t, fan, cfg_enabled, 0.0, 0.0, t_o, t_r, t_r, in_fault};
+    GeneratedRow row{t, fan, cfg_enabled, 0.0, 0.0, 0.0, t_o, t_r, t_r, in_fault};
     std::string mat = fmt::format("{:.1f}", rat_f), sat = "", damper = "0.0", clg = "Off";
     if (fan) {
       const auto choice = airside::choose(ah, {out, ret, coil}, unit.weights);
       const auto& op = ctrl_enabled ? choice.enabled : choice.disabled;
       row.x_command = op.oa_fraction;
-      row.x_true = active && active->kind == FaultKind::stuck_damper_at_minimum ? ah.min_oa_fraction
-                                                                               : op.oa_fraction;
+      row.x_enabled = choice.enabled.oa_fraction;
+      row.x_true = op.oa_fraction;
+      if (active && active->kind == FaultKind::stuck_damper_at_minimum) row.x_true = ah.min_oa_fraction;
+      if (active && active->kind == FaultKind::damper_stuck_at) row.x_true = active->amount;
+      if (active && active->kind == FaultKind::minimum_set_to && op.oa_fraction <= ah.min_oa_fraction)
+        row.x_true = active->amount;
       // The real mixed air comes from the real outdoor air.
       const auto out_true = airside::air_state(t_out_true, std::min(w_true, psychro::saturation_humidity_ratio(t_out_true, p)));
       const auto mixed = airside::mix(out_true, ret, row.x_true);
