@@ -409,6 +409,16 @@ enthalpy_limit = "28btu/lb"
   // Greensboro has hours below −5 °C (TMY3 file, dry-bulb column): the chart widens to show them.
   CHECK(contains(svg, ">-10</text>"));
   CHECK(contains(svg, "data-strategy=\"enthalpy 28\""));
+
+  // A checked point on top of the same climate.
+  const auto both = (scratch_dir("chart") / "gso-point.svg").string();
+  REQUIRE(run_cli({"chart", unit.string(), "--weather", greensboro(), "--outdoor", "20C/dp15C", "--units", "si", "-o", both},
+                  "chart")
+              .rc == 0);
+  const std::string svg2 = slurp(both);
+  CHECK(contains(svg2, "class=\"climate\""));
+  CHECK(contains(svg2, "class=\"outdoor\""));
+  CHECK(contains(svg2, "class=\"mixed-air\""));
 }
 
 TEST_CASE("bad chart input is a one-line error naming the option") {
