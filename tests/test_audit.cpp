@@ -51,6 +51,28 @@ std::vector<double> weights_h(const std::vector<test::GeneratedRow>& rows) {
   return w;
 }
 
+// Hours of the generator's rows that a rule flags: Σ weights where `pred(row)`.
+template <class Pred>
+double expected_hours(const test::Generated& g, Pred pred) {
+  const auto w = weights_h(g.rows);
+  double h = 0;
+  for (std::size_t i = 0; i < g.rows.size(); ++i)
+    if (pred(g.rows[i])) h += w[i];
+  return h;
+}
+
+// Expected hours of a measured-fraction rule, computed here from the generator's rows with the
+// numeric propagation above: fan-on rows in the fault window that pass the gate and that
+// `flag(x_measured, σ, row)` picks.
+template <class Flag>
+double expected_measured_hours(const test::Generated& g, Flag flag, double sensor_k = 0.5) {
+  return expected_hours(g, [&](const test::GeneratedRow& r) {
+    if (!r.fan || !r.in_fault || std::abs(r.t_out_log - r.t_ret_log) < 4 * std::sqrt(3.0) * sensor_k) return false;
+    const double x = (r.t_mix_log - r.t_ret_log) / (r.t_out_log - r.t_ret_log);
+    return flag(x, numeric_sigma(r.t_out_log, r.t_ret_log, r.t_mix_log, sensor_k, sensor_k, sensor_k), r);
+  });
+}
+
 struct Audited {
   test::Generated gen;
   trend::TrendLog log;
@@ -125,16 +147,10 @@ TEST_CASE("stuck damper: found with its hours, nothing else") {
   REQUIRE(f);
   // Expected: fan-on samples in the window where the temperatures allow a measurement and the
   // commanded fraction is beyond 3σ + 0.15 of the real (minimum) one.
-  const auto w = weights_h(a.gen.rows);
-  double expected = 0;
-  for (std::size_t i = 0; i < a.gen.rows.size(); ++i) {
-    const auto& r = a.gen.rows[i];
-    if (!r.fan || !r.in_fault || std::abs(r.t_out_log - r.t_ret_log) < 4 * std::sqrt(0.75)) continue;
-    const double x = (r.t_mix_log - r.t_ret_log) / (r.t_out_log - r.t_ret_log);
-    const double sig = numeric_sigma(r.t_out_log, r.t_ret_log, r.t_mix_log, 0.5, 0.5, 0.5);
-    if (std::abs(x - r.x_command) > 3 * sig + 0.15) expected += w[i];
-    CHECK(r.x_true == doctest::Approx(0.2));
-  }
+  const double expected = expected_measured_hours(a.gen, [](double x, double sig, const test::GeneratedRow& r) {
+    return std::abs(x - r.x_command) > 3 * sig + 0.15;
+  });
+  CHECK(expected_hours(a.gen, [](const test::GeneratedRow& r) { return r.fan && r.in_fault && r.x_true != 0.2; }) == 0);
   CHECK(expected > 2.0);
   CHECK(std::abs(f->hours - expected) <= kInterval_h + 1e-9);
   CHECK(f->first_s >= faults[0].from_s);
@@ -149,12 +165,9 @@ TEST_CASE("high-limit set 5 °F too high: economizing when disabled, and the swi
   INFO(describe(a.result));
   CHECK(kinds(a.result) == std::set{audit::FindingKind::economizing_when_disabled,
                                     audit::FindingKind::high_limit_elsewhere});
-  const auto w = weights_h(a.gen.rows);
-  double expected = 0;
-  for (std::size_t i = 0; i < a.gen.rows.size(); ++i) {
-    const auto& r = a.gen.rows[i];
-    if (r.fan && !r.configured_enabled && r.x_command > 0.2 + audit::kDamperMarginFraction) expected += w[i];
-  }
+  const double expected = expected_hours(a.gen, [](const test::GeneratedRow& r) {
+    return r.fan && !r.configured_enabled && r.x_command > 0.2 + audit::kDamperMarginFraction;
+  });
   const auto* f = a.result.find(audit::FindingKind::economizing_when_disabled);
   REQUIRE(f);
   CHECK(expected > 2.0);
@@ -178,35 +191,14 @@ TEST_CASE("outdoor sensor reading 3 K high: mixed air out of range at full outdo
   REQUIRE(f);
   // At full outdoor air the mixed air is the real outdoor air, 3 K below the reading: always
   // beyond 3 × √(0.5² + 0.5²) = 2.1 K. Modulating samples near full outdoor air can add some.
-  const auto w = weights_h(a.gen.rows);
-  double full = 0, near_full = 0;
-  for (std::size_t i = 0; i < a.gen.rows.size(); ++i) {
-    const auto& r = a.gen.rows[i];
-    if (!r.fan || !r.in_fault) continue;
-    if (r.x_true > 0.999) full += w[i];
-    if (r.x_true > 0.6) near_full += w[i];
-  }
+  const double full = expected_hours(a.gen, [](const test::GeneratedRow& r) { return r.fan && r.in_fault && r.x_true > 0.999; });
+  const double near_full = expected_hours(a.gen, [](const test::GeneratedRow& r) { return r.fan && r.in_fault && r.x_true > 0.6; });
   CHECK(full > 2.0);
   CHECK(f->hours >= full - kInterval_h - 1e-9);
   CHECK(f->hours <= near_full + kInterval_h + 1e-9);
   CHECK(f->first_s >= faults[0].from_s);
   CHECK(f->last_s < faults[0].to_s);
   CHECK_FALSE(f->energy_kwh);  // the model cannot price a reading that is itself wrong
-}
-
-// Expected hours of a measured-fraction rule, computed here from the generator's rows with the
-// numeric propagation above: the rule as documented, `flag(x_measured, σ, row)`.
-template <class Flag>
-double expected_measured_hours(const test::Generated& g, Flag flag, double sensor_k = 0.5) {
-  const auto w = weights_h(g.rows);
-  double h = 0;
-  for (std::size_t i = 0; i < g.rows.size(); ++i) {
-    const auto& r = g.rows[i];
-    if (!r.fan || !r.in_fault || std::abs(r.t_out_log - r.t_ret_log) < 4 * std::sqrt(3.0) * sensor_k) continue;
-    const double x = (r.t_mix_log - r.t_ret_log) / (r.t_out_log - r.t_ret_log);
-    if (flag(x, numeric_sigma(r.t_out_log, r.t_ret_log, r.t_mix_log, sensor_k, sensor_k, sensor_k), r)) h += w[i];
-  }
-  return h;
 }
 
 std::vector<test::Fault> week_fault(test::FaultKind kind, double amount) {
@@ -253,12 +245,9 @@ TEST_CASE("economizer locked out: not economizing when enabled, switching point 
   INFO(describe(a.result));
   CHECK(kinds(a.result) == std::set{audit::FindingKind::not_economizing_when_enabled,
                                     audit::FindingKind::high_limit_elsewhere});
-  const auto w = weights_h(a.gen.rows);
-  double expected = 0;
-  for (std::size_t i = 0; i < a.gen.rows.size(); ++i) {
-    const auto& r = a.gen.rows[i];
-    if (r.fan && r.in_fault && r.configured_enabled && r.x_enabled > 0.2 + 0.10) expected += w[i];
-  }
+  const double expected = expected_hours(a.gen, [](const test::GeneratedRow& r) {
+    return r.fan && r.in_fault && r.configured_enabled && r.x_enabled > 0.2 + 0.10;
+  });
   const auto* f = a.result.find(audit::FindingKind::not_economizing_when_enabled);
   REQUIRE(f);
   CHECK(expected > 2.0);
