@@ -324,3 +324,30 @@ TEST_CASE("audit command: the energy code's strategy with --edition and --zone")
   CHECK(bad.rc == 2);
   CHECK(contains(bad.err, "allowed:"));
 }
+
+TEST_CASE("audit command: malformed logs give one-line errors naming file and line") {
+  const auto dir = test::scratch_dir("audit-bad");
+  auto write = [&](const std::string& name, const std::string& text) {
+    std::ofstream(dir / name, std::ios::binary) << text;
+    return (dir / name).string();
+  };
+  const std::string head = "Timestamp,OAT (°F),RAT (°F),MAT (°F),OA Damper Cmd (%),SF Status\n";
+  const auto unsorted = write("unsorted.csv", head + "2026-05-04 10:15,50,72,68,20,On\n2026-05-04 10:00,50,72,68,20,On\n");
+  const auto r1 = run_cli({"audit", "examples/audit-office.toml", unsorted}, "audit");
+  CHECK(r1.rc == 2);
+  CHECK(contains(r1.err, "unsorted.csv:3: time 2026-05-04 10:00 is before"));
+  const auto celsius = write("celsius.csv", head + "2026-05-04 10:00,10,22,20,20,On\n2026-05-04 10:15,10,22,20,20,On\n");
+  const auto r2 = run_cli({"audit", "examples/audit-office.toml", celsius}, "audit");
+  CHECK(r2.rc == 2);
+  CHECK(contains(r2.err, "is the column's unit right"));
+  // The same file read with its real unit set by --column runs.
+  const auto r3 = run_cli({"audit", "examples/audit-office.toml", celsius, "--column", "outdoor-dry-bulb=OAT (°F):C",
+                           "--column", "return-dry-bulb=RAT (°F):C", "--column", "mixed-air=MAT (°F):C",
+                           "--max-gap", "20"}, "audit");
+  CHECK(r3.rc == 0);
+  CHECK(contains(r3.out, "--column"));
+  CHECK(contains(r3.out, "at most 20.0 min"));
+  const auto r4 = run_cli({"audit", "examples/audit-office.toml", celsius, "--max-gap", "0"}, "audit");
+  CHECK(r4.rc == 2);
+  CHECK(contains(r4.err, "--max-gap"));
+}
