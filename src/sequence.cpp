@@ -491,9 +491,17 @@ class Composer {
     return out;
   }
 
+  // The annual result the setpoint stands on; a strategy that did not rank first is said so.
   std::string annual_support() const {
-    return in_.annual ? fmt::format(" The annual evaluation of paragraph {} supports it.", annual_ref_)
-                      : std::string();
+    if (!in_.annual) return {};
+    const std::size_t n = in_.annual->year->strategies.size();
+    if (rank_ == 1)
+      return fmt::format(" The annual evaluation of paragraph {} supports it: this strategy "
+                         "ranked first of the {} evaluated.",
+                         annual_ref_, n);
+    return fmt::format(" The annual evaluation of paragraph {} ranks this strategy {} of {}; "
+                       "weigh that before adopting it.",
+                       annual_ref_, rank_, n);
   }
 
   std::string condition_basis(std::size_t i) const {
@@ -615,7 +623,7 @@ class Composer {
         "fan operation), this strategy ranked {} of the {} strategies evaluated for the unit. It "
         "falls {} short of the perfect changeover (the ideal high-limit, which enables the "
         "economizer in exactly the hours when that costs less) and {} {} against no economizer. "
-        "It economized for {}, {} of them with mechanical cooling; it economized for {} when "
+        "It economized for {}, {} of them with mechanical cooling; it was enabled for {} when "
         "that cost more energy than not, and stayed off for {} when economizing would have "
         "saved energy.",
         in_.annual->weather_label, hours(y.operating_hours), rank_, y.strategies.size(),
@@ -742,6 +750,15 @@ class Composer {
     const double margin = units::from_display(
         Kind::temperature_difference, s_, s_ == System::ip ? kLowLimitMarginF : kLowLimitMarginK);
     const double low = design_value(Kind::temperature, s_, target - margin, true);
+    const double freeze = design_value(Kind::temperature, s_,
+                                       units::celsius_from_fahrenheit(kFreezeExampleF), false);
+    const std::string clash =
+        low <= freeze + 1e-9
+            ? fmt::format(" At this supply-air setpoint the low-limit is not above the {} "
+                          "common-practice figure of paragraph 6.2; the designer must set the "
+                          "two apart.",
+                          t(freeze))
+            : std::string();
     add(sec,
         fmt::format(
             "Mixed-air low-limit: if the mixed-air temperature falls below {}, a low-limit loop "
@@ -750,11 +767,10 @@ class Composer {
             "fitted, then makes up the supply-air setpoint. Basis: design choice, {} below the "
             "mixed-air setpoint ({} below it is common practice); it guards the coils against "
             "stratified cold air and is not part of the annual evaluation. Keep it above the "
-            "low-temperature detection setpoint of paragraph 6.2.",
+            "low-temperature detection setpoint of paragraph 6.2.{}",
             t(low), written(Kind::temperature_difference, s_, target - low, Note::about),
-            dt(margin)));
-    const double freeze = design_value(Kind::temperature, s_,
-                                       units::celsius_from_fahrenheit(kFreezeExampleF), false);
+            dt(margin), clash));
+
     add(sec,
         fmt::format(
             "Freeze protection: when the low-temperature detection of section 7 senses air "

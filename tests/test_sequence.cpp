@@ -312,6 +312,16 @@ TEST_CASE("changing one value changes exactly the paragraph that states it") {
   }
 }
 
+TEST_CASE("a low-limit that would meet the freeze figure is flagged") {
+  // 42 °F supply − 2 °F fan heat = 40 °F mixed air; 3 °F below is 37 °F, under 38 °F.
+  const auto low = build(replace_once(kUnit, "supply_air_temp = \"56F\"", "supply_air_temp = \"42F\""),
+                         System::ip)
+                       .doc;
+  CHECK(contains(text_of(low, "6.1"), "falls below 37 °F"));
+  CHECK(contains(text_of(low, "6.1"), "not above the 38 °F common-practice figure"));
+  CHECK(!contains(text_of(build(kUnit, System::ip).doc, "6.1"), "common-practice figure"));
+}
+
 TEST_CASE("each preset's high-limit paragraphs state its conditions") {
   hl::PresetSettings s = hl::preset_defaults();
   s.dry_bulb_limit_c = units::celsius_from_fahrenheit(70);
@@ -428,10 +438,19 @@ TEST_CASE("each setpoint carries its basis") {
     CHECK(contains(p, "falls 12 kBtu short of the perfect changeover"));
     CHECK(contains(p, "saves 3,000 kBtu against no economizer"));
     CHECK(contains(p, "3,400 h of fan operation"));
-    CHECK(contains(p, "economized for 35 h when that cost more"));
+    CHECK(contains(p, "economized for 1,500 h, 400 h of them with mechanical cooling"));
+    CHECK(contains(p, "it was enabled for 35 h when that cost more"));
     CHECK(contains(p, "stayed off for 120 h"));
     CHECK(contains(p, "\"plain dry-bulb\", falls 5 kBtu short"));
-    CHECK(contains(text_of(d, "3.2"), "The annual evaluation of paragraph 3.5 supports it."));
+    CHECK(contains(text_of(d, "3.2"),
+                   "The annual evaluation of paragraph 3.5 ranks this strategy 2 of 2; weigh that "
+                   "before adopting it."));
+    std::swap(y.strategies[0], y.strategies[1]);
+    const auto first = build(kUnit, System::ip, {}, &a).doc;
+    CHECK(contains(text_of(first, "3.2"), "The annual evaluation of paragraph 3.5 supports it: this "
+                                          "strategy ranked first of the 2 evaluated."));
+    CHECK(contains(text_of(first, "3.5"), "ranked 1 of the 2 strategies"));
+    CHECK(!contains(text_of(first, "3.5"), "The best strategy evaluated"));
     // A strategy missing from the results it would cite is refused.
     y.strategies = {best};
     CHECK_THROWS_AS(build(kUnit, System::ip, {}, &a), InputError);
