@@ -294,6 +294,7 @@ TEST_CASE("audit command: text, markdown and JSON reports with coverage, mapping
   CHECK(js.rc == 0);
   CHECK(contains(js.out, "\"kind\": \"high-limit-elsewhere\""));
   CHECK(contains(js.out, "\"energy_kbtu\""));
+  CHECK(contains(js.out, "\"configured_f\": 70"));
 }
 
 TEST_CASE("audit command: bad input and usage") {

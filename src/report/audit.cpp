@@ -226,16 +226,23 @@ std::string audit_json(const audit::Result& r, const trend::TrendLog& log, const
   }
   j.end_array();
   j.key("switching_points").begin_array();
-  for (const auto& sp : r.switch_points)
+  for (const auto& sp : r.switch_points) {
     j.begin_object().field("condition", sp.condition + 1)
         .field("quantity", highlimit::quantity_name(sp.quantity))
-        .field("reference", highlimit::reference_name(sp.reference))
-        .field("configured", value_text(sp, sp.configured, s))
-        .field("estimate", value_text(sp, sp.estimate, s))
-        .field("open_up_to", value_text(sp, sp.highest_open, s))
-        .field("closed_from", value_text(sp, sp.lowest_closed, s))
+        .field("reference", highlimit::reference_name(sp.reference));
+    // Numbers with the unit in the key (DESIGN.md §4): values of the quantity for a fixed limit,
+    // differences for an offset from the return air.
+    const units::Kind kind = sp.reference == highlimit::Reference::return_air ? difference_kind(sp.quantity)
+                                                                              : value_kind(sp.quantity);
+    const std::string suffix(units::key_suffix(kind, s));
+    for (auto [name, v] : {std::pair{"configured", sp.configured}, std::pair{"estimate", sp.estimate},
+                           std::pair{"open_up_to", sp.highest_open}, std::pair{"closed_from", sp.lowest_closed}})
+      j.field(std::string(name) + "_" + suffix, units::to_display(kind, s, v), 6);
+    j.field("deadband_" + std::string(units::key_suffix(difference_kind(sp.quantity), s)),
+            units::to_display(difference_kind(sp.quantity), s, sp.deadband), 6)
         .field("open_samples", sp.open_samples).field("closed_samples", sp.closed_samples)
         .field("differs", sp.differs).end_object();
+  }
   j.end_array();
   j.key("rules").begin_array();
   for (const auto& l : rule_lines(c)) j.value(l);
