@@ -79,16 +79,9 @@ std::string batch_text(const std::vector<BatchSite>& sites, units::System s, For
 
 int run_year(const std::vector<std::string>& args) {
   po::options_description options("options");
+  po::positional_options_description pos;
+  add_job_options(options, pos);
   options.add_options()
-      ("unit", po::value<std::string>(), "unit file (TOML); omit to run the embedded demo")
-      ("demo", po::value<std::string>(), "embedded demo to run: harbourside (default) or mesa-alta")
-      ("weather", po::value<std::string>(), "weather CSV (instead of the unit file's [weather] file)")
-      ("column", po::value<std::vector<std::string>>()->composing(),
-       "weather column override QUANTITY=HEADER[:UNIT] (repeatable)")
-      ("humidity", po::value<std::string>(),
-       "humidity column to use: dew-point, humidity-ratio, wet-bulb or relative-humidity")
-      ("on-bad-row", po::value<std::string>(), "missing or impossible weather rows: error (default), skip or fill")
-      ("time-convention", po::value<std::string>(), "weather stamps: hour-beginning or hour-ending (default: found from the file)")
       ("hourly", po::value<std::string>(), "also write every hour's states, decisions and loads to this CSV file")
       ("batch", po::value<std::string>(), "evaluate every .csv weather file of this folder; per-site summary")
       ("threads", po::value<unsigned>()->default_value(0), "threads for --batch (0: all cores)")
@@ -97,23 +90,12 @@ int run_year(const std::vector<std::string>& args) {
       ("code-table", po::value<std::vector<std::string>>()->composing(),
        "extra code-table file (a jurisdiction's amendments; repeatable)");
   add_common_options(options, "text, json, csv, md");
-  po::positional_options_description pos;
-  pos.add("unit", 1);
   po::variables_map vm;
   if (!parse_options(args, options, pos, "limitline year [UNIT.toml] [options]", kDetails, vm)) return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::csv, Format::md});
 
-  WeatherOverrides overrides;
-  if (vm.count("weather")) overrides.file = vm["weather"].as<std::string>();
-  if (vm.count("column")) overrides.columns = vm["column"].as<std::vector<std::string>>();
-  if (vm.count("humidity")) overrides.humidity = vm["humidity"].as<std::string>();
-  if (vm.count("on-bad-row")) overrides.on_bad_row = vm["on-bad-row"].as<std::string>();
-  if (vm.count("time-convention")) overrides.time_convention = vm["time-convention"].as<std::string>();
-
-  if (vm.count("unit") && vm.count("demo")) throw UsageError("give a unit file or --demo, not both");
-  const UnitSource source = vm.count("unit") ? UnitSource{vm["unit"].as<std::string>(), false}
-                                             : demo_unit(vm.count("demo") ? vm["demo"].as<std::string>()
-                                                                          : "harbourside");
+  const WeatherOverrides overrides = weather_overrides(vm);
+  const UnitSource source = job_source(vm);
 
   if (vm.count("batch")) {
     if (!vm.count("unit")) throw UsageError("--batch needs a unit file");

@@ -28,6 +28,10 @@ const Command kCommands[] = {
      limitline::cli::run_chart},
     {"report", "the study as one self-contained HTML page (or Markdown) for a client",
      limitline::cli::run_report},
+    {"sensors", "how each high-limit fares with biased sensors: trials, sweep, break-even accuracy",
+     limitline::cli::run_sensors},
+    {"audit", "a trend log checked against the unit's high-limit: findings for an inspector",
+     limitline::cli::run_audit},
 };
 
 void print_overview() {

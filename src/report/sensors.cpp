@@ -41,12 +41,7 @@ void json_energy(Json& j, std::string_view stem, double kwh, units::System s) {
 std::vector<std::string> header(const SensorsReport& r) {
   const YearContext& c = *r.context;
   const sensors::StudyResult& st = *r.study;
-  std::vector<std::string> out;
-  out.push_back(fmt::format("Unit: {}", c.unit_source));
-  if (!c.site.empty()) out.push_back(fmt::format("Site: {}", c.site));
-  out.push_back(fmt::format("Weather: {}", c.weather_source));
-  for (const auto& n : c.weather_notes) out.push_back("  " + n);
-  out.push_back(fmt::format("Schedule: {}", c.schedule));
+  std::vector<std::string> out = context_lines(c);
   out.push_back(fmt::format("Readings per trial: {} fan-on intervals", st.readings_per_trial));
 
   const sensors::SensorSet& set = st.sensors;
@@ -401,15 +396,7 @@ std::string sensors_json(const SensorsReport& r) {
   const HumidityKind k = kind_of(st.sensors);
   Json j;
   j.begin_object();
-  j.field("title", c.title);
-  j.field("unit_file", c.unit_source);
-  j.field("site", c.site);
-  j.field("weather", c.weather_source);
-  j.key("weather_notes").begin_array();
-  for (const auto& n : c.weather_notes) j.value(n);
-  j.end_array();
-  j.field("schedule", c.schedule);
-  j.field("units", std::string(units::system_name(s)));
+  json_context(j, c);
   j.field("readings_per_trial", static_cast<long long>(st.readings_per_trial));
 
   j.key("sensors").begin_object();

@@ -169,12 +169,7 @@ std::vector<std::string> findings(const annual::YearResult& y, const YearContext
 }
 
 std::vector<std::string> header_lines(const annual::YearResult& y, const YearContext& c) {
-  std::vector<std::string> out;
-  out.push_back(fmt::format("Unit: {}", c.unit_source));
-  if (!c.site.empty()) out.push_back(fmt::format("Site: {}", c.site));
-  out.push_back(fmt::format("Weather: {}", c.weather_source));
-  for (const auto& n : c.weather_notes) out.push_back("  " + n);
-  out.push_back(fmt::format("Schedule: {}", c.schedule));
+  std::vector<std::string> out = context_lines(c);
   out.push_back(fmt::format("Fan-on hours: {} of {} in the weather year", num(y.operating_hours),
                             num(y.total_hours)));
   if (!c.code_label.empty()) out.push_back(fmt::format("Energy code: {}", c.code_label));
@@ -182,6 +177,28 @@ std::vector<std::string> header_lines(const annual::YearResult& y, const YearCon
 }
 
 }  // namespace
+
+void json_context(Json& j, const YearContext& c) {
+  j.field("title", c.title);
+  j.field("unit_file", c.unit_source);
+  j.field("site", c.site);
+  j.field("weather", c.weather_source);
+  j.key("weather_notes").begin_array();
+  for (const auto& n : c.weather_notes) j.value(n);
+  j.end_array();
+  j.field("schedule", c.schedule);
+  j.field("units", std::string(units::system_name(c.units)));
+}
+
+std::vector<std::string> context_lines(const YearContext& c) {
+  std::vector<std::string> out;
+  out.push_back(fmt::format("Unit: {}", c.unit_source));
+  if (!c.site.empty()) out.push_back(fmt::format("Site: {}", c.site));
+  out.push_back(fmt::format("Weather: {}", c.weather_source));
+  for (const auto& n : c.weather_notes) out.push_back("  " + n);
+  out.push_back(fmt::format("Schedule: {}", c.schedule));
+  return out;
+}
 
 double energy_display(double kwh, units::System s) {
   return s == units::System::ip ? kwh * kKbtuPerKwh : kwh;
@@ -273,15 +290,7 @@ std::string year_csv(const annual::YearResult& y, const YearContext& c) {
 std::string year_json(const annual::YearResult& y, const YearContext& c) {
   Json j;
   j.begin_object();
-  j.field("title", c.title);
-  j.field("unit_file", c.unit_source);
-  j.field("site", c.site);
-  j.field("weather", c.weather_source);
-  j.key("weather_notes").begin_array();
-  for (const auto& n : c.weather_notes) j.value(n);
-  j.end_array();
-  j.field("schedule", c.schedule);
-  j.field("units", std::string(units::system_name(c.units)));
+  json_context(j, c);
   j.field("total_hours", y.total_hours, 8);
   j.field("operating_hours", y.operating_hours, 8);
   if (!c.code_label.empty()) j.field("energy_code", c.code_label);

@@ -25,6 +25,13 @@ struct YearContext {
   std::map<std::string, std::string> compliance;
 };
 
+class Json;
+
+// The inputs block every annual-based report starts with: unit, site, weather and its
+// mapping, schedule, units (JSON fields, and the human lines).
+void json_context(Json& j, const YearContext& c);
+std::vector<std::string> context_lines(const YearContext& c);
+
 std::string year_text(const annual::YearResult& y, const YearContext& c);
 std::string year_markdown(const annual::YearResult& y, const YearContext& c);
 std::string year_csv(const annual::YearResult& y, const YearContext& c);
