@@ -75,6 +75,6 @@ std::optional<codes::ZoneRequirements> site_requirements(const UnitFile& unit,
 
 // A configured value as a specifier writes it: "65 °F", "53.5 °F", "28 Btu/lb", "20%", or,
 // when no short decimal states it exactly, "18.3 °C (rounded; the analysis used 65 °F)".
-std::string setpoint_text(units::Kind kind, units::System system, double si_value);
+std::string setpoint_text(units::Kind kind, units::System system, double value_si);
 
 }  // namespace limitline::sequence

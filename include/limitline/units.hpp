@@ -52,7 +52,7 @@ double parse_number(std::string_view text, std::string_view origin);
 bool has_unit(std::string_view text);
 
 // SI value → display value in `system`, and back.
-double to_display(Kind kind, System system, double si_value);
+double to_display(Kind kind, System system, double value_si);
 double from_display(Kind kind, System system, double display_value);
 
 // Display unit label ("°F", "Btu/lb", "kJ/kg", "cfm", "%").
@@ -68,6 +68,6 @@ constexpr double fahrenheit_from_celsius(double c) { return c * 1.8 + 32.0; }
 constexpr double celsius_from_fahrenheit(double f) { return (f - 32.0) / 1.8; }
 
 // Formats an SI value for display: converted, rounded to `decimals`, with its unit label.
-std::string format(Kind kind, System system, double si_value, int decimals);
+std::string format(Kind kind, System system, double value_si, int decimals);
 
 }  // namespace limitline::units
