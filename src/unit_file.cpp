@@ -731,7 +731,7 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
   const toml::table* ah = r.table(root, "air_handler", "");
   if (ah == nullptr)
     throw InputError(fmt::format("{}: [air_handler] is missing; it is required (see "
-                                 "docs-unit-file.md)",
+                                 "the README section 'The unit file')",
                                  name));
   read_air_handler(r, *ah, u.site.design_pressure_kpa(), u);
   u.weights = read_energy(r, r.table(root, "energy", ""));

@@ -3,7 +3,7 @@
 //
 // The code tables are data: one TOML file per edition, loaded at run time, plus any number of
 // extra files (a new edition, or an [amendment] whose rows replace an edition's rows for the
-// zones they name). docs-code-tables.md describes the format. Every shipped value is recalled
+// zones they name). the README section 'Energy-code tables' describes the format. Every shipped value is recalled
 // from memory and says so in its `provenance`; the tables must be verified before use.
 //
 // Compliance is judged per control type: a strategy's conditions are matched to a strategy

@@ -1,6 +1,6 @@
 #pragma once
 // The unit file (TOML): one air handler, its site, its return air, and the high-limit
-// strategies to weigh for it. Every key is documented in docs-unit-file.md.
+// strategies to weigh for it. Every key is documented in the README section 'The unit file'.
 //
 // Reading is strict: an unknown key, a value of the wrong kind (a temperature where an
 // enthalpy belongs), a missing required key or a contradiction is an InputError whose one-line

@@ -22,7 +22,7 @@ using highlimit::Reference;
 using units::Kind;
 
 constexpr std::string_view kDetails =
-    "UNIT.toml is a unit file (see docs-unit-file.md). --outdoor, and --return when given,\n"
+    "UNIT.toml is a unit file (see the README section 'The unit file'). --outdoor, and --return when given,\n"
     "are a dry-bulb with one humidity form:\n"
     "  68F/80%  (relative humidity)   68F/dp58F  (dew point)   68F/wb62F  (wet-bulb)\n"
     "  68F/w0.011  (humidity ratio)   68F/h30btu/lb  (enthalpy)\n"

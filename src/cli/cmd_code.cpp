@@ -57,7 +57,7 @@ std::string details() {
       "Tables: data/codes/*.toml, found through $LIMITLINE_DATA_DIR/codes, the installed data\n"
       "folder, or the source tree. --code-table FILE (repeatable, applied in order) adds an\n"
       "edition or an [amendment] whose rows replace the edition's rows zone by zone: a\n"
-      "jurisdiction's local amendments. The format is described in docs-code-tables.md.\n"
+      "jurisdiction's local amendments. The format is described in the README section 'Energy-code tables'.\n"
       "Every value in the shipped tables is recalled from memory: verify it against the\n"
       "adopted edition.\n\n"
       "Examples:\n"
