@@ -70,16 +70,6 @@ std::string details() {
       codes::kEnthalpyToleranceKjPerKg);
 }
 
-std::optional<double> option_pressure(const po::variables_map& vm, System system) {
-  if (vm.count("pressure") && vm.count("elevation"))
-    throw UsageError("give --pressure or --elevation, not both");
-  if (vm.count("elevation"))
-    return psychro::standard_pressure_kpa(quantity(vm, "elevation", Kind::length, system));
-  if (!vm.count("pressure")) return std::nullopt;
-  const double p = quantity(vm, "pressure", Kind::pressure, system);
-  psychro::check_pressure(p, "--pressure");
-  return p;
-}
 
 airside::EconomizerType parse_economizer(const std::string& text) {
   if (text == "integrated") return airside::EconomizerType::integrated;
@@ -692,7 +682,7 @@ int run_code(const std::vector<std::string>& args) {
   if (vm.count("code-table"))
     for (const auto& f : vm["code-table"].as<std::vector<std::string>>()) extra.emplace_back(f);
   const codes::CodeTables tables = codes::CodeTables::load_installed(extra);
-  std::optional<double> pressure = option_pressure(vm, s);
+  std::optional<double> pressure = site_pressure_option(vm, s);
 
   if (list) {
     write_out(editions_list(tables, common.format));

@@ -45,24 +45,6 @@ constexpr std::string_view kDetails =
     "  limitline state --dry-bulb 24C --dew-point 12C --elevation 1500m --units si --format json\n"
     "  limitline state --batch points.csv --units si > properties.csv";
 
-double site_pressure(const po::variables_map& vm, units::System system) {
-  if (vm.count("pressure") && vm.count("elevation"))
-    throw UsageError("give --pressure or --elevation, not both");
-  if (vm.count("pressure")) {
-    const double p = quantity(vm, "pressure", Kind::pressure, system);
-    psychro::check_pressure(p, "--pressure");
-    return p;
-  }
-  if (vm.count("elevation")) {
-    try {
-      return psychro::standard_pressure_kpa(quantity(vm, "elevation", Kind::length, system));
-    } catch (const RangeError& e) {
-      throw InputError(
-          fmt::format("--elevation {}: {}", vm["elevation"].as<std::string>(), e.what()));
-    }
-  }
-  return psychro::kStandardPressureKpa;
-}
 
 }  // namespace
 
@@ -84,7 +66,7 @@ int run_state(const std::vector<std::string>& args) {
                      kDetails, vm))
     return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::csv});
-  const double p = site_pressure(vm, common.units);
+  const double p = site_pressure_option(vm, common.units).value_or(psychro::kStandardPressureKpa);
 
   if (vm.count("batch")) {
     for (const auto& h : kHumidityOptions)

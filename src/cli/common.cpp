@@ -1,5 +1,7 @@
 #include "common.hpp"
 
+#include <limitline/psychro.hpp>
+
 #include <fmt/format.h>
 
 #include <cstdio>
@@ -71,6 +73,22 @@ Common read_common(const po::variables_map& vm, std::initializer_list<Format> al
 double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
                 units::System system) {
   return units::parse(kind, vm[name].as<std::string>(), system, std::string("--") + name);
+}
+
+std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system) {
+  if (vm.count("pressure") && vm.count("elevation"))
+    throw UsageError("give --pressure or --elevation, not both");
+  if (vm.count("pressure")) {
+    const double p = quantity(vm, "pressure", units::Kind::pressure, system);
+    psychro::check_pressure(p, "--pressure");
+    return p;
+  }
+  if (!vm.count("elevation")) return std::nullopt;
+  try {
+    return psychro::standard_pressure_kpa(quantity(vm, "elevation", units::Kind::length, system));
+  } catch (const RangeError& e) {
+    throw InputError(fmt::format("--elevation {}: {}", vm["elevation"].as<std::string>(), e.what()));
+  }
 }
 
 void write_out(const std::string& text) {

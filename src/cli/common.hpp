@@ -7,6 +7,7 @@
 #include <boost/program_options.hpp>
 
 #include <initializer_list>
+#include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -72,6 +73,10 @@ limitline::WeatherOverrides weather_overrides(const po::variables_map& vm);
 
 // Writes text to a file (or stdout for "-"); InputError naming `option` when it cannot.
 void write_file(const std::string& path, const std::string& text, std::string_view option);
+
+// The site pressure from --pressure or --elevation (standard pressure, ASHRAE Fundamentals
+// ch. 1 eq. 3); none when neither is given. Both at once is a UsageError.
+std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system);
 
 // Writes text to stdout exactly (no added newline); exits with failure if stdout fails.
 void write_out(const std::string& text);
