@@ -11,6 +11,8 @@
 #include <limitline/weather.hpp>
 #include <limitline/year_job.hpp>
 
+#include "support/office.hpp"
+
 #include <cmath>
 #include <string>
 
@@ -18,25 +20,12 @@ using namespace limitline;
 
 namespace {
 
-constexpr const char* kOffice = R"(
-[site]
-name = "test office"
-elevation = "897ft"
-[air_handler]
-supply_airflow = "10000cfm"
-supply_air_temp = "55F"
-fan_heat = "1.5F"
-min_outdoor_air = "20%"
-return_air_temp = "75F"
-return_air_rh = "50%"
-[schedule]
-mon-fri = "06:00-19:00"
-sat = "08:00-13:00"
-)";
+const std::string kOffice = test::office_with_schedule();
+
 
 const weather::WeatherSeries& greensboro() {
   static const weather::WeatherSeries w = weather::read_file(
-      std::string(LIMITLINE_TEST_DATA_DIR) + "/greensboro-nc-tmy3.csv", weather::Mapping{},
+      test::greensboro_path(), weather::Mapping{},
       psychro::standard_pressure_kpa(273.0));
   return w;
 }

@@ -13,6 +13,8 @@
 #include <limitline/weather.hpp>
 #include <limitline/year_job.hpp>
 
+#include "support/office.hpp"
+
 #include "support/cli.hpp"
 
 #include <doctest/doctest.h>
@@ -33,23 +35,10 @@ using namespace limitline;
 using sensors::HumidityKind;
 using sensors::Sensor;
 
-constexpr const char* kOffice = R"toml(
-[site]
-name = "test office (invented)"
-elevation = "897ft"
-[air_handler]
-supply_airflow = "10000cfm"
-supply_air_temp = "55F"
-fan_heat = "1.5F"
-min_outdoor_air = "20%"
-return_air_temp = "75F"
-return_air_rh = "50%"
-[schedule]
-mon-fri = "06:00-19:00"
-sat = "08:00-13:00"
-)toml";
+const std::string kOffice = test::office_with_schedule();
 
-const std::string kGreensboro = std::string(LIMITLINE_TEST_DATA_DIR) + "/greensboro-nc-tmy3.csv";
+
+const std::string kGreensboro = test::greensboro_path();
 
 struct Year {
   UnitFile unit = parse_unit_file(kOffice, "office.toml");
@@ -477,7 +466,7 @@ std::string error_of(const std::string& table, const std::string& top = "") {
   return "no error";
 }
 // Line of the first key under [sensors] in the assembled file.
-const int kFirstLine = static_cast<int>(std::count(kOffice, kOffice + std::char_traits<char>::length(kOffice), '\n')) + 3;
+const int kFirstLine = static_cast<int>(std::count(kOffice.begin(), kOffice.end(), '\n')) + 3;
 }  // namespace
 
 TEST_CASE("[sensors]: defaults, values, units and kinds") {

@@ -5,6 +5,8 @@
 #include <limitline/weather.hpp>
 #include <limitline/year_job.hpp>
 
+#include "../support/office.hpp"
+
 #include <benchmark/benchmark.h>
 
 #include <fstream>
@@ -14,22 +16,8 @@ namespace {
 
 using namespace limitline;
 
-// An invented office unit (benchmark input only).
-constexpr const char* kUnit = R"(
-[site]
-name = "benchmark office"
-elevation = "897ft"
-[air_handler]
-supply_airflow = "10000cfm"
-supply_air_temp = "55F"
-fan_heat = "1.5F"
-min_outdoor_air = "20%"
-return_air_temp = "75F"
-return_air_rh = "50%"
-[schedule]
-mon-fri = "06:00-19:00"
-sat = "08:00-13:00"
-)";
+const std::string kUnit = test::office_with_schedule();
+
 
 std::string read(const std::string& path) {
   std::ifstream f(path, std::ios::binary);
@@ -39,7 +27,7 @@ std::string read(const std::string& path) {
 }
 
 const std::string& weather_text() {
-  static const std::string t = read(std::string(LIMITLINE_TEST_DATA_DIR) + "/greensboro-nc-tmy3.csv");
+  static const std::string t = read(test::greensboro_path());
   return t;
 }
 

@@ -7,6 +7,8 @@
 #include <limitline/weather.hpp>
 #include <limitline/year_job.hpp>
 
+#include "../support/office.hpp"
+
 #include <benchmark/benchmark.h>
 
 #include <thread>
@@ -15,26 +17,15 @@ namespace {
 
 using namespace limitline;
 
-// An invented office unit (benchmark input only), no [schedule]: always occupied.
-constexpr const char* kUnit = R"(
-[site]
-name = "benchmark office"
-elevation = "897ft"
-[air_handler]
-supply_airflow = "10000cfm"
-supply_air_temp = "55F"
-fan_heat = "1.5F"
-min_outdoor_air = "20%"
-return_air_temp = "75F"
-return_air_rh = "50%"
-)";
+const std::string kUnit = test::kOfficeUnit;
+
 
 struct Setup {
   UnitFile unit = parse_unit_file(kUnit, "bench.toml");
   std::vector<highlimit::Strategy> strategies = highlimit::all_presets(highlimit::preset_defaults());
   annual::Prepared prepared;
   Setup() {
-    const auto w = weather::read_file(std::string(LIMITLINE_TEST_DATA_DIR) + "/greensboro-nc-tmy3.csv",
+    const auto w = weather::read_file(test::greensboro_path(),
                                       weather::Mapping{}, unit.site.design_pressure_kpa());
     prepared = annual::prepare(unit.air_handler, return_air_spec(unit), outdoor_intervals(w),
                                Schedule{}, {});
