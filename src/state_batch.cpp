@@ -1,6 +1,7 @@
 #include <limitline/state_batch.hpp>
 
 #include <limitline/csv.hpp>
+#include <limitline/air_point.hpp>
 #include <limitline/psychro.hpp>
 #include <limitline/report/state.hpp>
 
@@ -20,16 +21,15 @@ using units::Kind;
 struct HumidityColumn {
   std::string_view name;
   HumidityInput input;
-  Kind kind;
 };
 
 constexpr HumidityColumn kHumidityColumns[] = {
-    {"rh", HumidityInput::relative_humidity, Kind::fraction},
-    {"relative_humidity", HumidityInput::relative_humidity, Kind::fraction},
-    {"wet_bulb", HumidityInput::wet_bulb, Kind::temperature},
-    {"dew_point", HumidityInput::dew_point, Kind::temperature},
-    {"humidity_ratio", HumidityInput::humidity_ratio, Kind::humidity_ratio},
-    {"enthalpy", HumidityInput::enthalpy, Kind::enthalpy},
+    {"rh", HumidityInput::relative_humidity},
+    {"relative_humidity", HumidityInput::relative_humidity},
+    {"wet_bulb", HumidityInput::wet_bulb},
+    {"dew_point", HumidityInput::dew_point},
+    {"humidity_ratio", HumidityInput::humidity_ratio},
+    {"enthalpy", HumidityInput::enthalpy},
 };
 
 }  // namespace
@@ -109,7 +109,7 @@ std::size_t write_state_batch(std::istream& in, std::ostream& out,
       double p = opt.default_pressure_kpa;
       if (pressure) p = cell(Kind::pressure, *pressure);
       if (elevation) p = psychro::standard_pressure_kpa(cell(Kind::length, *elevation));
-      const double h = cell(humidity_kind->kind, *humidity);
+      const double h = cell(humidity_input_kind(humidity_kind->input), *humidity);
       const auto props = psychro::properties(psychro::state_from(t, humidity_kind->input, h, p));
       for (std::size_t i = 0; i < fields.size(); ++i) {
         if (i) buffer += ',';

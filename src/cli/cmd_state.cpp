@@ -1,6 +1,7 @@
 // limitline state: properties of one moist-air state (or of every row of a CSV file).
 #include "common.hpp"
 
+#include <limitline/air_point.hpp>
 #include <limitline/psychro.hpp>
 #include <limitline/report/json.hpp>
 #include <limitline/report/state.hpp>
@@ -21,14 +22,13 @@ using units::Kind;
 struct HumidityOption {
   const char* name;
   HumidityInput input;
-  Kind kind;
 };
 constexpr HumidityOption kHumidityOptions[] = {
-    {"rh", HumidityInput::relative_humidity, Kind::fraction},
-    {"wet-bulb", HumidityInput::wet_bulb, Kind::temperature},
-    {"dew-point", HumidityInput::dew_point, Kind::temperature},
-    {"humidity-ratio", HumidityInput::humidity_ratio, Kind::humidity_ratio},
-    {"enthalpy", HumidityInput::enthalpy, Kind::enthalpy},
+    {"rh", HumidityInput::relative_humidity},
+    {"wet-bulb", HumidityInput::wet_bulb},
+    {"dew-point", HumidityInput::dew_point},
+    {"humidity-ratio", HumidityInput::humidity_ratio},
+    {"enthalpy", HumidityInput::enthalpy},
 };
 
 constexpr std::string_view kDetails =
@@ -100,7 +100,7 @@ int run_state(const std::vector<std::string>& args) {
     throw UsageError("give one humidity input: --rh, --wet-bulb, --dew-point, "
                      "--humidity-ratio or --enthalpy");
   const double t = quantity(vm, "dry-bulb", Kind::temperature, common.units);
-  const double value = quantity(vm, given->name, given->kind, common.units);
+  const double value = quantity(vm, given->name, humidity_input_kind(given->input), common.units);
   psychro::Properties props;
   try {
     props = psychro::properties(psychro::state_from(t, given->input, value, p));
