@@ -116,6 +116,7 @@ YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& ov
   in.weather = read_weather(in.unit, source.embedded, m, overrides.file, in.weather_label);
   if (in.unit.schedule) in.schedule = read_schedule(*in.unit.schedule, in.unit.path);
   in.strategies = strategies_or_presets(in.unit);
+  in.warnings = in.unit.warnings;
   return in;
 }
 
@@ -126,6 +127,7 @@ YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
   in.unit_label = base.unit_label;
   in.schedule = base.schedule;
   in.strategies = base.strategies;
+  in.warnings = base.unit.warnings;
   WeatherOverrides o = overrides;
   o.file = weather_path;
   in.weather = read_weather(in.unit, false, mapping_for(in.unit, o), o.file, in.weather_label);
@@ -171,6 +173,7 @@ report::YearContext year_context(const YearInputs& in, units::System s) {
   c.weather_source = in.weather_label;
   c.weather_notes = weather::describe(in.weather.info);
   c.schedule = in.schedule.describe();
+  c.warnings = in.warnings;
   for (const auto& st : in.strategies) c.strategy_descriptions[st.name] = report::describe_strategy(st, s);
   return c;
 }

@@ -2,6 +2,7 @@
 // Errors the front end turns into one-line messages and exit codes.
 #include <stdexcept>
 #include <string>
+#include <string_view>
 
 namespace limitline {
 
@@ -23,5 +24,11 @@ class UsageError : public std::runtime_error {
  public:
   using std::runtime_error::runtime_error;
 };
+
+// An offending value as it is echoed in a message: in single quotes, control characters and
+// bytes outside printable ASCII/UTF-8 escaped (\n, \x1b), and cut after its first 40
+// characters with its length ("'aaaa…' (1048576 characters)"), so that a message stays one
+// readable line whatever the input held.
+[[nodiscard]] std::string echo(std::string_view value);
 
 }  // namespace limitline

@@ -52,6 +52,10 @@ struct UnitFile {
   bool strategies_defaulted = true;             // no [[strategy]] in the file
   std::optional<toml::table> weather, schedule, sensors;  // raw, validated by their layers
   units::System units = units::System::ip;  // the system bare numbers in the file are read in
+  // Values that are physically valid but implausible for an air handler, one line each
+  // ("FILE:LINE: KEY: ..."): shown in every report's context block and on stderr, errors
+  // under --strict.
+  std::vector<std::string> warnings;
 };
 
 // Parses a unit file from text; `name` is the file name used in messages.

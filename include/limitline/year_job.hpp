@@ -41,6 +41,8 @@ struct YearInputs {
   std::string weather_label;
   Schedule schedule;
   std::vector<highlimit::Strategy> strategies;
+  // The unit file's warnings, then the weather's and the site's (see UnitFile::warnings).
+  std::vector<std::string> warnings;
 };
 
 // Loads the unit file (or embedded demo), reads its weather, schedule and strategies.

@@ -102,6 +102,7 @@ int run_audit(const std::vector<std::string>& args) {
   if (!vm.count("unit") || !vm.count("trend")) throw UsageError("give a unit file and a trend log");
 
   const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
+  report_warnings(unit.warnings, common.strict);
   trend::ReadOptions read;
   read.bare = common.units;
   if (vm.count("column"))

@@ -43,6 +43,7 @@ int run_chart(const std::vector<std::string>& args) {
       ("outdoor", po::value<std::string>(), "one outdoor state to check, e.g. 68F/80%")
       ("return", po::value<std::string>(), "its return air (default: the unit file's), e.g. 75F/50%")
       ("units", po::value<std::string>()->default_value("ip"), "unit system of the chart and of bare numbers: ip or si")
+      ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
       ("help,h", "show this help");
   po::variables_map vm;
   if (!parse_options(args, options, pos, "limitline chart [UNIT.toml] [options] -o chart.svg", kDetails, vm)) return 0;
@@ -55,6 +56,7 @@ int run_chart(const std::vector<std::string>& args) {
   report::ChartInput chart;
   if (vm.count("outdoor")) {
     const UnitFile unit = load_unit(source);
+    if (!vm.count("weather")) report_warnings(unit.warnings, vm.count("strict") > 0);
     const auto all = strategies_or_presets(unit);
     const auto chosen = select_strategies(all, names, "--strategy", unit.path);
     const AirPoint outdoor = parse_air_point(vm["outdoor"].as<std::string>(), s, "--outdoor");
@@ -64,10 +66,12 @@ int run_chart(const std::vector<std::string>& args) {
     chart.return_air = chart.check->ret;
     if (vm.count("weather")) {
       const YearInputs in = load_year_inputs(source, weather_overrides(vm));
+      report_warnings(in.warnings, vm.count("strict") > 0);
       add_climate(chart, prepare_year(in, false), in.weather_label);
     }
   } else {
     const YearInputs in = load_year_inputs(source, weather_overrides(vm));
+    report_warnings(in.warnings, vm.count("strict") > 0);
     chart = chart_input(in.unit, select_strategies(in.strategies, names, "--strategy", in.unit_label), s);
     add_climate(chart, prepare_year(in, false), in.weather_label);
   }

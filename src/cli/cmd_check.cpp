@@ -542,6 +542,7 @@ int run_check(const std::vector<std::string>& args) {
   if (!vm.count("outdoor")) throw UsageError("--outdoor is required, e.g. --outdoor 68F/80%");
 
   const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
+  report_warnings(unit.warnings, common.strict);
   const double p = unit.site.design_pressure_kpa();
   const std::string outdoor_text = vm["outdoor"].as<std::string>();
   const AirPoint outdoor_point = parse_air_point(outdoor_text, common.units, "--outdoor");

@@ -700,6 +700,7 @@ int run_code(const std::vector<std::string>& args) {
   }
 
   const UnitFile file = load_unit_file(vm["unit"].as<std::string>());
+  report_warnings(file.warnings, common.strict);
   UnitVerdicts u;
   u.unit_path = file.path;
   std::string edition_id = file.site.energy_code, zone = file.site.climate_zone;

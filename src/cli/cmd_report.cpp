@@ -43,6 +43,7 @@ int run_report(const std::vector<std::string>& args) {
       ("output,o", po::value<std::string>(), "file to write (html: - for standard output)")
       ("format", po::value<std::string>()->default_value("html"), "html or md")
       ("units", po::value<std::string>()->default_value("ip"), "unit system of the report: ip or si")
+      ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
       ("help,h", "show this help");
   po::variables_map vm;
   if (!parse_options(args, options, pos, "limitline report [UNIT.toml] [options] -o report.html", kDetails, vm)) return 0;
@@ -55,6 +56,7 @@ int run_report(const std::vector<std::string>& args) {
   if (format == "md" && output == "-") throw UsageError("--format md writes its pictures beside the file: give -o report.md");
 
   const YearInputs in = load_year_inputs(job_source(vm), weather_overrides(vm));
+  report_warnings(in.warnings, vm.count("strict") > 0);
   const annual::Prepared prepared = prepare_year(in);
   const annual::YearResult year = annual::evaluate(in.strategies, prepared);
   report::ReportDocument doc = report_document(in, prepared, year, s);

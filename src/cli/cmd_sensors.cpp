@@ -117,6 +117,7 @@ int run_sensors(const std::vector<std::string>& args) {
 
   // Everything that can be wrong with the input is found before the long work starts.
   const YearInputs in = load_year_inputs(job_source(vm), weather_overrides(vm));
+  report_warnings(in.warnings, common.strict);
   const sensors::SensorSet set = sensors::read_sensors(in.unit.sensors ? &*in.unit.sensors : nullptr,
                                                        in.unit.path, in.unit.units);
   std::optional<sensors::SweepSpec> sweep_spec;

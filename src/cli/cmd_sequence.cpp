@@ -58,10 +58,13 @@ int run_sequence(const std::vector<std::string>& args) {
     year = annual::evaluate(in.strategies, prepare_year(in));
   } else {
     in.unit = load_unit(source);
+    in.warnings = in.unit.warnings;
     in.unit_label =
         source.embedded ? fmt::format("{} (embedded invented demo unit)", source.path) : source.path;
     in.strategies = strategies_or_presets(in.unit);
   }
+
+  report_warnings(in.warnings, common.strict);
 
   std::vector<std::string> names;
   if (vm.count("strategy")) names.push_back(vm["strategy"].as<std::string>());

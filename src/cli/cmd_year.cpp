@@ -119,6 +119,7 @@ int run_year(const std::vector<std::string>& args) {
   }
 
   const YearInputs in = load_year_inputs(source, overrides);
+  report_warnings(in.warnings, common.strict);
   const annual::Prepared prepared = prepare_year(in);
   annual::RunOptions run;
   run.keep_decisions = vm.count("hourly") > 0;

@@ -35,6 +35,7 @@ void add_common_options(po::options_description& options, std::string_view forma
   options.add_options()
       ("units", po::value<std::string>()->default_value("ip"),
        "unit system for output and for bare numbers: ip or si")
+      ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
       ("format", po::value<std::string>()->default_value("text"),
        fmt::format("output format: {}", formats).c_str())
       ("help,h", "show this help");
@@ -67,7 +68,7 @@ bool parse_options(const std::vector<std::string>& args, const po::options_descr
 
 Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed) {
   return {units::parse_system(vm["units"].as<std::string>()),
-          parse_format(vm["format"].as<std::string>(), allowed)};
+          parse_format(vm["format"].as<std::string>(), allowed), vm.count("strict") > 0};
 }
 
 double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
@@ -89,6 +90,22 @@ std::optional<double> site_pressure_option(const po::variables_map& vm, units::S
   } catch (const RangeError& e) {
     throw InputError(fmt::format("--elevation {}: {}", vm["elevation"].as<std::string>(), e.what()));
   }
+}
+
+namespace {
+std::string g_command = "limitline";
+}
+
+void set_command_name(std::string_view name) { g_command = fmt::format("limitline {}", name); }
+
+void report_warnings(const std::vector<std::string>& warnings, bool strict) {
+  if (warnings.empty()) return;
+  if (strict)
+    throw InputError(fmt::format("{} (--strict makes warnings errors{})", warnings.front(),
+                                 warnings.size() > 1
+                                     ? fmt::format("; {} more", warnings.size() - 1)
+                                     : std::string()));
+  for (const auto& w : warnings) std::fprintf(stderr, "%s: warning: %s\n", g_command.c_str(), w.c_str());
 }
 
 void write_out(const std::string& text) {

@@ -57,6 +57,7 @@ void add_common_options(po::options_description& options, std::string_view forma
 struct Common {
   units::System units;
   Format format;
+  bool strict = false;  // --strict: warnings are errors
 };
 Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed);
 
@@ -77,6 +78,12 @@ void write_file(const std::string& path, const std::string& text, std::string_vi
 // The site pressure from --pressure or --elevation (standard pressure, ASHRAE Fundamentals
 // ch. 1 eq. 3); none when neither is given. Both at once is a UsageError.
 std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system);
+
+// Prints each warning to stderr as "limitline COMMAND: warning: ..."; under --strict the
+// first one is an InputError instead (exit 2), before any result is written.
+void report_warnings(const std::vector<std::string>& warnings, bool strict);
+// The command name main() dispatched to, for the prefix of warnings.
+void set_command_name(std::string_view name);
 
 // Writes text to stdout exactly (no added newline); exits with failure if stdout fails.
 void write_out(const std::string& text);

@@ -58,6 +58,7 @@ int main(int argc, char** argv) {
   }
   for (const Command& c : kCommands) {
     if (c.name != all[0]) continue;
+    limitline::cli::set_command_name(c.name);
     try {
       return c.run(std::vector<std::string>(all.begin() + 1, all.end()));
     } catch (const limitline::UsageError& e) {

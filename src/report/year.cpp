@@ -188,6 +188,9 @@ void json_context(Json& j, const YearContext& c) {
   j.end_array();
   j.field("schedule", c.schedule);
   j.field("units", std::string(units::system_name(c.units)));
+  j.key("warnings").begin_array();
+  for (const auto& w : c.warnings) j.value(w);
+  j.end_array();
 }
 
 std::vector<std::string> context_lines(const YearContext& c) {
@@ -197,6 +200,7 @@ std::vector<std::string> context_lines(const YearContext& c) {
   out.push_back(fmt::format("Weather: {}", c.weather_source));
   for (const auto& n : c.weather_notes) out.push_back("  " + n);
   out.push_back(fmt::format("Schedule: {}", c.schedule));
+  for (const auto& w : c.warnings) out.push_back("Warning: " + w);
   return out;
 }
 

@@ -23,6 +23,8 @@ struct YearContext {
   // Energy-code compliance per strategy name, when the site names an edition and zone.
   std::string code_label;  // "ASHRAE 90.1-2019, climate zone 4A"
   std::map<std::string, std::string> compliance;
+  // Implausible inputs and disagreements between inputs, one line each (YearInputs::warnings).
+  std::vector<std::string> warnings;
 };
 
 class Json;
