@@ -1,6 +1,8 @@
 // Energy-code tables: loading and validating data/codes/*.toml, and judging strategies.
 #include <limitline/codes.hpp>
 
+#include <limitline/input_file.hpp>
+
 #include <limitline/error.hpp>
 #include <limitline/psychro.hpp>
 
@@ -475,13 +477,11 @@ void add_document(std::vector<Edition>& editions, const std::string& origin,
   editions.push_back(std::move(e));
 }
 
+// A code table is a few hundred lines; anything near this size is not one.
+constexpr std::uintmax_t kMaxCodeTableBytes = 4u << 20;
+
 std::string read_file(const std::filesystem::path& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw InputError(fmt::format("{}: cannot open the code table", path.string()));
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  if (in.bad()) throw InputError(fmt::format("{}: cannot read the code table", path.string()));
-  return ss.str();
+  return read_input_file(path, "the code table", kMaxCodeTableBytes);
 }
 
 // --- Requirements -------------------------------------------------------------------------

@@ -1,5 +1,7 @@
 #include <limitline/trend.hpp>
 
+#include <limitline/input_file.hpp>
+
 #include <limitline/csv.hpp>
 #include <limitline/error.hpp>
 #include <limitline/unit_file.hpp>
@@ -562,12 +564,11 @@ TrendLog parse_trend(std::string_view text, std::string_view name, const ReadOpt
   return log;
 }
 
+// A year of one-minute samples of a dozen points is about 60 MB.
+constexpr std::uintmax_t kMaxTrendLogBytes = std::uintmax_t{1} << 30;
+
 TrendLog load_trend(const std::string& path, const ReadOptions& options) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw InputError(fmt::format("{}: cannot read the trend log", path));
-  std::ostringstream s;
-  s << in.rdbuf();
-  return parse_trend(s.str(), path, options);
+  return parse_trend(read_input_file(path, "the trend log", kMaxTrendLogBytes), path, options);
 }
 
 }  // namespace limitline::trend

@@ -1,6 +1,8 @@
 // Reading the unit file: strict TOML with one-line errors that name file, line and key.
 #include <limitline/unit_file.hpp>
 
+#include <limitline/input_file.hpp>
+
 #include <limitline/error.hpp>
 #include <limitline/psychro.hpp>
 
@@ -745,12 +747,9 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
 }
 
 UnitFile load_unit_file(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw InputError(fmt::format("{}: cannot open the unit file", path));
-  std::ostringstream text;
-  text << in.rdbuf();
-  if (in.bad()) throw InputError(fmt::format("{}: cannot read the unit file", path));
-  return parse_unit_file(text.str(), path);
+  // A unit file is a page of settings; anything near this size is not one.
+  constexpr std::uintmax_t kMaxUnitFileBytes = 1u << 20;
+  return parse_unit_file(read_input_file(path, "the unit file", kMaxUnitFileBytes), path);
 }
 
 std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit) {

@@ -2,6 +2,8 @@
 // of a CSV file, then validating every row and resolving it to SI moist-air states.
 #include <limitline/weather.hpp>
 
+#include <limitline/input_file.hpp>
+
 #include <limitline/csv.hpp>
 #include <limitline/psychro.hpp>
 #include <limitline/units.hpp>
@@ -1611,16 +1613,10 @@ WeatherSeries read_text(std::string_view text, std::string_view source_name, con
 
 WeatherSeries read_file(const std::filesystem::path& path, const Mapping& mapping,
                         double site_pressure_kpa) {
-  std::error_code ec;
-  if (std::filesystem::is_directory(path, ec))
-    throw InputError(fmt::format("{}: is a folder; allowed: a weather CSV file", path.string()));
-  std::ifstream in(path, std::ios::binary);
-  if (!in)
-    throw InputError(
-        fmt::format("{}: cannot open the weather file ({})", path.string(), std::strerror(errno)));
-  std::ostringstream buffer;
-  buffer << in.rdbuf();
-  return read_text(buffer.str(), path.filename().string(), mapping, site_pressure_kpa);
+  // Ten years of five-minute data is about 60 MB; a larger file is not one site's weather.
+  constexpr std::uintmax_t kMaxWeatherBytes = std::uintmax_t{256} << 20;
+  return read_text(read_input_file(path, "the weather file", kMaxWeatherBytes),
+                   path.filename().string(), mapping, site_pressure_kpa);
 }
 
 // --- The [weather] table -------------------------------------------------------------------

@@ -389,7 +389,7 @@ TEST_CASE("load_unit_file names a file it cannot open") {
     limitline::load_unit_file("/nonexistent/unit.toml");
     FAIL("opened a missing file");
   } catch (const InputError& e) {
-    CHECK(std::string(e.what()) == "/nonexistent/unit.toml: cannot open the unit file");
+    CHECK(std::string(e.what()) == "/nonexistent/unit.toml: cannot open the unit file (No such file or directory)");
   }
 }
 

@@ -292,7 +292,7 @@ TEST_CASE("PVGIS TMY: metadata lines, UTC stamps, legend units, every row") {
 
 TEST_CASE("read_file and read_text: missing, folder and empty inputs") {
   CHECK(error_of([] { wx::read_file(kData, {}, 101.325); }) ==
-        kData + ": is a folder; allowed: a weather CSV file");
+        kData + ": the weather file is a folder; allowed: a file");
   CHECK(read_error("") == "t.csv: the weather file is empty; allowed: a header line and data rows");
   CHECK(read_error("\n \r\n") ==
         "t.csv: the weather file is empty; allowed: a header line and data rows");

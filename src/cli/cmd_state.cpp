@@ -1,6 +1,8 @@
 // limitline state: properties of one moist-air state (or of every row of a CSV file).
 #include "common.hpp"
 
+#include <limitline/input_file.hpp>
+
 #include <limitline/air_point.hpp>
 #include <limitline/psychro.hpp>
 #include <limitline/report/json.hpp>
@@ -79,8 +81,9 @@ int run_state(const std::vector<std::string>& args) {
     if (path == "-") {
       write_state_batch(std::cin, std::cout, bo);
     } else {
+      check_input_file(path, "the --batch file");
       std::ifstream file(path, std::ios::binary);
-      if (!file) throw InputError(fmt::format("--batch: cannot open '{}'", path));
+      if (!file) throw InputError(fmt::format("--batch: cannot open {}", echo(path)));
       write_state_batch(file, std::cout, bo);
     }
     std::cout.flush();

@@ -1,0 +1,22 @@
+#pragma once
+// Reading an input file the user named: refused by what it is (a folder, a device, a missing
+// file, one too large for its purpose) before a byte is parsed, so that `/dev/zero` or a
+// folder never reads as empty or until memory runs out.
+#include <cstdint>
+#include <filesystem>
+#include <string>
+#include <string_view>
+
+namespace limitline {
+
+// The whole content of `path`. `what` names the file in messages ("the weather file"); a
+// regular file larger than `max_bytes`, or a pipe delivering more, is an InputError that says
+// so. Pipes and standard input ("/dev/stdin", process substitution) are read up to the cap;
+// folders, devices, sockets and missing files are refused with what they are.
+[[nodiscard]] std::string read_input_file(const std::filesystem::path& path, std::string_view what,
+                                          std::uintmax_t max_bytes);
+
+// The same checks without reading, for a reader that streams (`state --batch`).
+void check_input_file(const std::filesystem::path& path, std::string_view what);
+
+}  // namespace limitline
