@@ -157,12 +157,14 @@ std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const
 }
 
 std::string audit_markdown(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c) {
-  std::string out = fmt::format("# Economizer trend audit: {}\n\n", log.path);
-  out += fmt::format("Unit file `{}`; strategy **{}** ({}): {}.\n\n", c.unit_path, r.strategy_name,
-                     c.strategy_source, c.strategy_text);
+  // Names and lines from the user's files are escaped, so none reads as markup.
+  const auto md = markdown_escape;
+  std::string out = fmt::format("# Economizer trend audit: {}\n\n", md(log.path));
+  out += fmt::format("Unit file {}; strategy **{}** ({}): {}.\n\n", md(c.unit_path), md(r.strategy_name),
+                     md(c.strategy_source), md(c.strategy_text));
   out += "## Coverage\n\n";
-  for (const auto& l : coverage_lines(r, log)) out += "- " + l + "\n";
-  for (const auto& l : gap_lines(log)) out += "- gap: " + l + "\n";
+  for (const auto& l : coverage_lines(r, log)) out += "- " + md(l) + "\n";
+  for (const auto& l : gap_lines(log)) out += "- gap: " + md(l) + "\n";
   out += "\n## Columns used\n\n" + mapping_table(log).markdown();
   out += "\n## Findings\n\n";
   out += r.findings.empty() ? std::string("None: the log agrees with the strategy and the model.\n")
@@ -170,10 +172,10 @@ std::string audit_markdown(const audit::Result& r, const trend::TrendLog& log, c
   if (!r.switch_points.empty())
     out += "\n## Switching points seen in the log\n\n" + switch_table(r, c.units).markdown();
   out += "\n## Rules\n\n";
-  for (const auto& l : rule_lines(c)) out += "- " + l + "\n";
+  for (const auto& l : rule_lines(c)) out += "- " + md(l) + "\n";
   if (!r.notes.empty()) {
     out += "\n## Notes\n\n";
-    for (const auto& n : r.notes) out += "- " + n + "\n";
+    for (const auto& n : r.notes) out += "- " + md(n) + "\n";
   }
   out += "\n## Cautions\n\n" + cautions_markdown(CautionTopic::audit);
   return out;

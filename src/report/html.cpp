@@ -1,6 +1,7 @@
 #include <limitline/report/html.hpp>
 
 #include <limitline/report/chart.hpp>
+#include <limitline/report/table.hpp>
 
 #include <fmt/format.h>
 
@@ -12,11 +13,16 @@ namespace {
 
 // --- Markdown subset → HTML -----------------------------------------------------------------
 
-// Escaped text with **bold** spans.
+// Escaped text with **bold** spans; a backslash before ASCII punctuation makes it literal
+// (markdown_escape), as in CommonMark.
 std::string inline_html(std::string_view s) {
   std::string out;
   bool strong = false;
   for (std::size_t i = 0; i < s.size(); ++i) {
+    if (s[i] == '\\' && i + 1 < s.size() && std::ispunct(static_cast<unsigned char>(s[i + 1]))) {
+      out += html_escape(s.substr(++i, 1));
+      continue;
+    }
     if (s.compare(i, 2, "**") == 0 && (strong || s.find("**", i + 2) != std::string_view::npos)) {
       out += strong ? "</strong>" : "<strong>";
       strong = !strong;
@@ -35,8 +41,9 @@ std::vector<std::string> table_cells(std::string_view line) {
   std::size_t i = 0;
   if (!line.empty() && line[0] == '|') i = 1;
   for (; i < line.size(); ++i) {
-    if (line[i] == '\\' && i + 1 < line.size() && line[i + 1] == '|') {
-      cell += '|';
+    if (line[i] == '\\' && i + 1 < line.size()) {
+      // An escaped character stays escaped for inline_html; an escaped pipe splits no cell.
+      cell += line.substr(i, 2);
       ++i;
     } else if (line[i] == '|') {
       cells.push_back(cell);
@@ -153,7 +160,7 @@ Block strategies_block(const ReportDocument& doc) {
     const std::string& name = doc.strategy_order[i];
     const auto it = doc.context.strategy_descriptions.find(name);
     const std::string desc = it == doc.context.strategy_descriptions.end() ? "" : it->second;
-    b.md += fmt::format("{}. **{}** — {}\n", i + 1, name, desc);
+    b.md += fmt::format("{}. **{}** — {}\n", i + 1, markdown_escape(name), markdown_escape(desc));
     b.html += fmt::format(
         "<li><span class=\"swatch\" style=\"background:{}\">{}</span><strong>{}</strong> — {}</li>\n",
         strategy_colour(i), i + 1, html_escape(name), html_escape(desc));
@@ -169,7 +176,7 @@ Block unit_block(const MdDoc& y, const ReportDocument& doc) {
   b.md.erase(0, std::min(b.md.find_first_not_of('\n'), b.md.size()));
   while (!b.md.empty() && b.md.back() == '\n') b.md.pop_back();
   b.md += "\n";
-  for (const auto& [k, v] : doc.unit_facts) b.md += fmt::format("- {}: {}\n", k, v);
+  for (const auto& [k, v] : doc.unit_facts) b.md += fmt::format("- {}: {}\n", markdown_escape(k), markdown_escape(v));
   return b;
 }
 
@@ -186,8 +193,8 @@ Block chart_block() {
 
 Block compliance_block(const ComplianceSection& c) {
   Block b{"code", "Energy-code compliance", {}, {}, Figure::none, "compliance"};
-  b.md = fmt::format("Checked against {}.\n\n", c.label);
-  for (const auto& n : c.notes) b.md += "- " + n + "\n";
+  b.md = fmt::format("Checked against {}.\n\n", markdown_escape(c.label));
+  for (const auto& n : c.notes) b.md += "- " + markdown_escape(n) + "\n";
   b.md += "\n| strategy | verdict | reason |\n|:---|:---|:---|\n";
   b.html = fmt::format("<p>Checked against <strong>{}</strong>.</p>\n", html_escape(c.label));
   if (!c.notes.empty()) {
@@ -197,12 +204,8 @@ Block compliance_block(const ComplianceSection& c) {
   }
   b.html += "<ul class=\"verdicts\">\n";
   for (const auto& l : c.lines) {
-    auto cell = [](std::string s) {
-      std::string o;
-      for (char ch : s) o += ch == '|' ? std::string("\\|") : std::string(1, ch);
-      return o;
-    };
-    b.md += fmt::format("| {} | {} | {} |\n", cell(l.strategy), cell(l.verdict), cell(l.explanation));
+    b.md += fmt::format("| {} | {} | {} |\n", markdown_escape(l.strategy), markdown_escape(l.verdict),
+                        markdown_escape(l.explanation));
     b.html += fmt::format("<li><span class=\"verdict {}\">{}</span> <strong>{}</strong>: {}</li>\n", slug(l.verdict),
                           html_escape(l.verdict), html_escape(l.strategy), html_escape(l.explanation));
   }
@@ -447,7 +450,8 @@ std::string report_markdown(const annual::YearResult& year, const ReportDocument
                             std::string_view monthly_file) {
   std::string intro;
   const auto bs = blocks(year, doc, intro);
-  std::string out = fmt::format("# Economizer high-limit study — {}\n\n{}\n", doc.context.title, intro);
+  std::string out = fmt::format("# Economizer high-limit study — {}\n\n{}\n", markdown_escape(doc.context.title),
+                                markdown_escape(intro));
   for (const auto& b : bs) {
     out += fmt::format("\n## {}\n\n", b.heading);
     if (b.figure == Figure::monthly) out += fmt::format("![Economizing hours by month]({})\n\n", monthly_file);

@@ -11,6 +11,21 @@ std::size_t display_width(const std::string& s) {
   return n;
 }
 
+std::string markdown_escape(std::string_view s) {
+  constexpr std::string_view kMarkup = "\\`*_[]<&|";
+  std::string out;
+  out.reserve(s.size());
+  for (char c : s) {
+    if (static_cast<unsigned char>(c) < 0x20 || c == 0x7f) {
+      out += ' ';
+      continue;
+    }
+    if (kMarkup.find(c) != std::string_view::npos) out += '\\';
+    out += c;
+  }
+  return out;
+}
+
 std::string csv_field(const std::string& s) {
   if (s.find_first_of(",\"\r\n") == std::string::npos) return s;
   std::string out = "\"";
@@ -74,14 +89,7 @@ std::string Table::csv() const {
 }
 
 std::string Table::markdown() const {
-  auto escape = [](const std::string& s) {
-    std::string o;
-    for (char ch : s) {
-      if (ch == '|') o += '\\';
-      o += ch;
-    }
-    return o;
-  };
+  const auto escape = markdown_escape;
   std::string out = "|";
   for (const auto& col : columns_) out += " " + escape(col.title) + " |";
   out += "\n|";

@@ -237,13 +237,15 @@ std::string year_text(const annual::YearResult& y, const YearContext& c) {
 }
 
 std::string year_markdown(const annual::YearResult& y, const YearContext& c) {
-  std::string out = fmt::format("# Annual economizer high-limit evaluation — {}\n\n", c.title);
-  for (const auto& l : header_lines(y, c)) out += (l.starts_with("  ") ? "  - " + l.substr(2) : "- " + l) + "\n";
+  // Every line below carries names from the user's files: escaped, so none reads as markup.
+  std::string out = fmt::format("# Annual economizer high-limit evaluation — {}\n\n", markdown_escape(c.title));
+  for (const auto& l : header_lines(y, c))
+    out += (l.starts_with("  ") ? "  - " + markdown_escape(l.substr(2)) : "- " + markdown_escape(l)) + "\n";
   out += fmt::format("\n## Strategies ranked by shortfall against the perfect changeover ({})\n\n",
                      energy_unit(c.units));
   out += ranked_table(y, c).markdown();
   out += "\n## Findings\n\n";
-  for (const auto& f : findings(y, c)) out += "- " + f + "\n";
+  for (const auto& f : findings(y, c)) out += "- " + markdown_escape(f) + "\n";
   out += "\n## Economizing hours by month\n\n";
   out += monthly_table(y, &annual::Totals::hours_economizing, false, c.units).markdown();
   out += "\n## Harmful hours by month\n\n";

@@ -51,8 +51,8 @@ std::string report_markdown(const annual::YearResult& year, const ReportDocument
                             std::string_view chart_file, std::string_view monthly_file);
 
 // The Markdown the report formatters write (headings, "- " lists with one level of nesting,
-// "1. " lists, pipe tables with alignment rows, paragraphs, **bold**) as an HTML fragment with
-// every character of text escaped.
+// "1. " lists, pipe tables with alignment rows, paragraphs, **bold**, backslash escapes) as an
+// HTML fragment with every character of text escaped.
 std::string markdown_to_html(std::string_view markdown);
 
 // Text escaped for HTML and XML (& < > " ').

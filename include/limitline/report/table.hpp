@@ -1,6 +1,7 @@
 #pragma once
 // A table of already-formatted cells, rendered as aligned text, CSV or Markdown.
 #include <string>
+#include <string_view>
 #include <vector>
 
 namespace limitline::report {
@@ -31,6 +32,12 @@ class Table {
   std::vector<Column> columns_;
   std::vector<std::vector<std::string>> rows_;  // an empty row is a rule
 };
+
+// Text from the user (a site, unit, strategy or file name) as literal Markdown: the
+// characters Markdown or the HTML inside it would read as markup (< & | * _ ` [ ] \)
+// are backslash-escaped, and line breaks and other control characters become spaces, so a
+// name can neither inject raw HTML nor break a table or a list.
+std::string markdown_escape(std::string_view text);
 
 // Quotes a CSV field when it holds a comma, quote or line break (RFC 4180).
 std::string csv_field(const std::string& s);
