@@ -32,15 +32,41 @@ constexpr HumidityColumn kHumidityColumns[] = {
     {"enthalpy", HumidityInput::enthalpy},
 };
 
+// The next line without its end, which may be "\n", "\r\n" or a lone "\r" (old Mac
+// exports), as the other readers take them; false at the end of the input.
+bool next_line(std::istream& in, std::string& line) {
+  line.clear();
+  std::streambuf* sb = in.rdbuf();
+  for (;;) {
+    const auto c = sb->sbumpc();
+    if (c == std::char_traits<char>::eof()) {
+      in.setstate(std::ios::eofbit);
+      return !line.empty();
+    }
+    if (c == '\n') return true;
+    if (c == '\r') {
+      if (sb->sgetc() == '\n') sb->sbumpc();
+      return true;
+    }
+    line.push_back(static_cast<char>(c));
+  }
+}
+
+void write_chunk(std::ostream& out, std::string& buffer) {
+  out.write(buffer.data(), static_cast<std::streamsize>(buffer.size()));
+  buffer.clear();
+  if (!out) throw InputError("cannot write the batch output");
+}
+
 }  // namespace
 
 std::size_t write_state_batch(std::istream& in, std::ostream& out,
                               const StateBatchOptions& opt) {
   std::string line;
   std::size_t line_no = 0;
-  // Header: the first non-blank line.
-  while (std::getline(in, line)) {
-    ++line_no;
+  // Header: the first non-blank line, after a UTF-8 byte-order mark if the file starts with one.
+  while (next_line(in, line)) {
+    if (++line_no == 1 && line.starts_with("\xEF\xBB\xBF")) line.erase(0, 3);
     if (line.find_first_not_of(" \t\r") != std::string::npos) break;
   }
   if (line_no == 0 || line.find_first_not_of(" \t\r") == std::string::npos)
@@ -87,51 +113,56 @@ std::size_t write_state_batch(std::istream& in, std::ostream& out,
   buffer += '\n';
 
   std::size_t rows = 0;
-  while (std::getline(in, line)) {
-    ++line_no;
-    if (line.find_first_not_of(" \t\r") == std::string::npos) continue;
-    const auto cells = csv::split_line(line, delim);
-    if (cells.size() != header.size())
-      throw InputError(fmt::format("{}:{}: {} fields where the header has {}", opt.origin,
-                                   line_no, cells.size(), header.size()));
-    // The place is spelled out only when a cell is bad: formatting it for every cell of
-    // every row cost more than the psychrometrics.
-    auto cell = [&](Kind kind, std::size_t col) {
+  // Every good row before a bad one is written out before its error: nothing computed is lost.
+  try {
+    while (next_line(in, line)) {
+      ++line_no;
+      if (line.find_first_not_of(" \t\r") == std::string::npos) continue;
+      const auto cells = csv::split_line(line, delim);
+      if (cells.size() != header.size())
+        throw InputError(fmt::format("{}:{}: {} fields where the header has {}", opt.origin,
+                                     line_no, cells.size(), header.size()));
+      // The place is spelled out only when a cell is bad: formatting it for every cell of
+      // every row cost more than the psychrometrics.
+      auto cell = [&](Kind kind, std::size_t col) {
+        try {
+          return units::parse(kind, cells[col], opt.system, {});
+        } catch (const InputError&) {
+          return units::parse(kind, cells[col], opt.system,
+                              fmt::format("{}:{} column {}", opt.origin, line_no, header[col]));
+        }
+      };
       try {
-        return units::parse(kind, cells[col], opt.system, {});
-      } catch (const InputError&) {
-        return units::parse(kind, cells[col], opt.system,
-                            fmt::format("{}:{} column {}", opt.origin, line_no, header[col]));
+        const double t = cell(Kind::temperature, *dry_bulb);
+        double p = opt.default_pressure_kpa;
+        if (pressure) p = cell(Kind::pressure, *pressure);
+        if (elevation) p = psychro::standard_pressure_kpa(cell(Kind::length, *elevation));
+        const double h = cell(humidity_input_kind(humidity_kind->input), *humidity);
+        const auto props = psychro::properties(psychro::state_from(t, humidity_kind->input, h, p));
+        for (std::size_t i = 0; i < fields.size(); ++i) {
+          if (i) buffer += ',';
+          // Same text as printf's %.8g, at about half the cost of fmt's precision path.
+          char text[32];
+          const auto r = std::to_chars(text, text + sizeof text,
+                                       report::property_value(fields[i], props, opt.system),
+                                       std::chars_format::general, 8);
+          buffer.append(text, r.ptr);
+        }
+        buffer += '\n';
+      } catch (const RangeError& e) {
+        throw InputError(fmt::format("{}:{}: {}", opt.origin, line_no, e.what()));
       }
-    };
-    try {
-      const double t = cell(Kind::temperature, *dry_bulb);
-      double p = opt.default_pressure_kpa;
-      if (pressure) p = cell(Kind::pressure, *pressure);
-      if (elevation) p = psychro::standard_pressure_kpa(cell(Kind::length, *elevation));
-      const double h = cell(humidity_input_kind(humidity_kind->input), *humidity);
-      const auto props = psychro::properties(psychro::state_from(t, humidity_kind->input, h, p));
-      for (std::size_t i = 0; i < fields.size(); ++i) {
-        if (i) buffer += ',';
-        // Same text as printf's %.8g, at about half the cost of fmt's precision path.
-        char text[32];
-        const auto r = std::to_chars(text, text + sizeof text,
-                                     report::property_value(fields[i], props, opt.system),
-                                     std::chars_format::general, 8);
-        buffer.append(text, r.ptr);
-      }
-      buffer += '\n';
-    } catch (const RangeError& e) {
-      throw InputError(fmt::format("{}:{}: {}", opt.origin, line_no, e.what()));
+      ++rows;
+      if (buffer.size() > (1u << 16)) write_chunk(out, buffer);
     }
-    ++rows;
-    if (buffer.size() > (1u << 16)) {
-      out.write(buffer.data(), static_cast<std::streamsize>(buffer.size()));
-      buffer.clear();
-    }
+  } catch (const InputError&) {
+    out.write(buffer.data(), static_cast<std::streamsize>(buffer.size()));
+    out.flush();
+    throw;
   }
-  out.write(buffer.data(), static_cast<std::streamsize>(buffer.size()));
-  if (!out) throw std::runtime_error("cannot write the batch output");
+  write_chunk(out, buffer);
+  out.flush();
+  if (!out) throw InputError("cannot write the batch output");
   return rows;
 }
 

@@ -81,6 +81,21 @@ void check_one_line_error(const limitline::test::CliRun& r, int rc) {
   CHECK(r.err.find('\n') == r.err.size() - 1);
 }
 
+// A batch stopped by a bad row: the header and every good row before it on stdout, then the
+// one-line error with exit 2.
+void check_rows_then_error(const limitline::test::CliRun& r, std::size_t good_rows) {
+  INFO("stderr: ", r.err);
+  CHECK(r.rc == 2);
+  const auto out = lines(r.out);
+  REQUIRE(out.size() == good_rows + 1);
+  CHECK(out[0] == "dry_bulb_f,wet_bulb_f,dew_point_f,relative_humidity,humidity_ratio,enthalpy_btu_per_lb,"
+                  "specific_volume_ft3_per_lb,density_lb_per_ft3,vapor_pressure_psia,pressure_psia,"
+                  "saturation_humidity_ratio,degree_of_saturation");
+  CHECK(r.out.back() == '\n');
+  REQUIRE(!r.err.empty());
+  CHECK(r.err.find('\n') == r.err.size() - 1);
+}
+
 }  // namespace
 
 TEST_CASE("text output lists every property with its unit") {
@@ -245,7 +260,7 @@ TEST_CASE("batch errors name the file and line; exit code 2") {
   SUBCASE("impossible state in a row") {
     const auto file = write_file("rh.csv", "dry_bulb,rh\n75,50\n80,120\n");
     const auto r = state({"--batch", file});
-    check_one_line_error(r, 2);
+    check_rows_then_error(r, 1);
     CHECK(contains(r.err, file + ":3"));
     CHECK(contains(r.err, "120 %"));
     CHECK(contains(r.err, "0 % to 100 %"));
@@ -253,21 +268,21 @@ TEST_CASE("batch errors name the file and line; exit code 2") {
   SUBCASE("a cell that is not a number") {
     const auto file = write_file("cell.csv", "dry_bulb,rh\n75,50\n80,humid\n");
     const auto r = state({"--batch", file});
-    check_one_line_error(r, 2);
+    check_rows_then_error(r, 1);
     CHECK(contains(r.err, file + ":3 column rh"));
     CHECK(contains(r.err, "'humid'"));
   }
   SUBCASE("dew point above dry-bulb") {
     const auto file = write_file("dew.csv", "dry_bulb,dew_point\n70,50\n60,65\n");
     const auto r = state({"--batch", file});
-    check_one_line_error(r, 2);
+    check_rows_then_error(r, 1);
     CHECK(contains(r.err, file + ":3"));
     CHECK(contains(r.err, "above dry-bulb"));
   }
   SUBCASE("a row with the wrong number of fields") {
     const auto file = write_file("fields.csv", "dry_bulb,rh\n75,50,1\n");
     const auto r = state({"--batch", file});
-    check_one_line_error(r, 2);
+    check_rows_then_error(r, 0);
     CHECK(contains(r.err, file + ":2"));
     CHECK(contains(r.err, "3 fields"));
   }
@@ -371,4 +386,31 @@ TEST_CASE("help exits 0 and shows the options") {
                         "--enthalpy", "--elevation", "--pressure", "--batch", "--units",
                         "--format"})
     CHECK_MESSAGE(contains(r.out, o), o);
+}
+
+TEST_CASE("batch mode keeps every good row before a bad one: 4,999 rows, then the error") {
+  std::string text = "dry_bulb,rh\n";
+  for (int i = 0; i < 4999; ++i) text += std::to_string(60 + i % 30) + ",50\n";
+  text += "80,150\n75,50\n";
+  const auto file = write_file("late-bad.csv", text);
+  const auto r = state({"--batch", file});
+  check_rows_then_error(r, 4999);
+  CHECK(contains(r.err, file + ":5001"));
+}
+
+TEST_CASE("batch mode reads a UTF-8 byte-order mark and CR-only line endings like the other readers") {
+  const auto plain = state({"--batch", write_file("plain.csv", "dry_bulb,rh\n75,50\n60,80\n")});
+  REQUIRE(plain.rc == 0);
+  const auto bom = state({"--batch", write_file("bom.csv", "\xEF\xBB\xBF" "dry_bulb,rh\n75,50\n60,80\n")});
+  CHECK(bom.rc == 0);
+  CHECK(bom.out == plain.out);
+  const auto cr = state({"--batch", write_file("cr.csv", "dry_bulb,rh\r75,50\r60,80\r")});
+  CHECK(cr.rc == 0);
+  CHECK(cr.out == plain.out);
+  const auto crlf = state({"--batch", write_file("crlf.csv", "\xEF\xBB\xBF" "dry_bulb,rh\r\n75,50\r\n60,80")});
+  CHECK(crlf.rc == 0);
+  CHECK(crlf.out == plain.out);
+  const auto cr_bad = state({"--batch", write_file("cr-bad.csv", "dry_bulb,rh\r75,50\r60,180\r")});
+  check_rows_then_error(cr_bad, 1);
+  CHECK(contains(cr_bad.err, "cr-bad.csv:3"));
 }
