@@ -188,25 +188,32 @@ namespace limitline {
 
 std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string& dir,
                                       const WeatherOverrides& overrides, unsigned threads,
-                                      void (*progress)(std::size_t, std::size_t)) {
+                                      void (*progress)(std::size_t, std::size_t),
+                                      const std::atomic<bool>* cancel) {
   std::error_code ec;
   if (!fs::is_directory(dir, ec))
-    throw InputError(fmt::format("--batch: '{}' is not a folder", dir));
+    throw InputError(fmt::format("--batch: {} is not a folder", echo(dir)));
   std::vector<std::string> files;
-  for (const auto& e : fs::directory_iterator(dir)) {
-    std::string ext = e.path().extension().string();
+  fs::directory_iterator it(dir, ec);
+  // Every entry named *.csv is a site, whatever it is: the weather reader names what is
+  // wrong with a folder, a device or a dangling link, so none is skipped without a word.
+  for (; !ec && it != fs::directory_iterator(); it.increment(ec)) {
+    std::string ext = it->path().extension().string();
     std::transform(ext.begin(), ext.end(), ext.begin(), [](unsigned char c) { return std::tolower(c); });
-    if (e.is_regular_file() && ext == ".csv") files.push_back(e.path().string());
+    if (ext == ".csv") files.push_back(it->path().string());
   }
+  if (ec) throw InputError(fmt::format("--batch: cannot list {}: {}", echo(dir), ec.message()));
   std::sort(files.begin(), files.end());
-  if (files.empty()) throw InputError(fmt::format("--batch: no .csv files in '{}'", dir));
+  if (files.empty()) throw InputError(fmt::format("--batch: no .csv files in {}", echo(dir)));
 
   std::vector<BatchSite> sites(files.size());
+  for (std::size_t i = 0; i < files.size(); ++i) sites[i].weather_path = files[i];
   std::atomic<std::size_t> next{0}, done{0};
   auto worker = [&] {
     for (std::size_t i; (i = next.fetch_add(1)) < files.size();) {
       BatchSite& s = sites[i];
-      s.weather_path = files[i];
+      if (cancel && cancel->load()) continue;
+      s.run = true;
       try {
         const YearInputs in = with_weather(base, files[i], overrides);
         const annual::Prepared p = prepare_year(in);

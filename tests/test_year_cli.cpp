@@ -3,7 +3,14 @@
 // tests/data/SOURCES.md). The unit files are invented scenarios of the test.
 #include "support/cli.hpp"
 
+#include <fcntl.h>
+#include <signal.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include <algorithm>
 #include <fstream>
+#include <sstream>
 
 using limitline::test::contains;
 using limitline::test::run_cli;
@@ -137,4 +144,88 @@ TEST_CASE("bad input gets one line naming the problem and exit code 2") {
                            "year_cli");
     CHECK(r.rc == 1);
   }
+}
+
+namespace {
+
+// A batch folder of its own for each test: its entries are the sites.
+std::filesystem::path batch_dir(const std::string& name) {
+  const auto dir = scratch_dir("year_cli") / name;
+  std::filesystem::remove_all(dir);
+  std::filesystem::create_directories(dir);
+  return dir;
+}
+
+std::size_t count(const std::string& s, char c) { return static_cast<std::size_t>(std::count(s.begin(), s.end(), c)); }
+
+}  // namespace
+
+TEST_CASE("--batch lists a folder named x.csv and a dangling link as failing sites, keeping the others") {
+  const auto unit = write_unit("batch-odd.toml");
+  const auto dir = batch_dir("odd-sites");
+  std::filesystem::copy_file(data("greensboro-nc-tmy3.csv"), dir / "a-greensboro.csv");
+  std::filesystem::create_directory(dir / "b-folder.csv");
+  std::filesystem::create_symlink("no-such-weather.csv", dir / "c-dangling.csv");
+  SUBCASE("text: every failing site with its reason, after the good ones") {
+    const auto r = run_cli({"year", unit.string(), "--batch", dir.string()}, "year_cli");
+    CHECK(r.rc == 2);
+    CHECK(contains(r.out, "a-greensboro.csv"));
+    CHECK(contains(r.out, "Sites that could not be evaluated"));
+    CHECK(contains(r.out, "b-folder.csv"));
+    CHECK(contains(r.out, "is a folder"));
+    CHECK(contains(r.out, "c-dangling.csv"));
+    CHECK(contains(r.out, "link to a file that does not exist"));
+  }
+  SUBCASE("csv: data only on stdout, the errors on stderr") {
+    const auto r = run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "csv"}, "year_cli");
+    CHECK(r.rc == 2);
+    std::istringstream lines(r.out);
+    std::size_t rows = 0;
+    for (std::string line; std::getline(lines, line); ++rows) {
+      CAPTURE(line);
+      CHECK(count(line, ',') == 6);  // seven columns on every line: no prose
+    }
+    CHECK(rows == 2);  // the header and the one good site
+    CHECK(contains(r.out, "a-greensboro.csv"));
+    CHECK_FALSE(contains(r.out, "b-folder.csv"));
+    CHECK(contains(r.err, "b-folder.csv"));
+    CHECK(contains(r.err, "is a folder"));
+    CHECK(contains(r.err, "c-dangling.csv"));
+  }
+  SUBCASE("json: each site with its status, errors as data") {
+    const auto r = run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "json"}, "year_cli");
+    CHECK(r.rc == 2);
+    CHECK(r.out.front() == '{');
+    CHECK(contains(r.out, "\"status\": \"ok\""));
+    CHECK(contains(r.out, "\"status\": \"failed\""));
+    CHECK(contains(r.out, "\"error\": "));
+    CHECK(contains(r.out, "\"partial\": false"));
+    CHECK(contains(r.out, "\"best\": "));
+    CHECK(contains(r.err, "2 of 3 sites could not be evaluated"));
+  }
+}
+
+TEST_CASE("--batch on Ctrl-C reports the finished sites marked partial (exit 130)") {
+  // The second site is a named pipe: when the command opens it the first site is done, and it
+  // waits there for the interrupt.
+  const auto unit = write_unit("batch-interrupt.toml");
+  const auto dir = batch_dir("interrupted-sites");
+  std::filesystem::copy_file(data("greensboro-nc-tmy3.csv"), dir / "a-greensboro.csv");
+  REQUIRE(::mkfifo((dir / "b-pipe.csv").c_str(), 0600) == 0);
+  std::filesystem::copy_file(data("pvgis-tmy-45n-8e.csv"), dir / "c-piedmont.csv");
+  const auto out = scratch_dir("year_cli") / "interrupted.out", err = scratch_dir("year_cli") / "interrupted.err";
+  const pid_t pid = limitline::test::spawn_cli(
+      {"year", unit.string(), "--batch", dir.string(), "--threads", "1", "--format", "csv"}, out.string(), err.string());
+  const int w = ::open((dir / "b-pipe.csv").c_str(), O_WRONLY);
+  REQUIRE(w >= 0);
+  kill(pid, SIGINT);
+  ::close(w);  // the pipe site reads as empty and fails; no site starts after it
+  CHECK(limitline::test::wait_cli(pid) == 130);
+  const std::string csv = slurp(out), messages = slurp(err);
+  CHECK(contains(csv, "a-greensboro.csv"));
+  CHECK_FALSE(contains(csv, "c-piedmont.csv"));
+  CHECK_FALSE(contains(csv, "PARTIAL"));  // CSV is data only
+  CHECK(contains(messages, "PARTIAL RESULTS: interrupted; 2 of 3 sites evaluated"));
+  CHECK(contains(messages, "b-pipe.csv"));
+  CHECK(contains(messages, "interrupted; partial results written"));
 }

@@ -8,6 +8,7 @@
 #include <limitline/unit_file.hpp>
 #include <limitline/weather.hpp>
 
+#include <atomic>
 #include <optional>
 #include <string>
 #include <vector>
@@ -82,17 +83,21 @@ namespace limitline {
 // One site of a batch run: its result, or the one-line error that stopped it.
 struct BatchSite {
   std::string weather_path;
+  bool run = false;  // false: the batch was cancelled before this site started
   bool ok = false;
   std::string error;
   double operating_hours = 0;
   annual::YearResult result;
 };
 
-// Every *.csv file of `dir` (sorted by name) evaluated with the unit of `base`, on `threads`
-// threads (0: all cores). Results are in file order whatever the thread count. `progress` is
-// called after each site with (done, total), from the worker threads.
+// Every *.csv entry of `dir` (sorted by name) evaluated with the unit of `base`, on `threads`
+// threads (0: all cores). Results are in file order whatever the thread count. An entry that
+// is no readable weather file (a folder named x.csv, a dangling link) is a failing site with
+// its reason. `progress` is called after each site with (done, total), from the worker
+// threads. When `*cancel` turns true no further site starts; the sites under way finish.
 std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string& dir,
                                       const WeatherOverrides& overrides, unsigned threads,
-                                      void (*progress)(std::size_t, std::size_t) = nullptr);
+                                      void (*progress)(std::size_t, std::size_t) = nullptr,
+                                      const std::atomic<bool>* cancel = nullptr);
 
 }  // namespace limitline

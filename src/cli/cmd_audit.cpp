@@ -103,8 +103,9 @@ int run_audit(const std::vector<std::string>& args) {
 
   const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
   report_warnings(unit.warnings, common.strict);
+  const units::System system = common.units.resolve(unit);
   trend::ReadOptions read;
-  read.bare = common.units;
+  read.bare = system;
   if (vm.count("column"))
     for (const auto& c : vm["column"].as<std::vector<std::string>>())
       read.columns.push_back(trend::parse_column_override(c, "--column"));
@@ -121,16 +122,18 @@ int run_audit(const std::vector<std::string>& args) {
                             std::pair{"return-accuracy", &opt.accuracy.return_k},
                             std::pair{"mixed-accuracy", &opt.accuracy.mixed_k}}) {
     if (!vm.count(name)) continue;
-    const double a = quantity(vm, name, units::Kind::temperature_difference, common.units);
+    const double a = quantity(vm, name, units::Kind::temperature_difference, system);
     if (!(a > 0) || a > 5.0)
-      throw InputError(fmt::format("--{}: {} is outside (0, 5] K (9 °F)", name, vm[name].as<std::string>()));
+      throw InputError(fmt::format("--{}: {} is outside the allowed range (more than 0 to {})", name,
+                                   echo(vm[name].as<std::string>()),
+                                   units::format(units::Kind::temperature_difference, system, 5.0, 1)));
     *slot = a;
   }
   const trend::TrendLog log = trend::load_trend(vm["trend"].as<std::string>(), read);
   const audit::Result r = audit::run(unit, log, opt);
 
-  report::AuditContext ctx{unit.path, report::describe_strategy(opt.strategy, common.units), source,
-                           opt.accuracy, common.units};
+  report::AuditContext ctx{unit.path, report::describe_strategy(opt.strategy, system), source,
+                           opt.accuracy, system};
   switch (common.format) {
     case Format::json: write_out(report::audit_json(r, log, ctx)); break;
     case Format::md: write_out(report::audit_markdown(r, log, ctx)); break;

@@ -42,21 +42,23 @@ int run_chart(const std::vector<std::string>& args) {
        "draw only this strategy of the unit file (repeatable; default: all)")
       ("outdoor", po::value<std::string>(), "one outdoor state to check, e.g. 68F/80%")
       ("return", po::value<std::string>(), "its return air (default: the unit file's), e.g. 75F/50%")
-      ("units", po::value<std::string>()->default_value("ip"), "unit system of the chart and of bare numbers: ip or si")
       ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
       ("help,h", "show this help");
+  add_units_option(options);
   po::variables_map vm;
   if (!parse_options(args, options, pos, "limitline chart [UNIT.toml] [options] -o chart.svg", kDetails, vm)) return 0;
-  const units::System s = units::parse_system(vm["units"].as<std::string>());
+  const UnitsChoice units_choice(vm);
   if (vm.count("return") && !vm.count("outdoor")) throw UsageError("--return needs --outdoor");
   const UnitSource source = job_source(vm);
   const std::vector<std::string> names =
       vm.count("strategy") ? vm["strategy"].as<std::vector<std::string>>() : std::vector<std::string>{};
 
   report::ChartInput chart;
+  std::vector<std::filesystem::path> inputs = job_input_files(vm, {});
   if (vm.count("outdoor")) {
     const UnitFile unit = load_unit(source);
     if (!vm.count("weather")) report_warnings(unit.warnings, vm.count("strict") > 0);
+    const units::System s = units_choice.resolve(unit);
     const auto all = strategies_or_presets(unit);
     const auto chosen = select_strategies(all, names, "--strategy", unit.path);
     const AirPoint outdoor = parse_air_point(vm["outdoor"].as<std::string>(), s, "--outdoor");
@@ -68,14 +70,19 @@ int run_chart(const std::vector<std::string>& args) {
       const YearInputs in = load_year_inputs(source, weather_overrides(vm));
       report_warnings(in.warnings, vm.count("strict") > 0);
       add_climate(chart, prepare_year(in, false), in.weather_label);
+      inputs = job_input_files(vm, in.weather_label);
     }
   } else {
     const YearInputs in = load_year_inputs(source, weather_overrides(vm));
     report_warnings(in.warnings, vm.count("strict") > 0);
+    const units::System s = units_choice.resolve(in.unit);
+    inputs = job_input_files(vm, in.weather_label);
     chart = chart_input(in.unit, select_strategies(in.strategies, names, "--strategy", in.unit_label), s);
     add_climate(chart, prepare_year(in, false), in.weather_label);
   }
-  write_file(vm["output"].as<std::string>(), report::psychrometric_chart_svg(chart), "--output");
+  const std::string output = vm["output"].as<std::string>();
+  refuse_input_as_output(output, "--output", inputs);
+  write_file(output, report::psychrometric_chart_svg(chart), "--output");
   return 0;
 }
 

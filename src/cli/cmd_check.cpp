@@ -26,8 +26,9 @@ constexpr std::string_view kDetails =
     "are a dry-bulb with one humidity form:\n"
     "  68F/80%  (relative humidity)   68F/dp58F  (dew point)   68F/wb62F  (wet-bulb)\n"
     "  68F/w0.011  (humidity ratio)   68F/h30btu/lb  (enthalpy)\n"
-    "Bare numbers are read in the --units system. Without --return the unit file's return air\n"
-    "is used. States are computed at the site design pressure of the unit file.\n\n"
+    "Bare numbers are read in the --units system, which is the unit file's units unless\n"
+    "--units is given. Without --return the unit file's return air is used. States are\n"
+    "computed at the site design pressure of the unit file.\n\n"
     "Each strategy of the file (every preset at its defaults when the file has none) is\n"
     "evaluated from an untripped state, so deadbands do not hold anything at a single point.\n"
     "Verdicts compare the strategy's decision with the perfect changeover (whichever of\n"
@@ -157,7 +158,7 @@ std::string summary_lines(const Inputs& in, const PointCheck& pc, const View& vi
   };
   std::string out;
   for (const auto& [k, v] : lines)
-    out += markdown ? fmt::format("- **{}:** {}\n", k, v) : fmt::format("{:<12} {}\n", k, v);
+    out += markdown ? fmt::format("- **{}:** {}\n", k, report::markdown_escape(v)) : fmt::format("{:<12} {}\n", k, v);
   return out;
 }
 
@@ -543,9 +544,10 @@ int run_check(const std::vector<std::string>& args) {
 
   const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
   report_warnings(unit.warnings, common.strict);
+  const units::System system = common.units.resolve(unit);
   const double p = unit.site.design_pressure_kpa();
   const std::string outdoor_text = vm["outdoor"].as<std::string>();
-  const AirPoint outdoor_point = parse_air_point(outdoor_text, common.units, "--outdoor");
+  const AirPoint outdoor_point = parse_air_point(outdoor_text, system, "--outdoor");
   const psychro::MoistAir outdoor =
       outdoor_point.state(p, fmt::format("--outdoor {}", outdoor_text));
   outdoor_point.properties(p, fmt::format("--outdoor {}", outdoor_text));
@@ -554,7 +556,7 @@ int run_check(const std::vector<std::string>& args) {
   std::string return_source = "unit file";
   if (vm.count("return")) {
     const std::string return_text = vm["return"].as<std::string>();
-    const AirPoint point = parse_air_point(return_text, common.units, "--return");
+    const AirPoint point = parse_air_point(return_text, system, "--return");
     ret = point.state(p, fmt::format("--return {}", return_text));
     point.properties(p, fmt::format("--return {}", return_text));
     return_source = "--return";
@@ -562,7 +564,7 @@ int run_check(const std::vector<std::string>& args) {
 
   const std::vector<highlimit::Strategy> strategies = strategies_or_presets(unit);
   const PointCheck pc = check_point(unit.air_handler, unit.weights, strategies, outdoor, ret);
-  const View view{common.units};
+  const View view{system};
   const Inputs in{unit, "--outdoor", return_source};
   if (common.format == Format::json)
     write_out(json_report(in, pc, view));

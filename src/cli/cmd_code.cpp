@@ -157,7 +157,7 @@ std::string facts(Format f, const std::vector<std::pair<std::string, std::string
   std::size_t width = 0;
   for (const auto& [k, v] : items) width = std::max(width, k.size());
   for (const auto& [k, v] : items)
-    out += f == Format::md ? fmt::format("- **{}**: {}\n", k, v)
+    out += f == Format::md ? fmt::format("- **{}**: {}\n", k, report::markdown_escape(v))
                            : fmt::format("{:<{}}  {}\n", k, width, v);
   return out;
 }
@@ -438,7 +438,7 @@ std::string unit_report(const UnitVerdicts& u, System s, Format f) {
     if (!c.instead.empty())
       detail += fmt::format("{}use instead: {}\n", indent, instead_text(c, s));
   }
-  std::string out = f == Format::md ? fmt::format("# Economizer high-limit compliance: {}\n\n", u.unit_path)
+  std::string out = f == Format::md ? fmt::format("# Economizer high-limit compliance: {}\n\n", report::markdown_escape(u.unit_path))
                                     : "limitline code — high-limit compliance of a unit\n\n";
   out += facts(f, {{"Unit", u.unit_path},
                    {"Energy code", fmt::format("{} ({}; from {})", e.id, e.title, u.edition_from)},
@@ -662,7 +662,6 @@ int run_code(const std::vector<std::string>& args) {
                      details(), vm))
     return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::md});
-  const System s = common.units;
   const bool all = vm["all-editions"].as<bool>(), list = vm["list-editions"].as<bool>();
   const bool unit = vm.count("unit") > 0;
   if (static_cast<int>(all) + static_cast<int>(list) + static_cast<int>(unit) > 1)
@@ -682,6 +681,14 @@ int run_code(const std::vector<std::string>& args) {
   if (vm.count("code-table"))
     for (const auto& f : vm["code-table"].as<std::vector<std::string>>()) extra.emplace_back(f);
   const codes::CodeTables tables = codes::CodeTables::load_installed(extra);
+  // The unit file, when given, is read first: its units set the display and the reading of
+  // bare numbers such as --elevation 1500 unless --units is given.
+  std::optional<UnitFile> unit_file;
+  if (unit) {
+    unit_file = load_unit_file(vm["unit"].as<std::string>());
+    report_warnings(unit_file->warnings, common.strict);
+  }
+  const System s = unit_file ? common.units.resolve(*unit_file) : common.units.resolve();
   std::optional<double> pressure = site_pressure_option(vm, s);
 
   if (list) {
@@ -699,8 +706,7 @@ int run_code(const std::vector<std::string>& args) {
     return 0;
   }
 
-  const UnitFile file = load_unit_file(vm["unit"].as<std::string>());
-  report_warnings(file.warnings, common.strict);
+  const UnitFile& file = *unit_file;
   UnitVerdicts u;
   u.unit_path = file.path;
   std::string edition_id = file.site.energy_code, zone = file.site.climate_zone;

@@ -42,12 +42,12 @@ int run_report(const std::vector<std::string>& args) {
   options.add_options()
       ("output,o", po::value<std::string>(), "file to write (html: - for standard output)")
       ("format", po::value<std::string>()->default_value("html"), "html or md")
-      ("units", po::value<std::string>()->default_value("ip"), "unit system of the report: ip or si")
       ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
       ("help,h", "show this help");
+  add_units_option(options);
   po::variables_map vm;
   if (!parse_options(args, options, pos, "limitline report [UNIT.toml] [options] -o report.html", kDetails, vm)) return 0;
-  const units::System s = units::parse_system(vm["units"].as<std::string>());
+  const UnitsChoice units_choice(vm);
   const std::string format = vm["format"].as<std::string>();
   if (format != "html" && format != "md")
     throw UsageError(fmt::format("--format: '{}' is not a format of this command (html, md)", format));
@@ -57,20 +57,30 @@ int run_report(const std::vector<std::string>& args) {
 
   const YearInputs in = load_year_inputs(job_source(vm), weather_overrides(vm));
   report_warnings(in.warnings, vm.count("strict") > 0);
+  const units::System s = units_choice.resolve(in.unit);
+  const std::vector<std::filesystem::path> inputs = job_input_files(vm, in.weather_label);
   const annual::Prepared prepared = prepare_year(in);
   const annual::YearResult year = annual::evaluate(in.strategies, prepared);
   report::ReportDocument doc = report_document(in, prepared, year, s);
   doc.generator = "limitline " LIMITLINE_CLI_VERSION;
 
   if (format == "html") {
+    refuse_input_as_output(output, "--output", inputs);
     write_file(output, report::report_html(year, doc), "--output");
     return 0;
   }
+  // The three files are written whole before any is renamed into place, so a failure leaves
+  // none of them half-written.
   const std::filesystem::path md(output);
   const auto chart = beside(md, "-chart.svg"), monthly = beside(md, "-monthly.svg");
-  write_file(chart.string(), doc.chart_svg, "--output");
-  write_file(monthly.string(), doc.monthly_svg, "--output");
-  write_file(output, report::report_markdown(year, doc, chart.filename().string(), monthly.filename().string()), "--output");
+  for (const auto& p : {chart, monthly, md}) refuse_input_as_output(p, "--output", inputs);
+  OutputFile chart_file(chart, "--output"), monthly_file(monthly, "--output"), md_file(md, "--output");
+  chart_file.write(doc.chart_svg);
+  monthly_file.write(doc.monthly_svg);
+  md_file.write(report::report_markdown(year, doc, chart.filename().string(), monthly.filename().string()));
+  chart_file.commit();
+  monthly_file.commit();
+  md_file.commit();
   return 0;
 }
 

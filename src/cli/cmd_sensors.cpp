@@ -7,11 +7,7 @@
 
 #include <fmt/format.h>
 
-#include <atomic>
-#include <csignal>
 #include <cstdio>
-#include <cstdlib>
-#include <fstream>
 #include <optional>
 #include <unistd.h>
 
@@ -39,34 +35,6 @@ constexpr std::string_view kDetails =
 
 constexpr std::size_t kMaxTrials = 100000;
 constexpr unsigned kMaxThreads = 256;
-constexpr int kInterruptedExit = 130;  // 128 + SIGINT, as shells report it
-
-// Set by the first Ctrl-C; a second one ends the process at once.
-std::atomic<bool> g_interrupted{false};
-static_assert(std::atomic<bool>::is_always_lock_free, "the signal handler needs a lock-free flag");
-
-extern "C" void on_interrupt(int) {
-  if (g_interrupted.exchange(true)) std::_Exit(kInterruptedExit);
-}
-
-// Installs the handler for the life of the command and restores the previous one after.
-class InterruptGuard {
- public:
-  InterruptGuard() {
-    g_interrupted = false;
-    struct sigaction sa {};
-    sa.sa_handler = on_interrupt;
-    sigemptyset(&sa.sa_mask);
-    sigaction(SIGINT, &sa, &old_);
-  }
-  ~InterruptGuard() { sigaction(SIGINT, &old_, nullptr); }
-  InterruptGuard(const InterruptGuard&) = delete;
-  InterruptGuard& operator=(const InterruptGuard&) = delete;
-
- private:
-  struct sigaction old_ {};
-};
-
 // "\r  trials: 430 of 1000" on stderr, redrawn when the whole percentage changes.
 struct ProgressLine {
   std::string phase;
@@ -116,20 +84,18 @@ int run_sensors(const std::vector<std::string>& args) {
   const std::uint64_t seed = vm["seed"].as<std::uint64_t>();
 
   // Everything that can be wrong with the input is found before the long work starts.
+  // The output is opened first, so that a place it cannot be written fails before the work.
+  const std::unique_ptr<OutputFile> csv = open_side_output(vm, "trials-csv");
   const YearInputs in = load_year_inputs(job_source(vm), weather_overrides(vm));
+  if (csv) refuse_input_as_output(csv->target(), "--trials-csv", job_input_files(vm, in.weather_label));
   report_warnings(in.warnings, common.strict);
+  const units::System system = common.units.resolve(in.unit);
   const sensors::SensorSet set = sensors::read_sensors(in.unit.sensors ? &*in.unit.sensors : nullptr,
                                                        in.unit.path, in.unit.units);
   std::optional<sensors::SweepSpec> sweep_spec;
   if (vm.count("sweep"))
     sweep_spec = sensors::parse_sweep(vm["sweep"].as<std::string>(), set.outdoor_humidity,
-                                      common.units, "--sweep");
-  std::ofstream csv;
-  if (vm.count("trials-csv")) {
-    const std::string path = vm["trials-csv"].as<std::string>();
-    csv.open(path, std::ios::binary);
-    if (!csv) throw InputError(fmt::format("--trials-csv: cannot write '{}'", path));
-  }
+                                      system, "--sweep");
 
   const annual::Prepared prepared = prepare_year(in, true);
   const sensors::Engine engine(prepared, in.strategies, set.outdoor_humidity);
@@ -137,7 +103,7 @@ int run_sensors(const std::vector<std::string>& args) {
   const InterruptGuard guard;
   sensors::RunControl control;
   control.threads = threads;
-  control.cancel = &g_interrupted;
+  control.cancel = &InterruptGuard::flag();
   if (isatty(fileno(stderr))) control.progress = ProgressLine{};
 
   sensors::StudyOptions study_options;
@@ -146,16 +112,16 @@ int run_sensors(const std::vector<std::string>& args) {
   const sensors::StudyResult study = sensors::run_study(engine, set, study_options, control);
 
   std::optional<sensors::BreakEvenResult> be;
-  if (be_trials > 0 && !g_interrupted) {
+  if (be_trials > 0 && !guard.interrupted()) {
     sensors::BreakEvenOptions o;
     o.trials = std::min(be_trials, trials);
     o.seed = seed;
     be = sensors::break_even(engine, set, o, control);
   }
   std::optional<sensors::SweepResult> sweep;
-  if (sweep_spec && !g_interrupted) sweep = sensors::run_sweep(prepared, in.strategies, *sweep_spec, control);
+  if (sweep_spec && !guard.interrupted()) sweep = sensors::run_sweep(prepared, in.strategies, *sweep_spec, control);
 
-  const bool interrupted = g_interrupted.load();
+  const bool interrupted = guard.interrupted();
   std::string note;
   if (interrupted) {
     note = fmt::format("PARTIAL RESULTS: interrupted; {} of {} trials finished and every figure "
@@ -165,7 +131,7 @@ int run_sensors(const std::vector<std::string>& args) {
     if (sweep_spec && (!sweep || sweep->partial)) note += "; the bias sweep did not finish";
   }
 
-  const report::YearContext ctx = year_context(in, common.units);
+  const report::YearContext ctx = year_context(in, system);
   report::SensorsReport rep;
   rep.context = &ctx;
   rep.study = &study;
@@ -174,10 +140,9 @@ int run_sensors(const std::vector<std::string>& args) {
   rep.uses_humidity = engine.uses_humidity();
   rep.interrupted_note = note;
 
-  if (csv.is_open()) {
-    report::write_trials_csv(csv, study, common.units);
-    csv.flush();
-    if (!csv) throw InputError(fmt::format("--trials-csv: cannot write '{}'", vm["trials-csv"].as<std::string>()));
+  if (csv) {
+    report::write_trials_csv(csv->stream(), study, system);
+    csv->commit();
   }
   write_out(common.format == Format::json ? report::sensors_json(rep) : report::sensors_text(rep));
   if (interrupted) std::fprintf(stderr, "limitline sensors: interrupted; partial results written\n");

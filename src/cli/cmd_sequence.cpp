@@ -65,6 +65,7 @@ int run_sequence(const std::vector<std::string>& args) {
   }
 
   report_warnings(in.warnings, common.strict);
+  const units::System system = common.units.resolve(in.unit);
 
   std::vector<std::string> names;
   if (vm.count("strategy")) names.push_back(vm["strategy"].as<std::string>());
@@ -83,7 +84,7 @@ int run_sequence(const std::vector<std::string>& args) {
   si.strategy = &chosen.front();
   si.code = zone ? &*zone : nullptr;
   if (with_year) si.annual = sequence::AnnualSupport{&year, in.weather_label};
-  const sequence::Document doc = sequence::compose(si, common.units);
+  const sequence::Document doc = sequence::compose(si, system);
   write_out(common.format == Format::md ? sequence::to_markdown(doc) : sequence::to_text(doc));
   return 0;
 }

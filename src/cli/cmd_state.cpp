@@ -36,8 +36,9 @@ constexpr HumidityOption kHumidityOptions[] = {
 constexpr std::string_view kDetails =
     "Give the dry-bulb and exactly one humidity input. Quantities may carry their unit\n"
     "(75F, 23.9C, 50%, 62F, 0.0093, 28btu/lb, 47kJ/kg, 5000ft, 14.696psia, 101.325kPa);\n"
-    "bare numbers are read in the --units system (RH always in %). Pressure defaults to the\n"
-    "standard pressure at --elevation (sea level when neither is given).\n\n"
+    "bare numbers are read in the --units system, IP unless --units si is given (RH always in\n"
+    "%). Pressure defaults to the standard pressure at --elevation (sea level when neither is\n"
+    "given).\n\n"
     "Batch mode: --batch FILE (or - for standard input) reads a CSV whose header names the\n"
     "columns: dry_bulb, one of rh, wet_bulb, dew_point, humidity_ratio, enthalpy, and\n"
     "optionally pressure or elevation. It streams the properties of every row as CSV with\n"
@@ -68,7 +69,8 @@ int run_state(const std::vector<std::string>& args) {
                      kDetails, vm))
     return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::csv});
-  const double p = site_pressure_option(vm, common.units).value_or(psychro::kStandardPressureKpa);
+  const units::System system = common.units.resolve();  // state reads no unit file
+  const double p = site_pressure_option(vm, system).value_or(psychro::kStandardPressureKpa);
 
   if (vm.count("batch")) {
     for (const auto& h : kHumidityOptions)
@@ -77,16 +79,22 @@ int run_state(const std::vector<std::string>& args) {
     if (common.format != Format::csv && !vm["format"].defaulted())
       throw UsageError("--batch writes CSV only");
     const std::string path = vm["batch"].as<std::string>();
-    StateBatchOptions bo{common.units, p, path == "-" ? "standard input" : path};
-    if (path == "-") {
-      write_state_batch(std::cin, std::cout, bo);
-    } else {
+    StateBatchOptions bo{system, p, path == "-" ? "standard input" : path};
+    std::ifstream file;
+    if (path != "-") {
       check_input_file(path, "the --batch file");
-      std::ifstream file(path, std::ios::binary);
+      file.open(path, std::ios::binary);
       if (!file) throw InputError(fmt::format("--batch: cannot open {}", echo(path)));
-      write_state_batch(file, std::cout, bo);
     }
-    std::cout.flush();
+    // The rows written before a bad one reach standard output before its error.
+    OutputFile out("-", "");
+    try {
+      write_state_batch(path == "-" ? std::cin : file, out.stream(), bo);
+    } catch (const InputError&) {
+      out.commit();
+      throw;
+    }
+    out.commit();
     return 0;
   }
 
@@ -102,8 +110,8 @@ int run_state(const std::vector<std::string>& args) {
   if (!given)
     throw UsageError("give one humidity input: --rh, --wet-bulb, --dew-point, "
                      "--humidity-ratio or --enthalpy");
-  const double t = quantity(vm, "dry-bulb", Kind::temperature, common.units);
-  const double value = quantity(vm, given->name, humidity_input_kind(given->input), common.units);
+  const double t = quantity(vm, "dry-bulb", Kind::temperature, system);
+  const double value = quantity(vm, given->name, humidity_input_kind(given->input), system);
   psychro::Properties props;
   try {
     props = psychro::properties(psychro::state_from(t, given->input, value, p));
@@ -118,7 +126,7 @@ int run_state(const std::vector<std::string>& args) {
     report::Json j;
     j.begin_object();
     for (const auto& f : fields)
-      j.field(report::property_key(f, common.units), report::property_value(f, props, common.units));
+      j.field(report::property_key(f, system), report::property_value(f, props, system));
     j.end_object();
     write_out(j.str());
   } else if (common.format == Format::csv) {
@@ -128,14 +136,14 @@ int run_state(const std::vector<std::string>& args) {
         head += ',';
         row += ',';
       }
-      head += report::property_key(fields[i], common.units);
-      row += fmt::format("{:.8g}", report::property_value(fields[i], props, common.units));
+      head += report::property_key(fields[i], system);
+      row += fmt::format("{:.8g}", report::property_value(fields[i], props, system));
     }
     write_out(head + "\n" + row + "\n");
   } else {
     report::Table table({{"property", report::Align::left}, {"value", report::Align::right}});
     for (const auto& f : fields)
-      table.add_row({std::string(f.label), report::property_text(f, props, common.units)});
+      table.add_row({std::string(f.label), report::property_text(f, props, system)});
     write_out(table.text());
   }
   return 0;

@@ -1,8 +1,10 @@
 // limitline year: the annual evaluation of every high-limit strategy for a unit and climate.
 #include "common.hpp"
 
+#include <limitline/output_file.hpp>
 #include <limitline/report/cautions.hpp>
 #include <limitline/report/hourly.hpp>
+#include <limitline/report/json.hpp>
 #include <limitline/report/table.hpp>
 #include <limitline/report/year.hpp>
 #include <limitline/year_job.hpp>
@@ -10,7 +12,7 @@
 #include <fmt/format.h>
 
 #include <cstdio>
-#include <fstream>
+#include <memory>
 #include <unistd.h>
 
 namespace limitline::cli {
@@ -27,6 +29,9 @@ constexpr std::string_view kDetails =
     "file comes from the unit file's [weather] table or --weather; its columns and units are\n"
     "found from the header and can be set with --column (repeatable):\n"
     "  --column dry_bulb=Temperature:C --column dew_point=\"Dew Point:F\" --column pressure=SP:Pa\n\n"
+    "--batch evaluates every .csv entry of a folder; one that cannot be read is listed with its\n"
+    "error and the others kept (exit 2). Ctrl-C stops it and reports the sites that finished,\n"
+    "marked partial (exit 130); with --format csv the errors and that note go to standard error.\n\n"
     "Examples:\n"
     "  limitline year\n"
     "  limitline year --demo mesa-alta --units si\n"
@@ -39,7 +44,58 @@ void show_progress(std::size_t done, std::size_t total) {
   if (done == total) std::fputc('\n', stderr);
 }
 
-std::string batch_text(const std::vector<BatchSite>& sites, units::System s, Format f) {
+// What the batch came to: how many sites finished, failed, or never started.
+struct BatchTally {
+  std::size_t run = 0, failed = 0;
+  explicit BatchTally(const std::vector<BatchSite>& sites) {
+    for (const auto& s : sites) {
+      run += s.run;
+      failed += s.run && !s.ok;
+    }
+  }
+};
+
+std::string partial_note(const std::vector<BatchSite>& sites) {
+  return fmt::format("PARTIAL RESULTS: interrupted; {} of {} sites evaluated, the others not started",
+                     BatchTally(sites).run, sites.size());
+}
+
+std::string batch_json(const std::vector<BatchSite>& sites, units::System s, bool interrupted) {
+  report::Json j;
+  j.begin_object();
+  j.field("units", units::system_name(s));
+  j.field("partial", interrupted);
+  j.key("sites").begin_array();
+  for (const auto& site : sites) {
+    j.begin_object();
+    j.field("weather_file", site.weather_path);
+    j.field("status", !site.run ? "not-run" : site.ok ? "ok" : "failed");
+    if (site.run && !site.ok) j.field("error", site.error);
+    if (site.ok) {
+      const auto* b = site.result.best();
+      j.field("operating_hours", site.operating_hours, 8);
+      if (b) {
+        j.field("best", b->name);
+        j.field("shortfall_vs_perfect_kwh", b->shortfall_vs_perfect_kwh, 8);
+        j.field("harmful_hours", b->annual.harmful_hours, 8);
+        j.field("missed_hours", b->annual.missed_hours, 8);
+      } else {
+        j.key("best").null();
+      }
+      j.field("perfect_savings_vs_no_economizer_kwh",
+              site.result.perfect_changeover.savings_vs_no_economizer_kwh, 8);
+    }
+    j.end_object();
+  }
+  j.end_array();
+  j.key("cautions").begin_array();
+  for (const auto& c : report::cautions(report::CautionTopic::design)) j.value(c);
+  j.end_array();
+  j.end_object();
+  return j.str();
+}
+
+std::string batch_table(const std::vector<BatchSite>& sites, units::System s, Format f, bool interrupted) {
   std::vector<report::Column> cols = {{"weather file", report::Align::left},
                                       {"fan-on h", report::Align::right},
                                       {"best strategy", report::Align::left},
@@ -50,8 +106,10 @@ std::string batch_text(const std::vector<BatchSite>& sites, units::System s, For
   report::Table t(cols);
   std::string errors;
   for (const auto& site : sites) {
+    if (!site.run) continue;
     if (!site.ok) {
-      errors += fmt::format("  {}: {}\n", site.weather_path, site.error);
+      const std::string line = fmt::format("{}: {}", site.weather_path, site.error);
+      errors += "  - " + (f == Format::md ? report::markdown_escape(line) : line) + "\n";
       continue;
     }
     const auto* b = site.result.best();
@@ -62,17 +120,55 @@ std::string batch_text(const std::vector<BatchSite>& sites, units::System s, For
                b ? fmt::format("{:.0f}", b->annual.harmful_hours) : "-",
                b ? fmt::format("{:.0f}", b->annual.missed_hours) : "-"});
   }
-  std::string out;
-  if (f == Format::csv) out = t.csv();
-  else if (f == Format::md) out = "# Annual high-limit evaluation, per site\n\n" + t.markdown();
-  else out = "limitline year — per-site summary\n\n" + t.text();
+  // CSV is data only: errors and the partial note go to standard error (see run_year).
+  if (f == Format::csv) return t.csv();
+  std::string out = f == Format::md ? "# Annual high-limit evaluation, per site\n\n" + t.markdown()
+                                    : "limitline year — per-site summary\n\n" + t.text();
+  if (interrupted) out += "\n" + partial_note(sites) + "\n";
   if (!errors.empty()) out += "\nSites that could not be evaluated:\n" + errors;
-  if (f != Format::csv) {
-    out += '\n';
-    out += f == Format::md ? report::cautions_markdown(report::CautionTopic::design)
-                           : report::cautions_text(report::CautionTopic::design);
-  }
+  out += '\n';
+  out += f == Format::md ? report::cautions_markdown(report::CautionTopic::design)
+                         : report::cautions_text(report::CautionTopic::design);
   return out;
+}
+
+int run_batch(const po::variables_map& vm, const Common& common, const UnitSource& source,
+              const WeatherOverrides& overrides) {
+  if (!vm.count("unit")) throw UsageError("--batch needs a unit file");
+  if (vm.count("weather") || vm.count("hourly"))
+    throw UsageError("--batch takes its weather files from the folder; drop --weather and --hourly");
+  // The unit is read once; its own weather file is not needed.
+  UnitFile unit = load_unit_file(source.path);
+  report_warnings(unit.warnings, common.strict);
+  const units::System system = common.units.resolve(unit);
+  YearInputs base;
+  base.unit = unit;
+  base.unit_label = source.path;
+  if (unit.schedule) base.schedule = read_schedule(*unit.schedule, unit.path);
+  base.strategies = strategies_or_presets(unit);
+  const bool tty = isatty(fileno(stderr));
+  const InterruptGuard guard;
+  const auto sites = run_year_batch(base, vm["batch"].as<std::string>(), overrides,
+                                    vm["threads"].as<unsigned>(), tty ? show_progress : nullptr,
+                                    &InterruptGuard::flag());
+  const bool interrupted = guard.interrupted();
+  const BatchTally tally(sites);
+  write_out(common.format == Format::json ? batch_json(sites, system, interrupted)
+                                          : batch_table(sites, system, common.format, interrupted));
+  std::fflush(stdout);
+  if (common.format == Format::csv) {
+    for (const auto& s : sites)
+      if (s.run && !s.ok) std::fprintf(stderr, "limitline year: error: %s: %s\n", s.weather_path.c_str(), s.error.c_str());
+    if (interrupted) std::fprintf(stderr, "limitline year: %s\n", partial_note(sites).c_str());
+  } else if (common.format == Format::json && tally.failed > 0) {
+    std::fprintf(stderr, "limitline year: error: %zu of %zu sites could not be evaluated; their errors are in the JSON\n",
+                 tally.failed, sites.size());
+  }
+  if (interrupted) {
+    std::fprintf(stderr, "limitline year: interrupted; partial results written\n");
+    return kInterruptedExit;
+  }
+  return tally.failed > 0 ? 2 : 0;
 }
 
 }  // namespace
@@ -97,45 +193,28 @@ int run_year(const std::vector<std::string>& args) {
   const WeatherOverrides overrides = weather_overrides(vm);
   const UnitSource source = job_source(vm);
 
-  if (vm.count("batch")) {
-    if (!vm.count("unit")) throw UsageError("--batch needs a unit file");
-    if (vm.count("weather") || vm.count("hourly"))
-      throw UsageError("--batch takes its weather files from the folder; drop --weather and --hourly");
-    if (common.format == Format::json) throw UsageError("--batch writes text, csv or md");
-    // The unit is read once; its own weather file is not needed.
-    UnitFile unit = load_unit_file(source.path);
-    YearInputs base;
-    base.unit = unit;
-    base.unit_label = source.path;
-    if (unit.schedule) base.schedule = read_schedule(*unit.schedule, unit.path);
-    base.strategies = strategies_or_presets(unit);
-    const bool tty = isatty(fileno(stderr));
-    const auto sites = run_year_batch(base, vm["batch"].as<std::string>(), overrides,
-                                      vm["threads"].as<unsigned>(), tty ? show_progress : nullptr);
-    write_out(batch_text(sites, common.units, common.format));
-    for (const auto& s : sites)
-      if (!s.ok) return 2;
-    return 0;
-  }
+  if (vm.count("batch")) return run_batch(vm, common, source, overrides);
 
+  // The output is opened first, so that a place it cannot be written fails before the work.
+  const std::unique_ptr<OutputFile> hourly = open_side_output(vm, "hourly");
   const YearInputs in = load_year_inputs(source, overrides);
+  if (hourly) refuse_input_as_output(hourly->target(), "--hourly", job_input_files(vm, in.weather_label));
   report_warnings(in.warnings, common.strict);
+  const units::System system = common.units.resolve(in.unit);
   const annual::Prepared prepared = prepare_year(in);
   annual::RunOptions run;
-  run.keep_decisions = vm.count("hourly") > 0;
+  run.keep_decisions = hourly != nullptr;
   const annual::YearResult y = annual::evaluate(in.strategies, prepared, run);
-  report::YearContext ctx = year_context(in, common.units);
+  report::YearContext ctx = year_context(in, system);
   CodeSelection code;
   if (vm.count("edition")) code.edition = vm["edition"].as<std::string>();
   if (vm.count("zone")) code.zone = vm["zone"].as<std::string>();
   if (vm.count("code-table")) code.extra_tables = vm["code-table"].as<std::vector<std::string>>();
   add_compliance(ctx, in, code);
 
-  if (vm.count("hourly")) {
-    const std::string path = vm["hourly"].as<std::string>();
-    std::ofstream f(path, std::ios::binary);
-    if (!f) throw InputError(fmt::format("--hourly: cannot write '{}'", path));
-    report::write_hourly_csv(f, outdoor_intervals(in.weather), prepared, y, common.units);
+  if (hourly) {
+    report::write_hourly_csv(hourly->stream(), outdoor_intervals(in.weather), prepared, y, system);
+    hourly->commit();
   }
   switch (common.format) {
     case Format::json: write_out(report::year_json(y, ctx)); break;

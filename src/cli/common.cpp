@@ -1,10 +1,18 @@
 #include "common.hpp"
 
+#include <limitline/output_file.hpp>
 #include <limitline/psychro.hpp>
+#include <limitline/unit_file.hpp>
 
 #include <fmt/format.h>
 
+#include <fcntl.h>
+#include <unistd.h>
+
+#include <cerrno>
 #include <cstdio>
+#include <cstdlib>
+#include <cstring>
 #include <iostream>
 #include <sstream>
 
@@ -31,10 +39,23 @@ Format parse_format(std::string_view text, std::initializer_list<Format> allowed
   throw UsageError(fmt::format("--format: '{}' is not a format of this command ({})", text, list));
 }
 
+const char* const kUnitsHelp =
+    "unit system of the output and of bare numbers on the command line: ip or si (default: "
+    "the unit file's units, else ip)";
+
+void add_units_option(po::options_description& options) {
+  options.add_options()("units", po::value<std::string>(), kUnitsHelp);
+}
+
+UnitsChoice::UnitsChoice(const po::variables_map& vm) {
+  if (vm.count("units")) given_ = units::parse_system(vm["units"].as<std::string>(), "--units");
+}
+
+units::System UnitsChoice::resolve(const UnitFile& unit) const { return given_.value_or(unit.units); }
+
 void add_common_options(po::options_description& options, std::string_view formats) {
+  add_units_option(options);
   options.add_options()
-      ("units", po::value<std::string>()->default_value("ip"),
-       "unit system for output and for bare numbers: ip or si")
       ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
       ("format", po::value<std::string>()->default_value("text"),
        fmt::format("output format: {}", formats).c_str())
@@ -67,8 +88,7 @@ bool parse_options(const std::vector<std::string>& args, const po::options_descr
 }
 
 Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed) {
-  return {units::parse_system(vm["units"].as<std::string>()),
-          parse_format(vm["format"].as<std::string>(), allowed), vm.count("strict") > 0};
+  return {UnitsChoice(vm), parse_format(vm["format"].as<std::string>(), allowed), vm.count("strict") > 0};
 }
 
 double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
@@ -110,7 +130,71 @@ void report_warnings(const std::vector<std::string>& warnings, bool strict) {
 
 void write_out(const std::string& text) {
   if (std::fwrite(text.data(), 1, text.size(), stdout) != text.size())
-    throw std::runtime_error("cannot write to standard output");
+    throw InputError(fmt::format("cannot write to standard output: {}", std::strerror(errno)));
 }
+
+int finish_output(int rc) {
+  errno = 0;
+  if (std::fflush(stdout) == 0 && !std::ferror(stdout)) return rc;
+  const int error_number = errno ? errno : EIO;
+  std::fprintf(stderr, "%s: error: cannot write to standard output: %s\n", g_command.c_str(),
+               std::strerror(error_number));
+  return 2;
+}
+
+void write_file(const std::string& path, const std::string& text, std::string_view option) {
+  if (path == "-") {
+    write_out(text);
+    return;
+  }
+  write_output_file(path, text, std::string(option));
+}
+
+std::unique_ptr<OutputFile> open_side_output(const po::variables_map& vm, const char* name) {
+  if (!vm.count(name)) return nullptr;
+  const std::string path = vm[name].as<std::string>();
+  if (path == "-")
+    throw UsageError(fmt::format("--{} writes a file beside the report on standard output; give "
+                                 "a file name",
+                                 name));
+  return std::make_unique<OutputFile>(path, std::string("--") + name);
+}
+
+namespace {
+
+std::atomic<bool> g_interrupted{false};
+static_assert(std::atomic<bool>::is_always_lock_free, "the signal handler needs a lock-free flag");
+
+extern "C" void on_interrupt(int) {
+  if (g_interrupted.exchange(true)) {
+    remove_pending_outputs();
+    _exit(kInterruptedExit);
+  }
+}
+
+}  // namespace
+
+void prepare_process() {
+  for (int fd : {STDIN_FILENO, STDOUT_FILENO, STDERR_FILENO}) {
+    if (fcntl(fd, F_GETFD) != -1 || errno != EBADF) continue;
+    const int opened = open("/dev/null", O_RDONLY);
+    if (opened >= 0 && opened != fd) {
+      dup2(opened, fd);
+      close(opened);
+    }
+  }
+}
+
+InterruptGuard::InterruptGuard() {
+  g_interrupted = false;
+  struct sigaction sa {};
+  sa.sa_handler = on_interrupt;
+  sigemptyset(&sa.sa_mask);
+  sigaction(SIGINT, &sa, &old_);
+}
+
+InterruptGuard::~InterruptGuard() { sigaction(SIGINT, &old_, nullptr); }
+
+const std::atomic<bool>& InterruptGuard::flag() { return g_interrupted; }
 
 }  // namespace limitline::cli

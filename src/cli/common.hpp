@@ -2,17 +2,23 @@
 // Shared plumbing of the command-line front end: option parsing, formats, exit codes.
 // Commands only parse, call the library and format; nothing here knows physics.
 #include <limitline/error.hpp>
+#include <limitline/output_file.hpp>
 #include <limitline/units.hpp>
 
 #include <boost/program_options.hpp>
 
+#include <atomic>
+#include <csignal>
+#include <filesystem>
 #include <initializer_list>
+#include <memory>
 #include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
 
 namespace limitline {
+struct UnitFile;
 struct UnitSource;
 struct WeatherOverrides;
 }  // namespace limitline
@@ -51,17 +57,34 @@ bool parse_options(const std::vector<std::string>& args, const po::options_descr
                    const po::positional_options_description& positional, std::string_view usage,
                    std::string_view details, po::variables_map& vm);
 
-// Adds --units and --format (with the formats this command accepts) and --help.
+// Adds --units, --strict, --format (with the formats this command accepts) and --help.
 void add_common_options(po::options_description& options, std::string_view formats);
+// Adds --units alone (for the commands whose --format is their own).
+void add_units_option(po::options_description& options);
+// The help text of --units, the same for every command.
+extern const char* const kUnitsHelp;
+
+// The unit system a command prints in and reads bare numbers in: --units when given, else
+// the unit file's `units`, else IP. It is resolved once the unit file (if any) is read.
+class UnitsChoice {
+ public:
+  explicit UnitsChoice(const po::variables_map& vm);
+  units::System resolve() const { return given_.value_or(units::System::ip); }
+  units::System resolve(const UnitFile& unit) const;
+  bool given() const { return given_.has_value(); }
+
+ private:
+  std::optional<units::System> given_;
+};
 
 struct Common {
-  units::System units;
+  UnitsChoice units;
   Format format;
   bool strict = false;  // --strict: warnings are errors
 };
 Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed);
 
-// Reads option `name` as a quantity of `kind`, in the --units system for bare numbers.
+// Reads option `name` as a quantity of `kind`, in `system` for bare numbers.
 double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
                 units::System system);
 
@@ -72,8 +95,18 @@ void add_job_options(po::options_description& options, po::positional_options_de
 limitline::UnitSource job_source(const po::variables_map& vm);
 limitline::WeatherOverrides weather_overrides(const po::variables_map& vm);
 
-// Writes text to a file (or stdout for "-"); InputError naming `option` when it cannot.
+// Writes text whole to a file (or stdout for "-") through limitline::OutputFile: a
+// temporary file renamed on success. InputError naming `option` when it cannot.
 void write_file(const std::string& path, const std::string& text, std::string_view option);
+
+// The file output of option `name` (--hourly, --trials-csv), opened now; none when the option
+// is absent. "-" is refused: the report itself goes to standard output.
+std::unique_ptr<OutputFile> open_side_output(const po::variables_map& vm, const char* name);
+
+// The files a job reads: the unit file (unless embedded), its weather file and the extra
+// code tables, for refuse_input_as_output.
+std::vector<std::filesystem::path> job_input_files(const po::variables_map& vm,
+                                                   const std::string& weather_label);
 
 // The site pressure from --pressure or --elevation (standard pressure, ASHRAE Fundamentals
 // ch. 1 eq. 3); none when neither is given. Both at once is a UsageError.
@@ -85,7 +118,36 @@ void report_warnings(const std::vector<std::string>& warnings, bool strict);
 // The command name main() dispatched to, for the prefix of warnings.
 void set_command_name(std::string_view name);
 
-// Writes text to stdout exactly (no added newline); exits with failure if stdout fails.
+// Writes text to stdout exactly (no added newline); InputError (exit 2) with the system's
+// reason when stdout fails.
 void write_out(const std::string& text);
+// Flushes stdout at the end of a command: a failed write (a full disk, a closed stdout) turns
+// `rc` into exit 2 with a one-line error.
+int finish_output(int rc);
+
+// 128 + SIGINT, as shells report an interrupted command.
+constexpr int kInterruptedExit = 130;
+
+// For main(): a closed standard descriptor is reopened on /dev/null (read-only, so writes to
+// it fail with the system's reason instead of landing in the next file opened). Temporary
+// output files are removed on Ctrl-C by OutputFile itself.
+void prepare_process();
+
+// For a long command that reports what finished when interrupted (sensors, year --batch):
+// while it lives, the first Ctrl-C only sets the flag the work polls; a second one ends the
+// process at once, temporary files removed (exit 130). Restores the previous handler after.
+class InterruptGuard {
+ public:
+  InterruptGuard();
+  ~InterruptGuard();
+  InterruptGuard(const InterruptGuard&) = delete;
+  InterruptGuard& operator=(const InterruptGuard&) = delete;
+
+  static const std::atomic<bool>& flag();
+  bool interrupted() const { return flag().load(); }
+
+ private:
+  struct sigaction old_ {};
+};
 
 }  // namespace limitline::cli

@@ -5,7 +5,6 @@
 
 #include <fmt/format.h>
 
-#include <fstream>
 
 namespace limitline::cli {
 
@@ -39,14 +38,15 @@ WeatherOverrides weather_overrides(const po::variables_map& vm) {
   return o;
 }
 
-void write_file(const std::string& path, const std::string& text, std::string_view option) {
-  if (path == "-") {
-    write_out(text);
-    return;
-  }
-  std::ofstream f(path, std::ios::binary);
-  if (f) f.write(text.data(), static_cast<std::streamsize>(text.size()));
-  if (!f) throw InputError(fmt::format("{}: cannot write '{}'", option, path));
+std::vector<std::filesystem::path> job_input_files(const po::variables_map& vm,
+                                                   const std::string& weather_label) {
+  // An embedded unit or weather has a label that names no file; equivalent() skips it.
+  std::vector<std::filesystem::path> files{weather_label};
+  if (vm.count("unit")) files.emplace_back(vm["unit"].as<std::string>());
+  if (vm.count("weather")) files.emplace_back(vm["weather"].as<std::string>());
+  if (vm.count("code-table"))
+    for (const auto& t : vm["code-table"].as<std::vector<std::string>>()) files.emplace_back(t);
+  return files;
 }
 
 }  // namespace limitline::cli

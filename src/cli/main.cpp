@@ -40,35 +40,41 @@ void print_overview() {
       "usage: limitline COMMAND [options]   (limitline COMMAND --help for details)\n\n"
       "commands:\n";
   for (const Command& c : kCommands) out += fmt::format("  {:<10} {}\n", c.name, c.summary);
-  out += "\nExit codes: 0 success, 1 usage error, 2 bad input.\n";
+  out += "\nExit codes: 0 success, 1 usage error, 2 bad input or an output that could not be\n"
+         "written, 130 interrupted (Ctrl-C).\n";
   std::fputs(out.c_str(), stdout);
 }
 
 }  // namespace
 
 int main(int argc, char** argv) {
+  limitline::cli::prepare_process();
   const std::vector<std::string> all(argv + 1, argv + argc);
   if (all.empty() || all[0] == "--help" || all[0] == "-h" || all[0] == "help") {
     print_overview();
-    return all.empty() ? 1 : 0;
+    return limitline::cli::finish_output(all.empty() ? 1 : 0);
   }
   if (all[0] == "--version") {
     std::puts("limitline " LIMITLINE_CLI_VERSION);
-    return 0;
+    return limitline::cli::finish_output(0);
   }
   for (const Command& c : kCommands) {
     if (c.name != all[0]) continue;
     limitline::cli::set_command_name(c.name);
     try {
-      return c.run(std::vector<std::string>(all.begin() + 1, all.end()));
+      return limitline::cli::finish_output(c.run(std::vector<std::string>(all.begin() + 1, all.end())));
     } catch (const limitline::UsageError& e) {
+      std::fflush(stdout);
       std::fprintf(stderr, "limitline %s: %s (see limitline %s --help)\n", all[0].c_str(),
                    e.what(), all[0].c_str());
       return 1;
     } catch (const limitline::InputError& e) {
+      // What was written before the error (the good rows of a batch) goes out first.
+      std::fflush(stdout);
       std::fprintf(stderr, "limitline %s: error: %s\n", all[0].c_str(), e.what());
       return 2;
     } catch (const std::exception& e) {
+      std::fflush(stdout);
       std::fprintf(stderr, "limitline %s: internal error: %s\n", all[0].c_str(), e.what());
       return 3;
     }

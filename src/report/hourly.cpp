@@ -103,10 +103,10 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
     if (line.size() > (1u << 16)) {
       out.write(line.data(), static_cast<std::streamsize>(line.size()));
       line.clear();
+      if (!out) return;  // a full disk: the caller reports it from the stream
     }
   }
   out.write(line.data(), static_cast<std::streamsize>(line.size()));
-  if (!out) throw std::runtime_error("cannot write the hourly file");
 }
 
 }  // namespace limitline::report

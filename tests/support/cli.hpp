@@ -3,7 +3,9 @@
 // checks every output must pass (never NaN or inf).
 #include <doctest/doctest.h>
 
+#include <fcntl.h>
 #include <sys/wait.h>
+#include <unistd.h>
 
 #include <cstdlib>
 #include <filesystem>
@@ -56,6 +58,33 @@ inline CliRun run_cli(const std::vector<std::string>& args, const std::string& s
   CHECK_FALSE(std::regex_search(r.out, bad));
   CHECK_FALSE(std::regex_search(r.err, bad));
   return r;
+}
+
+// Starts `limitline ARGS...` without waiting, its standard output and error written to the
+// files given (or /dev/null), for tests that signal a running command. Returns its pid.
+inline pid_t spawn_cli(std::vector<std::string> args, const std::string& out = "/dev/null",
+                       const std::string& err = "/dev/null") {
+  const pid_t pid = fork();
+  REQUIRE(pid >= 0);
+  if (pid == 0) {
+    dup2(::open("/dev/null", O_RDONLY), 0);
+    dup2(::open(out.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644), 1);
+    dup2(::open(err.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644), 2);
+    args.insert(args.begin(), LIMITLINE_EXE);
+    std::vector<char*> argv;
+    for (auto& a : args) argv.push_back(a.data());
+    argv.push_back(nullptr);
+    execv(LIMITLINE_EXE, argv.data());
+    _exit(127);
+  }
+  return pid;
+}
+
+// Waits for a spawned command; its exit code (128 + signal when a signal ended it).
+inline int wait_cli(pid_t pid) {
+  int status = 0;
+  waitpid(pid, &status, 0);
+  return WIFEXITED(status) ? WEXITSTATUS(status) : 128 + WTERMSIG(status);
 }
 
 inline bool contains(const std::string& haystack, const std::string& needle) {

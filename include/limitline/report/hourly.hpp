@@ -10,7 +10,8 @@
 namespace limitline::report {
 
 // Writes every interval of `weather` (fan-off intervals with fan_on = 0 and empty decision
-// cells). `year` must come from annual::evaluate with RunOptions::keep_decisions.
+// cells). `year` must come from annual::evaluate with RunOptions::keep_decisions. It stops at
+// the first failed write; the caller reports the failure from the stream (OutputFile::commit).
 void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval> weather,
                       const annual::Prepared& prepared, const annual::YearResult& year,
                       units::System units);
