@@ -682,7 +682,9 @@ int run_code(const std::vector<std::string>& args) {
   if (vm.count("code-table"))
     for (const auto& f : vm["code-table"].as<std::vector<std::string>>()) extra.emplace_back(f);
   const codes::CodeTables tables = codes::CodeTables::load_installed(extra);
-  std::optional<double> pressure = site_pressure_option(vm, s);
+  std::vector<std::string> warnings;
+  std::optional<double> pressure = site_pressure_option(vm, s, warnings);
+  report_warnings(warnings, common.strict);
 
   if (list) {
     write_out(editions_list(tables, common.format));

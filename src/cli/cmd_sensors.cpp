@@ -2,6 +2,7 @@
 #include "common.hpp"
 
 #include <limitline/report/sensors.hpp>
+#include <limitline/codes.hpp>
 #include <limitline/sensors.hpp>
 #include <limitline/year_job.hpp>
 
@@ -118,8 +119,11 @@ int run_sensors(const std::vector<std::string>& args) {
   // Everything that can be wrong with the input is found before the long work starts.
   const YearInputs in = load_year_inputs(job_source(vm), weather_overrides(vm));
   report_warnings(in.warnings, common.strict);
+  codes::check_site_code(in.unit.site.energy_code, in.unit.site.energy_code_origin,
+                         in.unit.site.climate_zone, in.unit.site.climate_zone_origin);
   const sensors::SensorSet set = sensors::read_sensors(in.unit.sensors ? &*in.unit.sensors : nullptr,
                                                        in.unit.path, in.unit.units);
+  report_warnings(set.warnings, common.strict);
   std::optional<sensors::SweepSpec> sweep_spec;
   if (vm.count("sweep"))
     sweep_spec = sensors::parse_sweep(vm["sweep"].as<std::string>(), set.outdoor_humidity,

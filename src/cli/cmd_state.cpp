@@ -68,7 +68,10 @@ int run_state(const std::vector<std::string>& args) {
                      kDetails, vm))
     return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::csv});
-  const double p = site_pressure_option(vm, common.units).value_or(psychro::kStandardPressureKpa);
+  std::vector<std::string> warnings;
+  const double p =
+      site_pressure_option(vm, common.units, warnings).value_or(psychro::kStandardPressureKpa);
+  report_warnings(warnings, common.strict);
 
   if (vm.count("batch")) {
     for (const auto& h : kHumidityOptions)

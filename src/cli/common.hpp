@@ -76,8 +76,11 @@ limitline::WeatherOverrides weather_overrides(const po::variables_map& vm);
 void write_file(const std::string& path, const std::string& text, std::string_view option);
 
 // The site pressure from --pressure or --elevation (standard pressure, ASHRAE Fundamentals
-// ch. 1 eq. 3); none when neither is given. Both at once is a UsageError.
-std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system);
+// ch. 1 eq. 3); none when neither is given. Both at once is a UsageError. A value outside the
+// plausible band of a site is refused when it is a bare number plausible only in the other
+// unit system, else described in `warnings` (plausible.hpp).
+std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system,
+                                           std::vector<std::string>& warnings);
 
 // Prints each warning to stderr as "limitline COMMAND: warning: ..."; under --strict the
 // first one is an InputError instead (exit 2), before any result is written.
