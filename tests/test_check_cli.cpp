@@ -431,3 +431,21 @@ TEST_CASE("a bad [site] energy_code or climate_zone names FILE:LINE in check, se
     CHECK(contains(r.err, "4D"));
   }
 }
+
+TEST_CASE("--pressure and --elevation are weighed against the plausible band of a site") {
+  // 14.7 read in SI units is 14.7 kPa (about 13,700 m up); 14.7 psia is 101.4 kPa (NIST SP 811).
+  auto r = run_cli({"state", "--dry-bulb", "24C", "--rh", "50%", "--pressure", "14.7", "--units", "si"},
+                   "check-site");
+  CHECK(r.rc == 2);
+  CHECK(contains(r.err, "--pressure: 14.7 read in SI units is 14.7 kPa"));
+  CHECK(contains(r.err, "if you meant 14.7 psia write \"14.7psia\""));
+  // 8000 m is a real place but no site for an air handler (common practice): a warning.
+  r = run_cli({"code", "--edition", "ashrae-90.1-2019", "--zone", "5B", "--elevation", "8000m"},
+              "check-site");
+  CHECK(r.rc == 0);
+  CHECK(contains(r.err, "warning: --elevation: '8000m'"));
+  r = run_cli({"code", "--edition", "ashrae-90.1-2019", "--zone", "5B", "--elevation", "8000m",
+               "--strict"},
+              "check-site");
+  CHECK(r.rc == 2);
+}
