@@ -43,10 +43,10 @@ void validate(const AirHandler& u) {
     throw InputError(fmt::format("air handler min_outdoor_air {:.4g}% is above max_outdoor_air "
                                  "{:.4g}%",
                                  u.min_oa_fraction * 100, u.max_oa_fraction * 100));
-  if (!(u.fan_heat_k >= 0.0 && u.fan_heat_k < 20.0)) fail("fan_heat (K)", u.fan_heat_k, "0 K to 20 K");
+  if (!(u.fan_heat_k >= 0.0 && u.fan_heat_k <= 20.0)) fail("fan_heat (K)", u.fan_heat_k, "0 K to 20 K");
   if (!(u.coil_leaving_rh_max > 0.0 && u.coil_leaving_rh_max <= 1.0))
     fail("coil_leaving_rh_max (fraction)", u.coil_leaving_rh_max, "above 0 %, up to 100 %");
-  if (!(u.supply_air_temp_c > -40.0 && u.supply_air_temp_c < 60.0))
+  if (!(u.supply_air_temp_c >= -40.0 && u.supply_air_temp_c <= 60.0))
     fail("supply_air_temp (°C)", u.supply_air_temp_c, "-40 °C to 60 °C");
 }
 

@@ -110,9 +110,12 @@ Prepared prepare(const airside::AirHandler& unit, const ReturnAirSpec& ret_spec,
   for (std::size_t i = 0; i < weather.size(); ++i) {
     const OutdoorInterval& w = weather[i];
     p.total_hours += w.hours;
-    const double share =
-        schedule.occupied_share(w.day_of_year, w.month, w.day, w.start_min,
-                                static_cast<int>(w.hours * 60.0 + 0.5));
+    // The interval in whole minutes, held to a year before the cast: the schedule repeats
+    // within it, and no interval length can make the conversion to int undefined.
+    constexpr double kYearMinutes = 366.0 * 24.0 * 60.0;
+    const double share = schedule.occupied_share(
+        w.day_of_year, w.month, w.day, w.start_min,
+        static_cast<int>(w.hours > 0.0 ? std::min(w.hours * 60.0 + 0.5, kYearMinutes) : 0.0));
     if (share <= 0.0) continue;
     const double hours = share * w.hours;
     p.operating_hours += hours;

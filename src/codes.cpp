@@ -5,6 +5,7 @@
 
 #include <limitline/error.hpp>
 #include <limitline/psychro.hpp>
+#include <limitline/toml_depth.hpp>
 
 #include <fmt/format.h>
 #include <toml++/toml.h>
@@ -196,10 +197,10 @@ std::vector<std::string> read_zones(TableReader& r, std::string_view key, const 
       r.fail(key, err.what());
     }
     if (!e.has_zone(canon))
-      r.fail(key, fmt::format("zone '{}' is not a zone of {} (its zones: {})", z, e.id,
+      r.fail(key, fmt::format("zone {} is not a zone of {} (its zones: {})", echo(z), e.id,
                               join(e.zones, ", ")));
     if (std::find(out.begin(), out.end(), canon) != out.end())
-      r.fail(key, fmt::format("zone '{}' is listed twice", z));
+      r.fail(key, fmt::format("zone {} is listed twice", echo(z)));
     out.push_back(canon);
   }
   if (out.empty()) r.fail(key, "lists no zone");
@@ -236,9 +237,9 @@ Row read_row(const toml::table& t, const std::string& file, const Edition& e) {
   if (row.modelled && !preset) {
     std::vector<std::string> names;
     for (const auto& p : highlimit::presets()) names.emplace_back(p.name);
-    r.fail("control", fmt::format("'{}' is not a strategy preset (presets: {}); record a type "
+    r.fail("control", fmt::format("{} is not a strategy preset (presets: {}); record a type "
                                   "limitline does not model with modelled = false",
-                                  row.control, join(names, ", ")));
+                                  echo(row.control), join(names, ", ")));
   }
   if (!row.modelled && preset)
     r.fail("modelled", fmt::format("'{}' is a preset limitline models; drop modelled = false",
@@ -246,7 +247,7 @@ Row read_row(const toml::table& t, const std::string& file, const Edition& e) {
   const std::string permission = *r.string("permission", true);
   if (permission == "allowed") row.permission = Permission::allowed;
   else if (permission == "prohibited") row.permission = Permission::prohibited;
-  else r.fail("permission", fmt::format("'{}' is not allowed or prohibited", permission));
+  else r.fail("permission", fmt::format("{} is not allowed or prohibited", echo(permission)));
   row.zones = read_zones(r, "zones", e);
 
   // Limits: exactly the settings of the preset, both systems, on allowed modelled rows.
@@ -379,13 +380,13 @@ Edition read_edition(const toml::table& doc, const std::string& file) {
   e.id = *r.string("id", true);
   for (unsigned char c : e.id)
     if (!(std::islower(c) || std::isdigit(c) || c == '-' || c == '.' || c == '+'))
-      r.fail("id", fmt::format("'{}' must be lower-case letters, digits, '.', '-' or '+'", e.id));
+      r.fail("id", fmt::format("{} must be lower-case letters, digits, '.', '-' or '+'", echo(e.id)));
   e.title = *r.string("title", true);
   const std::string system = *r.string("zone_system", true);
   bool known = false;
   for (auto [s, name] : kZoneSystemNames)
     if (name == system) e.zone_system = s, known = true;
-  if (!known) r.fail("zone_system", fmt::format("'{}' is not ashrae-169 or california", system));
+  if (!known) r.fail("zone_system", fmt::format("{} is not ashrae-169 or california", echo(system)));
   for (const std::string& z : r.strings("zones", true)) {
     std::string canon;
     try {
@@ -393,14 +394,14 @@ Edition read_edition(const toml::table& doc, const std::string& file) {
     } catch (const InputError& err) {
       r.fail("zones", err.what());
     }
-    if (e.has_zone(canon)) r.fail("zones", fmt::format("zone '{}' is listed twice", z));
+    if (e.has_zone(canon)) r.fail("zones", fmt::format("zone {} is listed twice", echo(z)));
     e.zones.push_back(canon);
   }
   if (e.zones.empty()) r.fail("zones", "lists no zone");
   const std::string governing = *r.string("governing_units", true);
   if (governing == "ip") e.governing_units = System::ip;
   else if (governing == "si") e.governing_units = System::si;
-  else r.fail("governing_units", fmt::format("'{}' is not ip or si", governing));
+  else r.fail("governing_units", fmt::format("{} is not ip or si", echo(governing)));
   e.si_note = r.string("si_note", false).value_or("");
   e.provenance = *r.string("provenance", true);
   r.finish("id, title, zone_system, zones, governing_units, si_note, provenance");
@@ -425,7 +426,7 @@ void apply_amendment(const toml::table& doc, const std::string& file,
   if (it == editions.end()) {
     std::vector<std::string> ids;
     for (const auto& e : editions) ids.push_back(e.id);
-    r.fail("edition", fmt::format("'{}' is not a loaded edition (loaded: {})", id, join(ids, ", ")));
+    r.fail("edition", fmt::format("{} is not a loaded edition (loaded: {})", echo(id), join(ids, ", ")));
   }
   const std::string name = *r.string("name", true);
   r.string("provenance", true);
@@ -455,6 +456,7 @@ void add_document(std::vector<Edition>& editions, const std::string& origin,
                   const std::string& text) {
   toml::table doc;
   try {
+    check_toml_depth(text, origin);
     doc = toml::parse(std::string_view(text), std::string_view(origin));
   } catch (const toml::parse_error& err) {
     throw InputError(fmt::format("{}:{}:{}: not valid TOML: {}", origin, err.source().begin.line,
@@ -566,24 +568,24 @@ std::string normalise_zone(ZoneSystem s, std::string_view text, std::string_view
                         std::all_of(z.begin(), z.end(), [](unsigned char c) { return std::isdigit(c); });
     if (digits) n = std::stoi(z);
     if (!digits || n < 1 || n > 16)
-      throw InputError(fmt::format("{}: '{}' is not a California climate zone (allowed: 1 to 16, "
+      throw InputError(fmt::format("{}: {} is not a California climate zone (allowed: 1 to 16, "
                                    "written 12 or CZ12)",
-                                   origin, text));
+                                   origin, echo(text)));
     return fmt::format("CZ{}", n);
   }
   for (std::string_view known : kAshraeZones)
     if (known == z) return z;
   if (z.size() == 2 && (z[0] == '7' || z[0] == '8'))
-    throw InputError(fmt::format("{}: climate zone '{}': ASHRAE 169 zones 7 and 8 have no A/B/C "
+    throw InputError(fmt::format("{}: climate zone {}: ASHRAE 169 zones 7 and 8 have no A/B/C "
                                  "split; write {}",
-                                 origin, text, z[0]));
+                                 origin, echo(text), z[0]));
   if (z.size() == 1 && z[0] >= '0' && z[0] <= '6')
-    throw InputError(fmt::format("{}: climate zone '{}' needs its moisture regime letter (for "
+    throw InputError(fmt::format("{}: climate zone {} needs its moisture regime letter (for "
                                  "example {}A)",
-                                 origin, text, z));
+                                 origin, echo(text), z));
   std::vector<std::string> all(std::begin(kAshraeZones), std::end(kAshraeZones));
-  throw InputError(fmt::format("{}: '{}' is not an ASHRAE 169 climate zone (allowed: {})", origin,
-                               text, join(all, ", ")));
+  throw InputError(fmt::format("{}: {} is not an ASHRAE 169 climate zone (allowed: {})", origin,
+                               echo(text), join(all, ", ")));
 }
 
 // --- Edition ------------------------------------------------------------------------------
@@ -664,8 +666,8 @@ const Edition& CodeTables::edition(std::string_view id, std::string_view origin)
   if (const Edition* e = find(id)) return *e;
   std::vector<std::string> ids;
   for (const auto& e : editions_) ids.push_back(e.id);
-  throw InputError(fmt::format("{}: '{}' is not a loaded code edition (allowed: {})", origin, id,
-                               join(ids, ", ")));
+  throw InputError(fmt::format("{}: {} is not a loaded code edition (allowed: {})", origin,
+                               echo(id), join(ids, ", ")));
 }
 
 // --- Requirements -------------------------------------------------------------------------
@@ -715,6 +717,19 @@ ZoneRequirements requirements(const Edition& edition, std::string_view zone, con
       req.prohibited.push_back(row);
   }
   return req;
+}
+
+void check_site_code(std::string_view edition, std::string_view edition_origin,
+                     std::string_view zone, std::string_view zone_origin) {
+  if (edition.empty() && zone.empty()) return;
+  if (edition.empty() || zone.empty())
+    throw InputError(fmt::format("{}: the site names {} but no {}; give both energy_code and "
+                                 "climate_zone in [site], or neither",
+                                 edition.empty() ? zone_origin : edition_origin,
+                                 edition.empty() ? "a climate zone" : "an energy code",
+                                 edition.empty() ? "energy_code" : "climate_zone"));
+  const CodeTables tables = CodeTables::load_installed();
+  requirements(tables.edition(edition, edition_origin), zone, {}, zone_origin);
 }
 
 // --- Matching -----------------------------------------------------------------------------

@@ -25,7 +25,30 @@ const VerdictText& text(Verdict v) {
   return kVerdicts[0];
 }
 
+constexpr std::pair<TargetReach, std::string_view> kReachKeys[] = {
+    {TargetReach::reachable, "reachable"},
+    {TargetReach::same_dry_bulb, "same_dry_bulb"},
+    {TargetReach::beyond_outdoor_air, "beyond_outdoor_air"},
+    {TargetReach::beyond_return_air, "beyond_return_air"},
+};
+
+// A fraction this close to 0 or 1 is the end itself (rounding of the mixing line).
+constexpr double kReachTolerance = 1e-9;
+
 }  // namespace
+
+std::string_view target_reach_key(TargetReach r) {
+  for (const auto& [reach, key] : kReachKeys)
+    if (reach == r) return key;
+  return "reachable";
+}
+
+TargetReach target_reach(const airside::MixedAirEstimate& e) {
+  if (!e.target_reachable) return TargetReach::same_dry_bulb;
+  if (e.fraction_needed > 1.0 + kReachTolerance) return TargetReach::beyond_outdoor_air;
+  if (e.fraction_needed < -kReachTolerance) return TargetReach::beyond_return_air;
+  return TargetReach::reachable;
+}
 
 std::string_view verdict_name(Verdict v) { return text(v).name; }
 std::string_view verdict_key(Verdict v) { return text(v).key; }
@@ -56,6 +79,7 @@ PointCheck check_point(const airside::AirHandler& unit, const airside::EnergyWei
                              airside::coil_limits(unit, pc.pressure_kpa)};
   pc.estimate = airside::estimate_mixed_air(air.outdoor, air.ret, pc.mixed_air_target_c,
                                             unit.min_oa_fraction, unit.max_oa_fraction);
+  pc.reach = target_reach(pc.estimate);
   pc.estimate_loads = airside::coil_loads(unit, air.coil, pc.estimate.mixed);
 
   pc.choice = airside::choose(unit, air, weights);

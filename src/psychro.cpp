@@ -133,7 +133,9 @@ class InverseBranch {
   // t with ln p_ws(t) = y, for y within the branch.
   double invert(double y) const {
     const double x = (y - y_lo_) * inv_step_;
-    const std::size_t i = std::min(static_cast<std::size_t>(std::max(x, 0.0)), nodes_.size() - 2);
+    // Held to the table before the cast, so no argument makes the conversion undefined.
+    const std::size_t i = static_cast<std::size_t>(
+        x > 0.0 ? std::min(x, static_cast<double>(nodes_.size() - 2)) : 0.0);
     const double u = x - static_cast<double>(i);
     const Node& a = nodes_[i];
     const Node& b = nodes_[i + 1];

@@ -2,6 +2,7 @@
 #include <limitline/sensors.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/plausible.hpp>
 #include <limitline/psychro.hpp>
 
 #include <fmt/format.h>
@@ -354,7 +355,7 @@ SensorSet read_sensors(const toml::table* table, std::string_view file, units::S
       if (k.name == normalise(name)) kind = k.value;
     if (!kind)
       fail(kind_node->source(), kKindKey,
-           fmt::format("'{}' is not allowed (allowed: {})", name, names_of(kKindNames)));
+           fmt::format("{} is not allowed (allowed: {})", echo(name), names_of(kKindNames)));
   }
   // Keys in the order written (the table itself keeps them sorted by name), so that every
   // message is about the first offending line.
@@ -405,13 +406,18 @@ SensorSet read_sensors(const toml::table* table, std::string_view file, units::S
     const SensorRow* r = row_by_key(key);
     if (r == nullptr) continue;
     const std::string where = origin(v.source(), k.str());
-    const double a = units::parse(r->unit_kind, text_of(v, k.str(), true), bare, where);
-    if (!(a >= 0.0 && a <= r->max))
+    const std::string band = fmt::format("sensors.{}", r->key);
+    double a = plausible::parse(*plausible::find(band), text_of(v, k.str(), true), bare,
+                                {where, plausible::in_file(bare)},
+                                s.warnings);
+    // The largest accuracy is accepted as written in either system ("18F" for 10 K).
+    if (!units::within(a, 0.0, r->max))
       fail(v.source(), k.str(),
-           fmt::format("{} is outside the allowed range (0 to {}; an accuracy is a ± half-width "
+           fmt::format("{} is outside the allowed range ({}; an accuracy is a ± half-width "
                        "or a standard deviation, never negative)",
                        units::format(r->unit_kind, bare, a, 2),
-                       units::format(r->unit_kind, bare, r->max, 1)));
+                       units::format_range(r->unit_kind, bare, 0.0, r->max)));
+    a = units::held_within(a, 0.0, r->max);
     at(s.accuracy, r->sensor) = a;
     s.given[static_cast<std::size_t>(r->sensor)] = true;
   }
@@ -422,9 +428,9 @@ SensorSet read_sensors(const toml::table* table, std::string_view file, units::S
       if (n.name == normalise(name)) s.distribution = n.value, found = true;
     if (!found)
       fail(d->source(), kDistributionKey,
-           fmt::format("'{}' is not allowed (allowed: {}; with normal, each accuracy is the "
+           fmt::format("{} is not allowed (allowed: {}; with normal, each accuracy is the "
                        "standard deviation)",
-                       name, names_of(kDistributionNames)));
+                       echo(name), names_of(kDistributionNames)));
   }
   return s;
 }
@@ -803,10 +809,14 @@ SweepSpec parse_sweep(std::string_view text, HumidityKind configured, units::Sys
       throw InputError(fmt::format("{}: bias {} is outside the allowed range (-{} to {})", origin,
                                    show(x), show(r->max), show(r->max)));
   constexpr std::size_t kMaxPoints = 401;
+  // A tiny STEP makes the count overflow any integer (or a double): it is compared as a
+  // double and printed only when it is small enough to be a count.
   const double steps = std::floor((v[1] - v[0]) / v[2] + 1e-9);
-  if (steps + 1.0 > static_cast<double>(kMaxPoints))
-    throw InputError(fmt::format("{}: {} biases asked for; at most {} (use a larger STEP)", origin,
-                                 static_cast<long long>(steps) + 1, kMaxPoints));
+  if (!(steps + 1.0 <= static_cast<double>(kMaxPoints)))
+    throw InputError(fmt::format(
+        "{}: {} biases asked for; at most {} (use a larger STEP)", origin,
+        steps < 1e9 ? fmt::format("{:.0f}", steps + 1.0) : std::string("more than a billion"),
+        kMaxPoints));
   for (std::size_t i = 0; i <= static_cast<std::size_t>(steps); ++i) {
     double x = v[0] + static_cast<double>(i) * v[2];
     // A point that is zero but for rounding is the exact-sensor point.

@@ -4,7 +4,9 @@
 #include <limitline/input_file.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/plausible.hpp>
 #include <limitline/psychro.hpp>
+#include <limitline/toml_depth.hpp>
 
 #include <fmt/format.h>
 
@@ -68,9 +70,9 @@ constexpr DeadbandKey kDeadbandKeys[] = {
 };
 constexpr std::string_view kSingleDeadbandKey = "deadband";
 
-// Plausibility bounds of strategy settings (SI), so that a slip such as "28btu/lb" written
-// as "280" is caught: limits inside [limit_min, limit_max], offsets within ±difference_max,
-// deadbands in [0, difference_max].
+// Allowed ranges of strategy settings (SI), so that a slip such as "28btu/lb" written as
+// "280" is caught: limits inside [limit_min, limit_max], offsets within ±difference_max,
+// deadbands in [0, difference_max]. Their narrower plausible bands are in plausible.cpp.
 struct SettingBounds {
   Quantity quantity;
   double limit_min, limit_max, difference_max;
@@ -149,6 +151,8 @@ class Reader {
   explicit Reader(std::string file) : file_(std::move(file)) {}
 
   units::System system = units::System::ip;
+  // Implausible values used as written (UnitFile::warnings).
+  mutable std::vector<std::string> warnings;
 
   std::string origin(const toml::source_region& where, std::string_view key) const {
     return fmt::format("{}:{}: {}", file_, line_of(where), key);
@@ -200,13 +204,21 @@ class Reader {
          fmt::format("must be a string in quotes, not {}", type_name(*n)));
   }
 
-  // A quantity: a string with or without unit, or a bare TOML number in the file's system.
+  // A quantity: a string with or without unit, or a bare TOML number in the file's system,
+  // weighed against its plausible band (named `band`, else PATH.KEY).
   std::optional<double> quantity(const toml::table& t, std::string_view key,
-                                 std::string_view path, Kind kind) const {
+                                 std::string_view path, Kind kind,
+                                 std::string_view band = {}) const {
     const toml::node* n = t.get(key);
     if (n == nullptr) return std::nullopt;
-    return units::parse(kind, quantity_text(*n, join_path(path, key), kind),
-                        system, origin(n->source(), join_path(path, key)));
+    const std::string full = join_path(path, key);
+    const std::string text = quantity_text(*n, full, kind);
+    const std::string where = origin(n->source(), full);
+    const plausible::Band* b = plausible::find(band.empty() ? std::string_view(full) : band);
+    if (b == nullptr || b->kind != kind) return units::parse(kind, text, system, where);
+    return plausible::parse(
+        *b, text, system,
+        {where, plausible::in_file(system)}, warnings);
   }
 
   // A dimensionless number: a TOML number, or a string holding one.
@@ -233,16 +245,21 @@ class Reader {
     for (const auto& c : names)
       if (c.name == n) return c.value;
     fail(t.get(key)->source(), join_path(path, key),
-         fmt::format("'{}' is not allowed (allowed: {})", *s,
+         fmt::format("{} is not allowed (allowed: {})", echo(*s),
                      join(names, [](const Named<T>& c) { return std::string(c.name); })));
   }
 
+  // Bounds are inclusive, up to the rounding of a unit conversion ("36F" is the 20 K end):
+  // a value that rounds past an end is held to it. The error names the key's own line.
   void check_range(const toml::table& t, std::string_view key, std::string_view path, Kind kind,
-                   double value, double lo, double hi, std::string_view allowed = {}) const {
-    if (value >= lo && value <= hi) return;
+                   double& value, double lo, double hi, std::string_view allowed = {}) const {
+    if (units::within(value, lo, hi)) {
+      value = units::held_within(value, lo, hi);
+      return;
+    }
     fail(t.get(key)->source(), join_path(path, key),
          fmt::format("{} is outside the allowed range ({})", show(kind, value),
-                     allowed.empty() ? fmt::format("{} to {}", show(kind, lo), show(kind, hi))
+                     allowed.empty() ? units::format_range(kind, system, lo, hi)
                                      : std::string(allowed)));
   }
 
@@ -295,12 +312,8 @@ Site read_site(const Reader& r, const toml::table* t) {
   r.check_keys(*t, "site", kSiteKeys, "[site]");
   if (auto n = r.text(*t, "name", "site")) s.name = *n;
   if (auto z = r.quantity(*t, "elevation", "site", Kind::length)) {
-    try {
-      psychro::standard_pressure_kpa(*z);
-    } catch (const RangeError&) {
-      r.check_range(*t, "elevation", "site", Kind::length, *z, psychro::kMinElevationM,
-                    psychro::kMaxElevationM);
-    }
+    r.check_range(*t, "elevation", "site", Kind::length, *z, psychro::kMinElevationM,
+                  psychro::kMaxElevationM);
     s.elevation_m = z;
   }
   if (auto p = r.quantity(*t, "pressure", "site", Kind::pressure)) {
@@ -351,9 +364,7 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
   r.check_range(t, "supply_air_temp", P, Kind::temperature, a.supply_air_temp_c, -40.0, 60.0);
 
   if (auto f = r.quantity(t, "fan_heat", P, Kind::temperature_difference)) {
-    if (!(*f >= 0.0 && *f < 20.0))
-      r.check_range(t, "fan_heat", P, Kind::temperature_difference, *f, 0.0, 20.0,
-                    fmt::format("0 up to {}", r.show(Kind::temperature_difference, 20.0)));
+    r.check_range(t, "fan_heat", P, Kind::temperature_difference, *f, 0.0, 20.0);
     a.fan_heat_k = *f;
   }
   if (auto f = r.choice(t, "fan_position", P, kFanPositions)) a.fan_position = *f;
@@ -375,8 +386,10 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
     r.check_range(t, min_key, P, Kind::fraction, a.min_oa_fraction, 0.0, 1.0);
   } else if (min_flow) {
     min_key = "min_outdoor_airflow";
-    const double flow = *r.quantity(t, min_key, P, Kind::airflow);
-    if (!(flow >= 0.0 && flow <= a.supply_airflow_m3_per_s))
+    double flow = *r.quantity(t, min_key, P, Kind::airflow);
+    if (units::within(flow, 0.0, a.supply_airflow_m3_per_s))
+      flow = units::held_within(flow, 0.0, a.supply_airflow_m3_per_s);
+    else
       r.fail(min_flow->source(), "air_handler.min_outdoor_airflow",
              fmt::format("{} is outside the allowed range (0 up to supply_airflow {})",
                          r.show(Kind::airflow, flow),
@@ -413,6 +426,7 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
   // Return air: dry-bulb and exactly one humidity form.
   u.return_air.dry_bulb_c =
       required("return_air_temp", Kind::temperature, is_ip ? "75F" : "24C");
+  u.return_air.system = r.system;
   const ReturnHumidityKey* given = nullptr;
   for (const auto& h : kReturnHumidityKeys) {
     const toml::node* n = t.get(h.key);
@@ -470,24 +484,31 @@ airside::EnergyWeights read_energy(const Reader& r, const toml::table* t) {
   return w;
 }
 
-// A limit, offset or deadband of quantity q, with its plausibility bounds.
+// The plausible band of a setting: "strategy.dew_point_limit" for a dew-point limit.
+std::string setting_band(Quantity q, std::string_view role) {
+  std::string stem(highlimit::quantity_name(q));
+  std::replace(stem.begin(), stem.end(), '-', '_');
+  return fmt::format("strategy.{}_{}", stem, role);
+}
+
+// A limit, offset or deadband of quantity q, within its allowed range.
 double read_setting(const Reader& r, const toml::table& t, std::string_view key,
                     std::string_view path, Quantity q, Reference ref, bool is_deadband) {
   const SettingBounds& b = bounds(q);
   if (is_deadband) {
     const Kind k = highlimit::quantity_difference_kind(q);
-    const double v = *r.quantity(t, key, path, k);
+    double v = *r.quantity(t, key, path, k, setting_band(q, "deadband"));
     r.check_range(t, key, path, k, v, 0.0, b.difference_max);
     return v;
   }
   if (ref == Reference::fixed) {
     const Kind k = highlimit::quantity_kind(q);
-    const double v = *r.quantity(t, key, path, k);
+    double v = *r.quantity(t, key, path, k, setting_band(q, "limit"));
     r.check_range(t, key, path, k, v, b.limit_min, b.limit_max);
     return v;
   }
   const Kind k = highlimit::quantity_difference_kind(q);
-  const double v = *r.quantity(t, key, path, k);
+  double v = *r.quantity(t, key, path, k, setting_band(q, "offset"));
   r.check_range(t, key, path, k, v, -b.difference_max, b.difference_max);
   return v;
 }
@@ -510,14 +531,14 @@ highlimit::Condition read_condition(const Reader& r, const toml::table& c,
   const auto q = highlimit::quantity_from_name(normalise_name(*qname));
   if (!q)
     r.fail(c.get("quantity")->source(), Reader::join_path(path, "quantity"),
-           fmt::format("'{}' is not a quantity (allowed: {})", *qname, quantity_list()));
+           fmt::format("{} is not a quantity (allowed: {})", echo(*qname), quantity_list()));
   highlimit::Condition cond;
   cond.quantity = *q;
   if (const auto rname = r.text(c, "reference", path)) {
     const auto ref = highlimit::reference_from_name(normalise_name(*rname));
     if (!ref)
       r.fail(c.get("reference")->source(), Reader::join_path(path, "reference"),
-             fmt::format("'{}' is not a reference (allowed: fixed, return)", *rname));
+             fmt::format("{} is not a reference (allowed: fixed, return)", echo(*rname)));
     cond.reference = *ref;
   }
   if (cond.reference == Reference::fixed) {
@@ -648,7 +669,7 @@ std::vector<highlimit::Strategy> read_strategies(const Reader& r, const toml::ta
       const std::string preset = normalise_name(*preset_text);
       if (!highlimit::is_preset(preset))
         r.fail(t.get("preset")->source(), Reader::join_path(path, "preset"),
-               fmt::format("'{}' is not a preset (allowed: {})", *preset_text, preset_list()));
+               fmt::format("{} is not a preset (allowed: {})", echo(*preset_text), preset_list()));
       s = read_preset_strategy(r, t, path, preset, name.value_or(preset));
     } else if (conditions) {
       for (const auto& pk : kPresetKeys)
@@ -681,9 +702,9 @@ std::vector<highlimit::Strategy> read_strategies(const Reader& r, const toml::ta
     for (std::size_t k = 0; k < out.size(); ++k)
       if (out[k].name == s.name)
         r.fail(name_at, Reader::join_path(path, "name"),
-               fmt::format("'{}' is already the name of strategy[{}] (line {}); names must "
+               fmt::format("{} is already the name of strategy[{}] (line {}); names must "
                            "differ",
-                           s.name, k + 1, name_lines[k]));
+                           echo(s.name), k + 1, name_lines[k]));
     name_lines.push_back(line_of(name_at));
     out.push_back(std::move(s));
   }
@@ -713,6 +734,7 @@ std::string source_origin(const toml::source_region& where, std::string_view key
 }
 
 UnitFile parse_unit_file(std::string_view text, std::string_view name) {
+  check_toml_depth(text, name);
   toml::table root;
   try {
     root = toml::parse(text, std::string(name));
@@ -739,6 +761,7 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
   u.weights = read_energy(r, r.table(root, "energy", ""));
   u.strategies = read_strategies(r, root);
   u.strategies_defaulted = u.strategies.empty();
+  u.warnings = std::move(r.warnings);
   // Moved, not copied: a toml++ copy drops the source lines the owning layers report.
   for (auto [key, slot] : {std::pair{"weather", &u.weather}, std::pair{"schedule", &u.schedule},
                            std::pair{"sensors", &u.sensors}})

@@ -249,18 +249,21 @@ void add_compliance(report::YearContext& c, const YearInputs& in, const CodeSele
   if (edition.empty())
     throw InputError(fmt::format("{}: climate_zone is given but no energy_code (set [site] "
                                  "energy_code or --edition)",
-                                 in.unit.path));
+                                 code.zone ? std::string("--zone") : site.climate_zone_origin));
   if (zone.empty())
     throw InputError(fmt::format("{}: energy_code is given but no climate_zone (set [site] "
                                  "climate_zone or --zone)",
-                                 in.unit.path));
+                                 code.edition ? std::string("--edition") : site.energy_code_origin));
   std::vector<std::filesystem::path> extra(code.extra_tables.begin(), code.extra_tables.end());
   const codes::CodeTables tables = codes::CodeTables::load_installed(extra);
+  // Errors name where each value came from: the option, or the [site] key's FILE:LINE.
+  const std::string edition_origin = code.edition ? "--edition" : site.energy_code_origin;
+  const std::string zone_origin = code.zone ? "--zone" : site.climate_zone_origin;
   const auto words = codes::compliance_words(tables, edition, zone, site.design_pressure_kpa(),
-                                             in.strategies);
+                                             in.strategies, edition_origin, zone_origin);
   for (std::size_t i = 0; i < in.strategies.size() && i < words.size(); ++i)
     c.compliance[in.strategies[i].name] = words[i];
-  const codes::Edition& e = tables.edition(edition, code.edition ? "--edition" : site.energy_code_origin);
+  const codes::Edition& e = tables.edition(edition, edition_origin);
   c.code_label = fmt::format("{}, climate zone {} (tables from memory; verify against the "
                              "adopted edition — see limitline code)",
                              e.title, zone);

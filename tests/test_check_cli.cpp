@@ -8,6 +8,8 @@
 #include <limitline/point_check.hpp>
 #include <limitline/unit_file.hpp>
 
+#include "support/cli.hpp"
+
 #include <fmt/format.h>
 
 #include <sys/wait.h>
@@ -194,7 +196,8 @@ TEST_CASE("check: the text report has every section and the cautions") {
   const Run r = run("check '" + unit + "' --outdoor 68F/dp58F");
   REQUIRE(r.code == 0);
   for (const char* s : {"Unit         CLI test unit", "Air the decisions are made on", "outdoor",
-                        "return", "Hand calculation", "Outdoor air needed for 53.5 °F mixed air",
+                        "return", "Hand calculation",
+                        "Mixed air of 53.5 °F is not reachable: would need 308.3% outdoor air",
                         "Economizer disabled and enabled", "optimal damper", "Strategies",
                         "Conditions", "enthalpy above return + 0.00 Btu/lb", "Cautions:",
                         "authority having jurisdiction", "Ventilation minimums"})
@@ -310,4 +313,139 @@ TEST_CASE("check_point: verdict tolerance and the perfect changeover") {
     }
     CHECK(pc.optimal.weighted_kj_per_kg <= pc.changeover_kj_per_kg + 1e-12);
   }
+}
+
+// --- Input safety: reachability, plausibility, code names -----------------------------------
+
+namespace {
+using limitline::test::contains;
+using limitline::test::run_cli;
+}  // namespace
+
+TEST_CASE("check: a mixed-air target no damper position reaches is said so, never as a setting") {
+  const std::string unit = write_unit("reach.toml", kUnit).string();
+  // Target 55 − 1.5 = 53.5 °F. At 68 °F outdoor and 75 °F return, sensible mixing
+  // (ASHRAE Fundamentals ch. 1, adiabatic mixing, t weighted by mass) needs
+  // (75 − 53.5)/(75 − 68) = 307 % outdoor air: past the outdoor air itself.
+  auto r = run_cli({"check", unit, "--outdoor", "68F/dp58F"}, "check-reach");
+  REQUIRE(r.rc == 0);
+  CHECK(contains(r.out, "Mixed air of 53.5 °F is not reachable: would need 308.3% outdoor air"));
+  CHECK_FALSE(contains(r.out, "Outdoor air needed"));
+  auto j = run_cli({"check", unit, "--outdoor", "68F/dp58F", "--format", "json"}, "check-reach");
+  REQUIRE(j.rc == 0);
+  CHECK(contains(j.out, "\"target_reachable\": false"));
+  CHECK(contains(j.out, "\"reach\": \"beyond_outdoor_air\""));
+  const double needed = json_number(j.out, "outdoor_air_needed_pct");
+  CHECK(needed == doctest::Approx(307.1).epsilon(0.01));  // the sensible estimate, within 1 %
+  CHECK(fmt::format("{:.1f}", needed) == "308.3");        // the text and the JSON agree
+  // 85 °F outdoor: the target lies past the return air, on the far side from the outdoor air
+  // ((75 − 53.5)/(75 − 85) would be −215 %): no percentage is offered.
+  r = run_cli({"check", unit, "--outdoor", "85F/40%"}, "check-reach");
+  REQUIRE(r.rc == 0);
+  CHECK(contains(r.out, "not reachable: it lies beyond the return air 75.0 °F"));
+  const auto hand = r.out.substr(r.out.find("Hand calculation"));
+  CHECK_FALSE(contains(hand.substr(0, hand.find("Economizer disabled")), "-"));
+  j = run_cli({"check", unit, "--outdoor", "85F/40%", "--format", "json"}, "check-reach");
+  CHECK(contains(j.out, "\"target_reachable\": false"));
+  CHECK(contains(j.out, "\"reach\": \"beyond_return_air\""));
+  // A reachable target keeps the fraction: 40 °F outdoor needs about (75 − 53.5)/35 = 61 %.
+  r = run_cli({"check", unit, "--outdoor", "40F/50%"}, "check-reach");
+  CHECK(contains(r.out, "Outdoor air needed for 53.5 °F mixed air: 6"));
+}
+
+TEST_CASE("check: command-line air is weighed against plausible bands") {
+  const std::string unit = write_unit("plaus.toml", kUnitHead).string();
+  // 68 read in SI units is 68 °C; 68 °F (20 °C) is an ordinary outdoor dry-bulb (−50…55 °C,
+  // common practice).
+  auto r = run_cli({"check", unit, "--outdoor", "68/50%", "--units", "si"}, "check-plaus");
+  CHECK(r.rc == 2);
+  CHECK(contains(r.err, "--outdoor dry-bulb: 68 read in SI units is 68 °C, outside the plausible "
+                        "range of an outdoor dry-bulb (-50 °C to 55 °C, common practice); if you "
+                        "meant 68 °F write \"68F\""));
+  CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
+  // 24 read in IP return air is 24 °F; 24 °C is meant.
+  r = run_cli({"check", unit, "--outdoor", "68F/50%", "--return", "24/50%"}, "check-plaus");
+  CHECK(r.rc == 2);
+  CHECK(contains(r.err, "write \"24C\""));
+  // With its unit the value is used, with a warning on stderr and in the context block;
+  // --strict makes it an error.
+  r = run_cli({"check", unit, "--outdoor", "60C/5%"}, "check-plaus");
+  CHECK(r.rc == 0);
+  CHECK(contains(r.err, "warning: --outdoor dry-bulb: '60C' (140 °F) is outside the plausible range"));
+  CHECK(contains(r.out, "Warning      --outdoor dry-bulb: '60C'"));
+  r = run_cli({"check", unit, "--outdoor", "60C/5%", "--strict"}, "check-plaus");
+  CHECK(r.rc == 2);
+  CHECK(contains(r.err, "--strict makes warnings errors"));
+}
+
+TEST_CASE("check: unit-file values in the wrong unit system and beyond physics are refused") {
+  std::string si = "units = \"si\"\n" + kUnitHead;
+  si.replace(si.find("return_air_temp = \"75F\""), 23, "return_air_temp = 75");
+  auto r = run_cli({"check", write_unit("si75.toml", si).string(), "--outdoor", "20C/50%"},
+                   "check-plaus");
+  CHECK(r.rc == 2);
+  CHECK(contains(r.err, "si75.toml:9: air_handler.return_air_temp: 75 in an SI file is 75 °C"));
+  CHECK(contains(r.err, "if you meant 75 °F write \"75F\""));
+  std::string huge = kUnitHead;
+  huge.replace(huge.find("\"10000cfm\""), 10, "\"1e308cfm\"");
+  for (const char* format : {"text", "json", "md"}) {
+    r = run_cli({"check", write_unit("huge.toml", huge).string(), "--outdoor", "68F/50%",
+                 "--format", format},
+                "check-plaus");
+    CHECK(r.rc == 2);
+    CHECK(contains(r.err, "huge.toml:4: air_handler.supply_airflow: '1e308cfm' is beyond any "
+                          "physical airflow"));
+    CHECK(r.out.empty());
+  }
+  std::string grouped = kUnitHead;
+  grouped.replace(grouped.find("\"10000cfm\""), 10, "\"10,000 cfm\"");
+  r = run_cli({"check", write_unit("grouped.toml", grouped).string(), "--outdoor", "68F/50%"},
+              "check-plaus");
+  CHECK(r.rc == 0);
+  CHECK(contains(r.out, "10000 cfm supply"));
+}
+
+TEST_CASE("a bad [site] energy_code or climate_zone names FILE:LINE in check, sensors and year") {
+  const std::string weather = std::string(LIMITLINE_SOURCE_DIR) + "/tests/data/greensboro-nc-tmy3.csv";
+  const std::string bad_code = write_unit(
+      "badcode.toml", "[site]\nname = \"x\"\nenergy_code = \"ashrae-90.1-2099\"\nclimate_zone = \"4A\"\n" +
+                          kUnitHead.substr(kUnitHead.find("[air_handler]"))).string();
+  const std::string bad_zone = write_unit(
+      "badzone.toml", "[site]\nname = \"x\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"4D\"\n" +
+                          kUnitHead.substr(kUnitHead.find("[air_handler]"))).string();
+  const std::vector<std::vector<std::string>> commands = {
+      {"check", "--outdoor", "68F/50%"},
+      {"sensors", "--weather", weather, "--trials", "1", "--break-even-trials", "0"},
+      {"year", "--weather", weather}};
+  for (const auto& c : commands) {
+    INFO(c[0]);
+    std::vector<std::string> args = {c[0], bad_code};
+    args.insert(args.end(), c.begin() + 1, c.end());
+    auto r = run_cli(args, "check-code");
+    CHECK(r.rc == 2);
+    CHECK(contains(r.err, "badcode.toml:3: site.energy_code: 'ashrae-90.1-2099' is not a loaded code edition"));
+    args[1] = bad_zone;
+    r = run_cli(args, "check-code");
+    CHECK(r.rc == 2);
+    CHECK(contains(r.err, "badzone.toml:4: site.climate_zone:"));
+    CHECK(contains(r.err, "4D"));
+  }
+}
+
+TEST_CASE("--pressure and --elevation are weighed against the plausible band of a site") {
+  // 14.7 read in SI units is 14.7 kPa (about 13,700 m up); 14.7 psia is 101.4 kPa (NIST SP 811).
+  auto r = run_cli({"state", "--dry-bulb", "24C", "--rh", "50%", "--pressure", "14.7", "--units", "si"},
+                   "check-site");
+  CHECK(r.rc == 2);
+  CHECK(contains(r.err, "--pressure: 14.7 read in SI units is 14.7 kPa"));
+  CHECK(contains(r.err, "if you meant 14.7 psia write \"14.7psia\""));
+  // 8000 m is a real place but no site for an air handler (common practice): a warning.
+  r = run_cli({"code", "--edition", "ashrae-90.1-2019", "--zone", "5B", "--elevation", "8000m"},
+              "check-site");
+  CHECK(r.rc == 0);
+  CHECK(contains(r.err, "warning: --elevation: '8000m'"));
+  r = run_cli({"code", "--edition", "ashrae-90.1-2019", "--zone", "5B", "--elevation", "8000m",
+               "--strict"},
+              "check-site");
+  CHECK(r.rc == 2);
 }

@@ -762,3 +762,38 @@ TEST_CASE("setting keys follow the JSON key convention") {
   CHECK(codes::tolerance(Quantity::dry_bulb, units::System::ip) == codes::kTemperatureToleranceF);
   CHECK(codes::tolerance(Quantity::enthalpy, units::System::si) == codes::kEnthalpyToleranceKjPerKg);
 }
+
+TEST_CASE("a code table nested beyond 64 levels is refused before the parser sees it") {
+  std::string dotted;
+  for (int i = 0; i < 50000; ++i) dotted += i ? ".a" : "a";
+  check_error([&] { (void)from_text("[edition]\nid = \"x\"\n" + dotted + " = 1\n", "deep.toml"); },
+              {"deep.toml:3:", "nested more than 64 levels deep"});
+  check_error([&] { (void)from_text("[" + dotted + "]\n", "deep.toml"); },
+              {"deep.toml:1:", "nested more than 64 levels deep"});
+  check_error([&] { (void)from_text("x = " + std::string(50000, '[') + "\n", "deep.toml"); },
+              {"deep.toml:1:", "nested more than 64 levels deep"});
+}
+
+TEST_CASE("a unit's [site] energy_code and climate_zone are checked, naming FILE:LINE") {
+  CHECK_NOTHROW(codes::check_site_code("", "", "", ""));
+  CHECK_NOTHROW(codes::check_site_code("ashrae-90.1-2019", "u.toml:4: site.energy_code", "4a",
+                                       "u.toml:5: site.climate_zone"));
+  check_error([] { codes::check_site_code("ashrae-90.1-2099", "u.toml:4: site.energy_code", "4A",
+                                          "u.toml:5: site.climate_zone"); },
+              {"u.toml:4: site.energy_code: 'ashrae-90.1-2099' is not a loaded code edition",
+               "ashrae-90.1-2019"});
+  check_error([] { codes::check_site_code("ashrae-90.1-2019", "u.toml:4: site.energy_code", "4D",
+                                          "u.toml:5: site.climate_zone"); },
+              {"u.toml:5: site.climate_zone:", "4D"});
+  check_error([] { codes::check_site_code("ashrae-90.1-2019", "u.toml:4: site.energy_code", "", ""); },
+              {"u.toml:4: site.energy_code: the site names an energy code but no climate_zone"});
+  check_error([] { codes::check_site_code("", "", "4A", "u.toml:5: site.climate_zone"); },
+              {"u.toml:5: site.climate_zone: the site names a climate zone but no energy_code"});
+}
+
+TEST_CASE("zone and edition errors echo the value safely") {
+  check_error([] { (void)codes::normalise_zone(codes::ZoneSystem::ashrae169, "4\x1b[2J", "--zone"); },
+              {"--zone", "'4\\x1b[2J'"});
+  check_error([] { (void)shipped().edition(std::string(500, 'x')); },
+              {"--edition", "(500 characters)"});
+}

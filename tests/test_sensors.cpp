@@ -507,7 +507,7 @@ TEST_CASE("[sensors]: every error names file, line and key") {
   std::string e = error_of("outdoor_rh = \"5%\"\noutdoor_tempurature = \"1F\"\n");
   CHECK(e.find(line(1) + "outdoor_tempurature: unknown key in [sensors] (allowed: outdoor_dry_bulb") == 0);
   e = error_of("outdoor_rh = \"-2%\"\n");
-  CHECK(e.find(line(0) + "outdoor_rh: -2.00% is outside the allowed range (0 to 30.0%") == 0);
+  CHECK(e.find(line(0) + "outdoor_rh: -2.00% is outside the allowed range (0% to 30%") == 0);
   e = error_of("outdoor_dry_bulb = \"25F\"\n");
   CHECK(e.find(line(0) + "outdoor_dry_bulb: 25.00 °F is outside the allowed range") == 0);
   e = error_of("outdoor_dry_bulb = \"5btu/lb\"\n");
@@ -526,6 +526,24 @@ TEST_CASE("[sensors]: every error names file, line and key") {
                std::to_string(kFirstLine)) == 0);
   e = error_of("outdoor_rh = \"0.5\"\n");
   CHECK(e.find(line(0) + "outdoor_rh: '0.5' is ambiguous") == 0);
+}
+
+TEST_CASE("[sensors]: the largest accuracy is accepted as documented, in either system") {
+  // README: at most 10 K (18 °F), 30 % RH, 20 kJ/kg; 18 °F is 10 K exactly (NIST SP 811).
+  const auto s = read_table("outdoor_dry_bulb = \"18F\"\nreturn_dry_bulb = \"10K\"\noutdoor_rh = \"30%\"\n");
+  CHECK(at(s.accuracy, Sensor::outdoor_dry_bulb) == 10.0);
+  CHECK(at(s.accuracy, Sensor::return_dry_bulb) == 10.0);
+  CHECK(at(s.accuracy, Sensor::outdoor_humidity) == doctest::Approx(0.30));
+  const auto e = read_table("outdoor_enthalpy = \"20kJ/kg\"\n");
+  CHECK(at(e.accuracy, Sensor::outdoor_humidity) == 20.0);
+  // Valid but far beyond any sensor in service (common practice): kept, with a warning on
+  // the key's own line.
+  REQUIRE(s.warnings.size() == 3);
+  CHECK(s.warnings[0].rfind("u.toml:" + std::to_string(kFirstLine) + ": sensors.outdoor_dry_bulb: '18F'", 0) == 0);
+  CHECK(s.warnings[0].find("outside the plausible range of a dry-bulb sensor accuracy") != std::string::npos);
+  // Just past the end is refused, naming the end that is accepted.
+  const std::string err = error_of("outdoor_rh = \"5%\"\noutdoor_dry_bulb = \"18.1F\"\n");
+  CHECK(err.find("u.toml:" + std::to_string(kFirstLine + 1) + ": sensors.outdoor_dry_bulb: 18.10 °F is outside the allowed range (0 °F to 18 °F") == 0);
 }
 
 // --- Sweep --------------------------------------------------------------------------------------
@@ -558,6 +576,11 @@ TEST_CASE("--sweep: parsing") {
   CHECK(err("outdoor_rh").find("--sweep: write SENSOR=FROM:TO:STEP") == 0);
   CHECK(err("indoor_rh=1%:2%:1%").find("--sweep: 'indoor_rh' is not a sensor (allowed: outdoor_dry_bulb") == 0);
   CHECK(err("outdoor_rh=1%:2%").find("--sweep: the range must be FROM:TO:STEP") == 0);
+  // A STEP so small the count overflows any integer: said in words, never a wrapped number.
+  const std::string tiny = err("outdoor_rh=-10%:10%:1e-300%");
+  CHECK(tiny.find("--sweep: more than a billion biases asked for; at most 401") == 0);
+  CHECK(tiny.find("-9223372036854775807") == std::string::npos);
+  CHECK(err("outdoor_rh=-10%:10%:0.01%").find("--sweep: 2001 biases asked for; at most 401") == 0);
   CHECK(err("outdoor_rh=1%:2%:1%:4%").find("--sweep: the range must be FROM:TO:STEP") == 0);
   CHECK(err("outdoor_rh=5%:-5%:1%").find("--sweep: FROM 5.00% is above TO -5.00%") == 0);
   CHECK(err("outdoor_rh=-5%:5%:0%").find("--sweep: STEP 0.00% must be more than 0") == 0);

@@ -292,7 +292,7 @@ TEST_CASE("contradictory values are refused") {
   refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_rh = \"105%\""), 17,
           "air_handler.return_air_rh", "105.0% is outside the allowed range (0% to 100%)");
   refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_dew_point = \"80F\""), 17,
-          "air_handler.return_air_dew_point", "above dry-bulb");
+          "air_handler.return_air_dew_point", "80 °F is above the dry-bulb 75 °F");
   refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_rh = \"50%\"\nreturn_air_dew_point = \"55F\""),
           18, "air_handler.return_air_dew_point", "give one return-air humidity");
   refuses(replace(kBase, "min_outdoor_air = \"25%\"", "min_outdoor_air = \"25%\"\nmin_outdoor_airflow = \"3000cfm\""),
@@ -350,7 +350,7 @@ preset = "fixed-enthalpy"
   refuses(kBase + "[[strategy]]\npreset = \"fixed-wet-bulb\"\n", 19, "strategy[1].preset",
           "'fixed-wet-bulb' is not a preset (allowed: fixed-dry-bulb,");
   refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndry_bulb_limit = \"170F\"\n", 20,
-          "strategy[1].dry_bulb_limit", "170.0 °F is outside the allowed range (-40.0 °F to 140.0 °F)");
+          "strategy[1].dry_bulb_limit", "170.0 °F is outside the allowed range (-40 °F to 140 °F)");
   refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndeadband = \"-1F\"\n", 20,
           "strategy[1].deadband", "outside the allowed range");
   refuses(kBase + "[strategy]\npreset = \"fixed-dry-bulb\"\n", 18, "strategy",
@@ -454,4 +454,140 @@ TEST_CASE("air points: dry-bulb with each humidity form") {
                        doctest::Contains("--outdoor 68F/120%: relative humidity"), InputError);
   const auto dp = parse_air_point("68F/dp70F", ip, "--outdoor");
   CHECK_THROWS_AS(dp.state(101.325), InputError);
+}
+
+// --- Plausibility, separate from physical validity -----------------------------------------
+
+namespace {
+// kBase in SI, line for line (the [site] elevation becomes a bare length in metres).
+std::string si_base() {
+  std::string t = "units = \"si\"\n" + kBase;  // every line moves down by one
+  return t;
+}
+}  // namespace
+
+TEST_CASE("a bare number plausible only in the other unit system is refused, naming both readings") {
+  // Return air 10–40 °C and supply setpoint 5–25 °C are common practice; 75 °F is 23.9 °C.
+  refuses(replace(si_base(), "return_air_temp = \"75F\"", "return_air_temp = 75"), 17,
+          "air_handler.return_air_temp",
+          "75 in an SI file is 75 °C, outside the plausible range of a return-air dry-bulb (10 °C "
+          "to 40 °C, common practice); if you meant 75 °F write \"75F\"");
+  refuses(replace(si_base(), "supply_airflow = \"12000cfm\"", "supply_airflow = 20000"), 9,
+          "air_handler.supply_airflow", "if you meant 20000 cfm write \"20000cfm\"");
+  // In an IP file "13" is 13 °F; the setpoint meant is 13 °C. The range is shown in °F.
+  refuses(replace(kBase, "supply_air_temp = \"55F\"", "supply_air_temp = \"13\""), 9,
+          "air_handler.supply_air_temp", "13 in an IP file is 13 °F, outside the plausible range "
+                                         "of a supply-air setpoint (41 °F to 77 °F");
+  // A dry-bulb high-limit of 24 °F is no setting; 24 °C is (common practice: 65–75 °F).
+  refuses(kBase + R"(
+[[strategy]]
+preset = "fixed-dry-bulb"
+dry_bulb_limit = 24
+)", 21, "strategy[1].dry_bulb_limit", "write \"24C\"");
+}
+
+TEST_CASE("an implausible value written with its unit is kept, with a warning naming file, line and key") {
+  const UnitFile u = parse_unit_file(
+      replace(kBase, "return_air_temp = \"75F\"", "return_air_temp = \"45C\""), "unit.toml");
+  CHECK(u.return_air.dry_bulb_c == 45.0);
+  REQUIRE(u.warnings.size() == 1);
+  CHECK(u.warnings[0].rfind("unit.toml:16: air_handler.return_air_temp: '45C' (113 °F) is outside "
+                            "the plausible range of a return-air dry-bulb (50 °F to 104 °F, "
+                            "common practice)",
+                            0) == 0);
+  // The shipped examples are plausible throughout.
+  for (const char* f : {"office-humid-coast.toml", "lab-high-plateau.toml",
+                        "school-custom-conditions.toml", "audit-office.toml"}) {
+    INFO(f);
+    CHECK(limitline::load_unit_file(std::string(LIMITLINE_SOURCE_DIR) + "/examples/" + f)
+              .warnings.empty());
+  }
+}
+
+TEST_CASE("magnitudes beyond any physical bound are refused, never inf or nan downstream") {
+  refuses(replace(kBase, "supply_airflow = \"12000cfm\"", "supply_airflow = \"1e308cfm\""), 8,
+          "air_handler.supply_airflow", "'1e308cfm' is beyond any physical airflow");
+  refuses(replace(kBase, "supply_airflow = \"12000cfm\"", "supply_airflow = 1e308"), 8,
+          "air_handler.supply_airflow", "beyond any physical airflow");
+  refuses(replace(kBase, "return_air_temp = \"75F\"", "return_air_temp = \"-1000F\""), 16,
+          "air_handler.return_air_temp", "beyond any physical temperature");
+}
+
+TEST_CASE("thousands separators in quantities") {
+  for (const char* flow : {"\"20,000cfm\"", "\"20,000 cfm\""}) {
+    INFO(flow);
+    const UnitFile u = parse_unit_file(
+        replace(kBase, "supply_airflow = \"12000cfm\"", std::string("supply_airflow = ") + flow),
+        "unit.toml");
+    CHECK(u.air_handler.supply_airflow_m3_per_s == doctest::Approx(20000 * kCfm));
+  }
+  refuses(replace(kBase, "supply_airflow = \"12000cfm\"", "supply_airflow = \"20,00cfm\""), 8,
+          "air_handler.supply_airflow", "commas in a number must group its digits by three");
+}
+
+TEST_CASE("documented end points are inside, and a range error names the key's own line") {
+  // fan_heat: 0 up to 20 K (36 °F); supply_air_temp: -40 °C to 60 °C (README).
+  UnitFile u = parse_unit_file(replace(kBase, "fan_heat = \"1.5F\"", "fan_heat = \"36F\""), "u.toml");
+  CHECK(u.air_handler.fan_heat_k == 20.0);
+  u = parse_unit_file(replace(kBase, "supply_air_temp = \"55F\"", "supply_air_temp = \"-40C\""),
+                      "u.toml");
+  CHECK(u.air_handler.supply_air_temp_c == -40.0);
+  CHECK_FALSE(u.warnings.empty());  // valid, but no supply setpoint a cooling unit uses
+  // dew_point_limit: -76 °F to 104 °F; dry_bulb_offset ±27 °F; enthalpy_offset ±35 kJ/kg.
+  u = parse_unit_file(kBase + R"(
+[[strategy]]
+preset = "fixed-dew-point+dry-bulb"
+dew_point_limit = "-76F"
+dry_bulb_limit = "140F"
+
+[[strategy]]
+preset = "differential-enthalpy"
+enthalpy_offset = "-35kJ/kg"
+)", "u.toml");
+  CHECK(u.strategies[0].conditions[0].limit == -60.0);
+  CHECK(u.strategies[0].conditions[1].limit == 60.0);
+  CHECK(u.strategies[1].conditions[0].limit == -35.0);
+  u = parse_unit_file(replace(kBase, "elevation = \"850ft\"", "elevation = \"-500m\""), "u.toml");
+  CHECK(*u.site.elevation_m == -500.0);
+
+  refuses(replace(kBase, "fan_heat = \"1.5F\"", "fan_heat = \"36.1F\""), 10, "air_handler.fan_heat",
+          "is outside the allowed range (0 °F to 36 °F)");
+  refuses(replace(kBase, "supply_air_temp = \"55F\"", "supply_air_temp = \"-41C\""), 9,
+          "air_handler.supply_air_temp", "outside the allowed range (-40 °F to 140 °F)");
+}
+
+TEST_CASE("messages of an IP file are in °F, and offending names are echoed safely") {
+  refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_dew_point = \"80F\""), 17,
+          "air_handler.return_air_dew_point", "dew point 80 °F is above the dry-bulb 75 °F");
+  refuses(replace(kBase, "fan_position = \"draw-through\"", "fan_position = \"up\\u001b[2Jwards\""),
+          11, "air_handler.fan_position", "'up\\x1b[2Jwards' is not allowed");
+}
+
+TEST_CASE("TOML nested beyond 64 levels is refused before the parser sees it") {
+  const auto refused = [](const std::string& text, const std::string& detail) {
+    try {
+      parse_unit_file(text, "deep.toml");
+      FAIL("accepted");
+    } catch (const InputError& e) {
+      INFO(e.what());
+      CHECK(std::string(e.what()).rfind("deep.toml:" + detail, 0) == 0);
+      CHECK(std::string(e.what()).find("nested more than 64 levels deep") != std::string::npos);
+    }
+  };
+  std::string dotted;
+  for (int i = 0; i < 50000; ++i) dotted += i ? ".a" : "a";
+  refused("[" + dotted + "]\n", "1:");                 // a table header
+  refused("x = 1\n" + dotted + " = 1\n", "2:");        // a dotted key
+  refused("a = " + std::string(50000, '[') + std::string(50000, ']') + "\n", "1:");  // arrays
+  std::string inline_tables = "a = ";
+  for (int i = 0; i < 50000; ++i) inline_tables += "{b = ";
+  refused(inline_tables + "1" + std::string(50000, '}') + "\n", "1:");
+  // Depth in strings and comments does not count; a shallow file reaches the reader's checks.
+  const std::string quoted = "# [" + dotted + "]\n[site]\nname = \"" + dotted + "\"\n";
+  try {
+    parse_unit_file(quoted, "deep.toml");
+    FAIL("accepted");
+  } catch (const InputError& e) {
+    CHECK(std::string(e.what()).find("[air_handler] is missing") != std::string::npos);
+  }
 }

@@ -4,6 +4,7 @@
 // recalled without the document at hand: "from memory".
 #include <doctest/doctest.h>
 
+#include <limitline/plausible.hpp>
 #include <limitline/units.hpp>
 
 #include <fmt/format.h>
@@ -245,10 +246,16 @@ TEST_CASE("display conversion round trips for every kind in both systems") {
         INFO(units::kind_name(k), " ", units::system_name(s), " ", v);
         check_near(units::from_display(k, s, units::to_display(k, s, v)), v,
                    1e-12 * (1.0 + std::fabs(v)));
-        // What is displayed parses back to the same SI value when written with its label.
+        // What is displayed parses back to the same SI value when written with its label,
+        // inside the kind's absolute bounds (no negative pressure, no 1524 °C); outside them
+        // it is refused.
         const std::string text =
             fmt::format("{:.17g}{}", units::to_display(k, s, v), units::unit_label(k, s));
-        check_near(units::parse(k, text, s, "round trip"), v, 1e-9 * (1.0 + std::fabs(v)), text);
+        const auto [lo, hi] = units::absolute_bounds(k);
+        if (v >= lo && v <= hi)
+          check_near(units::parse(k, text, s, "round trip"), v, 1e-9 * (1.0 + std::fabs(v)), text);
+        else
+          CHECK_THROWS_AS(units::parse(k, text, s, "round trip"), InputError);
       }
 }
 
@@ -265,4 +272,151 @@ TEST_CASE("display labels, key suffixes and formatting") {
   CHECK(units::format(Kind::fraction, System::si, 0.5, 1) == "50.0%");
   CHECK(units::format(Kind::temperature, System::si, -0.0001, 1) == "0.0 °C");  // no "-0.0"
   CHECK(units::format(Kind::length, System::ip, 1524.0, 0) == "5000 ft");
+}
+
+// --- Thousands separators, absolute bounds, inclusive ends --------------------------------
+
+TEST_CASE("commas that group digits by three are thousands separators") {
+  // 1 cfm = 0.3048³/60 m³/s exactly (NIST SP 811).
+  const double cfm = 0.3048 * 0.3048 * 0.3048 / 60.0;
+  check_near(units::parse(Kind::airflow, "20,000cfm", System::ip, "x"), 20000 * cfm, 1e-12);
+  check_near(units::parse(Kind::airflow, "20,000 cfm", System::ip, "x"), 20000 * cfm, 1e-12);
+  check_near(units::parse(Kind::airflow, "1,250,000.5", System::ip, "x"), 1250000.5 * cfm, 1e-9);
+  check_near(units::parse_number("-12,345", "x"), -12345.0, 0.0);
+  CHECK_FALSE(units::has_unit("20,000"));
+  CHECK(units::has_unit("20,000 cfm"));
+}
+
+TEST_CASE("a comma that does not group digits by three is refused, never read as a unit") {
+  for (const char* t : {"20,00cfm", "1,5", "1,5F", "20,0000 cfm", "1234,567"}) {
+    INFO(t);
+    const std::string e = parse_error(Kind::airflow, t, System::ip, "air_handler.supply_airflow");
+    CHECK(contains(e, "air_handler.supply_airflow"));
+    CHECK(contains(e, "group its digits by three"));
+    CHECK_FALSE(contains(e, "has unit"));
+  }
+  CHECK_THROWS_AS(units::parse_number("1,5", "x"), InputError);
+}
+
+TEST_CASE("magnitudes beyond any physical bound are refused for every kind") {
+  SUBCASE("the cases that once overflowed to inf and nan") {
+    const std::string e =
+        parse_error(Kind::airflow, "1e308cfm", System::ip, "unit.toml:9: air_handler.supply_airflow");
+    CHECK(contains(e, "unit.toml:9: air_handler.supply_airflow: '1e308cfm' is beyond any physical airflow"));
+    CHECK(contains(parse_error(Kind::airflow, "1e400cfm"), "beyond any physical airflow"));
+    CHECK(contains(parse_error(Kind::enthalpy, "1e300btu/lb"), "beyond any physical enthalpy"));
+  }
+  SUBCASE("below absolute zero") {
+    // Absolute zero is -459.67 °F (NIST SP 811).
+    const std::string e = parse_error(Kind::temperature, "-500F", System::ip, "--dry-bulb");
+    CHECK(contains(e, "beyond any physical temperature (allowed: -459.67 °F to"));
+    check_near(units::parse(Kind::temperature, "-459.67F", System::ip, "x"), -273.15, 1e-9);
+  }
+  SUBCASE("every kind has finite bounds") {
+    for (Kind k : {Kind::temperature, Kind::temperature_difference, Kind::enthalpy,
+                   Kind::enthalpy_difference, Kind::pressure, Kind::length, Kind::fraction,
+                   Kind::humidity_ratio, Kind::airflow, Kind::energy, Kind::power,
+                   Kind::specific_volume, Kind::density}) {
+      INFO(units::kind_name(k));
+      CHECK(contains(parse_error(k, "1e300", System::si), "beyond any physical"));
+      CHECK(contains(parse_error(k, "-1e300", System::ip), "beyond any physical"));
+    }
+  }
+}
+
+TEST_CASE("range ends are inclusive through a unit conversion") {
+  // 36 °F of difference is 20 K exactly (NIST SP 811), though 36/1.8 rounds to 20.000000000000004.
+  const double k = units::parse(Kind::temperature_difference, "36F", System::ip, "x");
+  CHECK(units::within(k, 0.0, 20.0));
+  CHECK(units::held_within(k, 0.0, 20.0) == 20.0);
+  CHECK_FALSE(units::within(20.001, 0.0, 20.0));
+  CHECK(units::held_within(20.001, 0.0, 20.0) == 20.001);
+  // A range is shown with its ends rounded inward, so an end written as shown is inside:
+  // 20 kJ/kg is 8.59845 Btu/lb (÷ 2.326), shown 8.5984.
+  CHECK(units::format_range(Kind::enthalpy_difference, System::ip, 0.0, 20.0) ==
+        "0 Btu/lb to 8.5984 Btu/lb");
+  CHECK(units::format_range(Kind::temperature_difference, System::ip, 0.0, 20.0) == "0 °F to 36 °F");
+  CHECK(units::format_range(Kind::temperature, System::ip, -40.0, 60.0) == "-40 °F to 140 °F");
+  CHECK(units::format_brief(Kind::temperature, System::si, 75.0) == "75 °C");
+  CHECK(units::written_unit(Kind::temperature, System::ip) == "F");
+}
+
+TEST_CASE("offending text is echoed safely: control characters escaped, long values cut") {
+  const std::string e = parse_error(Kind::temperature, "75\x1b[31mF", System::ip, "--dry-bulb");
+  CHECK(contains(e, "\\x1b"));
+  CHECK_FALSE(contains(e, "\x1b"));
+  const std::string long_text(100000, '7');
+  const std::string l = parse_error(Kind::temperature, (long_text + "X").c_str(), System::ip, "--dry-bulb");
+  CHECK(l.size() < 400);
+  CHECK(contains(l, "(100001 characters)"));
+}
+
+// --- Plausible bands ----------------------------------------------------------------------
+
+namespace {
+namespace plausible = limitline::plausible;
+const plausible::Source kSiFile{"unit.toml:12: air_handler.return_air_temp", "in an SI file"};
+const plausible::Source kIpFile{"unit.toml:12: air_handler.return_air_temp", "in an IP file"};
+
+std::string plausible_error(std::string_view band, std::string_view text, System bare,
+                            const plausible::Source& source) {
+  std::vector<std::string> warnings;
+  try {
+    plausible::parse(*plausible::find(band), text, bare, source, warnings);
+  } catch (const InputError& e) {
+    return e.what();
+  }
+  return "";
+}
+}  // namespace
+
+TEST_CASE("plausible bands are data: one per quantity, each inside its kind's absolute bounds") {
+  for (const auto& b : plausible::bands()) {
+    INFO(b.name);
+    CHECK(b.lo < b.hi);
+    CHECK(plausible::find(b.name) == &b);
+    // The ends parse back as values of the kind (no end beyond the absolute bounds).
+    CHECK_NOTHROW(units::parse(b.kind, fmt::format("{}", units::to_display(b.kind, System::si, b.hi)),
+                               System::si, "x"));
+  }
+  CHECK(plausible::find("air_handler.no_such_key") == nullptr);
+}
+
+TEST_CASE("a bare number plausible only in the other unit system is refused with both readings") {
+  // Return air 10–40 °C (common practice); 75 °F is 23.9 °C (NIST SP 811).
+  const std::string e = plausible_error("air_handler.return_air_temp", "75", System::si, kSiFile);
+  CHECK(e == "unit.toml:12: air_handler.return_air_temp: 75 in an SI file is 75 °C, outside the "
+             "plausible range of a return-air dry-bulb (10 °C to 40 °C, common practice); if you "
+             "meant 75 °F write \"75F\"");
+  // Supply setpoint 5–25 °C: "13" in an IP file is 13 °F; 13 °C is meant.
+  const std::string s = plausible_error("air_handler.supply_air_temp", "13", System::ip, kIpFile);
+  CHECK(contains(s, "13 in an IP file is 13 °F"));
+  CHECK(contains(s, "41 °F to 77 °F"));  // 5 °C and 25 °C in °F: the file's system
+  CHECK(contains(s, "write \"13C\""));
+  // 20000 in an SI file is 20000 m³/s; 20000 cfm (9.4 m³/s) is meant.
+  const std::string a =
+      plausible_error("air_handler.supply_airflow", "20000", System::si, kSiFile);
+  CHECK(contains(a, "20000 in an SI file is 20000 m³/s"));
+  CHECK(contains(a, "write \"20000cfm\""));
+}
+
+TEST_CASE("an implausible value with its unit, or implausible in both systems, is a warning") {
+  std::vector<std::string> w;
+  const auto& band = *plausible::find("air_handler.return_air_temp");
+  CHECK(plausible::parse(band, "45C", System::ip, kIpFile, w) == 45.0);
+  REQUIRE(w.size() == 1);
+  CHECK(w[0].rfind("unit.toml:12: air_handler.return_air_temp: '45C' (113 °F) is outside the "
+                   "plausible range of a return-air dry-bulb (50 °F to 104 °F, common practice)",
+                   0) == 0);
+  // 45 is neither 45 °C nor 45 °F (7.2 °C) of plausible return air: kept, with a word.
+  CHECK(plausible::parse(band, "45", System::si, kSiFile, w) == 45.0);
+  REQUIRE(w.size() == 2);
+  CHECK(contains(w[1], "45 in an SI file is 45 °C, outside the plausible range"));
+  // A percentage reads the same in both systems: never refused for its system.
+  CHECK(plausible::parse(*plausible::find("air_handler.min_outdoor_air"), "95", System::si,
+                         kSiFile, w) == doctest::Approx(0.95));
+  CHECK(w.size() == 3);
+  // Inside the band: no word.
+  CHECK(plausible::parse(band, "24", System::si, kSiFile, w) == 24.0);
+  CHECK(w.size() == 3);
 }

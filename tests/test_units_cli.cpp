@@ -93,8 +93,9 @@ TEST_CASE("bare numbers on the command line are read in the active system") {
 }
 
 TEST_CASE("an error about a value speaks the active system") {
-  // 60 °C is no outdoor air an economizer sees; in an SI unit file the bare 60 is read as °C.
-  const auto r = run_cli({"check", kSiUnit, "--outdoor", "60/dp80"}, kSuite);
+  // A dew point above the dry-bulb is impossible air; in an SI unit file the bare numbers are
+  // read, and the error written, in °C.
+  const auto r = run_cli({"check", kSiUnit, "--outdoor", "30/dp35"}, kSuite);
   CHECK(r.rc == 2);
   CHECK(contains(r.err, "--outdoor"));
   CHECK(contains(r.err, "°C"));

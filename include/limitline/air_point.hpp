@@ -11,6 +11,7 @@
 
 #include <string>
 #include <string_view>
+#include <vector>
 
 namespace limitline {
 
@@ -18,10 +19,11 @@ struct AirPoint {
   double dry_bulb_c = 0.0;
   psychro::HumidityInput humidity_kind = psychro::HumidityInput::relative_humidity;
   double humidity_value = 0.0;  // SI: fraction, °C, kg/kg or kJ/kg, as humidity_kind says
+  units::System system = units::System::si;  // the system it was written in: its messages' units
 
   // The state at a pressure. Throws InputError for impossible states (RH over 100 %, dew
-  // point or wet-bulb above the dry-bulb, beyond saturation); when `origin` is not empty the
-  // message starts with it.
+  // point or wet-bulb above the dry-bulb, beyond saturation), with values in `system`; when
+  // `origin` is not empty the message starts with it.
   psychro::MoistAir state(double pressure_kpa, std::string_view origin = {}) const;
   psychro::Properties properties(double pressure_kpa, std::string_view origin = {}) const;
   airside::AirState at(double pressure_kpa) const;
@@ -34,6 +36,15 @@ struct AirPoint {
 // and say which forms are allowed. Only the syntax and units are checked here; the state
 // itself is checked by AirPoint::state.
 AirPoint parse_air_point(std::string_view text, units::System bare, std::string_view origin);
+
+// Which air a point is, for its plausible bands (plausible.hpp): outdoor air, or return air
+// (the bands of the unit file's return_air_* keys).
+enum class AirRole { outdoor, return_air };
+// parse_air_point, with the dry-bulb and the humidity each weighed against the band of that
+// air: a bare number that is plausible only in the other unit system is refused with both
+// readings; any other implausible value is kept and described in `warnings`.
+AirPoint parse_air_point(std::string_view text, units::System bare, std::string_view origin,
+                         AirRole role, std::vector<std::string>& warnings);
 
 // The forms parse_air_point accepts, for help texts and error messages.
 inline constexpr std::string_view kAirPointForms =

@@ -196,6 +196,13 @@ struct ZoneRequirements {
 ZoneRequirements requirements(const Edition& edition, std::string_view zone, const SiteConditions& site,
                               std::string_view origin = "--zone");
 
+// A unit's [site] energy_code and climate_zone checked against the installed tables, for the
+// commands that do not otherwise look them up: both or neither, a loaded edition, a zone of
+// it. Errors start with the origin of the key at fault ("FILE:LINE: site.energy_code"). No
+// table is read when the site names neither.
+void check_site_code(std::string_view edition, std::string_view edition_origin,
+                     std::string_view zone, std::string_view zone_origin);
+
 // The fixed enthalpy limit of the altitude footnote at a pressure: h(t, φ, p), kJ/kg.
 double site_enthalpy_kj_per_kg(const SiteEnthalpyRule& rule, units::System compare_in,
                                double pressure_kpa);

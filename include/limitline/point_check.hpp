@@ -32,6 +32,18 @@ std::string_view verdict_key(Verdict v);   // "right_decision", "harmful_enable"
 Verdict judge(const airside::HourChoice& choice, bool economizer_enabled,
               double tolerance_kj_per_kg = kVerdictToleranceKjPerKg);
 
+// Whether mixing outdoor and return air can reach the mixed-air target at all: the fraction
+// it needs must lie within 0–100 %. Beyond 100 % the target lies past the outdoor air;
+// below 0 % past the return air, on the side away from the outdoor air.
+enum class TargetReach : std::uint8_t {
+  reachable,
+  same_dry_bulb,           // outdoor and return air at one dry-bulb: no fraction changes it
+  beyond_outdoor_air,      // would need more than 100 % outdoor air
+  beyond_return_air,       // would need less than 0 %: outdoor air moves the mix away
+};
+std::string_view target_reach_key(TargetReach r);  // "reachable", "same_dry_bulb", ...
+TargetReach target_reach(const airside::MixedAirEstimate& estimate);
+
 struct StrategyOutcome {
   highlimit::Strategy strategy;
   highlimit::Decision decision;  // each condition's value, limit, excess and status
@@ -50,6 +62,7 @@ struct PointCheck {
 
   // The practitioner's first calculation: outdoor air needed for the mixed-air target.
   airside::MixedAirEstimate estimate;
+  TargetReach reach;                  // whether any damper position reaches the target
   airside::CoilLoads estimate_loads;  // the make-up heating or cooling at that mixed air
 
   airside::HourChoice choice;           // the operation disabled and enabled

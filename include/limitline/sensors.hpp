@@ -66,6 +66,8 @@ struct SensorSet {
   Biases accuracy{};                        // uniform: half-width; normal: σ
   std::array<bool, kSensorCount> given{};   // accuracy written in the unit file
   bool from_file = false;                   // the unit file has a [sensors] table
+  // Accuracies outside their plausible band, used as written ("FILE:LINE: sensors.KEY: ...").
+  std::vector<std::string> warnings;
 };
 
 // Typical commercial figures (common practice): dry-bulb ±1 °F, RH ±5 % (an RH transmitter a

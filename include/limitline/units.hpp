@@ -8,6 +8,7 @@
 
 #include <string>
 #include <string_view>
+#include <utility>
 
 namespace limitline::units {
 
@@ -38,11 +39,14 @@ enum class Kind {
 // Human name of the kind ("a temperature", "an enthalpy") for error messages.
 std::string_view kind_name(Kind k);
 
-// Parses `text` ("75F", "23.9 °C", "28btu/lb", "50%", "0.0093", "12000cfm") as a quantity of
-// `kind` and returns it in SI. A bare number takes the default unit of `bare` (°F or °C, and so
-// on); a bare fraction is read as a percentage, and a bare value strictly between 0 and 1 is
-// refused as ambiguous. `origin` says where the text came from (an option, or file:line key)
-// and starts every error message. Throws InputError.
+// Parses `text` ("75F", "23.9 °C", "28btu/lb", "50%", "0.0093", "12000cfm", "20,000 cfm") as
+// a quantity of `kind` and returns it in SI. A bare number takes the default unit of `bare`
+// (°F or °C, and so on); a bare fraction is read as a percentage, and a bare value strictly
+// between 0 and 1 is refused as ambiguous. Commas may group digits by three; any other comma
+// is refused. A value beyond the kind's absolute bounds (below absolute zero, an airflow of
+// 1e308 cfm) is refused, so no parsed quantity can overflow a calculation. `origin` says where
+// the text came from (an option, or file:line key) and starts every error message. Throws
+// InputError.
 double parse(Kind kind, std::string_view text, System bare, std::string_view origin);
 
 // Parses a plain number (no unit) or throws InputError naming `origin`.
@@ -50,6 +54,26 @@ double parse_number(std::string_view text, std::string_view origin);
 
 // True when `text` carries an explicit unit (anything after the number).
 bool has_unit(std::string_view text);
+
+// The absolute bounds parse() holds a kind to (SI): absolute zero for a temperature, 0 for a
+// pressure, a thousand times any air-side figure for the rest.
+std::pair<double, double> absolute_bounds(Kind kind);
+
+// True when `value` lies in [lo, hi] up to the rounding of a unit conversion, so that an end
+// point written in either system ("36F" for 20 K) is inside; held_within() returns such a
+// value held to the end it rounds past (others unchanged).
+bool within(double value, double lo, double hi);
+double held_within(double value, double lo, double hi);
+
+// The unit as a user writes it after a number ("F", "kJ/kg", "cfm"), for "write \"75F\"".
+std::string_view written_unit(Kind kind, System system);
+
+// A value for a message, converted to `system` with up to `significant` digits ("75 °C",
+// "20000 cfm", "23.8889 °C").
+std::string format_brief(Kind kind, System system, double value_si, int significant = 6);
+// A range for a message ("10 °C to 40 °C"), each end rounded toward the inside at 4 decimals
+// so that an end written as shown is accepted.
+std::string format_range(Kind kind, System system, double lo_si, double hi_si);
 
 // SI value → display value in `system`, and back.
 double to_display(Kind kind, System system, double value_si);

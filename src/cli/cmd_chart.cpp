@@ -61,10 +61,16 @@ int run_chart(const std::vector<std::string>& args) {
     const units::System s = units_choice.resolve(unit);
     const auto all = strategies_or_presets(unit);
     const auto chosen = select_strategies(all, names, "--strategy", unit.path);
-    const AirPoint outdoor = parse_air_point(vm["outdoor"].as<std::string>(), s, "--outdoor");
-    const AirPoint ret = vm.count("return") ? parse_air_point(vm["return"].as<std::string>(), s, "--return") : unit.return_air;
+    std::vector<std::string> point_warnings;
+    const AirPoint outdoor = parse_air_point(vm["outdoor"].as<std::string>(), s, "--outdoor",
+                                             AirRole::outdoor, point_warnings);
+    const AirPoint ret = vm.count("return") ? parse_air_point(vm["return"].as<std::string>(), s, "--return",
+                                                              AirRole::return_air, point_warnings)
+                                            : unit.return_air;
     chart = chart_input(unit, chosen, s);
     chart.check = check_marks(unit, all, outdoor, "--outdoor", ret, vm.count("return") ? "--return" : unit.path + ": return air");
+    // After the states are known to exist: an impossible one is an error, not also a warning.
+    report_warnings(point_warnings, vm.count("strict") > 0);
     chart.return_air = chart.check->ret;
     if (vm.count("weather")) {
       const YearInputs in = load_year_inputs(source, weather_overrides(vm));

@@ -3,6 +3,7 @@
 #include "common.hpp"
 
 #include <limitline/air_point.hpp>
+#include <limitline/codes.hpp>
 #include <limitline/point_check.hpp>
 #include <limitline/report/cautions.hpp>
 #include <limitline/report/json.hpp>
@@ -123,6 +124,7 @@ struct Inputs {
   const UnitFile& unit;
   std::string outdoor_source;
   std::string return_source;
+  const std::vector<std::string>& warnings;  // the unit file's and the options'
 };
 
 // --- text and Markdown ---------------------------------------------------------------
@@ -159,6 +161,8 @@ std::string summary_lines(const Inputs& in, const PointCheck& pc, const View& vi
   std::string out;
   for (const auto& [k, v] : lines)
     out += markdown ? fmt::format("- **{}:** {}\n", k, report::markdown_escape(v)) : fmt::format("{:<12} {}\n", k, v);
+  for (const std::string& w : in.warnings)
+    out += markdown ? fmt::format("- **Warning:** {}\n", report::markdown_escape(w)) : fmt::format("{:<12} {}\n", "Warning", w);
   return out;
 }
 
@@ -188,20 +192,37 @@ std::string hand_calculation(const UnitFile& u, const PointCheck& pc, const View
   const airside::AirHandler& a = u.air_handler;
   const std::string target = view.q(Kind::temperature, pc.mixed_air_target_c);
   std::string out;
-  if (!e.target_reachable) {
-    out += fmt::format("Outdoor and return air are at the same dry-bulb: no outdoor-air fraction "
-                       "changes the mixed air, so {} cannot be reached by mixing.\n",
-                       target);
-  } else {
-    const std::string where =
-        e.within_limits ? fmt::format("within the damper range {} to {}",
-                                      view.q(Kind::fraction, a.min_oa_fraction),
-                                      view.q(Kind::fraction, a.max_oa_fraction))
-        : e.fraction_needed < a.min_oa_fraction
-            ? fmt::format("below the {} minimum", view.q(Kind::fraction, a.min_oa_fraction))
-            : fmt::format("above the {} maximum", view.q(Kind::fraction, a.max_oa_fraction));
-    out += fmt::format("Outdoor air needed for {} mixed air: {}, {}.\n", target,
-                       view.q(Kind::fraction, e.fraction_needed), where);
+  switch (pc.reach) {
+    case TargetReach::same_dry_bulb:
+      out += fmt::format("Mixed air of {} is not reachable: outdoor and return air are at the "
+                         "same dry-bulb, so no outdoor-air fraction changes the mixed air.\n",
+                         target);
+      break;
+    case TargetReach::beyond_outdoor_air:
+      out += fmt::format("Mixed air of {} is not reachable: would need {} outdoor air (all "
+                         "outdoor air, 100%, gives {}).\n",
+                         target, view.q(Kind::fraction, e.fraction_needed),
+                         view.q(Kind::temperature, pc.outdoor.dry_bulb_c));
+      break;
+    case TargetReach::beyond_return_air:
+      out += fmt::format("Mixed air of {} is not reachable: it lies beyond the return air {} "
+                         "on the side away from the outdoor air {}, so outdoor air only moves "
+                         "the mixed air away from it.\n",
+                         target, view.q(Kind::temperature, pc.ret.dry_bulb_c),
+                         view.q(Kind::temperature, pc.outdoor.dry_bulb_c));
+      break;
+    case TargetReach::reachable: {
+      const std::string where =
+          e.within_limits ? fmt::format("within the damper range {} to {}",
+                                        view.q(Kind::fraction, a.min_oa_fraction),
+                                        view.q(Kind::fraction, a.max_oa_fraction))
+          : e.fraction_needed < a.min_oa_fraction
+              ? fmt::format("below the {} minimum", view.q(Kind::fraction, a.min_oa_fraction))
+              : fmt::format("above the {} maximum", view.q(Kind::fraction, a.max_oa_fraction));
+      out += fmt::format("Outdoor air needed for {} mixed air: {}, {}.\n", target,
+                         view.q(Kind::fraction, e.fraction_needed), where);
+      break;
+    }
   }
   const std::string at = fmt::format("At {} outdoor air the mixed air is {}",
                                      view.q(Kind::fraction, e.fraction_applied),
@@ -415,6 +436,9 @@ std::string json_report(const Inputs& in, const PointCheck& pc, const View& view
   j.field("unit_file", u.path);
   j.field("site_name", u.site.name);
   j.field("units", units::system_name(view.system));
+  j.key("warnings").begin_array();
+  for (const std::string& w : in.warnings) j.value(w);
+  j.end_array();
   j.field(view.key("pressure", Kind::pressure), view.v(Kind::pressure, pc.pressure_kpa));
   j.key("air_handler").begin_object();
   j.field(view.key("supply_airflow", Kind::airflow), view.v(Kind::airflow, a.supply_airflow_m3_per_s));
@@ -440,7 +464,10 @@ std::string json_report(const Inputs& in, const PointCheck& pc, const View& view
 
   const airside::MixedAirEstimate& e = pc.estimate;
   j.key("hand_calculation").begin_object();
-  j.field("target_reachable", e.target_reachable);
+  // The fraction the target needs is given whenever one exists, even outside 0–100 %, with
+  // target_reachable saying whether any damper position gives it.
+  j.field("target_reachable", pc.reach == TargetReach::reachable);
+  j.field("reach", target_reach_key(pc.reach));
   j.key(view.key("outdoor_air_needed", Kind::fraction));
   if (e.target_reachable)
     j.value(view.v(Kind::fraction, e.fraction_needed));
@@ -543,11 +570,14 @@ int run_check(const std::vector<std::string>& args) {
   if (!vm.count("outdoor")) throw UsageError("--outdoor is required, e.g. --outdoor 68F/80%");
 
   const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
-  report_warnings(unit.warnings, common.strict);
+  codes::check_site_code(unit.site.energy_code, unit.site.energy_code_origin,
+                         unit.site.climate_zone, unit.site.climate_zone_origin);
+  std::vector<std::string> warnings = unit.warnings;
   const units::System system = common.units.resolve(unit);
   const double p = unit.site.design_pressure_kpa();
   const std::string outdoor_text = vm["outdoor"].as<std::string>();
-  const AirPoint outdoor_point = parse_air_point(outdoor_text, system, "--outdoor");
+  const AirPoint outdoor_point =
+      parse_air_point(outdoor_text, system, "--outdoor", AirRole::outdoor, warnings);
   const psychro::MoistAir outdoor =
       outdoor_point.state(p, fmt::format("--outdoor {}", outdoor_text));
   outdoor_point.properties(p, fmt::format("--outdoor {}", outdoor_text));
@@ -556,16 +586,18 @@ int run_check(const std::vector<std::string>& args) {
   std::string return_source = "unit file";
   if (vm.count("return")) {
     const std::string return_text = vm["return"].as<std::string>();
-    const AirPoint point = parse_air_point(return_text, system, "--return");
+    const AirPoint point =
+        parse_air_point(return_text, system, "--return", AirRole::return_air, warnings);
     ret = point.state(p, fmt::format("--return {}", return_text));
     point.properties(p, fmt::format("--return {}", return_text));
     return_source = "--return";
   }
+  report_warnings(warnings, common.strict);
 
   const std::vector<highlimit::Strategy> strategies = strategies_or_presets(unit);
   const PointCheck pc = check_point(unit.air_handler, unit.weights, strategies, outdoor, ret);
   const View view{system};
-  const Inputs in{unit, "--outdoor", return_source};
+  const Inputs in{unit, "--outdoor", return_source, warnings};
   if (common.format == Format::json)
     write_out(json_report(in, pc, view));
   else

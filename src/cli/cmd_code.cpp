@@ -684,12 +684,14 @@ int run_code(const std::vector<std::string>& args) {
   // The unit file, when given, is read first: its units set the display and the reading of
   // bare numbers such as --elevation 1500 unless --units is given.
   std::optional<UnitFile> unit_file;
+  std::vector<std::string> warnings;
   if (unit) {
     unit_file = load_unit_file(vm["unit"].as<std::string>());
-    report_warnings(unit_file->warnings, common.strict);
+    warnings = unit_file->warnings;
   }
   const System s = unit_file ? common.units.resolve(*unit_file) : common.units.resolve();
-  std::optional<double> pressure = site_pressure_option(vm, s);
+  std::optional<double> pressure = site_pressure_option(vm, s, warnings);
+  report_warnings(warnings, common.strict);
 
   if (list) {
     write_out(editions_list(tables, common.format));

@@ -2,6 +2,7 @@
 #include "common.hpp"
 
 #include <limitline/report/sensors.hpp>
+#include <limitline/codes.hpp>
 #include <limitline/sensors.hpp>
 #include <limitline/year_job.hpp>
 
@@ -90,8 +91,11 @@ int run_sensors(const std::vector<std::string>& args) {
   if (csv) refuse_input_as_output(csv->target(), "--trials-csv", job_input_files(vm, in.weather_label));
   report_warnings(in.warnings, common.strict);
   const units::System system = common.units.resolve(in.unit);
+  codes::check_site_code(in.unit.site.energy_code, in.unit.site.energy_code_origin,
+                         in.unit.site.climate_zone, in.unit.site.climate_zone_origin);
   const sensors::SensorSet set = sensors::read_sensors(in.unit.sensors ? &*in.unit.sensors : nullptr,
                                                        in.unit.path, in.unit.units);
+  report_warnings(set.warnings, common.strict);
   std::optional<sensors::SweepSpec> sweep_spec;
   if (vm.count("sweep"))
     sweep_spec = sensors::parse_sweep(vm["sweep"].as<std::string>(), set.outdoor_humidity,

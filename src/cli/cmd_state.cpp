@@ -70,7 +70,10 @@ int run_state(const std::vector<std::string>& args) {
     return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::csv});
   const units::System system = common.units.resolve();  // state reads no unit file
-  const double p = site_pressure_option(vm, system).value_or(psychro::kStandardPressureKpa);
+  std::vector<std::string> warnings;
+  const double p =
+      site_pressure_option(vm, system, warnings).value_or(psychro::kStandardPressureKpa);
+  report_warnings(warnings, common.strict);
 
   if (vm.count("batch")) {
     for (const auto& h : kHumidityOptions)

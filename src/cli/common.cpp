@@ -1,6 +1,7 @@
 #include "common.hpp"
 
 #include <limitline/output_file.hpp>
+#include <limitline/plausible.hpp>
 #include <limitline/psychro.hpp>
 #include <limitline/unit_file.hpp>
 
@@ -96,17 +97,24 @@ double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
   return units::parse(kind, vm[name].as<std::string>(), system, std::string("--") + name);
 }
 
-std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system) {
+std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system,
+                                           std::vector<std::string>& warnings) {
   if (vm.count("pressure") && vm.count("elevation"))
     throw UsageError("give --pressure or --elevation, not both");
+  // Each weighed against the plausible band of a site (plausible.hpp).
+  const auto read = [&](const char* name, std::string_view band) {
+    return plausible::parse(*plausible::find(band), vm[name].as<std::string>(), system,
+                            {fmt::format("--{}", name), plausible::on_command_line(system)},
+                            warnings);
+  };
   if (vm.count("pressure")) {
-    const double p = quantity(vm, "pressure", units::Kind::pressure, system);
+    const double p = read("pressure", "site.pressure");
     psychro::check_pressure(p, "--pressure");
     return p;
   }
   if (!vm.count("elevation")) return std::nullopt;
   try {
-    return psychro::standard_pressure_kpa(quantity(vm, "elevation", units::Kind::length, system));
+    return psychro::standard_pressure_kpa(read("elevation", "site.elevation"));
   } catch (const RangeError& e) {
     throw InputError(fmt::format("--elevation {}: {}", vm["elevation"].as<std::string>(), e.what()));
   }

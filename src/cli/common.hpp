@@ -109,8 +109,11 @@ std::vector<std::filesystem::path> job_input_files(const po::variables_map& vm,
                                                    const std::string& weather_label);
 
 // The site pressure from --pressure or --elevation (standard pressure, ASHRAE Fundamentals
-// ch. 1 eq. 3); none when neither is given. Both at once is a UsageError.
-std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system);
+// ch. 1 eq. 3); none when neither is given. Both at once is a UsageError. A value outside the
+// plausible band of a site is refused when it is a bare number plausible only in the other
+// unit system, else described in `warnings` (plausible.hpp).
+std::optional<double> site_pressure_option(const po::variables_map& vm, units::System system,
+                                           std::vector<std::string>& warnings);
 
 // Prints each warning to stderr as "limitline COMMAND: warning: ..."; under --strict the
 // first one is an InputError instead (exit 2), before any result is written.

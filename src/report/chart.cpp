@@ -560,10 +560,17 @@ struct OverlaySummary {
   std::size_t cells = 0;
 };
 
+// The bin of a value on a grid of `step`: the quotient is held to ±1e15 (and a NaN to 0)
+// before the cast, so no value can make the conversion to an integer undefined.
+long bin_of(double value, double step) {
+  const double q = std::floor(value / step);
+  return q == q ? static_cast<long>(std::clamp(q, -1e15, 1e15)) : 0L;
+}
+
 // Share of the columns (or rows) spanned by the data that are empty between two filled ones.
 double stripe_share(std::span<const ClimateHour> climate, double step, auto&& coordinate) {
   std::map<long, double> filled;
-  for (const auto& h : climate) filled[static_cast<long>(std::floor(coordinate(h) / step))] += h.hours;
+  for (const auto& h : climate) filled[bin_of(coordinate(h), step)] += h.hours;
   if (filled.size() < 3) return 0.0;
   const long lo = filled.begin()->first, hi = filled.rbegin()->first;
   long stripes = 0;
@@ -584,8 +591,7 @@ OverlaySummary draw_climate(Ctx& c) {
   for (const auto& h : c.in.climate) {
     const double td = t_disp(h.outdoor.dry_bulb_c, c.s);
     const double wd = h.outdoor.humidity_ratio * c.ax.w_per_kgkg;
-    const auto key = std::make_pair(static_cast<long>(std::floor(td / bin.dry_bulb)),
-                                    static_cast<long>(std::floor(wd / bin.humidity_ratio)));
+    const auto key = std::make_pair(bin_of(td, bin.dry_bulb), bin_of(wd, bin.humidity_ratio));
     cells[key].hours[static_cast<std::size_t>(h.outcome)] += h.hours;
     sum.hours[static_cast<std::size_t>(h.outcome)] += h.hours;
   }
