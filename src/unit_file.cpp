@@ -315,6 +315,7 @@ Site read_site(const Reader& r, const toml::table* t) {
     r.check_range(*t, "elevation", "site", Kind::length, *z, psychro::kMinElevationM,
                   psychro::kMaxElevationM);
     s.elevation_m = z;
+    s.pressure_origin = r.origin(t->get("elevation")->source(), "site.elevation");
   }
   if (auto p = r.quantity(*t, "pressure", "site", Kind::pressure)) {
     if (s.elevation_m)
@@ -324,6 +325,7 @@ Site read_site(const Reader& r, const toml::table* t) {
     r.check_range(*t, "pressure", "site", Kind::pressure, *p, psychro::kMinPressureKpa,
                   psychro::kMaxPressureKpa);
     s.pressure_kpa = p;
+    s.pressure_origin = r.origin(t->get("pressure")->source(), "site.pressure");
   }
   auto code_text = [&](std::string_view key, std::string& value, std::string& origin) {
     const toml::node* n = t->get(key);

@@ -149,6 +149,30 @@ constexpr double kTemperatureToleranceK = 1.0 / 1.8;
 // A humidity ratio up to 1 % above saturation is read as saturation (same tolerance as RH).
 constexpr double kHumidityRatioTolerance = 0.01;
 
+// Statistics of a column say something from a day of hourly values on.
+constexpr int kMinStatisticRows = 24;
+// More impossible rows than this share is a column in another unit, or not the quantity at
+// all, rather than a few bad readings.
+constexpr double kLabelImpossibleShare = 0.05;
+
+// Where the median of a day or more of outdoor values lies, on any site (SI). The hottest
+// places on Earth have monthly mean temperatures near 40 °C and the highest dew points are
+// about 35 °C (both from memory); station pressures as in kPlausible.
+struct MedianBand {
+  Quantity quantity;
+  double lo, hi;
+  std::string_view what;
+};
+constexpr MedianBand kMedianBands[] = {
+    {Quantity::dry_bulb, -60.0, 45.0, "the median outdoor air temperature of a day or more"},
+    {Quantity::dew_point, -70.0, 35.0, "the median outdoor dew point of a day or more"},
+    {Quantity::wet_bulb, -60.0, 35.0, "the median outdoor wet-bulb of a day or more"},
+    {Quantity::relative_humidity, 0.02, 1.0,
+     "the median outdoor relative humidity of a day or more"},
+    {Quantity::humidity_ratio, 1e-5, 0.03, "the median outdoor humidity ratio of a day or more"},
+    {Quantity::pressure, 48.0, 112.0, "the median station pressure"},
+};
+
 constexpr std::string_view kMonthNames[] = {"Jan", "Feb", "Mar", "Apr", "May", "Jun",
                                             "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"};
 constexpr int kDaysInMonth[] = {31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31};
@@ -209,9 +233,7 @@ std::string quoted_list(const std::vector<std::string>& items) {
   std::string out;
   for (const std::string& s : items) {
     if (!out.empty()) out += ", ";
-    out += '\'';
-    out += s;
-    out += '\'';
+    out += echo(s);
   }
   return out;
 }
@@ -708,9 +730,14 @@ std::vector<LineSpan> split_lines(std::string_view text) {
   std::vector<LineSpan> lines;
   lines.reserve(text.size() / 32 + 16);
   if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);  // UTF-8 byte-order mark
+  // Lines end in LF or CRLF, or in a lone CR in a file that has no LF (old Mac exports).
+  const char eol =
+      text.find('\n') == std::string_view::npos && text.find('\r') != std::string_view::npos
+          ? '\r'
+          : '\n';
   int number = 1;
   while (!text.empty()) {
-    const std::size_t nl = text.find('\n');
+    const std::size_t nl = text.find(eol);
     std::string_view line = text.substr(0, nl);
     if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
     lines.push_back({line, number++});
@@ -747,6 +774,7 @@ class Reader {
     check_after_table();
     analyse_time();
     resolve_units();
+    find_resolution();
     convert();
     return std::move(out_);
   }
@@ -755,6 +783,8 @@ class Reader {
   std::vector<LineSpan> lines_;
   const Mapping& mapping_;
   double site_pressure_;
+  // The vapour pressure of saturated air at -100 °C, the driest state the model reaches.
+  double min_vapor_pressure_kpa_ = psychro::saturation_pressure_kpa(-100.0);
   WeatherSeries out_;
 
   std::size_t header_index_ = 0;
@@ -848,14 +878,14 @@ class Reader {
       const ColumnOverride& o = mapping_.column(q.quantity);
       if (o.column && match_[q.quantity] < 0)
         throw InputError(
-            fmt::format("{}: column '{}' given for {} is not in the header of {} (line {}: {})",
-                        o.origin.empty() ? std::string("the weather mapping") : o.origin, *o.column,
+            fmt::format("{}: column {} given for {} is not in the header of {} (line {}: {})",
+                        o.origin.empty() ? std::string("the weather mapping") : o.origin, echo(*o.column),
                         q.label, src(), header_line, quoted_list(header_texts())));
       if (o.unit && !q.has_unit)
         throw InputError(fmt::format(
-            "{}: unit '{}' given for the {} column; allowed: no unit (a "
+            "{}: unit {} given for the {} column; allowed: no unit (a "
             "time column has none)",
-            o.origin.empty() ? std::string("the weather mapping") : o.origin, *o.unit, q.label));
+            o.origin.empty() ? std::string("the weather mapping") : o.origin, echo(*o.unit), q.label));
     }
 
     // Time columns, in the order they are read.
@@ -874,7 +904,7 @@ class Reader {
     for (const auto& [column, q] : time_parts) {
       if (column < 0) continue;
       ColumnUse u = use_of(q);
-      names.push_back("'" + u.header + "'");
+      names.push_back(echo(u.header));
       const std::string& h = u.header;
       if (icontains(h, "utc") || icontains(h, "gmt")) inf.time.clock = Clock::utc;
       if (icontains(h, "dd/mm")) day_first_ = true;
@@ -1028,10 +1058,10 @@ class Reader {
       StampForm form{};
       const StampFault fault = read_stamp(f, r.stamp, zone, form);
       if (fault.column >= 0)
-        fail_at(l.number, fmt::format("column '{}' value '{}' is not readable as a time; "
+        fail_at(l.number, fmt::format("column {} value {} is not readable as a time; "
                                       "allowed: {}",
-                                      header_[static_cast<std::size_t>(fault.column)].text,
-                                      f[static_cast<std::size_t>(fault.column)], fault.allowed));
+                                      echo(header_[static_cast<std::size_t>(fault.column)].text),
+                                      echo(f[static_cast<std::size_t>(fault.column)]), fault.allowed));
       if (rows_.empty()) {
         out_.info.time.format = format_text(form, zone);
         if (zone.clock != Clock::local) {
@@ -1179,6 +1209,8 @@ class Reader {
       if (r.month == 2 && r.day == 29) ++ti.leap_day_rows;
     }
 
+    check_one_year();
+
     // Typical years: each month from a different year, so time jumps at month boundaries.
     for (std::size_t b = 0; b < blocks.size(); ++b) {
       if (blocks[b].year > 0)
@@ -1191,6 +1223,73 @@ class Reader {
       if (!calendar_step) ti.typical_year = true;
       if (c.year * 12 + c.month < p.year * 12 + p.month) ti.months_out_of_order = true;
     }
+  }
+
+  // A file holding the same hour of the calendar from two years is several years of weather;
+  // summed as one it would multiply every annual figure. A typical year (each month from a
+  // different year) holds each hour once and passes.
+  void check_one_year() const {
+    // Without a month whose rows come from two years no hour can repeat: the common case
+    // (a calendar year, a typical year) needs no table.
+    std::array<int, 13> year_of{};
+    year_of.fill(-1);
+    bool repeated = false;
+    for (const Row& r : rows_) {
+      int& y = year_of[static_cast<std::size_t>(r.stamp.month)];
+      if (y < 0) y = r.stamp.year;
+      repeated = repeated || y != r.stamp.year;
+    }
+    if (!repeated) return;
+    const int step = out_.info.time.step_min;
+    const auto slot = [&](const Row& r) {
+      return static_cast<std::size_t>((((r.month - 1) * 31 + (r.day - 1)) * 1440 + r.hour * 60 +
+                                       r.minute) /
+                                      step);
+    };
+    std::vector<int> seen(static_cast<std::size_t>(12 * 31 * 1440 / step) + 1, -1);
+    for (std::size_t i = 0; i < rows_.size(); ++i) {
+      int& first = seen[slot(rows_[i])];
+      if (first < 0) {
+        first = static_cast<int>(i);
+        continue;
+      }
+      const Row& a = rows_[static_cast<std::size_t>(first)];
+      const Row& b = rows_[i];
+      const auto date_key = [](const Stamp& st) { return (st.year * 12 + st.month) * 31 + st.day; };
+      const Row* lo = &rows_.front();
+      const Row* hi = lo;
+      for (const Row& r : rows_) {
+        if (date_key(r.stamp) < date_key(lo->stamp)) lo = &r;
+        if (date_key(r.stamp) > date_key(hi->stamp)) hi = &r;
+      }
+      const long days = days_from_civil(hi->stamp) - days_from_civil(lo->stamp) + 1;
+      const double years = days / 365.2425;
+      const std::string span =
+          std::fabs(years - std::round(years)) < 0.05 && std::round(years) >= 2
+              ? fmt::format("{:.0f} years", std::round(years))
+              : years < 1.5 ? fmt::format("more than one year ({} days)", days)
+                            : fmt::format("{:.1f} years", years);
+      const auto date_text = [](const Stamp& st) {
+        return fmt::format("{:04}-{:02}-{:02}", st.year, st.month, st.day);
+      };
+      throw InputError(fmt::format(
+          "{}: the file spans {} to {}, {}; evaluate one year at a time (line {} and line {} "
+          "are both {:02}-{:02} {:02}:{:02}, of {} and {}); allowed: one year of rows, or a "
+          "typical year whose months come from different years",
+          src(), date_text(lo->stamp), date_text(hi->stamp), span, a.line, b.line, b.month, b.day,
+          b.hour, b.minute, a.stamp.year, b.stamp.year));
+    }
+  }
+
+  // Days since 1970-01-01 of a proleptic Gregorian date (H. Hinnant's civil-date algorithm).
+  static long days_from_civil(const Stamp& st) {
+    const long y = st.year - (st.month <= 2 ? 1 : 0);
+    const long era = (y >= 0 ? y : y - 399) / 400;
+    const long yoe = y - era * 400;
+    const long mp = (st.month + 9) % 12;
+    const long doy = (153 * mp + 2) / 5 + st.day - 1;
+    const long doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
+    return era * 146097 + doe - 719468;
   }
 
   // --- Units ---
@@ -1225,9 +1324,9 @@ class Reader {
                                  std::string_view from) const {
     const Kind kind = info(u.quantity).kind;
     throw InputError(fmt::format(
-        "{}: column '{}' has unit '{}' ({}), which is not a {} unit (allowed: {}); set it in "
+        "{}: column {} has unit {} ({}), which is not a {} unit (allowed: {}); set it in "
         "[weather], e.g. {} = {{ unit = \"{}\" }}",
-        src(), u.header, unit, from, kind_word(kind), allowed_units(kind), info(u.quantity).key,
+        src(), echo(u.header), echo(unit), from, kind_word(kind), allowed_units(kind), info(u.quantity).key,
         first_unit(kind)));
   }
 
@@ -1262,9 +1361,9 @@ class Reader {
                                      kind_word(kind), pl.why)
                        : fmt::format("its values ({:g} to {:g}) fit {} alike", lo, hi, which);
     throw InputError(fmt::format(
-        "{}:{}: column '{}' has no unit in the header and {}; allowed: a unit in the header or "
+        "{}:{}: column {} has no unit in the header and {}; allowed: a unit in the header or "
         "in [weather], e.g. {} = {{ unit = \"{}\" }} (units: {})",
-        src(), out_.info.header_line, u.header, found, info(u.quantity).key,
+        src(), out_.info.header_line, echo(u.header), found, info(u.quantity).key,
         fits.empty() ? first_unit(kind) : fits[0]->help, allowed_units(kind)));
   }
 
@@ -1284,8 +1383,8 @@ class Reader {
       if (o.unit) {
         const HeaderUnit* hu = find_unit(kind, *o.unit);
         if (!hu)
-          throw InputError(fmt::format("{}: unit '{}' given for {} is not a {} unit (allowed: {})",
-                                       o.origin.empty() ? "the weather mapping" : o.origin, *o.unit,
+          throw InputError(fmt::format("{}: unit {} given for {} is not a {} unit (allowed: {})",
+                                       o.origin.empty() ? "the weather mapping" : o.origin, echo(*o.unit),
                                        info(u.quantity).label, kind_word(kind),
                                        allowed_units(kind)));
         c = conversion(*hu);
@@ -1321,11 +1420,295 @@ class Reader {
     }
   }
 
+  // --- Resolution: the step the values were written to ---
+
+  // The step of a column's values in its own unit: the coarsest of 1, 0.5, 0.1, ... of which
+  // every value is a whole multiple. Under a day of values says nothing (a few whole numbers
+  // are whole by chance), so it is 0 then, as for values finer than a thousandth.
+  double resolution_of(std::size_t slot) const {
+    constexpr double kSteps[] = {1.0, 0.5, 0.1, 0.05, 0.01, 0.001};
+    constexpr unsigned kAll = (1u << std::size(kSteps)) - 1;
+    unsigned alive = kAll;
+    int n = 0;
+    for (const Row& r : rows_) {
+      if (r.cell[slot] != Cell::ok) continue;
+      ++n;
+      for (std::size_t k = 0; k < std::size(kSteps); ++k) {
+        if (!(alive >> k & 1u)) continue;
+        const double q = r.raw[slot] / kSteps[k];
+        if (std::fabs(q - std::round(q)) > 1e-6) alive &= ~(1u << k);
+      }
+      if (alive == 0) return 0.0;
+    }
+    if (n < kMinStatisticRows) return 0.0;
+    for (std::size_t k = 0; k < std::size(kSteps); ++k)
+      if (alive >> k & 1u) return kSteps[k];
+    return 0.0;
+  }
+
+  // Written values are within half their step of the reading: a dew point above the dry-bulb
+  // by up to half the step of each column (plus the fixed tolerance) is saturated air.
+  void find_resolution() {
+    WeatherInfo& inf = out_.info;
+    double step_si[3] = {0.0, 0.0, 0.0};
+    double coarsest = 0.0;
+    for (ColumnUse& u : inf.columns) {
+      if (!info(u.quantity).has_unit) continue;
+      const std::size_t slot = slot_of(u.quantity);
+      if (slot_column_[slot] != u.index) continue;
+      u.resolution = resolution_of(slot);
+      step_si[slot] = u.resolution * conv_[slot].scale;
+    }
+    inf.temperature_tolerance_k = kTemperatureToleranceK;
+    inf.relative_humidity_tolerance = kRelativeHumidityTolerance;
+    const Kind hk = info(slot_quantity_[kHumidity]).kind;
+    const ColumnUse* dry = inf.find(Quantity::dry_bulb);
+    const ColumnUse* hum = inf.find(slot_quantity_[kHumidity]);
+    if (hk == Kind::temperature) {
+      inf.temperature_tolerance_k += 0.5 * (step_si[kDry] + step_si[kHumidity]);
+      coarsest = std::max(dry->resolution, hum->resolution);
+    } else if (hk == Kind::fraction) {
+      inf.relative_humidity_tolerance += 0.5 * step_si[kHumidity];
+      coarsest = hum->resolution;
+    }
+    if (coarsest > 0.0 && hk != Kind::humidity_ratio)
+      inf.rounding_words = fmt::format("{}-{}", step_word(coarsest),
+                                       hk == Kind::temperature ? "degree" : "percent");
+  }
+
+  static std::size_t slot_of(Quantity q) {
+    return q == Quantity::dry_bulb ? kDry : q == Quantity::pressure ? kPressure : kHumidity;
+  }
+
+  static std::string_view step_word(double step) {
+    constexpr std::pair<double, std::string_view> kWords[] = {
+        {1.0, "whole"}, {0.5, "half"}, {0.1, "tenth"}, {0.05, "twentieth"}, {0.01, "hundredth"},
+        {0.001, "thousandth"}};
+    for (const auto& [s, w] : kWords)
+      if (s == step) return w;
+    return "fine";
+  }
+
+  // --- Labels judged by the column's statistics ---
+
+  struct Stats {
+    int n = 0, impossible = 0;
+    double median = 0.0, max = 0.0;
+  };
+
+  // The readable values of `slot` converted with `c` (the dry-bulb with `dry`): how many are
+  // impossible for the quantity, their median and their largest.
+  Stats stats_of(std::size_t slot, const Conversion& c, const Conversion& dry) const {
+    const Kind kind = info(slot_quantity_[slot]).kind;
+    const Plausible& pl = plausible(kind);
+    const WeatherInfo& inf = out_.info;
+    Stats st;
+    std::vector<double> v;
+    v.reserve(rows_.size());
+    for (const Row& r : rows_) {
+      if (r.cell[slot] != Cell::ok) continue;
+      const double x = r.raw[slot] * c.scale + c.offset;
+      bool bad = !(x >= pl.lo && x <= pl.hi);
+      if (slot == kHumidity && kind == Kind::temperature && r.cell[kDry] == Cell::ok)
+        bad = bad || x > r.raw[kDry] * dry.scale + dry.offset + inf.temperature_tolerance_k;
+      if (slot == kHumidity && kind == Kind::fraction)
+        bad = bad || x <= 0.0 || x > 1.0 + inf.relative_humidity_tolerance;
+      st.impossible += bad;
+      v.push_back(x);
+    }
+    st.n = static_cast<int>(v.size());
+    if (v.empty()) return st;
+    auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
+    std::nth_element(v.begin(), mid, v.end());
+    st.median = *mid;
+    st.max = *std::max_element(v.begin(), v.end());
+    return st;
+  }
+
+  static std::string si_text(Kind kind, double v) {
+    switch (kind) {
+      case Kind::temperature: return fmt::format("{:.1f} °C", v);
+      case Kind::pressure: return fmt::format("{:.4g} kPa", v);
+      case Kind::fraction: return fmt::format("{:.3g} %", v * 100.0);
+      default: return fmt::format("{:.3g} kg/kg", v);
+    }
+  }
+
+  bool whole_year() const {
+    std::array<bool, 12> seen{};
+    for (const Row& r : rows_) seen[static_cast<std::size_t>(r.month - 1)] = true;
+    return std::all_of(seen.begin(), seen.end(), [](bool b) { return b; });
+  }
+
+  // Why the values of `slot`, read with `c`, cannot be the quantity in that unit; empty when
+  // they can. `statistical` says whether the reason is the column as a whole (its median or
+  // its year's highest value) rather than a share of impossible rows.
+  std::string implausible(std::size_t slot, const Stats& st, bool& statistical) const {
+    statistical = false;
+    if (st.n < kMinStatisticRows) return "";
+    const Quantity q = slot_quantity_[slot];
+    const Kind kind = info(q).kind;
+    std::vector<std::string> why;
+    if (st.impossible > kLabelImpossibleShare * st.n)
+      why.push_back(fmt::format("{} of {} rows ({:.1f} %) are impossible for a {}", st.impossible,
+                                st.n, 100.0 * st.impossible / st.n, info(q).label));
+    for (const MedianBand& b : kMedianBands)
+      if (b.quantity == q && !(st.median >= b.lo && st.median <= b.hi)) {
+        why.push_back(fmt::format("its median is {}, where {} lies between {} and {}",
+                                  si_text(kind, st.median), b.what, si_text(kind, b.lo),
+                                  si_text(kind, b.hi)));
+        statistical = true;
+      }
+    const Plausible& pl = plausible(kind);
+    // A dew point can stay low all year on a cold dry plateau; the dry-bulb and the RH
+    // cannot stay below their floors through a whole year anywhere an economizer runs.
+    if ((q == Quantity::dry_bulb || q == Quantity::relative_humidity) && whole_year() &&
+        st.max < pl.max_lo) {
+      why.push_back(fmt::format("its highest value of a whole year is {}, below the {} every "
+                                "year reaches",
+                                si_text(kind, st.max), si_text(kind, pl.max_lo)));
+      statistical = true;
+    }
+    std::string out;
+    for (const std::string& w : why) out += (out.empty() ? "" : ", and ") + w;
+    return out;
+  }
+
+  struct Choice {
+    std::size_t slot;
+    const HeaderUnit* unit;  // nullptr: the unit as read
+    Conversion conv;
+  };
+
+  // The units the column could be in: the one read first, then every other of its kind.
+  std::vector<Choice> choices(std::size_t slot) const {
+    std::vector<Choice> out{{slot, nullptr, conv_[slot]}};
+    const Kind kind = info(slot_quantity_[slot]).kind;
+    for (const HeaderUnit& h : kHeaderUnits) {
+      if (h.kind != kind) continue;
+      const Conversion c = conversion(h);
+      if (c.scale == conv_[slot].scale && c.offset == conv_[slot].offset) continue;
+      out.push_back({slot, &h, c});
+    }
+    return out;
+  }
+
+  std::string unit_source(const ColumnUse& u) const {
+    switch (u.unit_found) {
+      case UnitFound::header: return "from its header";
+      case UnitFound::legend: return "from the legend, " + u.unit_origin;
+      case UnitFound::override: return "set by " + u.unit_origin;
+      case UnitFound::inferred: return "inferred from its values";
+      case UnitFound::same_as_dry_bulb: return "taken from the dry-bulb";
+      case UnitFound::none: break;
+    }
+    return "as read";
+  }
+
+  // A column whose values contradict its unit is refused with the evidence and the fix: the
+  // remedy for a column in the wrong unit is its unit, never dropping the rows it makes bad.
+  void check_labels() const {
+    // The dry-bulb and the humidity are judged together (a dew point against the dry-bulb,
+    // and a file in °F usually has both in °F); the pressure on its own.
+    std::vector<std::vector<std::size_t>> groups{{kDry, kHumidity}};
+    if (slot_column_[kPressure] >= 0) groups.push_back({kPressure});
+    std::vector<std::string> found, mapping_fix, cli_fix;
+    for (const auto& group : groups) {
+      // Every combination of units of the group's columns, the ones as read first.
+      std::vector<std::vector<Choice>> combos{{}};
+      for (std::size_t slot : group) {
+        std::vector<std::vector<Choice>> next;
+        for (const auto& partial : combos)
+          for (const Choice& c : choices(slot)) {
+            next.push_back(partial);
+            next.back().push_back(c);
+          }
+        combos = std::move(next);
+      }
+      const auto judge = [&](const std::vector<Choice>& combo, std::vector<std::string>& why,
+                             bool& statistical, int& impossible) {
+        const Conversion& dry = combo[0].slot == kDry ? combo[0].conv : conv_[kDry];
+        why.clear();
+        statistical = false;
+        impossible = 0;
+        for (const Choice& c : combo) {
+          const Stats st = stats_of(c.slot, c.conv, dry);
+          bool s = false;
+          why.push_back(implausible(c.slot, st, s));
+          statistical = statistical || s;
+          impossible += st.impossible;
+        }
+      };
+      std::vector<std::string> as_read;
+      bool statistical = false;
+      int impossible = 0;
+      judge(combos[0], as_read, statistical, impossible);
+      if (std::all_of(as_read.begin(), as_read.end(), [](const std::string& w) { return w.empty(); }))
+        continue;
+      // The plausible combination that changes fewest units, then leaves fewest impossible rows.
+      const std::vector<Choice>* best = nullptr;
+      int best_changes = 0, best_impossible = 0;
+      for (std::size_t k = 1; k < combos.size(); ++k) {
+        std::vector<std::string> why;
+        bool s = false;
+        int imp = 0;
+        judge(combos[k], why, s, imp);
+        if (!std::all_of(why.begin(), why.end(), [](const std::string& w) { return w.empty(); }))
+          continue;
+        const int changes = static_cast<int>(std::count_if(
+            combos[k].begin(), combos[k].end(), [](const Choice& c) { return c.unit != nullptr; }));
+        if (!best || changes < best_changes ||
+            (changes == best_changes && imp < best_impossible))
+          best = &combos[k], best_changes = changes, best_impossible = imp;
+      }
+      if (!best && !statistical) continue;  // a share of bad rows, but no unit explains it
+      for (std::size_t i = 0; i < group.size(); ++i) {
+        const std::size_t slot = group[i];
+        const ColumnUse* u = out_.info.find(slot_quantity_[slot]);
+        const bool changed = best && (*best)[i].unit != nullptr;
+        if (as_read[i].empty() && !changed) continue;
+        std::string text = fmt::format("column {} contradicts its unit {} ({}): {}", echo(u->header),
+                                       u->unit, unit_source(*u),
+                                       as_read[i].empty() ? "read with the other column's unit"
+                                                          : as_read[i]);
+        if (changed) {
+          const HeaderUnit& h = *(*best)[i].unit;
+          const Conversion& dry = (*best)[0].slot == kDry ? (*best)[0].conv : conv_[kDry];
+          const Stats st = stats_of(slot, (*best)[i].conv, dry);
+          text += fmt::format("; read in {} its values are plausible (median {})", h.label,
+                              si_text(info(slot_quantity_[slot]).kind, st.median));
+          const std::string_view key = info(slot_quantity_[slot]).key;
+          mapping_fix.push_back(fmt::format("{} = {{ unit = \"{}\" }}", key, h.help));
+          cli_fix.push_back(
+              "--column " + echo(fmt::format("{}={}:{}", key, u->header, h.help)));
+        } else if (!best) {
+          text += fmt::format("; no unit reads it plausibly: check that it is the {} (name the "
+                              "right column in [weather], e.g. {} = {{ column = \"...\" }})",
+                              info(slot_quantity_[slot]).label, info(slot_quantity_[slot]).key);
+        }
+        found.push_back(std::move(text));
+      }
+    }
+    if (found.empty()) return;
+    std::string msg = src() + ": ";
+    for (std::size_t i = 0; i < found.size(); ++i) msg += (i ? "; " : "") + found[i];
+    if (!mapping_fix.empty()) {
+      msg += "; fix: ";
+      for (std::size_t i = 0; i < mapping_fix.size(); ++i)
+        msg += (i ? " and " : "") + mapping_fix[i];
+      msg += " in the unit file's [weather] table, or ";
+      for (std::size_t i = 0; i < cli_fix.size(); ++i) msg += (i ? " " : "") + cli_fix[i];
+    }
+    throw InputError(msg);
+  }
+
   // --- Rows to states ---
 
   struct State {
     double t, w, p;
   };
+
+  enum class Saturation { none, tolerance, rounding };
 
   // The value of a slot in SI, or the reason it is not usable.
   bool value(const Row& r, std::size_t slot, double& v, std::string& why) const {
@@ -1355,10 +1738,23 @@ class Reader {
     return false;
   }
 
+  // "(up to 0.56 K above is read as saturation)", with the rounding when it widens it.
+  std::string saturation_words(double tolerance, double fixed, std::string_view unit,
+                               double shown_scale) const {
+    const std::string& words = out_.info.rounding_words;
+    if (tolerance <= fixed + 1e-12 || words.empty())
+      return fmt::format("up to {:.{}f} {} above is read as saturation", tolerance * shown_scale,
+                         unit == "K" ? 2 : 0, unit);
+    return fmt::format("up to {:.2f} {} above is read as saturation: {:.2f} {} plus the {} "
+                       "rounding of the values",
+                       tolerance * shown_scale, unit, fixed * shown_scale, unit, words);
+  }
+
   // Resolves a row to a state; on a bad row returns the slot at fault and the reason.
-  bool resolve(const Row& r, State& s, bool& capped, std::size_t& bad_slot,
+  bool resolve(const Row& r, State& s, Saturation& sat, std::size_t& bad_slot,
                std::string& why) const {
-    capped = false;
+    const WeatherInfo& inf = out_.info;
+    sat = Saturation::none;
     bad_slot = kDry;
     if (!value(r, kDry, s.t, why)) return false;
     const Plausible& tp = plausible(Kind::temperature);
@@ -1382,32 +1778,46 @@ class Reader {
     double h = 0.0;
     if (!value(r, kHumidity, h, why)) return false;
     try {
-      switch (out_.info.humidity) {
+      switch (inf.humidity) {
         case HumiditySource::dew_point:
         case HumiditySource::wet_bulb: {
-          const bool dew = out_.info.humidity == HumiditySource::dew_point;
+          const bool dew = inf.humidity == HumiditySource::dew_point;
           const char* what = dew ? "dew point" : "wet-bulb";
-          if (h > s.t + kTemperatureToleranceK) {
+          const double excess = h - s.t;
+          if (excess > inf.temperature_tolerance_k) {
             why = fmt::format(
                 "is a {} of {:.4g} °C, above the dry-bulb {:.4g} °C; allowed: up "
-                "to the dry-bulb (up to {:.2f} K above is read as saturation)",
-                what, h, s.t, kTemperatureToleranceK);
+                "to the dry-bulb ({})",
+                what, h, s.t,
+                saturation_words(inf.temperature_tolerance_k, kTemperatureToleranceK, "K", 1.0));
             return false;
           }
-          if (h > s.t) h = s.t, capped = true;
+          if (excess > 0.0) {
+            h = s.t;
+            sat = excess > kTemperatureToleranceK + 1e-9 ? Saturation::rounding
+                                                         : Saturation::tolerance;
+          }
           s.w = dew ? psychro::humidity_ratio_from_dew_point(h, s.p)
                     : psychro::humidity_ratio_from_wet_bulb(s.t, h, s.p);
           break;
         }
         case HumiditySource::relative_humidity: {
-          if (h < 0.0 || h > 1.0 + kRelativeHumidityTolerance) {
+          const double tol = inf.relative_humidity_tolerance;
+          if (h < 0.0 || h > 1.0 + tol) {
             why = fmt::format(
-                "is {:.4g} % relative humidity; allowed 0 % to 100 % (up to {:g} % "
-                "is read as 100 %)",
-                h * 100.0, 100.0 * (1.0 + kRelativeHumidityTolerance));
+                "is {:.4g} % relative humidity; allowed 0 % to 100 % (up to {:.4g} % "
+                "is read as 100 %{})",
+                h * 100.0, 100.0 * (1.0 + tol),
+                tol > kRelativeHumidityTolerance + 1e-12 && !inf.rounding_words.empty()
+                    ? fmt::format(": 1 % plus the {} rounding of the values", inf.rounding_words)
+                    : std::string());
             return false;
           }
-          if (h > 1.0) h = 1.0, capped = true;
+          if (h > 1.0) {
+            sat = h > 1.0 + kRelativeHumidityTolerance + 1e-9 ? Saturation::rounding
+                                                               : Saturation::tolerance;
+            h = 1.0;
+          }
           s.w = psychro::humidity_ratio_from_relative_humidity(s.t, h, s.p);
           break;
         }
@@ -1420,7 +1830,7 @@ class Reader {
                 h, ws, s.t, s.p);
             return false;
           }
-          if (h > ws) h = ws, capped = true;
+          if (h > ws) h = ws, sat = Saturation::tolerance;
           s.w = h;
           break;
         }
@@ -1429,30 +1839,52 @@ class Reader {
       why = fmt::format("is not a possible state: {}", e.what());
       return false;
     }
+    // Perfectly dry air (RH 0 %, humidity ratio 0) is a failed sensor or a missing reading,
+    // and has no dew point for the model to work with.
+    if (!(psychro::vapor_pressure_from_humidity_ratio(s.w, s.p) >= min_vapor_pressure_kpa_)) {
+      const std::string reading =
+          inf.humidity == HumiditySource::relative_humidity ? fmt::format("{:.4g} % relative humidity", h * 100.0)
+          : inf.humidity == HumiditySource::humidity_ratio  ? fmt::format("{:.5g} kg/kg", h)
+                                                            : fmt::format("{:.4g} °C", h);
+      why = fmt::format(
+          "is {}, air drier than the psychrometric model reaches (a dew point below -100 °C); "
+          "allowed: a humidity above 0 (0 is a failed sensor or a missing reading)",
+          reading);
+      return false;
+    }
     return true;
   }
 
+  std::string bad_row_text(const Row& r, std::size_t slot, const std::string& why) const {
+    return fmt::format("column {} value {} {}",
+                       echo(header_[static_cast<std::size_t>(slot_column_[slot])].text),
+                       echo(r.text[slot]), why);
+  }
+
   void convert() {
+    check_labels();
     WeatherInfo& inf = out_.info;
     const std::size_t n = rows_.size();
     std::vector<State> states(n);
     std::vector<unsigned char> bad(n, 0);
-    int good = 0;
+    int good = 0, bad_count = 0;
+    std::string first_bad;
+    int first_bad_line = 0;
     for (std::size_t i = 0; i < n; ++i) {
       const Row& r = rows_[i];
-      bool capped = false;
+      Saturation sat = Saturation::none;
       std::size_t slot = 0;
       std::string why;
-      if (resolve(r, states[i], capped, slot, why)) {
+      if (resolve(r, states[i], sat, slot, why)) {
         ++good;
-        if (capped) ++inf.months[static_cast<std::size_t>(r.month - 1)].capped;
+        MonthCounts& mc = inf.months[static_cast<std::size_t>(r.month - 1)];
+        if (sat != Saturation::none) ++mc.capped;
+        if (sat == Saturation::rounding) ++mc.rounded;
         continue;
       }
       if (mapping_.on_bad_row == BadRowPolicy::error)
-        fail_at(r.line, fmt::format("column '{}' value '{}' {} (or set on_bad_row to skip or "
-                                    "fill)",
-                                    header_[static_cast<std::size_t>(slot_column_[slot])].text,
-                                    r.text[slot], why));
+        fail_at(r.line, bad_row_text(r, slot, why) + " (or set on_bad_row to skip or fill)");
+      if (bad_count++ == 0) first_bad = bad_row_text(r, slot, why), first_bad_line = r.line;
       bad[i] = 1;
       MonthCounts& mc = inf.months[static_cast<std::size_t>(r.month - 1)];
       ++(mapping_.on_bad_row == BadRowPolicy::skip ? mc.skipped : mc.filled);
@@ -1462,6 +1894,7 @@ class Reader {
           fmt::format("{}: none of the {} data rows (lines {} to {}) has usable "
                       "values; allowed: at least one",
                       src(), n, inf.first_data_line, inf.last_data_line));
+    check_bad_share(bad_count, first_bad_line, first_bad);
     if (mapping_.on_bad_row == BadRowPolicy::fill) fill(states, bad);
 
     // Feb 29 shifts the later days of the year only when the file has it.
@@ -1486,6 +1919,36 @@ class Reader {
       ++inf.months[static_cast<std::size_t>(r.month - 1)].rows;
       out_.hours.push_back(h);
     }
+    if (inf.pressure_from_file && !out_.hours.empty()) {
+      std::vector<double> p;
+      p.reserve(out_.hours.size());
+      for (const WeatherHour& h : out_.hours) p.push_back(h.pressure_kpa);
+      auto mid = p.begin() + static_cast<std::ptrdiff_t>(p.size() / 2);
+      std::nth_element(p.begin(), mid, p.end());
+      inf.median_pressure_kpa = *mid;
+    }
+  }
+
+  // Dropping or inventing more than a small share of a year is no longer reading the file:
+  // beyond the share the user has allowed, the read is refused with the first bad row.
+  void check_bad_share(int bad_count, int first_line, const std::string& first) {
+    WeatherInfo& inf = out_.info;
+    const double share = mapping_.max_bad_share.value_or(kDefaultMaxBadShare);
+    inf.max_bad_share = share;
+    const int n = static_cast<int>(rows_.size());
+    if (bad_count == 0 || bad_count <= share * n + 1e-9) return;
+    const double pct = 100.0 * bad_count / n;
+    const double needed = std::ceil(pct * 10.0 - 1e-9) / 10.0;
+    const bool skip = mapping_.on_bad_row == BadRowPolicy::skip;
+    throw InputError(fmt::format(
+        "{}: {} of {} rows ({:.2g} %) have missing or impossible values and would be {}; "
+        "allowed: at most {:g} % ({}); the first is line {}: {}; if these rows are truly "
+        "missing readings, allow their share with max_bad_share = \"{:g}%\" in [weather] or "
+        "--max-bad-share {:g}%",
+        src(), bad_count, n, pct, skip ? "skipped" : "filled by interpolation", share * 100.0,
+        mapping_.max_bad_share ? "max_bad_share, set by " + mapping_.max_bad_share_origin
+                               : std::string("the default; max_bad_share raises it"),
+        first_line, first, needed, needed));
   }
 
   // Linear interpolation in time between the nearest good rows; a run at either end of the
@@ -1531,7 +1994,7 @@ Enum parse_name(const std::array<std::pair<Enum, std::string_view>, N>& names,
   std::string allowed;
   for (const auto& [value, name] : names)
     allowed += (allowed.empty() ? "" : ", ") + std::string(name);
-  throw InputError(fmt::format("{}: '{}' is not {} (allowed: {})", origin, text, what, allowed));
+  throw InputError(fmt::format("{}: {} is not {} (allowed: {})", origin, echo(text), what, allowed));
 }
 
 template <typename Enum, std::size_t N>
@@ -1583,6 +2046,18 @@ TimeConvention parse_time_convention(std::string_view text, std::string_view ori
   return parse_name(kConventionNames, text, origin, "a time convention");
 }
 
+double parse_max_bad_share(std::string_view text, std::string_view origin) {
+  const double share = units::parse(Kind::fraction, text, units::System::si, origin);
+  if (!(share >= 0.0 && share <= 1.0))
+    throw InputError(fmt::format("{}: {} is not a share of rows; allowed: 0 % to 100 %", origin,
+                                 echo(text)));
+  return share;
+}
+
+bool accepts_unit(Quantity q, std::string_view unit) {
+  return info(q).has_unit && find_unit(info(q).kind, unit) != nullptr;
+}
+
 // --- Reading -------------------------------------------------------------------------------
 
 int WeatherInfo::skipped() const {
@@ -1598,6 +2073,11 @@ int WeatherInfo::filled() const {
 int WeatherInfo::capped() const {
   int n = 0;
   for (const MonthCounts& m : months) n += m.capped;
+  return n;
+}
+int WeatherInfo::rounded() const {
+  int n = 0;
+  for (const MonthCounts& m : months) n += m.rounded;
   return n;
 }
 const ColumnUse* WeatherInfo::find(Quantity q) const {
@@ -1641,6 +2121,13 @@ Mapping read_mapping(const toml::table& table, std::string_view file_name) {
     } else if (k == "on_bad_row") {
       m.on_bad_row =
           parse_bad_row_policy(text_of(node, origin, k), origin + ": [weather] on_bad_row");
+    } else if (k == "max_bad_share") {
+      // "5%", or a bare number of percent as elsewhere in the unit file.
+      const std::string text = node.is_number()
+                                   ? fmt::format("{}%", node.value<double>().value_or(0.0))
+                                   : text_of(node, origin, k);
+      m.max_bad_share = parse_max_bad_share(text, origin + ": [weather] max_bad_share");
+      m.max_bad_share_origin = origin;
     } else if (k == "time_convention") {
       m.time_convention =
           parse_time_convention(text_of(node, origin, k), origin + ": [weather] time_convention");
@@ -1662,21 +2149,21 @@ Mapping read_mapping(const toml::table& table, std::string_view file_name) {
         } else if (sub_key.str() == "unit" && has_unit) {
           const std::string unit = text_of(sub_node, sub_origin, name);
           if (!find_unit(info(*q).kind, unit))
-            throw InputError(fmt::format("{}: [weather] {} '{}' is not a {} unit (allowed: {})",
-                                         sub_origin, name, unit, kind_word(info(*q).kind),
+            throw InputError(fmt::format("{}: [weather] {} {} is not a {} unit (allowed: {})",
+                                         sub_origin, name, echo(unit), kind_word(info(*q).kind),
                                          allowed_units(info(*q).kind)));
           o.unit = unit;
         } else {
           throw InputError(
-              fmt::format("{}: [weather] key '{}' is not known (allowed: {})", sub_origin, name,
+              fmt::format("{}: [weather] key {} is not known (allowed: {})", sub_origin, echo(name),
                           has_unit ? "column, unit" : "column; a time column has no unit"));
         }
       }
     } else {
-      std::string allowed = "file, humidity, on_bad_row, time_convention";
+      std::string allowed = "file, humidity, on_bad_row, max_bad_share, time_convention";
       for (const QuantityInfo& qi : kQuantities) allowed += ", " + std::string(qi.key);
       throw InputError(
-          fmt::format("{}: [weather] key '{}' is not known (allowed: {})", origin, k, allowed));
+          fmt::format("{}: [weather] key {} is not known (allowed: {})", origin, echo(k), allowed));
     }
   }
   return m;
@@ -1756,23 +2243,23 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
     switch (c.quantity) {
       case Quantity::dry_bulb:
         lines.push_back(
-            fmt::format("dry-bulb: column '{}', {} ({})", c.header, c.unit, found_text(c)));
+            fmt::format("dry-bulb: column {}, {} ({})", echo(c.header), c.unit, found_text(c)));
         break;
       case Quantity::pressure:
         lines.push_back(
-            fmt::format("pressure: column '{}', {} ({})", c.header, c.unit, found_text(c)));
+            fmt::format("pressure: column {}, {} ({})", echo(c.header), c.unit, found_text(c)));
         break;
       case Quantity::dew_point:
       case Quantity::humidity_ratio:
       case Quantity::wet_bulb:
       case Quantity::relative_humidity: {
-        std::string line = fmt::format("humidity: {}, column '{}', {} ({}{})",
-                                       quantity_label(c.quantity), c.header, c.unit, found_text(c),
+        std::string line = fmt::format("humidity: {}, column {}, {} ({}{})",
+                                       quantity_label(c.quantity), echo(c.header), c.unit, found_text(c),
                                        inf.humidity_overridden ? "; chosen by the mapping" : "");
         if (!inf.unused_humidity.empty()) {
           line += "; not used:";
           for (std::size_t i = 0; i < inf.unused_humidity.size(); ++i)
-            line += fmt::format("{} '{}'", i ? "," : "", inf.unused_humidity[i].header);
+            line += fmt::format("{} {}", i ? "," : "", echo(inf.unused_humidity[i].header));
         }
         lines.push_back(line);
         break;
@@ -1805,7 +2292,6 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
 
   const std::string skipped = month_list(inf.months, &MonthCounts::skipped);
   const std::string filled = month_list(inf.months, &MonthCounts::filled);
-  const std::string capped = month_list(inf.months, &MonthCounts::capped);
   if (skipped.empty() && filled.empty())
     lines.push_back(
         fmt::format("bad rows: none (on_bad_row = {})", bad_row_policy_name(inf.policy)));
@@ -1814,9 +2300,25 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
   if (!filled.empty())
     lines.push_back(fmt::format("bad rows filled by interpolation: {} ({}; longest run {})",
                                 inf.filled(), filled, inf.fill_longest_run));
-  if (!capped.empty())
+  if (inf.capped() > inf.rounded()) {
+    std::array<MonthCounts, 12> within = inf.months;
+    for (MonthCounts& m : within) m.capped -= m.rounded;
     lines.push_back(fmt::format("read as saturation (within tolerance above it): {} ({})",
-                                inf.capped(), capped));
+                                inf.capped() - inf.rounded(),
+                                month_list(within, &MonthCounts::capped)));
+  }
+  if (inf.rounded() > 0) {
+    const bool rh = inf.humidity == HumiditySource::relative_humidity;
+    lines.push_back(fmt::format(
+        "{} rows read as saturated: {} rounding ({}; {})", inf.rounded(), inf.rounding_words,
+        rh ? fmt::format("relative humidity up to {:.4g} % read as 100 %",
+                         100.0 * (1.0 + inf.relative_humidity_tolerance))
+           : fmt::format("{} up to {:.2f} K above the dry-bulb read as equal to it",
+                         quantity_label(inf.find(Quantity::dew_point) ? Quantity::dew_point
+                                                                      : Quantity::wet_bulb),
+                         inf.temperature_tolerance_k),
+        month_list(inf.months, &MonthCounts::rounded)));
+  }
   return lines;
 }
 

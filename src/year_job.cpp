@@ -3,10 +3,12 @@
 #include <limitline/codes.hpp>
 #include <limitline/embedded.hpp>
 #include <limitline/error.hpp>
+#include <limitline/psychro.hpp>
 #include <limitline/report/strategy.hpp>
 
 #include <fmt/format.h>
 
+#include <cmath>
 #include <filesystem>
 
 namespace limitline {
@@ -23,11 +25,13 @@ constexpr Demo kDemos[] = {
     {"mesa-alta", "demo-mesa-alta.toml"},
 };
 
-weather::Mapping mapping_for(const UnitFile& unit, const WeatherOverrides& o) {
+// The unit file's [weather] table, then the command line's overrides. An embedded demo unit's
+// table describes its own demo climate: a file the user names is read by its own header.
+weather::Mapping mapping_for(const UnitFile& unit, bool unit_table, const WeatherOverrides& o) {
   weather::Mapping m;
-  if (unit.weather) m = weather::read_mapping(*unit.weather, unit.path);
+  if (unit.weather && unit_table) m = weather::read_mapping(*unit.weather, unit.path);
   for (const std::string& spec : o.columns) {
-    const std::string origin = fmt::format("--column {}", spec);
+    const std::string origin = fmt::format("--column {}", echo(spec));
     const auto eq = spec.find('=');
     if (eq == std::string::npos || eq == 0 || eq + 1 == spec.size())
       throw UsageError(fmt::format("{}: write QUANTITY=HEADER or QUANTITY=HEADER:UNIT, e.g. "
@@ -35,17 +39,17 @@ weather::Mapping mapping_for(const UnitFile& unit, const WeatherOverrides& o) {
                                    origin));
     const auto q = weather::quantity_from_key(spec.substr(0, eq));
     if (!q)
-      throw UsageError(fmt::format("{}: '{}' is not a weather quantity (dry_bulb, dew_point, "
+      throw UsageError(fmt::format("{}: {} is not a weather quantity (dry_bulb, dew_point, "
                                    "relative_humidity, wet_bulb, humidity_ratio, pressure, "
                                    "timestamp, date, time, year, month, day, hour, minute)",
-                                   origin, spec.substr(0, eq)));
+                                   origin, echo(spec.substr(0, eq))));
     std::string header = spec.substr(eq + 1);
     weather::ColumnOverride& c = m.column(*q);
+    // A header may hold colons itself ("Time (HH:MM)"): only a last part the quantity accepts
+    // as a unit is one.
     const auto colon = header.rfind(':');
-    // A colon followed by a unit; a header may itself hold a colon, so only split when the
-    // part after it is short and has no spaces.
-    if (colon != std::string::npos && colon + 1 < header.size() && header.size() - colon <= 8 &&
-        header.find(' ', colon) == std::string::npos) {
+    if (colon != std::string::npos && colon > 0 &&
+        weather::accepts_unit(*q, std::string_view(header).substr(colon + 1))) {
       c.unit = header.substr(colon + 1);
       header = header.substr(0, colon);
     }
@@ -56,6 +60,10 @@ weather::Mapping mapping_for(const UnitFile& unit, const WeatherOverrides& o) {
   if (o.on_bad_row) m.on_bad_row = weather::parse_bad_row_policy(*o.on_bad_row, "--on-bad-row");
   if (o.time_convention)
     m.time_convention = weather::parse_time_convention(*o.time_convention, "--time-convention");
+  if (o.max_bad_share) {
+    m.max_bad_share = weather::parse_max_bad_share(*o.max_bad_share, "--max-bad-share");
+    m.max_bad_share_origin = "--max-bad-share";
+  }
   return m;
 }
 
@@ -112,11 +120,12 @@ YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& ov
     in.unit = load_unit_file(source.path);
     in.unit_label = source.path;
   }
-  const weather::Mapping m = mapping_for(in.unit, overrides);
+  const weather::Mapping m = mapping_for(in.unit, !(source.embedded && overrides.file), overrides);
   in.weather = read_weather(in.unit, source.embedded, m, overrides.file, in.weather_label);
   if (in.unit.schedule) in.schedule = read_schedule(*in.unit.schedule, in.unit.path);
   in.strategies = strategies_or_presets(in.unit);
   in.warnings = in.unit.warnings;
+  if (auto w = site_pressure_warning(in.unit, in.weather.info)) in.warnings.push_back(*w);
   return in;
 }
 
@@ -130,8 +139,39 @@ YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
   in.warnings = base.unit.warnings;
   WeatherOverrides o = overrides;
   o.file = weather_path;
-  in.weather = read_weather(in.unit, false, mapping_for(in.unit, o), o.file, in.weather_label);
+  in.weather = read_weather(in.unit, false, mapping_for(in.unit, true, o), o.file, in.weather_label);
+  if (auto w = site_pressure_warning(in.unit, in.weather.info)) in.warnings.push_back(*w);
   return in;
+}
+
+std::optional<std::string> site_pressure_warning(const UnitFile& unit,
+                                                 const weather::WeatherInfo& w) {
+  const Site& site = unit.site;
+  if (!w.median_pressure_kpa || !(site.elevation_m || site.pressure_kpa)) return std::nullopt;
+  const double p_site = site.design_pressure_kpa(), p_file = *w.median_pressure_kpa;
+  if (std::fabs(p_file - p_site) <= kSitePressureToleranceKpa) return std::nullopt;
+  constexpr double kFt = 0.3048;  // m per ft, by definition
+  const std::string given =
+      site.elevation_m
+          ? fmt::format("elevation {:.0f} m ({:.0f} ft) gives a standard pressure of {:.2f} kPa",
+                        *site.elevation_m, *site.elevation_m / kFt, p_site)
+          : fmt::format("pressure {:.2f} kPa", p_site);
+  double z = 0.0;
+  try {
+    z = psychro::elevation_from_standard_pressure_m(p_file);
+  } catch (const InputError&) {
+  }
+  return fmt::format(
+      "{}: {}, but the weather file {} has a median station pressure of {:.2f} kPa (the "
+      "standard pressure at about {:.0f} m, {:.0f} ft); they differ by {:.1f} kPa, more than "
+      "the {:g} kPa (about 200 m) tolerance: check the site's elevation and that the weather "
+      "is this site's (each hour is computed at the file's pressure)",
+      site.pressure_origin, given, w.source, p_file, z, z / kFt, std::fabs(p_file - p_site),
+      kSitePressureToleranceKpa);
+}
+
+weather::WeatherSeries read_unit_weather(const UnitFile& unit, std::string& label) {
+  return read_weather(unit, false, mapping_for(unit, true, {}), std::nullopt, label);
 }
 
 std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w) {

@@ -5,6 +5,8 @@
 // 1.1.1 (npm, the version pinned in tests/crosscheck), or from the data set's own columns.
 #include <doctest/doctest.h>
 
+#include "support/derived_weather.hpp"
+
 #include <limitline/psychro.hpp>
 #include <limitline/weather.hpp>
 
@@ -57,9 +59,14 @@ wx::WeatherSeries read(const std::string& csv, const wx::Mapping& m = {}, double
   return wx::read_text(csv, "t.csv", m, site);
 }
 
-wx::Mapping policy(wx::BadRowPolicy p) {
+// A bad-row policy for the small files below, where one bad row is a large share of the file:
+// the share the policy may drop or fill is raised explicitly (the 1 % default has its own
+// tests).
+wx::Mapping policy(wx::BadRowPolicy p, double max_bad_share = 1.0) {
   wx::Mapping m;
   m.on_bad_row = p;
+  m.max_bad_share = max_bad_share;
+  m.max_bad_share_origin = "test";
   return m;
 }
 
@@ -1005,7 +1012,7 @@ TEST_CASE("[weather]: every key read") {
 TEST_CASE("[weather]: errors name file, line and key") {
   CHECK(mapping_error("[weather]\nfile = \"a.csv\"\ndry_bulbs = { column = \"T\" }\n") ==
         "unit.toml:3: [weather] key 'dry_bulbs' is not known (allowed: file, humidity, "
-        "on_bad_row, time_convention, dry_bulb, dew_point, relative_humidity, wet_bulb, "
+        "on_bad_row, max_bad_share, time_convention, dry_bulb, dew_point, relative_humidity, wet_bulb, "
         "humidity_ratio, pressure, timestamp, date, time, year, month, day, hour, minute)");
   CHECK(mapping_error("[weather]\n[weather.dry_bulb]\ncolumn = \"T\"\nunits = \"C\"\n") ==
         "unit.toml:4: [weather] key 'dry_bulb.units' is not known (allowed: column, unit)");
@@ -1045,4 +1052,328 @@ TEST_CASE("names: keys, labels and policies round-trip") {
   CHECK(wx::parse_humidity_source(" Wet-Bulb ", "--humidity") == wx::HumiditySource::wet_bulb);
   CHECK(error_of([] { wx::parse_bad_row_policy("drop", "--on-bad-row"); }) ==
         "--on-bad-row: 'drop' is not a bad-row policy (allowed: error, skip, fill)");
+}
+
+// --- Derived versions of the real files ---------------------------------------------------
+// Each is produced here from tests/data/greensboro-nc-tmy3.csv or pvgis-tmy-45n-8e.csv (see
+// SOURCES.md); the checks compare the reader against a plain loop over the same text.
+
+namespace {
+
+// Greensboro with `edit(fields)` applied to every data row (lines 3 to 8762).
+std::string greensboro_with(const std::function<void(std::vector<std::string>&)>& edit,
+                            const std::string& header = "") {
+  return limitline::test::edited_csv(kGreensboro, 2, edit, header);
+}
+
+std::string number(double v, int decimals) { return fmt::format("{:.{}f}", v, decimals); }
+
+// The dry-bulb and dew point in °F (°F = 1.8·°C + 32, by definition), the header left at (C).
+std::string greensboro_fahrenheit_under_celsius() {
+  return greensboro_with([](std::vector<std::string>& f) {
+    f[2] = number(std::stod(f[2]) * 1.8 + 32.0, 1);
+    f[3] = number(std::stod(f[3]) * 1.8 + 32.0, 1);
+  });
+}
+
+// Whole-degree Greensboro: the dry-bulb cut to whole °C (as a logger that drops the decimals
+// does), the dew point rounded to the nearest whole °C. Saturated hours whose tenths are
+// .5 or more come out with the dew point 1 K above the dry-bulb.
+std::string greensboro_whole_degrees() {
+  return greensboro_with([](std::vector<std::string>& f) {
+    f[2] = number(std::floor(std::stod(f[2])), 0);
+    f[3] = number(std::round(std::stod(f[3])), 0);
+  });
+}
+
+std::string with_line_ends(const std::string& text, const std::string& eol) {
+  std::string out;
+  for (char c : text) out += c == '\n' ? eol : std::string(1, c);
+  return out;
+}
+
+bool mentions_skip(const std::string& message) {
+  return message.find("skip") != std::string::npos || message.find("fill") != std::string::npos;
+}
+
+}  // namespace
+
+TEST_CASE("labels: a °F dry-bulb and dew point under (C) headers are refused with the fix") {
+  const std::string text = greensboro_fahrenheit_under_celsius();
+  for (wx::BadRowPolicy p : {wx::BadRowPolicy::error, wx::BadRowPolicy::skip, wx::BadRowPolicy::fill}) {
+    CAPTURE(wx::bad_row_policy_name(p));
+    const std::string msg = error_of([&] { wx::read_text(text, "g.csv", policy(p, 0.01), 101.325); });
+    CHECK(msg.rfind("g.csv: column 'Dry-bulb (C)' contradicts its unit °C (from its header)", 0) == 0);
+    // Greensboro's median dry-bulb near 15 °C is near 60 °F: far above any outdoor median.
+    CHECK(msg.find("its median is 60.1 °C") != std::string::npos);
+    CHECK(msg.find("read in °F its values are plausible") != std::string::npos);
+    CHECK(msg.find("column 'Dew-point (C)' contradicts its unit °C") != std::string::npos);
+    CHECK(msg.find("dry_bulb = { unit = \"F\" } and dew_point = { unit = \"F\" }") !=
+          std::string::npos);
+    CHECK(msg.find("--column 'dry_bulb=Dry-bulb (C):F' --column 'dew_point=Dew-point (C):F'") !=
+          std::string::npos);
+    CHECK_FALSE(mentions_skip(msg));
+  }
+  // The fix it names reads the file, and gives back the data set's own °C values.
+  wx::Mapping fixed;
+  fixed.column(wx::Quantity::dry_bulb).unit = "F";
+  fixed.column(wx::Quantity::dew_point).unit = "F";
+  const wx::WeatherSeries s = wx::read_text(text, "g.csv", fixed, 101.325);
+  const wx::WeatherSeries original = wx::read_file(kGreensboro, {}, 101.325);
+  REQUIRE(s.hours.size() == original.hours.size());
+  // Within the 0.05 °F the tenths of °F were rounded to.
+  for (std::size_t i = 0; i < s.hours.size(); i += 97)
+    CHECK(std::fabs(s.hours[i].dry_bulb_c - original.hours[i].dry_bulb_c) <= 0.05 / 1.8 + 1e-9);
+}
+
+TEST_CASE("labels: °C values under (F), kPa on an mbar column and RH as a fraction") {
+  // °C under (F): every value is plausible as °F, but a whole year whose warmest hour is
+  // 35.6 °F (2 °C) is no year of outdoor air.
+  const std::string c_as_f = greensboro_with([](std::vector<std::string>&) {},
+                                             "Date (MM/DD/YYYY),Time (HH:MM),Dry-bulb (F),"
+                                             "Dew-point (F),RHum (%),Pressure (mbar)");
+  const std::string a = error_of([&] { wx::read_text(c_as_f, "g.csv", {}, 101.325); });
+  CHECK(a.find("column 'Dry-bulb (F)' contradicts its unit °F") != std::string::npos);
+  CHECK(a.find("its highest value of a whole year is 2.0 °C") != std::string::npos);
+  CHECK(a.find("dry_bulb = { unit = \"C\" }") != std::string::npos);
+  CHECK_FALSE(mentions_skip(a));
+  // 993 (mbar) read as kPa: every row impossible; hPa (= mbar) reads them.
+  const std::string kpa = greensboro_with([](std::vector<std::string>&) {},
+                                          "Date (MM/DD/YYYY),Time (HH:MM),Dry-bulb (C),"
+                                          "Dew-point (C),RHum (%),Pressure (kPa)");
+  const std::string b = error_of([&] { wx::read_text(kpa, "g.csv", {}, 101.325); });
+  CHECK(b.find("column 'Pressure (kPa)' contradicts its unit kPa") != std::string::npos);
+  CHECK(b.find("8760 of 8760 rows (100.0 %) are impossible for a pressure") != std::string::npos);
+  CHECK(b.find("pressure = { unit = \"hPa\" }") != std::string::npos);
+  // PVGIS RH (legend: %) written as a 0–1 fraction: a median below 1 % RH.
+  std::vector<std::string> lines = lines_of(slurp(kPvgis));
+  std::string frac;
+  for (std::size_t i = 0; i < lines.size(); ++i) {
+    if (i >= 18 && i < 18 + 8760) {
+      std::vector<std::string> f = fields_of(lines[i]);
+      f[2] = number(std::stod(f[2]) / 100.0, 4);
+      lines[i].clear();
+      for (std::size_t k = 0; k < f.size(); ++k) lines[i] += (k ? "," : "") + f[k];
+    }
+    frac += lines[i] + "\n";
+  }
+  const std::string c = error_of([&] { wx::read_text(frac, "p.csv", {}, 101.325); });
+  CHECK(c.find("column 'RH' contradicts its unit % (from the legend, line 8781)") !=
+        std::string::npos);
+  CHECK(c.find("relative_humidity = { unit = \"fraction\" }") != std::string::npos);
+}
+
+TEST_CASE("labels: a few bad rows are bad rows, not a wrong unit") {
+  // 20 hours of Greensboro at 75 "°C" (0.23 %): the column is °C; the rows are the fault.
+  int n = 0;
+  const std::string text = greensboro_with([&](std::vector<std::string>& f) {
+    if (n++ % 438 == 5) f[2] = "75.0";
+  });
+  const std::string msg = error_of([&] { wx::read_text(text, "g.csv", {}, 101.325); });
+  CHECK(msg.rfind("g.csv:8: column 'Dry-bulb (C)' value '75.0' is 75 °C", 0) == 0);
+  CHECK(msg.find("contradicts") == std::string::npos);
+  const wx::WeatherSeries s = wx::read_text(text, "g.csv", policy(wx::BadRowPolicy::skip, 0.01),
+                                            101.325);
+  CHECK(s.info.skipped() == 20);
+  CHECK(s.hours.size() == 8740);
+}
+
+TEST_CASE("bad-row share: skip and fill refuse beyond 1 % unless it is raised") {
+  // Blank dry-bulbs on `blank` rows spread over the year.
+  const auto blanked = [](int blank) {
+    int row = 0;
+    return greensboro_with([&](std::vector<std::string>& f) {
+      if (row++ % 80 == 3 && blank-- > 0) f[2] = "";
+    });
+  };
+  // 88 of 8760 rows is 1.005 %: just over the default.
+  const std::string over = blanked(88);
+  for (wx::BadRowPolicy p : {wx::BadRowPolicy::skip, wx::BadRowPolicy::fill}) {
+    wx::Mapping m;
+    m.on_bad_row = p;
+    const std::string msg = error_of([&] { wx::read_text(over, "g.csv", m, 101.325); });
+    CHECK(msg.rfind("g.csv: 88 of 8760 rows (1 %) have missing or impossible values", 0) == 0);
+    CHECK(msg.find("allowed: at most 1 % (the default; max_bad_share raises it)") !=
+          std::string::npos);
+    CHECK(msg.find("the first is line 6: column 'Dry-bulb (C)' value '' is empty") !=
+          std::string::npos);
+    CHECK(msg.find("max_bad_share = \"1.1%\" in [weather] or --max-bad-share 1.1%") !=
+          std::string::npos);
+    m.max_bad_share = 0.02;
+    const wx::WeatherSeries s = wx::read_text(over, "g.csv", m, 101.325);
+    CHECK(s.info.skipped() + s.info.filled() == 88);
+    CHECK(s.info.max_bad_share == 0.02);
+  }
+  // 87 rows (0.99 %) are within the default.
+  wx::Mapping skip;
+  skip.on_bad_row = wx::BadRowPolicy::skip;
+  CHECK(wx::read_text(blanked(87), "g.csv", skip, 101.325).hours.size() == 8760 - 87);
+}
+
+TEST_CASE("[weather] max_bad_share: a percentage from 0 % to 100 %") {
+  CHECK(mapping_of("[weather]\nmax_bad_share = \"5%\"\n").max_bad_share == doctest::Approx(0.05));
+  CHECK(mapping_of("[weather]\nmax_bad_share = 2\n").max_bad_share == doctest::Approx(0.02));
+  CHECK(mapping_of("[weather]\nmax_bad_share = \"5%\"\n").max_bad_share_origin == "unit.toml:2");
+  CHECK(mapping_error("[weather]\nmax_bad_share = \"150%\"\n") ==
+        "unit.toml:2: [weather] max_bad_share: '150%' is not a share of rows; allowed: 0 % to "
+        "100 %");
+  CHECK(mapping_error("[weather]\nmax_bad_share = \"0.05\"\n").find("ambiguous") !=
+        std::string::npos);
+  CHECK(wx::parse_max_bad_share("0%", "--max-bad-share") == 0.0);
+  CHECK(wx::parse_max_bad_share("100%", "--max-bad-share") == 1.0);
+}
+
+TEST_CASE("resolution: each column's step is found from its values") {
+  const wx::WeatherSeries g = wx::read_file(kGreensboro, {}, 101.325);
+  // Greensboro writes temperatures in tenths of °C, RH in whole %, pressure in whole mbar
+  // (the file's own text, e.g. line 3 "01/01/1988,01:00,10.0,6.1,77,993").
+  CHECK(g.info.find(wx::Quantity::dry_bulb)->resolution == 0.1);
+  CHECK(g.info.find(wx::Quantity::dew_point)->resolution == 0.1);
+  CHECK(g.info.find(wx::Quantity::pressure)->resolution == 1.0);
+  // Tolerance: 1 °F (0.556 K) plus half a tenth for each column.
+  CHECK(g.info.temperature_tolerance_k == doctest::Approx(1.0 / 1.8 + 0.1));
+  wx::Mapping rh;
+  rh.humidity = wx::HumiditySource::relative_humidity;
+  const wx::WeatherSeries r = wx::read_file(kGreensboro, rh, 101.325);
+  CHECK(r.info.find(wx::Quantity::relative_humidity)->resolution == 1.0);
+  CHECK(r.info.relative_humidity_tolerance == doctest::Approx(0.015));  // 1 % + half of 1 %
+  // PVGIS: T2m and RH in hundredths (line 19 "20180101:0000,2.04,94.38,...,99870.0").
+  const wx::WeatherSeries p = wx::read_file(kPvgis, {}, 101.325);
+  CHECK(p.info.find(wx::Quantity::dry_bulb)->resolution == 0.01);
+  CHECK(p.info.find(wx::Quantity::relative_humidity)->resolution == 0.01);
+  // Under a day of values nothing is concluded.
+  CHECK(read(kHeader + "2019-07-01T13:00,20,10,101.3\n").info.columns.back().resolution == 0.0);
+}
+
+TEST_CASE("resolution: whole-degree Greensboro reads, its saturated rows counted") {
+  const std::string text = greensboro_whole_degrees();
+  // Rows written with the dew point above the dry-bulb, and by how much, counted here.
+  const std::vector<std::string> lines = lines_of(text);
+  int above = 0;
+  double worst = 0.0;
+  for (std::size_t i = 2; i < lines.size(); ++i) {
+    const std::vector<std::string> f = fields_of(lines[i]);
+    const double excess = std::stod(f[3]) - std::stod(f[2]);
+    if (excess > 0) ++above, worst = std::max(worst, excess);
+  }
+  REQUIRE(above > 50);
+  CHECK(worst == 1.0);
+  const wx::WeatherSeries s = wx::read_text(text, "whole.csv", {}, 101.325);
+  CHECK(s.hours.size() == 8760);
+  CHECK(s.info.find(wx::Quantity::dry_bulb)->resolution == 1.0);
+  CHECK(s.info.find(wx::Quantity::dew_point)->resolution == 1.0);
+  CHECK(s.info.temperature_tolerance_k == doctest::Approx(1.0 / 1.8 + 1.0));
+  CHECK(s.info.rounding_words == "whole-degree");
+  CHECK(s.info.rounded() == above);
+  CHECK(s.info.capped() == above);
+  // Those hours are saturated: dew point equal to the dry-bulb.
+  for (const wx::WeatherHour& h : s.hours)
+    CHECK(psy::dew_point_from_humidity_ratio_c(h.humidity_ratio, h.pressure_kpa) <=
+          h.dry_bulb_c + 1e-6);
+  bool said = false;
+  for (const std::string& l : wx::describe(s.info))
+    said = said || l.rfind(fmt::format("{} rows read as saturated: whole-degree rounding (dew "
+                                       "point up to 1.56 K above the dry-bulb read as equal to it; ",
+                                       above),
+                           0) == 0;
+  CHECK(said);
+
+  // A dew point far above the dry-bulb stays an error, the tolerance stated.
+  std::string far = text;
+  const std::string row3 = lines[2];  // "01/01/1988,01:00,10,6,77,993"
+  REQUIRE(row3 == "01/01/1988,01:00,10,6,77,993");
+  far.replace(far.find(row3), row3.size(), "01/01/1988,01:00,10,12,77,993");
+  CHECK(error_of([&] { wx::read_text(far, "whole.csv", {}, 101.325); }) ==
+        "whole.csv:3: column 'Dew-point (C)' value '12' is a dew point of 12 °C, above the "
+        "dry-bulb 10 °C; allowed: up to the dry-bulb (up to 1.56 K above is read as "
+        "saturation: 0.56 K plus the whole-degree rounding of the values) (or set on_bad_row "
+        "to skip or fill)");
+}
+
+TEST_CASE("humidity: RH 0 % is a bad row with file, line and column; skip and fill apply") {
+  const std::string csv = "Timestamp,Temp (C),RH (%)\n2019-07-01T12:00,20,50\n"
+                          "2019-07-01T13:00,20,0\n2019-07-01T14:00,20,60\n";
+  CHECK(read_error(csv) ==
+        "t.csv:3: column 'RH (%)' value '0' is 0 % relative humidity, air drier than the "
+        "psychrometric model reaches (a dew point below -100 °C); allowed: a humidity above 0 "
+        "(0 is a failed sensor or a missing reading) (or set on_bad_row to skip or fill)");
+  const wx::WeatherSeries s = read(csv, policy(wx::BadRowPolicy::skip));
+  CHECK(s.hours.size() == 2);
+  CHECK(s.info.skipped() == 1);
+  const wx::WeatherSeries f = read(csv, policy(wx::BadRowPolicy::fill));
+  CHECK(f.info.filled() == 1);
+  CHECK(rh_of(f.hours[1]) == doctest::Approx(0.55).epsilon(1e-3));  // halfway at 20 °C
+  // A humidity ratio of 0 the same way.
+  CHECK(read_error("Timestamp,Temp (C),Humidity Ratio (kg/kg)\n2019-07-01T13:00,20,0\n")
+            .find("t.csv:2: column 'Humidity Ratio (kg/kg)' value '0' is 0 kg/kg, air drier") == 0);
+}
+
+TEST_CASE("one year: a file spanning several years is refused with its span") {
+  std::string ten = "Timestamp,Temp (C),RH (%)\n";
+  for (int y = 2001; y <= 2010; ++y)
+    for (int m = 1; m <= 12; ++m)
+      for (int d = 1; d <= kDays[m - 1] + (m == 2 && y % 4 == 0 ? 1 : 0); ++d)
+        for (int h = 0; h < 24; ++h)
+          ten += fmt::format("{}-{:02}-{:02}T{:02}:00,15,50\n", y, m, d, h);
+  CHECK(read_error(ten) ==
+        "t.csv: the file spans 2001-01-01 to 2010-12-31, 10 years; evaluate one year at a time "
+        "(line 2 and line 8762 are both 01-01 00:00, of 2001 and 2002); allowed: one year of "
+        "rows, or a typical year whose months come from different years");
+  // Thirteen months: the first January's hours come back a year later.
+  const std::string thirteen = kHeader + "2019-01-15T00:00,5,0,101.3\n2019-06-01T00:00,5,0,101.3\n"
+                                         "2020-01-15T00:00,5,0,101.3\n";
+  CHECK(read_error(thirteen).rfind("t.csv: the file spans 2019-01-15 to 2020-01-15, more than "
+                                   "one year (366 days)",
+                                   0) == 0);
+  // A calendar year stamped hour-ending, its last row 00:00 of the next 1 January, is one.
+  std::string year = kHeader;
+  for (int m = 1; m <= 12; ++m)
+    for (int d = 1; d <= kDays[m - 1]; ++d)
+      for (int h = (m == 1 && d == 1) ? 1 : 0; h < 24; ++h)
+        year += fmt::format("2019-{:02}-{:02}T{:02}:00,5,0,101.3\n", m, d, h);
+  year += "2020-01-01T00:00,5,0,101.3\n";
+  wx::Mapping ending;
+  ending.time_convention = wx::TimeConvention::hour_ending;
+  CHECK(read(year, ending).hours.size() == 8760);
+  CHECK(read(year).hours.size() == 8760);
+}
+
+TEST_CASE("line ends: CR only, CRLF and a byte-order mark read as LF does") {
+  const std::string lf = slurp(kGreensboro);
+  const wx::WeatherSeries a = wx::read_text(lf, "g.csv", {}, 101.325);
+  for (const std::string& variant :
+       {with_line_ends(lf, "\r"), with_line_ends(lf, "\r\n"), "\xEF\xBB\xBF" + with_line_ends(lf, "\r")}) {
+    const wx::WeatherSeries b = wx::read_text(variant, "g.csv", {}, 101.325);
+    REQUIRE(b.hours.size() == a.hours.size());
+    CHECK(b.info.header_line == 2);
+    CHECK(b.info.last_data_line == 8762);
+    CHECK(b.hours.back().dry_bulb_c == a.hours.back().dry_bulb_c);
+    CHECK(b.hours[4000].humidity_ratio == a.hours[4000].humidity_ratio);
+  }
+  // Line numbers in messages count CR-only lines.
+  CHECK(read_error("Timestamp,Temp (C),RH (%)\r2019-07-01T13:00,20,50\r2019-07-01T14:00,20,130\r") ==
+        "t.csv:3: column 'RH (%)' value '130' is 130 % relative humidity; allowed 0 % to 100 % "
+        "(up to 101 % is read as 100 %) (or set on_bad_row to skip or fill)");
+}
+
+TEST_CASE("messages: echoed values have control characters escaped and long ones cut") {
+  wx::Mapping m;
+  m.column(wx::Quantity::pressure).column = "Baro\x1b[31m";
+  m.column(wx::Quantity::pressure).origin = "--column";
+  const std::string msg = read_error(kHeader + "2019-07-01T13:00,20,10,101.3\n", m);
+  CHECK(msg.rfind("--column: column 'Baro\\x1b[31m' given for pressure", 0) == 0);
+  CHECK(msg.find('\x1b') == std::string::npos);
+  const std::string long_value(500, '7');
+  const std::string cell = read_error(kHeader + "2019-07-01T13:00," + long_value + "x,10,101.3\n");
+  CHECK(cell.find("(501 characters)") != std::string::npos);
+  CHECK(cell.size() < 300);
+}
+
+TEST_CASE("accepts_unit: the unit spellings of each quantity, none for time columns") {
+  CHECK(wx::accepts_unit(wx::Quantity::dry_bulb, "F"));
+  CHECK(wx::accepts_unit(wx::Quantity::dry_bulb, "degC"));
+  CHECK(wx::accepts_unit(wx::Quantity::pressure, "mbar"));
+  CHECK_FALSE(wx::accepts_unit(wx::Quantity::pressure, "F"));
+  CHECK_FALSE(wx::accepts_unit(wx::Quantity::time, "MM)"));
+  CHECK_FALSE(wx::accepts_unit(wx::Quantity::dry_bulb, "MM)"));
 }

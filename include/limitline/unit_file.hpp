@@ -30,6 +30,8 @@ struct Site {
   // check these values; empty when the key is absent.
   std::string energy_code_origin;
   std::string climate_zone_origin;
+  // "FILE:LINE: site.elevation" (or site.pressure), whichever is given; empty when neither.
+  std::string pressure_origin;
 
   // The pressure every state of the site is computed at: `pressure` when given, else the
   // standard pressure at `elevation` (ASHRAE Fundamentals ch. 1 eq. 3), else sea level.

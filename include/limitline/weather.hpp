@@ -74,6 +74,16 @@ enum class BadRowPolicy {
 std::string_view bad_row_policy_name(BadRowPolicy p);
 BadRowPolicy parse_bad_row_policy(std::string_view text, std::string_view origin);
 
+// The share of a file's rows that `skip` or `fill` may drop or replace before the read is
+// refused: beyond it the column is more likely wrong than its readings missing.
+inline constexpr double kDefaultMaxBadShare = 0.01;
+// "5%" (a percentage, 0 % to 100 %) as a fraction; else InputError naming `origin`.
+double parse_max_bad_share(std::string_view text, std::string_view origin);
+
+// True when `unit` is a spelling the reader accepts for the column of `q` ("F" for a
+// dry-bulb, "mbar" for a pressure); time columns accept none.
+bool accepts_unit(Quantity q, std::string_view unit);
+
 // Whether a time stamp marks the start or the end of its interval. `automatic` reads a file
 // with 24:00 stamps as hour-ending and any other file as hour-beginning.
 enum class TimeConvention { automatic, hour_beginning, hour_ending };
@@ -94,6 +104,8 @@ struct Mapping {
   std::optional<HumiditySource> humidity;  // preferred humidity column
   BadRowPolicy on_bad_row = BadRowPolicy::error;
   TimeConvention time_convention = TimeConvention::automatic;
+  std::optional<double> max_bad_share;  // 0–1; kDefaultMaxBadShare when not given
+  std::string max_bad_share_origin;     // "unit.toml:14" or "--max-bad-share"
 
   ColumnOverride& column(Quantity q) { return columns[static_cast<std::size_t>(q)]; }
   const ColumnOverride& column(Quantity q) const { return columns[static_cast<std::size_t>(q)]; }
@@ -101,7 +113,8 @@ struct Mapping {
 
 // Reads the unit file's [weather] table: file = "...", <quantity> = { column = "...",
 // unit = "..." } for each Quantity key (time columns take only `column`), humidity = "...",
-// on_bad_row = "...", time_convention = "hour-beginning" | "hour-ending". Unknown keys,
+// on_bad_row = "...", time_convention = "hour-beginning" | "hour-ending",
+// max_bad_share = "5%". Unknown keys,
 // wrong types and unknown units are InputErrors naming `file_name`, the line and the key.
 Mapping read_mapping(const toml::table& weather_table, std::string_view file_name);
 
@@ -126,6 +139,9 @@ struct ColumnUse {
   UnitFound unit_found = UnitFound::none;
   std::string unit_origin;  // "line 8784" for a legend, the override's origin, or the reason
   int other_matches = 0;    // further columns whose header also matched this quantity
+  // Step of the written values in the column's own unit (1: whole degrees or percent, 0.1:
+  // tenths); 0 when finer than a thousandth or when the file has under a day of values.
+  double resolution = 0.0;
 };
 
 // Rows per calendar month (index 0 = January).
@@ -134,6 +150,8 @@ struct MonthCounts {
   int skipped = 0;  // bad rows dropped
   int filled = 0;   // bad rows replaced by interpolation
   int capped = 0;   // rows slightly beyond saturation (within tolerance) brought to it
+  int rounded = 0;  // of those, rows beyond it by more than the fixed tolerance, within the
+                    // rounding of the columns' resolution
 };
 
 enum class Clock { local, utc, offset };  // how the stamps are marked; they are used as written
@@ -167,14 +185,22 @@ struct WeatherInfo {
   bool humidity_overridden = false;
   bool pressure_from_file = false;
   double site_pressure_kpa = 0.0;  // used for every row when !pressure_from_file
+  std::optional<double> median_pressure_kpa;  // of the rows read, when pressure_from_file
   TimeInfo time;
   BadRowPolicy policy = BadRowPolicy::error;
+  double max_bad_share = kDefaultMaxBadShare;
   std::array<MonthCounts, 12> months{};
+  // A dew point or wet-bulb (or an RH) above saturation by up to this much is read as
+  // saturation: the fixed tolerance plus half the resolution of each column involved.
+  double temperature_tolerance_k = 0.0;
+  double relative_humidity_tolerance = 0.0;  // fraction above 1
+  std::string rounding_words;  // "whole-degree", "tenth-percent"; empty without rounding
   int fill_longest_run = 0;  // most consecutive rows filled
 
   int skipped() const;
   int filled() const;
   int capped() const;
+  int rounded() const;
   const ColumnUse* find(Quantity q) const;
 };
 

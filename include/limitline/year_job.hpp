@@ -33,7 +33,22 @@ struct WeatherOverrides {
   std::optional<std::string> humidity;       // --humidity
   std::optional<std::string> on_bad_row;     // --on-bad-row
   std::optional<std::string> time_convention;  // --time-convention
+  std::optional<std::string> max_bad_share;    // --max-bad-share, e.g. "5%"
 };
+
+// How far the weather file's median station pressure may lie from the unit's site pressure
+// before it is a warning: 2 kPa, about 200 m of elevation near sea level (eq. 3).
+inline constexpr double kSitePressureToleranceKpa = 2.0;
+
+// "FILE:LINE: site.elevation: ..." when the unit gives an elevation or pressure, the weather
+// file has a pressure column, and the file's median differs from the site's by more than the
+// tolerance; nothing otherwise.
+std::optional<std::string> site_pressure_warning(const UnitFile& unit,
+                                                 const weather::WeatherInfo& weather);
+
+// The weather file the unit file itself names, read with its [weather] table; `label` is set
+// to the path read. InputError when it names none or it cannot be read.
+weather::WeatherSeries read_unit_weather(const UnitFile& unit, std::string& label);
 
 struct YearInputs {
   UnitFile unit;

@@ -7,6 +7,7 @@
 #include <limitline/report/json.hpp>
 #include <limitline/report/table.hpp>
 #include <limitline/unit_file.hpp>
+#include <limitline/year_job.hpp>
 
 #include <fmt/format.h>
 
@@ -347,6 +348,7 @@ struct UnitVerdicts {
   bool defaulted;
   airside::EconomizerType economizer;
   std::string edition_from, zone_from;
+  std::string weather_pressure;  // the unit's weather file's pressure beside the footnote's
 };
 
 std::string instead_text(const codes::StrategyCheck& c, System s) {
@@ -373,6 +375,7 @@ std::string unit_report(const UnitVerdicts& u, System s, Format f) {
     j.field("unit", u.unit_path).field("edition", e.id).field("edition_from", u.edition_from);
     j.field("climate_zone", req.zone).field("climate_zone_from", u.zone_from);
     json_site(j, req, s);
+    if (!u.weather_pressure.empty()) j.field("weather_pressure", u.weather_pressure);
     j.field("strategies_defaulted", u.defaulted);
     j.key("strategies").begin_array();
     for (std::size_t i = 0; i < u.checks.size(); ++i) {
@@ -440,11 +443,14 @@ std::string unit_report(const UnitVerdicts& u, System s, Format f) {
   }
   std::string out = f == Format::md ? fmt::format("# Economizer high-limit compliance: {}\n\n", report::markdown_escape(u.unit_path))
                                     : "limitline code — high-limit compliance of a unit\n\n";
-  out += facts(f, {{"Unit", u.unit_path},
-                   {"Energy code", fmt::format("{} ({}; from {})", e.id, e.title, u.edition_from)},
-                   {"Climate zone", fmt::format("{} (from {})", req.zone, u.zone_from)},
-                   {"Site", pressure_text(req.pressure_kpa, s)},
-                   {"Compared in", fmt::format("{} figures", compare_name(req.compare_in))}});
+  std::vector<std::pair<std::string, std::string>> items{
+      {"Unit", u.unit_path},
+      {"Energy code", fmt::format("{} ({}; from {})", e.id, e.title, u.edition_from)},
+      {"Climate zone", fmt::format("{} (from {})", req.zone, u.zone_from)},
+      {"Site", pressure_text(req.pressure_kpa, s)},
+      {"Compared in", fmt::format("{} figures", compare_name(req.compare_in))}};
+  if (!u.weather_pressure.empty()) items.emplace_back("Weather pressure", u.weather_pressure);
+  out += facts(f, items);
   if (u.defaulted)
     out += "\nThe unit file has no [[strategy]]: every preset at its common-practice settings "
            "is judged.\n";
@@ -725,6 +731,31 @@ int run_code(const std::vector<std::string>& args) {
   u.zone_from = zone_origin;
   if (!pressure && (file.site.pressure_kpa || file.site.elevation_m))
     pressure = file.site.design_pressure_kpa();
+  // The unit's own weather file, when it has a pressure column: say which pressure the
+  // altitude footnote used beside the file's, and warn when they disagree.
+  if (file.weather && file.weather->contains("file")) {
+    std::string label;
+    weather::WeatherSeries w;
+    try {
+      w = read_unit_weather(file, label);
+    } catch (const InputError& error) {
+      // The verdicts need no weather: a file that cannot be read is said, not fatal.
+      u.weather_pressure = fmt::format("not compared: {}", error.what());
+    }
+    if (w.info.median_pressure_kpa) {
+      u.weather_pressure = fmt::format(
+          "the altitude footnote used {} ({}); the weather file {} has a median station "
+          "pressure of {}",
+          units::format(Kind::pressure, s, pressure.value_or(psychro::kStandardPressureKpa), s == System::ip ? 2 : 1),
+          vm.count("elevation") || vm.count("pressure") ? "from the command line"
+          : pressure ? "from the unit's [site]"
+                     : "sea level: the unit gives no elevation",
+          label, pressure_text(*w.info.median_pressure_kpa, s));
+      std::vector<std::string> warnings;
+      if (auto warning = site_pressure_warning(file, w.info)) warnings.push_back(*warning);
+      report_warnings(warnings, common.strict);
+    }
+  }
   const auto& e = tables.edition(edition_id, edition_origin);
   const auto req = codes::requirements(e, zone, {pressure, compare_in}, zone_origin);
   u.req = &req;

@@ -18,7 +18,9 @@ void add_job_options(po::options_description& options, po::positional_options_de
       ("humidity", po::value<std::string>(),
        "humidity column to use: dew-point, humidity-ratio, wet-bulb or relative-humidity")
       ("on-bad-row", po::value<std::string>(), "missing or impossible weather rows: error (default), skip or fill")
-      ("time-convention", po::value<std::string>(), "weather stamps: hour-beginning or hour-ending (default: found from the file)");
+      ("time-convention", po::value<std::string>(), "weather stamps: hour-beginning or hour-ending (default: found from the file)")
+      ("max-bad-share", po::value<std::string>(),
+       "largest share of weather rows --on-bad-row skip or fill may drop or fill (default 1%)");
   positional.add("unit", 1);
 }
 
@@ -35,6 +37,7 @@ WeatherOverrides weather_overrides(const po::variables_map& vm) {
   if (vm.count("humidity")) o.humidity = vm["humidity"].as<std::string>();
   if (vm.count("on-bad-row")) o.on_bad_row = vm["on-bad-row"].as<std::string>();
   if (vm.count("time-convention")) o.time_convention = vm["time-convention"].as<std::string>();
+  if (vm.count("max-bad-share")) o.max_bad_share = vm["max-bad-share"].as<std::string>();
   return o;
 }
 
