@@ -150,24 +150,28 @@ std::optional<std::string> site_pressure_warning(const UnitFile& unit,
   if (!w.median_pressure_kpa || !(site.elevation_m || site.pressure_kpa)) return std::nullopt;
   const double p_site = site.design_pressure_kpa(), p_file = *w.median_pressure_kpa;
   if (std::fabs(p_file - p_site) <= kSitePressureToleranceKpa) return std::nullopt;
-  constexpr double kFt = 0.3048;  // m per ft, by definition
+  // In the unit file's own system: the warning is about what that file says.
+  const units::System sys = unit.units;
+  const auto pressure = [&](double kpa) { return units::format(units::Kind::pressure, sys, kpa, sys == units::System::ip ? 2 : 1); };
+  const auto length = [&](double m) { return units::format(units::Kind::length, sys, m, 0); };
   const std::string given =
-      site.elevation_m
-          ? fmt::format("elevation {:.0f} m ({:.0f} ft) gives a standard pressure of {:.2f} kPa",
-                        *site.elevation_m, *site.elevation_m / kFt, p_site)
-          : fmt::format("pressure {:.2f} kPa", p_site);
+      site.elevation_m ? fmt::format("elevation {} gives a standard pressure of {}",
+                                     length(*site.elevation_m), pressure(p_site))
+                       : fmt::format("pressure {}", pressure(p_site));
   double z = 0.0;
   try {
     z = psychro::elevation_from_standard_pressure_m(p_file);
   } catch (const InputError&) {
   }
   return fmt::format(
-      "{}: {}, but the weather file {} has a median station pressure of {:.2f} kPa (the "
-      "standard pressure at about {:.0f} m, {:.0f} ft); they differ by {:.1f} kPa, more than "
-      "the {:g} kPa (about 200 m) tolerance: check the site's elevation and that the weather "
-      "is this site's (each hour is computed at the file's pressure)",
-      site.pressure_origin, given, w.source, p_file, z, z / kFt, std::fabs(p_file - p_site),
-      kSitePressureToleranceKpa);
+      "{}: {}, but the weather file {} has a median station pressure of {} (the standard "
+      "pressure at about {}); they differ by {}, more than the {} (about {}) tolerance: "
+      "check the site's elevation and that the weather is this site's (each hour is computed "
+      "at the file's pressure)",
+      site.pressure_origin, given, w.source, pressure(p_file), length(z),
+      units::format(units::Kind::pressure, sys, std::fabs(p_file - p_site), sys == units::System::ip ? 2 : 1),
+      units::format(units::Kind::pressure, sys, kSitePressureToleranceKpa, sys == units::System::ip ? 2 : 0),
+      length(200.0));
 }
 
 weather::WeatherSeries read_unit_weather(const UnitFile& unit, std::string& label) {
