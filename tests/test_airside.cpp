@@ -205,7 +205,8 @@ TEST_CASE("OA-fraction hand calculation: examples solved by hand from the mixing
 
 TEST_CASE("rule of thumb holds for dry outdoor air and fails for humid air of higher enthalpy") {
   // Common practice: "economize when the outdoor dry-bulb is below the return and above the
-  // mixed-air target". The perfect changeover (DESIGN.md §3) enables only when it costs less.
+  // mixed-air target". The perfect changeover (docs/model.md §Reference operations) enables
+  // only when it costs less.
   const air::AirHandler u = rooftop();
   const air::AirState r = state_rh(F(75.0), 0.50);  // h ≈ 28.1 Btu/lb
   auto rule_of_thumb = [&](const air::AirState& o) {
@@ -382,7 +383,7 @@ TEST_CASE("damper rule step 2: disabled at minimum, enabled at x* or the damper 
 TEST_CASE("fan position: same mixed-air target, different coil boundaries") {
   const air::AirHandler draw = rooftop(air::FanPosition::draw_through);
   const air::AirHandler blow = rooftop(air::FanPosition::blow_through);
-  // Both aim the mixed air at t_s − Δt_f (DESIGN.md §3).
+  // Both aim the mixed air at t_s − Δt_f (docs/model.md §Fan heat).
   check_near(draw.mixed_air_target_c(), F(53.5), 1e-12);
   check_near(blow.mixed_air_target_c(), F(53.5), 1e-12);
   // Draw-through: the coil leaves at t_s − Δt_f and the fan heat is added after it.

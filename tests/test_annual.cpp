@@ -76,7 +76,7 @@ TEST_CASE("energy identities hold for every strategy") {
   const double e_none = r.no_economizer.annual.energy_kwh;
   const double e_perfect = r.perfect_changeover.annual.energy_kwh;
   const double e_optimal = r.optimal_damper.annual.energy_kwh;
-  // The references bracket every changeover (DESIGN.md §3 definitions).
+  // The references bracket every changeover (docs/model.md §Reference operations).
   CHECK(e_none >= e_perfect);
   CHECK(e_perfect >= e_optimal - 1e-6);
   CHECK(r.perfect_changeover.annual.harmful_hours == 0.0);
@@ -107,7 +107,7 @@ TEST_CASE("energy identities hold for every strategy") {
 
 TEST_CASE("hour counts agree with a plain loop written here") {
   // An independent count for a fixed dry-bulb limit without deadband, from the damper rule of
-  // DESIGN.md §3 written out with psychro calls only.
+  // docs/model.md §Damper rule written out with psychro calls only.
   const Year y = run_year(kOffice);
   highlimit::PresetSettings ps = highlimit::preset_defaults();
   ps.dry_bulb_limit_c = units::celsius_from_fahrenheit(70.0);

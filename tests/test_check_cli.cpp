@@ -1,7 +1,8 @@
 // The `check` command end to end: outputs, formats, exit codes and error messages. The unit
 // files written here are test scaffolding (invented), never check values: expectations are
-// the physics of DESIGN.md §3 (perfect changeover, common practice on humid air) and the
-// tool's own contract (exit codes, one-line errors, keys with unit suffixes).
+// the physics of docs/model.md §Reference operations (perfect changeover, common practice
+// on humid air) and the tool's own contract (exit codes, one-line errors, keys with unit
+// suffixes).
 #include <doctest/doctest.h>
 
 #include <limitline/air_point.hpp>

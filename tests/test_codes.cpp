@@ -294,7 +294,8 @@ TEST_CASE("every shipped row carries the from-memory provenance and a clause") {
 }
 
 TEST_CASE("stored IP and SI limits agree through the enthalpy datum shift") {
-  // 28 Btu/lb (0 °F datum) is 47.3 kJ/kg (0 °C datum): DESIGN.md §3, h_IP = h_SI/2.326 + 7.68.
+  // 28 Btu/lb (0 °F datum) is 47.3 kJ/kg (0 °C datum): docs/model.md §Units and datums,
+  // h_IP = h_SI/2.326 + 7.68.
   for (const auto& e : shipped().editions())
     for (const auto& r : e.rows)
       for (const auto& l : r.limits) {

@@ -90,7 +90,7 @@ TEST_CASE("preset settings feed the right condition, with the enthalpy datum shi
   hl::PresetSettings s = hl::preset_defaults();
   // The defaults: 75 °F, 28 Btu/lb (0 °F datum), 55 °F dew point (common practice).
   CHECK(s.dry_bulb_limit_c == doctest::Approx(23.8889).epsilon(1e-5));
-  // DESIGN.md §3: 28 Btu/lb ↔ 47.3 kJ/kg through h_IP = h_SI/2.326 + 7.68.
+  // docs/model.md §Units and datums: 28 Btu/lb ↔ 47.3 kJ/kg through h_IP = h_SI/2.326 + 7.68.
   CHECK(s.enthalpy_limit_kj_per_kg == doctest::Approx(47.2643).epsilon(1e-5));
   CHECK(s.dew_point_limit_c == doctest::Approx(12.7778).epsilon(1e-5));
   CHECK(s.dry_bulb_offset_k == 0.0);
@@ -254,7 +254,7 @@ TEST_CASE("names and kinds of quantities and references") {
   CHECK(hl::reference_from_name("return") == Reference::return_air);
   CHECK_FALSE(hl::reference_from_name("outdoor"));
   // A limit is a value of its quantity; an offset, deadband or excess is a difference (an
-  // enthalpy difference carries no datum shift, DESIGN.md §3).
+  // enthalpy difference carries no datum shift, docs/model.md §Units and datums).
   CHECK(hl::quantity_kind(Quantity::enthalpy) == units::Kind::enthalpy);
   CHECK(hl::quantity_difference_kind(Quantity::enthalpy) == units::Kind::enthalpy_difference);
   CHECK(hl::quantity_kind(Quantity::dew_point) == units::Kind::temperature);

@@ -3,9 +3,9 @@
 //
 // Unit files here are invented scenarios written inline, never check values. The check
 // values are unit conversions by definition (t_C = (t_F − 32)/1.8; the enthalpy datum shift
-// h_IP = h_SI/2.326 + 7.68 of ASHRAE Handbook—Fundamentals, as DESIGN.md §3 states it; 1 ft³/min
-// = 0.3048³/60 m³/s) and the wording the issue asks for; code clauses are those of the shipped
-// tables (recalled from memory, as those tables say).
+// h_IP = h_SI/2.326 + 7.68 of ASHRAE Handbook—Fundamentals, as docs/model.md §Units and datums
+// states it; 1 ft³/min = 0.3048³/60 m³/s) and the wording the issue asks for; code clauses
+// are those of the shipped tables (recalled from memory, as those tables say).
 #include <doctest/doctest.h>
 
 #include <limitline/annual.hpp>
@@ -196,7 +196,8 @@ TEST_CASE("setpoints are written exactly, or rounded with the figure the analysi
   CHECK(seq::setpoint_text(Kind::temperature, System::ip, 22.0) == "71.6 °F");
   CHECK(seq::setpoint_text(Kind::temperature, System::si, units::celsius_from_fahrenheit(75)) ==
         "23.9 °C (rounded; the analysis used 75 °F)");
-  // Enthalpy datum shift (DESIGN.md §3): 28 Btu/lb ↔ 47.3 kJ/kg; 47 kJ/kg ↔ 27.886 Btu/lb.
+  // Enthalpy datum shift (docs/model.md §Units and datums): 28 Btu/lb ↔ 47.3 kJ/kg;
+  // 47 kJ/kg ↔ 27.886 Btu/lb.
   CHECK(seq::setpoint_text(Kind::enthalpy, System::ip, units::enthalpy_si_from_ip(28)) ==
         "28 Btu/lb");
   CHECK(seq::setpoint_text(Kind::enthalpy, System::si, units::enthalpy_si_from_ip(28)) ==

@@ -1,7 +1,7 @@
 // The unit file: what a valid file gives, and every kind of error with its message (file,
 // line, key). Unit conversions are checked against exact definitions (NIST SP 811: 1 ft =
 // 0.3048 m, °F = 1.8·°C + 32, 1 psi = 6.894757 kPa); the enthalpy datum shift against
-// DESIGN.md §3 (h_IP = h_SI/2.326 + 7.68).
+// docs/model.md §Units and datums (h_IP = h_SI/2.326 + 7.68).
 #include <doctest/doctest.h>
 
 #include <limitline/air_point.hpp>

@@ -1,6 +1,6 @@
 #pragma once
 // The air handler: mixing box, outdoor-air fraction, fan heat, cooling coil and heating
-// (DESIGN.md §3 "Air handler"). SI throughout; loads per kg of dry air unless named otherwise.
+// (docs/model.md §Air handler). SI throughout; loads per kg of dry air unless named otherwise.
 //
 // The economizer only ever chooses between two operations in an hour: economizer disabled
 // (damper at the ventilation minimum) or enabled (damper per the damper rule). Both are
@@ -135,7 +135,7 @@ struct HourAir {
   CoilLimits coil;
 };
 
-// The operation the damper rule gives (DESIGN.md §3 steps 1–2).
+// The operation the damper rule gives (docs/model.md §Damper rule, steps 1–2).
 Operation operate(const AirHandler& unit, const HourAir& air, bool economizer_enabled,
                   const EnergyWeights& weights);
 

@@ -1,6 +1,7 @@
 #pragma once
 // Annual evaluation: every high-limit strategy and the three references, hour by hour with
-// deadband state, over a year of weather and an occupancy schedule (DESIGN.md §3).
+// deadband state, over a year of weather and an occupancy schedule (docs/model.md
+// §Annual evaluation).
 //
 // The work is split in two so that the sensor study can reuse it: `prepare` computes, once per
 // interval, the true outdoor and return states and the disabled, enabled and optimal

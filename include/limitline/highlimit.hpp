@@ -1,5 +1,5 @@
 #pragma once
-// High-limit strategies (DESIGN.md §3 "High-limit strategies").
+// High-limit strategies (docs/model.md §High-limit conditions).
 //
 // A strategy is a list of conditions joined by OR: any tripped condition disables the
 // economizer. A condition compares one outdoor quantity with a fixed limit or with the

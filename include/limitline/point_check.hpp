@@ -1,7 +1,7 @@
 #pragma once
 // One operating point weighed for every strategy: at these outdoor and return conditions,
 // which high-limits let the unit economize, and what each decision costs against the perfect
-// changeover (DESIGN.md §3 "References every strategy is scored against").
+// changeover (docs/model.md §Reference operations).
 #include <limitline/airside.hpp>
 #include <limitline/highlimit.hpp>
 #include <limitline/psychro.hpp>

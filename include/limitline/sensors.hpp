@@ -1,5 +1,5 @@
 #pragma once
-// Sensor-error study (DESIGN.md §3 "Sensors"): how each high-limit strategy fares when its
+// Sensor-error study (docs/model.md §Sensor errors): how each high-limit strategy fares when its
 // decisions are made on sensor readings instead of the true air.
 //
 // Four sensors feed a high-limit: outdoor dry-bulb, outdoor humidity (a relative-humidity, a

@@ -84,7 +84,7 @@ std::string_view unit_label(Kind kind, System system);
 // Suffix of a JSON or CSV key for that unit ("f", "c", "btu_per_lb", "kj_per_kg", "psia").
 std::string_view key_suffix(Kind kind, System system);
 
-// Enthalpy datum shift (DESIGN.md §3), exposed for tests and the chart.
+// Enthalpy datum shift (docs/model.md §Units and datums), exposed for tests and the chart.
 constexpr double enthalpy_ip_from_si(double h_kj_per_kg) { return h_kj_per_kg / 2.326 + 7.68; }
 constexpr double enthalpy_si_from_ip(double h_btu_per_lb) { return (h_btu_per_lb - 7.68) * 2.326; }
 

@@ -232,8 +232,8 @@ std::string audit_json(const audit::Result& r, const trend::TrendLog& log, const
     j.begin_object().field("condition", sp.condition + 1)
         .field("quantity", highlimit::quantity_name(sp.quantity))
         .field("reference", highlimit::reference_name(sp.reference));
-    // Numbers with the unit in the key (DESIGN.md §4): values of the quantity for a fixed limit,
-    // differences for an offset from the return air.
+    // Numbers with the unit in the key (docs/model.md §Units and datums): values of the
+    // quantity for a fixed limit, differences for an offset from the return air.
     const units::Kind kind = sp.reference == highlimit::Reference::return_air ? difference_kind(sp.quantity)
                                                                               : value_kind(sp.quantity);
     const std::string suffix(units::key_suffix(kind, s));

@@ -1,5 +1,5 @@
 #pragma once
-// The cautions printed wherever results feed a design or an inspection (DESIGN.md §4).
+// The cautions printed wherever results feed a design or an inspection (docs/model.md §Scope).
 #include <string>
 #include <vector>
 
