@@ -38,7 +38,7 @@ inline constexpr double kStoredAgreementKjPerKg = 0.5;
 
 // The altitude footnote of fixed enthalpy ("at altitudes substantially different from sea
 // level") is applied when the site enthalpy of the footnote's state differs from its sea-level
-// value by more than this (about 1,150 ft): half the table's whole-Btu/lb rounding.
+// value by more than this (about 1,300 ft, 400 m, at 75 °F and 50 % RH by eqs. 3 and 6): half the table's whole-Btu/lb rounding.
 inline constexpr double kAltitudeFootnoteThresholdBtuPerLb = 0.5;
 
 // --- Climate zones ----------------------------------------------------------------------
