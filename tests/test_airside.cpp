@@ -6,10 +6,10 @@
 // library.
 #include <doctest/doctest.h>
 
-#include <limitline/airside.hpp>
+#include <limitline/model/airside.hpp>
 #include <limitline/error.hpp>
-#include <limitline/psychro.hpp>
-#include <limitline/units.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/model/units.hpp>
 
 #include <fmt/format.h>
 

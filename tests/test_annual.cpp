@@ -6,10 +6,11 @@
 // are invented scenarios, not check values.
 #include <doctest/doctest.h>
 
-#include <limitline/annual.hpp>
-#include <limitline/unit_file.hpp>
-#include <limitline/weather.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/io/schedule_file.hpp>
+#include <limitline/analysis/annual.hpp>
+#include <limitline/io/unit_file.hpp>
+#include <limitline/io/weather.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include "support/office.hpp"
 

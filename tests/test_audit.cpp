@@ -1,8 +1,8 @@
 // The trend audit: measured-fraction uncertainty, a clean model-generated log, each injected
 // fault alone, the committed example, and the audit command.
-#include <limitline/audit.hpp>
-#include <limitline/trend.hpp>
-#include <limitline/unit_file.hpp>
+#include <limitline/analysis/audit.hpp>
+#include <limitline/io/trend.hpp>
+#include <limitline/io/unit_file.hpp>
 
 #include "support/cli.hpp"
 #include "support/trend_example.hpp"

@@ -8,11 +8,11 @@
 // Weather: tests/data/greensboro-nc-tmy3.csv (NREL TMY3, open data; tests/data/SOURCES.md) and
 // the embedded invented demo climates. Unit files are invented scenarios of the test.
 // The library before the test support: <sys/wait.h> brings a `si_value` macro from <signal.h>.
-#include <limitline/psychro.hpp>
+#include <limitline/model/psychro.hpp>
 #include <limitline/report/chart.hpp>
-#include <limitline/report_job.hpp>
-#include <limitline/units.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/app/report_job.hpp>
+#include <limitline/model/units.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include "support/cli.hpp"
 #include "support/svg.hpp"

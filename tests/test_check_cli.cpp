@@ -5,9 +5,9 @@
 // suffixes).
 #include <doctest/doctest.h>
 
-#include <limitline/air_point.hpp>
-#include <limitline/point_check.hpp>
-#include <limitline/unit_file.hpp>
+#include <limitline/model/air_point.hpp>
+#include <limitline/analysis/point_check.hpp>
+#include <limitline/io/unit_file.hpp>
 
 #include "support/cli.hpp"
 

@@ -9,10 +9,10 @@
 // exercise the loader only; their figures are placeholders, never check values.
 #include <doctest/doctest.h>
 
-#include <limitline/codes.hpp>
+#include <limitline/io/codes.hpp>
 #include <limitline/error.hpp>
-#include <limitline/psychro.hpp>
-#include <limitline/units.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/model/units.hpp>
 
 #include <fmt/format.h>
 

@@ -16,7 +16,7 @@
 //    answer is a root of our equations instead of demanding the same root.
 #include <doctest/doctest.h>
 
-#include <limitline/psychro.hpp>
+#include <limitline/model/psychro.hpp>
 
 #include <algorithm>
 #include <charconv>

@@ -4,8 +4,8 @@
 #include <doctest/doctest.h>
 
 #include <limitline/error.hpp>
-#include <limitline/highlimit.hpp>
-#include <limitline/units.hpp>
+#include <limitline/model/highlimit.hpp>
+#include <limitline/model/units.hpp>
 
 #include <fmt/format.h>
 

@@ -5,8 +5,8 @@
 // while writing this file: values marked "from memory" were recalled, not copied.
 #include <doctest/doctest.h>
 
-#include <limitline/psychro.hpp>
-#include <limitline/units.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/model/units.hpp>
 
 #include <fmt/format.h>
 

@@ -7,11 +7,11 @@
 //
 // Weather: tests/data/greensboro-nc-tmy3.csv (NREL TMY3, open data; tests/data/SOURCES.md) and
 // the embedded invented demo climates. Unit files are invented scenarios of the test.
-#include <limitline/embedded.hpp>
+#include <limitline/io/embedded.hpp>
 #include <limitline/report/cautions.hpp>
 #include <limitline/report/html.hpp>
-#include <limitline/unit_file.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/io/unit_file.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include "support/cli.hpp"
 #include "support/svg.hpp"

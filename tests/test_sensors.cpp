@@ -5,13 +5,14 @@
 // tests/data/SOURCES.md). The unit is an invented office, input only: every check below is an
 // identity (against annual::evaluate, against psychro, against a loop written here) or a
 // property of the model, never a number copied from a previous run.
-#include <limitline/annual.hpp>
-#include <limitline/psychro.hpp>
+#include <limitline/io/schedule_file.hpp>
+#include <limitline/analysis/annual.hpp>
+#include <limitline/model/psychro.hpp>
 #include <limitline/report/sensors.hpp>
-#include <limitline/sensors.hpp>
-#include <limitline/unit_file.hpp>
-#include <limitline/weather.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/analysis/sensors.hpp>
+#include <limitline/io/unit_file.hpp>
+#include <limitline/io/weather.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include "support/office.hpp"
 
@@ -548,40 +549,51 @@ TEST_CASE("[sensors]: the largest accuracy is accepted as documented, in either 
 
 // --- Sweep --------------------------------------------------------------------------------------
 
+namespace {
+// The library's sweep from "SENSOR=FROM:TO:STEP" as the command line splits it (the syntax
+// errors themselves are the command line's: see test_sensors_cli's --sweep case).
+sensors::SweepSpec parse_sweep(std::string_view text, HumidityKind configured, units::System bare,
+                               std::string_view origin) {
+  const auto eq = text.find('=');
+  const std::string_view range = text.substr(eq + 1);
+  const auto c1 = range.find(':'), c2 = range.find(':', c1 + 1);
+  return sensors::sweep_spec(text.substr(0, eq),
+                             {range.substr(0, c1), range.substr(c1 + 1, c2 - c1 - 1), range.substr(c2 + 1)},
+                             configured, bare, origin);
+}
+}  // namespace
+
 TEST_CASE("--sweep: parsing") {
-  const auto s = sensors::parse_sweep("outdoor_rh=-10%:10%:1%", HumidityKind::relative_humidity,
+  const auto s = parse_sweep("outdoor_rh=-10%:10%:1%", HumidityKind::relative_humidity,
                                       units::System::ip, "--sweep");
   CHECK(s.sensor == Sensor::outdoor_humidity);
   REQUIRE(s.biases.size() == 21);
   CHECK(s.biases.front() == doctest::Approx(-0.10));
   CHECK(s.biases.back() == doctest::Approx(0.10));
   CHECK(std::count(s.biases.begin(), s.biases.end(), 0.0) == 1);  // the exact point is exact
-  const auto t = sensors::parse_sweep("return-dry-bulb=-2:2:0.5", HumidityKind::relative_humidity,
+  const auto t = parse_sweep("return-dry-bulb=-2:2:0.5", HumidityKind::relative_humidity,
                                       units::System::ip, "--sweep");
   CHECK(t.sensor == Sensor::return_dry_bulb);
   CHECK(t.biases.size() == 9);
   CHECK(t.biases.front() == doctest::Approx(-2.0 / 1.8));  // bare numbers in --units ip: °F
-  const auto d = sensors::parse_sweep("outdoor_dew_point=-2F:2F:1F", HumidityKind::relative_humidity,
+  const auto d = parse_sweep("outdoor_dew_point=-2F:2F:1F", HumidityKind::relative_humidity,
                                       units::System::ip, "--sweep");
   CHECK(d.outdoor_kind == HumidityKind::dew_point);
 
   auto err = [](const char* text) -> std::string {
     try {
-      sensors::parse_sweep(text, HumidityKind::relative_humidity, units::System::ip, "--sweep");
+      parse_sweep(text, HumidityKind::relative_humidity, units::System::ip, "--sweep");
     } catch (const std::exception& e) {
       return e.what();
     }
     return "no error";
   };
-  CHECK(err("outdoor_rh").find("--sweep: write SENSOR=FROM:TO:STEP") == 0);
   CHECK(err("indoor_rh=1%:2%:1%").find("--sweep: 'indoor_rh' is not a sensor (allowed: outdoor_dry_bulb") == 0);
-  CHECK(err("outdoor_rh=1%:2%").find("--sweep: the range must be FROM:TO:STEP") == 0);
   // A STEP so small the count overflows any integer: said in words, never a wrapped number.
   const std::string tiny = err("outdoor_rh=-10%:10%:1e-300%");
   CHECK(tiny.find("--sweep: more than a billion biases asked for; at most 401") == 0);
   CHECK(tiny.find("-9223372036854775807") == std::string::npos);
   CHECK(err("outdoor_rh=-10%:10%:0.01%").find("--sweep: 2001 biases asked for; at most 401") == 0);
-  CHECK(err("outdoor_rh=1%:2%:1%:4%").find("--sweep: the range must be FROM:TO:STEP") == 0);
   CHECK(err("outdoor_rh=5%:-5%:1%").find("--sweep: FROM 5.00% is above TO -5.00%") == 0);
   CHECK(err("outdoor_rh=-5%:5%:0%").find("--sweep: STEP 0.00% must be more than 0") == 0);
   CHECK(err("outdoor_rh=-50%:5%:1%").find("--sweep: bias -50.00% is outside the allowed range") == 0);
@@ -591,7 +603,7 @@ TEST_CASE("--sweep: parsing") {
 
 TEST_CASE("sweep: exact at zero, unaffected strategies flat, monotone harmful hours") {
   const Year& y = year();
-  const auto spec = sensors::parse_sweep("outdoor_rh=-10%:10%:2%", HumidityKind::relative_humidity,
+  const auto spec = parse_sweep("outdoor_rh=-10%:10%:2%", HumidityKind::relative_humidity,
                                          units::System::ip, "--sweep");
   const auto sw = sensors::run_sweep(y.prepared, y.strategies, spec);
   const annual::YearResult ref = annual::evaluate(y.strategies, y.prepared);
@@ -818,6 +830,13 @@ TEST_CASE("sensors command: text, JSON, per-trial CSV and errors") {
     CHECK(r.err.find("--sweep: STEP 0.00% must be more than 0") != std::string::npos);
     r = test::run_cli({"sensors", unit, "--format", "csv"});
     CHECK(r.rc == 1);
+  }
+  SUBCASE("--sweep syntax is the command line's: exit 1 with the form to write") {
+    for (const char* text : {"outdoor_rh", "outdoor_rh=1%:2%", "outdoor_rh=1%:2%:1%:4%"}) {
+      const test::CliRun r = test::run_cli({"sensors", unit, "--weather", kGreensboro, "--sweep", text});
+      CHECK(r.rc == 1);
+      CHECK(r.err.find("FROM:TO:STEP") != std::string::npos);
+    }
   }
 }
 

@@ -8,14 +8,14 @@
 // are those of the shipped tables (recalled from memory, as those tables say).
 #include <doctest/doctest.h>
 
-#include <limitline/annual.hpp>
-#include <limitline/codes.hpp>
+#include <limitline/analysis/annual.hpp>
+#include <limitline/io/codes.hpp>
 #include <limitline/error.hpp>
-#include <limitline/highlimit.hpp>
+#include <limitline/model/highlimit.hpp>
 #include <limitline/report/cautions.hpp>
-#include <limitline/sequence.hpp>
-#include <limitline/unit_file.hpp>
-#include <limitline/units.hpp>
+#include <limitline/report/sequence.hpp>
+#include <limitline/io/unit_file.hpp>
+#include <limitline/model/units.hpp>
 
 // After the limitline headers: <sys/wait.h> defines si_value as a macro.
 #include "support/cli.hpp"

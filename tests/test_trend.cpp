@@ -1,7 +1,7 @@
 // Reading trend logs: time stamps, column names and units, weights and coverage, and the
 // malformed logs that must be refused or handled and reported.
 #include <limitline/error.hpp>
-#include <limitline/trend.hpp>
+#include <limitline/io/trend.hpp>
 
 #include <doctest/doctest.h>
 

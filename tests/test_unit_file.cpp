@@ -4,10 +4,10 @@
 // docs/model.md §Units and datums (h_IP = h_SI/2.326 + 7.68).
 #include <doctest/doctest.h>
 
-#include <limitline/air_point.hpp>
+#include <limitline/model/air_point.hpp>
 #include <limitline/error.hpp>
-#include <limitline/psychro.hpp>
-#include <limitline/unit_file.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/io/unit_file.hpp>
 
 #include <fmt/format.h>
 

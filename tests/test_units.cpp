@@ -4,8 +4,8 @@
 // recalled without the document at hand: "from memory".
 #include <doctest/doctest.h>
 
-#include <limitline/plausible.hpp>
-#include <limitline/units.hpp>
+#include <limitline/model/plausible.hpp>
+#include <limitline/model/units.hpp>
 
 #include <fmt/format.h>
 
@@ -14,7 +14,6 @@
 
 namespace units = limitline::units;
 using limitline::InputError;
-using limitline::UsageError;
 using units::Kind;
 using units::System;
 
@@ -219,7 +218,7 @@ TEST_CASE("errors name the origin, the text, and what is allowed") {
     try {
       units::parse_system("metric");
       FAIL("metric parsed");
-    } catch (const UsageError& e) {
+    } catch (const InputError& e) {
       CHECK(contains(e.what(), "--units"));
       CHECK(contains(e.what(), "'metric'"));
       CHECK(contains(e.what(), "ip or si"));

@@ -7,8 +7,8 @@
 
 #include "support/derived_weather.hpp"
 
-#include <limitline/psychro.hpp>
-#include <limitline/weather.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/io/weather.hpp>
 
 #include <fmt/format.h>
 

@@ -19,12 +19,6 @@ class RangeError : public InputError {
   using InputError::InputError;
 };
 
-// Wrong use of the command line (exit code 1).
-class UsageError : public std::runtime_error {
- public:
-  using std::runtime_error::runtime_error;
-};
-
 // An offending value as it is echoed in a message: in single quotes, control characters and
 // bytes outside printable ASCII/UTF-8 escaped (\n, \x1b), and cut after its first 40
 // characters with its length ("'aaaa…' (1048576 characters)"), so that a message stays one

@@ -1,12 +1,12 @@
 // limitline audit: a trend log checked against the unit's high-limit and the model.
 #include "common.hpp"
 
-#include <limitline/audit.hpp>
-#include <limitline/codes.hpp>
+#include <limitline/analysis/audit.hpp>
+#include <limitline/io/codes.hpp>
 #include <limitline/report/audit.hpp>
 #include <limitline/report/strategy.hpp>
-#include <limitline/trend.hpp>
-#include <limitline/unit_file.hpp>
+#include <limitline/io/trend.hpp>
+#include <limitline/io/unit_file.hpp>
 
 #include <fmt/format.h>
 

@@ -2,10 +2,10 @@
 // hours or one checked operating point.
 #include "common.hpp"
 
-#include <limitline/air_point.hpp>
+#include <limitline/model/air_point.hpp>
 #include <limitline/report/chart.hpp>
-#include <limitline/report_job.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/app/report_job.hpp>
+#include <limitline/app/year_job.hpp>
 
 namespace limitline::cli {
 namespace {

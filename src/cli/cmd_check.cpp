@@ -2,14 +2,14 @@
 // unit decides and what that decision costs against the perfect changeover.
 #include "common.hpp"
 
-#include <limitline/air_point.hpp>
-#include <limitline/codes.hpp>
-#include <limitline/point_check.hpp>
+#include <limitline/model/air_point.hpp>
+#include <limitline/io/codes.hpp>
+#include <limitline/analysis/point_check.hpp>
 #include <limitline/report/cautions.hpp>
 #include <limitline/report/json.hpp>
 #include <limitline/report/state.hpp>
 #include <limitline/report/table.hpp>
-#include <limitline/unit_file.hpp>
+#include <limitline/io/unit_file.hpp>
 
 #include <fmt/format.h>
 

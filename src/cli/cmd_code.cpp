@@ -1,13 +1,13 @@
 // limitline code: what an energy code allows for the high-limit, and verdicts for a unit.
 #include "common.hpp"
 
-#include <limitline/codes.hpp>
-#include <limitline/psychro.hpp>
+#include <limitline/io/codes.hpp>
+#include <limitline/model/psychro.hpp>
 #include <limitline/report/cautions.hpp>
 #include <limitline/report/json.hpp>
 #include <limitline/report/table.hpp>
-#include <limitline/unit_file.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/io/unit_file.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include <fmt/format.h>
 
@@ -679,7 +679,7 @@ int run_code(const std::vector<std::string>& args) {
     throw UsageError("give --edition and --zone, a unit file, --all-editions or --list-editions");
   std::optional<System> compare_in;
   if (vm.count("compare-in"))
-    compare_in = units::parse_system(vm["compare-in"].as<std::string>(), "--compare-in");
+    compare_in = system_option(vm["compare-in"].as<std::string>(), "--compare-in");
   std::optional<airside::EconomizerType> economizer;
   if (vm.count("economizer")) economizer = parse_economizer(vm["economizer"].as<std::string>());
 

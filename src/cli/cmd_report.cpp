@@ -3,8 +3,8 @@
 #include "common.hpp"
 
 #include <limitline/report/html.hpp>
-#include <limitline/report_job.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/app/report_job.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include <fmt/format.h>
 

@@ -2,9 +2,9 @@
 #include "common.hpp"
 
 #include <limitline/report/sensors.hpp>
-#include <limitline/codes.hpp>
-#include <limitline/sensors.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/io/codes.hpp>
+#include <limitline/analysis/sensors.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include <fmt/format.h>
 
@@ -60,6 +60,28 @@ T bounded(const po::variables_map& vm, const char* name, T lo, T hi) {
   return v;
 }
 
+
+// --sweep SENSOR=FROM:TO:STEP: the syntax is the command line's, the meaning the library's.
+sensors::SweepSpec sweep_option(const std::string& text, sensors::HumidityKind configured, units::System bare) {
+  const std::string origin = "--sweep";
+  const auto eq = text.find('=');
+  if (eq == std::string::npos || eq == 0)
+    throw UsageError(fmt::format("{}: write SENSOR=FROM:TO:STEP, e.g. outdoor_rh=-10%:10%:1%", origin));
+  const std::string_view range = std::string_view(text).substr(eq + 1);
+  std::array<std::string_view, 3> parts;
+  std::size_t start = 0, count = 0;
+  for (std::size_t i = 0; i <= range.size(); ++i) {
+    if (i < range.size() && range[i] != ':') continue;
+    if (count == 3) count = 4;
+    else parts[count++] = range.substr(start, i - start);
+    start = i + 1;
+  }
+  if (count != 3)
+    throw UsageError(fmt::format("{}: the range must be FROM:TO:STEP, e.g. {}=-10%:10%:1%", origin,
+                                 echo(text.substr(0, eq))));
+  return sensors::sweep_spec(std::string_view(text).substr(0, eq), parts, configured, bare, origin);
+}
+
 }  // namespace
 
 int run_sensors(const std::vector<std::string>& args) {
@@ -98,8 +120,7 @@ int run_sensors(const std::vector<std::string>& args) {
   report_warnings(set.warnings, common.strict);
   std::optional<sensors::SweepSpec> sweep_spec;
   if (vm.count("sweep"))
-    sweep_spec = sensors::parse_sweep(vm["sweep"].as<std::string>(), set.outdoor_humidity,
-                                      system, "--sweep");
+    sweep_spec = sweep_option(vm["sweep"].as<std::string>(), set.outdoor_humidity, system);
 
   const annual::Prepared prepared = prepare_year(in, true);
   const sensors::Engine engine(prepared, in.strategies, set.outdoor_humidity);

@@ -1,10 +1,10 @@
 // limitline sequence: the economizer part of a sequence of operation, written from the unit.
 #include "common.hpp"
 
-#include <limitline/codes.hpp>
-#include <limitline/report_job.hpp>
-#include <limitline/sequence.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/io/codes.hpp>
+#include <limitline/app/report_job.hpp>
+#include <limitline/report/sequence.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include <fmt/format.h>
 

@@ -1,14 +1,14 @@
 // limitline state: properties of one moist-air state (or of every row of a CSV file).
 #include "common.hpp"
 
-#include <limitline/input_file.hpp>
+#include <limitline/io/input_file.hpp>
 
-#include <limitline/air_point.hpp>
-#include <limitline/psychro.hpp>
+#include <limitline/model/air_point.hpp>
+#include <limitline/model/psychro.hpp>
 #include <limitline/report/json.hpp>
 #include <limitline/report/state.hpp>
 #include <limitline/report/table.hpp>
-#include <limitline/state_batch.hpp>
+#include <limitline/app/state_batch.hpp>
 
 #include <fmt/format.h>
 

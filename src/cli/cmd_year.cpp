@@ -1,13 +1,13 @@
 // limitline year: the annual evaluation of every high-limit strategy for a unit and climate.
 #include "common.hpp"
 
-#include <limitline/output_file.hpp>
+#include <limitline/io/output_file.hpp>
 #include <limitline/report/cautions.hpp>
 #include <limitline/report/hourly.hpp>
 #include <limitline/report/json.hpp>
 #include <limitline/report/table.hpp>
 #include <limitline/report/year.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include <fmt/format.h>
 

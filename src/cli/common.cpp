@@ -1,9 +1,9 @@
 #include "common.hpp"
 
-#include <limitline/output_file.hpp>
-#include <limitline/plausible.hpp>
-#include <limitline/psychro.hpp>
-#include <limitline/unit_file.hpp>
+#include <limitline/io/output_file.hpp>
+#include <limitline/model/plausible.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/io/unit_file.hpp>
 
 #include <fmt/format.h>
 
@@ -49,7 +49,15 @@ void add_units_option(po::options_description& options) {
 }
 
 UnitsChoice::UnitsChoice(const po::variables_map& vm) {
-  if (vm.count("units")) given_ = units::parse_system(vm["units"].as<std::string>(), "--units");
+  if (vm.count("units")) given_ = system_option(vm["units"].as<std::string>(), "--units");
+}
+
+units::System system_option(const std::string& text, std::string_view option) {
+  try {
+    return units::parse_system(text, option);
+  } catch (const InputError& e) {
+    throw UsageError(e.what());
+  }
 }
 
 units::System UnitsChoice::resolve(const UnitFile& unit) const { return given_.value_or(unit.units); }

@@ -2,8 +2,8 @@
 // Shared plumbing of the command-line front end: option parsing, formats, exit codes.
 // Commands only parse, call the library and format; nothing here knows physics.
 #include <limitline/error.hpp>
-#include <limitline/output_file.hpp>
-#include <limitline/units.hpp>
+#include <limitline/io/output_file.hpp>
+#include <limitline/model/units.hpp>
 
 #include <boost/program_options.hpp>
 
@@ -23,7 +23,22 @@ struct UnitSource;
 struct WeatherOverrides;
 }  // namespace limitline
 
+namespace limitline {
+
+// Wrong use of the command line (exit code 1). The command line's own: the library reports
+// bad values as InputError whatever their origin.
+class UsageError : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
+}  // namespace limitline
+
 namespace limitline::cli {
+
+// A unit system named on the command line (--units, --compare-in); a wrong name is a usage
+// error.
+units::System system_option(const std::string& text, std::string_view option);
 
 namespace po = boost::program_options;
 

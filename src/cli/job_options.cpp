@@ -1,7 +1,7 @@
 // Options shared by the commands that read a unit file and its weather year.
 #include "common.hpp"
 
-#include <limitline/year_job.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include <fmt/format.h>
 
@@ -30,10 +30,41 @@ UnitSource job_source(const po::variables_map& vm) {
   return demo_unit(vm.count("demo") ? vm["demo"].as<std::string>() : "harbourside");
 }
 
+namespace {
+
+// --column QUANTITY=HEADER[:UNIT]. A header may hold colons itself ("Time (HH:MM)"): only a
+// last part the quantity accepts as a unit is one.
+WeatherOverrides::Column column_option(const std::string& spec) {
+  const std::string origin = fmt::format("--column {}", echo(spec));
+  const auto eq = spec.find('=');
+  if (eq == std::string::npos || eq == 0 || eq + 1 == spec.size())
+    throw UsageError(fmt::format("{}: write QUANTITY=HEADER or QUANTITY=HEADER:UNIT, e.g. "
+                                 "dry_bulb=Temperature:C",
+                                 origin));
+  const auto q = weather::quantity_from_key(spec.substr(0, eq));
+  if (!q)
+    throw UsageError(fmt::format("{}: {} is not a weather quantity (dry_bulb, dew_point, "
+                                 "relative_humidity, wet_bulb, humidity_ratio, pressure, "
+                                 "timestamp, date, time, year, month, day, hour, minute)",
+                                 origin, echo(spec.substr(0, eq))));
+  WeatherOverrides::Column c{*q, spec.substr(eq + 1), std::nullopt, origin};
+  const auto colon = c.header.rfind(':');
+  if (colon != std::string::npos && colon > 0 &&
+      weather::accepts_unit(*q, std::string_view(c.header).substr(colon + 1))) {
+    c.unit = c.header.substr(colon + 1);
+    c.header.resize(colon);
+  }
+  return c;
+}
+
+}  // namespace
+
 WeatherOverrides weather_overrides(const po::variables_map& vm) {
   WeatherOverrides o;
   if (vm.count("weather")) o.file = vm["weather"].as<std::string>();
-  if (vm.count("column")) o.columns = vm["column"].as<std::vector<std::string>>();
+  if (vm.count("column"))
+    for (const std::string& spec : vm["column"].as<std::vector<std::string>>())
+      o.columns.push_back(column_option(spec));
   if (vm.count("humidity")) o.humidity = vm["humidity"].as<std::string>();
   if (vm.count("on-bad-row")) o.on_bad_row = vm["on-bad-row"].as<std::string>();
   if (vm.count("time-convention")) o.time_convention = vm["time-convention"].as<std::string>();

@@ -1,6 +1,6 @@
 #include <limitline/report/chart.hpp>
 
-#include <limitline/psychro.hpp>
+#include <limitline/model/psychro.hpp>
 #include <limitline/report/html.hpp>
 #include <limitline/report/strategy.hpp>
 

@@ -1,6 +1,6 @@
 #include <limitline/report/hourly.hpp>
 
-#include <limitline/psychro.hpp>
+#include <limitline/model/psychro.hpp>
 #include <limitline/report/table.hpp>
 
 #include <fmt/format.h>

@@ -1,9 +1,10 @@
 // One site-year: all presets and the three references (issue target ≤ 5 ms with the CSV parse,
 // ≤ 2 ms without). Weather: the real Greensboro TMY3 year in tests/data (NREL NSRDB, via pvlib).
-#include <limitline/annual.hpp>
-#include <limitline/unit_file.hpp>
-#include <limitline/weather.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/io/schedule_file.hpp>
+#include <limitline/analysis/annual.hpp>
+#include <limitline/io/unit_file.hpp>
+#include <limitline/io/weather.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include "../support/office.hpp"
 

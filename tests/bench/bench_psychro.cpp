@@ -9,8 +9,8 @@
 // checks its accuracy on every state of the table and stops with an error when it misses.
 #include <benchmark/benchmark.h>
 
-#include <limitline/psychro.hpp>
-#include <limitline/state_batch.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/app/state_batch.hpp>
 
 #include <fmt/format.h>
 

@@ -1,11 +1,11 @@
 // The sensor study: 1,000 trials × 8760 hours × the 7 presets (issue target ≤ 2 s wall on 2
 // cores, about 30 ns per hour-strategy-trial). Weather: the real Greensboro TMY3 year in
 // tests/data (NREL NSRDB, via pvlib), always occupied so every hour of the year is fan-on.
-#include <limitline/annual.hpp>
-#include <limitline/sensors.hpp>
-#include <limitline/unit_file.hpp>
-#include <limitline/weather.hpp>
-#include <limitline/year_job.hpp>
+#include <limitline/analysis/annual.hpp>
+#include <limitline/analysis/sensors.hpp>
+#include <limitline/io/unit_file.hpp>
+#include <limitline/io/weather.hpp>
+#include <limitline/app/year_job.hpp>
 
 #include "../support/office.hpp"
 

@@ -8,7 +8,7 @@
 // the whole import (header search, columns, units, time checks, psychrometrics per row).
 #include <benchmark/benchmark.h>
 
-#include <limitline/weather.hpp>
+#include <limitline/io/weather.hpp>
 
 #include <fstream>
 #include <sstream>

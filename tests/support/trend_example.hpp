@@ -4,12 +4,12 @@
 // true outdoor air. Faults can be injected over a time window. The committed
 // examples/trend-office.csv is this generator's output for examples/audit-office.toml (a test
 // checks that it is reproduced byte for byte). Invented data: a demo, never a check value.
-#include <limitline/airside.hpp>
-#include <limitline/highlimit.hpp>
-#include <limitline/psychro.hpp>
-#include <limitline/trend.hpp>
-#include <limitline/unit_file.hpp>
-#include <limitline/units.hpp>
+#include <limitline/model/airside.hpp>
+#include <limitline/model/highlimit.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/io/trend.hpp>
+#include <limitline/io/unit_file.hpp>
+#include <limitline/model/units.hpp>
 
 #include <fmt/format.h>
 

@@ -2,9 +2,9 @@
 // The audit findings report: coverage, the column mapping used, the rules, the findings with
 // their hours, share of operating time, first and worst stamps and energy, the switching
 // points seen, and the cautions. Text, Markdown and JSON.
-#include <limitline/audit.hpp>
-#include <limitline/trend.hpp>
-#include <limitline/units.hpp>
+#include <limitline/analysis/audit.hpp>
+#include <limitline/io/trend.hpp>
+#include <limitline/model/units.hpp>
 
 #include <string>
 

@@ -10,9 +10,9 @@
 // Everything is computed in SI and shown in the chosen unit system. The chart maps dry-bulb
 // linearly to x and humidity ratio linearly to y; ChartGeometry is that map, exposed so that
 // tests can read coordinates back out of the SVG.
-#include <limitline/annual.hpp>
-#include <limitline/highlimit.hpp>
-#include <limitline/units.hpp>
+#include <limitline/analysis/annual.hpp>
+#include <limitline/model/highlimit.hpp>
+#include <limitline/model/units.hpp>
 
 #include <cstdint>
 #include <optional>

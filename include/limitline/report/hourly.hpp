@@ -1,8 +1,8 @@
 #pragma once
 // The hour-by-hour account of an annual run, as CSV: each interval's outdoor and return
 // states, and for each strategy and reference its decision, damper position and loads.
-#include <limitline/annual.hpp>
-#include <limitline/units.hpp>
+#include <limitline/analysis/annual.hpp>
+#include <limitline/model/units.hpp>
 
 #include <iosfwd>
 #include <span>

@@ -5,7 +5,7 @@
 // monthly tables, cautions), the two pictures of report/chart.hpp and, when the site names an
 // energy code, the compliance of each strategy. Formatting only: every number comes from the
 // results passed in.
-#include <limitline/annual.hpp>
+#include <limitline/analysis/annual.hpp>
 #include <limitline/report/year.hpp>
 
 #include <optional>

@@ -3,7 +3,7 @@
 // accuracy and the bias sweep, in text and JSON, and the per-trial CSV. Formatting only:
 // every number comes from the sensors library.
 #include <limitline/report/year.hpp>
-#include <limitline/sensors.hpp>
+#include <limitline/analysis/sensors.hpp>
 
 #include <ostream>
 #include <string>

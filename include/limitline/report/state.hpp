@@ -1,8 +1,8 @@
 #pragma once
 // How the properties of a moist-air state are named and shown, in one table, so the text
 // table, JSON keys and CSV columns of `state` cannot disagree.
-#include <limitline/psychro.hpp>
-#include <limitline/units.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/model/units.hpp>
 
 #include <optional>
 #include <span>

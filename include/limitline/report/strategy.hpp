@@ -1,7 +1,7 @@
 #pragma once
 // High-limit conditions in words, with their setpoints in display units.
-#include <limitline/highlimit.hpp>
-#include <limitline/units.hpp>
+#include <limitline/model/highlimit.hpp>
+#include <limitline/model/units.hpp>
 
 #include <string>
 

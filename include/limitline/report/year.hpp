@@ -1,8 +1,8 @@
 #pragma once
 // The annual report: ranked strategies, wrong decisions, monthly hours, in text, Markdown,
 // CSV and JSON. Formatting only: every number comes from annual::YearResult.
-#include <limitline/annual.hpp>
-#include <limitline/units.hpp>
+#include <limitline/analysis/annual.hpp>
+#include <limitline/model/units.hpp>
 
 #include <map>
 #include <string>

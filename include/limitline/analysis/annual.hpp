@@ -1,0 +1,146 @@
+#pragma once
+// Annual evaluation: every high-limit strategy and the three references, hour by hour with
+// deadband state, over a year of weather and an occupancy schedule (docs/model.md
+// §Annual evaluation).
+//
+// The work is split in two so that the sensor study can reuse it: `prepare` computes, once per
+// interval, the true outdoor and return states and the disabled, enabled and optimal
+// operations; `run` then only decides and accumulates, which is cheap per strategy.
+#include <limitline/model/airside.hpp>
+#include <limitline/model/highlimit.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/model/schedule.hpp>
+
+#include <array>
+#include <cstdint>
+#include <span>
+#include <string>
+#include <vector>
+
+namespace limitline::annual {
+
+// One interval of outdoor weather (hourly, or shorter), SI.
+struct OutdoorInterval {
+  int month;        // 1–12
+  int day;          // 1–31
+  int day_of_year;  // 0-based, for the schedule's weekday
+  int start_min;    // minutes after midnight at which the interval starts
+  double hours;     // length of the interval, h
+  double dry_bulb_c;
+  double humidity_ratio;
+  double pressure_kpa;
+};
+
+// The return air as the unit file gives it; its humidity ratio follows each hour's pressure.
+struct ReturnAirSpec {
+  double dry_bulb_c;
+  psychro::HumidityInput humidity_kind;
+  double humidity_value;  // SI
+};
+
+// Energy and hours of one operation over one interval.
+struct Outcome {
+  double oa_fraction = 0;
+  bool economizing = false;
+  bool mechanical_cooling = false;
+  double cooling_kwh = 0;  // coil total
+  double sensible_kwh = 0;
+  double latent_kwh = 0;
+  double heating_kwh = 0;
+  double energy_kwh = 0;  // weighted E = w_c·cooling + w_h·heating
+};
+
+struct PreparedInterval {
+  std::uint32_t source_index;  // index into the weather series
+  std::uint8_t month;          // 1–12
+  bool cooling_needed;
+  double hours;  // occupied hours in the interval (occupied share × length)
+  double pressure_kpa;  // this interval's pressure (outdoor and return air alike)
+  highlimit::AirValues outdoor, ret;
+  Outcome disabled, enabled, optimal;
+  bool enabling_pays() const {
+    return enabled.energy_kwh < disabled.energy_kwh - tolerance_kwh;
+  }
+  bool enabling_hurts() const {
+    return enabled.energy_kwh > disabled.energy_kwh + tolerance_kwh;
+  }
+  double tolerance_kwh;  // kDecisionToleranceKjPerKg at this interval's mass flow and length
+};
+
+struct Prepared {
+  std::vector<PreparedInterval> intervals;  // fan-on intervals only
+  double total_hours = 0;      // hours in the weather series
+  double operating_hours = 0;  // fan-on hours
+  std::array<double, 12> operating_hours_by_month{};
+  bool has_dew_point = false;  // outdoor/return dew points were computed
+};
+
+struct PrepareOptions {
+  airside::EnergyWeights weights;
+  bool compute_dew_point = true;  // needed by dew-point conditions and hourly output
+};
+
+Prepared prepare(const airside::AirHandler& unit, const ReturnAirSpec& ret,
+                 std::span<const OutdoorInterval> weather, const Schedule& schedule,
+                 const PrepareOptions& options);
+
+// Accumulated results. Hours are occupied (fan-on) hours.
+struct Totals {
+  double hours_operating = 0;
+  double hours_cooling_needed = 0;
+  double hours_enabled = 0;       // high-limit permits economizing, fan on
+  double hours_economizing = 0;   // damper above minimum
+  double hours_free_cooling = 0;  // economizing with no mechanical cooling
+  double hours_integrated = 0;    // economizing with mechanical cooling
+  double cooling_kwh = 0;
+  double sensible_kwh = 0;
+  double latent_kwh = 0;
+  double heating_kwh = 0;
+  double energy_kwh = 0;  // weighted, what the perfect changeover minimises
+  double harmful_hours = 0;
+  double harmful_kwh = 0;  // extra weighted energy of the harmful enables
+  double missed_hours = 0;
+  double missed_kwh = 0;  // weighted energy a missed enable would have saved
+  void add(const Totals& o);
+};
+
+enum class Kind { strategy, no_economizer, perfect_changeover, optimal_damper };
+
+struct StrategyResult {
+  std::string name;  // the strategy's name, or the reference's: "no-economizer", …
+  Kind kind = Kind::strategy;
+  Totals annual;
+  std::array<Totals, 12> monthly{};
+  double savings_vs_no_economizer_kwh = 0;  // E(no economizer) − E(this)
+  double shortfall_vs_perfect_kwh = 0;      // E(this) − E(perfect changeover)
+  // Per prepared interval, when requested: 1 enabled, 0 disabled.
+  std::vector<std::uint8_t> enabled_by_interval;
+};
+
+std::string_view reference_name(Kind k);
+
+struct RunOptions {
+  bool keep_decisions = false;  // fill enabled_by_interval
+};
+
+// One strategy over the prepared year (deadband state starts clear and carries between
+// fan-on intervals; the high-limit is not evaluated while the fan is off).
+StrategyResult run(const highlimit::Strategy& strategy, const Prepared& prepared,
+                   const RunOptions& options = {});
+StrategyResult run_reference(Kind reference, const Prepared& prepared,
+                             const RunOptions& options = {});
+
+struct YearResult {
+  std::vector<StrategyResult> strategies;  // ranked: smallest shortfall first
+  StrategyResult no_economizer, perfect_changeover, optimal_damper;
+  double total_hours = 0;
+  double operating_hours = 0;
+  // The best strategy (first of `strategies`); empty when there are none.
+  const StrategyResult* best() const { return strategies.empty() ? nullptr : &strategies[0]; }
+};
+
+// Runs every strategy and the references, fills savings and shortfall, and ranks.
+YearResult evaluate(std::span<const highlimit::Strategy> strategies, const Prepared& prepared,
+                    const RunOptions& options = {});
+
+}  // namespace limitline::annual

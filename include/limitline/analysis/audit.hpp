@@ -1,0 +1,131 @@
+#pragma once
+// Auditing a trend log against the unit file: what the economizer did, interval by interval,
+// against what its high-limit says it should have done, with the energy the model puts on
+// each difference. Physics and rules only; the report layer formats the result.
+//
+// Rules (each a named constant below, so the report can state them):
+//  - The damper is "economizing" when its signal is above the minimum by kDamperMarginFraction
+//    (or, with no damper column, when the measured fraction is above it by that margin plus
+//    three standard uncertainties).
+//  - The measured outdoor-air fraction x = (t_m − t_r)/(t_o − t_r) is used only where
+//    |t_o − t_r| ≥ kFractionGateFactor · √(σ_o² + σ_r² + σ_m²); its standard uncertainty is
+//    first-order: σ_x² = (σ_m² + x²·σ_o² + (1 − x)²·σ_r²)/(t_o − t_r)².
+//  - A reading beyond a limit counts only when it is beyond it by three standard
+//    uncertainties plus the margin the rule names.
+#include <limitline/model/airside.hpp>
+#include <limitline/model/highlimit.hpp>
+#include <limitline/io/trend.hpp>
+#include <limitline/io/unit_file.hpp>
+
+#include <array>
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace limitline::audit {
+
+inline constexpr double kDamperMarginFraction = 0.05;    // 5 % points above the minimum
+inline constexpr double kFractionGateFactor = 4.0;
+inline constexpr double kCoverageFactor = 3.0;           // standard uncertainties
+inline constexpr double kDamperTrackingMargin = 0.15;    // measured vs commanded fraction
+inline constexpr double kVentilationMargin = 0.05;       // fraction above/below the minimum
+inline constexpr double kShouldOpenMargin = 0.10;        // model opens the damper by at least
+// The switching point found in the log differs from the configured limit when it lies beyond
+// the configured band [limit − deadband, limit] by more than this (common practice: about
+// 2 °F, 1 Btu/lb).
+inline constexpr double kSwitchToleranceK = 1.0;
+inline constexpr double kSwitchToleranceKjPerKg = 2.3;
+inline constexpr int kSwitchMinimumSamples = 4;  // each side of the switching point
+
+// Stated accuracies of the temperature sensors, read as one standard uncertainty, K.
+// Defaults: ±0.5 K, a common-practice figure for air-temperature sensors in a duct.
+struct Accuracy {
+  double outdoor_k = 0.5;
+  double return_k = 0.5;
+  double mixed_k = 0.5;
+};
+
+struct MeasuredFraction {
+  double fraction;
+  double sigma;
+};
+// The measured fraction and its first-order uncertainty, or none when |t_o − t_r| is below the
+// gate. Temperatures °C.
+std::optional<MeasuredFraction> measured_fraction(double t_outdoor, double t_return,
+                                                  double t_mixed, const Accuracy& a);
+
+enum class FindingKind : std::uint8_t {
+  economizing_when_disabled,    // strategy says off, damper open
+  not_economizing_when_enabled, // strategy says on and the model opens, damper at minimum
+  damper_not_following,         // measured fraction far from the commanded one
+  excess_outdoor_air,           // economizer off, measured fraction above the minimum
+  below_minimum,                // measured fraction below the ventilation minimum
+  mixed_air_out_of_range,       // mixed air outside [min(t_o, t_r), max(t_o, t_r)]
+  high_limit_elsewhere,         // switching point in the log ≠ the configured limit
+};
+inline constexpr std::size_t kFindingKindCount = 7;
+std::string_view finding_key(FindingKind k);    // "economizing-when-disabled", ...
+std::string_view finding_title(FindingKind k);  // one line, for reports
+std::string_view finding_rule(FindingKind k);   // the rule, one sentence
+
+struct Finding {
+  FindingKind kind;
+  int intervals = 0;
+  double hours = 0;
+  double share_of_operating = 0;  // hours / fan-on hours
+  std::int64_t first_s = 0, last_s = 0, worst_s = 0;
+  double worst_excess = 0;        // how far beyond the rule at the worst interval (rule's units)
+  int first_line = 0, worst_line = 0;
+  // Σ (E at the observed fraction − E of the expected operation)·ṁ·Δt, kWh; none where the
+  // model cannot say (a mixed-air reading that is itself suspect).
+  std::optional<double> energy_kwh;
+};
+
+// The switching point of one fixed or differential condition, from the log.
+struct SwitchPoint {
+  int condition;                // index in the strategy
+  highlimit::Quantity quantity;
+  highlimit::Reference reference;
+  double configured;            // limit (fixed) or offset (return), SI
+  double deadband;
+  double estimate;              // SI: the split that misclassifies the fewest samples
+  double highest_open;          // highest value with the damper open
+  double lowest_closed;         // lowest value with the damper at minimum
+  int open_samples, closed_samples, misclassified;
+  // At least kSwitchMinimumSamples open above limit + tolerance, or closed below
+  // limit − deadband − tolerance.
+  bool differs;
+};
+
+struct IntervalResult {  // one fan-on sample, for reports and tests
+  std::size_t sample;
+  bool expected_enabled;
+  bool observed_economizing;
+  std::optional<MeasuredFraction> measured;
+};
+
+struct Options {
+  highlimit::Strategy strategy;
+  Accuracy accuracy;
+};
+
+struct Result {
+  std::string strategy_name;
+  double operating_hours = 0;   // fan-on weight
+  double covered_hours = 0;
+  int operating_intervals = 0;
+  int fraction_intervals = 0;   // where the measured fraction passed the gate
+  std::vector<Finding> findings;  // kinds with at least one interval, in FindingKind order
+  std::vector<SwitchPoint> switch_points;
+  std::vector<IntervalResult> intervals;
+  std::vector<std::string> notes;  // assumptions taken (no fan column, return air from the unit file)
+  const Finding* find(FindingKind k) const;
+};
+
+// Throws InputError when the log lacks what the strategy needs (an outdoor humidity for an
+// enthalpy or dew-point limit, a return reading for a differential one) or has no outdoor
+// dry-bulb.
+Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& options);
+
+}  // namespace limitline::audit

@@ -1,0 +1,17 @@
+#pragma once
+// The unit file's [schedule] table, read into a Schedule.
+#include <limitline/model/schedule.hpp>
+
+#include <toml++/toml.h>
+
+#include <string_view>
+
+namespace limitline {
+
+// Reads [schedule]: occupied = "always", or day keys (mon … sun, ranges such as "mon-fri",
+// "sat-sun") with "HH:MM-HH:MM" periods (several separated by commas; "off" for none), plus
+// first_weekday = "monday" … "sunday" and holidays = ["01-01", "12-25"]. Errors name the file,
+// line and key.
+Schedule read_schedule(const toml::table& table, std::string_view file_name);
+
+}  // namespace limitline

@@ -1,0 +1,79 @@
+#pragma once
+// The unit file (TOML): one air handler, its site, its return air, and the high-limit
+// strategies to weigh for it. Every key is documented in the README section 'The unit file'.
+//
+// Reading is strict: an unknown key, a value of the wrong kind (a temperature where an
+// enthalpy belongs), a missing required key or a contradiction is an InputError whose one-line
+// message starts "FILE:LINE: KEY:". The [weather], [schedule] and [sensors] tables are kept
+// raw for the layers that own them; they validate their own keys.
+#include <limitline/model/air_point.hpp>
+#include <limitline/model/airside.hpp>
+#include <limitline/model/highlimit.hpp>
+#include <limitline/model/units.hpp>
+
+#include <toml++/toml.h>
+
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace limitline {
+
+struct Site {
+  std::string name;
+  std::optional<double> elevation_m;
+  std::optional<double> pressure_kpa;
+  std::string energy_code;   // as written; the code layer checks it against its tables
+  std::string climate_zone;  // as written
+  // "FILE:LINE: site.energy_code" (and climate_zone) for the messages of the layers that
+  // check these values; empty when the key is absent.
+  std::string energy_code_origin;
+  std::string climate_zone_origin;
+  // "FILE:LINE: site.elevation" (or site.pressure), whichever is given; empty when neither.
+  std::string pressure_origin;
+
+  // The pressure every state of the site is computed at: `pressure` when given, else the
+  // standard pressure at `elevation` (ASHRAE Fundamentals ch. 1 eq. 3), else sea level.
+  double design_pressure_kpa() const;
+};
+
+// The return air the unit is designed around (air_handler.return_air_*).
+using ReturnAir = AirPoint;
+
+struct UnitFile {
+  std::string path;  // the name errors are reported under
+  Site site;
+  airside::AirHandler air_handler;
+  // air_handler.min_outdoor_airflow when the minimum was given as an airflow (the fraction
+  // in air_handler is derived from it), so reports can show what was written.
+  std::optional<double> min_outdoor_airflow_m3_per_s;
+  ReturnAir return_air;
+  airside::EnergyWeights weights;
+  std::vector<highlimit::Strategy> strategies;  // as written; empty when none are given
+  bool strategies_defaulted = true;             // no [[strategy]] in the file
+  std::optional<toml::table> weather, schedule, sensors;  // raw, validated by their layers
+  units::System units = units::System::ip;  // the system bare numbers in the file are read in
+  // Values that are physically valid but implausible for an air handler, one line each
+  // ("FILE:LINE: KEY: ..."): shown in every report's context block and on stderr, errors
+  // under --strict.
+  std::vector<std::string> warnings;
+};
+
+// Parses a unit file from text; `name` is the file name used in messages.
+UnitFile parse_unit_file(std::string_view text, std::string_view name);
+// Reads and parses a file; an unreadable file is an InputError naming the path.
+UnitFile load_unit_file(const std::string& path);
+
+// The file's strategies, or every preset at its common-practice defaults when it gives none.
+std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit);
+
+// A name as the unit file compares it: no case, no spaces, '_' the same as '-' ("Dew_Point"
+// → "dew-point"), for every layer that reads names from its tables.
+std::string normalise_name(std::string_view name);
+
+// "FILE:LINE: KEY" for a node read from a unit file, the prefix of every message about it
+// (for the layers that validate [weather], [schedule] and [sensors]).
+std::string source_origin(const toml::source_region& where, std::string_view key);
+
+}  // namespace limitline

@@ -1,0 +1,165 @@
+#pragma once
+// The air handler: mixing box, outdoor-air fraction, fan heat, cooling coil and heating
+// (docs/model.md §Air handler). SI throughout; loads per kg of dry air unless named otherwise.
+//
+// The economizer only ever chooses between two operations in an hour: economizer disabled
+// (damper at the ventilation minimum) or enabled (damper per the damper rule). Both are
+// computed once per hour here, so every high-limit strategy of an annual run shares them.
+#include <limitline/model/psychro.hpp>
+
+namespace limitline::airside {
+
+enum class FanPosition { draw_through, blow_through };
+enum class EconomizerType { integrated, non_integrated };
+
+// Mass flow of dry air from a volume flow at standard air (common practice: 1.204 kg/m³,
+// 0.075 lb/ft³), the basis on which supply airflows are scheduled.
+inline constexpr double kStandardAirDensityKgPerM3 = 1.204;
+
+struct AirHandler {
+  double supply_airflow_m3_per_s = 0.0;  // at standard air
+  double supply_air_temp_c = 12.8;       // t_s, the supply (discharge) setpoint
+  double fan_heat_k = 0.0;               // Δt_f, supply-fan temperature rise
+  FanPosition fan_position = FanPosition::draw_through;
+  double min_oa_fraction = 0.0;  // x_min, ventilation minimum (dry-air mass fraction)
+  double max_oa_fraction = 1.0;  // x_max, damper limit
+  EconomizerType economizer = EconomizerType::integrated;
+  double coil_leaving_rh_max = 0.95;  // φ_max: cap on the coil-leaving relative humidity
+
+  // Mixed-air temperature the economizer aims at: t_s − Δt_f for either fan position.
+  double mixed_air_target_c() const { return supply_air_temp_c - fan_heat_k; }
+  // Coil-leaving dry-bulb: t_s − Δt_f draw-through, t_s blow-through.
+  double coil_leaving_temp_c() const {
+    return fan_position == FanPosition::draw_through ? supply_air_temp_c - fan_heat_k
+                                                     : supply_air_temp_c;
+  }
+  double dry_air_mass_flow_kg_per_s() const {
+    return supply_airflow_m3_per_s * kStandardAirDensityKgPerM3;
+  }
+};
+
+// Throws InputError naming the field when the air handler is contradictory (x_min > x_max,
+// fractions outside 0–100 %, φ_max outside (0, 1], non-positive airflow, negative fan heat).
+void validate(const AirHandler& unit);
+
+// A state at a known pressure, with the enthalpy that mixing conserves.
+struct AirState {
+  double dry_bulb_c;
+  double humidity_ratio;
+  double enthalpy_kj_per_kg;
+};
+AirState air_state(double dry_bulb_c, double humidity_ratio);
+
+// Adiabatic mixing on dry-air mass (ASHRAE Fundamentals ch. 1, eqs. 42–44): enthalpy and
+// humidity ratio mix linearly in the outdoor dry-air fraction x; t follows from eq. 32.
+AirState mix(const AirState& outdoor, const AirState& ret, double oa_fraction);
+
+// The fraction x* at which the mixed air is at `target_c`, in closed form (h_m and W_m are
+// linear in x, so t_m(x) = target is linear in x once eq. 32 is rearranged). Returns false
+// when no finite x exists (outdoor and return air give the same mixed temperature for all x).
+bool oa_fraction_for_mixed_temp(const AirState& outdoor, const AirState& ret, double target_c,
+                                double& oa_fraction);
+
+// The mixing estimate practitioners make by hand: t_m ≈ x·t_o + (1 − x)·t_r.
+constexpr double mixed_temp_by_temperature_weighting(double t_outdoor_c, double t_return_c,
+                                                     double oa_fraction) {
+  return oa_fraction * t_outdoor_c + (1.0 - oa_fraction) * t_return_c;
+}
+
+// What heating or cooling must make up after mixing.
+enum class Makeup { none, heating, cooling };
+
+// The hand calculation: outdoor-air fraction needed for a target mixed-air temperature,
+// whether it falls within [x_min, x_max], and the mixed air that results once the fraction is
+// held within them.
+struct MixedAirEstimate {
+  bool target_reachable;    // a finite fraction exists at all
+  double fraction_needed;   // x* (meaningful when target_reachable)
+  bool within_limits;       // x_min ≤ x* ≤ x_max
+  double fraction_applied;  // x* clamped to [x_min, x_max] (x_min when unreachable)
+  AirState mixed;           // at fraction_applied
+  Makeup makeup;            // heating when the mixed air ends below target, cooling above
+  double makeup_k;          // |t_m − target|
+};
+MixedAirEstimate estimate_mixed_air(const AirState& outdoor, const AirState& ret,
+                                    double target_c, double min_fraction, double max_fraction);
+
+// Per-pressure coil boundary: leaving dry-bulb and the leaving humidity-ratio cap
+// W(t_cl, φ_max) at that pressure.
+struct CoilLimits {
+  double leaving_temp_c;
+  double leaving_humidity_ratio_cap;
+};
+CoilLimits coil_limits(const AirHandler& unit, double pressure_kpa);
+
+// Loads of one operation, per kg of dry air.
+struct CoilLoads {
+  AirState entering;  // coil entering (mixed air, plus fan heat when blow-through)
+  AirState leaving;
+  double cooling_kj_per_kg;   // total coil load q_c, condensate enthalpy removed
+  double sensible_kj_per_kg;  // h(t_ce, W_ce) − h(t_cl, W_ce)
+  double latent_kj_per_kg;    // q_c − sensible
+  double heating_kj_per_kg;   // q_h = h(t_cl, W_ce) − h(t_ce, W_ce) when t_ce < t_cl
+};
+
+// Cooling coil with leaving dry-bulb t_cl and W_cl = min(W_ce, W_cap):
+// q_c = h_ce − h_cl − (W_ce − W_cl)·4.186·t_cl when t_ce > t_cl; heating when t_ce < t_cl.
+CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& limits, const AirState& mixed);
+
+// How cooling and heating energy are weighed against each other when choosing (E = w_c·q_c +
+// w_h·q_h): defaults count a kWh of either as equal.
+struct EnergyWeights {
+  double cooling = 1.0;
+  double heating = 1.0;
+};
+
+// Energy differences smaller than this (weighted kJ per kg of dry air) between enabling and
+// disabling are a tie: neither choice counts as wrong. About 0.004 Btu/lb, far below what any
+// sensor could resolve.
+inline constexpr double kDecisionToleranceKjPerKg = 0.01;
+
+// One hour's operation of the air handler.
+struct Operation {
+  double oa_fraction;
+  bool economizing;          // damper above the minimum
+  bool mechanical_cooling;   // coil cooling load > 0
+  AirState mixed;
+  CoilLoads loads;
+  double weighted_kj_per_kg;  // E
+};
+
+// The outdoor and return air of an hour, with the coil limits at that hour's pressure.
+struct HourAir {
+  AirState outdoor;
+  AirState ret;
+  CoilLimits coil;
+};
+
+// The operation the damper rule gives (docs/model.md §Damper rule, steps 1–2).
+Operation operate(const AirHandler& unit, const HourAir& air, bool economizer_enabled,
+                  const EnergyWeights& weights);
+
+// Everything a high-limit can cause in one hour: the operation with the economizer disabled,
+// the one with it enabled, and whether cooling is needed at all.
+struct HourChoice {
+  bool cooling_needed;  // t_m(x_min) > target
+  Operation disabled;
+  Operation enabled;
+  // Enabling saves energy beyond `tolerance`: the perfect changeover's decision.
+  bool enabling_pays(double tolerance_kj_per_kg) const {
+    return enabled.weighted_kj_per_kg < disabled.weighted_kj_per_kg - tolerance_kj_per_kg;
+  }
+  bool enabling_hurts(double tolerance_kj_per_kg) const {
+    return enabled.weighted_kj_per_kg > disabled.weighted_kj_per_kg + tolerance_kj_per_kg;
+  }
+};
+HourChoice choose(const AirHandler& unit, const HourAir& air, const EnergyWeights& weights);
+
+// The damper position in [x_min, x_max] that minimises E. E is piecewise linear in x (coil
+// entering enthalpy and humidity are linear in x; the breakpoints are x* and the fraction at
+// which the entering humidity reaches the coil's leaving cap), so its minimum is at one of
+// those points or an end.
+Operation optimal_damper(const AirHandler& unit, const HourAir& air,
+                         const EnergyWeights& weights);
+
+}  // namespace limitline::airside

@@ -1,0 +1,133 @@
+#pragma once
+// High-limit strategies (docs/model.md §High-limit conditions).
+//
+// A strategy is a list of conditions joined by OR: any tripped condition disables the
+// economizer. A condition compares one outdoor quantity with a fixed limit or with the
+// return-air value plus an offset; with a deadband, once tripped it clears only when the
+// outdoor value falls below limit − deadband, so the state carries from one evaluation to the
+// next. A value exactly at the limit does not trip (codes word the limits as "off when above").
+#include <limitline/model/units.hpp>
+
+#include <array>
+#include <cstdint>
+#include <optional>
+#include <span>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace limitline::highlimit {
+
+enum class Quantity : std::uint8_t { dry_bulb, enthalpy, dew_point, humidity_ratio };
+inline constexpr std::size_t kQuantityCount = 4;
+
+enum class Reference : std::uint8_t { fixed, return_air };
+
+std::string_view quantity_name(Quantity q);  // "dry-bulb", "enthalpy", "dew-point", ...
+std::optional<Quantity> quantity_from_name(std::string_view name);
+std::string_view reference_name(Reference r);  // "fixed", "return"
+std::optional<Reference> reference_from_name(std::string_view name);
+
+// The kind of a quantity's values (limits, readings) and of its differences (offsets,
+// deadbands, excess over a limit), for parsing and display at the edges.
+units::Kind quantity_kind(Quantity q);
+units::Kind quantity_difference_kind(Quantity q);
+
+// The values a decision is made on (sensor readings, or the true state), SI, indexed by
+// Quantity: °C, kJ/kg, °C, kg/kg.
+struct AirValues {
+  std::array<double, kQuantityCount> value{};
+  double operator[](Quantity q) const { return value[static_cast<std::size_t>(q)]; }
+  double& operator[](Quantity q) { return value[static_cast<std::size_t>(q)]; }
+};
+AirValues air_values(double dry_bulb_c, double enthalpy_kj_per_kg, double dew_point_c,
+                     double humidity_ratio);
+
+struct Condition {
+  Quantity quantity = Quantity::dry_bulb;
+  Reference reference = Reference::fixed;
+  double limit = 0.0;     // fixed: the limit; return_air: the offset added to the return value
+  double deadband = 0.0;  // ≥ 0, same kind as the quantity (a difference)
+
+  double effective_limit(const AirValues& ret) const {
+    return reference == Reference::fixed ? limit : ret[quantity] + limit;
+  }
+};
+
+struct Strategy {
+  std::string name;
+  std::string preset;  // the preset it came from, empty for custom conditions
+  std::vector<Condition> conditions;
+  bool needs(Quantity q) const;  // any condition uses q (outdoor, or return when differential)
+};
+
+// --- Presets ---------------------------------------------------------------------------
+
+// Settings a preset takes; each has a common-practice default (see preset_defaults()).
+struct PresetSettings {
+  double dry_bulb_limit_c;
+  double enthalpy_limit_kj_per_kg;
+  double dew_point_limit_c;
+  double dry_bulb_offset_k;            // differential dry-bulb: off when t_o > t_r + offset
+  double enthalpy_offset_kj_per_kg;    // differential enthalpy: off when h_o > h_r + offset
+  double dry_bulb_deadband_k;
+  double enthalpy_deadband_kj_per_kg;
+  double dew_point_deadband_k;
+};
+// 75 °F dry-bulb, 28 Btu/lb enthalpy, 55 °F dew point, zero offsets and deadbands (common
+// practice; the energy-code rows of data/codes give the required values per climate zone).
+PresetSettings preset_defaults();
+
+struct PresetInfo {
+  std::string_view name;         // "fixed-enthalpy+dry-bulb"
+  std::string_view description;  // one line, original wording
+};
+std::span<const PresetInfo> presets();
+bool is_preset(std::string_view name);
+
+// Builds the strategy of a preset; throws InputError naming the preset when it is unknown.
+Strategy make_preset(std::string_view preset, const PresetSettings& settings,
+                     std::string name = {});
+// Every preset with the given settings, in the order of presets().
+std::vector<Strategy> all_presets(const PresetSettings& settings);
+
+// --- Decisions ------------------------------------------------------------------------
+
+// Tripped flags of each condition of one strategy, carried between evaluations.
+struct StrategyState {
+  std::vector<std::uint8_t> tripped;
+  explicit StrategyState(const Strategy& s) : tripped(s.conditions.size(), 0) {}
+  StrategyState() = default;
+};
+
+enum class ConditionStatus : std::uint8_t {
+  clear,        // at or below the limit (and below limit − deadband if it was tripped)
+  tripped,      // above the limit
+  held,         // within the deadband after a trip: still tripped
+};
+
+struct ConditionResult {
+  double outdoor;         // the outdoor value compared
+  double limit;           // effective limit (return value + offset for differential types)
+  double excess;          // outdoor − limit (> 0 above the limit)
+  ConditionStatus status;
+  bool disables() const { return status != ConditionStatus::clear; }
+};
+
+struct Decision {
+  bool enabled;                         // no condition trips
+  std::vector<ConditionResult> results;  // one per condition
+  // The first condition (in the order written) that disables; -1 when enabled. Every
+  // condition's own result is in `results`.
+  int deciding_condition;
+};
+
+// Evaluates the strategy and updates its state (the full account, for reports).
+Decision decide(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
+                StrategyState& state);
+
+// The same decision without the account, for annual loops: returns enabled.
+bool permits(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
+             StrategyState& state);
+
+}  // namespace limitline::highlimit

@@ -1,0 +1,346 @@
+#include <limitline/analysis/audit.hpp>
+
+#include <limitline/error.hpp>
+#include <limitline/model/psychro.hpp>
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cmath>
+
+namespace limitline::audit {
+namespace {
+
+using trend::Channel;
+
+struct KindText {
+  std::string_view key, title, rule;
+};
+constexpr KindText kKinds[kFindingKindCount] = {
+    {"economizing-when-disabled", "Economizing while the high-limit says off",
+     "fan on, the configured strategy disables the economizer, and the damper is open more "
+     "than 5 % points above the minimum"},
+    {"not-economizing-when-enabled", "Not economizing while the high-limit allows it",
+     "fan on, the strategy enables the economizer and the model opens the damper at least "
+     "10 % points above the minimum, but the damper stays within 5 % points of the minimum"},
+    {"damper-not-following", "Damper not following its command",
+     "the measured outdoor-air fraction differs from the commanded one by more than 3σ + 0.15 "
+     "(the damper signal read as the fraction it commands)"},
+    {"excess-outdoor-air", "Outdoor air above the minimum with the economizer off",
+     "damper signal at the minimum (or the strategy off, with no damper column) and the "
+     "measured fraction above the minimum by more than 3σ + 0.05"},
+    {"below-minimum", "Outdoor air below the ventilation minimum",
+     "the measured fraction below the minimum by more than 3σ + 0.05"},
+    {"mixed-air-out-of-range", "Mixed air outside the outdoor–return range",
+     "the mixed-air reading below the lower or above the higher of outdoor and return by more "
+     "than 3 combined standard uncertainties: a sensor fault or stratification"},
+    {"high-limit-elsewhere", "High-limit apparently set elsewhere than configured",
+     "at least 4 samples (cooling needed, the other conditions clear) with the damper open "
+     "above the configured limit, or at minimum below limit − deadband, by more than the "
+     "tolerance (1 K / 2.3 kJ/kg); hours are the samples on the wrong side of the configured limit or band (they overlap the first two findings)"},
+};
+
+double switch_tolerance(highlimit::Quantity q) {
+  return q == highlimit::Quantity::enthalpy ? kSwitchToleranceKjPerKg
+         : q == highlimit::Quantity::humidity_ratio ? 0.0005  // about 0.5 g/kg, common practice
+                                                    : kSwitchToleranceK;
+}
+
+struct Prepared {  // one fan-on interval, kept for the switch-point pass
+  std::size_t sample;
+  highlimit::AirValues out, ret;
+  bool cooling_needed;
+  double enabled_fraction;
+  std::optional<bool> observed;
+  double impact_kwh;
+};
+
+}  // namespace
+
+std::string_view finding_key(FindingKind k) { return kKinds[static_cast<std::size_t>(k)].key; }
+std::string_view finding_title(FindingKind k) { return kKinds[static_cast<std::size_t>(k)].title; }
+std::string_view finding_rule(FindingKind k) { return kKinds[static_cast<std::size_t>(k)].rule; }
+
+std::optional<MeasuredFraction> measured_fraction(double t_o, double t_r, double t_m,
+                                                  const Accuracy& a) {
+  const double d = t_o - t_r;
+  const double gate = kFractionGateFactor * std::sqrt(a.outdoor_k * a.outdoor_k +
+                                                      a.return_k * a.return_k + a.mixed_k * a.mixed_k);
+  if (std::abs(d) < gate || d == 0.0) return std::nullopt;
+  const double x = (t_m - t_r) / d;
+  // ∂x/∂t_m = 1/d, ∂x/∂t_o = −x/d, ∂x/∂t_r = (x − 1)/d.
+  const double var = (a.mixed_k * a.mixed_k + x * x * a.outdoor_k * a.outdoor_k +
+                      (1 - x) * (1 - x) * a.return_k * a.return_k) / (d * d);
+  return MeasuredFraction{x, std::sqrt(var)};
+}
+
+const Finding* Result::find(FindingKind k) const {
+  for (const auto& f : findings)
+    if (f.kind == k) return &f;
+  return nullptr;
+}
+
+Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& options) {
+  const auto& s = options.strategy;
+  const auto& ah = unit.air_handler;
+  const double p = unit.site.design_pressure_kpa();
+  const double m_dot = ah.dry_air_mass_flow_kg_per_s();
+  const airside::CoilLimits coil = airside::coil_limits(ah, p);
+  const Accuracy& acc = options.accuracy;
+  Result r;
+  r.strategy_name = s.name;
+
+  if (!log.has(Channel::outdoor_dry_bulb))
+    throw InputError(fmt::format("{}: no outdoor dry-bulb column; the audit needs one (set it "
+                                 "with --column outdoor-dry-bulb=HEADER[:UNIT])", log.path));
+  const bool out_hum = log.has(Channel::outdoor_rh) || log.has(Channel::outdoor_dew_point);
+  const bool needs_hum = s.needs(highlimit::Quantity::enthalpy) ||
+                         s.needs(highlimit::Quantity::dew_point) ||
+                         s.needs(highlimit::Quantity::humidity_ratio);
+  if (needs_hum && !out_hum)
+    throw InputError(fmt::format("{}: strategy '{}' needs the outdoor humidity, and the log has "
+                                 "no outdoor RH or dew-point column", log.path, s.name));
+  bool differential = false;
+  for (const auto& c : s.conditions) differential = differential || c.reference == highlimit::Reference::return_air;
+  if (!out_hum)
+    r.notes.push_back("no outdoor humidity in the log: the energy model takes the outdoor air at "
+                      "the return air's humidity ratio");
+  if (!log.has(Channel::return_dry_bulb))
+    r.notes.push_back("no return dry-bulb in the log: decisions and energy use the unit file's "
+                      "design return air, and no outdoor-air fraction can be measured");
+  else if (!log.has(Channel::return_rh) && !log.has(Channel::return_dew_point))
+    r.notes.push_back("no return humidity in the log: the return air takes the unit file's "
+                      "design humidity ratio");
+  if (differential && !log.has(Channel::return_dry_bulb))
+    r.notes.push_back("differential strategy judged against the design return air, not a "
+                      "measured one");
+  if (!log.has(Channel::fan))
+    r.notes.push_back("no supply-fan status in the log: every sample is taken as fan on");
+  if (!log.has(Channel::damper))
+    r.notes.push_back("no damper column: economizing is judged from the measured fraction");
+  if (!log.has(Channel::mixed_air))
+    r.notes.push_back("no mixed-air temperature: no outdoor-air fraction can be measured");
+
+  const airside::AirState design_ret = unit.return_air.at(p);
+  std::array<Finding, kFindingKindCount> acc_f{};
+  for (std::size_t k = 0; k < kFindingKindCount; ++k) acc_f[k].kind = static_cast<FindingKind>(k);
+  std::vector<Prepared> kept;
+  int skipped = 0;
+
+  auto add = [&](FindingKind k, std::size_t i, double excess, std::optional<double> impact) {
+    Finding& f = acc_f[static_cast<std::size_t>(k)];
+    const auto& smp = log.samples[i];
+    if (f.intervals == 0) {
+      f.first_s = smp.time_s, f.first_line = smp.line;
+      f.energy_kwh = 0.0;
+    }
+    if (f.intervals == 0 || excess > f.worst_excess)
+      f.worst_excess = excess, f.worst_s = smp.time_s, f.worst_line = smp.line;
+    ++f.intervals;
+    f.hours += log.weight_s[i] / 3600.0;
+    f.last_s = smp.time_s;
+    if (!impact) f.energy_kwh.reset();
+    else if (f.energy_kwh) *f.energy_kwh += *impact;
+  };
+
+  highlimit::StrategyState state(s);
+  for (std::size_t i = 0; i < log.samples.size(); ++i) {
+    const auto& smp = log.samples[i];
+    const std::string where = fmt::format("{}:{}", log.path, smp.line);
+    const auto t_o = smp[Channel::outdoor_dry_bulb];
+    if (!t_o) {
+      ++skipped;
+      continue;
+    }
+    // Return air: logged when there, design otherwise.
+    airside::AirState ret = design_ret;
+    const auto t_r = smp[Channel::return_dry_bulb];
+    try {
+      // Humidity ratio of a logged point from its RH or dew point (capped at saturation), or
+      // `fallback` when the log has neither for it.
+      auto humidity = [&](const char* point, double t, Channel rh_ch, Channel dp_ch,
+                          double fallback) -> std::optional<double> {
+        double w = fallback;
+        if (auto rh = smp[rh_ch]) {
+          w = psychro::humidity_ratio_from_relative_humidity(t, *rh, p);
+        } else if (auto dp = smp[dp_ch]) {
+          if (*dp > t + 0.05)
+            throw InputError(fmt::format("{} dew point {:.1f} °C above the {} dry-bulb {:.1f} °C",
+                                         point, *dp, point, t));
+          w = psychro::humidity_ratio_from_dew_point(*dp, p);
+        } else if (fallback < 0) {
+          return std::nullopt;
+        }
+        return std::min(w, psychro::saturation_humidity_ratio(t, p));
+      };
+      if (t_r)
+        ret = airside::air_state(*t_r, *humidity("return", *t_r, Channel::return_rh,
+                                                 Channel::return_dew_point, design_ret.humidity_ratio));
+      const auto w_found = humidity("outdoor", *t_o, Channel::outdoor_rh, Channel::outdoor_dew_point,
+                                    needs_hum ? -1.0 : ret.humidity_ratio);
+      if (!w_found) {
+        ++skipped;
+        continue;
+      }
+      double w_o = *w_found;
+      w_o = std::min(w_o, psychro::saturation_humidity_ratio(*t_o, p));
+      const airside::AirState out = airside::air_state(*t_o, w_o);
+      auto values = [&](const airside::AirState& a) {
+        return highlimit::air_values(a.dry_bulb_c, a.enthalpy_kj_per_kg,
+                                     psychro::dew_point_from_humidity_ratio_c(a.humidity_ratio, p),
+                                     a.humidity_ratio);
+      };
+      const highlimit::AirValues ov = values(out), rv = values(ret);
+      const bool enabled = highlimit::permits(s, ov, rv, state);
+
+      const auto fan = smp[Channel::fan];
+      if (log.has(Channel::fan) && !fan) {
+        ++skipped;
+        continue;
+      }
+      if (fan && *fan < 0.5) continue;
+      const double w_s = log.weight_s[i];
+      r.operating_hours += w_s / 3600.0;
+      ++r.operating_intervals;
+
+      const airside::HourChoice choice = airside::choose(ah, {out, ret, coil}, unit.weights);
+      const airside::Operation& expected = enabled ? choice.enabled : choice.disabled;
+      const double x_min = ah.min_oa_fraction;
+
+      // Mixed air against the range outdoor and return span.
+      const auto t_m = smp[Channel::mixed_air];
+      bool mixed_bad = false;
+      std::optional<MeasuredFraction> meas;
+      if (t_m && t_r) {
+        const bool out_low = *t_o < *t_r;
+        const double lo = std::min(*t_o, *t_r), hi = std::max(*t_o, *t_r);
+        const double s_lo = std::hypot(acc.mixed_k, out_low ? acc.outdoor_k : acc.return_k);
+        const double s_hi = std::hypot(acc.mixed_k, out_low ? acc.return_k : acc.outdoor_k);
+        const double excess = std::max(lo - *t_m - kCoverageFactor * s_lo, *t_m - hi - kCoverageFactor * s_hi);
+        if (excess > 0) {
+          mixed_bad = true;
+          add(FindingKind::mixed_air_out_of_range, i, excess, std::nullopt);
+        }
+        if (!mixed_bad) {
+          meas = measured_fraction(*t_o, *t_r, *t_m, acc);
+          if (meas) ++r.fraction_intervals;
+        }
+      }
+      const auto damper = smp[Channel::damper];
+      std::optional<bool> observed;
+      if (damper) observed = *damper > x_min + kDamperMarginFraction;
+      else if (meas) observed = meas->fraction > x_min + kDamperMarginFraction + kCoverageFactor * meas->sigma;
+
+      // Energy of what happened against what should have: at the measured fraction when there
+      // is one, else the commanded one.
+      const double x_obs = meas ? std::clamp(meas->fraction, 0.0, 1.0)
+                           : damper ? std::clamp(*damper, x_min, ah.max_oa_fraction)
+                                    : expected.oa_fraction;
+      const airside::CoilLoads loads = airside::coil_loads(ah, coil, airside::mix(out, ret, x_obs));
+      const double e_obs = unit.weights.cooling * loads.cooling_kj_per_kg + unit.weights.heating * loads.heating_kj_per_kg;
+      const double impact = (e_obs - expected.weighted_kj_per_kg) * m_dot * w_s / 3600.0;
+
+      if (observed && *observed && !enabled)
+        add(FindingKind::economizing_when_disabled, i, (damper ? *damper : x_obs) - x_min, impact);
+      if (observed && !*observed && enabled && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
+        add(FindingKind::not_economizing_when_enabled, i, choice.enabled.oa_fraction - x_obs, impact);
+      if (meas && damper) {
+        const double dev = std::abs(meas->fraction - *damper) - (kCoverageFactor * meas->sigma + kDamperTrackingMargin);
+        if (dev > 0) add(FindingKind::damper_not_following, i, dev, impact);
+      }
+      if (meas) {
+        const bool economizer_off = damper ? *damper <= x_min + kDamperMarginFraction : !enabled;
+        const double band = kCoverageFactor * meas->sigma + kVentilationMargin;
+        const double above = meas->fraction - (x_min + band);
+        if (economizer_off && above > 0) add(FindingKind::excess_outdoor_air, i, above, impact);
+        const double below = x_min - band - meas->fraction;
+        if (below > 0) add(FindingKind::below_minimum, i, below, impact);
+      }
+      r.intervals.push_back({i, enabled, observed.value_or(false), meas});
+      kept.push_back({i, ov, rv, choice.cooling_needed, choice.enabled.oa_fraction, observed, impact});
+    } catch (const RangeError& e) {
+      throw InputError(fmt::format("{}: {}", where, e.what()));
+    } catch (const InputError& e) {
+      if (std::string_view(e.what()).starts_with(log.path)) throw;
+      throw InputError(fmt::format("{}: {}", where, e.what()));
+    }
+  }
+  if (skipped > 0)
+    r.notes.push_back(fmt::format("{} sample(s) without the readings a decision needs (outdoor "
+                                  "air, or fan status) were left out", skipped));
+
+  // Switching points, one condition at a time, where the others are clear and the
+  // economizer, if enabled, would open the damper.
+  // The wrong-side intervals of every differing condition, added afterwards in time order.
+  std::vector<std::optional<double>> hl_beyond(log.samples.size());
+  std::vector<double> hl_impact(log.samples.size(), 0.0);
+  for (std::size_t c = 0; c < s.conditions.size(); ++c) {
+    const auto& cond = s.conditions[c];
+    struct Point { double v; bool open; const Prepared* p; };
+    std::vector<Point> pts;
+    for (const auto& k : kept) {
+      if (!k.observed || !k.cooling_needed || k.enabled_fraction <= ah.min_oa_fraction + kShouldOpenMargin) continue;
+      bool others_clear = true;
+      for (std::size_t o = 0; o < s.conditions.size(); ++o)
+        if (o != c && k.out[s.conditions[o].quantity] > s.conditions[o].effective_limit(k.ret))
+          others_clear = false;
+      if (!others_clear) continue;
+      const double ref = cond.reference == highlimit::Reference::return_air ? k.ret[cond.quantity] : 0.0;
+      pts.push_back({k.out[cond.quantity] - ref, *k.observed, &k});
+    }
+    int n_open = 0;
+    for (const auto& q : pts) n_open += q.open;
+    const int n_closed = static_cast<int>(pts.size()) - n_open;
+    if (n_open < kSwitchMinimumSamples || n_closed < kSwitchMinimumSamples) continue;
+    std::sort(pts.begin(), pts.end(), [](const Point& a, const Point& b) { return a.v < b.v; });
+    // Split index k: pts[0..k) below. Errors = closed below + open above.
+    int closed_below = 0, open_above = n_open, best = -1, best_err = 0;
+    for (std::size_t k = 0; k <= pts.size(); ++k) {
+      if (k > 0) (pts[k - 1].open ? open_above-- : closed_below++);
+      if (k > 0 && k < pts.size() && pts[k].v == pts[k - 1].v) continue;
+      const int err = closed_below + open_above;
+      if (best < 0 || err < best_err) best = static_cast<int>(k), best_err = err;
+    }
+    // The estimate is the split that misclassifies fewest samples; the verdict rests on the
+    // samples themselves: enough of them open above the limit, or closed below the band.
+    double below_open = -1e300, above_closed = 1e300, hi_open = -1e300, lo_closed = 1e300;
+    const double tol = switch_tolerance(cond.quantity);
+    int open_beyond = 0, closed_beyond = 0;
+    for (std::size_t k = 0; k < pts.size(); ++k) {
+      if (pts[k].open) hi_open = std::max(hi_open, pts[k].v);
+      else lo_closed = std::min(lo_closed, pts[k].v);
+      if (static_cast<int>(k) < best && pts[k].open) below_open = std::max(below_open, pts[k].v);
+      if (static_cast<int>(k) >= best && !pts[k].open) above_closed = std::min(above_closed, pts[k].v);
+      open_beyond += pts[k].open && pts[k].v > cond.limit + tol;
+      closed_beyond += !pts[k].open && pts[k].v < cond.limit - cond.deadband - tol;
+    }
+    const double estimate = below_open > -1e299 && above_closed < 1e299 ? (below_open + above_closed) / 2
+                            : below_open > -1e299                      ? below_open
+                                                                       : above_closed;
+    SwitchPoint sp{static_cast<int>(c), cond.quantity, cond.reference, cond.limit, cond.deadband,
+                   estimate, hi_open, lo_closed, n_open, n_closed, best_err, false};
+    sp.differs = open_beyond >= kSwitchMinimumSamples || closed_beyond >= kSwitchMinimumSamples;
+    r.switch_points.push_back(sp);
+    if (!sp.differs) continue;
+    for (const auto& q : pts) {
+      const double beyond = q.open ? q.v - cond.limit : (cond.limit - cond.deadband) - q.v;
+      if (beyond > 0) {
+        auto& b = hl_beyond[q.p->sample];
+        b = std::max(b.value_or(0.0), beyond);
+        hl_impact[q.p->sample] = q.p->impact_kwh;
+      }
+    }
+  }
+  for (std::size_t i = 0; i < hl_beyond.size(); ++i)
+    if (hl_beyond[i]) add(FindingKind::high_limit_elsewhere, i, *hl_beyond[i], hl_impact[i]);
+
+  for (auto& f : acc_f) {
+    if (f.intervals == 0) continue;
+    f.share_of_operating = r.operating_hours > 0 ? f.hours / r.operating_hours : 0.0;
+    r.findings.push_back(f);
+  }
+  for (const auto& w : log.weight_s) r.covered_hours += w / 3600.0;
+  return r;
+}
+
+}  // namespace limitline::audit

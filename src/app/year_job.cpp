@@ -1,0 +1,296 @@
+#include <limitline/app/year_job.hpp>
+
+#include <limitline/io/codes.hpp>
+#include <limitline/io/embedded.hpp>
+#include <limitline/error.hpp>
+#include <limitline/model/psychro.hpp>
+#include <limitline/report/strategy.hpp>
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <filesystem>
+
+namespace limitline {
+namespace {
+
+namespace fs = std::filesystem;
+
+struct Demo {
+  std::string_view name;
+  std::string_view unit_file;
+};
+constexpr Demo kDemos[] = {
+    {"harbourside", "demo-harbourside.toml"},
+    {"mesa-alta", "demo-mesa-alta.toml"},
+};
+
+// The unit file's [weather] table, then the command line's overrides. An embedded demo unit's
+// table describes its own demo climate: a file the user names is read by its own header.
+weather::Mapping mapping_for(const UnitFile& unit, bool unit_table, const WeatherOverrides& o) {
+  weather::Mapping m;
+  if (unit.weather && unit_table) m = weather::read_mapping(*unit.weather, unit.path);
+  for (const WeatherOverrides::Column& spec : o.columns) {
+    weather::ColumnOverride& c = m.column(spec.quantity);
+    c.column = spec.header;
+    c.unit = spec.unit;
+    c.origin = spec.origin;
+  }
+  if (o.humidity) m.humidity = weather::parse_humidity_source(*o.humidity, "--humidity");
+  if (o.on_bad_row) m.on_bad_row = weather::parse_bad_row_policy(*o.on_bad_row, "--on-bad-row");
+  if (o.time_convention)
+    m.time_convention = weather::parse_time_convention(*o.time_convention, "--time-convention");
+  if (o.max_bad_share) {
+    m.max_bad_share = weather::parse_max_bad_share(*o.max_bad_share, "--max-bad-share");
+    m.max_bad_share_origin = "--max-bad-share";
+  }
+  return m;
+}
+
+weather::WeatherSeries read_weather(const UnitFile& unit, bool embedded_unit,
+                                    const weather::Mapping& m, const std::optional<std::string>& cli_file,
+                                    std::string& label) {
+  const double site_p = unit.site.design_pressure_kpa();
+  if (cli_file) {
+    label = *cli_file;
+    return weather::read_file(*cli_file, m, site_p);
+  }
+  if (!m.file)
+    throw InputError(fmt::format("{}: no weather file: give --weather FILE, or file = \"...\" in "
+                                 "the unit file's [weather] table",
+                                 unit.path));
+  if (embedded_unit) {
+    const auto text = embedded::find(*m.file);
+    if (!text)
+      throw InputError(fmt::format("embedded demo weather '{}' is missing from this build", *m.file));
+    label = fmt::format("{} (embedded invented demo climate)", *m.file);
+    return weather::read_text(*text, *m.file, m, site_p);
+  }
+  // A relative path in the unit file is relative to the unit file's folder.
+  fs::path p(*m.file);
+  if (p.is_relative()) p = fs::path(unit.path).parent_path() / p;
+  label = p.string();
+  return weather::read_file(p, m, site_p);
+}
+
+}  // namespace
+
+std::vector<std::string> demo_names() {
+  std::vector<std::string> out;
+  for (const auto& d : kDemos) out.emplace_back(d.name);
+  return out;
+}
+
+UnitSource demo_unit(std::string_view name) {
+  for (const auto& d : kDemos)
+    if (d.name == name) return {std::string(d.unit_file), true};
+  std::string allowed;
+  for (const auto& d : kDemos) allowed += (allowed.empty() ? "" : ", ") + std::string(d.name);
+  throw InputError(fmt::format("--demo: '{}' is not a demo (allowed: {})", name, allowed));
+}
+
+YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& overrides) {
+  YearInputs in;
+  if (source.embedded) {
+    const auto text = embedded::find(source.path);
+    if (!text) throw InputError(fmt::format("embedded demo unit '{}' is missing from this build", source.path));
+    in.unit = parse_unit_file(*text, source.path);
+    in.unit_label = fmt::format("{} (embedded invented demo unit)", source.path);
+  } else {
+    in.unit = load_unit_file(source.path);
+    in.unit_label = source.path;
+  }
+  const weather::Mapping m = mapping_for(in.unit, !(source.embedded && overrides.file), overrides);
+  in.weather = read_weather(in.unit, source.embedded, m, overrides.file, in.weather_label);
+  if (in.unit.schedule) in.schedule = read_schedule(*in.unit.schedule, in.unit.path);
+  in.strategies = strategies_or_presets(in.unit);
+  in.warnings = in.unit.warnings;
+  if (auto w = site_pressure_warning(in.unit, in.weather.info)) in.warnings.push_back(*w);
+  return in;
+}
+
+YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
+                        const WeatherOverrides& overrides) {
+  YearInputs in;
+  in.unit = base.unit;
+  in.unit_label = base.unit_label;
+  in.schedule = base.schedule;
+  in.strategies = base.strategies;
+  in.warnings = base.unit.warnings;
+  WeatherOverrides o = overrides;
+  o.file = weather_path;
+  in.weather = read_weather(in.unit, false, mapping_for(in.unit, true, o), o.file, in.weather_label);
+  if (auto w = site_pressure_warning(in.unit, in.weather.info)) in.warnings.push_back(*w);
+  return in;
+}
+
+std::optional<std::string> site_pressure_warning(const UnitFile& unit,
+                                                 const weather::WeatherInfo& w) {
+  const Site& site = unit.site;
+  if (!w.median_pressure_kpa || !(site.elevation_m || site.pressure_kpa)) return std::nullopt;
+  const double p_site = site.design_pressure_kpa(), p_file = *w.median_pressure_kpa;
+  if (std::fabs(p_file - p_site) <= kSitePressureToleranceKpa) return std::nullopt;
+  // In the unit file's own system: the warning is about what that file says.
+  const units::System sys = unit.units;
+  const auto pressure = [&](double kpa) { return units::format(units::Kind::pressure, sys, kpa, sys == units::System::ip ? 2 : 1); };
+  const auto length = [&](double m) { return units::format(units::Kind::length, sys, m, 0); };
+  const std::string given =
+      site.elevation_m ? fmt::format("elevation {} gives a standard pressure of {}",
+                                     length(*site.elevation_m), pressure(p_site))
+                       : fmt::format("pressure {}", pressure(p_site));
+  double z = 0.0;
+  try {
+    z = psychro::elevation_from_standard_pressure_m(p_file);
+  } catch (const InputError&) {
+  }
+  return fmt::format(
+      "{}: {}, but the weather file {} has a median station pressure of {} (the standard "
+      "pressure at about {}); they differ by {}, more than the {} (about {}) tolerance: "
+      "check the site's elevation and that the weather is this site's (each hour is computed "
+      "at the file's pressure)",
+      site.pressure_origin, given, w.source, pressure(p_file), length(z),
+      units::format(units::Kind::pressure, sys, std::fabs(p_file - p_site), sys == units::System::ip ? 2 : 1),
+      units::format(units::Kind::pressure, sys, kSitePressureToleranceKpa, sys == units::System::ip ? 2 : 0),
+      length(200.0));
+}
+
+weather::WeatherSeries read_unit_weather(const UnitFile& unit, std::string& label) {
+  return read_weather(unit, false, mapping_for(unit, true, {}), std::nullopt, label);
+}
+
+std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w) {
+  std::vector<annual::OutdoorInterval> out;
+  out.reserve(w.hours.size());
+  for (const auto& h : w.hours)
+    out.push_back({h.month, h.day, h.day_of_year, h.hour * 60 + h.minute, h.weight_h,
+                   h.dry_bulb_c, h.humidity_ratio, h.pressure_kpa});
+  return out;
+}
+
+annual::ReturnAirSpec return_air_spec(const UnitFile& unit) {
+  return {unit.return_air.dry_bulb_c, unit.return_air.humidity_kind,
+          unit.return_air.humidity_value};
+}
+
+annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point) {
+  const auto intervals = outdoor_intervals(in.weather);
+  annual::PrepareOptions opt;
+  opt.weights = in.unit.weights;
+  opt.compute_dew_point = compute_dew_point;
+  return annual::prepare(in.unit.air_handler, return_air_spec(in.unit), intervals, in.schedule, opt);
+}
+
+report::YearContext year_context(const YearInputs& in, units::System s) {
+  report::YearContext c;
+  c.units = s;
+  c.title = in.unit.site.name.empty() ? in.unit.path : in.unit.site.name;
+  c.unit_source = in.unit_label;
+  const Site& site = in.unit.site;
+  std::string basis;
+  if (site.pressure_kpa) basis = "site pressure as given";
+  else if (site.elevation_m)
+    basis = fmt::format("standard pressure at {}", units::format(units::Kind::length, s, *site.elevation_m, 0));
+  else basis = "sea-level standard pressure (no elevation given)";
+  c.site = fmt::format("{}{}design pressure {} ({}){}", site.name, site.name.empty() ? "" : "; ",
+                       units::format(units::Kind::pressure, s, site.design_pressure_kpa(), 3), basis,
+                       in.weather.info.pressure_from_file ? "; hourly pressure from the weather file" : "");
+  c.weather_source = in.weather_label;
+  c.weather_notes = weather::describe(in.weather.info);
+  c.schedule = in.schedule.describe();
+  c.warnings = in.warnings;
+  for (const auto& st : in.strategies) c.strategy_descriptions[st.name] = report::describe_strategy(st, s);
+  return c;
+}
+
+}  // namespace limitline
+
+#include <algorithm>
+#include <atomic>
+#include <thread>
+
+namespace limitline {
+
+std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string& dir,
+                                      const WeatherOverrides& overrides, unsigned threads,
+                                      void (*progress)(std::size_t, std::size_t),
+                                      const std::atomic<bool>* cancel) {
+  std::error_code ec;
+  if (!fs::is_directory(dir, ec))
+    throw InputError(fmt::format("--batch: {} is not a folder", echo(dir)));
+  std::vector<std::string> files;
+  fs::directory_iterator it(dir, ec);
+  // Every entry named *.csv is a site, whatever it is: the weather reader names what is
+  // wrong with a folder, a device or a dangling link, so none is skipped without a word.
+  for (; !ec && it != fs::directory_iterator(); it.increment(ec)) {
+    std::string ext = it->path().extension().string();
+    std::transform(ext.begin(), ext.end(), ext.begin(), [](unsigned char c) { return std::tolower(c); });
+    if (ext == ".csv") files.push_back(it->path().string());
+  }
+  if (ec) throw InputError(fmt::format("--batch: cannot list {}: {}", echo(dir), ec.message()));
+  std::sort(files.begin(), files.end());
+  if (files.empty()) throw InputError(fmt::format("--batch: no .csv files in {}", echo(dir)));
+
+  std::vector<BatchSite> sites(files.size());
+  for (std::size_t i = 0; i < files.size(); ++i) sites[i].weather_path = files[i];
+  std::atomic<std::size_t> next{0}, done{0};
+  auto worker = [&] {
+    for (std::size_t i; (i = next.fetch_add(1)) < files.size();) {
+      BatchSite& s = sites[i];
+      if (cancel && cancel->load()) continue;
+      s.run = true;
+      try {
+        const YearInputs in = with_weather(base, files[i], overrides);
+        const annual::Prepared p = prepare_year(in);
+        s.result = annual::evaluate(in.strategies, p);
+        s.operating_hours = p.operating_hours;
+        s.ok = true;
+      } catch (const std::exception& e) {
+        // Any failure stays with its site; an exception must never leave a worker thread.
+        s.error = e.what();
+      }
+      const std::size_t d = ++done;
+      if (progress) progress(d, files.size());
+    }
+  };
+  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  threads = std::min<unsigned>(threads, static_cast<unsigned>(files.size()));
+  std::vector<std::thread> pool;
+  for (unsigned t = 1; t < threads; ++t) pool.emplace_back(worker);
+  worker();
+  for (auto& t : pool) t.join();
+  return sites;
+}
+
+}  // namespace limitline
+
+namespace limitline {
+
+void add_compliance(report::YearContext& c, const YearInputs& in, const CodeSelection& code) {
+  const Site& site = in.unit.site;
+  const std::string edition = code.edition ? *code.edition : site.energy_code;
+  const std::string zone = code.zone ? *code.zone : site.climate_zone;
+  if (edition.empty() && zone.empty()) return;
+  if (edition.empty())
+    throw InputError(fmt::format("{}: climate_zone is given but no energy_code (set [site] "
+                                 "energy_code or --edition)",
+                                 code.zone ? std::string("--zone") : site.climate_zone_origin));
+  if (zone.empty())
+    throw InputError(fmt::format("{}: energy_code is given but no climate_zone (set [site] "
+                                 "climate_zone or --zone)",
+                                 code.edition ? std::string("--edition") : site.energy_code_origin));
+  std::vector<std::filesystem::path> extra(code.extra_tables.begin(), code.extra_tables.end());
+  const codes::CodeTables tables = codes::CodeTables::load_installed(extra);
+  // Errors name where each value came from: the option, or the [site] key's FILE:LINE.
+  const std::string edition_origin = code.edition ? "--edition" : site.energy_code_origin;
+  const std::string zone_origin = code.zone ? "--zone" : site.climate_zone_origin;
+  const auto words = codes::compliance_words(tables, edition, zone, site.design_pressure_kpa(),
+                                             in.strategies, edition_origin, zone_origin);
+  for (std::size_t i = 0; i < in.strategies.size() && i < words.size(); ++i)
+    c.compliance[in.strategies[i].name] = words[i];
+  const codes::Edition& e = tables.edition(edition, edition_origin);
+  c.code_label = fmt::format("{}, climate zone {} (tables from memory; verify against the "
+                             "adopted edition — see limitline code)",
+                             e.title, zone);
+}
+
+}  // namespace limitline

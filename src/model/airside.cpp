@@ -1,0 +1,175 @@
+#include <limitline/model/airside.hpp>
+
+#include <limitline/error.hpp>
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <array>
+#include <cmath>
+
+namespace limitline::airside {
+namespace {
+
+// Mixed-air temperatures this close to the target count as on target (rounding of x*).
+constexpr double kTargetToleranceK = 1e-9;
+constexpr double kFractionTolerance = 1e-12;
+
+Operation operation_at(const AirHandler& unit, const HourAir& air, double x,
+                       const EnergyWeights& w) {
+  Operation op;
+  op.oa_fraction = x;
+  op.economizing = x > unit.min_oa_fraction + kFractionTolerance;
+  op.mixed = mix(air.outdoor, air.ret, x);
+  op.loads = coil_loads(unit, air.coil, op.mixed);
+  op.mechanical_cooling = op.loads.cooling_kj_per_kg > 0.0;
+  op.weighted_kj_per_kg =
+      w.cooling * op.loads.cooling_kj_per_kg + w.heating * op.loads.heating_kj_per_kg;
+  return op;
+}
+
+}  // namespace
+
+void validate(const AirHandler& u) {
+  auto fail = [](const char* field, double v, const char* allowed) {
+    throw InputError(fmt::format("air handler {} = {:.6g} is not allowed ({})", field, v, allowed));
+  };
+  if (!(u.supply_airflow_m3_per_s > 0.0)) fail("supply_airflow (m³/s)", u.supply_airflow_m3_per_s, "more than 0");
+  if (!(u.min_oa_fraction >= 0.0 && u.min_oa_fraction <= 1.0))
+    fail("min_outdoor_air (fraction)", u.min_oa_fraction, "0 % to 100 %");
+  if (!(u.max_oa_fraction > 0.0 && u.max_oa_fraction <= 1.0))
+    fail("max_outdoor_air (fraction)", u.max_oa_fraction, "above 0 %, up to 100 %");
+  if (u.min_oa_fraction > u.max_oa_fraction)
+    throw InputError(fmt::format("air handler min_outdoor_air {:.4g}% is above max_outdoor_air "
+                                 "{:.4g}%",
+                                 u.min_oa_fraction * 100, u.max_oa_fraction * 100));
+  if (!(u.fan_heat_k >= 0.0 && u.fan_heat_k <= 20.0)) fail("fan_heat (K)", u.fan_heat_k, "0 K to 20 K");
+  if (!(u.coil_leaving_rh_max > 0.0 && u.coil_leaving_rh_max <= 1.0))
+    fail("coil_leaving_rh_max (fraction)", u.coil_leaving_rh_max, "above 0 %, up to 100 %");
+  if (!(u.supply_air_temp_c >= -40.0 && u.supply_air_temp_c <= 60.0))
+    fail("supply_air_temp (°C)", u.supply_air_temp_c, "-40 °C to 60 °C");
+}
+
+AirState air_state(double t_c, double w) { return {t_c, w, psychro::enthalpy_kj_per_kg(t_c, w)}; }
+
+AirState mix(const AirState& o, const AirState& r, double x) {
+  const double w = r.humidity_ratio + x * (o.humidity_ratio - r.humidity_ratio);
+  const double h = r.enthalpy_kj_per_kg + x * (o.enthalpy_kj_per_kg - r.enthalpy_kj_per_kg);
+  return {psychro::dry_bulb_from_enthalpy_c(h, w), w, h};
+}
+
+bool oa_fraction_for_mixed_temp(const AirState& o, const AirState& r, double target_c,
+                                double& x) {
+  // t_m = target  ⇔  h_m − W_m·(2501 + 1.86·target) − 1.006·target = 0, linear in x.
+  const double k = 2501.0 + 1.86 * target_c;
+  const double a = r.enthalpy_kj_per_kg - r.humidity_ratio * k - 1.006 * target_c;
+  const double b = (o.enthalpy_kj_per_kg - r.enthalpy_kj_per_kg) -
+                   (o.humidity_ratio - r.humidity_ratio) * k;
+  if (std::fabs(b) < 1e-12) return false;
+  x = -a / b;
+  return std::isfinite(x);
+}
+
+MixedAirEstimate estimate_mixed_air(const AirState& o, const AirState& r, double target_c,
+                                    double x_min, double x_max) {
+  MixedAirEstimate e{};
+  e.target_reachable = oa_fraction_for_mixed_temp(o, r, target_c, e.fraction_needed);
+  if (!e.target_reachable) e.fraction_needed = x_min;
+  e.within_limits = e.target_reachable && e.fraction_needed >= x_min - kFractionTolerance &&
+                    e.fraction_needed <= x_max + kFractionTolerance;
+  e.fraction_applied =
+      e.target_reachable ? std::clamp(e.fraction_needed, x_min, x_max) : x_min;
+  e.mixed = mix(o, r, e.fraction_applied);
+  const double diff = e.mixed.dry_bulb_c - target_c;
+  e.makeup = diff < -1e-6 ? Makeup::heating : diff > 1e-6 ? Makeup::cooling : Makeup::none;
+  e.makeup_k = e.makeup == Makeup::none ? 0.0 : std::fabs(diff);
+  return e;
+}
+
+CoilLimits coil_limits(const AirHandler& unit, double pressure_kpa) {
+  const double t_cl = unit.coil_leaving_temp_c();
+  return {t_cl, psychro::humidity_ratio_from_relative_humidity(t_cl, unit.coil_leaving_rh_max,
+                                                               pressure_kpa)};
+}
+
+CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& lim, const AirState& mixed) {
+  CoilLoads c{};
+  c.entering = unit.fan_position == FanPosition::blow_through
+                   ? air_state(mixed.dry_bulb_c + unit.fan_heat_k, mixed.humidity_ratio)
+                   : mixed;
+  const double t_cl = lim.leaving_temp_c;
+  const double w_ce = c.entering.humidity_ratio;
+  // Entering air on the leaving temperature (the economizer's x*, up to rounding of the mixed
+  // dry-bulb) needs neither coil. Without the tolerance, humid air above the leaving cap would
+  // flip between zero and a latent load on the last bit of t_m.
+  if (std::fabs(c.entering.dry_bulb_c - t_cl) <= kTargetToleranceK) {
+    c.leaving = c.entering;
+    return c;
+  }
+  if (c.entering.dry_bulb_c > t_cl) {
+    const double w_cl = std::min(w_ce, lim.leaving_humidity_ratio_cap);
+    c.leaving = air_state(t_cl, w_cl);
+    // Condensate leaves at the coil-leaving temperature, carrying 4.186·t_cl kJ/kg of water.
+    c.cooling_kj_per_kg =
+        c.entering.enthalpy_kj_per_kg - c.leaving.enthalpy_kj_per_kg - (w_ce - w_cl) * 4.186 * t_cl;
+    c.sensible_kj_per_kg = c.entering.enthalpy_kj_per_kg - psychro::enthalpy_kj_per_kg(t_cl, w_ce);
+    c.latent_kj_per_kg = c.cooling_kj_per_kg - c.sensible_kj_per_kg;
+  } else {
+    c.leaving = air_state(t_cl, w_ce);
+    c.heating_kj_per_kg = c.leaving.enthalpy_kj_per_kg - c.entering.enthalpy_kj_per_kg;
+  }
+  return c;
+}
+
+Operation operate(const AirHandler& unit, const HourAir& air, bool enabled,
+                  const EnergyWeights& w) {
+  const double target = unit.mixed_air_target_c();
+  const AirState at_min = mix(air.outdoor, air.ret, unit.min_oa_fraction);
+  // Step 1: no cooling needed at the minimum; the damper stays there (heating if below).
+  if (at_min.dry_bulb_c <= target + kTargetToleranceK || !enabled)
+    return operation_at(unit, air, unit.min_oa_fraction, w);
+  // Step 2, enabled: free cooling when full outdoor air reaches the target, else integrated
+  // operation at the damper limit, or back to the minimum for a non-integrated economizer.
+  const AirState at_max = mix(air.outdoor, air.ret, unit.max_oa_fraction);
+  if (at_max.dry_bulb_c <= target + kTargetToleranceK) {
+    double x = unit.max_oa_fraction;
+    if (oa_fraction_for_mixed_temp(air.outdoor, air.ret, target, x))
+      x = std::clamp(x, unit.min_oa_fraction, unit.max_oa_fraction);
+    return operation_at(unit, air, x, w);
+  }
+  return operation_at(unit, air,
+                      unit.economizer == EconomizerType::integrated ? unit.max_oa_fraction
+                                                                    : unit.min_oa_fraction,
+                      w);
+}
+
+HourChoice choose(const AirHandler& unit, const HourAir& air, const EnergyWeights& w) {
+  HourChoice c;
+  c.disabled = operate(unit, air, false, w);
+  c.cooling_needed = c.disabled.mixed.dry_bulb_c > unit.mixed_air_target_c() + kTargetToleranceK;
+  c.enabled = c.cooling_needed ? operate(unit, air, true, w) : c.disabled;
+  return c;
+}
+
+Operation optimal_damper(const AirHandler& unit, const HourAir& air, const EnergyWeights& w) {
+  const double lo = unit.min_oa_fraction, hi = unit.max_oa_fraction;
+  std::array<double, 4> candidates{lo, hi, lo, lo};
+  double x = 0.0;
+  if (oa_fraction_for_mixed_temp(air.outdoor, air.ret, unit.mixed_air_target_c(), x))
+    candidates[2] = std::clamp(x, lo, hi);
+  const double dw = air.outdoor.humidity_ratio - air.ret.humidity_ratio;
+  if (std::fabs(dw) > 1e-15) {
+    const double x_wet = (air.coil.leaving_humidity_ratio_cap - air.ret.humidity_ratio) / dw;
+    if (std::isfinite(x_wet)) candidates[3] = std::clamp(x_wet, lo, hi);
+  }
+  std::sort(candidates.begin(), candidates.end());
+  Operation best = operation_at(unit, air, candidates[0], w);
+  for (std::size_t i = 1; i < candidates.size(); ++i) {
+    if (candidates[i] == candidates[i - 1]) continue;
+    Operation op = operation_at(unit, air, candidates[i], w);
+    if (op.weighted_kj_per_kg < best.weighted_kj_per_kg - 1e-12) best = op;
+  }
+  return best;
+}
+
+}  // namespace limitline::airside
