@@ -245,45 +245,42 @@ ColumnOverride parse_column_override(std::string_view text, std::string_view ori
   return o;
 }
 
-std::int64_t parse_timestamp(std::string_view text, std::string_view origin) {
-  auto fail = [&] {
-    return InputError(fmt::format(
-        "{}: {} is not a time stamp (allowed: YYYY-MM-DD HH:MM[:SS], ISO 8601 with T and Z or "
-        "±HH:MM up to ±14:00, MM/DD/YYYY HH:MM[:SS][ AM|PM], YYYY/MM/DD HH:MM[:SS])",
-        origin, echo(text)));
-  };
+namespace {
+
+// The time stamp in `text`, or none when it is not one of the accepted forms.
+std::optional<std::int64_t> read_timestamp(std::string_view text) {
   std::string_view s = text;
   while (!s.empty() && s.back() == ' ') s.remove_suffix(1);
   std::size_t i = 0;
   int a = 0, b = 0, c = 0, y, mo, d;
-  if (!digits(s, i, 4, a)) throw fail();
+  if (!digits(s, i, 4, a)) return std::nullopt;
   const std::size_t first_len = i;
   if (i < s.size() && (s[i] == '-' || s[i] == '/') && first_len == 4) {
     const char sep = s[i++];
-    if (!digits(s, i, 2, b) || !expect(s, i, sep) || !digits(s, i, 2, c)) throw fail();
+    if (!digits(s, i, 2, b) || !expect(s, i, sep) || !digits(s, i, 2, c)) return std::nullopt;
     y = a, mo = b, d = c;
   } else if (expect(s, i, '/')) {
-    if (!digits(s, i, 2, b) || !expect(s, i, '/') || !digits(s, i, 4, c) || c < 1000) throw fail();
+    if (!digits(s, i, 2, b) || !expect(s, i, '/') || !digits(s, i, 4, c) || c < 1000) return std::nullopt;
     y = c, mo = a, d = b;
   } else {
-    throw fail();
+    return std::nullopt;
   }
-  if (mo < 1 || mo > 12 || d < 1 || d > days_in_month(y, mo)) throw fail();
+  if (mo < 1 || mo > 12 || d < 1 || d > days_in_month(y, mo)) return std::nullopt;
   int hh = 0, mm = 0, ss = 0;
   if (i < s.size()) {
-    if (s[i] != 'T' && s[i] != ' ') throw fail();
+    if (s[i] != 'T' && s[i] != ' ') return std::nullopt;
     while (i < s.size() && (s[i] == 'T' || s[i] == ' ')) ++i;
-    if (!digits(s, i, 2, hh) || !expect(s, i, ':') || !digits(s, i, 2, mm)) throw fail();
-    if (expect(s, i, ':') && !digits(s, i, 2, ss)) throw fail();
+    if (!digits(s, i, 2, hh) || !expect(s, i, ':') || !digits(s, i, 2, mm)) return std::nullopt;
+    if (expect(s, i, ':') && !digits(s, i, 2, ss)) return std::nullopt;
     if (expect(s, i, '.')) {
       int frac;
-      if (!digits(s, i, 9, frac)) throw fail();
+      if (!digits(s, i, 9, frac)) return std::nullopt;
     }
     while (i < s.size() && s[i] == ' ') ++i;
     std::int64_t offset_s = 0;
     const std::string rest = lower(s.substr(i));
     if (rest == "am" || rest == "pm") {
-      if (hh < 1 || hh > 12) throw fail();
+      if (hh < 1 || hh > 12) return std::nullopt;
       hh = hh % 12 + (rest == "pm" ? 12 : 0);
       i = s.size();
     } else if (rest == "z") {
@@ -292,17 +289,27 @@ std::int64_t parse_timestamp(std::string_view text, std::string_view origin) {
       const int sign = rest[0] == '-' ? -1 : 1;
       ++i;
       int oh, om = 0;
-      if (!digits(s, i, 2, oh)) throw fail();
+      if (!digits(s, i, 2, oh)) return std::nullopt;
       if (expect(s, i, ':') || (i < s.size() && std::isdigit(static_cast<unsigned char>(s[i]))))
-        if (!digits(s, i, 2, om)) throw fail();
+        if (!digits(s, i, 2, om)) return std::nullopt;
       // Civil time zones lie within UTC−12 to UTC+14.
-      if (oh * 60 + om > 14 * 60 || om > 59) throw fail();
+      if (oh * 60 + om > 14 * 60 || om > 59) return std::nullopt;
       offset_s = sign * (oh * 3600 + om * 60);
     }
-    if (i != s.size() || hh > 23 || mm > 59 || ss > 59) throw fail();
+    if (i != s.size() || hh > 23 || mm > 59 || ss > 59) return std::nullopt;
     return days_from_civil(y, mo, d) * 86400 + hh * 3600 + mm * 60 + ss - offset_s;
   }
   return days_from_civil(y, mo, d) * 86400;
+}
+
+}  // namespace
+
+std::int64_t parse_timestamp(std::string_view text, std::string_view origin) {
+  if (const auto t = read_timestamp(text)) return *t;
+  throw InputError(fmt::format(
+      "{}: {} is not a time stamp (allowed: YYYY-MM-DD HH:MM[:SS], ISO 8601 with T and Z or "
+      "±HH:MM up to ±14:00, MM/DD/YYYY HH:MM[:SS][ AM|PM], YYYY/MM/DD HH:MM[:SS])",
+      origin, echo(text)));
 }
 
 std::string format_timestamp(std::int64_t t) {
@@ -606,10 +613,11 @@ void Reader::row(std::string_view text) {
   auto cell = [&](int c) -> std::string_view {
     return c >= 0 ? std::string_view(cells[static_cast<std::size_t>(c)]) : std::string_view();
   };
-  const std::int64_t t = ts_col_ >= 0
-      ? parse_timestamp(cell(ts_col_), fmt::format("{}: time", where()))
-      : parse_timestamp(std::string(cell(date_col_)) + " " + std::string(cell(time_col_)),
-                        fmt::format("{}: time", where()));
+  const std::string joined = ts_col_ >= 0 ? std::string()
+                                          : std::string(cell(date_col_)) + " " + std::string(cell(time_col_));
+  const std::string_view stamp = ts_col_ >= 0 ? cell(ts_col_) : std::string_view(joined);
+  const auto read = read_timestamp(stamp);
+  const std::int64_t t = read ? *read : parse_timestamp(stamp, fmt::format("{}: time", where()));
   std::array<double, kChannelCount> v;
   v.fill(std::nan(""));
   for (std::size_t k = 0; k < kChannelCount; ++k)
