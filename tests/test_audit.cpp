@@ -83,7 +83,7 @@ Audited audit_generated(const std::vector<test::Fault>& faults, int days = 21, a
   const UnitFile unit = example_unit();
   Audited a{test::generate_trend(unit, faults, days), {}, {}};
   a.log = trend::parse_trend(a.gen.csv, "generated.csv", {});
-  REQUIRE(a.log.samples.size() == a.gen.rows.size());
+  REQUIRE(a.log.size() == a.gen.rows.size());
   audit::Options opt{unit.strategies.front(), acc};
   a.result = audit::run(unit, a.log, opt);
   return a;
@@ -351,4 +351,24 @@ TEST_CASE("audit command: malformed logs give one-line errors naming file and li
   const auto r4 = run_cli({"audit", "examples/audit-office.toml", celsius, "--max-gap", "0"}, "audit");
   CHECK(r4.rc == 2);
   CHECK(contains(r4.err, "--max-gap"));
+  const auto r5 = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--max-gap", "1e308"}, "audit");
+  CHECK(r5.rc == 2);
+  CHECK(contains(r5.err, "--max-gap"));
+}
+
+TEST_CASE("audit command: a row with an extra field is refused, not read shifted into a finding") {
+  // The example log with one cell doubled in row 100 (file line 103): read shifted, its
+  // damper column would hold the fan's "On"/"Off" and the mixed air the return air's humidity.
+  std::string text = test::slurp(kSource + "/examples/trend-office.csv");
+  std::size_t at = 0;
+  for (int line = 1; line < 103; ++line) at = text.find('\n', at) + 1;
+  const std::size_t comma = text.find(',', at);
+  text.insert(comma, ",55.0");
+  const auto dir = test::scratch_dir("audit-extra");
+  const auto path = (dir / "extra.csv").string();
+  std::ofstream(path, std::ios::binary) << text;
+  const auto r = run_cli({"audit", "examples/audit-office.toml", path}, "audit");
+  CHECK(r.rc == 2);
+  CHECK(contains(r.err, "extra.csv:103: the row has 11 fields but the header (line 3) has 10"));
+  CHECK(r.out.empty());
 }

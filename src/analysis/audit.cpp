@@ -46,12 +46,20 @@ double switch_tolerance(highlimit::Quantity q) {
                                                     : kSwitchToleranceK;
 }
 
-struct Prepared {  // one fan-on interval, kept for the switch-point pass
+// A fan-on sample that tells where one condition's switching point lies: cooling needed, the
+// model would open the damper, the damper's state is known and the other conditions are clear.
+// Kept per condition for the switch-point pass; 24 bytes, as a long log has many.
+struct Point {
+  double v;           // the condition's quantity, less the return air's for a differential one
+  double impact_kwh;
+  std::uint32_t sample;  // a log within the reader's 1 GiB cap has fewer rows than 2^32
+  bool open;
+};
+
+// A sample on the wrong side of a differing condition, for the high-limit finding.
+struct Beyond {
   std::size_t sample;
-  highlimit::AirValues out, ret;
-  bool cooling_needed;
-  double enabled_fraction;
-  std::optional<bool> observed;
+  double beyond;
   double impact_kwh;
 };
 
@@ -98,8 +106,8 @@ Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& opti
                          s.needs(highlimit::Quantity::dew_point) ||
                          s.needs(highlimit::Quantity::humidity_ratio);
   if (needs_hum && !out_hum)
-    throw InputError(fmt::format("{}: strategy '{}' needs the outdoor humidity, and the log has "
-                                 "no outdoor RH or dew-point column", log.path, s.name));
+    throw InputError(fmt::format("{}: strategy {} needs the outdoor humidity, and the log has "
+                                 "no outdoor RH or dew-point column", log.path, echo(s.name)));
   bool differential = false;
   for (const auto& c : s.conditions) differential = differential || c.reference == highlimit::Reference::return_air;
   if (!out_hum)
@@ -124,29 +132,29 @@ Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& opti
   const airside::AirState design_ret = unit.return_air.at(p);
   std::array<Finding, kFindingKindCount> acc_f{};
   for (std::size_t k = 0; k < kFindingKindCount; ++k) acc_f[k].kind = static_cast<FindingKind>(k);
-  std::vector<Prepared> kept;
+  std::vector<std::vector<Point>> points(s.conditions.size());
   int skipped = 0;
 
   auto add = [&](FindingKind k, std::size_t i, double excess, std::optional<double> impact) {
     Finding& f = acc_f[static_cast<std::size_t>(k)];
-    const auto& smp = log.samples[i];
+    const std::int64_t t = log.time_s[i];
+    const int line = log.line[i];
     if (f.intervals == 0) {
-      f.first_s = smp.time_s, f.first_line = smp.line;
+      f.first_s = t, f.first_line = line;
       f.energy_kwh = 0.0;
     }
     if (f.intervals == 0 || excess > f.worst_excess)
-      f.worst_excess = excess, f.worst_s = smp.time_s, f.worst_line = smp.line;
+      f.worst_excess = excess, f.worst_s = t, f.worst_line = line;
     ++f.intervals;
-    f.hours += log.weight_s[i] / 3600.0;
-    f.last_s = smp.time_s;
+    f.hours += log.weight_s(i) / 3600.0;
+    f.last_s = t;
     if (!impact) f.energy_kwh.reset();
     else if (f.energy_kwh) *f.energy_kwh += *impact;
   };
 
   highlimit::StrategyState state(s);
-  for (std::size_t i = 0; i < log.samples.size(); ++i) {
-    const auto& smp = log.samples[i];
-    const std::string where = fmt::format("{}:{}", log.path, smp.line);
+  for (std::size_t i = 0; i < log.size(); ++i) {
+    const trend::Sample smp = log.sample(i);
     const auto t_o = smp[Channel::outdoor_dry_bulb];
     if (!t_o) {
       ++skipped;
@@ -199,7 +207,7 @@ Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& opti
         continue;
       }
       if (fan && *fan < 0.5) continue;
-      const double w_s = log.weight_s[i];
+      const double w_s = log.weight_s(i);
       r.operating_hours += w_s / 3600.0;
       ++r.operating_intervals;
 
@@ -256,13 +264,22 @@ Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& opti
         const double below = x_min - band - meas->fraction;
         if (below > 0) add(FindingKind::below_minimum, i, below, impact);
       }
-      r.intervals.push_back({i, enabled, observed.value_or(false), meas});
-      kept.push_back({i, ov, rv, choice.cooling_needed, choice.enabled.oa_fraction, observed, impact});
+      if (observed && choice.cooling_needed && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
+        for (std::size_t c = 0; c < s.conditions.size(); ++c) {
+          bool others_clear = true;
+          for (std::size_t o = 0; o < s.conditions.size(); ++o)
+            if (o != c && ov[s.conditions[o].quantity] > s.conditions[o].effective_limit(rv))
+              others_clear = false;
+          if (!others_clear) continue;
+          const auto& cond = s.conditions[c];
+          const double ref = cond.reference == highlimit::Reference::return_air ? rv[cond.quantity] : 0.0;
+          points[c].push_back({ov[cond.quantity] - ref, impact, static_cast<std::uint32_t>(i), *observed});
+        }
     } catch (const RangeError& e) {
-      throw InputError(fmt::format("{}: {}", where, e.what()));
+      throw InputError(fmt::format("{}:{}: {}", log.path, smp.line, e.what()));
     } catch (const InputError& e) {
       if (std::string_view(e.what()).starts_with(log.path)) throw;
-      throw InputError(fmt::format("{}: {}", where, e.what()));
+      throw InputError(fmt::format("{}:{}: {}", log.path, smp.line, e.what()));
     }
   }
   if (skipped > 0)
@@ -272,22 +289,10 @@ Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& opti
   // Switching points, one condition at a time, where the others are clear and the
   // economizer, if enabled, would open the damper.
   // The wrong-side intervals of every differing condition, added afterwards in time order.
-  std::vector<std::optional<double>> hl_beyond(log.samples.size());
-  std::vector<double> hl_impact(log.samples.size(), 0.0);
+  std::vector<Beyond> hl_beyond;
   for (std::size_t c = 0; c < s.conditions.size(); ++c) {
     const auto& cond = s.conditions[c];
-    struct Point { double v; bool open; const Prepared* p; };
-    std::vector<Point> pts;
-    for (const auto& k : kept) {
-      if (!k.observed || !k.cooling_needed || k.enabled_fraction <= ah.min_oa_fraction + kShouldOpenMargin) continue;
-      bool others_clear = true;
-      for (std::size_t o = 0; o < s.conditions.size(); ++o)
-        if (o != c && k.out[s.conditions[o].quantity] > s.conditions[o].effective_limit(k.ret))
-          others_clear = false;
-      if (!others_clear) continue;
-      const double ref = cond.reference == highlimit::Reference::return_air ? k.ret[cond.quantity] : 0.0;
-      pts.push_back({k.out[cond.quantity] - ref, *k.observed, &k});
-    }
+    std::vector<Point> pts = std::move(points[c]);
     int n_open = 0;
     for (const auto& q : pts) n_open += q.open;
     const int n_closed = static_cast<int>(pts.size()) - n_open;
@@ -324,22 +329,25 @@ Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& opti
     if (!sp.differs) continue;
     for (const auto& q : pts) {
       const double beyond = q.open ? q.v - cond.limit : (cond.limit - cond.deadband) - q.v;
-      if (beyond > 0) {
-        auto& b = hl_beyond[q.p->sample];
-        b = std::max(b.value_or(0.0), beyond);
-        hl_impact[q.p->sample] = q.p->impact_kwh;
-      }
+      if (beyond > 0) hl_beyond.push_back({q.sample, beyond, q.impact_kwh});
     }
   }
-  for (std::size_t i = 0; i < hl_beyond.size(); ++i)
-    if (hl_beyond[i]) add(FindingKind::high_limit_elsewhere, i, *hl_beyond[i], hl_impact[i]);
+  // In time order, a sample beyond two conditions once, by the farther.
+  std::sort(hl_beyond.begin(), hl_beyond.end(),
+            [](const Beyond& a, const Beyond& b) { return a.sample < b.sample; });
+  for (std::size_t j = 0; j < hl_beyond.size();) {
+    Beyond b = hl_beyond[j];
+    for (++j; j < hl_beyond.size() && hl_beyond[j].sample == b.sample; ++j)
+      b.beyond = std::max(b.beyond, hl_beyond[j].beyond);
+    add(FindingKind::high_limit_elsewhere, b.sample, b.beyond, b.impact_kwh);
+  }
 
   for (auto& f : acc_f) {
     if (f.intervals == 0) continue;
     f.share_of_operating = r.operating_hours > 0 ? f.hours / r.operating_hours : 0.0;
     r.findings.push_back(f);
   }
-  for (const auto& w : log.weight_s) r.covered_hours += w / 3600.0;
+  for (std::size_t i = 0; i < log.size(); ++i) r.covered_hours += log.weight_s(i) / 3600.0;
   return r;
 }
 

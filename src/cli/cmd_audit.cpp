@@ -111,8 +111,9 @@ int run_audit(const std::vector<std::string>& args) {
       read.columns.push_back(trend::parse_column_override(c, "--column"));
   if (vm.count("max-gap")) {
     const double minutes = units::parse_number(vm["max-gap"].as<std::string>(), "--max-gap");
-    if (!(minutes > 0)) throw InputError(fmt::format("--max-gap: {} is not a positive number of minutes",
-                                                     vm["max-gap"].as<std::string>()));
+    if (!(minutes > 0) || !(minutes * 60.0 <= trend::kMaxGapLimitS))
+      throw InputError(fmt::format("--max-gap: {} is not a number of minutes above 0 and at most {:.0f} (a year)",
+                                   echo(vm["max-gap"].as<std::string>()), trend::kMaxGapLimitS / 60.0));
     read.max_gap_s = minutes * 60.0;
   }
   audit::Options opt;

@@ -60,7 +60,8 @@ void check_input_file(const fs::path& path, std::string_view what) {
   (void)checked_status(path, what);
 }
 
-std::string read_input_file(const fs::path& path, std::string_view what, std::uintmax_t max_bytes) {
+void read_input_pieces(const fs::path& path, std::string_view what, std::uintmax_t max_bytes,
+                       const std::function<void(std::string_view)>& piece) {
   const fs::file_status st = checked_status(path, what);
   const std::string name = origin(path);
   const auto too_large = [&](std::uintmax_t size, bool at_least) {
@@ -75,14 +76,21 @@ std::string read_input_file(const fs::path& path, std::string_view what, std::ui
   }
   std::ifstream in(path, std::ios::binary);
   if (!in) throw InputError(fmt::format("{}: cannot open {} ({})", name, what, std::strerror(errno)));
-  std::string text;
+  std::uintmax_t total = 0;
   char buffer[1 << 16];
   // A pipe has no size to check first, and a regular file may grow while read: cap as we go.
   while (in.read(buffer, sizeof buffer) || in.gcount() > 0) {
-    text.append(buffer, static_cast<std::size_t>(in.gcount()));
-    if (text.size() > max_bytes) throw too_large(max_bytes, true);
+    const auto n = static_cast<std::size_t>(in.gcount());
+    total += n;
+    if (total > max_bytes) throw too_large(max_bytes, true);
+    piece(std::string_view(buffer, n));
   }
   if (in.bad()) throw InputError(fmt::format("{}: cannot read {} ({})", name, what, std::strerror(errno)));
+}
+
+std::string read_input_file(const fs::path& path, std::string_view what, std::uintmax_t max_bytes) {
+  std::string text;
+  read_input_pieces(path, what, max_bytes, [&](std::string_view p) { text.append(p); });
   return text;
 }
 

@@ -159,7 +159,7 @@ std::string normalise_unit(std::string_view u, std::string_view origin) {
   if (l == "c" || l == "°c" || l == "degc") return "C";
   if (l == "%" || l == "percent" || l == "pct") return "%";
   if (l == "fraction") return "fraction";
-  throw InputError(fmt::format("{}: unit '{}' is not one of F, C, %, fraction", origin, u));
+  throw InputError(fmt::format("{}: unit {} is not one of F, C, %, fraction", origin, echo(u)));
 }
 
 std::optional<bool> parse_status(std::string_view t) {
@@ -228,12 +228,12 @@ ColumnOverride parse_column_override(std::string_view text, std::string_view ori
     return s;
   };
   if (eq == std::string_view::npos || eq == 0 || eq + 1 == text.size())
-    throw InputError(fmt::format("{}: '{}' is not QUANTITY=HEADER[:UNIT] (quantities: {})", origin,
-                                 text, allowed()));
+    throw InputError(fmt::format("{}: {} is not QUANTITY=HEADER[:UNIT] (quantities: {})", origin,
+                                 echo(text), allowed()));
   const auto ch = channel_from_name(text.substr(0, eq));
   if (!ch)
-    throw InputError(fmt::format("{}: '{}' is not a trend quantity (allowed: {})", origin,
-                                 text.substr(0, eq), allowed()));
+    throw InputError(fmt::format("{}: {} is not a trend quantity (allowed: {})", origin,
+                                 echo(text.substr(0, eq)), allowed()));
   std::string_view rest = text.substr(eq + 1);
   ColumnOverride o{*ch, std::string(rest), {}};
   const auto colon = rest.rfind(':');
@@ -241,49 +241,46 @@ ColumnOverride parse_column_override(std::string_view text, std::string_view ori
     o.header = std::string(rest.substr(0, colon));
     o.unit = normalise_unit(rest.substr(colon + 1), origin);
   }
-  if (o.header.empty()) throw InputError(fmt::format("{}: '{}' names no header", origin, text));
+  if (o.header.empty()) throw InputError(fmt::format("{}: {} names no header", origin, echo(text)));
   return o;
 }
 
-std::int64_t parse_timestamp(std::string_view text, std::string_view origin) {
-  auto fail = [&] {
-    return InputError(fmt::format(
-        "{}: '{}' is not a time stamp (allowed: YYYY-MM-DD HH:MM[:SS], ISO 8601 with T and Z or "
-        "±HH:MM, MM/DD/YYYY HH:MM[:SS][ AM|PM], YYYY/MM/DD HH:MM[:SS])",
-        origin, text));
-  };
+namespace {
+
+// The time stamp in `text`, or none when it is not one of the accepted forms.
+std::optional<std::int64_t> read_timestamp(std::string_view text) {
   std::string_view s = text;
   while (!s.empty() && s.back() == ' ') s.remove_suffix(1);
   std::size_t i = 0;
   int a = 0, b = 0, c = 0, y, mo, d;
-  if (!digits(s, i, 4, a)) throw fail();
+  if (!digits(s, i, 4, a)) return std::nullopt;
   const std::size_t first_len = i;
   if (i < s.size() && (s[i] == '-' || s[i] == '/') && first_len == 4) {
     const char sep = s[i++];
-    if (!digits(s, i, 2, b) || !expect(s, i, sep) || !digits(s, i, 2, c)) throw fail();
+    if (!digits(s, i, 2, b) || !expect(s, i, sep) || !digits(s, i, 2, c)) return std::nullopt;
     y = a, mo = b, d = c;
   } else if (expect(s, i, '/')) {
-    if (!digits(s, i, 2, b) || !expect(s, i, '/') || !digits(s, i, 4, c) || c < 1000) throw fail();
+    if (!digits(s, i, 2, b) || !expect(s, i, '/') || !digits(s, i, 4, c) || c < 1000) return std::nullopt;
     y = c, mo = a, d = b;
   } else {
-    throw fail();
+    return std::nullopt;
   }
-  if (mo < 1 || mo > 12 || d < 1 || d > days_in_month(y, mo)) throw fail();
+  if (mo < 1 || mo > 12 || d < 1 || d > days_in_month(y, mo)) return std::nullopt;
   int hh = 0, mm = 0, ss = 0;
   if (i < s.size()) {
-    if (s[i] != 'T' && s[i] != ' ') throw fail();
+    if (s[i] != 'T' && s[i] != ' ') return std::nullopt;
     while (i < s.size() && (s[i] == 'T' || s[i] == ' ')) ++i;
-    if (!digits(s, i, 2, hh) || !expect(s, i, ':') || !digits(s, i, 2, mm)) throw fail();
-    if (expect(s, i, ':') && !digits(s, i, 2, ss)) throw fail();
+    if (!digits(s, i, 2, hh) || !expect(s, i, ':') || !digits(s, i, 2, mm)) return std::nullopt;
+    if (expect(s, i, ':') && !digits(s, i, 2, ss)) return std::nullopt;
     if (expect(s, i, '.')) {
       int frac;
-      if (!digits(s, i, 9, frac)) throw fail();
+      if (!digits(s, i, 9, frac)) return std::nullopt;
     }
     while (i < s.size() && s[i] == ' ') ++i;
     std::int64_t offset_s = 0;
     const std::string rest = lower(s.substr(i));
     if (rest == "am" || rest == "pm") {
-      if (hh < 1 || hh > 12) throw fail();
+      if (hh < 1 || hh > 12) return std::nullopt;
       hh = hh % 12 + (rest == "pm" ? 12 : 0);
       i = s.size();
     } else if (rest == "z") {
@@ -292,15 +289,27 @@ std::int64_t parse_timestamp(std::string_view text, std::string_view origin) {
       const int sign = rest[0] == '-' ? -1 : 1;
       ++i;
       int oh, om = 0;
-      if (!digits(s, i, 2, oh)) throw fail();
+      if (!digits(s, i, 2, oh)) return std::nullopt;
       if (expect(s, i, ':') || (i < s.size() && std::isdigit(static_cast<unsigned char>(s[i]))))
-        if (!digits(s, i, 2, om)) throw fail();
+        if (!digits(s, i, 2, om)) return std::nullopt;
+      // Civil time zones lie within UTC−12 to UTC+14.
+      if (oh * 60 + om > 14 * 60 || om > 59) return std::nullopt;
       offset_s = sign * (oh * 3600 + om * 60);
     }
-    if (i != s.size() || hh > 23 || mm > 59 || ss > 59) throw fail();
+    if (i != s.size() || hh > 23 || mm > 59 || ss > 59) return std::nullopt;
     return days_from_civil(y, mo, d) * 86400 + hh * 3600 + mm * 60 + ss - offset_s;
   }
   return days_from_civil(y, mo, d) * 86400;
+}
+
+}  // namespace
+
+std::int64_t parse_timestamp(std::string_view text, std::string_view origin) {
+  if (const auto t = read_timestamp(text)) return *t;
+  throw InputError(fmt::format(
+      "{}: {} is not a time stamp (allowed: YYYY-MM-DD HH:MM[:SS], ISO 8601 with T and Z or "
+      "±HH:MM up to ±14:00, MM/DD/YYYY HH:MM[:SS][ AM|PM], YYYY/MM/DD HH:MM[:SS])",
+      origin, echo(text)));
 }
 
 std::string format_timestamp(std::int64_t t) {
@@ -326,249 +335,398 @@ bool TrendLog::has(Channel c) const {
   return false;
 }
 
-TrendLog parse_trend(std::string_view text, std::string_view name, const ReadOptions& options) {
-  TrendLog log;
-  log.path = std::string(name);
-  std::vector<std::string_view> lines;
-  for (std::size_t pos = 0; pos <= text.size();) {
-    const auto nl = text.find('\n', pos);
-    const auto end = nl == std::string_view::npos ? text.size() : nl;
-    lines.push_back(text.substr(pos, end - pos));
-    if (nl == std::string_view::npos) break;
-    pos = nl + 1;
+std::optional<double> TrendLog::value(Channel c, std::size_t i) const {
+  const auto k = static_cast<std::size_t>(c);
+  if (!state[k].empty()) {
+    if (state[k][i] < 0) return std::nullopt;
+    return static_cast<double>(state[k][i]);
   }
-  // The header is the first line with a time column; export preambles come before it.
-  std::size_t header_line = lines.size();
-  char delim = ',';
-  std::vector<std::string> header;
-  for (std::size_t i = 0; i < lines.size() && header_line == lines.size(); ++i) {
-    if (lines[i].empty() || lines[i][0] == '#') continue;
-    delim = csv::guess_delimiter(lines[i]);
-    header = csv::split_line(lines[i], delim);
-    for (const auto& h : header)
-      if (time_role(h) != TimeRole::none) header_line = i;
-  }
-  if (header_line == lines.size())
-    throw InputError(fmt::format("{}: no header line with a time column (a header such as "
-                                 "'Timestamp', 'Date/Time', or 'Date' and 'Time')", name));
-  const std::string where_header = fmt::format("{}:{}", name, header_line + 1);
+  if (number[k].empty() || std::isnan(number[k][i])) return std::nullopt;
+  return number[k][i];
+}
 
-  int ts_col = -1, date_col = -1, time_col = -1;
+Sample TrendLog::sample(std::size_t i) const {
+  Sample s{time_s[i], line[i], {}};
+  for (std::size_t k = 0; k < kChannelCount; ++k) s.value[k] = value(static_cast<Channel>(k), i);
+  return s;
+}
+
+double TrendLog::weight_s(std::size_t i) const {
+  const double w = i + 1 < time_s.size() ? static_cast<double>(time_s[i + 1] - time_s[i])
+                                         : coverage.median_interval_s;
+  return std::min(w, coverage.max_gap_s);
+}
+
+namespace {
+
+// Cuts text arriving in pieces into lines ending in LF, CR LF or a lone CR, and drops a UTF-8
+// byte-order mark at the very start. A line wholly inside a piece is passed as a view of it;
+// only a line cut by the end of a piece is copied.
+class LineSplitter {
+ public:
+  template <class OnLine>
+  void feed(std::string_view piece, OnLine&& on_line) {
+    if (at_start_) {
+      // The mark may itself arrive cut between pieces.
+      const std::size_t take = std::min(piece.size(), kBom.size() - head_.size());
+      head_.append(piece.substr(0, take));
+      piece.remove_prefix(take);
+      if (head_.size() < kBom.size() && kBom.starts_with(head_)) return;
+      at_start_ = false;
+      const std::string head = std::exchange(head_, {});
+      if (head != kBom) split(head, on_line);
+    }
+    split(piece, on_line);
+  }
+  template <class OnLine>
+  void finish(OnLine&& on_line) {
+    if (at_start_) split(std::exchange(head_, {}), on_line);  // shorter than a mark
+    at_start_ = false;
+    if (!partial_.empty()) on_line(std::string_view(partial_));
+    partial_.clear();
+  }
+
+ private:
+  template <class OnLine>
+  void split(std::string_view piece, OnLine& on_line) {
+    if (after_cr_ && !piece.empty()) {
+      if (piece.front() == '\n') piece.remove_prefix(1);
+      after_cr_ = false;
+    }
+    while (!piece.empty()) {
+      const std::size_t end = piece.find_first_of("\r\n");
+      if (end == std::string_view::npos) {
+        partial_.append(piece);
+        return;
+      }
+      const bool cr = piece[end] == '\r';
+      if (partial_.empty()) {
+        on_line(piece.substr(0, end));
+      } else {
+        partial_.append(piece.substr(0, end));
+        on_line(std::string_view(partial_));
+        partial_.clear();
+      }
+      piece.remove_prefix(end + 1);
+      if (cr) {
+        if (piece.empty()) after_cr_ = true;
+        else if (piece.front() == '\n') piece.remove_prefix(1);
+      }
+    }
+  }
+
+  static constexpr std::string_view kBom = "\xEF\xBB\xBF";  // UTF-8 byte-order mark
+  std::string partial_;
+  std::string head_;  // the first bytes, until they are known not to be a mark
+  bool at_start_ = true;
+  bool after_cr_ = false;
+};
+
+// A year of one-minute samples of a dozen points is about 60 MB.
+constexpr std::uintmax_t kMaxTrendLogBytes = std::uintmax_t{1} << 30;
+
+bool blank(std::string_view s) {
+  for (char c : s)
+    if (!std::isspace(static_cast<unsigned char>(c))) return false;
+  return true;
+}
+
+// Reads the log line by line: the header search, the column mapping, then each row checked
+// and stored as it comes, so that nothing but the samples is kept.
+class Reader {
+ public:
+  Reader(std::string_view name, const ReadOptions& options) : options_(options) {
+    log_.path = std::string(name);
+  }
+
+  void line(std::string_view text) {
+    ++number_;
+    if (text.empty() || text[0] == '#' || (header_line_ > 0 && blank(text))) return;
+    if (header_line_ == 0) find_header(text);
+    else row(text);
+  }
+
+  TrendLog finish();
+
+ private:
+  std::string where() const { return fmt::format("{}:{}", log_.path, number_); }
+  std::string where_header() const { return fmt::format("{}:{}", log_.path, header_line_); }
+  void find_header(std::string_view text);
+  void map_columns();
+  void row(std::string_view text);
+  double reading(std::size_t k, std::string_view t) const;
+
+  const ReadOptions& options_;
+  TrendLog log_;
+  int number_ = 0;       // the line being read
+  int header_line_ = 0;  // 0 until the header is found
+  char delim_ = ',';
+  std::vector<std::string> header_;
+  int ts_col_ = -1, date_col_ = -1, time_col_ = -1;
+  std::array<int, kChannelCount> col_{};
+  std::array<std::string, kChannelCount> unit_;
+  std::array<double, kChannelCount> last_{};  // the previous sample's readings (NaN: none)
+};
+
+void Reader::find_header(std::string_view text) {
+  const char delim = csv::guess_delimiter(text);
+  auto fields = csv::split_line(text, delim);
+  bool time = false;
+  for (const auto& h : fields) time = time || time_role(h) != TimeRole::none;
+  if (!time) return;  // an export preamble
+  header_line_ = number_;
+  delim_ = delim;
+  header_ = std::move(fields);
+  map_columns();
+}
+
+void Reader::map_columns() {
+  const auto& header = header_;
   for (std::size_t c = 0; c < header.size(); ++c) {
     switch (time_role(header[c])) {
-      case TimeRole::timestamp: if (ts_col < 0) ts_col = static_cast<int>(c); break;
-      case TimeRole::date: if (date_col < 0) date_col = static_cast<int>(c); break;
-      case TimeRole::time: if (time_col < 0) time_col = static_cast<int>(c); break;
+      case TimeRole::timestamp: if (ts_col_ < 0) ts_col_ = static_cast<int>(c); break;
+      case TimeRole::date: if (date_col_ < 0) date_col_ = static_cast<int>(c); break;
+      case TimeRole::time: if (time_col_ < 0) time_col_ = static_cast<int>(c); break;
       default: break;
     }
   }
-  if (ts_col < 0 && date_col >= 0 && time_col < 0) ts_col = date_col, date_col = -1;
-  if (ts_col < 0 && (date_col < 0 || time_col < 0))
-    throw InputError(fmt::format("{}: a 'Time' column needs a 'Date' column beside it", where_header));
+  if (ts_col_ < 0 && date_col_ >= 0 && time_col_ < 0) ts_col_ = date_col_, date_col_ = -1;
+  if (ts_col_ < 0 && (date_col_ < 0 || time_col_ < 0))
+    throw InputError(fmt::format("{}: a 'Time' column needs a 'Date' column beside it", where_header()));
 
   // Channel → column, overrides first.
-  std::array<int, kChannelCount> col;
-  col.fill(-1);
-  std::array<std::string, kChannelCount> unit;
+  col_.fill(-1);
   std::array<bool, kChannelCount> overridden{};
-  for (const auto& o : options.columns) {
+  for (const auto& o : options_.columns) {
     int found = -1;
     for (std::size_t c = 0; c < header.size(); ++c)
       if (header[c] == o.header) found = static_cast<int>(c);
     if (found < 0)
-      throw InputError(fmt::format("--column {}={}: the header ({}) has no column '{}'",
-                                   channel_name(o.channel), o.header, where_header, o.header));
+      throw InputError(fmt::format("--column {}={}: the header ({}) has no column {}",
+                                   channel_name(o.channel), echo(o.header), where_header(), echo(o.header)));
     const auto k = static_cast<std::size_t>(o.channel);
-    col[k] = found;
-    unit[k] = o.unit;
+    col_[k] = found;
+    unit_[k] = o.unit;
     overridden[k] = true;
   }
   for (std::size_t c = 0; c < header.size(); ++c) {
-    if (static_cast<int>(c) == ts_col || static_cast<int>(c) == date_col || static_cast<int>(c) == time_col)
+    if (static_cast<int>(c) == ts_col_ || static_cast<int>(c) == date_col_ || static_cast<int>(c) == time_col_)
       continue;
-    if (std::find(col.begin(), col.end(), static_cast<int>(c)) != col.end()) continue;
+    if (std::find(col_.begin(), col_.end(), static_cast<int>(c)) != col_.end()) continue;
     const auto ch = channel_from_header(header[c]);
     if (!ch) continue;
     const auto k = static_cast<std::size_t>(*ch);
     if (overridden[k]) continue;
-    if (col[k] >= 0)
+    if (col_[k] >= 0)
       throw InputError(fmt::format(
-          "{}: columns '{}' and '{}' both look like {}; choose one with --column {}=HEADER",
-          where_header, header[static_cast<std::size_t>(col[k])], header[c], channel_name(*ch),
-          channel_name(*ch)));
-    col[k] = static_cast<int>(c);
+          "{}: columns {} and {} both look like {}; choose one with --column {}=HEADER",
+          where_header(), echo(header[static_cast<std::size_t>(col_[k])]), echo(header[c]),
+          channel_name(*ch), channel_name(*ch)));
+    col_[k] = static_cast<int>(c);
   }
   bool any = false;
-  for (int c : col) any = any || c >= 0;
+  for (int c : col_) any = any || c >= 0;
   if (!any)
     throw InputError(fmt::format("{}: no trend column recognised (e.g. 'OA Temp (°F)', 'RA RH "
                                  "(%)', 'MAT', 'OA Damper Cmd (%)', 'SF Status'); set them with "
                                  "--column QUANTITY=HEADER[:UNIT]",
-                                 where_header));
+                                 where_header()));
 
   // Units: override, else header, else the bare system (temperatures) or % (percent points).
   for (std::size_t k = 0; k < kChannelCount; ++k) {
-    if (col[k] < 0) continue;
+    if (col_[k] < 0) continue;
     const auto ch = static_cast<Channel>(k);
-    const std::string& h = header[static_cast<std::size_t>(col[k])];
+    const std::string& h = header[static_cast<std::size_t>(col_[k])];
     ColumnUse use{ch, h, {}, overridden[k], {}};
-    std::string u = unit[k].empty() ? unit_from_header(h) : unit[k];
+    std::string u = unit_[k].empty() ? unit_from_header(h) : unit_[k];
     switch (channel_kind(ch)) {
       case Kind::temperature:
         if (u == "%" || u == "fraction")
-          throw InputError(fmt::format("{}: column '{}' ({}) is a temperature; its unit must be F or C",
-                                       where_header, h, channel_name(ch)));
+          throw InputError(fmt::format("{}: column {} ({}) is a temperature; its unit must be F or C",
+                                       where_header(), echo(h), channel_name(ch)));
         if (u.empty()) {
-          u = options.bare == units::System::ip ? "F" : "C";
+          u = options_.bare == units::System::ip ? "F" : "C";
           use.note = fmt::format("no unit in the header: read in °{} (--units)", u);
         }
         use.unit = u == "F" ? "°F" : "°C";
         break;
       case Kind::percent:
         if (u == "F" || u == "C")
-          throw InputError(fmt::format("{}: column '{}' ({}) is a percentage, not a temperature",
-                                       where_header, h, channel_name(ch)));
+          throw InputError(fmt::format("{}: column {} ({}) is a percentage, not a temperature",
+                                       where_header(), echo(h), channel_name(ch)));
         use.unit = u.empty() ? "%" : u;
         if (u.empty()) use.note = "no unit in the header: read in %";
         break;
       case Kind::status: use.unit = "on/off"; break;
     }
-    unit[k] = u.empty() && channel_kind(ch) == Kind::percent ? "%" : u;
-    log.columns.push_back(use);
+    unit_[k] = u.empty() && channel_kind(ch) == Kind::percent ? "%" : u;
+    log_.columns.push_back(use);
   }
+  last_.fill(std::nan(""));
+}
 
-  // Rows.
-  struct Raw {
-    Sample s;
-    std::string text;  // the row's cells joined, to tell exact repeats from conflicts
+// The value of channel `k` in the cell `t` (not empty), in the log's storage units: °C,
+// fractions, 1/0 for on/off.
+double Reader::reading(std::size_t k, std::string_view t) const {
+  const auto ch = static_cast<Channel>(k);
+  const std::string& h = header_[static_cast<std::size_t>(col_[k])];
+  double v;
+  if (channel_kind(ch) == Kind::status) {
+    if (auto st = parse_status(t)) return *st ? 1.0 : 0.0;
+    if (parse_double(t, v) && v >= 0 && v <= 100 && ch == Channel::cooling)
+      return v > 0 ? 1.0 : 0.0;  // a valve or compressor signal: on when above zero
+    throw InputError(fmt::format("{}: {} {} in column {} is not a status (allowed: on/off, 1/0, "
+                                 "true/false, run/stop{})",
+                                 where(), channel_name(ch), echo(t), echo(h),
+                                 ch == Channel::cooling ? ", or a signal 0–100 %" : ""));
+  }
+  if (!parse_double(t, v))
+    throw InputError(fmt::format("{}: {} {} in column {} is not a number", where(),
+                                 channel_name(ch), echo(t), echo(h)));
+  if (channel_kind(ch) == Kind::percent) {
+    const bool fraction = unit_[k] == "fraction";
+    if (v < 0 || v > (fraction ? 1.0 : 100.0))
+      throw InputError(fmt::format("{}: {} {} in column {} is outside 0–{}", where(),
+                                   channel_name(ch), echo(t), echo(h),
+                                   fraction ? "1 (fraction)" : "100 %"));
+    return fraction ? v : v / 100.0;
+  }
+  const double c = unit_[k] == "F" ? units::celsius_from_fahrenheit(v) : v;
+  const auto& p = kPlausible[k];
+  if (c < p.lo || c > p.hi)
+    throw InputError(fmt::format(
+        "{}: {} {} in column {} read in °{} is {:.1f} °C, outside the plausible {:.0f} to "
+        "{:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
+        where(), channel_name(ch), echo(t), echo(h), unit_[k], c, p.lo, p.hi, channel_name(ch)));
+  return c;
+}
+
+void Reader::row(std::string_view text) {
+  const auto cells = csv::split_line(text, delim_);
+  // An export may end every row with a delimiter: empty fields past the header's are no field.
+  std::size_t used = cells.size();
+  while (used > header_.size() && cells[used - 1].empty()) --used;
+  if (used != header_.size())
+    throw InputError(fmt::format("{}: the row has {} fields but the header (line {}) has {}; "
+                                 "allowed: one value per header column",
+                                 where(), used, header_line_, header_.size()));
+  auto cell = [&](int c) -> std::string_view {
+    return c >= 0 ? std::string_view(cells[static_cast<std::size_t>(c)]) : std::string_view();
   };
-  std::vector<Raw> rows;
-  for (std::size_t i = header_line + 1; i < lines.size(); ++i) {
-    std::string_view line = lines[i];
-    if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
-    if (line.empty() || line[0] == '#') continue;
-    const auto cells = csv::split_line(line, delim);
-    const std::string where = fmt::format("{}:{}", name, i + 1);
-    auto cell = [&](int c) -> std::string_view {
-      return c >= 0 && static_cast<std::size_t>(c) < cells.size() ? std::string_view(cells[static_cast<std::size_t>(c)]) : std::string_view();
-    };
-    Sample s{};
-    s.line = static_cast<int>(i + 1);
-    const std::string stamp = ts_col >= 0 ? std::string(cell(ts_col))
-                                          : std::string(cell(date_col)) + " " + std::string(cell(time_col));
-    s.time_s = parse_timestamp(stamp, fmt::format("{}: time", where));
-    for (std::size_t k = 0; k < kChannelCount; ++k) {
-      if (col[k] < 0) continue;
-      const auto ch = static_cast<Channel>(k);
-      const std::string_view t = cell(col[k]);
-      if (t.empty()) continue;
-      const std::string& h = header[static_cast<std::size_t>(col[k])];
-      double v;
-      if (channel_kind(ch) == Kind::status) {
-        if (auto st = parse_status(t)) {
-          v = *st ? 1.0 : 0.0;
-        } else if (parse_double(t, v) && v >= 0 && v <= 100 && ch == Channel::cooling) {
-          v = v > 0 ? 1.0 : 0.0;  // a valve or compressor signal: on when above zero
-        } else {
-          throw InputError(fmt::format("{}: {} '{}' in column '{}' is not a status (allowed: on/off, "
-                                       "1/0, true/false, run/stop{})",
-                                       where, channel_name(ch), t, h,
-                                       ch == Channel::cooling ? ", or a signal 0–100 %" : ""));
-        }
-      } else if (!parse_double(t, v)) {
-        throw InputError(fmt::format("{}: {} '{}' in column '{}' is not a number", where,
-                                     channel_name(ch), t, h));
-      } else if (channel_kind(ch) == Kind::percent) {
-        const bool fraction = unit[k] == "fraction";
-        if (v < 0 || v > (fraction ? 1.0 : 100.0))
-          throw InputError(fmt::format("{}: {} {} in column '{}' is outside 0–{}", where,
-                                       channel_name(ch), t, h, fraction ? "1 (fraction)" : "100 %"));
-        if (!fraction) v /= 100.0;
-      } else {
-        const double c = unit[k] == "F" ? units::celsius_from_fahrenheit(v) : v;
-        const auto& p = kPlausible[k];
-        if (c < p.lo || c > p.hi)
-          throw InputError(fmt::format(
-              "{}: {} {} in column '{}' read in °{} is {:.1f} °C, outside the plausible {:.0f} to "
-              "{:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
-              where, channel_name(ch), t, h, unit[k], c, p.lo, p.hi, channel_name(ch)));
-        v = c;
-      }
-      s.value[k] = v;
-    }
-    // A row's identity is its values, not the spelling of its time cell.
-    rows.push_back({s, {}});
-    for (std::size_t k = 0; k < kChannelCount; ++k)
-      rows.back().text += s.value[k] ? fmt::format("{:.9g};", *s.value[k]) : std::string("-;");
-  }
-  if (rows.empty()) throw InputError(fmt::format("{}: no samples after the header", where_header));
+  const std::string joined = ts_col_ >= 0 ? std::string()
+                                          : std::string(cell(date_col_)) + " " + std::string(cell(time_col_));
+  const std::string_view stamp = ts_col_ >= 0 ? cell(ts_col_) : std::string_view(joined);
+  const auto read = read_timestamp(stamp);
+  const std::int64_t t = read ? *read : parse_timestamp(stamp, fmt::format("{}: time", where()));
+  std::array<double, kChannelCount> v;
+  v.fill(std::nan(""));
+  for (std::size_t k = 0; k < kChannelCount; ++k)
+    if (col_[k] >= 0 && !cell(col_[k]).empty()) v[k] = reading(k, cell(col_[k]));
 
-  for (std::size_t i = 0; i < rows.size(); ++i) {
-    if (i > 0 && rows[i].s.time_s < rows[i - 1].s.time_s)
+  if (!log_.time_s.empty()) {
+    const std::int64_t prev = log_.time_s.back();
+    if (t < prev)
       throw InputError(fmt::format(
-          "{}:{}: time {} is before the previous sample's {} (line {}); sort the log by time",
-          name, rows[i].s.line, format_timestamp(rows[i].s.time_s),
-          format_timestamp(rows[i - 1].s.time_s), rows[i - 1].s.line));
-    if (i > 0 && rows[i].s.time_s == rows[i - 1].s.time_s) {
-      if (rows[i].text != rows[i - 1].text)
-        throw InputError(fmt::format("{}:{}: time {} repeats line {} with different readings; "
-                                     "remove one of them",
-                                     name, rows[i].s.line, format_timestamp(rows[i].s.time_s),
-                                     rows[i - 1].s.line));
-      ++log.coverage.duplicate_rows;
-      continue;
+          "{}: time {} is before the previous sample's {} (line {}); sort the log by time",
+          where(), format_timestamp(t), format_timestamp(prev), log_.line.back()));
+    if (t == prev) {
+      // A row's identity is its readings, not the spelling of its time cell.
+      for (std::size_t k = 0; k < kChannelCount; ++k)
+        if (!(v[k] == last_[k] || (std::isnan(v[k]) && std::isnan(last_[k]))))
+          throw InputError(fmt::format("{}: time {} repeats line {} with different readings; "
+                                       "remove one of them",
+                                       where(), format_timestamp(t), log_.line.back()));
+      ++log_.coverage.duplicate_rows;
+      return;
     }
-    log.samples.push_back(rows[i].s);
   }
+  log_.time_s.push_back(t);
+  log_.line.push_back(number_);
+  for (std::size_t k = 0; k < kChannelCount; ++k) {
+    if (col_[k] < 0) continue;
+    if (channel_kind(static_cast<Channel>(k)) == Kind::status)
+      log_.state[k].push_back(std::isnan(v[k]) ? std::int8_t{-1} : static_cast<std::int8_t>(v[k] > 0.5));
+    else
+      log_.number[k].push_back(v[k]);
+  }
+  last_ = v;
+}
+
+TrendLog Reader::finish() {
+  const auto& name = log_.path;
+  if (header_line_ == 0)
+    throw InputError(fmt::format("{}: no header line with a time column (a header such as "
+                                 "'Timestamp', 'Date/Time', or 'Date' and 'Time')", name));
+  if (log_.time_s.empty()) throw InputError(fmt::format("{}: no samples after the header", where_header()));
 
   // Column medians: indoor air far from comfort means the unit is not the header's.
+  std::vector<double> v;
   for (std::size_t k = 0; k < kChannelCount; ++k) {
-    if (col[k] < 0 || channel_kind(static_cast<Channel>(k)) != Kind::temperature) continue;
-    std::vector<double> v;
-    for (const auto& s : log.samples)
-      if (s.value[k]) v.push_back(*s.value[k]);
+    if (col_[k] < 0 || channel_kind(static_cast<Channel>(k)) != Kind::temperature) continue;
+    v.clear();
+    for (double x : log_.number[k])
+      if (!std::isnan(x)) v.push_back(x);
     if (v.empty()) continue;
     std::nth_element(v.begin(), v.begin() + static_cast<long>(v.size() / 2), v.end());
     const double med = v[v.size() / 2];
     const auto& p = kPlausible[k];
     if (med < p.median_lo || med > p.median_hi)
       throw InputError(fmt::format(
-          "{}: column '{}' ({}) read in °{} has a median of {:.1f} °C, outside the plausible "
+          "{}: column {} ({}) read in °{} has a median of {:.1f} °C, outside the plausible "
           "{:.0f} to {:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
-          where_header, header[static_cast<std::size_t>(col[k])], channel_name(static_cast<Channel>(k)),
-          unit[k], med, p.median_lo, p.median_hi, channel_name(static_cast<Channel>(k))));
+          where_header(), echo(header_[static_cast<std::size_t>(col_[k])]),
+          channel_name(static_cast<Channel>(k)), unit_[k], med, p.median_lo, p.median_hi,
+          channel_name(static_cast<Channel>(k))));
   }
 
-  // Weights.
-  auto& cov = log.coverage;
-  const auto& ss = log.samples;
-  cov.rows = static_cast<int>(ss.size());
-  cov.first_s = ss.front().time_s;
-  cov.last_s = ss.back().time_s;
-  std::vector<double> dt;
-  for (std::size_t i = 1; i < ss.size(); ++i) dt.push_back(static_cast<double>(ss[i].time_s - ss[i - 1].time_s));
-  if (dt.empty()) throw InputError(fmt::format("{}: one sample only; an audit needs a series", name));
-  std::vector<double> sorted = dt;
-  std::sort(sorted.begin(), sorted.end());
-  cov.median_interval_s = sorted[sorted.size() / 2];
-  if (options.max_gap_s && *options.max_gap_s <= 0)
-    throw InputError(fmt::format("--max-gap: {} s is not positive", *options.max_gap_s));
-  cov.max_gap_s = options.max_gap_s ? *options.max_gap_s : 2.0 * cov.median_interval_s;
-  for (std::size_t i = 0; i < ss.size(); ++i) {
-    const double w = i + 1 < ss.size() ? dt[i] : cov.median_interval_s;
-    if (w > cov.max_gap_s) cov.gaps.push_back({ss[i].time_s, ss[i + 1].time_s});
-    log.weight_s.push_back(std::min(w, cov.max_gap_s));
-    cov.covered_s += log.weight_s.back();
+  // Weights: the median interval, the cap, and the gaps beyond it.
+  auto& cov = log_.coverage;
+  const auto& t = log_.time_s;
+  const std::size_t n = t.size();
+  cov.rows = static_cast<int>(n);
+  cov.first_s = t.front();
+  cov.last_s = t.back();
+  if (n < 2) throw InputError(fmt::format("{}: one sample only; an audit needs a series", name));
+  v.resize(n - 1);
+  for (std::size_t i = 1; i < n; ++i) v[i - 1] = static_cast<double>(t[i] - t[i - 1]);
+  std::nth_element(v.begin(), v.begin() + static_cast<long>(v.size() / 2), v.end());
+  cov.median_interval_s = v[v.size() / 2];
+  std::vector<double>().swap(v);
+  if (options_.max_gap_s && !(*options_.max_gap_s > 0 && *options_.max_gap_s <= kMaxGapLimitS))
+    throw InputError(fmt::format("--max-gap: {} is outside the allowed more than 0 to {:.0f} min "
+                                 "(a year)",
+                                 std::isfinite(*options_.max_gap_s)
+                                     ? fmt::format("{:.6g} min", *options_.max_gap_s / 60.0)
+                                     : std::string("a time beyond any bound"),
+                                 kMaxGapLimitS / 60.0));
+  cov.max_gap_s = options_.max_gap_s ? *options_.max_gap_s : 2.0 * cov.median_interval_s;
+  for (std::size_t i = 0; i < n; ++i) {
+    if (i + 1 < n && static_cast<double>(t[i + 1] - t[i]) > cov.max_gap_s) cov.gaps.push_back({t[i], t[i + 1]});
+    cov.covered_s += log_.weight_s(i);
   }
-  cov.span_s = static_cast<double>(cov.last_s - cov.first_s) + log.weight_s.back();
-  return log;
+  cov.span_s = static_cast<double>(cov.last_s - cov.first_s) + log_.weight_s(n - 1);
+  return std::move(log_);
 }
 
-// A year of one-minute samples of a dozen points is about 60 MB.
-constexpr std::uintmax_t kMaxTrendLogBytes = std::uintmax_t{1} << 30;
+}  // namespace
+
+TrendLog parse_trend(std::string_view text, std::string_view name, const ReadOptions& options) {
+  Reader reader(name, options);
+  LineSplitter lines;
+  const auto on_line = [&](std::string_view l) { reader.line(l); };
+  lines.feed(text, on_line);
+  lines.finish(on_line);
+  return reader.finish();
+}
 
 TrendLog load_trend(const std::string& path, const ReadOptions& options) {
-  return parse_trend(read_input_file(path, "the trend log", kMaxTrendLogBytes), path, options);
+  Reader reader(path, options);
+  LineSplitter lines;
+  const auto on_line = [&](std::string_view l) { reader.line(l); };
+  read_input_pieces(path, "the trend log", kMaxTrendLogBytes,
+                    [&](std::string_view piece) { lines.feed(piece, on_line); });
+  lines.finish(on_line);
+  return reader.finish();
 }
 
 }  // namespace limitline::trend

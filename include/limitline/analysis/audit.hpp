@@ -98,13 +98,6 @@ struct SwitchPoint {
   bool differs;
 };
 
-struct IntervalResult {  // one fan-on sample, for reports and tests
-  std::size_t sample;
-  bool expected_enabled;
-  bool observed_economizing;
-  std::optional<MeasuredFraction> measured;
-};
-
 struct Options {
   highlimit::Strategy strategy;
   Accuracy accuracy;
@@ -118,7 +111,6 @@ struct Result {
   int fraction_intervals = 0;   // where the measured fraction passed the gate
   std::vector<Finding> findings;  // kinds with at least one interval, in FindingKind order
   std::vector<SwitchPoint> switch_points;
-  std::vector<IntervalResult> intervals;
   std::vector<std::string> notes;  // assumptions taken (no fan column, return air from the unit file)
   const Finding* find(FindingKind k) const;
 };

@@ -4,6 +4,7 @@
 // folder never reads as empty or until memory runs out.
 #include <cstdint>
 #include <filesystem>
+#include <functional>
 #include <string>
 #include <string_view>
 
@@ -15,6 +16,11 @@ namespace limitline {
 // folders, devices, sockets and missing files are refused with what they are.
 [[nodiscard]] std::string read_input_file(const std::filesystem::path& path, std::string_view what,
                                           std::uintmax_t max_bytes);
+
+// The same content, checks and cap, handed to `piece` in order as it is read, for a reader that
+// keeps less than the whole text (the trend log).
+void read_input_pieces(const std::filesystem::path& path, std::string_view what,
+                       std::uintmax_t max_bytes, const std::function<void(std::string_view)>& piece);
 
 // The same checks without reading, for a reader that streams (`state --batch`).
 void check_input_file(const std::filesystem::path& path, std::string_view what);

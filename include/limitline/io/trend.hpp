@@ -6,8 +6,10 @@
 // was offline. Each sample stands for the time until the next one, capped at a maximum gap so
 // an outage is not filled with the last reading; what the cap drops is reported as coverage.
 // Reading is strict where a mistake would mislead an audit: times that go backwards, one stamp
-// with two different readings, and temperatures that cannot be in the unit their header names
-// are one-line InputErrors naming file and line. Exact repeated rows are dropped and counted.
+// with two different readings, a row whose field count is not the header's, and temperatures
+// that cannot be in the unit their header names are one-line InputErrors naming file and line.
+// Exact repeated rows are dropped and counted. Lines may end in LF, CR LF or CR alone; a UTF-8
+// byte-order mark is skipped.
 #include <limitline/model/units.hpp>
 
 #include <array>
@@ -51,6 +53,9 @@ struct ColumnOverride {
 // InputError naming `origin` and the allowed quantities when the text is malformed.
 ColumnOverride parse_column_override(std::string_view text, std::string_view origin);
 
+// The longest time one sample may stand for (--max-gap): beyond a year a gap means nothing.
+inline constexpr double kMaxGapLimitS = 366.0 * 86400.0;
+
 struct ReadOptions {
   std::vector<ColumnOverride> columns;
   units::System bare = units::System::ip;  // unit of temperature columns with no unit in the header
@@ -91,17 +96,33 @@ struct Coverage {
   int rows = 0;              // samples kept
 };
 
+// The samples are held column by column, 8 bytes a reading and 1 byte an on/off state, so that
+// a long log takes about the size of its text in memory.
 struct TrendLog {
   std::string path;
   std::vector<ColumnUse> columns;
-  std::vector<Sample> samples;  // in time order
-  std::vector<double> weight_s; // one per sample
   Coverage coverage;
+  std::vector<std::int64_t> time_s;  // one per sample, in time order
+  std::vector<int> line;             // the line of each sample in the file
+  // Temperatures (°C) and fractions, NaN where the cell was empty; empty for a channel the
+  // log has no column for, and for the on/off channels.
+  std::array<std::vector<double>, kChannelCount> number;
+  // Fan and cooling: 1 on, 0 off, −1 where the cell was empty.
+  std::array<std::vector<std::int8_t>, kChannelCount> state;
+
+  std::size_t size() const { return time_s.size(); }
   bool has(Channel c) const;
+  // The reading of `c` in sample `i`; none for an empty cell or a channel without a column.
+  std::optional<double> value(Channel c, std::size_t i) const;
+  Sample sample(std::size_t i) const;
+  // The time sample `i` stands for: to the next sample (the last: the median interval),
+  // capped at coverage.max_gap_s.
+  double weight_s(std::size_t i) const;
 };
 
 // Reads a trend log from text; `name` is the file name used in messages. Throws InputError.
 TrendLog parse_trend(std::string_view text, std::string_view name, const ReadOptions& options);
+// The same from a file, read in pieces: the text is never held whole.
 TrendLog load_trend(const std::string& path, const ReadOptions& options);
 
 // Time stamps the reader accepts: ISO 8601 "YYYY-MM-DD[T| ]HH:MM[:SS][Z|±HH:MM]" (an offset is
