@@ -103,6 +103,8 @@ int run_audit(const std::vector<std::string>& args) {
 
   const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
   report_warnings(unit.warnings, common.strict);
+  codes::check_site_code(unit.site.energy_code, unit.site.energy_code_origin,
+                         unit.site.climate_zone, unit.site.climate_zone_origin);
   const units::System system = common.units.resolve(unit);
   trend::ReadOptions read;
   read.bare = system;

@@ -156,7 +156,9 @@ int run_sensors(const std::vector<std::string>& args) {
     if (sweep_spec && (!sweep || sweep->partial)) note += "; the bias sweep did not finish";
   }
 
-  const report::YearContext ctx = year_context(in, system);
+  report::YearContext ctx = year_context(in, system);
+  // The [sensors] table's own warnings belong to the study's inputs too.
+  ctx.warnings.insert(ctx.warnings.end(), set.warnings.begin(), set.warnings.end());
   report::SensorsReport rep;
   rep.context = &ctx;
   rep.study = &study;
