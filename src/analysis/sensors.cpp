@@ -4,11 +4,11 @@
 #include <limitline/error.hpp>
 #include <limitline/model/plausible.hpp>
 #include <limitline/model/psychro.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
 #include <algorithm>
-#include <cctype>
 #include <cmath>
 #include <exception>
 #include <map>
@@ -84,16 +84,6 @@ constexpr Named<BiasDistribution> kDistributionNames[] = {
 };
 constexpr std::string_view kKindKey = "outdoor_humidity_kind";
 constexpr std::string_view kDistributionKey = "distribution";
-
-// Names compare without case, with '_' and '-' alike.
-std::string normalise(std::string_view s) {
-  std::string out;
-  for (unsigned char c : s) {
-    if (std::isspace(c)) continue;
-    out.push_back(c == '_' ? '-' : static_cast<char>(std::tolower(c)));
-  }
-  return out;
-}
 
 template <class T, std::size_t N>
 std::string names_of(const Named<T> (&names)[N]) {
@@ -352,7 +342,7 @@ SensorSet read_sensors(const toml::table* table, std::string_view file, units::S
   if (kind_node) {
     const std::string name = text_of(*kind_node, kKindKey, false);
     for (const auto& k : kKindNames)
-      if (k.name == normalise(name)) kind = k.value;
+      if (k.name == text::normalise_name(name)) kind = k.value;
     if (!kind)
       fail(kind_node->source(), kKindKey,
            fmt::format("{} is not allowed (allowed: {})", echo(name), names_of(kKindNames)));
@@ -425,7 +415,7 @@ SensorSet read_sensors(const toml::table* table, std::string_view file, units::S
     const std::string name = text_of(*d, kDistributionKey, false);
     bool found = false;
     for (const auto& n : kDistributionNames)
-      if (n.name == normalise(name)) s.distribution = n.value, found = true;
+      if (n.name == text::normalise_name(name)) s.distribution = n.value, found = true;
     if (!found)
       fail(d->source(), kDistributionKey,
            fmt::format("{} is not allowed (allowed: {}; with normal, each accuracy is the "
@@ -766,7 +756,7 @@ StudyResult run_study(const Engine& engine, const SensorSet& sensors, const Stud
 
 SweepSpec sweep_spec(std::string_view sensor_key, const std::array<std::string_view, 3>& range,
                      HumidityKind configured, units::System bare, std::string_view origin) {
-  std::string key = normalise(sensor_key);
+  std::string key = text::normalise_name(sensor_key);
   std::replace(key.begin(), key.end(), '-', '_');
   const SensorRow* r = row_by_key(key);
   if (r == nullptr) {

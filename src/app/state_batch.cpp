@@ -4,6 +4,7 @@
 #include <limitline/model/air_point.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/report/state.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
@@ -76,8 +77,7 @@ std::size_t write_state_batch(std::istream& in, std::ostream& out,
   std::optional<std::size_t> dry_bulb, pressure, elevation, humidity;
   const HumidityColumn* humidity_kind = nullptr;
   for (std::size_t i = 0; i < header.size(); ++i) {
-    std::string h = header[i];
-    for (char& c : h) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    const std::string h = text::to_lower(header[i]);
     if (h == "dry_bulb") { dry_bulb = i; continue; }
     if (h == "pressure") { pressure = i; continue; }
     if (h == "elevation") { elevation = i; continue; }

@@ -5,6 +5,7 @@
 #include <limitline/error.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/report/strategy.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
@@ -222,9 +223,7 @@ std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string&
   // Every entry named *.csv is a site, whatever it is: the weather reader names what is
   // wrong with a folder, a device or a dangling link, so none is skipped without a word.
   for (; !ec && it != fs::directory_iterator(); it.increment(ec)) {
-    std::string ext = it->path().extension().string();
-    std::transform(ext.begin(), ext.end(), ext.begin(), [](unsigned char c) { return std::tolower(c); });
-    if (ext == ".csv") files.push_back(it->path().string());
+    if (text::iequals(it->path().extension().string(), ".csv")) files.push_back(it->path().string());
   }
   if (ec) throw InputError(fmt::format("--batch: cannot list {}: {}", echo(dir), ec.message()));
   std::sort(files.begin(), files.end());

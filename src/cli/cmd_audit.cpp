@@ -7,6 +7,7 @@
 #include <limitline/report/strategy.hpp>
 #include <limitline/io/trend.hpp>
 #include <limitline/io/unit_file.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
@@ -48,7 +49,7 @@ highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map&
       const auto s = a.strategy();
       if (!s) continue;
       names += (names.empty() ? "" : ", ") + a.row->control;
-      if (vm.count("strategy") && normalise_name(a.row->control) != normalise_name(vm["strategy"].as<std::string>()))
+      if (vm.count("strategy") && text::normalise_name(a.row->control) != text::normalise_name(vm["strategy"].as<std::string>()))
         continue;
       source = fmt::format("{} zone {}, {}", ed.id, req.zone, a.row->control);
       return *s;
@@ -64,10 +65,10 @@ highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map&
                                        : "first strategy of the unit file";
     return all.front();
   }
-  const std::string want = normalise_name(vm["strategy"].as<std::string>());
+  const std::string want = text::normalise_name(vm["strategy"].as<std::string>());
   std::string names;
   for (const auto& s : all) {
-    if (normalise_name(s.name) == want) {
+    if (text::normalise_name(s.name) == want) {
       source = "--strategy";
       return s;
     }

@@ -1,6 +1,6 @@
 #include <limitline/io/csv.hpp>
 
-#include <cctype>
+#include <limitline/text.hpp>
 
 namespace limitline::csv {
 
@@ -11,10 +11,7 @@ std::vector<std::string> split_line(std::string_view line, char delimiter) {
   bool quoted = false, was_quoted = false;
   auto finish = [&] {
     if (!was_quoted) {
-      std::size_t b = 0, e = field.size();
-      while (b < e && std::isspace(static_cast<unsigned char>(field[b]))) ++b;
-      while (e > b && std::isspace(static_cast<unsigned char>(field[e - 1]))) --e;
-      field = field.substr(b, e - b);
+      field = std::string(text::trim(field));
     }
     fields.push_back(std::move(field));
     field.clear();
@@ -37,9 +34,7 @@ std::vector<std::string> split_line(std::string_view line, char delimiter) {
       quoted = true;
       was_quoted = true;
       // Text before the opening quote is kept only if it is not white space.
-      bool blank = true;
-      for (char f : field) blank = blank && std::isspace(static_cast<unsigned char>(f));
-      if (blank) field.clear();
+      if (text::trim(field).empty()) field.clear();
     } else if (c == delimiter) {
       finish();
     } else {

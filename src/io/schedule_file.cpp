@@ -1,6 +1,7 @@
 #include <limitline/io/schedule_file.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 #include <toml++/toml.h>
@@ -41,24 +42,18 @@ int parse_clock(std::string_view s, const std::string& origin) {
   return h * 60 + m;
 }
 
-std::string_view trim(std::string_view s) {
-  while (!s.empty() && s.front() == ' ') s.remove_prefix(1);
-  while (!s.empty() && s.back() == ' ') s.remove_suffix(1);
-  return s;
-}
-
 std::vector<Schedule::Period> parse_periods(std::string_view text, const std::string& origin) {
   std::vector<Schedule::Period> out;
-  if (trim(text) == "off") return out;
+  if (text::trim_spaces(text) == "off") return out;
   while (!text.empty()) {
     const auto comma = text.find(',');
-    const std::string_view part = trim(text.substr(0, comma));
+    const std::string_view part = text::trim_spaces(text.substr(0, comma));
     text = comma == std::string_view::npos ? std::string_view{} : text.substr(comma + 1);
     const auto dash = part.find('-');
     if (dash == std::string_view::npos)
       throw InputError(fmt::format("{}: '{}' is not a period (HH:MM-HH:MM, or off)", origin, part));
-    const int a = parse_clock(trim(part.substr(0, dash)), origin);
-    const int b = parse_clock(trim(part.substr(dash + 1)), origin);
+    const int a = parse_clock(text::trim_spaces(part.substr(0, dash)), origin);
+    const int b = parse_clock(text::trim_spaces(part.substr(dash + 1)), origin);
     if (b <= a)
       throw InputError(fmt::format("{}: period '{}' ends before it starts (periods may not "
                                    "cross midnight; split them at 24:00)",

@@ -7,11 +7,11 @@
 #include <limitline/model/plausible.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/io/toml_depth.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
 #include <algorithm>
-#include <cctype>
 #include <cmath>
 #include <fstream>
 #include <iterator>
@@ -241,7 +241,7 @@ class Reader {
                           const Named<T> (&names)[N]) const {
     const auto s = text(t, key, path);
     if (!s) return std::nullopt;
-    const std::string n = normalise_name(*s);
+    const std::string n = text::normalise_name(*s);
     for (const auto& c : names)
       if (c.name == n) return c.value;
     fail(t.get(key)->source(), join_path(path, key),
@@ -530,14 +530,14 @@ highlimit::Condition read_condition(const Reader& r, const toml::table& c,
   if (!qname)
     r.missing(c, Reader::join_path(path, "quantity"),
               fmt::format("one of {}", quantity_list()));
-  const auto q = highlimit::quantity_from_name(normalise_name(*qname));
+  const auto q = highlimit::quantity_from_name(text::normalise_name(*qname));
   if (!q)
     r.fail(c.get("quantity")->source(), Reader::join_path(path, "quantity"),
            fmt::format("{} is not a quantity (allowed: {})", echo(*qname), quantity_list()));
   highlimit::Condition cond;
   cond.quantity = *q;
   if (const auto rname = r.text(c, "reference", path)) {
-    const auto ref = highlimit::reference_from_name(normalise_name(*rname));
+    const auto ref = highlimit::reference_from_name(text::normalise_name(*rname));
     if (!ref)
       r.fail(c.get("reference")->source(), Reader::join_path(path, "reference"),
              fmt::format("{} is not a reference (allowed: fixed, return)", echo(*rname)));
@@ -668,7 +668,7 @@ std::vector<highlimit::Strategy> read_strategies(const Reader& r, const toml::ta
              fmt::format("give preset or conditions, not both (preset is on line {})",
                          line_of(t.get("preset")->source())));
     if (preset_text) {
-      const std::string preset = normalise_name(*preset_text);
+      const std::string preset = text::normalise_name(*preset_text);
       if (!highlimit::is_preset(preset))
         r.fail(t.get("preset")->source(), Reader::join_path(path, "preset"),
                fmt::format("{} is not a preset (allowed: {})", echo(*preset_text), preset_list()));
@@ -714,15 +714,6 @@ std::vector<highlimit::Strategy> read_strategies(const Reader& r, const toml::ta
 }
 
 }  // namespace
-
-std::string normalise_name(std::string_view name) {
-  std::string out;
-  for (unsigned char c : name) {
-    if (std::isspace(c)) continue;
-    out.push_back(c == '_' ? '-' : static_cast<char>(std::tolower(c)));
-  }
-  return out;
-}
 
 double Site::design_pressure_kpa() const {
   if (pressure_kpa) return *pressure_kpa;

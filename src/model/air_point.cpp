@@ -2,6 +2,7 @@
 
 #include <limitline/error.hpp>
 #include <limitline/model/plausible.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
@@ -50,19 +51,6 @@ constexpr std::pair<std::string_view, HumidityInput> kForms[] = {
     {"h", HumidityInput::enthalpy},       {"", HumidityInput::relative_humidity},
 };
 
-std::string_view trim(std::string_view s) {
-  while (!s.empty() && std::isspace(static_cast<unsigned char>(s.front()))) s.remove_prefix(1);
-  while (!s.empty() && std::isspace(static_cast<unsigned char>(s.back()))) s.remove_suffix(1);
-  return s;
-}
-
-bool starts_with_nocase(std::string_view s, std::string_view prefix) {
-  if (s.size() < prefix.size()) return false;
-  for (std::size_t i = 0; i < prefix.size(); ++i)
-    if (std::tolower(static_cast<unsigned char>(s[i])) != prefix[i]) return false;
-  return true;
-}
-
 // How the parts of a point are read: plainly, or each weighed against its band.
 struct PartReader {
   units::System bare;
@@ -81,7 +69,7 @@ struct PartReader {
 };
 
 AirPoint parse_point(std::string_view text, std::string_view origin, const PartReader& read) {
-  const std::string_view t = trim(text);
+  const std::string_view t = text::trim(text);
   const std::size_t slash = t.find('/');
   if (slash == std::string_view::npos)
     throw InputError(fmt::format("{}: {} needs a dry-bulb and a humidity separated by '/' "
@@ -90,16 +78,16 @@ AirPoint parse_point(std::string_view text, std::string_view origin, const PartR
   const bool ret = read.role == AirRole::return_air;
   AirPoint p;
   p.system = read.bare;
-  p.dry_bulb_c = read(Kind::temperature, kDryBulbBand[ret ? 1 : 0], trim(t.substr(0, slash)),
+  p.dry_bulb_c = read(Kind::temperature, kDryBulbBand[ret ? 1 : 0], text::trim(t.substr(0, slash)),
                       fmt::format("{} dry-bulb", origin));
-  const std::string_view humidity = trim(t.substr(slash + 1));
+  const std::string_view humidity = text::trim(t.substr(slash + 1));
   if (humidity.empty())
     throw InputError(fmt::format("{}: {} has nothing after '/' (allowed: {})", origin,
                                  echo(text), kAirPointForms));
   for (const auto& [prefix, input] : kForms) {
-    if (!starts_with_nocase(humidity, prefix)) continue;
+    if (!text::istarts_with(humidity, prefix)) continue;
     // A prefix only counts when a number follows it ("hot" is not an enthalpy).
-    const std::string_view rest = trim(humidity.substr(prefix.size()));
+    const std::string_view rest = text::trim(humidity.substr(prefix.size()));
     if (!prefix.empty() && (rest.empty() || !(std::isdigit(static_cast<unsigned char>(rest[0])) ||
                                               rest[0] == '.' || rest[0] == '-' || rest[0] == '+')))
       continue;

@@ -2,6 +2,7 @@
 #include <limitline/model/plausible.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
@@ -81,12 +82,6 @@ units::System other(units::System s) {
 
 bool inside(const Band& b, double v) { return units::within(v, b.lo, b.hi); }
 
-std::string_view trim(std::string_view s) {
-  while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
-  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
-  return s;
-}
-
 }  // namespace
 
 std::span<const Band> bands() { return kBands; }
@@ -112,7 +107,7 @@ double parse(const Band& band, std::string_view text, units::System bare, const 
   const std::string range = fmt::format(
       "outside the plausible range of {} ({} to {}, common practice)", band.what,
       units::format_brief(band.kind, bare, band.lo, 3), units::format_brief(band.kind, bare, band.hi, 3));
-  const std::string_view written = trim(text);
+  const std::string_view written = text::trim_blanks(text);
   if (units::has_unit(written)) {
     warnings.push_back(fmt::format("{}: {} ({}) is {}; used as written: check the value and its "
                                    "unit",

@@ -1,6 +1,8 @@
 // Quantities at the edges: one table of units, read both ways.
 #include <limitline/model/units.hpp>
 
+#include <limitline/text.hpp>
+
 #include <fmt/format.h>
 
 #include <algorithm>
@@ -140,20 +142,6 @@ const Unit& find_unit(const KindInfo& k, std::string_view spelling) {
   throw std::logic_error("units: default unit missing from its kind");
 }
 
-std::string normalise(std::string_view s) {
-  std::string out;
-  out.reserve(s.size());
-  for (unsigned char c : s)
-    if (!std::isspace(c)) out.push_back(static_cast<char>(std::tolower(c)));
-  return out;
-}
-
-std::string_view trim(std::string_view s) {
-  while (!s.empty() && std::isspace(static_cast<unsigned char>(s.front()))) s.remove_prefix(1);
-  while (!s.empty() && std::isspace(static_cast<unsigned char>(s.back()))) s.remove_suffix(1);
-  return s;
-}
-
 // The leading number of s (sign, digits, point, exponent). Commas may group the digits
 // before the point by three ("20,000", "1,250,000.5"); any other comma between digits is
 // refused, since "1,5" may be a decimal comma and "20,00" a typing slip.
@@ -233,7 +221,7 @@ constexpr double kRangeTolerance = 1e-9;
 }  // namespace
 
 System parse_system(std::string_view text, std::string_view origin) {
-  const std::string t = normalise(text);
+  const std::string t = text::lower_without_space(text);
   if (t == "ip") return System::ip;
   if (t == "si") return System::si;
   throw InputError(fmt::format("{}: {} is not a unit system (ip or si)", origin, echo(text)));
@@ -244,7 +232,7 @@ std::string_view system_name(System s) { return s == System::ip ? "ip" : "si"; }
 std::string_view kind_name(Kind k) { return info(k).name; }
 
 double parse_number(std::string_view text, std::string_view origin) {
-  std::string_view s = trim(text);
+  std::string_view s = text::trim(text);
   if (!s.empty() && s.front() == '+') s.remove_prefix(1);
   const Number n = read_number(s);
   if (!n.comma_error.empty())
@@ -257,7 +245,7 @@ double parse_number(std::string_view text, std::string_view origin) {
 }
 
 bool has_unit(std::string_view text) {
-  std::string_view s = trim(text);
+  std::string_view s = text::trim(text);
   if (!s.empty() && s.front() == '+') s.remove_prefix(1);
   const Number n = read_number(s);
   return n.length > 0 && n.length < s.size();
@@ -265,7 +253,7 @@ bool has_unit(std::string_view text) {
 
 double parse(Kind kind, std::string_view text, System bare, std::string_view origin) {
   const KindInfo& k = info(kind);
-  std::string_view s = trim(text);
+  std::string_view s = text::trim(text);
   if (!s.empty() && s.front() == '+') s.remove_prefix(1);
   const Number n = read_number(s);
   if (!n.comma_error.empty())
@@ -273,7 +261,7 @@ double parse(Kind kind, std::string_view text, System bare, std::string_view ori
   if (n.length == 0)
     throw InputError(fmt::format("{}: {} is not {} (write a number with a unit, e.g. {})",
                                  origin, echo(text), k.name, k.example));
-  const std::string suffix = normalise(s.substr(n.length));
+  const std::string suffix = text::lower_without_space(s.substr(n.length));
   const Unit* unit = nullptr;
   if (suffix.empty()) {
     if (kind == Kind::fraction && n.value > 0.0 && n.value < 1.0)

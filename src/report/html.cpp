@@ -2,6 +2,7 @@
 
 #include <limitline/report/chart.hpp>
 #include <limitline/report/table.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
@@ -139,7 +140,7 @@ struct Block {
 std::string slug(std::string_view s) {
   std::string out;
   for (char c : s) {
-    if (std::isalnum(static_cast<unsigned char>(c))) out += static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    if (std::isalnum(static_cast<unsigned char>(c))) out += text::to_lower(c);
     else if (!out.empty() && out.back() != '-') out += '-';
     if (out.size() >= 40) break;
   }

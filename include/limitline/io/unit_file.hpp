@@ -10,6 +10,7 @@
 #include <limitline/model/airside.hpp>
 #include <limitline/model/highlimit.hpp>
 #include <limitline/model/units.hpp>
+#include <limitline/text.hpp>
 
 #include <toml++/toml.h>
 
@@ -70,7 +71,7 @@ std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit);
 
 // A name as the unit file compares it: no case, no spaces, '_' the same as '-' ("Dew_Point"
 // → "dew-point"), for every layer that reads names from its tables.
-std::string normalise_name(std::string_view name);
+using text::normalise_name;
 
 // "FILE:LINE: KEY" for a node read from a unit file, the prefix of every message about it
 // (for the layers that validate [weather], [schedule] and [sensors]).
