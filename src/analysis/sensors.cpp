@@ -4,6 +4,7 @@
 #include <limitline/error.hpp>
 #include <limitline/model/plausible.hpp>
 #include <limitline/model/psychro.hpp>
+#include <limitline/names.hpp>
 #include <limitline/text.hpp>
 
 #include <fmt/format.h>
@@ -67,11 +68,6 @@ const SensorRow* row_by_key(std::string_view key) {
   return nullptr;
 }
 
-template <class T>
-struct Named {
-  std::string_view name;
-  T value;
-};
 constexpr Named<HumidityKind> kKindNames[] = {
     {"rh", HumidityKind::relative_humidity},
     {"relative-humidity", HumidityKind::relative_humidity},
@@ -84,13 +80,6 @@ constexpr Named<BiasDistribution> kDistributionNames[] = {
 };
 constexpr std::string_view kKindKey = "outdoor_humidity_kind";
 constexpr std::string_view kDistributionKey = "distribution";
-
-template <class T, std::size_t N>
-std::string names_of(const Named<T> (&names)[N]) {
-  std::string out;
-  for (const auto& n : names) out += (out.empty() ? "" : ", ") + std::string(n.name);
-  return out;
-}
 
 // --- Random numbers -----------------------------------------------------------------------
 
@@ -290,18 +279,9 @@ bool all_done(const std::vector<std::uint8_t>& done) {
 
 // --- Names and the sensor table ---------------------------------------------------------------
 
-std::string_view humidity_kind_name(HumidityKind k) {
-  switch (k) {
-    case HumidityKind::relative_humidity: return "rh";
-    case HumidityKind::dew_point: return "dew-point";
-    case HumidityKind::enthalpy: return "enthalpy";
-  }
-  return "rh";
-}
+std::string_view humidity_kind_name(HumidityKind k) { return name_in(kKindNames, k); }
 
-std::string_view distribution_name(BiasDistribution d) {
-  return d == BiasDistribution::normal ? "normal" : "uniform";
-}
+std::string_view distribution_name(BiasDistribution d) { return name_in(kDistributionNames, d); }
 
 std::string_view sensor_key(Sensor s, HumidityKind k) { return row(s, k).key; }
 std::string_view sensor_label(Sensor s, HumidityKind k) { return row(s, k).label; }
@@ -341,11 +321,10 @@ SensorSet read_sensors(const toml::table* table, std::string_view file, units::S
   std::optional<HumidityKind> kind;
   if (kind_node) {
     const std::string name = text_of(*kind_node, kKindKey, false);
-    for (const auto& k : kKindNames)
-      if (k.name == text::normalise_name(name)) kind = k.value;
+    kind = value_in(kKindNames, text::normalise_name(name));
     if (!kind)
       fail(kind_node->source(), kKindKey,
-           fmt::format("{} is not allowed (allowed: {})", echo(name), names_of(kKindNames)));
+           fmt::format("{} is not allowed (allowed: {})", echo(name), names_in(kKindNames)));
   }
   // Keys in the order written (the table itself keeps them sorted by name), so that every
   // message is about the first offending line.
@@ -413,14 +392,13 @@ SensorSet read_sensors(const toml::table* table, std::string_view file, units::S
   }
   if (const toml::node* d = table->get(kDistributionKey)) {
     const std::string name = text_of(*d, kDistributionKey, false);
-    bool found = false;
-    for (const auto& n : kDistributionNames)
-      if (n.name == text::normalise_name(name)) s.distribution = n.value, found = true;
-    if (!found)
+    const auto distribution = value_in(kDistributionNames, text::normalise_name(name));
+    if (!distribution)
       fail(d->source(), kDistributionKey,
            fmt::format("{} is not allowed (allowed: {}; with normal, each accuracy is the "
                        "standard deviation)",
-                       echo(name), names_of(kDistributionNames)));
+                       echo(name), names_in(kDistributionNames)));
+    s.distribution = *distribution;
   }
   return s;
 }

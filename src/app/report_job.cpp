@@ -32,10 +32,10 @@ std::vector<std::pair<std::string, std::string>> unit_facts(const UnitFile& u, u
   std::vector<std::pair<std::string, std::string>> f = {
       {"Supply air", fmt::format("{} at {}", q(Kind::airflow, s, a.supply_airflow_m3_per_s, s == units::System::ip ? 0 : 3),
                                  q(Kind::temperature, s, a.supply_air_temp_c, 1))},
-      {"Supply fan", fmt::format("{}, heat {}", a.fan_position == airside::FanPosition::draw_through ? "draw-through" : "blow-through",
+      {"Supply fan", fmt::format("{}, heat {}", airside::fan_position_name(a.fan_position),
                                  q(Kind::temperature_difference, s, a.fan_heat_k, 1))},
       {"Outdoor air", fmt::format("{} minimum, {} maximum; {} economizer", min_oa, q(Kind::fraction, s, a.max_oa_fraction, 0),
-                                  a.economizer == airside::EconomizerType::integrated ? "integrated" : "non-integrated")},
+                                  airside::economizer_name(a.economizer))},
       {"Mixed-air target", q(Kind::temperature, s, a.mixed_air_target_c(), 1)},
       {"Cooling coil", fmt::format("leaving {}, at most {} RH", q(Kind::temperature, s, a.coil_leaving_temp_c(), 1),
                                    q(Kind::fraction, s, a.coil_leaving_rh_max, 0))},
@@ -134,8 +134,7 @@ std::optional<report::ComplianceSection> compliance(const UnitFile& unit, std::s
   if (integ.rule && integ.rule->required)
     out.notes.push_back(fmt::format("Economizer integration ({}): {} This unit's economizer is {}: {}.", integ.rule->clause,
                                     integ.rule->requirement,
-                                    unit.air_handler.economizer == airside::EconomizerType::integrated ? "integrated"
-                                                                                                      : "non-integrated",
+                                    airside::economizer_name(unit.air_handler.economizer),
                                     integ.complies ? "complies" : "does not comply"));
   if (!ed.provenance.empty()) out.notes.push_back("Code table values: " + ed.provenance + ".");
   for (const auto& st : strategies) {

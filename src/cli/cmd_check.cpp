@@ -113,13 +113,6 @@ std::string why(const StrategyOutcome& o, const View& view) {
                      view.q(highlimit::quantity_difference_kind(c.quantity), r.excess));
 }
 
-std::string fan_text(airside::FanPosition f) {
-  return f == airside::FanPosition::draw_through ? "draw-through" : "blow-through";
-}
-std::string economizer_text(airside::EconomizerType e) {
-  return e == airside::EconomizerType::integrated ? "integrated" : "non-integrated";
-}
-
 struct Inputs {
   const UnitFile& unit;
   std::string outdoor_source;
@@ -150,9 +143,9 @@ std::string summary_lines(const Inputs& in, const PointCheck& pc, const View& vi
        fmt::format("{} supply at {}; fan heat {}, {}; outdoor air {} to {}; {} economizer",
                    view.q(Kind::airflow, a.supply_airflow_m3_per_s),
                    view.q(Kind::temperature, a.supply_air_temp_c),
-                   view.q(Kind::temperature_difference, a.fan_heat_k), fan_text(a.fan_position),
+                   view.q(Kind::temperature_difference, a.fan_heat_k), airside::fan_position_name(a.fan_position),
                    min_oa, view.q(Kind::fraction, a.max_oa_fraction),
-                   economizer_text(a.economizer))},
+                   airside::economizer_name(a.economizer))},
       {"Targets", fmt::format("mixed air {}; coil leaving {} at most {} RH",
                               view.q(Kind::temperature, pc.mixed_air_target_c),
                               view.q(Kind::temperature, a.coil_leaving_temp_c()),
@@ -446,10 +439,10 @@ std::string json_report(const Inputs& in, const PointCheck& pc, const View& view
   j.field(view.key("supply_air_temp", Kind::temperature), view.v(Kind::temperature, a.supply_air_temp_c));
   j.field(view.key("fan_heat", Kind::temperature_difference),
           view.v(Kind::temperature_difference, a.fan_heat_k));
-  j.field("fan_position", fan_text(a.fan_position));
+  j.field("fan_position", airside::fan_position_name(a.fan_position));
   j.field(view.key("min_outdoor_air", Kind::fraction), view.v(Kind::fraction, a.min_oa_fraction));
   j.field(view.key("max_outdoor_air", Kind::fraction), view.v(Kind::fraction, a.max_oa_fraction));
-  j.field("economizer", economizer_text(a.economizer));
+  j.field("economizer", airside::economizer_name(a.economizer));
   j.field(view.key("mixed_air_target", Kind::temperature),
           view.v(Kind::temperature, pc.mixed_air_target_c));
   j.field(view.key("coil_leaving", Kind::temperature),

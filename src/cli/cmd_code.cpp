@@ -73,13 +73,9 @@ std::string details() {
 
 
 airside::EconomizerType parse_economizer(const std::string& text) {
-  if (text == "integrated") return airside::EconomizerType::integrated;
-  if (text == "non-integrated") return airside::EconomizerType::non_integrated;
-  throw UsageError(fmt::format("--economizer: '{}' is not integrated or non-integrated", text));
-}
-
-std::string_view economizer_name(airside::EconomizerType t) {
-  return t == airside::EconomizerType::integrated ? "integrated" : "non-integrated";
+  if (const auto e = airside::economizer_from_name(text)) return *e;
+  throw UsageError(fmt::format("--economizer: '{}' is not {}", text,
+                               names_in(airside::economizer_names(), " or ")));
 }
 
 // --- Pieces shared by the outputs -----------------------------------------------------------
@@ -238,7 +234,7 @@ void json_integration(report::Json& j, const codes::Edition& e,
   j.field("required", e.integration.required).field("clause", e.integration.clause);
   j.field("requirement", e.integration.requirement).field("provenance", e.integration.provenance);
   if (mode) {
-    j.field("economizer", economizer_name(*mode));
+    j.field("economizer", airside::economizer_name(*mode));
     j.field("complies", codes::check_integration(e, *mode).complies);
   }
   j.end_object();
@@ -275,7 +271,7 @@ std::string integration_text(Format f, const codes::Edition& e,
                      rule.clause, rule.requirement);
   if (mode) {
     const bool ok = codes::check_integration(e, *mode).complies;
-    out += fmt::format("{}{} economizer: {} -> {}\n", bullet, whose, economizer_name(*mode),
+    out += fmt::format("{}{} economizer: {} -> {}\n", bullet, whose, airside::economizer_name(*mode),
                        ok ? "complies" : "does not comply (the economizer must keep running "
                                          "together with mechanical cooling)");
   }
@@ -645,6 +641,8 @@ std::string editions_list(const codes::CodeTables& tables, Format f) {
 }  // namespace
 
 int run_code(const std::vector<std::string>& args) {
+  const std::string economizer_help =
+      names_in(airside::economizer_names(), " or ") + ": checked against the edition";
   po::options_description options("options");
   options.add_options()
       ("unit", po::value<std::string>(), "unit file (TOML) whose strategies are judged")
@@ -652,7 +650,7 @@ int run_code(const std::vector<std::string>& args) {
       ("zone", po::value<std::string>(), "climate zone, e.g. 4A, 7, CZ12")
       ("elevation", po::value<std::string>(), "site elevation for the standard pressure (6000ft, 1830m)")
       ("pressure", po::value<std::string>(), "site pressure (11.8psia, 81.2kPa)")
-      ("economizer", po::value<std::string>(), "integrated or non-integrated: checked against the edition")
+      ("economizer", po::value<std::string>(), economizer_help.c_str())
       ("all-editions", po::bool_switch(), "matrix, zone x edition, of what is allowed")
       ("list-editions", po::bool_switch(), "list the loaded editions and their files")
       ("code-table", po::value<std::vector<std::string>>()->composing(),

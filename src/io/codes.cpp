@@ -4,6 +4,7 @@
 #include <limitline/io/input_file.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/names.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/io/toml_depth.hpp>
 
@@ -34,15 +35,15 @@ constexpr std::string_view kCaliforniaZones[] = {"CZ1",  "CZ2",  "CZ3",  "CZ4", 
                                                  "CZ7",  "CZ8",  "CZ9",  "CZ10", "CZ11", "CZ12",
                                                  "CZ13", "CZ14", "CZ15", "CZ16"};
 
-constexpr std::pair<ZoneSystem, std::string_view> kZoneSystemNames[] = {
-    {ZoneSystem::ashrae169, "ashrae-169"}, {ZoneSystem::california, "california"}};
-constexpr std::pair<Permission, std::string_view> kPermissionNames[] = {
-    {Permission::allowed, "allowed"}, {Permission::prohibited, "prohibited"}};
-constexpr std::pair<Verdict, std::string_view> kVerdictWords[] = {
-    {Verdict::complies, "complies"},
-    {Verdict::not_allowed, "not-allowed"},
-    {Verdict::set_wrong, "set-wrong"},
-    {Verdict::not_evaluable, "not-evaluable"}};
+constexpr Named<ZoneSystem> kZoneSystemNames[] = {
+    {"ashrae-169", ZoneSystem::ashrae169}, {"california", ZoneSystem::california}};
+constexpr Named<Permission> kPermissionNames[] = {
+    {"allowed", Permission::allowed}, {"prohibited", Permission::prohibited}};
+constexpr Named<Verdict> kVerdictWords[] = {
+    {"complies", Verdict::complies},
+    {"not-allowed", Verdict::not_allowed},
+    {"set-wrong", Verdict::set_wrong},
+    {"not-evaluable", Verdict::not_evaluable}};
 
 constexpr Quantity kQuantities[] = {Quantity::dry_bulb, Quantity::enthalpy, Quantity::dew_point,
                                     Quantity::humidity_ratio};
@@ -51,13 +52,6 @@ constexpr Reference kReferences[] = {Reference::fixed, Reference::return_air};
 // Presets never compare a humidity ratio (match_control reads it as a dew point), so this
 // only bounds the comparison should a table ever carry one.
 constexpr double kHumidityRatioTolerance = 0.00001;
-
-template <class E, std::size_t N>
-std::string_view name_of(const std::pair<E, std::string_view> (&table)[N], E e) {
-  for (auto [k, n] : table)
-    if (k == e) return n;
-  return "?";
-}
 
 std::string join(const std::vector<std::string>& items, std::string_view sep) {
   std::string out;
@@ -383,10 +377,10 @@ Edition read_edition(const toml::table& doc, const std::string& file) {
       r.fail("id", fmt::format("{} must be lower-case letters, digits, '.', '-' or '+'", echo(e.id)));
   e.title = *r.string("title", true);
   const std::string system = *r.string("zone_system", true);
-  bool known = false;
-  for (auto [s, name] : kZoneSystemNames)
-    if (name == system) e.zone_system = s, known = true;
-  if (!known) r.fail("zone_system", fmt::format("{} is not ashrae-169 or california", echo(system)));
+  if (const auto s = value_in(kZoneSystemNames, system)) e.zone_system = *s;
+  else
+    r.fail("zone_system",
+           fmt::format("{} is not {}", echo(system), names_in(kZoneSystemNames, " or ")));
   for (const std::string& z : r.strings("zones", true)) {
     std::string canon;
     try {
@@ -399,9 +393,10 @@ Edition read_edition(const toml::table& doc, const std::string& file) {
   }
   if (e.zones.empty()) r.fail("zones", "lists no zone");
   const std::string governing = *r.string("governing_units", true);
-  if (governing == "ip") e.governing_units = System::ip;
-  else if (governing == "si") e.governing_units = System::si;
-  else r.fail("governing_units", fmt::format("{} is not ip or si", echo(governing)));
+  if (const auto s = value_in(units::system_names(), governing)) e.governing_units = *s;
+  else
+    r.fail("governing_units",
+           fmt::format("{} is not {}", echo(governing), names_in(units::system_names(), " or ")));
   e.si_note = r.string("si_note", false).value_or("");
   e.provenance = *r.string("provenance", true);
   r.finish("id, title, zone_system, zones, governing_units, si_note, provenance");
@@ -550,9 +545,9 @@ int decimals_for(Quantity q) { return q == Quantity::humidity_ratio ? 5 : 1; }
 
 // --- Zones --------------------------------------------------------------------------------
 
-std::string_view zone_system_name(ZoneSystem s) { return name_of(kZoneSystemNames, s); }
-std::string_view permission_name(Permission p) { return name_of(kPermissionNames, p); }
-std::string_view verdict_word(Verdict v) { return name_of(kVerdictWords, v); }
+std::string_view zone_system_name(ZoneSystem s) { return name_in(kZoneSystemNames, s); }
+std::string_view permission_name(Permission p) { return name_in(kPermissionNames, p); }
+std::string_view verdict_word(Verdict v) { return name_in(kVerdictWords, v); }
 
 std::span<const std::string_view> all_zones(ZoneSystem s) {
   if (s == ZoneSystem::california) return kCaliforniaZones;

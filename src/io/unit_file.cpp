@@ -7,6 +7,7 @@
 #include <limitline/model/plausible.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/io/toml_depth.hpp>
+#include <limitline/names.hpp>
 #include <limitline/text.hpp>
 
 #include <fmt/format.h>
@@ -89,22 +90,6 @@ const SettingBounds& bounds(Quantity q) {
     if (b.quantity == q) return b;
   return kBounds[0];
 }
-
-template <class T>
-struct Named {
-  std::string_view name;
-  T value;
-};
-constexpr Named<airside::FanPosition> kFanPositions[] = {
-    {"draw-through", airside::FanPosition::draw_through},
-    {"blow-through", airside::FanPosition::blow_through},
-};
-constexpr Named<airside::EconomizerType> kEconomizers[] = {
-    {"integrated", airside::EconomizerType::integrated},
-    {"non-integrated", airside::EconomizerType::non_integrated},
-};
-constexpr Named<units::System> kSystems[] = {{"ip", units::System::ip},
-                                             {"si", units::System::si}};
 
 // The return-air humidity forms of [air_handler].
 struct ReturnHumidityKey {
@@ -236,17 +221,14 @@ class Reader {
     fail(n->source(), join_path(path, key), fmt::format("must be a number, not {}", type_name(*n)));
   }
 
-  template <class T, std::size_t N>
+  template <class T>
   std::optional<T> choice(const toml::table& t, std::string_view key, std::string_view path,
-                          const Named<T> (&names)[N]) const {
+                          std::span<const Named<T>> names) const {
     const auto s = text(t, key, path);
     if (!s) return std::nullopt;
-    const std::string n = text::normalise_name(*s);
-    for (const auto& c : names)
-      if (c.name == n) return c.value;
+    if (const auto v = value_in(names, text::normalise_name(*s))) return v;
     fail(t.get(key)->source(), join_path(path, key),
-         fmt::format("{} is not allowed (allowed: {})", echo(*s),
-                     join(names, [](const Named<T>& c) { return std::string(c.name); })));
+         fmt::format("{} is not allowed (allowed: {})", echo(*s), names_in(names)));
   }
 
   // Bounds are inclusive, up to the rounding of a unit conversion ("36F" is the 20 K end):
@@ -301,8 +283,8 @@ units::System read_units(const Reader& r, const toml::table& root, const toml::t
            fmt::format("the unit system is already set by the top-level units (line {}); give "
                        "it once",
                        line_of(top->source())));
-  if (top) return *r.choice(root, "units", "", kSystems);
-  if (in_site) return *r.choice(*site, "units", "site", kSystems);
+  if (top) return *r.choice(root, "units", "", units::system_names());
+  if (in_site) return *r.choice(*site, "units", "site", units::system_names());
   return units::System::ip;
 }
 
@@ -369,8 +351,8 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
     r.check_range(t, "fan_heat", P, Kind::temperature_difference, *f, 0.0, 20.0);
     a.fan_heat_k = *f;
   }
-  if (auto f = r.choice(t, "fan_position", P, kFanPositions)) a.fan_position = *f;
-  if (auto e = r.choice(t, "economizer", P, kEconomizers)) a.economizer = *e;
+  if (auto f = r.choice(t, "fan_position", P, airside::fan_position_names())) a.fan_position = *f;
+  if (auto e = r.choice(t, "economizer", P, airside::economizer_names())) a.economizer = *e;
 
   // Ventilation minimum: a fraction, or an airflow (a ratio of standard-air volume flows is
   // the ratio of dry-air mass flows).

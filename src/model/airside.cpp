@@ -11,6 +11,15 @@
 namespace limitline::airside {
 namespace {
 
+constexpr Named<FanPosition> kFanPositionNames[] = {
+    {"draw-through", FanPosition::draw_through},
+    {"blow-through", FanPosition::blow_through},
+};
+constexpr Named<EconomizerType> kEconomizerNames[] = {
+    {"integrated", EconomizerType::integrated},
+    {"non-integrated", EconomizerType::non_integrated},
+};
+
 // Mixed-air temperatures this close to the target count as on target (rounding of x*).
 constexpr double kTargetToleranceK = 1e-9;
 constexpr double kFractionTolerance = 1e-12;
@@ -29,6 +38,18 @@ Operation operation_at(const AirHandler& unit, const HourAir& air, double x,
 }
 
 }  // namespace
+
+std::span<const Named<FanPosition>> fan_position_names() { return kFanPositionNames; }
+std::string_view fan_position_name(FanPosition f) { return name_in(kFanPositionNames, f); }
+std::optional<FanPosition> fan_position_from_name(std::string_view name) {
+  return value_in(kFanPositionNames, name);
+}
+
+std::span<const Named<EconomizerType>> economizer_names() { return kEconomizerNames; }
+std::string_view economizer_name(EconomizerType e) { return name_in(kEconomizerNames, e); }
+std::optional<EconomizerType> economizer_from_name(std::string_view name) {
+  return value_in(kEconomizerNames, name);
+}
 
 void validate(const AirHandler& u) {
   auto fail = [](const char* field, double v, const char* allowed) {

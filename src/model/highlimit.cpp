@@ -1,6 +1,7 @@
 #include <limitline/model/highlimit.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/names.hpp>
 #include <limitline/model/units.hpp>
 
 #include <fmt/format.h>
@@ -10,11 +11,11 @@
 namespace limitline::highlimit {
 namespace {
 
-constexpr std::pair<Quantity, std::string_view> kQuantityNames[] = {
-    {Quantity::dry_bulb, "dry-bulb"},
-    {Quantity::enthalpy, "enthalpy"},
-    {Quantity::dew_point, "dew-point"},
-    {Quantity::humidity_ratio, "humidity-ratio"},
+constexpr Named<Quantity> kQuantityNames[] = {
+    {"dry-bulb", Quantity::dry_bulb},
+    {"enthalpy", Quantity::enthalpy},
+    {"dew-point", Quantity::dew_point},
+    {"humidity-ratio", Quantity::humidity_ratio},
 };
 struct QuantityKinds {
   Quantity quantity;
@@ -26,9 +27,12 @@ constexpr QuantityKinds kQuantityKinds[] = {
     {Quantity::dew_point, units::Kind::temperature, units::Kind::temperature_difference},
     {Quantity::humidity_ratio, units::Kind::humidity_ratio, units::Kind::humidity_ratio},
 };
-constexpr std::pair<Reference, std::string_view> kReferenceNames[] = {
-    {Reference::fixed, "fixed"},
-    {Reference::return_air, "return"},
+// "return" is the name written; "return-air" and "differential" are read as synonyms.
+constexpr Named<Reference> kReferenceNames[] = {
+    {"fixed", Reference::fixed},
+    {"return", Reference::return_air},
+    {"return-air", Reference::return_air},
+    {"differential", Reference::return_air},
 };
 
 // Which setting of PresetSettings feeds a preset condition.
@@ -105,16 +109,10 @@ inline ConditionStatus evaluate(double outdoor, double limit, double deadband, b
 
 }  // namespace
 
-std::string_view quantity_name(Quantity q) {
-  for (auto [k, n] : kQuantityNames)
-    if (k == q) return n;
-  return "?";
-}
+std::string_view quantity_name(Quantity q) { return name_in(kQuantityNames, q); }
 
 std::optional<Quantity> quantity_from_name(std::string_view name) {
-  for (auto [k, n] : kQuantityNames)
-    if (n == name) return k;
-  return std::nullopt;
+  return value_in(kQuantityNames, name);
 }
 
 units::Kind quantity_kind(Quantity q) {
@@ -129,17 +127,10 @@ units::Kind quantity_difference_kind(Quantity q) {
   return units::Kind::temperature_difference;
 }
 
-std::string_view reference_name(Reference r) {
-  for (auto [k, n] : kReferenceNames)
-    if (k == r) return n;
-  return "?";
-}
+std::string_view reference_name(Reference r) { return name_in(kReferenceNames, r); }
 
 std::optional<Reference> reference_from_name(std::string_view name) {
-  for (auto [k, n] : kReferenceNames)
-    if (n == name) return k;
-  if (name == "return-air" || name == "differential") return Reference::return_air;
-  return std::nullopt;
+  return value_in(kReferenceNames, name);
 }
 
 AirValues air_values(double dry_bulb_c, double enthalpy_kj_per_kg, double dew_point_c,

@@ -218,16 +218,18 @@ std::string with_label(Kind kind, System system, std::string_view number);
 // bound 1e-9 wide absorbs it and nothing a user could mean.
 constexpr double kRangeTolerance = 1e-9;
 
+constexpr Named<System> kSystemNames[] = {{"ip", System::ip}, {"si", System::si}};
+
 }  // namespace
 
 System parse_system(std::string_view text, std::string_view origin) {
-  const std::string t = text::lower_without_space(text);
-  if (t == "ip") return System::ip;
-  if (t == "si") return System::si;
-  throw InputError(fmt::format("{}: {} is not a unit system (ip or si)", origin, echo(text)));
+  if (const auto s = value_in(kSystemNames, text::lower_without_space(text))) return *s;
+  throw InputError(fmt::format("{}: {} is not a unit system ({})", origin, echo(text),
+                               names_in(kSystemNames, " or ")));
 }
 
-std::string_view system_name(System s) { return s == System::ip ? "ip" : "si"; }
+std::string_view system_name(System s) { return name_in(kSystemNames, s); }
+std::span<const Named<System>> system_names() { return kSystemNames; }
 
 std::string_view kind_name(Kind k) { return info(k).name; }
 

@@ -650,8 +650,7 @@ class Composer {
       out += fmt::format("the supply-air setpoint of {} less {} for the heat of the {} supply "
                          "fan{}.",
                          t(a.supply_air_temp_c), dt(a.fan_heat_k),
-                         a.fan_position == airside::FanPosition::draw_through ? "draw-through"
-                                                                               : "blow-through",
+                         airside::fan_position_name(a.fan_position),
                          a.fan_position == airside::FanPosition::draw_through
                              ? ", which adds it after the cooling coil"
                              : ", which adds it ahead of the cooling coil");

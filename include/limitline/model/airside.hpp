@@ -6,11 +6,25 @@
 // (damper at the ventilation minimum) or enabled (damper per the damper rule). Both are
 // computed once per hour here, so every high-limit strategy of an annual run shares them.
 #include <limitline/model/psychro.hpp>
+#include <limitline/names.hpp>
+
+#include <optional>
+#include <span>
+#include <string_view>
 
 namespace limitline::airside {
 
 enum class FanPosition { draw_through, blow_through };
+// "draw-through", "blow-through": as unit files, reports and sequences spell them.
+[[nodiscard]] std::span<const Named<FanPosition>> fan_position_names();
+[[nodiscard]] std::string_view fan_position_name(FanPosition f);
+[[nodiscard]] std::optional<FanPosition> fan_position_from_name(std::string_view name);
+
 enum class EconomizerType { integrated, non_integrated };
+// "integrated", "non-integrated".
+[[nodiscard]] std::span<const Named<EconomizerType>> economizer_names();
+[[nodiscard]] std::string_view economizer_name(EconomizerType e);
+[[nodiscard]] std::optional<EconomizerType> economizer_from_name(std::string_view name);
 
 // Mass flow of dry air from a volume flow at standard air (common practice: 1.204 kg/m³,
 // 0.075 lb/ft³), the basis on which supply airflows are scheduled.

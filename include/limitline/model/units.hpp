@@ -5,7 +5,9 @@
 // IP enthalpy uses a 0 °F dry-air datum and SI a 0 °C one, so an enthalpy is converted with
 // the datum shift h_IP = h_SI/2.326 + 7.68 (0.240 Btu/lb·°F × 32 °F), never as plain energy.
 #include <limitline/error.hpp>
+#include <limitline/names.hpp>
 
+#include <span>
 #include <string>
 #include <string_view>
 #include <utility>
@@ -16,7 +18,8 @@ enum class System { ip, si };
 
 // "ip" or "si" (any case); anything else is an InputError naming `origin`.
 System parse_system(std::string_view text, std::string_view origin = "--units");
-std::string_view system_name(System s);
+[[nodiscard]] std::string_view system_name(System s);  // "ip", "si"
+[[nodiscard]] std::span<const Named<System>> system_names();
 
 // Kinds of quantity the tool reads and writes. Each has its SI unit, a default unit for bare
 // numbers in each system, and the spellings it accepts.
