@@ -1,5 +1,6 @@
 #include <limitline/io/schedule_file.hpp>
 
+#include <limitline/calendar.hpp>
 #include <limitline/error.hpp>
 #include <limitline/text.hpp>
 
@@ -105,8 +106,7 @@ Schedule read_schedule(const toml::table& table, std::string_view file) {
         if (ok) {
           ok = std::from_chars(v->data(), v->data() + 2, m).ec == std::errc() &&
                std::from_chars(v->data() + 3, v->data() + 5, d).ec == std::errc();
-          static constexpr int kDays[] = {31, 29, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31};
-          ok = ok && m >= 1 && m <= 12 && d >= 1 && d <= kDays[m - 1];
+          ok = ok && calendar::is_date(m, d);  // a holiday has no year: 02-29 is allowed
         }
         if (!ok)
           throw InputError(fmt::format("{}: '{}' is not a date (\"MM-DD\", e.g. \"12-25\")",
