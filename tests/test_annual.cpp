@@ -44,7 +44,7 @@ Year run_year(const std::string& unit_text, std::vector<highlimit::Strategy> str
   Year y{parse_unit_file(unit_text, "test.toml"), {}, outdoor_intervals(greensboro()), {}, {}};
   if (y.unit.schedule) y.schedule = read_schedule(*y.unit.schedule, "test.toml");
   if (strategies.empty()) strategies = strategies_or_presets(y.unit);
-  y.prepared = annual::prepare(y.unit.air_handler, return_air_spec(y.unit), y.weather, y.schedule, {});
+  y.prepared = annual::prepare(y.unit.air_handler, y.unit.return_air, y.weather, y.schedule, {});
   annual::RunOptions opt;
   opt.keep_decisions = keep;
   y.result = annual::evaluate(strategies, y.prepared, opt);
@@ -183,7 +183,7 @@ TEST_CASE("results are stable: same input, same numbers; half-hour rows give the
     w.start_min += 30;
     halves.push_back(w);
   }
-  const auto p = annual::prepare(a.unit.air_handler, return_air_spec(a.unit), halves, a.schedule, {});
+  const auto p = annual::prepare(a.unit.air_handler, a.unit.return_air, halves, a.schedule, {});
   const auto h = annual::evaluate(strategies_or_presets(a.unit), p);
   CHECK(p.operating_hours == doctest::Approx(a.prepared.operating_hours));
   CHECK(h.no_economizer.annual.cooling_kwh == doctest::Approx(a.result.no_economizer.annual.cooling_kwh));

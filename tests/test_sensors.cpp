@@ -54,7 +54,7 @@ struct Year {
     strategies.push_back(highlimit::make_preset("fixed-dry-bulb", s, "fixed dry-bulb, 2F deadband"));
     strategies.push_back(highlimit::make_preset("fixed-enthalpy", s, "fixed enthalpy, deadband"));
     const auto w = weather::read_file(kGreensboro, weather::Mapping{}, unit.site.design_pressure_kpa());
-    prepared = annual::prepare(unit.air_handler, return_air_spec(unit), outdoor_intervals(w),
+    prepared = annual::prepare(unit.air_handler, unit.return_air, outdoor_intervals(w),
                                read_schedule(*unit.schedule, unit.path), {});
   }
 };

@@ -88,7 +88,7 @@ std::string_view reference_name(Kind k) {
   return "strategy";
 }
 
-Prepared prepare(const airside::AirHandler& unit, const ReturnAirSpec& ret_spec,
+Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
                  std::span<const OutdoorInterval> weather, const Schedule& schedule,
                  const PrepareOptions& opt) {
   airside::validate(unit);

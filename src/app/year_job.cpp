@@ -168,17 +168,12 @@ std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSer
   return out;
 }
 
-annual::ReturnAirSpec return_air_spec(const UnitFile& unit) {
-  return {unit.return_air.dry_bulb_c, unit.return_air.humidity_kind,
-          unit.return_air.humidity_value};
-}
-
 annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point) {
   const auto intervals = outdoor_intervals(in.weather);
   annual::PrepareOptions opt;
   opt.weights = in.unit.weights;
   opt.compute_dew_point = compute_dew_point;
-  return annual::prepare(in.unit.air_handler, return_air_spec(in.unit), intervals, in.schedule, opt);
+  return annual::prepare(in.unit.air_handler, in.unit.return_air, intervals, in.schedule, opt);
 }
 
 report::YearContext year_context(const YearInputs& in, units::System s) {

@@ -40,7 +40,7 @@ void BM_YearWithParse(benchmark::State& state) {
     const auto w = weather::read_text(weather_text(), "greensboro", weather::Mapping{},
                                       unit.site.design_pressure_kpa());
     const auto iv = outdoor_intervals(w);
-    const auto p = annual::prepare(unit.air_handler, return_air_spec(unit), iv, schedule, {});
+    const auto p = annual::prepare(unit.air_handler, unit.return_air, iv, schedule, {});
     auto y = annual::evaluate(strategies, p);
     benchmark::DoNotOptimize(y);
   }
@@ -55,7 +55,7 @@ void BM_YearWithoutParse(benchmark::State& state) {
                                     unit.site.design_pressure_kpa());
   const auto iv = outdoor_intervals(w);
   for (auto _ : state) {
-    const auto p = annual::prepare(unit.air_handler, return_air_spec(unit), iv, schedule, {});
+    const auto p = annual::prepare(unit.air_handler, unit.return_air, iv, schedule, {});
     auto y = annual::evaluate(strategies, p);
     benchmark::DoNotOptimize(y);
   }
@@ -70,7 +70,7 @@ void BM_StrategiesOnPreparedYear(benchmark::State& state) {
   const auto w = weather::read_text(weather_text(), "greensboro", weather::Mapping{},
                                     unit.site.design_pressure_kpa());
   const auto iv = outdoor_intervals(w);
-  const auto p = annual::prepare(unit.air_handler, return_air_spec(unit), iv, schedule, {});
+  const auto p = annual::prepare(unit.air_handler, unit.return_air, iv, schedule, {});
   for (auto _ : state) {
     for (const auto& s : strategies) {
       auto r = annual::run(s, p);

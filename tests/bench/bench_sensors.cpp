@@ -27,7 +27,7 @@ struct Setup {
   Setup() {
     const auto w = weather::read_file(test::greensboro_path(),
                                       weather::Mapping{}, unit.site.design_pressure_kpa());
-    prepared = annual::prepare(unit.air_handler, return_air_spec(unit), outdoor_intervals(w),
+    prepared = annual::prepare(unit.air_handler, unit.return_air, outdoor_intervals(w),
                                Schedule{}, {});
   }
 };

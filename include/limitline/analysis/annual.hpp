@@ -6,6 +6,7 @@
 // The work is split in two so that the sensor study can reuse it: `prepare` computes, once per
 // interval, the true outdoor and return states and the disabled, enabled and optimal
 // operations; `run` then only decides and accumulates, which is cheap per strategy.
+#include <limitline/model/air_point.hpp>
 #include <limitline/model/airside.hpp>
 #include <limitline/model/highlimit.hpp>
 #include <limitline/model/psychro.hpp>
@@ -29,13 +30,6 @@ struct OutdoorInterval {
   double dry_bulb_c;
   double humidity_ratio;
   double pressure_kpa;
-};
-
-// The return air as the unit file gives it; its humidity ratio follows each hour's pressure.
-struct ReturnAirSpec {
-  double dry_bulb_c;
-  psychro::HumidityInput humidity_kind;
-  double humidity_value;  // SI
 };
 
 // Energy and hours of one operation over one interval.
@@ -80,7 +74,9 @@ struct PrepareOptions {
   bool compute_dew_point = true;  // needed by dew-point conditions and hourly output
 };
 
-Prepared prepare(const airside::AirHandler& unit, const ReturnAirSpec& ret,
+// `ret` is the return air as the unit file gives it: its humidity ratio follows each
+// interval's pressure.
+Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret,
                  std::span<const OutdoorInterval> weather, const Schedule& schedule,
                  const PrepareOptions& options);
 

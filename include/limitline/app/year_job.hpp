@@ -77,7 +77,6 @@ YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
 
 // The weather series as the annual engine's intervals.
 std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w);
-annual::ReturnAirSpec return_air_spec(const UnitFile& unit);
 
 annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point = true);
 
