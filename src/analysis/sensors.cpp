@@ -5,17 +5,15 @@
 #include <limitline/model/plausible.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/names.hpp>
+#include <limitline/parallel.hpp>
 #include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
 #include <algorithm>
 #include <cmath>
-#include <exception>
 #include <map>
-#include <mutex>
 #include <numeric>
-#include <thread>
 
 namespace limitline::sensors {
 namespace {
@@ -226,49 +224,15 @@ bool is_humidity(Quantity q) { return q != Quantity::dry_bulb; }
 
 // --- Running in parallel ------------------------------------------------------------------
 
-// Runs work(i, workspace) for i in [0, n) on the control's threads; every thread makes its
-// own workspace once. Returns which i finished (all of them unless cancelled). Progress is
-// reported from the calling thread, which works too.
-template <class MakeWorkspace, class Work>
-std::vector<std::uint8_t> parallel_for(std::size_t n, const RunControl& control,
-                                       std::string_view phase, MakeWorkspace make, Work work) {
-  std::vector<std::uint8_t> done(n, 0);
-  std::atomic<std::size_t> next{0}, finished{0};
-  std::atomic<bool> failed{false};
-  std::exception_ptr error;
-  std::mutex error_mutex;
-  auto stopped = [&] {
-    return failed.load(std::memory_order_relaxed) ||
-           (control.cancel && control.cancel->load(std::memory_order_relaxed));
-  };
-  auto worker = [&](bool reports) {
-    try {
-      auto ws = make();
-      while (!stopped()) {
-        const std::size_t i = next.fetch_add(1);
-        if (i >= n) break;
-        work(i, ws);
-        done[i] = 1;  // each index is written by one thread only
-        const std::size_t d = finished.fetch_add(1) + 1;
-        if (reports && control.progress) control.progress(phase, d, n);
-      }
-    } catch (...) {
-      // An exception must never leave a worker thread: keep the first, stop the rest.
-      std::lock_guard<std::mutex> lock(error_mutex);
-      if (!error) error = std::current_exception();
-      failed = true;
-    }
-  };
-  unsigned threads = control.threads ? control.threads : std::thread::hardware_concurrency();
-  threads = static_cast<unsigned>(std::clamp<std::size_t>(threads, 1, std::max<std::size_t>(n, 1)));
-  std::vector<std::thread> pool;
-  pool.reserve(threads - 1);
-  for (unsigned t = 1; t < threads; ++t) pool.emplace_back(worker, false);
-  worker(true);
-  for (auto& t : pool) t.join();
-  if (error) std::rethrow_exception(error);
-  if (control.progress) control.progress(phase, finished.load(), n);
-  return done;
+// The pool's run for one phase of the work: the control's threads and cancel flag, its
+// progress labelled with `phase`.
+ParallelRun parallel_run(const RunControl& control, std::string_view phase) {
+  ParallelRun run{control.threads, control.cancel, nullptr};
+  if (control.progress)
+    run.progress = [&control, phase](std::size_t done, std::size_t total) {
+      control.progress(phase, done, total);
+    };
+  return run;
 }
 
 bool all_done(const std::vector<std::uint8_t>& done) {
@@ -672,7 +636,7 @@ StudyResult run_study(const Engine& engine, const SensorSet& sensors, const Stud
   std::vector<Biases> biases(n);
   std::vector<Clamps> clamps(n);
   const auto done = parallel_for(
-      n, control, "trials", [&] { return engine.workspace(); },
+      n, parallel_run(control, "trials"), [&] { return engine.workspace(); },
       [&](std::size_t k, Engine::Workspace& ws) {
         biases[k] = draw_biases(sensors, opt.seed, k);
         engine.run(biases[k], ws, std::span(outcomes).subspan(k * n_s, n_s), clamps[k]);
@@ -790,7 +754,7 @@ SweepResult run_sweep(const annual::Prepared& p, std::span<const highlimit::Stra
   r.outcomes.assign(spec.biases.size(), std::vector<TrialOutcome>(n_s));
   r.clamps.resize(spec.biases.size());
   r.completed = parallel_for(
-      spec.biases.size(), control, "sweep", [&] { return engine.workspace(); },
+      spec.biases.size(), parallel_run(control, "sweep"), [&] { return engine.workspace(); },
       [&](std::size_t i, Engine::Workspace& ws) {
         Biases b{};
         at(b, spec.sensor) = spec.biases[i];
@@ -905,7 +869,7 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
     const std::size_t n_s = sub.strategies().size();
     std::vector<TrialOutcome> out(r.trials * n_s);
     const auto done = parallel_for(
-        r.trials, inner, "break-even", [&] { return sub.workspace(); },
+        r.trials, parallel_run(inner, "break-even"), [&] { return sub.workspace(); },
         [&](std::size_t k, Engine::Workspace& ws) {
           Clamps c;
           sub.run(draw_biases(s, opt.seed, k), ws, std::span(out).subspan(k * n_s, n_s), c);

@@ -4,6 +4,7 @@
 #include <limitline/io/embedded.hpp>
 #include <limitline/error.hpp>
 #include <limitline/model/psychro.hpp>
+#include <limitline/parallel.hpp>
 #include <limitline/report/strategy.hpp>
 #include <limitline/text.hpp>
 
@@ -202,7 +203,6 @@ report::YearContext year_context(const YearInputs& in, units::System s) {
 
 #include <algorithm>
 #include <atomic>
-#include <thread>
 
 namespace limitline {
 
@@ -226,11 +226,10 @@ std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string&
 
   std::vector<BatchSite> sites(files.size());
   for (std::size_t i = 0; i < files.size(); ++i) sites[i].weather_path = files[i];
-  std::atomic<std::size_t> next{0}, done{0};
-  auto worker = [&] {
-    for (std::size_t i; (i = next.fetch_add(1)) < files.size();) {
+  const ParallelRun run{threads, cancel, progress};
+  (void)parallel_for(files.size(), run, [&]() -> ParallelWork {
+    return [&](std::size_t i) {
       BatchSite& s = sites[i];
-      if (cancel && cancel->load()) continue;
       s.run = true;
       try {
         const YearInputs in = with_weather(base, files[i], overrides);
@@ -239,19 +238,11 @@ std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string&
         s.operating_hours = p.operating_hours;
         s.ok = true;
       } catch (const std::exception& e) {
-        // Any failure stays with its site; an exception must never leave a worker thread.
+        // Any failure stays with its site, never stopping the others.
         s.error = e.what();
       }
-      const std::size_t d = ++done;
-      if (progress) progress(d, files.size());
-    }
-  };
-  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
-  threads = std::min<unsigned>(threads, static_cast<unsigned>(files.size()));
-  std::vector<std::thread> pool;
-  for (unsigned t = 1; t < threads; ++t) pool.emplace_back(worker);
-  worker();
-  for (auto& t : pool) t.join();
+    };
+  });
   return sites;
 }
 

@@ -114,8 +114,8 @@ struct BatchSite {
 // Every *.csv entry of `dir` (sorted by name) evaluated with the unit of `base`, on `threads`
 // threads (0: all cores). Results are in file order whatever the thread count. An entry that
 // is no readable weather file (a folder named x.csv, a dangling link) is a failing site with
-// its reason. `progress` is called after each site with (done, total), from the worker
-// threads. When `*cancel` turns true no further site starts; the sites under way finish.
+// its reason. `progress` is called with (done, total) as sites finish, on the calling thread.
+// When `*cancel` turns true no further site starts; the sites under way finish.
 std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string& dir,
                                       const WeatherOverrides& overrides, unsigned threads,
                                       void (*progress)(std::size_t, std::size_t) = nullptr,
