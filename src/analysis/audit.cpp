@@ -127,11 +127,101 @@ SampleContext sample_context(const UnitFile& unit, const trend::TrendLog& log,
   return c;
 }
 
-SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::StrategyState& state) {
-  const trend::TrendLog& log = *c.log;
-  const auto& s = c.options->strategy;
+namespace {
+
+// Humidity ratio of a logged point from its RH or dew point (capped at saturation), or
+// `fallback` when the log has neither for it; none then when `fallback` is negative.
+std::optional<double> logged_humidity_ratio(const trend::Sample& smp, const char* point, double t,
+                                            Channel rh_ch, Channel dp_ch, double fallback,
+                                            double p) {
+  double w = fallback;
+  if (auto rh = smp[rh_ch]) {
+    w = psychro::humidity_ratio_from_relative_humidity(t, *rh, p);
+  } else if (auto dp = smp[dp_ch]) {
+    if (*dp > t + 0.05)
+      throw InputError(fmt::format("{} dew point {:.1f} °C above the {} dry-bulb {:.1f} °C",
+                                   point, *dp, point, t));
+    w = psychro::humidity_ratio_from_dew_point(*dp, p);
+  } else if (fallback < 0) {
+    return std::nullopt;
+  }
+  return std::min(w, psychro::saturation_humidity_ratio(t, p));
+}
+
+// The rules on a fan-on sample, given the air and the strategy's decision on it.
+void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_s,
+                     const airside::AirState& out, const airside::AirState& ret, bool enabled,
+                     SampleVerdict& v) {
   const auto& ah = c.unit->air_handler;
   const Accuracy& acc = c.options->accuracy;
+  auto found = [&](FindingKind k, double excess, std::optional<double> energy_kwh) {
+    v.findings[static_cast<std::size_t>(k)] = SampleFinding{excess, energy_kwh};
+  };
+
+  const airside::HourChoice choice = airside::choose(ah, {out, ret, c.coil}, c.unit->weights);
+  const airside::Operation& expected = enabled ? choice.enabled : choice.disabled;
+  const double x_min = ah.min_oa_fraction;
+
+  // Mixed air against the range outdoor and return span.
+  const auto t_o = smp[Channel::outdoor_dry_bulb];
+  const auto t_r = smp[Channel::return_dry_bulb];
+  const auto t_m = smp[Channel::mixed_air];
+  bool mixed_bad = false;
+  std::optional<MeasuredFraction> meas;
+  if (t_m && t_r) {
+    const bool out_low = *t_o < *t_r;
+    const double lo = std::min(*t_o, *t_r), hi = std::max(*t_o, *t_r);
+    const double s_lo = std::hypot(acc.mixed_k, out_low ? acc.outdoor_k : acc.return_k);
+    const double s_hi = std::hypot(acc.mixed_k, out_low ? acc.return_k : acc.outdoor_k);
+    const double excess = std::max(lo - *t_m - kCoverageFactor * s_lo, *t_m - hi - kCoverageFactor * s_hi);
+    if (excess > 0) {
+      mixed_bad = true;
+      found(FindingKind::mixed_air_out_of_range, excess, std::nullopt);
+    }
+    if (!mixed_bad) {
+      meas = measured_fraction(*t_o, *t_r, *t_m, acc);
+      v.fraction_measured = meas.has_value();
+    }
+  }
+  const auto damper = smp[Channel::damper];
+  std::optional<bool> observed;
+  if (damper) observed = *damper > x_min + kDamperMarginFraction;
+  else if (meas) observed = meas->fraction > x_min + kDamperMarginFraction + kCoverageFactor * meas->sigma;
+
+  // Energy of what happened against what should have: at the measured fraction when there
+  // is one, else the commanded one.
+  const double x_obs = meas ? std::clamp(meas->fraction, 0.0, 1.0)
+                       : damper ? std::clamp(*damper, x_min, ah.max_oa_fraction)
+                                : expected.oa_fraction;
+  const airside::CoilLoads loads = airside::coil_loads(ah, c.coil, airside::mix(out, ret, x_obs));
+  const double e_obs = c.unit->weights.cooling * loads.cooling_kj_per_kg + c.unit->weights.heating * loads.heating_kj_per_kg;
+  const double impact = (e_obs - expected.weighted_kj_per_kg) * c.dry_air_kg_per_s * w_s / 3600.0;
+  v.energy_kwh = impact;
+
+  if (observed && *observed && !enabled)
+    found(FindingKind::economizing_when_disabled, (damper ? *damper : x_obs) - x_min, impact);
+  if (observed && !*observed && enabled && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
+    found(FindingKind::not_economizing_when_enabled, choice.enabled.oa_fraction - x_obs, impact);
+  if (meas && damper) {
+    const double dev = std::abs(meas->fraction - *damper) - (kCoverageFactor * meas->sigma + kDamperTrackingMargin);
+    if (dev > 0) found(FindingKind::damper_not_following, dev, impact);
+  }
+  if (meas) {
+    const bool economizer_off = damper ? *damper <= x_min + kDamperMarginFraction : !enabled;
+    const double band = kCoverageFactor * meas->sigma + kVentilationMargin;
+    const double above = meas->fraction - (x_min + band);
+    if (economizer_off && above > 0) found(FindingKind::excess_outdoor_air, above, impact);
+    const double below = x_min - band - meas->fraction;
+    if (below > 0) found(FindingKind::below_minimum, below, impact);
+  }
+  if (observed && choice.cooling_needed && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
+    v.switch_open = *observed;
+}
+
+}  // namespace
+
+SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::StrategyState& state) {
+  const trend::TrendLog& log = *c.log;
   const double p = c.pressure_kpa;
   SampleVerdict v;
   const trend::Sample smp = log.sample(i);
@@ -141,28 +231,13 @@ SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::Str
   airside::AirState ret = c.design_return;
   const auto t_r = smp[Channel::return_dry_bulb];
   try {
-    // Humidity ratio of a logged point from its RH or dew point (capped at saturation), or
-    // `fallback` when the log has neither for it.
-    auto humidity = [&](const char* point, double t, Channel rh_ch, Channel dp_ch,
-                        double fallback) -> std::optional<double> {
-      double w = fallback;
-      if (auto rh = smp[rh_ch]) {
-        w = psychro::humidity_ratio_from_relative_humidity(t, *rh, p);
-      } else if (auto dp = smp[dp_ch]) {
-        if (*dp > t + 0.05)
-          throw InputError(fmt::format("{} dew point {:.1f} °C above the {} dry-bulb {:.1f} °C",
-                                       point, *dp, point, t));
-        w = psychro::humidity_ratio_from_dew_point(*dp, p);
-      } else if (fallback < 0) {
-        return std::nullopt;
-      }
-      return std::min(w, psychro::saturation_humidity_ratio(t, p));
-    };
     if (t_r)
-      ret = airside::air_state(*t_r, *humidity("return", *t_r, Channel::return_rh,
-                                               Channel::return_dew_point, c.design_return.humidity_ratio));
-    const auto w_found = humidity("outdoor", *t_o, Channel::outdoor_rh, Channel::outdoor_dew_point,
-                                  c.needs_outdoor_humidity ? -1.0 : ret.humidity_ratio);
+      ret = airside::air_state(*t_r, *logged_humidity_ratio(smp, "return", *t_r, Channel::return_rh,
+                                                            Channel::return_dew_point,
+                                                            c.design_return.humidity_ratio, p));
+    const auto w_found = logged_humidity_ratio(smp, "outdoor", *t_o, Channel::outdoor_rh,
+                                               Channel::outdoor_dew_point,
+                                               c.needs_outdoor_humidity ? -1.0 : ret.humidity_ratio, p);
     if (!w_found) return v;
     double w_o = *w_found;
     w_o = std::min(w_o, psychro::saturation_humidity_ratio(*t_o, p));
@@ -175,7 +250,7 @@ SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::Str
     v.outdoor = values(out);
     v.ret = values(ret);
     // The deadband state follows every sample with readings, fan on or off, as a controller's.
-    const bool enabled = highlimit::permits(s, v.outdoor, v.ret, state);
+    const bool enabled = highlimit::permits(c.options->strategy, v.outdoor, v.ret, state);
 
     const auto fan = smp[Channel::fan];
     if (log.has(Channel::fan) && !fan) return v;
@@ -184,67 +259,7 @@ SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::Str
       return v;
     }
     v.use = SampleUse::operating;
-    const double w_s = log.weight_s(i);
-    auto found = [&](FindingKind k, double excess, std::optional<double> energy_kwh) {
-      v.findings[static_cast<std::size_t>(k)] = SampleFinding{excess, energy_kwh};
-    };
-
-    const airside::HourChoice choice = airside::choose(ah, {out, ret, c.coil}, c.unit->weights);
-    const airside::Operation& expected = enabled ? choice.enabled : choice.disabled;
-    const double x_min = ah.min_oa_fraction;
-
-    // Mixed air against the range outdoor and return span.
-    const auto t_m = smp[Channel::mixed_air];
-    bool mixed_bad = false;
-    std::optional<MeasuredFraction> meas;
-    if (t_m && t_r) {
-      const bool out_low = *t_o < *t_r;
-      const double lo = std::min(*t_o, *t_r), hi = std::max(*t_o, *t_r);
-      const double s_lo = std::hypot(acc.mixed_k, out_low ? acc.outdoor_k : acc.return_k);
-      const double s_hi = std::hypot(acc.mixed_k, out_low ? acc.return_k : acc.outdoor_k);
-      const double excess = std::max(lo - *t_m - kCoverageFactor * s_lo, *t_m - hi - kCoverageFactor * s_hi);
-      if (excess > 0) {
-        mixed_bad = true;
-        found(FindingKind::mixed_air_out_of_range, excess, std::nullopt);
-      }
-      if (!mixed_bad) {
-        meas = measured_fraction(*t_o, *t_r, *t_m, acc);
-        v.fraction_measured = meas.has_value();
-      }
-    }
-    const auto damper = smp[Channel::damper];
-    std::optional<bool> observed;
-    if (damper) observed = *damper > x_min + kDamperMarginFraction;
-    else if (meas) observed = meas->fraction > x_min + kDamperMarginFraction + kCoverageFactor * meas->sigma;
-
-    // Energy of what happened against what should have: at the measured fraction when there
-    // is one, else the commanded one.
-    const double x_obs = meas ? std::clamp(meas->fraction, 0.0, 1.0)
-                         : damper ? std::clamp(*damper, x_min, ah.max_oa_fraction)
-                                  : expected.oa_fraction;
-    const airside::CoilLoads loads = airside::coil_loads(ah, c.coil, airside::mix(out, ret, x_obs));
-    const double e_obs = c.unit->weights.cooling * loads.cooling_kj_per_kg + c.unit->weights.heating * loads.heating_kj_per_kg;
-    const double impact = (e_obs - expected.weighted_kj_per_kg) * c.dry_air_kg_per_s * w_s / 3600.0;
-    v.energy_kwh = impact;
-
-    if (observed && *observed && !enabled)
-      found(FindingKind::economizing_when_disabled, (damper ? *damper : x_obs) - x_min, impact);
-    if (observed && !*observed && enabled && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
-      found(FindingKind::not_economizing_when_enabled, choice.enabled.oa_fraction - x_obs, impact);
-    if (meas && damper) {
-      const double dev = std::abs(meas->fraction - *damper) - (kCoverageFactor * meas->sigma + kDamperTrackingMargin);
-      if (dev > 0) found(FindingKind::damper_not_following, dev, impact);
-    }
-    if (meas) {
-      const bool economizer_off = damper ? *damper <= x_min + kDamperMarginFraction : !enabled;
-      const double band = kCoverageFactor * meas->sigma + kVentilationMargin;
-      const double above = meas->fraction - (x_min + band);
-      if (economizer_off && above > 0) found(FindingKind::excess_outdoor_air, above, impact);
-      const double below = x_min - band - meas->fraction;
-      if (below > 0) found(FindingKind::below_minimum, below, impact);
-    }
-    if (observed && choice.cooling_needed && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
-      v.switch_open = *observed;
+    judge_operation(c, smp, log.weight_s(i), out, ret, enabled, v);
   } catch (const RangeError& e) {
     throw InputError(fmt::format("{}:{}: {}", log.path, smp.line, e.what()));
   } catch (const InputError& e) {
