@@ -77,6 +77,35 @@ std::string formatted(Format f, Render text, Render markdown, Render json, const
   return (f == Format::json ? json : f == Format::md ? markdown : text)(args...);
 }
 
+// The unit's own weather file, when it has a pressure column: which pressure the altitude
+// footnote used beside the file's (a disagreement with the site is warned about), or why the
+// file could not be read. None when the unit names no weather file.
+std::optional<report::WeatherPressure> weather_pressure(const UnitFile& file,
+                                                        std::optional<double> pressure,
+                                                        bool from_command_line, bool strict) {
+  if (!file.weather || !file.weather->contains("file")) return std::nullopt;
+  std::optional<report::WeatherPressure> out;
+  std::string label;
+  weather::WeatherSeries w;
+  try {
+    w = read_unit_weather(file, label);
+  } catch (const InputError& error) {
+    // The verdicts need no weather: a file that cannot be read is said, not fatal.
+    out = report::WeatherPressure{error.what(), {}, 0.0, 0.0, {}};
+  }
+  if (w.info.median_pressure_kpa) {
+    out = report::WeatherPressure{
+        {}, label, *w.info.median_pressure_kpa, pressure.value_or(psychro::kStandardPressureKpa),
+        from_command_line ? report::FootnotePressure::command_line
+        : pressure        ? report::FootnotePressure::unit_site
+                          : report::FootnotePressure::sea_level};
+    std::vector<std::string> warnings;
+    if (auto warning = site_pressure_warning(file, w.info)) warnings.push_back(*warning);
+    report_warnings(warnings, strict);
+  }
+  return out;
+}
+
 }  // namespace
 
 int run_code(const std::vector<std::string>& args) {
@@ -169,29 +198,8 @@ int run_code(const std::vector<std::string>& args) {
   u.zone_from = zone_origin;
   if (!pressure && (file.site.pressure_kpa || file.site.elevation_m))
     pressure = file.site.design_pressure_kpa();
-  // The unit's own weather file, when it has a pressure column: say which pressure the
-  // altitude footnote used beside the file's, and warn when they disagree.
-  if (file.weather && file.weather->contains("file")) {
-    std::string label;
-    weather::WeatherSeries w;
-    try {
-      w = read_unit_weather(file, label);
-    } catch (const InputError& error) {
-      // The verdicts need no weather: a file that cannot be read is said, not fatal.
-      u.weather = report::WeatherPressure{error.what(), {}, 0.0, 0.0, {}};
-    }
-    if (w.info.median_pressure_kpa) {
-      u.weather = report::WeatherPressure{
-          {}, label, *w.info.median_pressure_kpa,
-          pressure.value_or(psychro::kStandardPressureKpa),
-          vm.count("elevation") || vm.count("pressure") ? report::FootnotePressure::command_line
-          : pressure ? report::FootnotePressure::unit_site
-                     : report::FootnotePressure::sea_level};
-      std::vector<std::string> warnings;
-      if (auto warning = site_pressure_warning(file, w.info)) warnings.push_back(*warning);
-      report_warnings(warnings, common.strict);
-    }
-  }
+  u.weather = weather_pressure(file, pressure, vm.count("elevation") || vm.count("pressure"),
+                               common.strict);
   const auto& e = tables.edition(edition_id, edition_origin);
   const auto req = codes::requirements(e, zone, {pressure, compare_in}, zone_origin);
   u.req = &req;
