@@ -491,6 +491,54 @@ TEST_CASE("cross-references point at paragraphs that exist") {
   }
 }
 
+TEST_CASE("the eight sections come in a fixed order, each numbered from 1") {
+  const auto d = build(kUnit, System::ip).doc;
+  const std::vector<std::string> titles = {"General",
+                                           "Economizer enable",
+                                           "High-limit control",
+                                           "Damper modulation and mechanical cooling",
+                                           "Minimum outdoor air",
+                                           "Mixed-air low-limit and freeze protection",
+                                           "Sensors",
+                                           "Alarms"};
+  REQUIRE(d.sections.size() == titles.size());
+  for (std::size_t i = 0; i < titles.size(); ++i) {
+    CAPTURE(i);
+    CHECK(d.sections[i].number == static_cast<int>(i) + 1);
+    CHECK(d.sections[i].title == titles[i]);
+    REQUIRE(!d.sections[i].paragraphs.empty());
+    CHECK(d.sections[i].paragraphs.front().number == fmt::format("{}.1", i + 1));
+  }
+}
+
+TEST_CASE("paragraphs cited before the annual evaluation is written name it, for any condition count") {
+  // Section 4 cites the annual paragraph of section 3, whose number depends on how many
+  // conditions the strategy has: one strategy of each count.
+  limitline::annual::YearResult y;
+  limitline::annual::StrategyResult two, one;
+  two.name = "enthalpy and dry-bulb";
+  one.name = "plain dry-bulb";
+  y.strategies = {two, one};
+  const seq::AnnualSupport a{&y, "invented.csv"};
+  for (const auto& [strategy, conditions] :
+       std::vector<std::pair<std::string, std::size_t>>{{"enthalpy and dry-bulb", 2}, {"plain dry-bulb", 1}}) {
+    CAPTURE(strategy);
+    const auto d = build(kUnit, System::ip, strategy, &a).doc;
+    const seq::Section& high_limit = d.sections.at(2);
+    REQUIRE(high_limit.paragraphs.size() == conditions + 3);
+    const std::string last = high_limit.paragraphs.back().number;
+    CHECK(text_of(d, last).rfind("Annual evaluation:", 0) == 0);
+    const std::string all = seq::to_markdown(d);
+    const std::regex cite(R"(annual evaluation of paragraph (\d+\.\d+))");
+    int cites = 0;
+    for (auto it = std::sregex_iterator(all.begin(), all.end(), cite); it != std::sregex_iterator(); ++it) {
+      CHECK((*it)[1].str() == last);
+      ++cites;
+    }
+    CHECK(cites == static_cast<int>(conditions) + 1);  // each condition's basis, and paragraph 4.3
+  }
+}
+
 TEST_CASE("text and Markdown say the same paragraphs; the cautions close both") {
   const auto d = build(kUnit, System::ip).doc;
   const std::string md = seq::to_markdown(d), text = seq::to_text(d);

@@ -46,23 +46,6 @@ double switch_tolerance(highlimit::Quantity q) {
                                                     : kSwitchToleranceK;
 }
 
-// A fan-on sample that tells where one condition's switching point lies: cooling needed, the
-// model would open the damper, the damper's state is known and the other conditions are clear.
-// Kept per condition for the switch-point pass; 24 bytes, as a long log has many.
-struct Point {
-  double v;           // the condition's quantity, less the return air's for a differential one
-  double impact_kwh;
-  std::uint32_t sample;  // a log within the reader's 1 GiB cap has fewer rows than 2^32
-  bool open;
-};
-
-// A sample on the wrong side of a differing condition, for the high-limit finding.
-struct Beyond {
-  std::size_t sample;
-  double beyond;
-  double impact_kwh;
-};
-
 }  // namespace
 
 std::string_view finding_key(FindingKind k) { return kKinds[static_cast<std::size_t>(k)].key; }
@@ -88,250 +71,313 @@ const Finding* Result::find(FindingKind k) const {
   return nullptr;
 }
 
-Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& options) {
-  const auto& s = options.strategy;
-  const auto& ah = unit.air_handler;
-  const double p = unit.site.design_pressure_kpa();
-  const double m_dot = ah.dry_air_mass_flow_kg_per_s();
-  const airside::CoilLimits coil = airside::coil_limits(ah, p);
-  const Accuracy& acc = options.accuracy;
-  Result r;
-  r.strategy_name = s.name;
+namespace {
 
+// What the report should know about what the log lacks, and what the audit assumed instead.
+std::vector<std::string> log_notes(const SampleContext& c) {
+  const trend::TrendLog& log = *c.log;
+  const auto& s = c.options->strategy;
+  std::vector<std::string> notes;
+  bool differential = false;
+  for (const auto& cond : s.conditions) differential = differential || cond.reference == highlimit::Reference::return_air;
+  if (!c.outdoor_humidity)
+    notes.push_back("no outdoor humidity in the log: the energy model takes the outdoor air at "
+                    "the return air's humidity ratio");
+  if (!log.has(Channel::return_dry_bulb))
+    notes.push_back("no return dry-bulb in the log: decisions and energy use the unit file's "
+                    "design return air, and no outdoor-air fraction can be measured");
+  else if (!log.has(Channel::return_rh) && !log.has(Channel::return_dew_point))
+    notes.push_back("no return humidity in the log: the return air takes the unit file's "
+                    "design humidity ratio");
+  if (differential && !log.has(Channel::return_dry_bulb))
+    notes.push_back("differential strategy judged against the design return air, not a "
+                    "measured one");
+  if (!log.has(Channel::fan))
+    notes.push_back("no supply-fan status in the log: every sample is taken as fan on");
+  if (!log.has(Channel::damper))
+    notes.push_back("no damper column: economizing is judged from the measured fraction");
+  if (!log.has(Channel::mixed_air))
+    notes.push_back("no mixed-air temperature: no outdoor-air fraction can be measured");
+  return notes;
+}
+
+}  // namespace
+
+SampleContext sample_context(const UnitFile& unit, const trend::TrendLog& log,
+                             const Options& options) {
+  const auto& s = options.strategy;
+  SampleContext c;
+  c.unit = &unit;
+  c.log = &log;
+  c.options = &options;
+  c.pressure_kpa = unit.site.design_pressure_kpa();
+  c.dry_air_kg_per_s = unit.air_handler.dry_air_mass_flow_kg_per_s();
+  c.coil = airside::coil_limits(unit.air_handler, c.pressure_kpa);
   if (!log.has(Channel::outdoor_dry_bulb))
     throw InputError(fmt::format("{}: no outdoor dry-bulb column; the audit needs one (set it "
                                  "with --column outdoor-dry-bulb=HEADER[:UNIT])", log.path));
-  const bool out_hum = log.has(Channel::outdoor_rh) || log.has(Channel::outdoor_dew_point);
-  const bool needs_hum = s.needs(highlimit::Quantity::enthalpy) ||
-                         s.needs(highlimit::Quantity::dew_point) ||
-                         s.needs(highlimit::Quantity::humidity_ratio);
-  if (needs_hum && !out_hum)
+  c.outdoor_humidity = log.has(Channel::outdoor_rh) || log.has(Channel::outdoor_dew_point);
+  c.needs_outdoor_humidity = s.needs(highlimit::Quantity::enthalpy) ||
+                             s.needs(highlimit::Quantity::dew_point) ||
+                             s.needs(highlimit::Quantity::humidity_ratio);
+  if (c.needs_outdoor_humidity && !c.outdoor_humidity)
     throw InputError(fmt::format("{}: strategy {} needs the outdoor humidity, and the log has "
                                  "no outdoor RH or dew-point column", log.path, echo(s.name)));
-  bool differential = false;
-  for (const auto& c : s.conditions) differential = differential || c.reference == highlimit::Reference::return_air;
-  if (!out_hum)
-    r.notes.push_back("no outdoor humidity in the log: the energy model takes the outdoor air at "
-                      "the return air's humidity ratio");
-  if (!log.has(Channel::return_dry_bulb))
-    r.notes.push_back("no return dry-bulb in the log: decisions and energy use the unit file's "
-                      "design return air, and no outdoor-air fraction can be measured");
-  else if (!log.has(Channel::return_rh) && !log.has(Channel::return_dew_point))
-    r.notes.push_back("no return humidity in the log: the return air takes the unit file's "
-                      "design humidity ratio");
-  if (differential && !log.has(Channel::return_dry_bulb))
-    r.notes.push_back("differential strategy judged against the design return air, not a "
-                      "measured one");
-  if (!log.has(Channel::fan))
-    r.notes.push_back("no supply-fan status in the log: every sample is taken as fan on");
-  if (!log.has(Channel::damper))
-    r.notes.push_back("no damper column: economizing is judged from the measured fraction");
-  if (!log.has(Channel::mixed_air))
-    r.notes.push_back("no mixed-air temperature: no outdoor-air fraction can be measured");
+  c.design_return = unit.return_air.at(c.pressure_kpa);
+  return c;
+}
 
-  const airside::AirState design_ret = unit.return_air.at(p);
-  std::array<Finding, kFindingKindCount> acc_f{};
-  for (std::size_t k = 0; k < kFindingKindCount; ++k) acc_f[k].kind = static_cast<FindingKind>(k);
-  std::vector<std::vector<Point>> points(s.conditions.size());
-  int skipped = 0;
+namespace {
 
-  auto add = [&](FindingKind k, std::size_t i, double excess, std::optional<double> impact) {
-    Finding& f = acc_f[static_cast<std::size_t>(k)];
-    const std::int64_t t = log.time_s[i];
-    const int line = log.line[i];
-    if (f.intervals == 0) {
-      f.first_s = t, f.first_line = line;
-      f.energy_kwh = 0.0;
-    }
-    if (f.intervals == 0 || excess > f.worst_excess)
-      f.worst_excess = excess, f.worst_s = t, f.worst_line = line;
-    ++f.intervals;
-    f.hours += log.weight_s(i) / 3600.0;
-    f.last_s = t;
-    if (!impact) f.energy_kwh.reset();
-    else if (f.energy_kwh) *f.energy_kwh += *impact;
+// Humidity ratio of a logged point from its RH or dew point (capped at saturation), or
+// `fallback` when the log has neither for it; none then when `fallback` is negative.
+std::optional<double> logged_humidity_ratio(const trend::Sample& smp, const char* point, double t,
+                                            Channel rh_ch, Channel dp_ch, double fallback,
+                                            double p) {
+  double w = fallback;
+  if (auto rh = smp[rh_ch]) {
+    w = psychro::humidity_ratio_from_relative_humidity(t, *rh, p);
+  } else if (auto dp = smp[dp_ch]) {
+    if (*dp > t + 0.05)
+      throw InputError(fmt::format("{} dew point {:.1f} °C above the {} dry-bulb {:.1f} °C",
+                                   point, *dp, point, t));
+    w = psychro::humidity_ratio_from_dew_point(*dp, p);
+  } else if (fallback < 0) {
+    return std::nullopt;
+  }
+  return std::min(w, psychro::saturation_humidity_ratio(t, p));
+}
+
+// The rules on a fan-on sample, given the air and the strategy's decision on it.
+void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_s,
+                     const airside::AirState& out, const airside::AirState& ret, bool enabled,
+                     SampleVerdict& v) {
+  const auto& ah = c.unit->air_handler;
+  const Accuracy& acc = c.options->accuracy;
+  auto found = [&](FindingKind k, double excess, std::optional<double> energy_kwh) {
+    v.findings[static_cast<std::size_t>(k)] = SampleFinding{excess, energy_kwh};
   };
 
-  highlimit::StrategyState state(s);
-  for (std::size_t i = 0; i < log.size(); ++i) {
-    const trend::Sample smp = log.sample(i);
-    const auto t_o = smp[Channel::outdoor_dry_bulb];
-    if (!t_o) {
-      ++skipped;
-      continue;
+  const airside::HourChoice choice = airside::choose(ah, {out, ret, c.coil}, c.unit->weights);
+  const airside::Operation& expected = enabled ? choice.enabled : choice.disabled;
+  const double x_min = ah.min_oa_fraction;
+
+  // Mixed air against the range outdoor and return span.
+  const auto t_o = smp[Channel::outdoor_dry_bulb];
+  const auto t_r = smp[Channel::return_dry_bulb];
+  const auto t_m = smp[Channel::mixed_air];
+  bool mixed_bad = false;
+  std::optional<MeasuredFraction> meas;
+  if (t_m && t_r) {
+    const bool out_low = *t_o < *t_r;
+    const double lo = std::min(*t_o, *t_r), hi = std::max(*t_o, *t_r);
+    const double s_lo = std::hypot(acc.mixed_k, out_low ? acc.outdoor_k : acc.return_k);
+    const double s_hi = std::hypot(acc.mixed_k, out_low ? acc.return_k : acc.outdoor_k);
+    const double excess = std::max(lo - *t_m - kCoverageFactor * s_lo, *t_m - hi - kCoverageFactor * s_hi);
+    if (excess > 0) {
+      mixed_bad = true;
+      found(FindingKind::mixed_air_out_of_range, excess, std::nullopt);
     }
-    // Return air: logged when there, design otherwise.
-    airside::AirState ret = design_ret;
-    const auto t_r = smp[Channel::return_dry_bulb];
-    try {
-      // Humidity ratio of a logged point from its RH or dew point (capped at saturation), or
-      // `fallback` when the log has neither for it.
-      auto humidity = [&](const char* point, double t, Channel rh_ch, Channel dp_ch,
-                          double fallback) -> std::optional<double> {
-        double w = fallback;
-        if (auto rh = smp[rh_ch]) {
-          w = psychro::humidity_ratio_from_relative_humidity(t, *rh, p);
-        } else if (auto dp = smp[dp_ch]) {
-          if (*dp > t + 0.05)
-            throw InputError(fmt::format("{} dew point {:.1f} °C above the {} dry-bulb {:.1f} °C",
-                                         point, *dp, point, t));
-          w = psychro::humidity_ratio_from_dew_point(*dp, p);
-        } else if (fallback < 0) {
-          return std::nullopt;
-        }
-        return std::min(w, psychro::saturation_humidity_ratio(t, p));
-      };
-      if (t_r)
-        ret = airside::air_state(*t_r, *humidity("return", *t_r, Channel::return_rh,
-                                                 Channel::return_dew_point, design_ret.humidity_ratio));
-      const auto w_found = humidity("outdoor", *t_o, Channel::outdoor_rh, Channel::outdoor_dew_point,
-                                    needs_hum ? -1.0 : ret.humidity_ratio);
-      if (!w_found) {
-        ++skipped;
-        continue;
-      }
-      double w_o = *w_found;
-      w_o = std::min(w_o, psychro::saturation_humidity_ratio(*t_o, p));
-      const airside::AirState out = airside::air_state(*t_o, w_o);
-      auto values = [&](const airside::AirState& a) {
-        return highlimit::air_values(a.dry_bulb_c, a.enthalpy_kj_per_kg,
-                                     psychro::dew_point_from_humidity_ratio_c(a.humidity_ratio, p),
-                                     a.humidity_ratio);
-      };
-      const highlimit::AirValues ov = values(out), rv = values(ret);
-      const bool enabled = highlimit::permits(s, ov, rv, state);
-
-      const auto fan = smp[Channel::fan];
-      if (log.has(Channel::fan) && !fan) {
-        ++skipped;
-        continue;
-      }
-      if (fan && *fan < 0.5) continue;
-      const double w_s = log.weight_s(i);
-      r.operating_hours += w_s / 3600.0;
-      ++r.operating_intervals;
-
-      const airside::HourChoice choice = airside::choose(ah, {out, ret, coil}, unit.weights);
-      const airside::Operation& expected = enabled ? choice.enabled : choice.disabled;
-      const double x_min = ah.min_oa_fraction;
-
-      // Mixed air against the range outdoor and return span.
-      const auto t_m = smp[Channel::mixed_air];
-      bool mixed_bad = false;
-      std::optional<MeasuredFraction> meas;
-      if (t_m && t_r) {
-        const bool out_low = *t_o < *t_r;
-        const double lo = std::min(*t_o, *t_r), hi = std::max(*t_o, *t_r);
-        const double s_lo = std::hypot(acc.mixed_k, out_low ? acc.outdoor_k : acc.return_k);
-        const double s_hi = std::hypot(acc.mixed_k, out_low ? acc.return_k : acc.outdoor_k);
-        const double excess = std::max(lo - *t_m - kCoverageFactor * s_lo, *t_m - hi - kCoverageFactor * s_hi);
-        if (excess > 0) {
-          mixed_bad = true;
-          add(FindingKind::mixed_air_out_of_range, i, excess, std::nullopt);
-        }
-        if (!mixed_bad) {
-          meas = measured_fraction(*t_o, *t_r, *t_m, acc);
-          if (meas) ++r.fraction_intervals;
-        }
-      }
-      const auto damper = smp[Channel::damper];
-      std::optional<bool> observed;
-      if (damper) observed = *damper > x_min + kDamperMarginFraction;
-      else if (meas) observed = meas->fraction > x_min + kDamperMarginFraction + kCoverageFactor * meas->sigma;
-
-      // Energy of what happened against what should have: at the measured fraction when there
-      // is one, else the commanded one.
-      const double x_obs = meas ? std::clamp(meas->fraction, 0.0, 1.0)
-                           : damper ? std::clamp(*damper, x_min, ah.max_oa_fraction)
-                                    : expected.oa_fraction;
-      const airside::CoilLoads loads = airside::coil_loads(ah, coil, airside::mix(out, ret, x_obs));
-      const double e_obs = unit.weights.cooling * loads.cooling_kj_per_kg + unit.weights.heating * loads.heating_kj_per_kg;
-      const double impact = (e_obs - expected.weighted_kj_per_kg) * m_dot * w_s / 3600.0;
-
-      if (observed && *observed && !enabled)
-        add(FindingKind::economizing_when_disabled, i, (damper ? *damper : x_obs) - x_min, impact);
-      if (observed && !*observed && enabled && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
-        add(FindingKind::not_economizing_when_enabled, i, choice.enabled.oa_fraction - x_obs, impact);
-      if (meas && damper) {
-        const double dev = std::abs(meas->fraction - *damper) - (kCoverageFactor * meas->sigma + kDamperTrackingMargin);
-        if (dev > 0) add(FindingKind::damper_not_following, i, dev, impact);
-      }
-      if (meas) {
-        const bool economizer_off = damper ? *damper <= x_min + kDamperMarginFraction : !enabled;
-        const double band = kCoverageFactor * meas->sigma + kVentilationMargin;
-        const double above = meas->fraction - (x_min + band);
-        if (economizer_off && above > 0) add(FindingKind::excess_outdoor_air, i, above, impact);
-        const double below = x_min - band - meas->fraction;
-        if (below > 0) add(FindingKind::below_minimum, i, below, impact);
-      }
-      if (observed && choice.cooling_needed && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
-        for (std::size_t c = 0; c < s.conditions.size(); ++c) {
-          bool others_clear = true;
-          for (std::size_t o = 0; o < s.conditions.size(); ++o)
-            if (o != c && ov[s.conditions[o].quantity] > s.conditions[o].effective_limit(rv))
-              others_clear = false;
-          if (!others_clear) continue;
-          const auto& cond = s.conditions[c];
-          const double ref = cond.reference == highlimit::Reference::return_air ? rv[cond.quantity] : 0.0;
-          points[c].push_back({ov[cond.quantity] - ref, impact, static_cast<std::uint32_t>(i), *observed});
-        }
-    } catch (const RangeError& e) {
-      throw InputError(fmt::format("{}:{}: {}", log.path, smp.line, e.what()));
-    } catch (const InputError& e) {
-      if (std::string_view(e.what()).starts_with(log.path)) throw;
-      throw InputError(fmt::format("{}:{}: {}", log.path, smp.line, e.what()));
+    if (!mixed_bad) {
+      meas = measured_fraction(*t_o, *t_r, *t_m, acc);
+      v.fraction_measured = meas.has_value();
     }
   }
-  if (skipped > 0)
+  const auto damper = smp[Channel::damper];
+  std::optional<bool> observed;
+  if (damper) observed = *damper > x_min + kDamperMarginFraction;
+  else if (meas) observed = meas->fraction > x_min + kDamperMarginFraction + kCoverageFactor * meas->sigma;
+
+  // Energy of what happened against what should have: at the measured fraction when there
+  // is one, else the commanded one.
+  const double x_obs = meas ? std::clamp(meas->fraction, 0.0, 1.0)
+                       : damper ? std::clamp(*damper, x_min, ah.max_oa_fraction)
+                                : expected.oa_fraction;
+  const airside::CoilLoads loads = airside::coil_loads(ah, c.coil, airside::mix(out, ret, x_obs));
+  const double e_obs = c.unit->weights.cooling * loads.cooling_kj_per_kg + c.unit->weights.heating * loads.heating_kj_per_kg;
+  const double impact = (e_obs - expected.weighted_kj_per_kg) * c.dry_air_kg_per_s * w_s / 3600.0;
+  v.energy_kwh = impact;
+
+  if (observed && *observed && !enabled)
+    found(FindingKind::economizing_when_disabled, (damper ? *damper : x_obs) - x_min, impact);
+  if (observed && !*observed && enabled && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
+    found(FindingKind::not_economizing_when_enabled, choice.enabled.oa_fraction - x_obs, impact);
+  if (meas && damper) {
+    const double dev = std::abs(meas->fraction - *damper) - (kCoverageFactor * meas->sigma + kDamperTrackingMargin);
+    if (dev > 0) found(FindingKind::damper_not_following, dev, impact);
+  }
+  if (meas) {
+    const bool economizer_off = damper ? *damper <= x_min + kDamperMarginFraction : !enabled;
+    const double band = kCoverageFactor * meas->sigma + kVentilationMargin;
+    const double above = meas->fraction - (x_min + band);
+    if (economizer_off && above > 0) found(FindingKind::excess_outdoor_air, above, impact);
+    const double below = x_min - band - meas->fraction;
+    if (below > 0) found(FindingKind::below_minimum, below, impact);
+  }
+  if (observed && choice.cooling_needed && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
+    v.switch_open = *observed;
+}
+
+}  // namespace
+
+SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::StrategyState& state) {
+  const trend::TrendLog& log = *c.log;
+  const double p = c.pressure_kpa;
+  SampleVerdict v;
+  const trend::Sample smp = log.sample(i);
+  const auto t_o = smp[Channel::outdoor_dry_bulb];
+  if (!t_o) return v;
+  // Return air: logged when there, design otherwise.
+  airside::AirState ret = c.design_return;
+  const auto t_r = smp[Channel::return_dry_bulb];
+  try {
+    if (t_r)
+      ret = airside::air_state(*t_r, *logged_humidity_ratio(smp, "return", *t_r, Channel::return_rh,
+                                                            Channel::return_dew_point,
+                                                            c.design_return.humidity_ratio, p));
+    const auto w_found = logged_humidity_ratio(smp, "outdoor", *t_o, Channel::outdoor_rh,
+                                               Channel::outdoor_dew_point,
+                                               c.needs_outdoor_humidity ? -1.0 : ret.humidity_ratio, p);
+    if (!w_found) return v;
+    double w_o = *w_found;
+    w_o = std::min(w_o, psychro::saturation_humidity_ratio(*t_o, p));
+    const airside::AirState out = airside::air_state(*t_o, w_o);
+    auto values = [&](const airside::AirState& a) {
+      return highlimit::air_values(a.dry_bulb_c, a.enthalpy_kj_per_kg,
+                                   psychro::dew_point_from_humidity_ratio_c(a.humidity_ratio, p),
+                                   a.humidity_ratio);
+    };
+    v.outdoor = values(out);
+    v.ret = values(ret);
+    // The deadband state follows every sample with readings, fan on or off, as a controller's.
+    const bool enabled = highlimit::permits(c.options->strategy, v.outdoor, v.ret, state);
+
+    const auto fan = smp[Channel::fan];
+    if (log.has(Channel::fan) && !fan) return v;
+    if (fan && *fan < 0.5) {
+      v.use = SampleUse::fan_off;
+      return v;
+    }
+    v.use = SampleUse::operating;
+    judge_operation(c, smp, log.weight_s(i), out, ret, enabled, v);
+  } catch (const RangeError& e) {
+    throw InputError(fmt::format("{}:{}: {}", log.path, smp.line, e.what()));
+  } catch (const InputError& e) {
+    if (std::string_view(e.what()).starts_with(log.path)) throw;
+    throw InputError(fmt::format("{}:{}: {}", log.path, smp.line, e.what()));
+  }
+  return v;
+}
+
+FindingsTally::FindingsTally(const SampleContext& c)
+    : c_(&c), points_(c.options->strategy.conditions.size()) {
+  for (std::size_t k = 0; k < kFindingKindCount; ++k) findings_[k].kind = static_cast<FindingKind>(k);
+}
+
+void FindingsTally::record(FindingKind k, std::size_t i, double excess,
+                           std::optional<double> energy_kwh) {
+  Finding& f = findings_[static_cast<std::size_t>(k)];
+  const std::int64_t t = c_->log->time_s[i];
+  const int line = c_->log->line[i];
+  if (f.intervals == 0) {
+    f.first_s = t, f.first_line = line;
+    f.energy_kwh = 0.0;
+  }
+  if (f.intervals == 0 || excess > f.worst_excess)
+    f.worst_excess = excess, f.worst_s = t, f.worst_line = line;
+  ++f.intervals;
+  f.hours += c_->log->weight_s(i) / 3600.0;
+  f.last_s = t;
+  if (!energy_kwh) f.energy_kwh.reset();
+  else if (f.energy_kwh) *f.energy_kwh += *energy_kwh;
+}
+
+void FindingsTally::add(std::size_t i, const SampleVerdict& v) {
+  if (v.use == SampleUse::incomplete) ++skipped_;
+  if (v.use != SampleUse::operating) return;
+  operating_hours_ += c_->log->weight_s(i) / 3600.0;
+  ++operating_intervals_;
+  if (v.fraction_measured) ++fraction_intervals_;
+  for (std::size_t k = 0; k < kFindingKindCount; ++k)
+    if (const auto& f = v.findings[k]) record(static_cast<FindingKind>(k), i, f->excess, f->energy_kwh);
+  if (!v.switch_open) return;
+  // Evidence for one condition's switching point only where the other conditions are clear.
+  const auto& s = c_->options->strategy;
+  for (std::size_t c = 0; c < s.conditions.size(); ++c) {
+    bool others_clear = true;
+    for (std::size_t o = 0; o < s.conditions.size(); ++o)
+      if (o != c && v.outdoor[s.conditions[o].quantity] > s.conditions[o].effective_limit(v.ret))
+        others_clear = false;
+    if (!others_clear) continue;
+    const auto& cond = s.conditions[c];
+    const double ref = cond.reference == highlimit::Reference::return_air ? v.ret[cond.quantity] : 0.0;
+    points_[c].push_back({v.outdoor[cond.quantity] - ref, v.energy_kwh, static_cast<std::uint32_t>(i), *v.switch_open});
+  }
+}
+
+std::optional<SwitchPoint> FindingsTally::switch_point(const highlimit::Condition& cond, int index,
+                                                       std::vector<Point> pts,
+                                                       std::vector<Beyond>& beyond) {
+  int n_open = 0;
+  for (const auto& q : pts) n_open += q.open;
+  const int n_closed = static_cast<int>(pts.size()) - n_open;
+  if (n_open < kSwitchMinimumSamples || n_closed < kSwitchMinimumSamples) return std::nullopt;
+  std::sort(pts.begin(), pts.end(), [](const Point& a, const Point& b) { return a.v < b.v; });
+  // Split index k: pts[0..k) below. Errors = closed below + open above.
+  int closed_below = 0, open_above = n_open, best = -1, best_err = 0;
+  for (std::size_t k = 0; k <= pts.size(); ++k) {
+    if (k > 0) (pts[k - 1].open ? open_above-- : closed_below++);
+    if (k > 0 && k < pts.size() && pts[k].v == pts[k - 1].v) continue;
+    const int err = closed_below + open_above;
+    if (best < 0 || err < best_err) best = static_cast<int>(k), best_err = err;
+  }
+  // The estimate is the split that misclassifies fewest samples; the verdict rests on the
+  // samples themselves: enough of them open above the limit, or closed below the band.
+  double below_open = -1e300, above_closed = 1e300, hi_open = -1e300, lo_closed = 1e300;
+  const double tol = switch_tolerance(cond.quantity);
+  int open_beyond = 0, closed_beyond = 0;
+  for (std::size_t k = 0; k < pts.size(); ++k) {
+    if (pts[k].open) hi_open = std::max(hi_open, pts[k].v);
+    else lo_closed = std::min(lo_closed, pts[k].v);
+    if (static_cast<int>(k) < best && pts[k].open) below_open = std::max(below_open, pts[k].v);
+    if (static_cast<int>(k) >= best && !pts[k].open) above_closed = std::min(above_closed, pts[k].v);
+    open_beyond += pts[k].open && pts[k].v > cond.limit + tol;
+    closed_beyond += !pts[k].open && pts[k].v < cond.limit - cond.deadband - tol;
+  }
+  const double estimate = below_open > -1e299 && above_closed < 1e299 ? (below_open + above_closed) / 2
+                          : below_open > -1e299                      ? below_open
+                                                                     : above_closed;
+  SwitchPoint sp{index, cond.quantity, cond.reference, cond.limit, cond.deadband,
+                 estimate, hi_open, lo_closed, n_open, n_closed, best_err, false};
+  sp.differs = open_beyond >= kSwitchMinimumSamples || closed_beyond >= kSwitchMinimumSamples;
+  if (sp.differs)
+    for (const auto& q : pts) {
+      const double by = q.open ? q.v - cond.limit : (cond.limit - cond.deadband) - q.v;
+      if (by > 0) beyond.push_back({q.sample, by, q.energy_kwh});
+    }
+  return sp;
+}
+
+Result FindingsTally::finish() {
+  const auto& s = c_->options->strategy;
+  const trend::TrendLog& log = *c_->log;
+  Result r;
+  r.strategy_name = s.name;
+  r.notes = log_notes(*c_);
+  if (skipped_ > 0)
     r.notes.push_back(fmt::format("{} sample(s) without the readings a decision needs (outdoor "
-                                  "air, or fan status) were left out", skipped));
+                                  "air, or fan status) were left out", skipped_));
+  r.operating_hours = operating_hours_;
+  r.operating_intervals = operating_intervals_;
+  r.fraction_intervals = fraction_intervals_;
 
   // Switching points, one condition at a time, where the others are clear and the
   // economizer, if enabled, would open the damper.
   // The wrong-side intervals of every differing condition, added afterwards in time order.
   std::vector<Beyond> hl_beyond;
-  for (std::size_t c = 0; c < s.conditions.size(); ++c) {
-    const auto& cond = s.conditions[c];
-    std::vector<Point> pts = std::move(points[c]);
-    int n_open = 0;
-    for (const auto& q : pts) n_open += q.open;
-    const int n_closed = static_cast<int>(pts.size()) - n_open;
-    if (n_open < kSwitchMinimumSamples || n_closed < kSwitchMinimumSamples) continue;
-    std::sort(pts.begin(), pts.end(), [](const Point& a, const Point& b) { return a.v < b.v; });
-    // Split index k: pts[0..k) below. Errors = closed below + open above.
-    int closed_below = 0, open_above = n_open, best = -1, best_err = 0;
-    for (std::size_t k = 0; k <= pts.size(); ++k) {
-      if (k > 0) (pts[k - 1].open ? open_above-- : closed_below++);
-      if (k > 0 && k < pts.size() && pts[k].v == pts[k - 1].v) continue;
-      const int err = closed_below + open_above;
-      if (best < 0 || err < best_err) best = static_cast<int>(k), best_err = err;
-    }
-    // The estimate is the split that misclassifies fewest samples; the verdict rests on the
-    // samples themselves: enough of them open above the limit, or closed below the band.
-    double below_open = -1e300, above_closed = 1e300, hi_open = -1e300, lo_closed = 1e300;
-    const double tol = switch_tolerance(cond.quantity);
-    int open_beyond = 0, closed_beyond = 0;
-    for (std::size_t k = 0; k < pts.size(); ++k) {
-      if (pts[k].open) hi_open = std::max(hi_open, pts[k].v);
-      else lo_closed = std::min(lo_closed, pts[k].v);
-      if (static_cast<int>(k) < best && pts[k].open) below_open = std::max(below_open, pts[k].v);
-      if (static_cast<int>(k) >= best && !pts[k].open) above_closed = std::min(above_closed, pts[k].v);
-      open_beyond += pts[k].open && pts[k].v > cond.limit + tol;
-      closed_beyond += !pts[k].open && pts[k].v < cond.limit - cond.deadband - tol;
-    }
-    const double estimate = below_open > -1e299 && above_closed < 1e299 ? (below_open + above_closed) / 2
-                            : below_open > -1e299                      ? below_open
-                                                                       : above_closed;
-    SwitchPoint sp{static_cast<int>(c), cond.quantity, cond.reference, cond.limit, cond.deadband,
-                   estimate, hi_open, lo_closed, n_open, n_closed, best_err, false};
-    sp.differs = open_beyond >= kSwitchMinimumSamples || closed_beyond >= kSwitchMinimumSamples;
-    r.switch_points.push_back(sp);
-    if (!sp.differs) continue;
-    for (const auto& q : pts) {
-      const double beyond = q.open ? q.v - cond.limit : (cond.limit - cond.deadband) - q.v;
-      if (beyond > 0) hl_beyond.push_back({q.sample, beyond, q.impact_kwh});
-    }
-  }
+  for (std::size_t c = 0; c < s.conditions.size(); ++c)
+    if (auto sp = switch_point(s.conditions[c], static_cast<int>(c), std::move(points_[c]), hl_beyond))
+      r.switch_points.push_back(*sp);
   // In time order, a sample beyond two conditions once, by the farther.
   std::sort(hl_beyond.begin(), hl_beyond.end(),
             [](const Beyond& a, const Beyond& b) { return a.sample < b.sample; });
@@ -339,16 +385,24 @@ Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& opti
     Beyond b = hl_beyond[j];
     for (++j; j < hl_beyond.size() && hl_beyond[j].sample == b.sample; ++j)
       b.beyond = std::max(b.beyond, hl_beyond[j].beyond);
-    add(FindingKind::high_limit_elsewhere, b.sample, b.beyond, b.impact_kwh);
+    record(FindingKind::high_limit_elsewhere, b.sample, b.beyond, b.energy_kwh);
   }
 
-  for (auto& f : acc_f) {
+  for (auto& f : findings_) {
     if (f.intervals == 0) continue;
     f.share_of_operating = r.operating_hours > 0 ? f.hours / r.operating_hours : 0.0;
     r.findings.push_back(f);
   }
   for (std::size_t i = 0; i < log.size(); ++i) r.covered_hours += log.weight_s(i) / 3600.0;
   return r;
+}
+
+Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& options) {
+  const SampleContext c = sample_context(unit, log, options);
+  FindingsTally tally(c);
+  highlimit::StrategyState state(options.strategy);
+  for (std::size_t i = 0; i < log.size(); ++i) tally.add(i, judge_sample(c, i, state));
+  return tally.finish();
 }
 
 }  // namespace limitline::audit

@@ -818,6 +818,31 @@ std::string_view verdict_name(Verdict v) {
   return "not-run";
 }
 
+namespace {
+
+// Every pair of a strategy that reads humidity with one that reads only dry-bulb, and the
+// strategies the pairs involve (`involved`, ascending).
+std::vector<BreakEvenPair> humidity_pairs(const std::vector<highlimit::Strategy>& all,
+                                          std::vector<std::size_t>& involved) {
+  std::vector<BreakEvenPair> pairs;
+  for (std::size_t h = 0; h < all.size(); ++h)
+    for (std::size_t d = 0; d < all.size(); ++d)
+      if (uses_humidity(all[h]) && dry_bulb_only(all[d])) {
+        BreakEvenPair pair;
+        pair.humid = h;
+        pair.dry = d;
+        pair.humid_name = all[h].name;
+        pair.dry_name = all[d].name;
+        pairs.push_back(pair);
+        for (std::size_t x : {h, d})
+          if (std::find(involved.begin(), involved.end(), x) == involved.end()) involved.push_back(x);
+      }
+  std::sort(involved.begin(), involved.end());
+  return pairs;
+}
+
+}  // namespace
+
 BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
                            const BreakEvenOptions& opt, const RunControl& control) {
   BreakEvenResult r;
@@ -835,22 +860,9 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
                                    at(r.base.accuracy, Sensor::return_rh);
   r.trials = std::max<std::size_t>(opt.trials, 1);
 
-  const auto& all = engine.strategies();
   std::vector<std::size_t> involved;
-  for (std::size_t h = 0; h < all.size(); ++h)
-    for (std::size_t d = 0; d < all.size(); ++d)
-      if (uses_humidity(all[h]) && dry_bulb_only(all[d])) {
-        BreakEvenPair pair;
-        pair.humid = h;
-        pair.dry = d;
-        pair.humid_name = all[h].name;
-        pair.dry_name = all[d].name;
-        r.pairs.push_back(pair);
-        for (std::size_t x : {h, d})
-          if (std::find(involved.begin(), involved.end(), x) == involved.end()) involved.push_back(x);
-      }
+  r.pairs = humidity_pairs(engine.strategies(), involved);
   if (r.pairs.empty()) return r;
-  std::sort(involved.begin(), involved.end());
 
   // Progress counts bisection steps; the total is known once the ends of the search are.
   std::size_t total = 2 + r.pairs.size() * static_cast<std::size_t>(opt.bisection_steps);

@@ -326,6 +326,56 @@ Site read_site(const Reader& r, const toml::table* t) {
   return s;
 }
 
+// A quantity the [air_handler] table must give, in the example's form when it is missing.
+double required_quantity(const Reader& r, const toml::table& t, std::string_view key, Kind kind,
+                         std::string_view example) {
+  auto v = r.quantity(t, key, "air_handler", kind);
+  if (!v)
+    r.missing(t, Reader::join_path("air_handler", key), fmt::format("e.g. {} = \"{}\"", key, example));
+  return *v;
+}
+
+// The return air of [air_handler]: dry-bulb and exactly one humidity form, above the supply
+// setpoint and a state that exists at the site pressure.
+void read_return_air(const Reader& r, const toml::table& t, double pressure_kpa, UnitFile& u) {
+  constexpr std::string_view P = "air_handler";
+  const airside::AirHandler& a = u.air_handler;
+  u.return_air.dry_bulb_c = required_quantity(r, t, "return_air_temp", Kind::temperature,
+                                              r.system == units::System::ip ? "75F" : "24C");
+  u.return_air.system = r.system;
+  const ReturnHumidityKey* given = nullptr;
+  for (const auto& h : kReturnHumidityKeys) {
+    const toml::node* n = t.get(h.key);
+    if (n == nullptr) continue;
+    if (given)
+      r.fail(n->source(), Reader::join_path(P, h.key),
+             fmt::format("give one return-air humidity, not both {} (line {}) and {}",
+                         given->key, line_of(t.get(given->key)->source()), h.key));
+    given = &h;
+    u.return_air.humidity_kind = h.input;
+    const Kind kind = humidity_input_kind(h.input);
+    u.return_air.humidity_value = *r.quantity(t, h.key, P, kind);
+    if (kind == Kind::fraction && !(u.return_air.humidity_value >= 0.0 &&
+                                    u.return_air.humidity_value <= 1.0))
+      r.check_range(t, h.key, P, Kind::fraction, u.return_air.humidity_value, 0.0, 1.0,
+                    "0% to 100%");
+  }
+  if (!given)
+    r.missing(t, "air_handler.return_air_rh",
+              "the return-air humidity: one of return_air_rh, return_air_dew_point, "
+              "return_air_wet_bulb, return_air_humidity_ratio");
+  if (a.supply_air_temp_c >= u.return_air.dry_bulb_c)
+    r.fail(t.get("supply_air_temp")->source(), "air_handler.supply_air_temp",
+           fmt::format("{} is not below return_air_temp {} (line {}); the supply setpoint must "
+                       "be below the return air",
+                       r.show(Kind::temperature, a.supply_air_temp_c),
+                       r.show(Kind::temperature, u.return_air.dry_bulb_c),
+                       line_of(t.get("return_air_temp")->source())));
+  // The return state must exist at the site pressure.
+  u.return_air.properties(pressure_kpa,
+                          r.origin(t.get(given->key)->source(), Reader::join_path(P, given->key)));
+}
+
 void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa, UnitFile& u) {
   constexpr std::string_view P = "air_handler";
   r.check_keys(t, P, kAirHandlerKeys, "[air_handler]");
@@ -333,9 +383,7 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
   const bool is_ip = r.system == units::System::ip;
 
   auto required = [&](std::string_view key, Kind kind, std::string_view example) {
-    auto v = r.quantity(t, key, P, kind);
-    if (!v) r.missing(t, Reader::join_path(P, key), fmt::format("e.g. {} = \"{}\"", key, example));
-    return *v;
+    return required_quantity(r, t, key, kind, example);
   };
   a.supply_airflow_m3_per_s =
       required("supply_airflow", Kind::airflow, is_ip ? "12000cfm" : "5.6m3/s");
@@ -407,41 +455,7 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
     a.coil_leaving_rh_max = *rh;
   }
 
-  // Return air: dry-bulb and exactly one humidity form.
-  u.return_air.dry_bulb_c =
-      required("return_air_temp", Kind::temperature, is_ip ? "75F" : "24C");
-  u.return_air.system = r.system;
-  const ReturnHumidityKey* given = nullptr;
-  for (const auto& h : kReturnHumidityKeys) {
-    const toml::node* n = t.get(h.key);
-    if (n == nullptr) continue;
-    if (given)
-      r.fail(n->source(), Reader::join_path(P, h.key),
-             fmt::format("give one return-air humidity, not both {} (line {}) and {}",
-                         given->key, line_of(t.get(given->key)->source()), h.key));
-    given = &h;
-    u.return_air.humidity_kind = h.input;
-    const Kind kind = humidity_input_kind(h.input);
-    u.return_air.humidity_value = *r.quantity(t, h.key, P, kind);
-    if (kind == Kind::fraction && !(u.return_air.humidity_value >= 0.0 &&
-                                    u.return_air.humidity_value <= 1.0))
-      r.check_range(t, h.key, P, Kind::fraction, u.return_air.humidity_value, 0.0, 1.0,
-                    "0% to 100%");
-  }
-  if (!given)
-    r.missing(t, "air_handler.return_air_rh",
-              "the return-air humidity: one of return_air_rh, return_air_dew_point, "
-              "return_air_wet_bulb, return_air_humidity_ratio");
-  if (a.supply_air_temp_c >= u.return_air.dry_bulb_c)
-    r.fail(t.get("supply_air_temp")->source(), "air_handler.supply_air_temp",
-           fmt::format("{} is not below return_air_temp {} (line {}); the supply setpoint must "
-                       "be below the return air",
-                       r.show(Kind::temperature, a.supply_air_temp_c),
-                       r.show(Kind::temperature, u.return_air.dry_bulb_c),
-                       line_of(t.get("return_air_temp")->source())));
-  // The return state must exist at the site pressure.
-  u.return_air.properties(pressure_kpa,
-                          r.origin(t.get(given->key)->source(), Reader::join_path(P, given->key)));
+  read_return_air(r, t, pressure_kpa, u);
   try {
     airside::validate(a);
   } catch (const InputError& e) {

@@ -278,587 +278,596 @@ CodeView code_view(const codes::ZoneRequirements* zone, const highlimit::Strateg
 
 // --- Composition ----------------------------------------------------------------------------
 
-class Composer {
- public:
-  Composer(const Inputs& in, System s) : in_(in), unit_(*in.unit), st_(*in.strategy), s_(s) {
-    code_ = code_view(in.code, st_);
-    if (in.annual) {
-      const auto& rs = in.annual->year->strategies;
-      for (std::size_t i = 0; i < rs.size(); ++i)
-        if (rs[i].name == st_.name) rank_ = static_cast<int>(i) + 1;
-      if (rank_ == 0)
-        throw InputError(fmt::format("strategy '{}' is not among the annual results", st_.name));
-    }
-  }
+// What every section reads. The numbers of paragraphs another section cites are fixed here,
+// before any section is written, so a section never depends on the order they are built in.
+struct Context {
+  const Inputs& in;
+  const UnitFile& unit;
+  const highlimit::Strategy& st;
+  System s;
+  CodeView code;
+  int rank = 0;            // the strategy's place among the annual results, 1 = best; 0: none
+  std::string annual_ref;  // the number of section 3's annual-evaluation paragraph, or empty
 
-  Document build() {
-    Document d;
-    d.title = fmt::format("Economizer sequence of operation: {}", site_title());
-    header(d);
-    general(d.sections.emplace_back(Section{1, "General", {}}));
-    enable(d.sections.emplace_back(Section{2, "Economizer enable", {}}));
-    high_limit(d.sections.emplace_back(Section{3, "High-limit control", {}}));
-    modulation(d.sections.emplace_back(Section{4, "Damper modulation and mechanical cooling", {}}));
-    minimum(d.sections.emplace_back(Section{5, "Minimum outdoor air", {}}));
-    protection(d.sections.emplace_back(Section{6, "Mixed-air low-limit and freeze protection", {}}));
-    sensors(d.sections.emplace_back(Section{7, "Sensors", {}}));
-    alarms(d.sections.emplace_back(Section{8, "Alarms", {}}));
-    d.cautions = report::cautions(report::CautionTopic::sequence);
-    return d;
-  }
-
- private:
-  const Inputs& in_;
-  const UnitFile& unit_;
-  const highlimit::Strategy& st_;
-  System s_;
-  CodeView code_;
-  int rank_ = 0;
-  std::string annual_ref_;  // "3.5", once section 3 is numbered
-
-  std::string site_title() const {
-    return unit_.site.name.empty() ? in_.unit_label : unit_.site.name;
-  }
+  std::string site_title() const { return unit.site.name.empty() ? in.unit_label : unit.site.name; }
   bool integrated() const {
-    return unit_.air_handler.economizer == airside::EconomizerType::integrated;
+    return unit.air_handler.economizer == airside::EconomizerType::integrated;
   }
-  const airside::AirHandler& ah() const { return unit_.air_handler; }
-  std::string t(double c) const { return written(Kind::temperature, s_, c); }
-  std::string dt(double k) const { return written(Kind::temperature_difference, s_, k); }
-
-  static void add(Section& sec, std::string text) {
-    sec.paragraphs.push_back(
-        {fmt::format("{}.{}", sec.number, sec.paragraphs.size() + 1), std::move(text)});
-  }
-  static std::string next_number(const Section& sec) {
-    return fmt::format("{}.{}", sec.number, sec.paragraphs.size() + 1);
-  }
-
-  void header(Document& d) const {
-    d.header.push_back(fmt::format("Unit file: {}", in_.unit_label));
-    d.header.push_back(fmt::format("High-limit strategy: {}", st_.name));
-    if (code_.zone)
-      d.header.push_back(fmt::format("Energy code: {}, climate zone {}", code_.edition_title(),
-                                     code_.zone->zone));
-    else
-      d.header.push_back("Energy code: none named in the unit file's [site]");
-    if (in_.annual)
-      d.header.push_back(fmt::format("Annual evaluation: weather {}", in_.annual->weather_label));
-    else
-      d.header.push_back("Annual evaluation: not run for this text");
-  }
-
-  void general(Section& sec) const {
-    add(sec, fmt::format(
-                 "This part of the sequence covers the air-side economizer of {}: the outdoor, "
-                 "return and relief dampers, the high-limit control, mixed-air control, and the "
-                 "mixed-air low-limit and freeze protection that override them. It is generated "
-                 "from the unit file {}, and every setpoint in it is the figure the energy "
-                 "analysis used; change a setpoint in the unit file and generate the text again, "
-                 "so that the written sequence and the analysis stay the same.",
-                 site_title(), in_.unit_label));
-    const bool ip = s_ == System::ip;
-    add(sec, fmt::format(
-                 "Temperatures are in {}; enthalpy is in {} of dry air, referred to dry air at {} "
-                 "(the {} datum). Outdoor-air fractions are shares of the supply airflow. Each "
-                 "setpoint states its basis: an energy-code clause, a design choice, or common "
-                 "practice. A figure marked \"rounded\" cannot be written exactly in these units; "
-                 "the figure the analysis used follows it, and that one governs.",
-                 ip ? "°F" : "°C", ip ? "Btu per pound" : "kJ per kilogram", ip ? "0 °F" : "0 °C",
-                 ip ? "IP" : "SI"));
-  }
-
-  void enable(Section& sec) const {
-    add(sec,
-        "The economizer shall be enabled only while all of the following hold: (a) the supply "
-        "fan is proven running by its status input; (b) the unit is in occupied mode, or in a "
-        "purge mode commanded by the building automation system; (c) cooling is required, that "
-        "is, the mixed air with the outdoor damper at its ventilation minimum would be warmer "
-        "than the mixed-air setpoint of paragraph 4.1; and (d) no condition of the high-limit "
-        "of section 3 has locked it out, and the sensors that high-limit reads are healthy "
-        "(paragraph 8.2).");
-    add(sec,
-        "While the economizer is disabled and the supply fan runs in occupied mode, the outdoor "
-        "damper shall hold the ventilation minimum of paragraph 5.1 and the return damper shall "
-        "be open.");
-    add(sec,
-        "When the supply fan is off, or the unit is unoccupied and not in purge, the outdoor "
-        "damper shall close fully and the return damper shall open.");
-  }
-
-  // --- Section 3 ---
-
-  void high_limit(Section& sec) {
-    const std::size_t n = st_.conditions.size();
-    annual_ref_ = in_.annual ? fmt::format("3.{}", n + 3) : std::string();
-    std::string first = fmt::format(
-        "The high-limit is \"{}\"{}. {} The economizer shall be locked out while any "
-        "condition below has tripped, and enabled again only when every condition has cleared; "
-        "a reading exactly at its limit does not trip a condition.",
-        st_.name,
-        st_.preset.empty() ? ", with conditions set in the unit file"
-                           : fmt::format(", of the {} type", st_.preset),
-        n == 1 ? std::string("It has one condition.")
-               : fmt::format("It has {} conditions, joined by OR.", n));
-    if (unit_.strategies_defaulted)
-      first += " The unit file names no strategy, so this is the first preset at limitline's "
-               "common-practice settings.";
-    if (code_.zone) first += " " + code_type_sentence();
-    add(sec, first);
-    for (std::size_t i = 0; i < n; ++i) add(sec, condition_paragraph(i));
-    add(sec,
-        "At the limit: when any condition trips, the outdoor damper shall return to the "
-        "ventilation minimum of paragraph 5.1, the return damper shall open to match, and "
-        "mechanical cooling shall carry the load to the supply-air setpoint. The economizer "
-        "shall stay locked out until the tripped condition has cleared as stated above.");
-    if (in_.annual) add(sec, annual_paragraph());
-  }
-
-  std::string code_type_sentence() const {
-    const auto& z = *code_.zone;
-    std::vector<std::string> provenance;
-    auto note = [&](const codes::Row* r) {
-      if (r && std::find(provenance.begin(), provenance.end(), r->provenance) == provenance.end())
-        provenance.push_back(r->provenance);
-    };
-    std::string out;
-    switch (code_.check.verdict) {
-      case codes::Verdict::complies:
-      case codes::Verdict::set_wrong:
-        out = fmt::format("{} allows this control type in climate zone {}.", code_.cite(*code_.check.row), z.zone);
-        note(code_.check.row);
-        break;
-      case codes::Verdict::not_allowed: {
-        std::vector<std::string> allowed;
-        for (const auto& a : z.allowed) {
-          allowed.push_back(allowed_text(a));
-          note(a.row);
-        }
-        note(code_.check.row);
-        out = fmt::format(
-            "{} does not allow this control type ({}) in climate zone {}; it allows {}. The "
-            "setpoints below are therefore design choices, and this high-limit does not meet "
-            "that code as written.",
-            code_.cite(*code_.check.row), code_.check.matched->control, z.zone,
-            allowed.empty() ? std::string("no modelled type") : join(allowed, "; "));
-        break;
-      }
-      case codes::Verdict::not_evaluable:
-        out = fmt::format(
-            "Its conditions match no control type of the {} tables, so they cannot be checked "
-            "against that code; the setpoints below are design choices.",
-            code_.edition_title());
-        break;
-    }
-    if (!provenance.empty())
-      out += fmt::format(" The code figures come from limitline's code tables ({}).",
-                         join(provenance, "; "));
-    return out;
-  }
-
-  std::string condition_paragraph(std::size_t i) const {
-    const Condition& c = st_.conditions[i];
-    const QuantityWords& w = words(c.quantity);
-    const Kind vk = highlimit::quantity_kind(c.quantity);
-    const Kind dk = highlimit::quantity_difference_kind(c.quantity);
-    std::string out = fmt::format("Condition {}: lock out the economizer when the {} rises above ",
-                                  i + 1, w.outdoor);
-    if (c.reference == Reference::fixed) {
-      out += written(vk, s_, c.limit) + ".";
-      if (c.deadband > 0.0)
-        out += fmt::format(" Release this lockout only when it falls below {}, a deadband of {}.",
-                           written(vk, s_, c.limit - c.deadband), written(dk, s_, c.deadband));
-      else
-        out += fmt::format(" Release it as soon as the {} is back at or below that limit (no "
-                           "deadband).",
-                           w.outdoor);
-    } else {
-      out += "the " + std::string(w.ret);
-      if (std::fabs(c.limit) > 1e-12)
-        out += fmt::format(" {} {}", c.limit > 0 ? "plus" : "minus", written(dk, s_, std::fabs(c.limit)));
-      out += ".";
-      if (c.deadband > 0.0)
-        out += fmt::format(" Release this lockout only when it falls more than {} below that "
-                           "value (the deadband).",
-                           written(dk, s_, c.deadband));
-      else
-        out += " Release it as soon as it is back at or below that value (no deadband).";
-    }
-    out += " Basis: " + condition_basis(i);
-    if (c.deadband > 0.0)
-      out += " The deadband is a design choice that keeps the dampers from cycling at the limit; "
-             "the code tables set none.";
-    return out;
-  }
-
-  // The annual result the setpoint stands on; a strategy that did not rank first is said so.
-  std::string annual_support() const {
-    if (!in_.annual) return {};
-    const std::size_t n = in_.annual->year->strategies.size();
-    if (rank_ == 1)
-      return fmt::format(" The annual evaluation of paragraph {} supports it: this strategy "
-                         "ranked first of the {} evaluated.",
-                         annual_ref_, n);
-    return fmt::format(" The annual evaluation of paragraph {} ranks this strategy {} of {}; "
-                       "weigh that before adopting it.",
-                       annual_ref_, rank_, n);
-  }
-
-  std::string condition_basis(std::size_t i) const {
-    const Condition& c = st_.conditions[i];
-    if (!code_.zone)
-      return "design choice; the unit file names no energy code and climate zone to check it "
-             "against." +
-             (in_.annual ? annual_support()
-                         : std::string(" No annual evaluation was run for this text."));
-    switch (code_.check.verdict) {
-      case codes::Verdict::not_allowed:
-        return "design choice; the control type is not allowed in this climate zone (paragraph "
-               "3.1)." + annual_support();
-      case codes::Verdict::not_evaluable:
-        return "design choice; it cannot be checked against the code (paragraph 3.1)." +
-               annual_support();
-      case codes::Verdict::complies:
-      case codes::Verdict::set_wrong: break;
-    }
-    // The setting this condition stands for in the code's terms: a fixed humidity ratio is
-    // read as the dew point it fixes at the site pressure, as the verdict reads it.
-    Quantity q = c.quantity;
-    double value = c.limit;
-    if (q == Quantity::humidity_ratio && c.reference == Reference::fixed) {
-      q = Quantity::dew_point;
-      value = psychro::dew_point_from_humidity_ratio_c(c.limit, code_.pressure());
-    }
-    const codes::MatchedSetting* m = nullptr;
-    for (const auto& ms : code_.check.matched->settings)
-      if (ms.setting.quantity == q && ms.setting.reference == c.reference) m = &ms;
-    const codes::RequiredSetting* req = nullptr;
-    for (const auto& r : code_.allowed->settings)
-      if (r.quantity == q && r.reference == c.reference) req = &r;
-    if (m == nullptr || req == nullptr)
-      return "design choice; the code row sets no figure for this condition." + annual_support();
-    const std::string where =
-        fmt::format("{}, climate zone {}", code_.cite(*code_.check.row), code_.zone->zone);
-    if (std::fabs(m->setting.value - value) > 1e-9)
-      return fmt::format("design choice; condition {} sets the lower limit on the same quantity, "
-                         "and that one is the one {} judges.",
-                         lowest_condition(q, c.reference) + 1, where) +
-             annual_support();
-    const Kind sk = codes::setting_kind(q, c.reference);
-    std::string required = required_text(q, c.reference, req->value);
-    if (req->site_adjusted)
-      required += fmt::format(" at the site pressure, from {} at sea level",
-                              written(sk, s_, req->tabulated, Note::source));
-    std::string read_as;
-    if (q != c.quantity)
-      read_as = fmt::format(" This humidity-ratio limit is read as a dew point of {} at the site "
-                            "pressure.",
-                            written(Kind::temperature, s_, value, Note::source));
-    for (const auto& d : code_.check.deviations) {
-      if (d.quantity != q || d.reference != c.reference) continue;
-      const Kind dk = highlimit::quantity_difference_kind(q);
-      const bool above = d.difference() > 0;
-      return fmt::format(
-                 "design choice. {} requires, for this control type, {}; this setpoint is {} "
-                 "{} it, so the economizer would {}, and it does not meet that code as written.{}",
-                 where, required, written(dk, s_, std::fabs(d.difference()), Note::source),
-                 above ? "above" : "below",
-                 above ? "stay on in air the code excludes" : "shut off earlier than the code sets",
-                 read_as) +
-             annual_support();
-    }
-    return fmt::format("{}, which requires {}; this setpoint meets it.{}", where, required, read_as) +
-           annual_support();
-  }
-
-  // A figure the code requires, as this text writes setpoints.
-  std::string required_text(Quantity q, Reference r, double value) const {
-    const Kind k = codes::setting_kind(q, r);
-    if (r == Reference::fixed) return written(k, s_, value, Note::source);
-    if (std::fabs(value) < 1e-12) return "the return-air value itself, with no offset";
-    return fmt::format("the return-air value {} {}", value > 0 ? "plus" : "minus",
-                       written(k, s_, std::fabs(value), Note::source));
-  }
-
-  // "fixed-dry-bulb (outdoor-air dry-bulb temperature above 65 °F)".
-  std::string allowed_text(const codes::AllowedControl& a) const {
-    if (!a.row->modelled) return fmt::format("{} ({})", a.row->control, a.row->description);
-    std::vector<std::string> parts;
-    for (const auto& r : a.settings)
-      parts.push_back(fmt::format("{} above {}", words(r.quantity).outdoor,
-                                  required_text(r.quantity, r.reference, r.value)));
-    return fmt::format("{} ({})", a.row->control, join(parts, " or "));
-  }
-
-  std::size_t lowest_condition(Quantity q, Reference r) const {
-    std::size_t best = 0;
-    double lowest = 0;
-    bool any = false;
-    for (std::size_t i = 0; i < st_.conditions.size(); ++i) {
-      const Condition& c = st_.conditions[i];
-      double v = c.limit;
-      Quantity cq = c.quantity;
-      if (cq == Quantity::humidity_ratio && c.reference == Reference::fixed) {
-        cq = Quantity::dew_point;
-        v = psychro::dew_point_from_humidity_ratio_c(c.limit, code_.pressure());
-      }
-      if (cq != q || c.reference != r) continue;
-      if (!any || v < lowest) best = i, lowest = v, any = true;
-    }
-    return best;
-  }
-
-  std::string energy(double kwh) const {
-    return fmt::format("{} {}", number_text(report::energy_display(kwh, s_), 0, s_),
-                       report::energy_unit(s_));
-  }
-  std::string hours(double h) const { return fmt::format("{} h", number_text(h, 0, s_)); }
-
-  std::string annual_paragraph() const {
-    const annual::YearResult& y = *in_.annual->year;
-    const annual::StrategyResult& r = y.strategies[static_cast<std::size_t>(rank_ - 1)];
-    const double saved = r.savings_vs_no_economizer_kwh;
-    std::string out = fmt::format(
-        "Annual evaluation: with the weather of {} and this unit's occupancy schedule ({} of "
-        "fan operation), this strategy ranked {} of the {} strategies evaluated for the unit. It "
-        "falls {} short of the perfect changeover (the ideal high-limit, which enables the "
-        "economizer in exactly the hours when that costs less) and {} {} against no economizer. "
-        "It economized for {}, {} of them with mechanical cooling; it was enabled for {} when "
-        "that cost more energy than not, and stayed off for {} when economizing would have "
-        "saved energy.",
-        in_.annual->weather_label, hours(y.operating_hours), rank_, y.strategies.size(),
-        energy(std::max(0.0, r.shortfall_vs_perfect_kwh)), saved >= 0 ? "saves" : "costs",
-        energy(std::fabs(saved)), hours(r.annual.hours_economizing),
-        hours(r.annual.hours_integrated), hours(r.annual.harmful_hours),
-        hours(r.annual.missed_hours));
-    if (rank_ > 1)
-      out += fmt::format(" The best strategy evaluated, \"{}\", falls {} short.", y.strategies[0].name,
-                         energy(std::max(0.0, y.strategies[0].shortfall_vs_perfect_kwh)));
-    out += " Energy is cooling and heating at the coils, weighted as the unit file sets.";
-    return out;
-  }
-
-  // --- Section 4 ---
-
-  void modulation(Section& sec) const {
-    const auto& a = ah();
-    std::string out = fmt::format(
-        "While the economizer is enabled, the outdoor and return dampers shall modulate in "
-        "opposition to hold the mixed-air temperature at {}: ",
-        t(a.mixed_air_target_c()));
-    if (a.fan_heat_k > 0.0)
-      out += fmt::format("the supply-air setpoint of {} less {} for the heat of the {} supply "
-                         "fan{}.",
-                         t(a.supply_air_temp_c), dt(a.fan_heat_k),
-                         airside::fan_position_name(a.fan_position),
-                         a.fan_position == airside::FanPosition::draw_through
-                             ? ", which adds it after the cooling coil"
-                             : ", which adds it ahead of the cooling coil");
-    else
-      out += fmt::format("the supply-air setpoint of {}, with no supply-fan heat allowed for.",
-                         t(a.supply_air_temp_c));
-    out += " Basis: design choice; the supply-air setpoint and fan heat are the unit's, as the "
-           "analysis used them.";
-    add(sec, out);
-    add(sec,
-        fmt::format("The outdoor damper shall open no further than {} outdoor air{}. Basis: "
-                    "design choice, set by the damper and relief capacity; the analysis used "
-                    "this limit.",
-                    written(Kind::fraction, s_, a.max_oa_fraction),
-                    a.max_oa_fraction >= 1.0 ? " (fully open)" : ""));
-    add(sec, integration_paragraph());
-    add(sec,
-        "As the outdoor damper opens, relief dampers or a return or relief fan shall keep the "
-        "building pressure the design sets; building pressurisation is the designer's "
-        "responsibility.");
-  }
-
-  std::string integration_paragraph() const {
-    std::string out;
-    if (integrated())
-      out = "Integrated operation: when the outdoor damper is at the limit of paragraph 4.2 and "
-            "the mixed air is still above the setpoint of paragraph 4.1, the outdoor damper shall "
-            "stay at that limit and mechanical cooling shall make up the rest of the load to the "
-            "supply-air setpoint. Running mechanical cooling shall neither lock out the "
-            "economizer nor move the outdoor damper; only the high-limit of section 3, the "
-            "protections of section 6 and the modes of section 2 take it off economizer "
-            "operation.";
-    else
-      out = "Non-integrated operation: this unit does not run the economizer and mechanical "
-            "cooling together. When the outdoor damper is at the limit of paragraph 4.2 and the "
-            "mixed air is still above the setpoint of paragraph 4.1, the economizer shall be "
-            "locked out, the outdoor damper shall return to the ventilation minimum of paragraph "
-            "5.1, and mechanical cooling shall carry the whole load. The economizer shall be "
-            "enabled again only when the outdoor-air dry-bulb temperature has fallen below the "
-            "mixed-air setpoint of paragraph 4.1, after any minimum run time the compressor "
-            "manufacturer sets.";
-    if (!code_.zone) {
-      out += " Basis: design choice; no energy code is named to check it against.";
-    } else {
-      const auto ic = codes::check_integration(*code_.zone->edition, unit_.air_handler.economizer);
-      if (!ic.rule->required)
-        out += fmt::format(" Basis: design choice; limitline's tables for {} set no integration "
-                           "requirement.",
-                           code_.edition_title());
-      else if (ic.complies)
-        out += fmt::format(" Basis: {}, {}, which requires an integrated economizer; this unit "
-                           "meets it.",
-                           code_.edition_title(), ic.rule->clause);
-      else
-        out += fmt::format(" Basis: design choice. {}, {}, requires an integrated economizer, so "
-                           "this operation does not meet that code as written.",
-                           code_.edition_title(), ic.rule->clause);
-    }
-    if (in_.annual) out += fmt::format(" The annual evaluation of paragraph {} used this operation.", annual_ref_);
-    return out;
-  }
-
-  // --- Section 5 ---
-
-  void minimum(Section& sec) const {
-    const auto& a = ah();
-    std::string amount;
-    if (unit_.min_outdoor_airflow_m3_per_s)
-      amount = fmt::format("{} of outdoor air ({} of the design supply airflow of {})",
-                           written(Kind::airflow, s_, *unit_.min_outdoor_airflow_m3_per_s),
-                           written(Kind::fraction, s_, a.min_oa_fraction, Note::about),
-                           written(Kind::airflow, s_, a.supply_airflow_m3_per_s));
-    else
-      amount = fmt::format("{} outdoor air ({} at the design supply airflow of {})",
-                           written(Kind::fraction, s_, a.min_oa_fraction),
-                           written(Kind::airflow, s_, a.min_oa_fraction * a.supply_airflow_m3_per_s,
-                                   Note::about),
-                           written(Kind::airflow, s_, a.supply_airflow_m3_per_s));
-    add(sec,
-        fmt::format(
-            "Whenever the supply fan runs in occupied mode, the outdoor damper shall admit at "
-            "least the ventilation minimum of {}, whatever the economizer and the mixed-air "
-            "low-limit call for; only the freeze protection of paragraph 6.2 may close it "
-            "further. Where the supply airflow varies, the minimum position shall be reset, or "
-            "the outdoor airflow measured, so that the airflow rather than the damper position "
-            "is held. Basis: the ventilation minimum is the designer's responsibility, from the "
-            "ventilation calculation the adopted mechanical code requires; this is the figure "
-            "the analysis used.",
-            amount));
-  }
-
-  // --- Section 6 ---
-
-  void protection(Section& sec) const {
-    const double target = ah().mixed_air_target_c();
-    const double margin = units::from_display(
-        Kind::temperature_difference, s_, s_ == System::ip ? kLowLimitMarginF : kLowLimitMarginK);
-    const double low = design_value(Kind::temperature, s_, target - margin, true);
-    const double freeze = design_value(Kind::temperature, s_,
-                                       units::celsius_from_fahrenheit(kFreezeExampleF), false);
-    const std::string clash =
-        low <= freeze + 1e-9
-            ? fmt::format(" At this supply-air setpoint the low-limit is not above the {} "
-                          "common-practice figure of paragraph 6.2; the designer must set the "
-                          "two apart.",
-                          t(freeze))
-            : std::string();
-    add(sec,
-        fmt::format(
-            "Mixed-air low-limit: if the mixed-air temperature falls below {}, a low-limit loop "
-            "shall override the mixed-air control of paragraph 4.1 and move the outdoor damper "
-            "towards the ventilation minimum of paragraph 5.1, never below it; heating, where "
-            "fitted, then makes up the supply-air setpoint. Basis: design choice, {} below the "
-            "mixed-air setpoint ({} below it is common practice); it guards the coils against "
-            "stratified cold air and is not part of the annual evaluation. Keep it above the "
-            "low-temperature detection setpoint of paragraph 6.2.{}",
-            t(low), written(Kind::temperature_difference, s_, target - low, Note::about),
-            dt(margin), clash));
-
-    add(sec,
-        fmt::format(
-            "Freeze protection: when the low-temperature detection of section 7 senses air "
-            "below its setpoint along any part of its element, the outdoor damper shall close "
-            "fully, overriding the ventilation minimum, the return damper shall open, and an "
-            "alarm shall be raised (paragraph 8.6); fan and heating-valve actions follow the "
-            "unit's freeze-protection design. The device shall act without the controller and "
-            "reset only by hand. The setpoint is the designer's responsibility; {} is common "
-            "practice.",
-            t(freeze)));
-  }
-
-  // --- Section 7 ---
-
-  void sensors(Section& sec) const {
-    const sensors::SensorSet set = sensors::read_sensors(
-        unit_.sensors ? &*unit_.sensors : nullptr, unit_.path, unit_.units);
-    const bool derived = st_.needs(Quantity::enthalpy) || st_.needs(Quantity::humidity_ratio);
-    for (const SensorRow& row : kSensors) {
-      if (!needs(st_, row.need)) continue;
-      std::string type(row.type), accuracy;
-      if (row.studied) {
-        const sensors::HumidityKind kind = set.outdoor_humidity;
-        std::string suffix;
-        if (row.sensor == sensors::Sensor::outdoor_humidity) {
-          type = humidity_type(kind).type;
-          suffix = humidity_type(kind).unit_suffix;
-        }
-        if (row.sensor == sensors::Sensor::return_rh) suffix = " RH";
-        const double a = sensors::at(set.accuracy, row.sensor);
-        const std::string figure = written(sensors::bias_kind(row.sensor, kind), s_, a, Note::source);
-        accuracy = fmt::format(
-            "{} or better, the figure the sensor-error study assumes ({})",
-            set.distribution == sensors::BiasDistribution::normal
-                ? fmt::format("{}{} as one standard deviation", figure, suffix)
-                : fmt::format("±{}{}", figure, suffix),
-            set.given[static_cast<std::size_t>(row.sensor)]
-                ? "from the unit file's [sensors] table"
-                : "a typical commercial figure, common practice");
-        if (row.sensor == sensors::Sensor::outdoor_humidity ||
-            row.sensor == sensors::Sensor::return_rh)
-          accuracy += "; check or replace it yearly, because humidity elements drift";
-      } else if (!row.accuracy.pick(s_).empty()) {
-        accuracy = fmt::format("{} (common practice)", row.accuracy.pick(s_));
-      }
-      std::string out = fmt::format("{}: {}; {}", row.name, row.location, type);
-      out += accuracy.empty() ? "." : fmt::format("; accuracy {}.", accuracy);
-      if (row.need == Need::outdoor_humidity && derived)
-        out += fmt::format(
-            " {} shall be computed, by the controller or the transmitter, at the site's design "
-            "pressure of {}, as the analysis did; a sea-level calculation misstates it at "
-            "altitude.",
-            st_.needs(Quantity::enthalpy) ? "Enthalpy" : "Humidity ratio",
-            written(Kind::pressure, s_, unit_.site.design_pressure_kpa(), Note::about));
-      add(sec, out);
-    }
-  }
-
-  // --- Section 8 ---
-
-  void alarms(Section& sec) const {
-    add(sec,
-        "The alarms below report faults that waste energy or starve the ventilation. Their "
-        "thresholds and delays are design choices, to be tuned in commissioning.");
-    add(sec,
-        fmt::format("Sensor out of range: raise an alarm when any sensor of section 7 reads "
-                    "outside its physical range (an open or short circuit, a temperature below {}, "
-                    "a humidity below 0% or above 100% RH) or does not change at all for 24 hours. "
-                    "While a sensor the high-limit reads is in alarm, the economizer shall stay "
-                    "locked out.",
-                    kSensorRange.pick(s_)));
-    add(sec,
-        "Damper not following command: raise an alarm when the outdoor-damper position differs "
-        "from its command by more than 10% of stroke for more than 5 minutes.");
-    add(sec,
-        "Economizing when it should not: raise an alarm when the outdoor damper stands more "
-        "than 10% of stroke above its ventilation-minimum position for more than 15 minutes "
-        "while (a) the high-limit of section 3 has locked the economizer out, or (b) the "
-        "outdoor-air dry-bulb temperature is above the return-air dry-bulb temperature.");
-    add(sec,
-        "Not economizing when it should: raise an alarm when the outdoor damper stays at its "
-        "ventilation-minimum position for more than 15 minutes while paragraph 2.1 enables the "
-        "economizer, or when the high-limit reports a lockout although the readings put every "
-        "condition of section 3 below its limit.");
-    add(sec,
-        "Low temperature: raise an alarm whenever the freeze protection of paragraph 6.2 acts; "
-        "it shall stay in alarm until reset by hand.");
-  }
+  const airside::AirHandler& ah() const { return unit.air_handler; }
+  std::string t(double c) const { return written(Kind::temperature, s, c); }
+  std::string dt(double k) const { return written(Kind::temperature_difference, s, k); }
 };
+
+Context make_context(const Inputs& in, System s) {
+  Context ctx{in, *in.unit, *in.strategy, s, code_view(in.code, *in.strategy), 0, {}};
+  if (in.annual) {
+    const auto& rs = in.annual->year->strategies;
+    for (std::size_t i = 0; i < rs.size(); ++i)
+      if (rs[i].name == ctx.st.name) ctx.rank = static_cast<int>(i) + 1;
+    if (ctx.rank == 0)
+      throw InputError(fmt::format("strategy '{}' is not among the annual results", ctx.st.name));
+    // Section 3 is the first paragraph, one per condition, the action at the limit, then this.
+    ctx.annual_ref = fmt::format("3.{}", ctx.st.conditions.size() + 3);
+  }
+  return ctx;
+}
+
+void add(Section& sec, std::string text) {
+  sec.paragraphs.push_back(
+      {fmt::format("{}.{}", sec.number, sec.paragraphs.size() + 1), std::move(text)});
+}
+
+void header(const Context& ctx, Document& d) {
+  d.header.push_back(fmt::format("Unit file: {}", ctx.in.unit_label));
+  d.header.push_back(fmt::format("High-limit strategy: {}", ctx.st.name));
+  if (ctx.code.zone)
+    d.header.push_back(fmt::format("Energy code: {}, climate zone {}", ctx.code.edition_title(),
+                                   ctx.code.zone->zone));
+  else
+    d.header.push_back("Energy code: none named in the unit file's [site]");
+  if (ctx.in.annual)
+    d.header.push_back(fmt::format("Annual evaluation: weather {}", ctx.in.annual->weather_label));
+  else
+    d.header.push_back("Annual evaluation: not run for this text");
+}
+
+void general(const Context& ctx, Section& sec) {
+  add(sec, fmt::format(
+               "This part of the sequence covers the air-side economizer of {}: the outdoor, "
+               "return and relief dampers, the high-limit control, mixed-air control, and the "
+               "mixed-air low-limit and freeze protection that override them. It is generated "
+               "from the unit file {}, and every setpoint in it is the figure the energy "
+               "analysis used; change a setpoint in the unit file and generate the text again, "
+               "so that the written sequence and the analysis stay the same.",
+               ctx.site_title(), ctx.in.unit_label));
+  const bool ip = ctx.s == System::ip;
+  add(sec, fmt::format(
+               "Temperatures are in {}; enthalpy is in {} of dry air, referred to dry air at {} "
+               "(the {} datum). Outdoor-air fractions are shares of the supply airflow. Each "
+               "setpoint states its basis: an energy-code clause, a design choice, or common "
+               "practice. A figure marked \"rounded\" cannot be written exactly in these units; "
+               "the figure the analysis used follows it, and that one governs.",
+               ip ? "°F" : "°C", ip ? "Btu per pound" : "kJ per kilogram", ip ? "0 °F" : "0 °C",
+               ip ? "IP" : "SI"));
+}
+
+void enable(const Context&, Section& sec) {
+  add(sec,
+      "The economizer shall be enabled only while all of the following hold: (a) the supply "
+      "fan is proven running by its status input; (b) the unit is in occupied mode, or in a "
+      "purge mode commanded by the building automation system; (c) cooling is required, that "
+      "is, the mixed air with the outdoor damper at its ventilation minimum would be warmer "
+      "than the mixed-air setpoint of paragraph 4.1; and (d) no condition of the high-limit "
+      "of section 3 has locked it out, and the sensors that high-limit reads are healthy "
+      "(paragraph 8.2).");
+  add(sec,
+      "While the economizer is disabled and the supply fan runs in occupied mode, the outdoor "
+      "damper shall hold the ventilation minimum of paragraph 5.1 and the return damper shall "
+      "be open.");
+  add(sec,
+      "When the supply fan is off, or the unit is unoccupied and not in purge, the outdoor "
+      "damper shall close fully and the return damper shall open.");
+}
+
+// --- Section 3 ---
+
+// The annual result the setpoint stands on; a strategy that did not rank first is said so.
+std::string annual_support(const Context& ctx) {
+  if (!ctx.in.annual) return {};
+  const std::size_t n = ctx.in.annual->year->strategies.size();
+  if (ctx.rank == 1)
+    return fmt::format(" The annual evaluation of paragraph {} supports it: this strategy "
+                       "ranked first of the {} evaluated.",
+                       ctx.annual_ref, n);
+  return fmt::format(" The annual evaluation of paragraph {} ranks this strategy {} of {}; "
+                     "weigh that before adopting it.",
+                     ctx.annual_ref, ctx.rank, n);
+}
+
+// A figure the code requires, as this text writes setpoints.
+std::string required_text(const Context& ctx, Quantity q, Reference r, double value) {
+  const Kind k = codes::setting_kind(q, r);
+  if (r == Reference::fixed) return written(k, ctx.s, value, Note::source);
+  if (std::fabs(value) < 1e-12) return "the return-air value itself, with no offset";
+  return fmt::format("the return-air value {} {}", value > 0 ? "plus" : "minus",
+                     written(k, ctx.s, std::fabs(value), Note::source));
+}
+
+// "fixed-dry-bulb (outdoor-air dry-bulb temperature above 65 °F)".
+std::string allowed_text(const Context& ctx, const codes::AllowedControl& a) {
+  if (!a.row->modelled) return fmt::format("{} ({})", a.row->control, a.row->description);
+  std::vector<std::string> parts;
+  for (const auto& r : a.settings)
+    parts.push_back(fmt::format("{} above {}", words(r.quantity).outdoor,
+                                required_text(ctx, r.quantity, r.reference, r.value)));
+  return fmt::format("{} ({})", a.row->control, join(parts, " or "));
+}
+
+std::size_t lowest_condition(const Context& ctx, Quantity q, Reference r) {
+  std::size_t best = 0;
+  double lowest = 0;
+  bool any = false;
+  for (std::size_t i = 0; i < ctx.st.conditions.size(); ++i) {
+    const Condition& c = ctx.st.conditions[i];
+    double v = c.limit;
+    Quantity cq = c.quantity;
+    if (cq == Quantity::humidity_ratio && c.reference == Reference::fixed) {
+      cq = Quantity::dew_point;
+      v = psychro::dew_point_from_humidity_ratio_c(c.limit, ctx.code.pressure());
+    }
+    if (cq != q || c.reference != r) continue;
+    if (!any || v < lowest) best = i, lowest = v, any = true;
+  }
+  return best;
+}
+
+std::string code_type_sentence(const Context& ctx) {
+  const auto& z = *ctx.code.zone;
+  std::vector<std::string> provenance;
+  auto note = [&](const codes::Row* r) {
+    if (r && std::find(provenance.begin(), provenance.end(), r->provenance) == provenance.end())
+      provenance.push_back(r->provenance);
+  };
+  std::string out;
+  switch (ctx.code.check.verdict) {
+    case codes::Verdict::complies:
+    case codes::Verdict::set_wrong:
+      out = fmt::format("{} allows this control type in climate zone {}.", ctx.code.cite(*ctx.code.check.row), z.zone);
+      note(ctx.code.check.row);
+      break;
+    case codes::Verdict::not_allowed: {
+      std::vector<std::string> allowed;
+      for (const auto& a : z.allowed) {
+        allowed.push_back(allowed_text(ctx, a));
+        note(a.row);
+      }
+      note(ctx.code.check.row);
+      out = fmt::format(
+          "{} does not allow this control type ({}) in climate zone {}; it allows {}. The "
+          "setpoints below are therefore design choices, and this high-limit does not meet "
+          "that code as written.",
+          ctx.code.cite(*ctx.code.check.row), ctx.code.check.matched->control, z.zone,
+          allowed.empty() ? std::string("no modelled type") : join(allowed, "; "));
+      break;
+    }
+    case codes::Verdict::not_evaluable:
+      out = fmt::format(
+          "Its conditions match no control type of the {} tables, so they cannot be checked "
+          "against that code; the setpoints below are design choices.",
+          ctx.code.edition_title());
+      break;
+  }
+  if (!provenance.empty())
+    out += fmt::format(" The code figures come from limitline's code tables ({}).",
+                       join(provenance, "; "));
+  return out;
+}
+
+std::string condition_basis(const Context& ctx, std::size_t i) {
+  const Condition& c = ctx.st.conditions[i];
+  if (!ctx.code.zone)
+    return "design choice; the unit file names no energy code and climate zone to check it "
+           "against." +
+           (ctx.in.annual ? annual_support(ctx)
+                          : std::string(" No annual evaluation was run for this text."));
+  switch (ctx.code.check.verdict) {
+    case codes::Verdict::not_allowed:
+      return "design choice; the control type is not allowed in this climate zone (paragraph "
+             "3.1)." + annual_support(ctx);
+    case codes::Verdict::not_evaluable:
+      return "design choice; it cannot be checked against the code (paragraph 3.1)." +
+             annual_support(ctx);
+    case codes::Verdict::complies:
+    case codes::Verdict::set_wrong: break;
+  }
+  // The setting this condition stands for in the code's terms: a fixed humidity ratio is
+  // read as the dew point it fixes at the site pressure, as the verdict reads it.
+  Quantity q = c.quantity;
+  double value = c.limit;
+  if (q == Quantity::humidity_ratio && c.reference == Reference::fixed) {
+    q = Quantity::dew_point;
+    value = psychro::dew_point_from_humidity_ratio_c(c.limit, ctx.code.pressure());
+  }
+  const codes::MatchedSetting* m = nullptr;
+  for (const auto& ms : ctx.code.check.matched->settings)
+    if (ms.setting.quantity == q && ms.setting.reference == c.reference) m = &ms;
+  const codes::RequiredSetting* req = nullptr;
+  for (const auto& r : ctx.code.allowed->settings)
+    if (r.quantity == q && r.reference == c.reference) req = &r;
+  if (m == nullptr || req == nullptr)
+    return "design choice; the code row sets no figure for this condition." + annual_support(ctx);
+  const std::string where =
+      fmt::format("{}, climate zone {}", ctx.code.cite(*ctx.code.check.row), ctx.code.zone->zone);
+  if (std::fabs(m->setting.value - value) > 1e-9)
+    return fmt::format("design choice; condition {} sets the lower limit on the same quantity, "
+                       "and that one is the one {} judges.",
+                       lowest_condition(ctx, q, c.reference) + 1, where) +
+           annual_support(ctx);
+  const Kind sk = codes::setting_kind(q, c.reference);
+  std::string required = required_text(ctx, q, c.reference, req->value);
+  if (req->site_adjusted)
+    required += fmt::format(" at the site pressure, from {} at sea level",
+                            written(sk, ctx.s, req->tabulated, Note::source));
+  std::string read_as;
+  if (q != c.quantity)
+    read_as = fmt::format(" This humidity-ratio limit is read as a dew point of {} at the site "
+                          "pressure.",
+                          written(Kind::temperature, ctx.s, value, Note::source));
+  for (const auto& d : ctx.code.check.deviations) {
+    if (d.quantity != q || d.reference != c.reference) continue;
+    const Kind dk = highlimit::quantity_difference_kind(q);
+    const bool above = d.difference() > 0;
+    return fmt::format(
+               "design choice. {} requires, for this control type, {}; this setpoint is {} "
+               "{} it, so the economizer would {}, and it does not meet that code as written.{}",
+               where, required, written(dk, ctx.s, std::fabs(d.difference()), Note::source),
+               above ? "above" : "below",
+               above ? "stay on in air the code excludes" : "shut off earlier than the code sets",
+               read_as) +
+           annual_support(ctx);
+  }
+  return fmt::format("{}, which requires {}; this setpoint meets it.{}", where, required, read_as) +
+         annual_support(ctx);
+}
+
+std::string condition_paragraph(const Context& ctx, std::size_t i) {
+  const Condition& c = ctx.st.conditions[i];
+  const QuantityWords& w = words(c.quantity);
+  const Kind vk = highlimit::quantity_kind(c.quantity);
+  const Kind dk = highlimit::quantity_difference_kind(c.quantity);
+  std::string out = fmt::format("Condition {}: lock out the economizer when the {} rises above ",
+                                i + 1, w.outdoor);
+  if (c.reference == Reference::fixed) {
+    out += written(vk, ctx.s, c.limit) + ".";
+    if (c.deadband > 0.0)
+      out += fmt::format(" Release this lockout only when it falls below {}, a deadband of {}.",
+                         written(vk, ctx.s, c.limit - c.deadband), written(dk, ctx.s, c.deadband));
+    else
+      out += fmt::format(" Release it as soon as the {} is back at or below that limit (no "
+                         "deadband).",
+                         w.outdoor);
+  } else {
+    out += "the " + std::string(w.ret);
+    if (std::fabs(c.limit) > 1e-12)
+      out += fmt::format(" {} {}", c.limit > 0 ? "plus" : "minus", written(dk, ctx.s, std::fabs(c.limit)));
+    out += ".";
+    if (c.deadband > 0.0)
+      out += fmt::format(" Release this lockout only when it falls more than {} below that "
+                         "value (the deadband).",
+                         written(dk, ctx.s, c.deadband));
+    else
+      out += " Release it as soon as it is back at or below that value (no deadband).";
+  }
+  out += " Basis: " + condition_basis(ctx, i);
+  if (c.deadband > 0.0)
+    out += " The deadband is a design choice that keeps the dampers from cycling at the limit; "
+           "the code tables set none.";
+  return out;
+}
+
+std::string energy(const Context& ctx, double kwh) {
+  return fmt::format("{} {}", number_text(report::energy_display(kwh, ctx.s), 0, ctx.s),
+                     report::energy_unit(ctx.s));
+}
+std::string hours(const Context& ctx, double h) { return fmt::format("{} h", number_text(h, 0, ctx.s)); }
+
+std::string annual_paragraph(const Context& ctx) {
+  const annual::YearResult& y = *ctx.in.annual->year;
+  const annual::StrategyResult& r = y.strategies[static_cast<std::size_t>(ctx.rank - 1)];
+  const double saved = r.savings_vs_no_economizer_kwh;
+  std::string out = fmt::format(
+      "Annual evaluation: with the weather of {} and this unit's occupancy schedule ({} of "
+      "fan operation), this strategy ranked {} of the {} strategies evaluated for the unit. It "
+      "falls {} short of the perfect changeover (the ideal high-limit, which enables the "
+      "economizer in exactly the hours when that costs less) and {} {} against no economizer. "
+      "It economized for {}, {} of them with mechanical cooling; it was enabled for {} when "
+      "that cost more energy than not, and stayed off for {} when economizing would have "
+      "saved energy.",
+      ctx.in.annual->weather_label, hours(ctx, y.operating_hours), ctx.rank, y.strategies.size(),
+      energy(ctx, std::max(0.0, r.shortfall_vs_perfect_kwh)), saved >= 0 ? "saves" : "costs",
+      energy(ctx, std::fabs(saved)), hours(ctx, r.annual.hours_economizing),
+      hours(ctx, r.annual.hours_integrated), hours(ctx, r.annual.harmful_hours),
+      hours(ctx, r.annual.missed_hours));
+  if (ctx.rank > 1)
+    out += fmt::format(" The best strategy evaluated, \"{}\", falls {} short.", y.strategies[0].name,
+                       energy(ctx, std::max(0.0, y.strategies[0].shortfall_vs_perfect_kwh)));
+  out += " Energy is cooling and heating at the coils, weighted as the unit file sets.";
+  return out;
+}
+
+void high_limit(const Context& ctx, Section& sec) {
+  const std::size_t n = ctx.st.conditions.size();
+  std::string first = fmt::format(
+      "The high-limit is \"{}\"{}. {} The economizer shall be locked out while any "
+      "condition below has tripped, and enabled again only when every condition has cleared; "
+      "a reading exactly at its limit does not trip a condition.",
+      ctx.st.name,
+      ctx.st.preset.empty() ? ", with conditions set in the unit file"
+                            : fmt::format(", of the {} type", ctx.st.preset),
+      n == 1 ? std::string("It has one condition.")
+             : fmt::format("It has {} conditions, joined by OR.", n));
+  if (ctx.unit.strategies_defaulted)
+    first += " The unit file names no strategy, so this is the first preset at limitline's "
+             "common-practice settings.";
+  if (ctx.code.zone) first += " " + code_type_sentence(ctx);
+  add(sec, first);
+  for (std::size_t i = 0; i < n; ++i) add(sec, condition_paragraph(ctx, i));
+  add(sec,
+      "At the limit: when any condition trips, the outdoor damper shall return to the "
+      "ventilation minimum of paragraph 5.1, the return damper shall open to match, and "
+      "mechanical cooling shall carry the load to the supply-air setpoint. The economizer "
+      "shall stay locked out until the tripped condition has cleared as stated above.");
+  if (ctx.in.annual) add(sec, annual_paragraph(ctx));
+}
+
+// --- Section 4 ---
+
+std::string integration_paragraph(const Context& ctx) {
+  std::string out;
+  if (ctx.integrated())
+    out = "Integrated operation: when the outdoor damper is at the limit of paragraph 4.2 and "
+          "the mixed air is still above the setpoint of paragraph 4.1, the outdoor damper shall "
+          "stay at that limit and mechanical cooling shall make up the rest of the load to the "
+          "supply-air setpoint. Running mechanical cooling shall neither lock out the "
+          "economizer nor move the outdoor damper; only the high-limit of section 3, the "
+          "protections of section 6 and the modes of section 2 take it off economizer "
+          "operation.";
+  else
+    out = "Non-integrated operation: this unit does not run the economizer and mechanical "
+          "cooling together. When the outdoor damper is at the limit of paragraph 4.2 and the "
+          "mixed air is still above the setpoint of paragraph 4.1, the economizer shall be "
+          "locked out, the outdoor damper shall return to the ventilation minimum of paragraph "
+          "5.1, and mechanical cooling shall carry the whole load. The economizer shall be "
+          "enabled again only when the outdoor-air dry-bulb temperature has fallen below the "
+          "mixed-air setpoint of paragraph 4.1, after any minimum run time the compressor "
+          "manufacturer sets.";
+  if (!ctx.code.zone) {
+    out += " Basis: design choice; no energy code is named to check it against.";
+  } else {
+    const auto ic = codes::check_integration(*ctx.code.zone->edition, ctx.unit.air_handler.economizer);
+    if (!ic.rule->required)
+      out += fmt::format(" Basis: design choice; limitline's tables for {} set no integration "
+                         "requirement.",
+                         ctx.code.edition_title());
+    else if (ic.complies)
+      out += fmt::format(" Basis: {}, {}, which requires an integrated economizer; this unit "
+                         "meets it.",
+                         ctx.code.edition_title(), ic.rule->clause);
+    else
+      out += fmt::format(" Basis: design choice. {}, {}, requires an integrated economizer, so "
+                         "this operation does not meet that code as written.",
+                         ctx.code.edition_title(), ic.rule->clause);
+  }
+  if (ctx.in.annual) out += fmt::format(" The annual evaluation of paragraph {} used this operation.", ctx.annual_ref);
+  return out;
+}
+
+void modulation(const Context& ctx, Section& sec) {
+  const auto& a = ctx.ah();
+  std::string out = fmt::format(
+      "While the economizer is enabled, the outdoor and return dampers shall modulate in "
+      "opposition to hold the mixed-air temperature at {}: ",
+      ctx.t(a.mixed_air_target_c()));
+  if (a.fan_heat_k > 0.0)
+    out += fmt::format("the supply-air setpoint of {} less {} for the heat of the {} supply "
+                       "fan{}.",
+                       ctx.t(a.supply_air_temp_c), ctx.dt(a.fan_heat_k),
+                       airside::fan_position_name(a.fan_position),
+                       a.fan_position == airside::FanPosition::draw_through
+                           ? ", which adds it after the cooling coil"
+                           : ", which adds it ahead of the cooling coil");
+  else
+    out += fmt::format("the supply-air setpoint of {}, with no supply-fan heat allowed for.",
+                       ctx.t(a.supply_air_temp_c));
+  out += " Basis: design choice; the supply-air setpoint and fan heat are the unit's, as the "
+         "analysis used them.";
+  add(sec, out);
+  add(sec,
+      fmt::format("The outdoor damper shall open no further than {} outdoor air{}. Basis: "
+                  "design choice, set by the damper and relief capacity; the analysis used "
+                  "this limit.",
+                  written(Kind::fraction, ctx.s, a.max_oa_fraction),
+                  a.max_oa_fraction >= 1.0 ? " (fully open)" : ""));
+  add(sec, integration_paragraph(ctx));
+  add(sec,
+      "As the outdoor damper opens, relief dampers or a return or relief fan shall keep the "
+      "building pressure the design sets; building pressurisation is the designer's "
+      "responsibility.");
+}
+
+// --- Section 5 ---
+
+void minimum(const Context& ctx, Section& sec) {
+  const auto& a = ctx.ah();
+  std::string amount;
+  if (ctx.unit.min_outdoor_airflow_m3_per_s)
+    amount = fmt::format("{} of outdoor air ({} of the design supply airflow of {})",
+                         written(Kind::airflow, ctx.s, *ctx.unit.min_outdoor_airflow_m3_per_s),
+                         written(Kind::fraction, ctx.s, a.min_oa_fraction, Note::about),
+                         written(Kind::airflow, ctx.s, a.supply_airflow_m3_per_s));
+  else
+    amount = fmt::format("{} outdoor air ({} at the design supply airflow of {})",
+                         written(Kind::fraction, ctx.s, a.min_oa_fraction),
+                         written(Kind::airflow, ctx.s, a.min_oa_fraction * a.supply_airflow_m3_per_s,
+                                 Note::about),
+                         written(Kind::airflow, ctx.s, a.supply_airflow_m3_per_s));
+  add(sec,
+      fmt::format(
+          "Whenever the supply fan runs in occupied mode, the outdoor damper shall admit at "
+          "least the ventilation minimum of {}, whatever the economizer and the mixed-air "
+          "low-limit call for; only the freeze protection of paragraph 6.2 may close it "
+          "further. Where the supply airflow varies, the minimum position shall be reset, or "
+          "the outdoor airflow measured, so that the airflow rather than the damper position "
+          "is held. Basis: the ventilation minimum is the designer's responsibility, from the "
+          "ventilation calculation the adopted mechanical code requires; this is the figure "
+          "the analysis used.",
+          amount));
+}
+
+// --- Section 6 ---
+
+void protection(const Context& ctx, Section& sec) {
+  const double target = ctx.ah().mixed_air_target_c();
+  const double margin = units::from_display(
+      Kind::temperature_difference, ctx.s, ctx.s == System::ip ? kLowLimitMarginF : kLowLimitMarginK);
+  const double low = design_value(Kind::temperature, ctx.s, target - margin, true);
+  const double freeze = design_value(Kind::temperature, ctx.s,
+                                     units::celsius_from_fahrenheit(kFreezeExampleF), false);
+  const std::string clash =
+      low <= freeze + 1e-9
+          ? fmt::format(" At this supply-air setpoint the low-limit is not above the {} "
+                        "common-practice figure of paragraph 6.2; the designer must set the "
+                        "two apart.",
+                        ctx.t(freeze))
+          : std::string();
+  add(sec,
+      fmt::format(
+          "Mixed-air low-limit: if the mixed-air temperature falls below {}, a low-limit loop "
+          "shall override the mixed-air control of paragraph 4.1 and move the outdoor damper "
+          "towards the ventilation minimum of paragraph 5.1, never below it; heating, where "
+          "fitted, then makes up the supply-air setpoint. Basis: design choice, {} below the "
+          "mixed-air setpoint ({} below it is common practice); it guards the coils against "
+          "stratified cold air and is not part of the annual evaluation. Keep it above the "
+          "low-temperature detection setpoint of paragraph 6.2.{}",
+          ctx.t(low), written(Kind::temperature_difference, ctx.s, target - low, Note::about),
+          ctx.dt(margin), clash));
+
+  add(sec,
+      fmt::format(
+          "Freeze protection: when the low-temperature detection of section 7 senses air "
+          "below its setpoint along any part of its element, the outdoor damper shall close "
+          "fully, overriding the ventilation minimum, the return damper shall open, and an "
+          "alarm shall be raised (paragraph 8.6); fan and heating-valve actions follow the "
+          "unit's freeze-protection design. The device shall act without the controller and "
+          "reset only by hand. The setpoint is the designer's responsibility; {} is common "
+          "practice.",
+          ctx.t(freeze)));
+}
+
+// --- Section 7 ---
+
+void sensor_list(const Context& ctx, Section& sec) {
+  const sensors::SensorSet set = sensors::read_sensors(
+      ctx.unit.sensors ? &*ctx.unit.sensors : nullptr, ctx.unit.path, ctx.unit.units);
+  const bool derived = ctx.st.needs(Quantity::enthalpy) || ctx.st.needs(Quantity::humidity_ratio);
+  for (const SensorRow& row : kSensors) {
+    if (!needs(ctx.st, row.need)) continue;
+    std::string type(row.type), accuracy;
+    if (row.studied) {
+      const sensors::HumidityKind kind = set.outdoor_humidity;
+      std::string suffix;
+      if (row.sensor == sensors::Sensor::outdoor_humidity) {
+        type = humidity_type(kind).type;
+        suffix = humidity_type(kind).unit_suffix;
+      }
+      if (row.sensor == sensors::Sensor::return_rh) suffix = " RH";
+      const double a = sensors::at(set.accuracy, row.sensor);
+      const std::string figure = written(sensors::bias_kind(row.sensor, kind), ctx.s, a, Note::source);
+      accuracy = fmt::format(
+          "{} or better, the figure the sensor-error study assumes ({})",
+          set.distribution == sensors::BiasDistribution::normal
+              ? fmt::format("{}{} as one standard deviation", figure, suffix)
+              : fmt::format("±{}{}", figure, suffix),
+          set.given[static_cast<std::size_t>(row.sensor)]
+              ? "from the unit file's [sensors] table"
+              : "a typical commercial figure, common practice");
+      if (row.sensor == sensors::Sensor::outdoor_humidity ||
+          row.sensor == sensors::Sensor::return_rh)
+        accuracy += "; check or replace it yearly, because humidity elements drift";
+    } else if (!row.accuracy.pick(ctx.s).empty()) {
+      accuracy = fmt::format("{} (common practice)", row.accuracy.pick(ctx.s));
+    }
+    std::string out = fmt::format("{}: {}; {}", row.name, row.location, type);
+    out += accuracy.empty() ? "." : fmt::format("; accuracy {}.", accuracy);
+    if (row.need == Need::outdoor_humidity && derived)
+      out += fmt::format(
+          " {} shall be computed, by the controller or the transmitter, at the site's design "
+          "pressure of {}, as the analysis did; a sea-level calculation misstates it at "
+          "altitude.",
+          ctx.st.needs(Quantity::enthalpy) ? "Enthalpy" : "Humidity ratio",
+          written(Kind::pressure, ctx.s, ctx.unit.site.design_pressure_kpa(), Note::about));
+    add(sec, out);
+  }
+}
+
+// --- Section 8 ---
+
+void alarms(const Context& ctx, Section& sec) {
+  add(sec,
+      "The alarms below report faults that waste energy or starve the ventilation. Their "
+      "thresholds and delays are design choices, to be tuned in commissioning.");
+  add(sec,
+      fmt::format("Sensor out of range: raise an alarm when any sensor of section 7 reads "
+                  "outside its physical range (an open or short circuit, a temperature below {}, "
+                  "a humidity below 0% or above 100% RH) or does not change at all for 24 hours. "
+                  "While a sensor the high-limit reads is in alarm, the economizer shall stay "
+                  "locked out.",
+                  kSensorRange.pick(ctx.s)));
+  add(sec,
+      "Damper not following command: raise an alarm when the outdoor-damper position differs "
+      "from its command by more than 10% of stroke for more than 5 minutes.");
+  add(sec,
+      "Economizing when it should not: raise an alarm when the outdoor damper stands more "
+      "than 10% of stroke above its ventilation-minimum position for more than 15 minutes "
+      "while (a) the high-limit of section 3 has locked the economizer out, or (b) the "
+      "outdoor-air dry-bulb temperature is above the return-air dry-bulb temperature.");
+  add(sec,
+      "Not economizing when it should: raise an alarm when the outdoor damper stays at its "
+      "ventilation-minimum position for more than 15 minutes while paragraph 2.1 enables the "
+      "economizer, or when the high-limit reports a lockout although the readings put every "
+      "condition of section 3 below its limit.");
+  add(sec,
+      "Low temperature: raise an alarm whenever the freeze protection of paragraph 6.2 acts; "
+      "it shall stay in alarm until reset by hand.");
+}
+// The sections in their order: numbers, titles and the function that writes each.
+struct SectionSpec {
+  int number;
+  std::string_view title;
+  void (*write)(const Context&, Section&);
+};
+constexpr SectionSpec kSections[] = {
+    {1, "General", general},
+    {2, "Economizer enable", enable},
+    {3, "High-limit control", high_limit},
+    {4, "Damper modulation and mechanical cooling", modulation},
+    {5, "Minimum outdoor air", minimum},
+    {6, "Mixed-air low-limit and freeze protection", protection},
+    {7, "Sensors", sensor_list},
+    {8, "Alarms", alarms},
+};
+
+Document build(const Context& ctx) {
+  Document d;
+  d.title = fmt::format("Economizer sequence of operation: {}", ctx.site_title());
+  header(ctx, d);
+  for (const SectionSpec& spec : kSections) {
+    Section& sec = d.sections.emplace_back(Section{spec.number, std::string(spec.title), {}});
+    spec.write(ctx, sec);
+  }
+  d.cautions = report::cautions(report::CautionTopic::sequence);
+  return d;
+}
 
 // --- Rendering ------------------------------------------------------------------------------
 
@@ -936,7 +945,7 @@ Document compose(const Inputs& in, units::System units) {
                                  in.unit_label, in.strategy->name));
   if (in.annual && in.annual->year == nullptr)
     throw std::logic_error("sequence::compose: annual support without results");
-  return Composer(in, units).build();
+  return build(make_context(in, units));
 }
 
 std::string to_text(const Document& d) {

@@ -117,7 +117,100 @@ struct Result {
 
 // Throws InputError when the log lacks what the strategy needs (an outdoor humidity for an
 // enthalpy or dew-point limit, a return reading for a differential one) or has no outdoor
-// dry-bulb.
+// dry-bulb. The same as judging every sample with judge_sample() and adding each verdict to a
+// FindingsTally.
 Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& options);
+
+// --- The audit in its two steps: one sample judged alone, then the verdicts tallied --------
+
+// What judging any one sample of a log needs, derived once from the unit, log and options.
+// The unit, log and options must outlive it.
+struct SampleContext {
+  const UnitFile* unit = nullptr;
+  const trend::TrendLog* log = nullptr;
+  const Options* options = nullptr;
+  double pressure_kpa = 0;       // the site's design pressure
+  double dry_air_kg_per_s = 0;   // at the supply airflow
+  airside::CoilLimits coil{};
+  airside::AirState design_return{};  // the unit file's return air, where the log has none
+  bool outdoor_humidity = false;      // the log has an outdoor RH or dew point
+  bool needs_outdoor_humidity = false;  // the strategy reads one
+};
+// Throws InputError as run() does when the log cannot be audited against the strategy.
+SampleContext sample_context(const UnitFile& unit, const trend::TrendLog& log,
+                             const Options& options);
+
+// How a sample counts: without the readings a decision needs it is left out (and said so);
+// with the fan off it is judged by nothing.
+enum class SampleUse : std::uint8_t { incomplete, fan_off, operating };
+
+// One rule broken in one sample: by how much (the rule's units, as Finding::worst_excess),
+// and the energy of what happened against what should have, kWh (none where the model cannot
+// say).
+struct SampleFinding {
+  double excess = 0;
+  std::optional<double> energy_kwh;
+};
+
+struct SampleVerdict {
+  SampleUse use = SampleUse::incomplete;
+  bool fraction_measured = false;  // the measured outdoor-air fraction passed the gate
+  // The rules the sample breaks, by FindingKind. high_limit_elsewhere is never set here: it
+  // needs the switching points of the whole log (FindingsTally::finish).
+  std::array<std::optional<SampleFinding>, kFindingKindCount> findings{};
+  // Evidence of where the switching points lie: set, to whether the damper was open, when
+  // cooling is needed, the model would open the damper and the damper's state is known.
+  std::optional<bool> switch_open;
+  double energy_kwh = 0;  // what happened against the expected operation, kWh
+  highlimit::AirValues outdoor{}, ret{};  // the values the strategy judged
+  const std::optional<SampleFinding>& operator[](FindingKind k) const {
+    return findings[static_cast<std::size_t>(k)];
+  }
+};
+
+// Judges sample i of the context's log: the strategy's decision on its readings (advancing
+// the deadband `state`, which carries from one sample to the next as in the controller), the
+// measured fraction, and every rule of the header comment. Throws InputError naming
+// FILE:LINE for a reading the psychrometrics refuse.
+SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::StrategyState& state);
+
+// The findings of a log, built up one verdict at a time in the log's order.
+class FindingsTally {
+ public:
+  explicit FindingsTally(const SampleContext& c);
+  void add(std::size_t i, const SampleVerdict& v);
+  // The result: the findings with their shares of the operating time, the switching points
+  // and the high-limit finding they give, coverage and notes. Call once, after the last
+  // sample: it hands over the evidence it kept.
+  Result finish();
+
+ private:
+  // A fan-on sample that tells where one condition's switching point lies; kept per
+  // condition until finish(). 24 bytes, as a long log has many.
+  struct Point {
+    double v;  // the condition's quantity, less the return air's for a differential one
+    double energy_kwh;
+    std::uint32_t sample;  // a log within the reader's 1 GiB cap has fewer rows than 2^32
+    bool open;
+  };
+  // A sample on the wrong side of a differing condition, for the high-limit finding.
+  struct Beyond {
+    std::size_t sample;
+    double beyond;
+    double energy_kwh;
+  };
+  void record(FindingKind k, std::size_t i, double excess, std::optional<double> energy_kwh);
+  // The switching point of condition `index` from its evidence (none when there is too
+  // little), adding the samples beyond it when it differs from the configured one.
+  static std::optional<SwitchPoint> switch_point(const highlimit::Condition& cond, int index,
+                                                 std::vector<Point> points,
+                                                 std::vector<Beyond>& beyond);
+
+  const SampleContext* c_;
+  std::array<Finding, kFindingKindCount> findings_{};
+  std::vector<std::vector<Point>> points_;  // per condition
+  double operating_hours_ = 0;
+  int operating_intervals_ = 0, fraction_intervals_ = 0, skipped_ = 0;
+};
 
 }  // namespace limitline::audit
