@@ -218,7 +218,7 @@ TEST_CASE("--batch on Ctrl-C reports the finished sites marked partial (exit 130
       {"year", unit.string(), "--batch", dir.string(), "--threads", "1", "--format", "csv"}, out.string(), err.string());
   const int w = ::open((dir / "b-pipe.csv").c_str(), O_WRONLY);
   REQUIRE(w >= 0);
-  kill(pid, SIGINT);
+  limitline::test::signal_and_wait_taken(pid, SIGINT);
   ::close(w);  // the pipe site reads as empty and fails; no site starts after it
   CHECK(limitline::test::wait_cli(pid) == 130);
   const std::string csv = slurp(out), messages = slurp(err);

@@ -4,6 +4,8 @@
 #include <doctest/doctest.h>
 
 #include <fcntl.h>
+#include <sched.h>
+#include <signal.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -81,6 +83,25 @@ inline pid_t spawn_cli(std::vector<std::string> args, const std::string& out = "
 }
 
 // Waits for a spawned command; its exit code (128 + signal when a signal ended it).
+// Sends `sig` to `pid` and returns once a thread of that process has taken it (it is no
+// longer pending in /proc/PID/status), so a test can order what it does next after the
+// handler started. No timer: it waits on the kernel's own record.
+inline void signal_and_wait_taken(pid_t pid, int sig) {
+  ::kill(pid, sig);
+  const unsigned long long bit = 1ull << (sig - 1);
+  for (;;) {
+    std::ifstream status("/proc/" + std::to_string(pid) + "/status");
+    bool pending = false, read_any = false;
+    for (std::string line; std::getline(status, line);) {
+      if (line.rfind("ShdPnd:", 0) != 0 && line.rfind("SigPnd:", 0) != 0) continue;
+      read_any = true;
+      pending = pending || (std::stoull(line.substr(7), nullptr, 16) & bit) != 0;
+    }
+    if (!read_any || !pending) return;  // taken, or the process is gone
+    ::sched_yield();
+  }
+}
+
 inline int wait_cli(pid_t pid) {
   int status = 0;
   waitpid(pid, &status, 0);
