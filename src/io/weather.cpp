@@ -1536,11 +1536,12 @@ std::vector<WeatherHour> convert(const Context& cx, const std::vector<Row>& rows
   check_bad_share(cx, static_cast<int>(n), bad_count, first_bad_line, first_bad);
   if (policy == BadRowPolicy::fill) inf.fill_longest_run = fill(rows, states, bad);
 
-  // Feb 29 shifts the later days of the year only when the file has it.
-  const int days_year = inf.time.leap_day_rows > 0 ? 2000 : 2001;  // a leap and a common year
+  // Feb 29 shifts the later days of the year only when the file has it: the months are
+  // counted as those of a leap year (2000) or of a common one (2001).
+  const int calendar_year = inf.time.leap_day_rows > 0 ? 2000 : 2001;
   int cumulative[13] = {0};
   for (int m = 1; m <= 12; ++m)
-    cumulative[m] = cumulative[m - 1] + ts::days_in_month(days_year, m);
+    cumulative[m] = cumulative[m - 1] + ts::days_in_month(calendar_year, m);
   std::vector<WeatherHour> hours;
   hours.reserve(n);
   for (std::size_t i = 0; i < n; ++i) {
