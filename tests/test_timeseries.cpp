@@ -138,14 +138,15 @@ TEST_CASE("time columns: a timestamp, a date and a clock, or month, day and hour
 
 // --- 3. Time axis --------------------------------------------------------------------------
 
-TEST_CASE("calendar: month lengths, and days since 1970-01-01") {
+TEST_CASE("calendar: the dates a stamp may name, and days since 1970-01-01") {
   // Gregorian calendar rule (ISO 8601): a leap year is divisible by 4, except centuries not
   // divisible by 400.
-  CHECK(ts::days_in_month(2024, 2) == 29);
-  CHECK(ts::days_in_month(1900, 2) == 28);
-  CHECK(ts::days_in_month(2000, 2) == 29);
-  CHECK(ts::days_in_month(2019, 4) == 30);
-  CHECK(ts::days_in_month(0, 2) == 29);  // a date written without its year
+  CHECK(ts::valid_date({2024, 2, 29, 0}));
+  CHECK_FALSE(ts::valid_date({1900, 2, 29, 0}));
+  CHECK(ts::valid_date({2000, 2, 29, 0}));
+  CHECK_FALSE(ts::valid_date({2019, 4, 31, 0}));
+  CHECK_FALSE(ts::valid_date({2019, 13, 1, 0}));
+  CHECK(ts::valid_date({0, 2, 29, 0}));  // a date written without its year
   // `date -u -d 2019-07-01 +%s` (GNU coreutils) prints 1561939200 = 18078 days × 86400 s;
   // for 2000-03-01, 951868800 = 11017 days.
   CHECK(ts::days_from_civil(2019, 7, 1) == 18078);

@@ -2,7 +2,9 @@
 // time columns and stamps, cells. See io/timeseries.hpp.
 #include <limitline/io/timeseries.hpp>
 
+#include <limitline/calendar.hpp>
 #include <limitline/io/csv.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
@@ -18,15 +20,14 @@ namespace {
 
 using units::Kind;
 
-bool is_space(char c) { return c == ' ' || c == '\t' || c == '\r' || c == '\n'; }
-
-char lower(char c) { return static_cast<char>(std::tolower(static_cast<unsigned char>(c))); }
+using text::is_space;
+using text::to_lower;
 
 // A unit spelling reduced for lookup: lower case, without spaces, '_', '.' or tabs.
 std::string unit_key(std::string_view s) {
   std::string out;
   for (char c : s)
-    if (c != ' ' && c != '_' && c != '.' && c != '\t') out.push_back(lower(c));
+    if (c != ' ' && c != '_' && c != '.' && c != '\t') out.push_back(to_lower(c));
   return out;
 }
 
@@ -175,18 +176,6 @@ bool blank(std::string_view s) {
   return true;
 }
 
-std::string_view trim(std::string_view s) {
-  while (!s.empty() && is_space(s.front())) s.remove_prefix(1);
-  while (!s.empty() && is_space(s.back())) s.remove_suffix(1);
-  return s;
-}
-
-bool iequals(std::string_view a, std::string_view b) {
-  if (a.size() != b.size()) return false;
-  for (std::size_t i = 0; i < a.size(); ++i)
-    if (lower(a[i]) != lower(b[i])) return false;
-  return true;
-}
 
 // --- 2. Header and layout ------------------------------------------------------------------
 
@@ -204,19 +193,19 @@ bool in_list(std::string_view list, std::string_view word) {
 std::string name_key(std::string_view s) {
   std::string out;
   for (char c : s)
-    if (std::isalnum(static_cast<unsigned char>(c))) out.push_back(lower(c));
+    if (std::isalnum(static_cast<unsigned char>(c))) out.push_back(to_lower(c));
   return out;
 }
 
 HeaderField parse_header_field(std::string_view text) {
   HeaderField f;
-  const std::string_view t = trim(text);
+  const std::string_view t = text::trim(text);
   const std::size_t open = t.find_first_of("([");
   if (open != std::string_view::npos) {
     const char close = t[open] == '(' ? ')' : ']';
     const std::size_t end = t.find(close, open + 1);
     f.name = name_key(t.substr(0, open));
-    f.unit_text = std::string(trim(t.substr(
+    f.unit_text = std::string(text::trim(t.substr(
         open + 1, end == std::string_view::npos ? std::string_view::npos : end - open - 1)));
   } else {
     // "Temp C", "pressure_hPa": a last word that is a unit is the unit.
@@ -257,7 +246,7 @@ void split_fields(std::string_view line, char delim, std::vector<std::string_vie
       while (p < end && *p != delim && (*p == ' ' || *p == '\t')) ++p;
       if (p < end && *p != delim) {
         while (p < end && *p != delim) ++p;
-        field = trim(std::string_view(start, static_cast<std::size_t>(p - start)));
+        field = text::trim(std::string_view(start, static_cast<std::size_t>(p - start)));
       }
       out.push_back(field);
     } else {
@@ -307,13 +296,6 @@ TimeColumns resolve_time(const std::array<int, kTimeRoleCount>& column) {
 
 // --- 3. Time axis --------------------------------------------------------------------------
 
-int days_in_month(int year, int month) {
-  using namespace std::chrono;
-  // Year 0 of the proleptic calendar is a leap year, as a date without its year needs.
-  const year_month_day_last last{std::chrono::year{year} / std::chrono::month{static_cast<unsigned>(month)} / std::chrono::last};
-  return static_cast<int>(static_cast<unsigned>(last.day()));
-}
-
 std::int64_t days_from_civil(int year, int month, int day) {
   using namespace std::chrono;
   const sys_days d{std::chrono::year{year} / static_cast<unsigned>(month) /
@@ -328,9 +310,7 @@ CivilDate civil_from_days(std::int64_t days) {
           static_cast<int>(static_cast<unsigned>(d.day()))};
 }
 
-bool valid_date(const Stamp& s) {
-  return s.month >= 1 && s.month <= 12 && s.day >= 1 && s.day <= days_in_month(s.year, s.month);
-}
+bool valid_date(const Stamp& s) { return calendar::is_date(s.year, s.month, s.day); }
 
 std::string stamp_text(const Stamp& s) {
   std::string out = s.year > 0 ? fmt::format("{:04}-{:02}-{:02}", s.year, s.month, s.day)
@@ -424,7 +404,7 @@ bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone, Stam
     const std::size_t sep = s.find_first_of("T ");
     if (sep == std::string_view::npos) return false;
     date = s.substr(0, sep);
-    rest = trim(s.substr(sep + 1));
+    rest = text::trim(s.substr(sep + 1));
     form.separator = s[sep];
   }
   zone = {};
@@ -449,7 +429,7 @@ bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone, Stam
     rest = rest.substr(0, sign);
   }
   return parse_date(date, day_first, st, form.date, cache) &&
-         parse_clock(trim(rest), st.minute, form.clock);
+         parse_clock(text::trim(rest), st.minute, form.clock);
 }
 
 // --- 4. Columns with units -----------------------------------------------------------------
@@ -516,7 +496,7 @@ Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_com
     return is_sentinel(v) ? Cell::sentinel : Cell::ok;
   }
   for (std::string_view w : kMissingWords)
-    if (iequals(s, w)) return Cell::marker;
+    if (text::iequals(s, w)) return Cell::marker;
   return Cell::not_number;
 }
 

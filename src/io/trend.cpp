@@ -8,6 +8,7 @@
 #include <limitline/io/timeseries.hpp>
 #include <limitline/io/unit_file.hpp>
 #include <limitline/error.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
@@ -52,16 +53,12 @@ constexpr Plausible kPlausible[kChannelCount] = {
     {0, 60, 5, 40},      // supply air
     {0, 0, 0, 0},        {0, 0, 0, 0},        {0, 0, 0, 0}};
 
-std::string lower(std::string_view s) {
-  std::string out(s);
-  for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return out;
-}
+using text::to_lower;
 
 std::vector<std::string> words(std::string_view header) {
   std::vector<std::string> out;
   std::string cur;
-  for (char ch : lower(header)) {
+  for (char ch : to_lower(header)) {
     if (std::isalnum(static_cast<unsigned char>(ch))) cur += ch;
     else if (!cur.empty()) out.push_back(std::exchange(cur, {}));
   }
@@ -163,7 +160,7 @@ std::string normalise_unit(std::string_view u, std::string_view origin) {
 }
 
 std::optional<bool> parse_status(std::string_view t) {
-  const std::string l = lower(t);
+  const std::string l = to_lower(t);
   static constexpr std::string_view on[] = {"on", "1", "true", "run", "running", "yes", "active", "start", "occupied"};
   static constexpr std::string_view off[] = {"off", "0", "false", "stop", "stopped", "no", "inactive", "unoccupied"};
   for (auto s : on)
@@ -237,7 +234,7 @@ std::optional<std::int64_t> read_clock(std::string_view s, std::size_t i) {
   }
   while (i < s.size() && s[i] == ' ') ++i;
   std::int64_t offset_s = 0;
-  const std::string rest = lower(s.substr(i));
+  const std::string rest = to_lower(s.substr(i));
   if (rest == "am" || rest == "pm") {
     if (hh < 1 || hh > 12) return std::nullopt;
     hh = hh % 12 + (rest == "pm" ? 12 : 0);

@@ -5,8 +5,10 @@
 // series, the units judged by the columns' statistics and the psychrometrics of each row.
 #include <limitline/io/weather.hpp>
 
+#include <limitline/calendar.hpp>
 #include <limitline/io/input_file.hpp>
 #include <limitline/io/timeseries.hpp>
+#include <limitline/text.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/model/units.hpp>
 
@@ -144,13 +146,6 @@ constexpr std::string_view kMonthNames[] = {"Jan", "Feb", "Mar", "Apr", "May", "
 
 // --- Small text helpers --------------------------------------------------------------------
 
-bool icontains(std::string_view s, std::string_view part) {
-  if (part.size() > s.size()) return false;
-  for (std::size_t i = 0; i + part.size() <= s.size(); ++i)
-    if (ts::iequals(s.substr(i, part.size()), part)) return true;
-  return false;
-}
-
 std::string quoted_list(const std::vector<std::string>& items) {
   std::string out;
   for (const std::string& s : items) {
@@ -207,7 +202,7 @@ HeaderMatch match_header(const std::vector<HeaderField>& fields, const Mapping& 
     const auto& name = mapping.column(q.quantity).column;
     if (!name) continue;
     for (std::size_t i = 0; i < fields.size(); ++i)
-      if (ts::iequals(fields[i].text, ts::trim(*name))) {
+      if (text::iequals(fields[i].text, text::trim(*name))) {
         m.column[idx(q.quantity)] = static_cast<int>(i);
         m.by_override[idx(q.quantity)] = true;
         claimed[i] = true;
@@ -351,8 +346,8 @@ void choose_time_columns(const Context& cx, const Header& h, Layout& out) {
     ColumnUse u = use_of(cx, h, q);
     names.push_back(echo(u.header));
     const std::string& text = u.header;
-    if (icontains(text, "utc") || icontains(text, "gmt")) out.header_clock = Clock::utc;
-    if (icontains(text, "dd/mm")) out.day_first = true;
+    if (text::icontains(text, "utc") || text::icontains(text, "gmt")) out.header_clock = Clock::utc;
+    if (text::icontains(text, "dd/mm")) out.day_first = true;
     out.columns.push_back(std::move(u));
   }
   for (std::size_t i = 0; i < names.size(); ++i) out.time_columns += (i ? " + " : "") + names[i];
@@ -712,7 +707,9 @@ void place_rows(const Context& cx, std::vector<Row>& rows, TimeInfo& ti) {
       s.minute += 1440;
       if (--s.day < 1) {
         if (--s.month < 1) s.month = 12, s.year = s.year > 0 ? s.year - 1 : 0;
-        s.day = ts::days_in_month(s.year, s.month);
+        // Year 0 (a stamp without its year) is a leap year of the proleptic calendar.
+        s.day = calendar::days_in_month(std::chrono::year{s.year},
+                                        std::chrono::month{static_cast<unsigned>(s.month)});
       }
     }
     iv.month = s.month;
@@ -827,7 +824,7 @@ std::vector<Legend> legends(const std::vector<ts::Line>& lines, std::size_t head
       if (colon == std::string_view::npos || open == std::string_view::npos ||
           close == std::string_view::npos || close < open || open < colon)
         continue;
-      out.push_back({ts::trim(l.substr(0, colon)), ts::trim(l.substr(open + 1, close - open - 1)),
+      out.push_back({text::trim(l.substr(0, colon)), text::trim(l.substr(open + 1, close - open - 1)),
                      lines[i].number});
     }
   };
@@ -921,7 +918,7 @@ std::array<Conversion, 3> resolve_units(const Context& cx, const std::vector<ts:
       if (!legend_read) legend = legends(lines, h.index, table_end), legend_read = true;
       const Legend* found = nullptr;
       for (const Legend& l : legend)
-        if (ts::iequals(l.name, field.text)) found = &l;
+        if (text::iequals(l.name, field.text)) found = &l;
       if (found) {
         const UnitSpelling* hu = ts::find_unit(kind, found->unit);
         if (!hu) unknown_unit(cx, u, found->unit, fmt::format("legend line {}", found->line));
@@ -1538,10 +1535,10 @@ std::vector<WeatherHour> convert(const Context& cx, const std::vector<Row>& rows
 
   // Feb 29 shifts the later days of the year only when the file has it: the months are
   // counted as those of a leap year (2000) or of a common one (2001).
-  const int calendar_year = inf.time.leap_day_rows > 0 ? 2000 : 2001;
+  const std::chrono::year calendar_year{inf.time.leap_day_rows > 0 ? 2000 : 2001};
   int cumulative[13] = {0};
-  for (int m = 1; m <= 12; ++m)
-    cumulative[m] = cumulative[m - 1] + ts::days_in_month(calendar_year, m);
+  for (unsigned m = 1; m <= 12; ++m)
+    cumulative[m] = cumulative[m - 1] + calendar::days_in_month(calendar_year, std::chrono::month{m});
   std::vector<WeatherHour> hours;
   hours.reserve(n);
   for (std::size_t i = 0; i < n; ++i) {
@@ -1624,7 +1621,7 @@ template <typename Enum, std::size_t N>
 Enum parse_name(const std::array<std::pair<Enum, std::string_view>, N>& names,
                 std::string_view text, std::string_view origin, std::string_view what) {
   for (const auto& [value, name] : names)
-    if (ts::iequals(ts::trim(text), name)) return value;
+    if (text::iequals(text::trim(text), name)) return value;
   std::string allowed;
   for (const auto& [value, name] : names)
     allowed += (allowed.empty() ? "" : ", ") + std::string(name);

@@ -104,11 +104,8 @@ class LineSplitter {
   bool after_cr_ = false;
 };
 
-// True when the line holds nothing but spaces, tabs and line-end characters.
+// True when the line holds nothing but white space (text::is_space).
 [[nodiscard]] bool blank(std::string_view s);
-[[nodiscard]] std::string_view trim(std::string_view s);
-// ASCII case-insensitive equality: header names and unit words compare this way.
-[[nodiscard]] bool iequals(std::string_view a, std::string_view b);
 
 // --- 2. Header and layout ------------------------------------------------------------------
 
@@ -162,9 +159,10 @@ struct TimeColumns {
 
 // --- 3. Time axis --------------------------------------------------------------------------
 
-// The days of `month` (1–12) of `year`; year 0 stands for a date written without its year,
-// which allows Feb 29 (it can only come from a leap year).
-[[nodiscard]] int days_in_month(int year, int month);
+// Month lengths and date checks are limitline/calendar.hpp's. A stamp written without its
+// year has year 0 here, a leap year of the proleptic calendar, so Feb 29 is allowed (it can
+// only come from a leap year).
+
 // Days from 1970-01-01 to a date of the proleptic Gregorian calendar.
 [[nodiscard]] std::int64_t days_from_civil(int year, int month, int day);
 struct CivilDate {
