@@ -8,6 +8,7 @@
 #include <limitline/calendar.hpp>
 #include <limitline/io/input_file.hpp>
 #include <limitline/io/timeseries.hpp>
+#include <limitline/names.hpp>
 #include <limitline/text.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/model/units.hpp>
@@ -1617,40 +1618,40 @@ WeatherSeries read(const Context& cx, std::string_view text) {
   return out;
 }
 
-template <typename Enum, std::size_t N>
-Enum parse_name(const std::array<std::pair<Enum, std::string_view>, N>& names,
-                std::string_view text, std::string_view origin, std::string_view what) {
-  for (const auto& [value, name] : names)
-    if (text::iequals(text::trim(text), name)) return value;
-  std::string allowed;
-  for (const auto& [value, name] : names)
-    allowed += (allowed.empty() ? "" : ", ") + std::string(name);
-  throw InputError(fmt::format("{}: {} is not {} (allowed: {})", origin, echo(text), what, allowed));
+// The value `text` names in `names` (any case, spaces around allowed); else an InputError
+// naming `origin` and listing the names.
+template <class Table>
+auto parse_name(const Table& names, std::string_view text, std::string_view origin,
+                std::string_view what) {
+  for (const auto& n : names)
+    if (text::iequals(text::trim(text), n.name)) return n.value;
+  throw InputError(
+      fmt::format("{}: {} is not {} (allowed: {})", origin, echo(text), what, names_in(names)));
 }
 
-template <typename Enum, std::size_t N>
-std::string_view name_of(const std::array<std::pair<Enum, std::string_view>, N>& names, Enum e) {
-  for (const auto& [value, name] : names)
-    if (value == e) return name;
-  return "";
-}
+constexpr Named<HumiditySource> kHumidityNames[] = {
+    {"dew-point", HumiditySource::dew_point},
+    {"humidity-ratio", HumiditySource::humidity_ratio},
+    {"wet-bulb", HumiditySource::wet_bulb},
+    {"relative-humidity", HumiditySource::relative_humidity},
+};
+constexpr Named<BadRowPolicy> kPolicyNames[] = {
+    {"error", BadRowPolicy::error},
+    {"skip", BadRowPolicy::skip},
+    {"fill", BadRowPolicy::fill},
+};
+constexpr Named<TimeConvention> kConventionNames[] = {
+    {"automatic", TimeConvention::automatic},
+    {"hour-beginning", TimeConvention::hour_beginning},
+    {"hour-ending", TimeConvention::hour_ending},
+};
 
-constexpr std::array<std::pair<HumiditySource, std::string_view>, 4> kHumidityNames{{
-    {HumiditySource::dew_point, "dew-point"},
-    {HumiditySource::humidity_ratio, "humidity-ratio"},
-    {HumiditySource::wet_bulb, "wet-bulb"},
-    {HumiditySource::relative_humidity, "relative-humidity"},
-}};
-constexpr std::array<std::pair<BadRowPolicy, std::string_view>, 3> kPolicyNames{{
-    {BadRowPolicy::error, "error"},
-    {BadRowPolicy::skip, "skip"},
-    {BadRowPolicy::fill, "fill"},
-}};
-constexpr std::array<std::pair<TimeConvention, std::string_view>, 3> kConventionNames{{
-    {TimeConvention::automatic, "automatic"},
-    {TimeConvention::hour_beginning, "hour-beginning"},
-    {TimeConvention::hour_ending, "hour-ending"},
-}};
+// Totals of one count over the months.
+int total(const std::array<MonthCounts, 12>& months, int MonthCounts::*count) {
+  int n = 0;
+  for (const MonthCounts& m : months) n += m.*count;
+  return n;
+}
 
 }  // namespace
 
@@ -1664,15 +1665,15 @@ std::optional<Quantity> quantity_from_key(std::string_view key) {
   return std::nullopt;
 }
 
-std::string_view humidity_source_name(HumiditySource h) { return name_of(kHumidityNames, h); }
+std::string_view humidity_source_name(HumiditySource h) { return name_in(kHumidityNames, h); }
 HumiditySource parse_humidity_source(std::string_view text, std::string_view origin) {
   return parse_name(kHumidityNames, text, origin, "a humidity source");
 }
-std::string_view bad_row_policy_name(BadRowPolicy p) { return name_of(kPolicyNames, p); }
+std::string_view bad_row_policy_name(BadRowPolicy p) { return name_in(kPolicyNames, p); }
 BadRowPolicy parse_bad_row_policy(std::string_view text, std::string_view origin) {
   return parse_name(kPolicyNames, text, origin, "a bad-row policy");
 }
-std::string_view time_convention_name(TimeConvention c) { return name_of(kConventionNames, c); }
+std::string_view time_convention_name(TimeConvention c) { return name_in(kConventionNames, c); }
 TimeConvention parse_time_convention(std::string_view text, std::string_view origin) {
   return parse_name(kConventionNames, text, origin, "a time convention");
 }
@@ -1691,26 +1692,10 @@ bool accepts_unit(Quantity q, std::string_view unit) {
 
 // --- Reading -------------------------------------------------------------------------------
 
-int WeatherInfo::skipped() const {
-  int n = 0;
-  for (const MonthCounts& m : months) n += m.skipped;
-  return n;
-}
-int WeatherInfo::filled() const {
-  int n = 0;
-  for (const MonthCounts& m : months) n += m.filled;
-  return n;
-}
-int WeatherInfo::capped() const {
-  int n = 0;
-  for (const MonthCounts& m : months) n += m.capped;
-  return n;
-}
-int WeatherInfo::rounded() const {
-  int n = 0;
-  for (const MonthCounts& m : months) n += m.rounded;
-  return n;
-}
+int WeatherInfo::skipped() const { return total(months, &MonthCounts::skipped); }
+int WeatherInfo::filled() const { return total(months, &MonthCounts::filled); }
+int WeatherInfo::capped() const { return total(months, &MonthCounts::capped); }
+int WeatherInfo::rounded() const { return total(months, &MonthCounts::rounded); }
 const ColumnUse* WeatherInfo::find(Quantity q) const {
   for (const ColumnUse& c : columns)
     if (c.quantity == q) return &c;
