@@ -1,23 +1,25 @@
+// Trend-log import: the shared series stages (io/timeseries) for lines, header units, dates
+// and numbers; what is here is the trend's own: point names to channels, the clock forms of
+// building-automation exports, and the checks of an irregular series.
 #include <limitline/io/trend.hpp>
 
-#include <limitline/io/input_file.hpp>
-
 #include <limitline/io/csv.hpp>
-#include <limitline/error.hpp>
+#include <limitline/io/input_file.hpp>
+#include <limitline/io/timeseries.hpp>
 #include <limitline/io/unit_file.hpp>
+#include <limitline/error.hpp>
+#include <limitline/text.hpp>
 
 #include <fmt/format.h>
 
 #include <algorithm>
 #include <cctype>
-#include <charconv>
 #include <cmath>
-#include <fstream>
-#include <map>
-#include <sstream>
 
 namespace limitline::trend {
 namespace {
+
+namespace ts = timeseries;
 
 constexpr std::string_view kChannelNames[kChannelCount] = {
     "outdoor-dry-bulb", "outdoor-rh", "outdoor-dew-point", "return-dry-bulb", "return-rh",
@@ -51,16 +53,12 @@ constexpr Plausible kPlausible[kChannelCount] = {
     {0, 60, 5, 40},      // supply air
     {0, 0, 0, 0},        {0, 0, 0, 0},        {0, 0, 0, 0}};
 
-std::string lower(std::string_view s) {
-  std::string out(s);
-  for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return out;
-}
+using text::to_lower;
 
 std::vector<std::string> words(std::string_view header) {
   std::vector<std::string> out;
   std::string cur;
-  for (char ch : lower(header)) {
+  for (char ch : to_lower(header)) {
     if (std::isalnum(static_cast<unsigned char>(ch))) cur += ch;
     else if (!cur.empty()) out.push_back(std::exchange(cur, {}));
   }
@@ -137,33 +135,32 @@ TimeRole time_role(std::string_view header) {
   return TimeRole::none;
 }
 
-// The unit a header names: "°F", "degF", "(F)", "[°C]", "%". Empty when none.
-std::string unit_from_header(std::string_view header) {
-  const std::string h = lower(header);
-  if (h.find("°f") != std::string::npos || h.find("degf") != std::string::npos ||
-      h.find("deg f") != std::string::npos)
-    return "F";
-  if (h.find("°c") != std::string::npos || h.find("degc") != std::string::npos ||
-      h.find("deg c") != std::string::npos)
-    return "C";
-  if (h.find('%') != std::string::npos || has_word(words(h), {"pct", "percent"})) return "%";
-  const auto w = words(h);
-  if (has_word(w, {"f"})) return "F";
-  if (has_word(w, {"c"})) return "C";
+// The trend's units as the shared spellings name them: temperatures in F or C, percentages
+// in % or as a fraction. Empty for any other unit, or none.
+std::string trend_unit(std::string_view text) {
+  constexpr std::string_view kAccepted[] = {"F", "C", "%", "fraction"};
+  for (const units::Kind kind : {units::Kind::temperature, units::Kind::fraction})
+    if (const ts::UnitSpelling* u = ts::find_unit(kind, text))
+      if (std::find(std::begin(kAccepted), std::end(kAccepted), u->help) != std::end(kAccepted))
+        return std::string(u->help);
   return {};
 }
 
+// The unit a header names ("OAT (°F)", "[°C]", "RA Temp degC", "OA RH %"), as the shared
+// header-unit parser reads it. Empty when none.
+std::string unit_from_header(std::string_view header) {
+  return trend_unit(ts::parse_header_field(header).unit_text);
+}
+
 std::string normalise_unit(std::string_view u, std::string_view origin) {
-  const std::string l = lower(u);
-  if (l == "f" || l == "°f" || l == "degf") return "F";
-  if (l == "c" || l == "°c" || l == "degc") return "C";
-  if (l == "%" || l == "percent" || l == "pct") return "%";
-  if (l == "fraction") return "fraction";
-  throw InputError(fmt::format("{}: unit {} is not one of F, C, %, fraction", origin, echo(u)));
+  std::string unit = trend_unit(u);
+  if (unit.empty())
+    throw InputError(fmt::format("{}: unit {} is not one of F, C, %, fraction", origin, echo(u)));
+  return unit;
 }
 
 std::optional<bool> parse_status(std::string_view t) {
-  const std::string l = lower(t);
+  const std::string l = to_lower(t);
   static constexpr std::string_view on[] = {"on", "1", "true", "run", "running", "yes", "active", "start", "occupied"};
   static constexpr std::string_view off[] = {"off", "0", "false", "stop", "stopped", "no", "inactive", "unoccupied"};
   for (auto s : on)
@@ -171,28 +168,6 @@ std::optional<bool> parse_status(std::string_view t) {
   for (auto s : off)
     if (l == s) return false;
   return std::nullopt;
-}
-
-bool parse_double(std::string_view t, double& v) {
-  if (!t.empty() && t.front() == '+') t.remove_prefix(1);
-  const auto r = std::from_chars(t.data(), t.data() + t.size(), v);
-  return r.ec == std::errc() && r.ptr == t.data() + t.size() && std::isfinite(v);
-}
-
-// Days from 1970-01-01 to a civil date (proleptic Gregorian).
-std::int64_t days_from_civil(int y, int m, int d) {
-  y -= m <= 2;
-  const int era = (y >= 0 ? y : y - 399) / 400;
-  const int yoe = y - era * 400;
-  const int doy = (153 * (m + (m > 2 ? -3 : 9)) + 2) / 5 + d - 1;
-  const int doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
-  return static_cast<std::int64_t>(era) * 146097 + doe - 719468;
-}
-
-int days_in_month(int y, int m) {
-  static constexpr int kDays[] = {31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31};
-  const bool leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
-  return m == 2 && leap ? 29 : kDays[m - 1];
 }
 
 // Reads digits from `s` at `i`; false when there are none or more than `max`.
@@ -247,59 +222,60 @@ ColumnOverride parse_column_override(std::string_view text, std::string_view ori
 
 namespace {
 
-// The time stamp in `text`, or none when it is not one of the accepted forms.
+// The clock time after a stamp's date, from `s[i]` on: HH:MM[:SS[.frac]], then AM/PM, Z or an
+// offset ±HH[[:]MM]. Seconds of the day, less the offset; none when it is not one of these.
+std::optional<std::int64_t> read_clock(std::string_view s, std::size_t i) {
+  int hh = 0, mm = 0, ss = 0;
+  if (!digits(s, i, 2, hh) || !expect(s, i, ':') || !digits(s, i, 2, mm)) return std::nullopt;
+  if (expect(s, i, ':') && !digits(s, i, 2, ss)) return std::nullopt;
+  if (expect(s, i, '.')) {
+    int frac;
+    if (!digits(s, i, 9, frac)) return std::nullopt;
+  }
+  while (i < s.size() && s[i] == ' ') ++i;
+  std::int64_t offset_s = 0;
+  const std::string rest = to_lower(s.substr(i));
+  if (rest == "am" || rest == "pm") {
+    if (hh < 1 || hh > 12) return std::nullopt;
+    hh = hh % 12 + (rest == "pm" ? 12 : 0);
+    i = s.size();
+  } else if (rest == "z") {
+    i = s.size();
+  } else if (!rest.empty() && (rest[0] == '+' || rest[0] == '-')) {
+    const int sign = rest[0] == '-' ? -1 : 1;
+    ++i;
+    int oh, om = 0;
+    if (!digits(s, i, 2, oh)) return std::nullopt;
+    if (expect(s, i, ':') || (i < s.size() && std::isdigit(static_cast<unsigned char>(s[i]))))
+      if (!digits(s, i, 2, om)) return std::nullopt;
+    // Civil time zones lie within UTC−12 to UTC+14.
+    if (oh * 60 + om > 14 * 60 || om > 59) return std::nullopt;
+    offset_s = sign * (oh * 3600 + om * 60);
+  }
+  if (i != s.size() || hh > 23 || mm > 59 || ss > 59) return std::nullopt;
+  return hh * 3600 + mm * 60 + ss - offset_s;
+}
+
+// The time stamp in `text`, or none when it is not one of the accepted forms. The date is
+// read by the shared stamp stage, in the forms building-automation exports write: ISO
+// 8601, YYYY/MM/DD and MM/DD/YYYY.
 std::optional<std::int64_t> read_timestamp(std::string_view text) {
   std::string_view s = text;
   while (!s.empty() && s.back() == ' ') s.remove_suffix(1);
-  std::size_t i = 0;
-  int a = 0, b = 0, c = 0, y, mo, d;
-  if (!digits(s, i, 4, a)) return std::nullopt;
-  const std::size_t first_len = i;
-  if (i < s.size() && (s[i] == '-' || s[i] == '/') && first_len == 4) {
-    const char sep = s[i++];
-    if (!digits(s, i, 2, b) || !expect(s, i, sep) || !digits(s, i, 2, c)) return std::nullopt;
-    y = a, mo = b, d = c;
-  } else if (expect(s, i, '/')) {
-    if (!digits(s, i, 2, b) || !expect(s, i, '/') || !digits(s, i, 4, c) || c < 1000) return std::nullopt;
-    y = c, mo = a, d = b;
-  } else {
+  const std::size_t end = s.find_first_of("T ");
+  ts::Stamp date;
+  ts::DateForm form{};
+  if (!ts::parse_date(s.substr(0, end), false, date, form)) return std::nullopt;
+  if (form != ts::DateForm::iso && form != ts::DateForm::ymd_slash && form != ts::DateForm::mdy)
     return std::nullopt;
-  }
-  if (mo < 1 || mo > 12 || d < 1 || d > days_in_month(y, mo)) return std::nullopt;
-  int hh = 0, mm = 0, ss = 0;
-  if (i < s.size()) {
-    if (s[i] != 'T' && s[i] != ' ') return std::nullopt;
-    while (i < s.size() && (s[i] == 'T' || s[i] == ' ')) ++i;
-    if (!digits(s, i, 2, hh) || !expect(s, i, ':') || !digits(s, i, 2, mm)) return std::nullopt;
-    if (expect(s, i, ':') && !digits(s, i, 2, ss)) return std::nullopt;
-    if (expect(s, i, '.')) {
-      int frac;
-      if (!digits(s, i, 9, frac)) return std::nullopt;
-    }
-    while (i < s.size() && s[i] == ' ') ++i;
-    std::int64_t offset_s = 0;
-    const std::string rest = lower(s.substr(i));
-    if (rest == "am" || rest == "pm") {
-      if (hh < 1 || hh > 12) return std::nullopt;
-      hh = hh % 12 + (rest == "pm" ? 12 : 0);
-      i = s.size();
-    } else if (rest == "z") {
-      i = s.size();
-    } else if (!rest.empty() && (rest[0] == '+' || rest[0] == '-')) {
-      const int sign = rest[0] == '-' ? -1 : 1;
-      ++i;
-      int oh, om = 0;
-      if (!digits(s, i, 2, oh)) return std::nullopt;
-      if (expect(s, i, ':') || (i < s.size() && std::isdigit(static_cast<unsigned char>(s[i]))))
-        if (!digits(s, i, 2, om)) return std::nullopt;
-      // Civil time zones lie within UTC−12 to UTC+14.
-      if (oh * 60 + om > 14 * 60 || om > 59) return std::nullopt;
-      offset_s = sign * (oh * 3600 + om * 60);
-    }
-    if (i != s.size() || hh > 23 || mm > 59 || ss > 59) return std::nullopt;
-    return days_from_civil(y, mo, d) * 86400 + hh * 3600 + mm * 60 + ss - offset_s;
-  }
-  return days_from_civil(y, mo, d) * 86400;
+  if (form == ts::DateForm::mdy && date.year < 1000) return std::nullopt;
+  const std::int64_t day_s = ts::days_from_civil(date.year, date.month, date.day) * 86400;
+  if (end == std::string_view::npos) return day_s;
+  std::size_t i = end;
+  while (i < s.size() && (s[i] == 'T' || s[i] == ' ')) ++i;
+  const std::optional<std::int64_t> clock = read_clock(s, i);
+  if (!clock) return std::nullopt;
+  return day_s + *clock;
 }
 
 }  // namespace
@@ -313,20 +289,11 @@ std::int64_t parse_timestamp(std::string_view text, std::string_view origin) {
 }
 
 std::string format_timestamp(std::int64_t t) {
-  std::int64_t days = t >= 0 ? t / 86400 : (t - 86399) / 86400;
+  const std::int64_t days = t >= 0 ? t / 86400 : (t - 86399) / 86400;
   const std::int64_t sec = t - days * 86400;
-  // civil_from_days
-  days += 719468;
-  const std::int64_t era = (days >= 0 ? days : days - 146096) / 146097;
-  const unsigned doe = static_cast<unsigned>(days - era * 146097);
-  const unsigned yoe = (doe - doe / 1460 + doe / 36524 - doe / 146096) / 365;
-  const std::int64_t y0 = static_cast<std::int64_t>(yoe) + era * 400;
-  const unsigned doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-  const unsigned mp = (5 * doy + 2) / 153;
-  const unsigned d = doy - (153 * mp + 2) / 5 + 1;
-  const unsigned m = mp < 10 ? mp + 3 : mp - 9;
-  const std::int64_t y = y0 + (m <= 2);
-  return fmt::format("{:04}-{:02}-{:02} {:02}:{:02}", y, m, d, sec / 3600, sec % 3600 / 60);
+  const ts::CivilDate d = ts::civil_from_days(days);
+  return fmt::format("{:04}-{:02}-{:02} {:02}:{:02}", d.year, d.month, d.day, sec / 3600,
+                     sec % 3600 / 60);
 }
 
 bool TrendLog::has(Channel c) const {
@@ -359,80 +326,296 @@ double TrendLog::weight_s(std::size_t i) const {
 
 namespace {
 
-// Cuts text arriving in pieces into lines ending in LF, CR LF or a lone CR, and drops a UTF-8
-// byte-order mark at the very start. A line wholly inside a piece is passed as a view of it;
-// only a line cut by the end of a piece is copied.
-class LineSplitter {
- public:
-  template <class OnLine>
-  void feed(std::string_view piece, OnLine&& on_line) {
-    if (at_start_) {
-      // The mark may itself arrive cut between pieces.
-      const std::size_t take = std::min(piece.size(), kBom.size() - head_.size());
-      head_.append(piece.substr(0, take));
-      piece.remove_prefix(take);
-      if (head_.size() < kBom.size() && kBom.starts_with(head_)) return;
-      at_start_ = false;
-      const std::string head = std::exchange(head_, {});
-      if (head != kBom) split(head, on_line);
-    }
-    split(piece, on_line);
-  }
-  template <class OnLine>
-  void finish(OnLine&& on_line) {
-    if (at_start_) split(std::exchange(head_, {}), on_line);  // shorter than a mark
-    at_start_ = false;
-    if (!partial_.empty()) on_line(std::string_view(partial_));
-    partial_.clear();
-  }
-
- private:
-  template <class OnLine>
-  void split(std::string_view piece, OnLine& on_line) {
-    if (after_cr_ && !piece.empty()) {
-      if (piece.front() == '\n') piece.remove_prefix(1);
-      after_cr_ = false;
-    }
-    while (!piece.empty()) {
-      const std::size_t end = piece.find_first_of("\r\n");
-      if (end == std::string_view::npos) {
-        partial_.append(piece);
-        return;
-      }
-      const bool cr = piece[end] == '\r';
-      if (partial_.empty()) {
-        on_line(piece.substr(0, end));
-      } else {
-        partial_.append(piece.substr(0, end));
-        on_line(std::string_view(partial_));
-        partial_.clear();
-      }
-      piece.remove_prefix(end + 1);
-      if (cr) {
-        if (piece.empty()) after_cr_ = true;
-        else if (piece.front() == '\n') piece.remove_prefix(1);
-      }
-    }
-  }
-
-  static constexpr std::string_view kBom = "\xEF\xBB\xBF";  // UTF-8 byte-order mark
-  std::string partial_;
-  std::string head_;  // the first bytes, until they are known not to be a mark
-  bool at_start_ = true;
-  bool after_cr_ = false;
-};
-
 // A year of one-minute samples of a dozen points is about 60 MB.
 constexpr std::uintmax_t kMaxTrendLogBytes = std::uintmax_t{1} << 30;
 
-bool blank(std::string_view s) {
-  for (char c : s)
-    if (!std::isspace(static_cast<unsigned char>(c))) return false;
-  return true;
+// A line of the log, for messages: formatted only when one is thrown.
+struct Where {
+  std::string_view name;
+  int line;
+  std::string str() const { return fmt::format("{}:{}", name, line); }
+};
+
+// --- The header and the columns ------------------------------------------------------------
+
+// How the log is laid out: where the time is, the column and unit of each channel, and how
+// each was read (for the report).
+struct Layout {
+  int header_line = 0;
+  char delimiter = ',';
+  std::vector<std::string> header;  // the fields as split
+  std::array<int, 3> time_role_column{-1, -1, -1};  // first timestamp, date and time column
+  ts::TimeColumns time;
+  std::array<int, kChannelCount> column{};  // -1: the log has none
+  std::array<std::string, kChannelCount> unit;  // "F", "C", "%", "fraction"; "" for on/off
+  std::vector<ColumnUse> uses;
+};
+
+// Channel → column, overrides first.
+void map_channels(Layout& l, const ReadOptions& options, const std::string& where_header) {
+  const auto& header = l.header;
+  l.column.fill(-1);
+  std::array<bool, kChannelCount> overridden{};
+  for (const auto& o : options.columns) {
+    int found = -1;
+    for (std::size_t c = 0; c < header.size(); ++c)
+      if (header[c] == o.header) found = static_cast<int>(c);
+    if (found < 0)
+      throw InputError(fmt::format("--column {}={}: the header ({}) has no column {}",
+                                   channel_name(o.channel), echo(o.header), where_header,
+                                   echo(o.header)));
+    const auto k = static_cast<std::size_t>(o.channel);
+    l.column[k] = found;
+    l.unit[k] = o.unit;
+    overridden[k] = true;
+  }
+  for (std::size_t c = 0; c < header.size(); ++c) {
+    const int ci = static_cast<int>(c);
+    if (std::find(l.time_role_column.begin(), l.time_role_column.end(), ci) !=
+        l.time_role_column.end())
+      continue;
+    if (std::find(l.column.begin(), l.column.end(), ci) != l.column.end()) continue;
+    const auto ch = channel_from_header(header[c]);
+    if (!ch) continue;
+    const auto k = static_cast<std::size_t>(*ch);
+    if (overridden[k]) continue;
+    if (l.column[k] >= 0)
+      throw InputError(fmt::format(
+          "{}: columns {} and {} both look like {}; choose one with --column {}=HEADER",
+          where_header, echo(header[static_cast<std::size_t>(l.column[k])]), echo(header[c]),
+          channel_name(*ch), channel_name(*ch)));
+    l.column[k] = ci;
+  }
+  if (std::all_of(l.column.begin(), l.column.end(), [](int c) { return c < 0; }))
+    throw InputError(fmt::format("{}: no trend column recognised (e.g. 'OA Temp (°F)', 'RA RH "
+                                 "(%)', 'MAT', 'OA Damper Cmd (%)', 'SF Status'); set them with "
+                                 "--column QUANTITY=HEADER[:UNIT]",
+                                 where_header));
+  for (std::size_t k = 0; k < kChannelCount; ++k)
+    if (l.column[k] >= 0)
+      l.uses.push_back({static_cast<Channel>(k), header[static_cast<std::size_t>(l.column[k])], {},
+                        overridden[k], {}});
 }
 
-// Reads the log line by line: the header search, the column mapping, then each row checked
-// and stored as it comes, so that nothing but the samples is kept.
+// Units: override, else header, else the bare system (temperatures) or % (percent points).
+void choose_units(Layout& l, const ReadOptions& options, const std::string& where_header) {
+  for (ColumnUse& use : l.uses) {
+    const Channel ch = use.channel;
+    const auto k = static_cast<std::size_t>(ch);
+    const std::string& h = use.header;
+    std::string u = l.unit[k].empty() ? unit_from_header(h) : l.unit[k];
+    switch (channel_kind(ch)) {
+      case Kind::temperature:
+        if (u == "%" || u == "fraction")
+          throw InputError(fmt::format("{}: column {} ({}) is a temperature; its unit must be F or C",
+                                       where_header, echo(h), channel_name(ch)));
+        if (u.empty()) {
+          u.assign(1, options.bare == units::System::ip ? 'F' : 'C');
+          use.note = fmt::format("no unit in the header: read in °{} (--units)", u);
+        }
+        use.unit = u == "F" ? "°F" : "°C";
+        break;
+      case Kind::percent:
+        if (u == "F" || u == "C")
+          throw InputError(fmt::format("{}: column {} ({}) is a percentage, not a temperature",
+                                       where_header, echo(h), channel_name(ch)));
+        use.unit = u.empty() ? "%" : u;
+        if (u.empty()) use.note = "no unit in the header: read in %";
+        break;
+      case Kind::status: use.unit = "on/off"; break;
+    }
+    l.unit[k] = u.empty() && channel_kind(ch) == Kind::percent ? "%" : u;
+  }
+}
+
+// The layout of a header line; none for a line without a time column (an export preamble).
+std::optional<Layout> read_header(std::string_view text, Where at, const ReadOptions& options) {
+  Layout l;
+  l.delimiter = csv::guess_delimiter(text);
+  l.header = csv::split_line(text, l.delimiter);
+  std::array<int, ts::kTimeRoleCount> roles;
+  roles.fill(-1);
+  for (std::size_t c = 0; c < l.header.size(); ++c) {
+    const TimeRole role = time_role(l.header[c]);
+    if (role == TimeRole::none) continue;
+    int& first = roles[static_cast<std::size_t>(role == TimeRole::timestamp ? ts::TimeRole::timestamp
+                                                : role == TimeRole::date  ? ts::TimeRole::date
+                                                                          : ts::TimeRole::time)];
+    if (first < 0) first = static_cast<int>(c);
+  }
+  std::copy_n(roles.begin(), 3, l.time_role_column.begin());
+  if (std::all_of(l.time_role_column.begin(), l.time_role_column.end(),
+                  [](int c) { return c < 0; }))
+    return std::nullopt;
+  l.header_line = at.line;
+  const std::string where_header = at.str();
+  // A date alone holds the whole stamp; a time alone does not.
+  if (l.time_role_column[0] < 0 && l.time_role_column[1] < 0)
+    throw InputError(fmt::format("{}: a 'Time' column needs a 'Date' column beside it", where_header));
+  l.time = ts::resolve_time(roles);
+  map_channels(l, options, where_header);
+  choose_units(l, options, where_header);
+  return l;
+}
+
+// --- One row: its time and its readings ----------------------------------------------------
+
+// The value of channel `k` in the cell `t` (not empty), in the log's storage units: °C,
+// fractions, 1/0 for on/off.
+double reading(const Layout& l, std::size_t k, std::string_view t, Where at) {
+  const auto ch = static_cast<Channel>(k);
+  const std::string& h = l.header[static_cast<std::size_t>(l.column[k])];
+  double v;
+  if (channel_kind(ch) == Kind::status) {
+    if (auto st = parse_status(t)) return *st ? 1.0 : 0.0;
+    if (ts::read_number(t, v) && v >= 0 && v <= 100 && ch == Channel::cooling)
+      return v > 0 ? 1.0 : 0.0;  // a valve or compressor signal: on when above zero
+    throw InputError(fmt::format("{}: {} {} in column {} is not a status (allowed: on/off, 1/0, "
+                                 "true/false, run/stop{})",
+                                 at.str(), channel_name(ch), echo(t), echo(h),
+                                 ch == Channel::cooling ? ", or a signal 0–100 %" : ""));
+  }
+  if (!ts::read_number(t, v))
+    throw InputError(fmt::format("{}: {} {} in column {} is not a number", at.str(),
+                                 channel_name(ch), echo(t), echo(h)));
+  if (channel_kind(ch) == Kind::percent) {
+    const bool fraction = l.unit[k] == "fraction";
+    if (v < 0 || v > (fraction ? 1.0 : 100.0))
+      throw InputError(fmt::format("{}: {} {} in column {} is outside 0–{}", at.str(),
+                                   channel_name(ch), echo(t), echo(h),
+                                   fraction ? "1 (fraction)" : "100 %"));
+    return fraction ? v : v / 100.0;
+  }
+  const double c = l.unit[k] == "F" ? units::celsius_from_fahrenheit(v) : v;
+  const auto& p = kPlausible[k];
+  if (c < p.lo || c > p.hi)
+    throw InputError(fmt::format(
+        "{}: {} {} in column {} read in °{} is {:.1f} °C, outside the plausible {:.0f} to "
+        "{:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
+        at.str(), channel_name(ch), echo(t), echo(h), l.unit[k], c, p.lo, p.hi,
+        channel_name(ch)));
+  return c;
+}
+
+struct RowReading {
+  std::int64_t time_s = 0;
+  std::array<double, kChannelCount> value;  // NaN: no reading
+};
+
+RowReading read_row(const Layout& l, std::string_view text, Where at) {
+  const auto cells = csv::split_line(text, l.delimiter);
+  // An export may end every row with a delimiter: empty fields past the header's are no field.
+  std::size_t used = cells.size();
+  while (used > l.header.size() && cells[used - 1].empty()) --used;
+  if (used != l.header.size())
+    throw InputError(fmt::format("{}: the row has {} fields but the header (line {}) has {}; "
+                                 "allowed: one value per header column",
+                                 at.str(), used, l.header_line, l.header.size()));
+  auto cell = [&](int c) -> std::string_view {
+    return c >= 0 ? std::string_view(cells[static_cast<std::size_t>(c)]) : std::string_view();
+  };
+  const std::string joined = l.time.stamp >= 0 ? std::string()
+                                               : std::string(cell(l.time.date)) + " " +
+                                                     std::string(cell(l.time.clock));
+  const std::string_view stamp = l.time.stamp >= 0 ? cell(l.time.stamp) : std::string_view(joined);
+  RowReading r;
+  const auto read = read_timestamp(stamp);
+  r.time_s = read ? *read : parse_timestamp(stamp, fmt::format("{}: time", at.str()));
+  r.value.fill(std::nan(""));
+  for (std::size_t k = 0; k < kChannelCount; ++k)
+    if (l.column[k] >= 0 && !cell(l.column[k]).empty()) r.value[k] = reading(l, k, cell(l.column[k]), at);
+  return r;
+}
+
+// --- The series ----------------------------------------------------------------------------
+
+// Appends a row to the log: in time order; an exact repeat of the previous sample is dropped
+// and counted, a stamp repeated with other readings refused.
+void append(TrendLog& log, const Layout& l, const RowReading& r, Where at) {
+  if (!log.time_s.empty()) {
+    const std::int64_t prev = log.time_s.back();
+    if (r.time_s < prev)
+      throw InputError(fmt::format(
+          "{}: time {} is before the previous sample's {} (line {}); sort the log by time",
+          at.str(), format_timestamp(r.time_s), format_timestamp(prev), log.line.back()));
+    if (r.time_s == prev) {
+      // A row's identity is its readings, not the spelling of its time cell.
+      const std::size_t last = log.size() - 1;
+      for (std::size_t k = 0; k < kChannelCount; ++k) {
+        const std::optional<double> before = log.value(static_cast<Channel>(k), last);
+        if (!(before ? r.value[k] == *before : std::isnan(r.value[k])))
+          throw InputError(fmt::format("{}: time {} repeats line {} with different readings; "
+                                       "remove one of them",
+                                       at.str(), format_timestamp(r.time_s), log.line.back()));
+      }
+      ++log.coverage.duplicate_rows;
+      return;
+    }
+  }
+  log.time_s.push_back(r.time_s);
+  log.line.push_back(at.line);
+  for (std::size_t k = 0; k < kChannelCount; ++k) {
+    if (l.column[k] < 0) continue;
+    const double v = r.value[k];
+    if (channel_kind(static_cast<Channel>(k)) == Kind::status)
+      log.state[k].push_back(std::isnan(v) ? std::int8_t{-1} : static_cast<std::int8_t>(v > 0.5));
+    else
+      log.number[k].push_back(v);
+  }
+}
+
+// Column medians: indoor air far from comfort means the unit is not the header's.
+void check_medians(const TrendLog& log, const Layout& l, const std::string& where_header) {
+  std::vector<double> v;
+  for (std::size_t k = 0; k < kChannelCount; ++k) {
+    if (l.column[k] < 0 || channel_kind(static_cast<Channel>(k)) != Kind::temperature) continue;
+    v.clear();
+    for (double x : log.number[k])
+      if (!std::isnan(x)) v.push_back(x);
+    if (v.empty()) continue;
+    const double med = ts::median(v);
+    const auto& p = kPlausible[k];
+    if (med < p.median_lo || med > p.median_hi)
+      throw InputError(fmt::format(
+          "{}: column {} ({}) read in °{} has a median of {:.1f} °C, outside the plausible "
+          "{:.0f} to {:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
+          where_header, echo(l.header[static_cast<std::size_t>(l.column[k])]),
+          channel_name(static_cast<Channel>(k)), l.unit[k], med, p.median_lo, p.median_hi,
+          channel_name(static_cast<Channel>(k))));
+  }
+}
+
+// Weights: the median interval, the cap, and the gaps beyond it.
+void measure_coverage(TrendLog& log, const ReadOptions& options) {
+  auto& cov = log.coverage;
+  const auto& t = log.time_s;
+  const std::size_t n = t.size();
+  cov.rows = static_cast<int>(n);
+  cov.first_s = t.front();
+  cov.last_s = t.back();
+  if (n < 2) throw InputError(fmt::format("{}: one sample only; an audit needs a series", log.path));
+  {
+    std::vector<double> dt(n - 1);
+    for (std::size_t i = 1; i < n; ++i) dt[i - 1] = static_cast<double>(t[i] - t[i - 1]);
+    cov.median_interval_s = ts::median(dt);
+  }
+  if (options.max_gap_s && !(*options.max_gap_s > 0 && *options.max_gap_s <= kMaxGapLimitS))
+    throw InputError(fmt::format("--max-gap: {} is outside the allowed more than 0 to {:.0f} min "
+                                 "(a year)",
+                                 std::isfinite(*options.max_gap_s)
+                                     ? fmt::format("{:.6g} min", *options.max_gap_s / 60.0)
+                                     : std::string("a time beyond any bound"),
+                                 kMaxGapLimitS / 60.0));
+  cov.max_gap_s = options.max_gap_s ? *options.max_gap_s : 2.0 * cov.median_interval_s;
+  for (std::size_t i = 0; i < n; ++i) {
+    if (i + 1 < n && static_cast<double>(t[i + 1] - t[i]) > cov.max_gap_s) cov.gaps.push_back({t[i], t[i + 1]});
+    cov.covered_s += log.weight_s(i);
+  }
+  cov.span_s = static_cast<double>(cov.last_s - cov.first_s) + log.weight_s(n - 1);
+}
+
+// The stages fed line by line, so that nothing but the samples is kept: the header search,
+// then each row read and appended as it comes; the whole series checked at the end.
 class Reader {
  public:
   Reader(std::string_view name, const ReadOptions& options) : options_(options) {
@@ -441,292 +624,54 @@ class Reader {
 
   void line(std::string_view text) {
     ++number_;
-    if (text.empty() || text[0] == '#' || (header_line_ > 0 && blank(text))) return;
-    if (header_line_ == 0) find_header(text);
-    else row(text);
-  }
-
-  TrendLog finish();
-
- private:
-  std::string where() const { return fmt::format("{}:{}", log_.path, number_); }
-  std::string where_header() const { return fmt::format("{}:{}", log_.path, header_line_); }
-  void find_header(std::string_view text);
-  void map_columns();
-  void row(std::string_view text);
-  double reading(std::size_t k, std::string_view t) const;
-
-  const ReadOptions& options_;
-  TrendLog log_;
-  int number_ = 0;       // the line being read
-  int header_line_ = 0;  // 0 until the header is found
-  char delim_ = ',';
-  std::vector<std::string> header_;
-  int ts_col_ = -1, date_col_ = -1, time_col_ = -1;
-  std::array<int, kChannelCount> col_{};
-  std::array<std::string, kChannelCount> unit_;
-  std::array<double, kChannelCount> last_{};  // the previous sample's readings (NaN: none)
-};
-
-void Reader::find_header(std::string_view text) {
-  const char delim = csv::guess_delimiter(text);
-  auto fields = csv::split_line(text, delim);
-  bool time = false;
-  for (const auto& h : fields) time = time || time_role(h) != TimeRole::none;
-  if (!time) return;  // an export preamble
-  header_line_ = number_;
-  delim_ = delim;
-  header_ = std::move(fields);
-  map_columns();
-}
-
-void Reader::map_columns() {
-  const auto& header = header_;
-  for (std::size_t c = 0; c < header.size(); ++c) {
-    switch (time_role(header[c])) {
-      case TimeRole::timestamp: if (ts_col_ < 0) ts_col_ = static_cast<int>(c); break;
-      case TimeRole::date: if (date_col_ < 0) date_col_ = static_cast<int>(c); break;
-      case TimeRole::time: if (time_col_ < 0) time_col_ = static_cast<int>(c); break;
-      default: break;
-    }
-  }
-  if (ts_col_ < 0 && date_col_ >= 0 && time_col_ < 0) ts_col_ = date_col_, date_col_ = -1;
-  if (ts_col_ < 0 && (date_col_ < 0 || time_col_ < 0))
-    throw InputError(fmt::format("{}: a 'Time' column needs a 'Date' column beside it", where_header()));
-
-  // Channel → column, overrides first.
-  col_.fill(-1);
-  std::array<bool, kChannelCount> overridden{};
-  for (const auto& o : options_.columns) {
-    int found = -1;
-    for (std::size_t c = 0; c < header.size(); ++c)
-      if (header[c] == o.header) found = static_cast<int>(c);
-    if (found < 0)
-      throw InputError(fmt::format("--column {}={}: the header ({}) has no column {}",
-                                   channel_name(o.channel), echo(o.header), where_header(), echo(o.header)));
-    const auto k = static_cast<std::size_t>(o.channel);
-    col_[k] = found;
-    unit_[k] = o.unit;
-    overridden[k] = true;
-  }
-  for (std::size_t c = 0; c < header.size(); ++c) {
-    if (static_cast<int>(c) == ts_col_ || static_cast<int>(c) == date_col_ || static_cast<int>(c) == time_col_)
-      continue;
-    if (std::find(col_.begin(), col_.end(), static_cast<int>(c)) != col_.end()) continue;
-    const auto ch = channel_from_header(header[c]);
-    if (!ch) continue;
-    const auto k = static_cast<std::size_t>(*ch);
-    if (overridden[k]) continue;
-    if (col_[k] >= 0)
-      throw InputError(fmt::format(
-          "{}: columns {} and {} both look like {}; choose one with --column {}=HEADER",
-          where_header(), echo(header[static_cast<std::size_t>(col_[k])]), echo(header[c]),
-          channel_name(*ch), channel_name(*ch)));
-    col_[k] = static_cast<int>(c);
-  }
-  bool any = false;
-  for (int c : col_) any = any || c >= 0;
-  if (!any)
-    throw InputError(fmt::format("{}: no trend column recognised (e.g. 'OA Temp (°F)', 'RA RH "
-                                 "(%)', 'MAT', 'OA Damper Cmd (%)', 'SF Status'); set them with "
-                                 "--column QUANTITY=HEADER[:UNIT]",
-                                 where_header()));
-
-  // Units: override, else header, else the bare system (temperatures) or % (percent points).
-  for (std::size_t k = 0; k < kChannelCount; ++k) {
-    if (col_[k] < 0) continue;
-    const auto ch = static_cast<Channel>(k);
-    const std::string& h = header[static_cast<std::size_t>(col_[k])];
-    ColumnUse use{ch, h, {}, overridden[k], {}};
-    std::string u = unit_[k].empty() ? unit_from_header(h) : unit_[k];
-    switch (channel_kind(ch)) {
-      case Kind::temperature:
-        if (u == "%" || u == "fraction")
-          throw InputError(fmt::format("{}: column {} ({}) is a temperature; its unit must be F or C",
-                                       where_header(), echo(h), channel_name(ch)));
-        if (u.empty()) {
-          u = options_.bare == units::System::ip ? "F" : "C";
-          use.note = fmt::format("no unit in the header: read in °{} (--units)", u);
-        }
-        use.unit = u == "F" ? "°F" : "°C";
-        break;
-      case Kind::percent:
-        if (u == "F" || u == "C")
-          throw InputError(fmt::format("{}: column {} ({}) is a percentage, not a temperature",
-                                       where_header(), echo(h), channel_name(ch)));
-        use.unit = u.empty() ? "%" : u;
-        if (u.empty()) use.note = "no unit in the header: read in %";
-        break;
-      case Kind::status: use.unit = "on/off"; break;
-    }
-    unit_[k] = u.empty() && channel_kind(ch) == Kind::percent ? "%" : u;
-    log_.columns.push_back(use);
-  }
-  last_.fill(std::nan(""));
-}
-
-// The value of channel `k` in the cell `t` (not empty), in the log's storage units: °C,
-// fractions, 1/0 for on/off.
-double Reader::reading(std::size_t k, std::string_view t) const {
-  const auto ch = static_cast<Channel>(k);
-  const std::string& h = header_[static_cast<std::size_t>(col_[k])];
-  double v;
-  if (channel_kind(ch) == Kind::status) {
-    if (auto st = parse_status(t)) return *st ? 1.0 : 0.0;
-    if (parse_double(t, v) && v >= 0 && v <= 100 && ch == Channel::cooling)
-      return v > 0 ? 1.0 : 0.0;  // a valve or compressor signal: on when above zero
-    throw InputError(fmt::format("{}: {} {} in column {} is not a status (allowed: on/off, 1/0, "
-                                 "true/false, run/stop{})",
-                                 where(), channel_name(ch), echo(t), echo(h),
-                                 ch == Channel::cooling ? ", or a signal 0–100 %" : ""));
-  }
-  if (!parse_double(t, v))
-    throw InputError(fmt::format("{}: {} {} in column {} is not a number", where(),
-                                 channel_name(ch), echo(t), echo(h)));
-  if (channel_kind(ch) == Kind::percent) {
-    const bool fraction = unit_[k] == "fraction";
-    if (v < 0 || v > (fraction ? 1.0 : 100.0))
-      throw InputError(fmt::format("{}: {} {} in column {} is outside 0–{}", where(),
-                                   channel_name(ch), echo(t), echo(h),
-                                   fraction ? "1 (fraction)" : "100 %"));
-    return fraction ? v : v / 100.0;
-  }
-  const double c = unit_[k] == "F" ? units::celsius_from_fahrenheit(v) : v;
-  const auto& p = kPlausible[k];
-  if (c < p.lo || c > p.hi)
-    throw InputError(fmt::format(
-        "{}: {} {} in column {} read in °{} is {:.1f} °C, outside the plausible {:.0f} to "
-        "{:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
-        where(), channel_name(ch), echo(t), echo(h), unit_[k], c, p.lo, p.hi, channel_name(ch)));
-  return c;
-}
-
-void Reader::row(std::string_view text) {
-  const auto cells = csv::split_line(text, delim_);
-  // An export may end every row with a delimiter: empty fields past the header's are no field.
-  std::size_t used = cells.size();
-  while (used > header_.size() && cells[used - 1].empty()) --used;
-  if (used != header_.size())
-    throw InputError(fmt::format("{}: the row has {} fields but the header (line {}) has {}; "
-                                 "allowed: one value per header column",
-                                 where(), used, header_line_, header_.size()));
-  auto cell = [&](int c) -> std::string_view {
-    return c >= 0 ? std::string_view(cells[static_cast<std::size_t>(c)]) : std::string_view();
-  };
-  const std::string joined = ts_col_ >= 0 ? std::string()
-                                          : std::string(cell(date_col_)) + " " + std::string(cell(time_col_));
-  const std::string_view stamp = ts_col_ >= 0 ? cell(ts_col_) : std::string_view(joined);
-  const auto read = read_timestamp(stamp);
-  const std::int64_t t = read ? *read : parse_timestamp(stamp, fmt::format("{}: time", where()));
-  std::array<double, kChannelCount> v;
-  v.fill(std::nan(""));
-  for (std::size_t k = 0; k < kChannelCount; ++k)
-    if (col_[k] >= 0 && !cell(col_[k]).empty()) v[k] = reading(k, cell(col_[k]));
-
-  if (!log_.time_s.empty()) {
-    const std::int64_t prev = log_.time_s.back();
-    if (t < prev)
-      throw InputError(fmt::format(
-          "{}: time {} is before the previous sample's {} (line {}); sort the log by time",
-          where(), format_timestamp(t), format_timestamp(prev), log_.line.back()));
-    if (t == prev) {
-      // A row's identity is its readings, not the spelling of its time cell.
-      for (std::size_t k = 0; k < kChannelCount; ++k)
-        if (!(v[k] == last_[k] || (std::isnan(v[k]) && std::isnan(last_[k]))))
-          throw InputError(fmt::format("{}: time {} repeats line {} with different readings; "
-                                       "remove one of them",
-                                       where(), format_timestamp(t), log_.line.back()));
-      ++log_.coverage.duplicate_rows;
+    if (text.empty() || text[0] == '#' || (layout_ && ts::blank(text))) return;
+    const Where at{log_.path, number_};
+    if (!layout_) {
+      layout_ = read_header(text, at, options_);
+      if (layout_) log_.columns = layout_->uses;
       return;
     }
-  }
-  log_.time_s.push_back(t);
-  log_.line.push_back(number_);
-  for (std::size_t k = 0; k < kChannelCount; ++k) {
-    if (col_[k] < 0) continue;
-    if (channel_kind(static_cast<Channel>(k)) == Kind::status)
-      log_.state[k].push_back(std::isnan(v[k]) ? std::int8_t{-1} : static_cast<std::int8_t>(v[k] > 0.5));
-    else
-      log_.number[k].push_back(v[k]);
-  }
-  last_ = v;
-}
-
-TrendLog Reader::finish() {
-  const auto& name = log_.path;
-  if (header_line_ == 0)
-    throw InputError(fmt::format("{}: no header line with a time column (a header such as "
-                                 "'Timestamp', 'Date/Time', or 'Date' and 'Time')", name));
-  if (log_.time_s.empty()) throw InputError(fmt::format("{}: no samples after the header", where_header()));
-
-  // Column medians: indoor air far from comfort means the unit is not the header's.
-  std::vector<double> v;
-  for (std::size_t k = 0; k < kChannelCount; ++k) {
-    if (col_[k] < 0 || channel_kind(static_cast<Channel>(k)) != Kind::temperature) continue;
-    v.clear();
-    for (double x : log_.number[k])
-      if (!std::isnan(x)) v.push_back(x);
-    if (v.empty()) continue;
-    std::nth_element(v.begin(), v.begin() + static_cast<long>(v.size() / 2), v.end());
-    const double med = v[v.size() / 2];
-    const auto& p = kPlausible[k];
-    if (med < p.median_lo || med > p.median_hi)
-      throw InputError(fmt::format(
-          "{}: column {} ({}) read in °{} has a median of {:.1f} °C, outside the plausible "
-          "{:.0f} to {:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
-          where_header(), echo(header_[static_cast<std::size_t>(col_[k])]),
-          channel_name(static_cast<Channel>(k)), unit_[k], med, p.median_lo, p.median_hi,
-          channel_name(static_cast<Channel>(k))));
+    append(log_, *layout_, read_row(*layout_, text, at), at);
   }
 
-  // Weights: the median interval, the cap, and the gaps beyond it.
-  auto& cov = log_.coverage;
-  const auto& t = log_.time_s;
-  const std::size_t n = t.size();
-  cov.rows = static_cast<int>(n);
-  cov.first_s = t.front();
-  cov.last_s = t.back();
-  if (n < 2) throw InputError(fmt::format("{}: one sample only; an audit needs a series", name));
-  v.resize(n - 1);
-  for (std::size_t i = 1; i < n; ++i) v[i - 1] = static_cast<double>(t[i] - t[i - 1]);
-  std::nth_element(v.begin(), v.begin() + static_cast<long>(v.size() / 2), v.end());
-  cov.median_interval_s = v[v.size() / 2];
-  std::vector<double>().swap(v);
-  if (options_.max_gap_s && !(*options_.max_gap_s > 0 && *options_.max_gap_s <= kMaxGapLimitS))
-    throw InputError(fmt::format("--max-gap: {} is outside the allowed more than 0 to {:.0f} min "
-                                 "(a year)",
-                                 std::isfinite(*options_.max_gap_s)
-                                     ? fmt::format("{:.6g} min", *options_.max_gap_s / 60.0)
-                                     : std::string("a time beyond any bound"),
-                                 kMaxGapLimitS / 60.0));
-  cov.max_gap_s = options_.max_gap_s ? *options_.max_gap_s : 2.0 * cov.median_interval_s;
-  for (std::size_t i = 0; i < n; ++i) {
-    if (i + 1 < n && static_cast<double>(t[i + 1] - t[i]) > cov.max_gap_s) cov.gaps.push_back({t[i], t[i + 1]});
-    cov.covered_s += log_.weight_s(i);
+  TrendLog finish() {
+    if (!layout_)
+      throw InputError(fmt::format("{}: no header line with a time column (a header such as "
+                                   "'Timestamp', 'Date/Time', or 'Date' and 'Time')", log_.path));
+    const std::string where_header = Where{log_.path, layout_->header_line}.str();
+    if (log_.time_s.empty()) throw InputError(fmt::format("{}: no samples after the header", where_header));
+    check_medians(log_, *layout_, where_header);
+    measure_coverage(log_, options_);
+    return std::move(log_);
   }
-  cov.span_s = static_cast<double>(cov.last_s - cov.first_s) + log_.weight_s(n - 1);
-  return std::move(log_);
+
+ private:
+  const ReadOptions& options_;
+  TrendLog log_;
+  int number_ = 0;  // the line being read
+  std::optional<Layout> layout_;  // once the header is found
+};
+
+template <class Feed>
+TrendLog read(std::string_view name, const ReadOptions& options, Feed&& feed) {
+  Reader reader(name, options);
+  ts::LineSplitter lines;
+  const auto on_line = [&](std::string_view l) { reader.line(l); };
+  feed([&](std::string_view piece) { lines.feed(piece, on_line); });
+  lines.finish(on_line);
+  return reader.finish();
 }
 
 }  // namespace
 
 TrendLog parse_trend(std::string_view text, std::string_view name, const ReadOptions& options) {
-  Reader reader(name, options);
-  LineSplitter lines;
-  const auto on_line = [&](std::string_view l) { reader.line(l); };
-  lines.feed(text, on_line);
-  lines.finish(on_line);
-  return reader.finish();
+  return read(name, options, [&](const auto& piece) { piece(text); });
 }
 
 TrendLog load_trend(const std::string& path, const ReadOptions& options) {
-  Reader reader(path, options);
-  LineSplitter lines;
-  const auto on_line = [&](std::string_view l) { reader.line(l); };
-  read_input_pieces(path, "the trend log", kMaxTrendLogBytes,
-                    [&](std::string_view piece) { lines.feed(piece, on_line); });
-  lines.finish(on_line);
-  return reader.finish();
+  return read(path, options, [&](const auto& piece) {
+    read_input_pieces(path, "the trend log", kMaxTrendLogBytes, piece);
+  });
 }
 
 }  // namespace limitline::trend

@@ -6,6 +6,7 @@
 // that row's own pressure (the file's hourly pressure when it has one, else the site
 // pressure the caller passes), so later layers never see the file's units or humidity kind.
 #include <limitline/error.hpp>
+#include <limitline/io/timeseries.hpp>
 
 #include <toml++/toml.h>
 
@@ -154,7 +155,8 @@ struct MonthCounts {
                     // rounding of the columns' resolution
 };
 
-enum class Clock { local, utc, offset };  // how the stamps are marked; they are used as written
+// How the stamps are marked (local, utc, offset); they are used as written.
+using Clock = timeseries::Clock;
 
 struct TimeInfo {
   std::string columns;  // "'Date (MM/DD/YYYY)' + 'Time (HH:MM)'"
