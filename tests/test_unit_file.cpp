@@ -8,6 +8,7 @@
 #include <limitline/error.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/io/unit_file.hpp>
+#include <limitline/io/detail/raw_table.hpp>
 
 #include <fmt/format.h>
 
@@ -205,12 +206,17 @@ outdoor_dry_bulb = "0.5F"
   CHECK(u.strategies_defaulted);
   CHECK(limitline::strategies_or_presets(u).size() == hl::presets().size());
   REQUIRE(u.weather);
-  CHECK(u.weather->get("file")->value_or(std::string()) == "somewhere.csv");
+  const toml::table& weather = limitline::detail::toml_table(*u.weather);
+  CHECK(weather.get("file")->value_or(std::string()) == "somewhere.csv");
   REQUIRE(u.schedule);
   REQUIRE(u.sensors);
-  // The raw tables keep their source, so their own layers can report file and line.
-  const toml::node* file = u.weather->get("file");
-  CHECK(limitline::source_origin(file->source(), "weather.file") == "d.toml:9: weather.file");
+  // The raw tables keep their source, so their own layers can report file and line; a copy
+  // of the unit file keeps it too.
+  const toml::node* file = weather.get("file");
+  CHECK(limitline::detail::source_origin(file->source(), "weather.file") == "d.toml:9: weather.file");
+  const UnitFile copy = u;
+  const toml::node* copied = limitline::detail::toml_table(*copy.weather).get("file");
+  CHECK(limitline::detail::source_origin(copied->source(), "weather.file") == "d.toml:9: weather.file");
 }
 
 TEST_CASE("TOML syntax errors name the file and line") {
@@ -434,7 +440,7 @@ TEST_CASE("air points: dry-bulb with each humidity form") {
 
   auto bad = [&](const char* text, const char* detail) {
     try {
-      parse_air_point(text, ip, "--outdoor");
+      (void)parse_air_point(text, ip, "--outdoor");
       FAIL("accepted ", text);
     } catch (const InputError& e) {
       const std::string m = e.what();

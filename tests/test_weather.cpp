@@ -9,6 +9,7 @@
 
 #include <limitline/model/psychro.hpp>
 #include <limitline/io/weather.hpp>
+#include <limitline/io/detail/raw_table.hpp>
 
 #include <fmt/format.h>
 
@@ -977,8 +978,9 @@ TEST_CASE("table: field counts, empty tables, data after the end") {
 
 namespace {
 wx::Mapping mapping_of(const std::string& toml_text) {
-  const toml::table t = toml::parse(std::string_view(toml_text), std::string_view("unit.toml"));
-  return wx::read_mapping(*t["weather"].as_table(), "unit.toml");
+  toml::table t = toml::parse(std::string_view(toml_text), std::string_view("unit.toml"));
+  return wx::read_mapping(limitline::detail::make_raw_table(std::move(*t["weather"].as_table())),
+                          "unit.toml");
 }
 std::string mapping_error(const std::string& toml_text) {
   return error_of([&] { mapping_of(toml_text); });

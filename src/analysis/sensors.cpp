@@ -2,6 +2,7 @@
 #include <limitline/analysis/sensors.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/io/detail/raw_table.hpp>
 #include <limitline/model/plausible.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/names.hpp>
@@ -260,8 +261,9 @@ SensorSet typical_sensors(HumidityKind kind) {
   return s;
 }
 
-SensorSet read_sensors(const toml::table* table, std::string_view file, units::System bare) {
-  if (table == nullptr) return typical_sensors();
+SensorSet read_sensors(const RawTable* raw, std::string_view file, units::System bare) {
+  if (raw == nullptr) return typical_sensors();
+  const toml::table* table = &detail::toml_table(*raw);
   auto origin = [&](const toml::source_region& where, std::string_view key) {
     return fmt::format("{}:{}: sensors.{}", file, where.begin.line, key);
   };

@@ -3,6 +3,7 @@
 #include <limitline/calendar.hpp>
 #include <limitline/error.hpp>
 #include <limitline/text.hpp>
+#include <limitline/io/detail/raw_table.hpp>
 
 #include <fmt/format.h>
 #include <toml++/toml.h>
@@ -70,7 +71,8 @@ std::vector<Schedule::Period> parse_periods(std::string_view text, const std::st
 
 }  // namespace
 
-Schedule read_schedule(const toml::table& table, std::string_view file) {
+Schedule read_schedule(const RawTable& raw, std::string_view file) {
+  const toml::table& table = detail::toml_table(raw);
   Schedule s;
   s.always = false;
   bool any_day = false, always_given = false;

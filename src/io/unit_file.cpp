@@ -1,6 +1,7 @@
 // Reading the unit file: strict TOML with one-line errors that name file, line and key.
 #include <limitline/io/unit_file.hpp>
 
+#include <limitline/io/detail/raw_table.hpp>
 #include <limitline/io/input_file.hpp>
 
 #include <limitline/error.hpp>
@@ -11,6 +12,7 @@
 #include <limitline/text.hpp>
 
 #include <fmt/format.h>
+#include <toml++/toml.h>
 
 #include <algorithm>
 #include <cmath>
@@ -371,9 +373,9 @@ void read_return_air(const Reader& r, const toml::table& t, double pressure_kpa,
                        r.show(Kind::temperature, a.supply_air_temp_c),
                        r.show(Kind::temperature, u.return_air.dry_bulb_c),
                        line_of(t.get("return_air_temp")->source())));
-  // The return state must exist at the site pressure.
-  u.return_air.properties(pressure_kpa,
-                          r.origin(t.get(given->key)->source(), Reader::join_path(P, given->key)));
+  // The return state must exist at the site pressure (properties() throws when it does not).
+  (void)u.return_air.properties(pressure_kpa,
+                                r.origin(t.get(given->key)->source(), Reader::join_path(P, given->key)));
 }
 
 void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa, UnitFile& u) {
@@ -717,11 +719,6 @@ double Site::design_pressure_kpa() const {
   return psychro::kStandardPressureKpa;
 }
 
-std::string source_origin(const toml::source_region& where, std::string_view key) {
-  return fmt::format("{}:{}: {}", where.path ? *where.path : std::string("unit file"),
-                     where.begin.line, key);
-}
-
 UnitFile parse_unit_file(std::string_view text, std::string_view name) {
   check_toml_depth(text, name);
   toml::table root;
@@ -751,10 +748,9 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
   u.strategies = read_strategies(r, root);
   u.strategies_defaulted = u.strategies.empty();
   u.warnings = std::move(r.warnings);
-  // Moved, not copied: a toml++ copy drops the source lines the owning layers report.
   for (auto [key, slot] : {std::pair{"weather", &u.weather}, std::pair{"schedule", &u.schedule},
                            std::pair{"sensors", &u.sensors}})
-    if (r.table(root, key, "")) *slot = std::move(*root.get(key)->as_table());
+    if (r.table(root, key, "")) *slot = detail::make_raw_table(std::move(*root.get(key)->as_table()));
   return u;
 }
 

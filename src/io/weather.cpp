@@ -10,6 +10,7 @@
 #include <limitline/io/timeseries.hpp>
 #include <limitline/names.hpp>
 #include <limitline/text.hpp>
+#include <limitline/io/detail/raw_table.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/model/units.hpp>
 
@@ -1717,7 +1718,8 @@ WeatherSeries read_file(const std::filesystem::path& path, const Mapping& mappin
 
 // --- The [weather] table -------------------------------------------------------------------
 
-Mapping read_mapping(const toml::table& table, std::string_view file_name) {
+Mapping read_mapping(const RawTable& raw, std::string_view file_name) {
+  const toml::table& table = detail::toml_table(raw);
   Mapping m;
   const auto where = [&](const toml::source_region& r) {
     return fmt::format("{}:{}", file_name, r.begin.line);

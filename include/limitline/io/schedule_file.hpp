@@ -1,8 +1,7 @@
 #pragma once
 // The unit file's [schedule] table, read into a Schedule.
+#include <limitline/io/raw_table.hpp>
 #include <limitline/model/schedule.hpp>
-
-#include <toml++/toml.h>
 
 #include <string_view>
 
@@ -12,6 +11,6 @@ namespace limitline {
 // "sat-sun") with "HH:MM-HH:MM" periods (several separated by commas; "off" for none), plus
 // first_weekday = "monday" … "sunday" and holidays = ["01-01", "12-25"]. Errors name the file,
 // line and key.
-Schedule read_schedule(const toml::table& table, std::string_view file_name);
+Schedule read_schedule(const RawTable& table, std::string_view file_name);
 
 }  // namespace limitline

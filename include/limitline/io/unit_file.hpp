@@ -11,8 +11,7 @@
 #include <limitline/model/highlimit.hpp>
 #include <limitline/model/units.hpp>
 #include <limitline/text.hpp>
-
-#include <toml++/toml.h>
+#include <limitline/io/raw_table.hpp>
 
 #include <optional>
 #include <string>
@@ -53,7 +52,7 @@ struct UnitFile {
   airside::EnergyWeights weights;
   std::vector<highlimit::Strategy> strategies;  // as written; empty when none are given
   bool strategies_defaulted = true;             // no [[strategy]] in the file
-  std::optional<toml::table> weather, schedule, sensors;  // raw, validated by their layers
+  std::optional<RawTable> weather, schedule, sensors;  // raw, validated by their layers
   units::System units = units::System::ip;  // the system bare numbers in the file are read in
   // Values that are physically valid but implausible for an air handler, one line each
   // ("FILE:LINE: KEY: ..."): shown in every report's context block and on stderr, errors
@@ -67,14 +66,10 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name);
 UnitFile load_unit_file(const std::string& path);
 
 // The file's strategies, or every preset at its common-practice defaults when it gives none.
-std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit);
+[[nodiscard]] std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit);
 
 // A name as the unit file compares it: no case, no spaces, '_' the same as '-' ("Dew_Point"
 // → "dew-point"), for every layer that reads names from its tables.
 using text::normalise_name;
-
-// "FILE:LINE: KEY" for a node read from a unit file, the prefix of every message about it
-// (for the layers that validate [weather], [schedule] and [sensors]).
-std::string source_origin(const toml::source_region& where, std::string_view key);
 
 }  // namespace limitline

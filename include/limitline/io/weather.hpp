@@ -8,7 +8,7 @@
 #include <limitline/error.hpp>
 #include <limitline/io/timeseries.hpp>
 
-#include <toml++/toml.h>
+#include <limitline/io/raw_table.hpp>
 
 #include <array>
 #include <filesystem>
@@ -117,7 +117,7 @@ struct Mapping {
 // on_bad_row = "...", time_convention = "hour-beginning" | "hour-ending",
 // max_bad_share = "5%". Unknown keys,
 // wrong types and unknown units are InputErrors naming `file_name`, the line and the key.
-Mapping read_mapping(const toml::table& weather_table, std::string_view file_name);
+Mapping read_mapping(const RawTable& weather_table, std::string_view file_name);
 
 // --- What was read, and how --------------------------------------------------------------
 
