@@ -60,13 +60,6 @@ report::ChartInput demo_chart(units::System s) {
   return c;
 }
 
-const highlimit::Strategy& strategy_named(const std::vector<highlimit::Strategy>& all, const std::string& name) {
-  for (const auto& s : all)
-    if (s.name == name) return s;
-  FAIL("no strategy " << name);
-  return all.front();
-}
-
 std::filesystem::path greensboro_unit(const std::string& name, const std::string& strategies) {
   const auto p = scratch_dir("chart") / name;
   std::ofstream(p) << "[site]\nname = \"test clinic (invented)\"\npressure = \"98kPa\"\n"

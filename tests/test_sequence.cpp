@@ -474,7 +474,7 @@ TEST_CASE("sensor accuracies follow the unit's [sensors] table") {
 }
 
 TEST_CASE("cross-references point at paragraphs that exist") {
-  for (const std::string& strategy : {"enthalpy and dry-bulb", "plain dry-bulb"}) {
+  for (const std::string strategy : {"enthalpy and dry-bulb", "plain dry-bulb"}) {
     const auto d = build(kUnit, System::ip, strategy).doc;
     const std::string all = seq::to_markdown(d);
     const std::regex ref(R"(paragraph (\d+\.\d+))");

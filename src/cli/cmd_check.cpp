@@ -27,8 +27,8 @@ constexpr std::string_view kDetails =
     "enabled or disabled costs less this hour); differences within 0.01 kJ/kg of dry air\n"
     "count as ties.\n\n"
     "Examples:\n"
-    "  limitline check examples/office-humid.toml --outdoor 68F/80%\n"
-    "  limitline check examples/lab-altitude.toml --outdoor 18C/dp12C --units si --format json";
+    "  limitline check examples/office-humid-coast.toml --outdoor 68F/80%\n"
+    "  limitline check examples/lab-high-plateau.toml --outdoor 18C/dp12C --units si --format json";
 
 }  // namespace
 
@@ -62,7 +62,7 @@ int run_check(const std::vector<std::string>& args) {
       parse_air_point(outdoor_text, system, "--outdoor", AirRole::outdoor, warnings);
   const psychro::MoistAir outdoor =
       outdoor_point.state(p, fmt::format("--outdoor {}", outdoor_text));
-  outdoor_point.properties(p, fmt::format("--outdoor {}", outdoor_text));
+  (void)outdoor_point.properties(p, fmt::format("--outdoor {}", outdoor_text));  // throws if impossible
 
   psychro::MoistAir ret = unit.return_air.state(p);
   std::string return_source = "unit file";
@@ -71,7 +71,7 @@ int run_check(const std::vector<std::string>& args) {
     const AirPoint point =
         parse_air_point(return_text, system, "--return", AirRole::return_air, warnings);
     ret = point.state(p, fmt::format("--return {}", return_text));
-    point.properties(p, fmt::format("--return {}", return_text));
+    (void)point.properties(p, fmt::format("--return {}", return_text));  // throws if impossible
     return_source = "--return";
   }
   report_warnings(warnings, common.strict);

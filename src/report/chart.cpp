@@ -546,8 +546,6 @@ struct BinTally {
   double total() const { return hours[0] + hours[1] + hours[2]; }
 };
 
-std::string_view outcome_colour(HourOutcome o) { return kOutcomes[static_cast<std::size_t>(o)].colour; }
-
 // Opacity of a cell from its hours: square-root scale, so a single hour still shows.
 double cell_opacity(double hours, double max_hours) {
   return 0.16 + 0.74 * std::sqrt(std::clamp(hours / max_hours, 0.0, 1.0));

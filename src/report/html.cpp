@@ -148,12 +148,6 @@ std::string slug(std::string_view s) {
   return out.empty() ? "section" : out;
 }
 
-std::size_t order_index(const ReportDocument& doc, const std::string& name) {
-  for (std::size_t i = 0; i < doc.strategy_order.size(); ++i)
-    if (doc.strategy_order[i] == name) return i;
-  return doc.strategy_order.size();
-}
-
 Block strategies_block(const ReportDocument& doc) {
   Block b{"strategies", "High-limit strategies weighed", {}, {}, Figure::none, "strategies"};
   b.html = "<ol class=\"strategy-list\">\n";

@@ -52,10 +52,10 @@ struct PreparedInterval {
   double pressure_kpa;  // this interval's pressure (outdoor and return air alike)
   highlimit::AirValues outdoor, ret;
   Outcome disabled, enabled, optimal;
-  bool enabling_pays() const {
+  [[nodiscard]] bool enabling_pays() const {
     return enabled.energy_kwh < disabled.energy_kwh - tolerance_kwh;
   }
-  bool enabling_hurts() const {
+  [[nodiscard]] bool enabling_hurts() const {
     return enabled.energy_kwh > disabled.energy_kwh + tolerance_kwh;
   }
   double tolerance_kwh;  // kDecisionToleranceKjPerKg at this interval's mass flow and length
@@ -76,7 +76,7 @@ struct PrepareOptions {
 
 // `ret` is the return air as the unit file gives it: its humidity ratio follows each
 // interval's pressure.
-Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret,
+[[nodiscard]] Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret,
                  std::span<const OutdoorInterval> weather, const Schedule& schedule,
                  const PrepareOptions& options);
 
@@ -113,7 +113,7 @@ struct StrategyResult {
   std::vector<std::uint8_t> enabled_by_interval;
 };
 
-std::string_view reference_name(Kind k);
+[[nodiscard]] std::string_view reference_name(Kind k);
 
 struct RunOptions {
   bool keep_decisions = false;  // fill enabled_by_interval
@@ -121,9 +121,9 @@ struct RunOptions {
 
 // One strategy over the prepared year (deadband state starts clear and carries between
 // fan-on intervals; the high-limit is not evaluated while the fan is off).
-StrategyResult run(const highlimit::Strategy& strategy, const Prepared& prepared,
+[[nodiscard]] StrategyResult run(const highlimit::Strategy& strategy, const Prepared& prepared,
                    const RunOptions& options = {});
-StrategyResult run_reference(Kind reference, const Prepared& prepared,
+[[nodiscard]] StrategyResult run_reference(Kind reference, const Prepared& prepared,
                              const RunOptions& options = {});
 
 struct YearResult {
@@ -132,11 +132,11 @@ struct YearResult {
   double total_hours = 0;
   double operating_hours = 0;
   // The best strategy (first of `strategies`); empty when there are none.
-  const StrategyResult* best() const { return strategies.empty() ? nullptr : &strategies[0]; }
+  [[nodiscard]] const StrategyResult* best() const { return strategies.empty() ? nullptr : &strategies[0]; }
 };
 
 // Runs every strategy and the references, fills savings and shortfall, and ranks.
-YearResult evaluate(std::span<const highlimit::Strategy> strategies, const Prepared& prepared,
+[[nodiscard]] YearResult evaluate(std::span<const highlimit::Strategy> strategies, const Prepared& prepared,
                     const RunOptions& options = {});
 
 }  // namespace limitline::annual

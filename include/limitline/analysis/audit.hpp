@@ -52,7 +52,7 @@ struct MeasuredFraction {
 };
 // The measured fraction and its first-order uncertainty, or none when |t_o − t_r| is below the
 // gate. Temperatures °C.
-std::optional<MeasuredFraction> measured_fraction(double t_outdoor, double t_return,
+[[nodiscard]] std::optional<MeasuredFraction> measured_fraction(double t_outdoor, double t_return,
                                                   double t_mixed, const Accuracy& a);
 
 enum class FindingKind : std::uint8_t {
@@ -65,9 +65,9 @@ enum class FindingKind : std::uint8_t {
   high_limit_elsewhere,         // switching point in the log ≠ the configured limit
 };
 inline constexpr std::size_t kFindingKindCount = 7;
-std::string_view finding_key(FindingKind k);    // "economizing-when-disabled", ...
-std::string_view finding_title(FindingKind k);  // one line, for reports
-std::string_view finding_rule(FindingKind k);   // the rule, one sentence
+[[nodiscard]] std::string_view finding_key(FindingKind k);    // "economizing-when-disabled", ...
+[[nodiscard]] std::string_view finding_title(FindingKind k);  // one line, for reports
+[[nodiscard]] std::string_view finding_rule(FindingKind k);   // the rule, one sentence
 
 struct Finding {
   FindingKind kind;
@@ -112,14 +112,14 @@ struct Result {
   std::vector<Finding> findings;  // kinds with at least one interval, in FindingKind order
   std::vector<SwitchPoint> switch_points;
   std::vector<std::string> notes;  // assumptions taken (no fan column, return air from the unit file)
-  const Finding* find(FindingKind k) const;
+  [[nodiscard]] const Finding* find(FindingKind k) const;
 };
 
 // Throws InputError when the log lacks what the strategy needs (an outdoor humidity for an
 // enthalpy or dew-point limit, a return reading for a differential one) or has no outdoor
 // dry-bulb. The same as judging every sample with judge_sample() and adding each verdict to a
 // FindingsTally.
-Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& options);
+[[nodiscard]] Result run(const UnitFile& unit, const trend::TrendLog& log, const Options& options);
 
 // --- The audit in its two steps: one sample judged alone, then the verdicts tallied --------
 
@@ -137,7 +137,7 @@ struct SampleContext {
   bool needs_outdoor_humidity = false;  // the strategy reads one
 };
 // Throws InputError as run() does when the log cannot be audited against the strategy.
-SampleContext sample_context(const UnitFile& unit, const trend::TrendLog& log,
+[[nodiscard]] SampleContext sample_context(const UnitFile& unit, const trend::TrendLog& log,
                              const Options& options);
 
 // How a sample counts: without the readings a decision needs it is left out (and said so);
@@ -172,7 +172,7 @@ struct SampleVerdict {
 // the deadband `state`, which carries from one sample to the next as in the controller), the
 // measured fraction, and every rule of the header comment. Throws InputError naming
 // FILE:LINE for a reading the psychrometrics refuse.
-SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::StrategyState& state);
+[[nodiscard]] SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::StrategyState& state);
 
 // The findings of a log, built up one verdict at a time in the log's order.
 class FindingsTally {
@@ -202,7 +202,7 @@ class FindingsTally {
   void record(FindingKind k, std::size_t i, double excess, std::optional<double> energy_kwh);
   // The switching point of condition `index` from its evidence (none when there is too
   // little), adding the samples beyond it when it differs from the configured one.
-  static std::optional<SwitchPoint> switch_point(const highlimit::Condition& cond, int index,
+  [[nodiscard]] static std::optional<SwitchPoint> switch_point(const highlimit::Condition& cond, int index,
                                                  std::vector<Point> points,
                                                  std::vector<Beyond>& beyond);
 

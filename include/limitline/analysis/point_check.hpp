@@ -25,11 +25,11 @@ enum class Verdict : std::uint8_t {
   missed_economizing,  // disabled while enabling would cost less
   no_cooling_needed,   // mixed air at the minimum is at or below target: the choice is moot
 };
-std::string_view verdict_name(Verdict v);  // "right decision", "harmful enable", ...
-std::string_view verdict_key(Verdict v);   // "right_decision", "harmful_enable", ...
+[[nodiscard]] std::string_view verdict_name(Verdict v);  // "right decision", "harmful enable", ...
+[[nodiscard]] std::string_view verdict_key(Verdict v);   // "right_decision", "harmful_enable", ...
 
 // The verdict on one decision given the hour's two possible operations.
-Verdict judge(const airside::HourChoice& choice, bool economizer_enabled,
+[[nodiscard]] Verdict judge(const airside::HourChoice& choice, bool economizer_enabled,
               double tolerance_kj_per_kg = kVerdictToleranceKjPerKg);
 
 // Whether mixing outdoor and return air can reach the mixed-air target at all: the fraction
@@ -41,8 +41,8 @@ enum class TargetReach : std::uint8_t {
   beyond_outdoor_air,      // would need more than 100 % outdoor air
   beyond_return_air,       // would need less than 0 %: outdoor air moves the mix away
 };
-std::string_view target_reach_key(TargetReach r);  // "reachable", "same_dry_bulb", ...
-TargetReach target_reach(const airside::MixedAirEstimate& estimate);
+[[nodiscard]] std::string_view target_reach_key(TargetReach r);  // "reachable", "same_dry_bulb", ...
+[[nodiscard]] TargetReach target_reach(const airside::MixedAirEstimate& estimate);
 
 struct StrategyOutcome {
   highlimit::Strategy strategy;
@@ -72,12 +72,12 @@ struct PointCheck {
   std::vector<StrategyOutcome> outcomes;  // one per strategy, in the order given
 
   // A per-kg rate at the supply airflow, kW (kJ/kg × kg/s); per hour it is kWh.
-  double kw(double kj_per_kg) const { return kj_per_kg * dry_air_kg_per_s; }
+  [[nodiscard]] double kw(double kj_per_kg) const { return kj_per_kg * dry_air_kg_per_s; }
 };
 
 // Evaluates every strategy at one point, each from a fresh (untripped) deadband state.
 // Outdoor and return air must be at the same pressure (std::invalid_argument otherwise).
-PointCheck check_point(const airside::AirHandler& unit, const airside::EnergyWeights& weights,
+[[nodiscard]] PointCheck check_point(const airside::AirHandler& unit, const airside::EnergyWeights& weights,
                        std::span<const highlimit::Strategy> strategies,
                        const psychro::MoistAir& outdoor, const psychro::MoistAir& ret);
 

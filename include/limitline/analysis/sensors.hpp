@@ -15,7 +15,7 @@
 #include <limitline/model/highlimit.hpp>
 #include <limitline/model/units.hpp>
 
-#include <toml++/toml.h>
+#include <limitline/io/raw_table.hpp>
 
 #include <array>
 #include <atomic>
@@ -43,22 +43,22 @@ enum class HumidityKind : std::uint8_t { relative_humidity, dew_point, enthalpy 
 // standard deviation a.
 enum class BiasDistribution : std::uint8_t { uniform, normal };
 
-std::string_view humidity_kind_name(HumidityKind k);  // "rh", "dew-point", "enthalpy"
-std::string_view distribution_name(BiasDistribution d);  // "uniform", "normal"
+[[nodiscard]] std::string_view humidity_kind_name(HumidityKind k);  // "rh", "dew-point", "enthalpy"
+[[nodiscard]] std::string_view distribution_name(BiasDistribution d);  // "uniform", "normal"
 
 // Key of a sensor in the [sensors] table and in --sweep ("outdoor_dry_bulb", "outdoor_rh",
 // "outdoor_dew_point", "outdoor_enthalpy", "return_dry_bulb", "return_rh").
-std::string_view sensor_key(Sensor s, HumidityKind outdoor_kind);
+[[nodiscard]] std::string_view sensor_key(Sensor s, HumidityKind outdoor_kind);
 // Words for reports ("outdoor dry-bulb", "outdoor RH", "return RH").
-std::string_view sensor_label(Sensor s, HumidityKind outdoor_kind);
+[[nodiscard]] std::string_view sensor_label(Sensor s, HumidityKind outdoor_kind);
 // The kind of a sensor's bias and accuracy: a temperature difference, a percentage (RH) or an
 // enthalpy difference.
-units::Kind bias_kind(Sensor s, HumidityKind outdoor_kind);
+[[nodiscard]] units::Kind bias_kind(Sensor s, HumidityKind outdoor_kind);
 
 // Biases (or accuracies) of the four sensors, SI: K, fraction / K / kJ/kg, K, fraction.
 using Biases = std::array<double, kSensorCount>;
 inline double& at(Biases& b, Sensor s) { return b[static_cast<std::size_t>(s)]; }
-inline double at(const Biases& b, Sensor s) { return b[static_cast<std::size_t>(s)]; }
+[[nodiscard]] inline double at(const Biases& b, Sensor s) { return b[static_cast<std::size_t>(s)]; }
 
 struct SensorSet {
   HumidityKind outdoor_humidity = HumidityKind::relative_humidity;
@@ -72,28 +72,28 @@ struct SensorSet {
 
 // Typical commercial figures (common practice): dry-bulb ±1 °F, RH ±5 % (an RH transmitter a
 // few years into service; new ones are about ±2–3 %), dew point ±2 °F, enthalpy ±1 Btu/lb.
-double typical_accuracy(Sensor s, HumidityKind outdoor_kind);
-SensorSet typical_sensors(HumidityKind outdoor_kind = HumidityKind::relative_humidity);
+[[nodiscard]] double typical_accuracy(Sensor s, HumidityKind outdoor_kind);
+[[nodiscard]] SensorSet typical_sensors(HumidityKind outdoor_kind = HumidityKind::relative_humidity);
 
 // The largest accuracy (and bias) accepted for a sensor: beyond it the device is broken, not
 // inaccurate (10 K, 30 %, 10 K dew point, 20 kJ/kg).
-double max_accuracy(Sensor s, HumidityKind outdoor_kind);
+[[nodiscard]] double max_accuracy(Sensor s, HumidityKind outdoor_kind);
 
 // Reads the unit file's [sensors] table (nullptr: typical sensors). Keys: outdoor_dry_bulb,
 // outdoor_humidity_kind = "rh" | "dew-point" | "enthalpy", one of outdoor_rh /
 // outdoor_dew_point / outdoor_enthalpy (it also sets the kind), return_dry_bulb, return_rh,
 // distribution = "uniform" | "normal". Bare numbers are in `bare` units. Errors are
 // InputErrors "FILE:LINE: sensors.KEY: ...".
-SensorSet read_sensors(const toml::table* table, std::string_view file_name, units::System bare);
+[[nodiscard]] SensorSet read_sensors(const RawTable* table, std::string_view file_name, units::System bare);
 
 // --- Random draws -------------------------------------------------------------------------
 
 // The standardised draws of one trial, one per sensor: uniform on [−1, 1) or standard normal.
 // They depend only on (seed, trial, distribution), never on the accuracies, so studies at
 // different accuracies share their random numbers.
-Biases standard_draws(std::uint64_t seed, std::uint64_t trial, BiasDistribution d);
+[[nodiscard]] Biases standard_draws(std::uint64_t seed, std::uint64_t trial, BiasDistribution d);
 // accuracy × standard draw, per sensor.
-Biases draw_biases(const SensorSet& s, std::uint64_t seed, std::uint64_t trial);
+[[nodiscard]] Biases draw_biases(const SensorSet& s, std::uint64_t seed, std::uint64_t trial);
 
 // --- Readings -----------------------------------------------------------------------------
 
@@ -108,7 +108,7 @@ struct Reading {
 // The derived reading from a dry-bulb reading and a humidity reading of `kind` (RH as a
 // fraction, dew point °C, enthalpy kJ/kg) at the true pressure. Dew point only when
 // `with_dew_point` (it costs a root solve); otherwise it is left 0.
-Reading derive_reading(double dry_bulb_c, HumidityKind kind, double humidity_reading,
+[[nodiscard]] Reading derive_reading(double dry_bulb_c, HumidityKind kind, double humidity_reading,
                        double pressure_kpa, bool with_dew_point);
 
 // --- The engine: one trial over the prepared year ----------------------------------------
@@ -137,14 +137,14 @@ class Engine {
          HumidityKind outdoor_kind);
 
   // The same truth with only some of the strategies (indices into strategies()).
-  Engine subset(std::span<const std::size_t> indices) const;
+  [[nodiscard]] Engine subset(std::span<const std::size_t> indices) const;
 
-  const std::vector<highlimit::Strategy>& strategies() const { return strategies_; }
-  HumidityKind outdoor_kind() const { return kind_; }
-  std::size_t intervals() const;
-  double perfect_energy_kwh() const;        // the perfect changeover, true state
-  double no_economizer_energy_kwh() const;  // always at the minimum
-  bool uses_humidity() const { return need_.outdoor_humidity || need_.return_humidity; }
+  [[nodiscard]] const std::vector<highlimit::Strategy>& strategies() const { return strategies_; }
+  [[nodiscard]] HumidityKind outdoor_kind() const { return kind_; }
+  [[nodiscard]] std::size_t intervals() const;
+  [[nodiscard]] double perfect_energy_kwh() const;        // the perfect changeover, true state
+  [[nodiscard]] double no_economizer_energy_kwh() const;  // always at the minimum
+  [[nodiscard]] bool uses_humidity() const { return need_.outdoor_humidity || need_.return_humidity; }
 
   // Per-thread scratch (deadband state and monthly sums): made once, reused every trial, so
   // the hour loop never allocates.
@@ -152,7 +152,7 @@ class Engine {
     std::vector<highlimit::StrategyState> state;
     std::vector<TrialOutcome> monthly;  // strategy × 12
   };
-  Workspace workspace() const;
+  [[nodiscard]] Workspace workspace() const;
 
   // One trial with the given biases. `out` has one element per strategy. When `decisions` is
   // not empty it receives, per interval and strategy (interval-major), 1 enabled, 0 disabled.
@@ -177,8 +177,8 @@ class Engine {
 
 // A strategy whose conditions use a humidity reading (enthalpy, dew point, humidity ratio),
 // and one that uses dry-bulb only.
-bool uses_humidity(const highlimit::Strategy& s);
-bool dry_bulb_only(const highlimit::Strategy& s);
+[[nodiscard]] bool uses_humidity(const highlimit::Strategy& s);
+[[nodiscard]] bool dry_bulb_only(const highlimit::Strategy& s);
 
 // --- Running many trials ------------------------------------------------------------------
 
@@ -195,7 +195,7 @@ struct RunControl {
 struct Stats {
   double mean = 0, std_error = 0, p10 = 0, p50 = 0, p90 = 0, worst = 0;
 };
-Stats summarise(std::vector<double> values);
+[[nodiscard]] Stats summarise(std::vector<double> values);
 
 struct StrategySummary {
   std::size_t index = 0;  // position in the engine's strategies
@@ -225,13 +225,13 @@ struct StudyResult {
   std::vector<Clamps> trial_clamps;
   std::vector<TrialOutcome> trial_outcomes;  // trial-major: [k × strategies + s]
   std::uint64_t readings_per_trial = 0;      // fan-on intervals
-  std::size_t trials_completed() const { return trial.size(); }
-  const TrialOutcome& outcome(std::size_t k, std::size_t s) const {
+  [[nodiscard]] std::size_t trials_completed() const { return trial.size(); }
+  [[nodiscard]] const TrialOutcome& outcome(std::size_t k, std::size_t s) const {
     return trial_outcomes[k * names.size() + s];
   }
 };
 
-StudyResult run_study(const Engine& engine, const SensorSet& sensors, const StudyOptions& options,
+[[nodiscard]] StudyResult run_study(const Engine& engine, const SensorSet& sensors, const StudyOptions& options,
                       const RunControl& control = {});
 
 // --- Bias sweep ---------------------------------------------------------------------------
@@ -281,7 +281,7 @@ struct SweepResult {
 
 // One deterministic run per bias: the swept sensor reads truth + bias, every other sensor
 // reads the truth.
-SweepResult run_sweep(const annual::Prepared& prepared,
+[[nodiscard]] SweepResult run_sweep(const annual::Prepared& prepared,
                       std::span<const highlimit::Strategy> strategies, const SweepSpec& spec,
                       const RunControl& control = {});
 
@@ -293,7 +293,7 @@ enum class Verdict : std::uint8_t {
   never,    // does not beat it even with exact humidity sensors
   not_run,  // interrupted before this pair
 };
-std::string_view verdict_name(Verdict v);
+[[nodiscard]] std::string_view verdict_name(Verdict v);
 
 struct BreakEvenPair {
   std::size_t humid = 0, dry = 0;  // engine indices
@@ -319,14 +319,14 @@ struct BreakEvenResult {
   bool partial = false;
   std::vector<BreakEvenPair> pairs;
   // Accuracy of a humidity sensor (outdoor_humidity or return_rh) at a scale, SI.
-  double accuracy(Sensor s, double scale) const { return at(base.accuracy, s) * scale; }
+  [[nodiscard]] double accuracy(Sensor s, double scale) const { return at(base.accuracy, s) * scale; }
 };
 
 // For every pair (a strategy that uses a humidity reading, one that uses dry-bulb only): the
 // multiple of the humidity sensors' accuracies (outdoor humidity and return RH together, the
 // dry-bulb sensors as given) at which the first stops beating the second in mean shortfall,
 // by bisection over [0, max], with common random numbers at every accuracy.
-BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
+[[nodiscard]] BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
                            const BreakEvenOptions& options, const RunControl& control = {});
 
 }  // namespace limitline::sensors

@@ -24,10 +24,10 @@ struct AirPoint {
   // The state at a pressure. Throws InputError for impossible states (RH over 100 %, dew
   // point or wet-bulb above the dry-bulb, beyond saturation), with values in `system`; when
   // `origin` is not empty the message starts with it.
-  psychro::MoistAir state(double pressure_kpa, std::string_view origin = {}) const;
-  psychro::Properties properties(double pressure_kpa, std::string_view origin = {}) const;
-  airside::AirState at(double pressure_kpa) const;
-  highlimit::AirValues values(double pressure_kpa) const;
+  [[nodiscard]] psychro::MoistAir state(double pressure_kpa, std::string_view origin = {}) const;
+  [[nodiscard]] psychro::Properties properties(double pressure_kpa, std::string_view origin = {}) const;
+  [[nodiscard]] airside::AirState at(double pressure_kpa) const;
+  [[nodiscard]] highlimit::AirValues values(double pressure_kpa) const;
 };
 
 // Parses "DRYBULB/HUMIDITY". The humidity part is a relative humidity ("80%", "rh80%"), a dew
@@ -35,7 +35,7 @@ struct AirPoint {
 // enthalpy ("h28btu/lb"). Bare numbers take the units of `bare`. Errors start with `origin`
 // and say which forms are allowed. Only the syntax and units are checked here; the state
 // itself is checked by AirPoint::state.
-AirPoint parse_air_point(std::string_view text, units::System bare, std::string_view origin);
+[[nodiscard]] AirPoint parse_air_point(std::string_view text, units::System bare, std::string_view origin);
 
 // Which air a point is, for its plausible bands (plausible.hpp): outdoor air, or return air
 // (the bands of the unit file's return_air_* keys).
@@ -43,7 +43,7 @@ enum class AirRole { outdoor, return_air };
 // parse_air_point, with the dry-bulb and the humidity each weighed against the band of that
 // air: a bare number that is plausible only in the other unit system is refused with both
 // readings; any other implausible value is kept and described in `warnings`.
-AirPoint parse_air_point(std::string_view text, units::System bare, std::string_view origin,
+[[nodiscard]] AirPoint parse_air_point(std::string_view text, units::System bare, std::string_view origin,
                          AirRole role, std::vector<std::string>& warnings);
 
 // The forms parse_air_point accepts, for help texts and error messages.
@@ -53,9 +53,9 @@ inline constexpr std::string_view kAirPointForms =
 
 // The kind of quantity a humidity input is written as (RH a fraction, dew point and wet-bulb
 // temperatures, ...), so every table of humidity spellings needs only the input.
-units::Kind humidity_input_kind(psychro::HumidityInput input);
+[[nodiscard]] units::Kind humidity_input_kind(psychro::HumidityInput input);
 
 // The decision values (dry-bulb, enthalpy, dew point, humidity ratio) of a state.
-highlimit::AirValues air_values(const psychro::Properties& p);
+[[nodiscard]] highlimit::AirValues air_values(const psychro::Properties& p);
 
 }  // namespace limitline

@@ -41,13 +41,13 @@ struct AirHandler {
   double coil_leaving_rh_max = 0.95;  // φ_max: cap on the coil-leaving relative humidity
 
   // Mixed-air temperature the economizer aims at: t_s − Δt_f for either fan position.
-  double mixed_air_target_c() const { return supply_air_temp_c - fan_heat_k; }
+  [[nodiscard]] double mixed_air_target_c() const { return supply_air_temp_c - fan_heat_k; }
   // Coil-leaving dry-bulb: t_s − Δt_f draw-through, t_s blow-through.
-  double coil_leaving_temp_c() const {
+  [[nodiscard]] double coil_leaving_temp_c() const {
     return fan_position == FanPosition::draw_through ? supply_air_temp_c - fan_heat_k
                                                      : supply_air_temp_c;
   }
-  double dry_air_mass_flow_kg_per_s() const {
+  [[nodiscard]] double dry_air_mass_flow_kg_per_s() const {
     return supply_airflow_m3_per_s * kStandardAirDensityKgPerM3;
   }
 };
@@ -62,20 +62,20 @@ struct AirState {
   double humidity_ratio;
   double enthalpy_kj_per_kg;
 };
-AirState air_state(double dry_bulb_c, double humidity_ratio);
+[[nodiscard]] AirState air_state(double dry_bulb_c, double humidity_ratio);
 
 // Adiabatic mixing on dry-air mass (ASHRAE Fundamentals ch. 1, eqs. 42–44): enthalpy and
 // humidity ratio mix linearly in the outdoor dry-air fraction x; t follows from eq. 32.
-AirState mix(const AirState& outdoor, const AirState& ret, double oa_fraction);
+[[nodiscard]] AirState mix(const AirState& outdoor, const AirState& ret, double oa_fraction);
 
 // The fraction x* at which the mixed air is at `target_c`, in closed form (h_m and W_m are
 // linear in x, so t_m(x) = target is linear in x once eq. 32 is rearranged). Returns false
 // when no finite x exists (outdoor and return air give the same mixed temperature for all x).
-bool oa_fraction_for_mixed_temp(const AirState& outdoor, const AirState& ret, double target_c,
+[[nodiscard]] bool oa_fraction_for_mixed_temp(const AirState& outdoor, const AirState& ret, double target_c,
                                 double& oa_fraction);
 
 // The mixing estimate practitioners make by hand: t_m ≈ x·t_o + (1 − x)·t_r.
-constexpr double mixed_temp_by_temperature_weighting(double t_outdoor_c, double t_return_c,
+[[nodiscard]] constexpr double mixed_temp_by_temperature_weighting(double t_outdoor_c, double t_return_c,
                                                      double oa_fraction) {
   return oa_fraction * t_outdoor_c + (1.0 - oa_fraction) * t_return_c;
 }
@@ -95,7 +95,7 @@ struct MixedAirEstimate {
   Makeup makeup;            // heating when the mixed air ends below target, cooling above
   double makeup_k;          // |t_m − target|
 };
-MixedAirEstimate estimate_mixed_air(const AirState& outdoor, const AirState& ret,
+[[nodiscard]] MixedAirEstimate estimate_mixed_air(const AirState& outdoor, const AirState& ret,
                                     double target_c, double min_fraction, double max_fraction);
 
 // Per-pressure coil boundary: leaving dry-bulb and the leaving humidity-ratio cap
@@ -104,7 +104,7 @@ struct CoilLimits {
   double leaving_temp_c;
   double leaving_humidity_ratio_cap;
 };
-CoilLimits coil_limits(const AirHandler& unit, double pressure_kpa);
+[[nodiscard]] CoilLimits coil_limits(const AirHandler& unit, double pressure_kpa);
 
 // Loads of one operation, per kg of dry air.
 struct CoilLoads {
@@ -118,7 +118,7 @@ struct CoilLoads {
 
 // Cooling coil with leaving dry-bulb t_cl and W_cl = min(W_ce, W_cap):
 // q_c = h_ce − h_cl − (W_ce − W_cl)·4.186·t_cl when t_ce > t_cl; heating when t_ce < t_cl.
-CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& limits, const AirState& mixed);
+[[nodiscard]] CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& limits, const AirState& mixed);
 
 // How cooling and heating energy are weighed against each other when choosing (E = w_c·q_c +
 // w_h·q_h): defaults count a kWh of either as equal.
@@ -150,7 +150,7 @@ struct HourAir {
 };
 
 // The operation the damper rule gives (docs/model.md §Damper rule, steps 1–2).
-Operation operate(const AirHandler& unit, const HourAir& air, bool economizer_enabled,
+[[nodiscard]] Operation operate(const AirHandler& unit, const HourAir& air, bool economizer_enabled,
                   const EnergyWeights& weights);
 
 // Everything a high-limit can cause in one hour: the operation with the economizer disabled,
@@ -160,20 +160,20 @@ struct HourChoice {
   Operation disabled;
   Operation enabled;
   // Enabling saves energy beyond `tolerance`: the perfect changeover's decision.
-  bool enabling_pays(double tolerance_kj_per_kg) const {
+  [[nodiscard]] bool enabling_pays(double tolerance_kj_per_kg) const {
     return enabled.weighted_kj_per_kg < disabled.weighted_kj_per_kg - tolerance_kj_per_kg;
   }
-  bool enabling_hurts(double tolerance_kj_per_kg) const {
+  [[nodiscard]] bool enabling_hurts(double tolerance_kj_per_kg) const {
     return enabled.weighted_kj_per_kg > disabled.weighted_kj_per_kg + tolerance_kj_per_kg;
   }
 };
-HourChoice choose(const AirHandler& unit, const HourAir& air, const EnergyWeights& weights);
+[[nodiscard]] HourChoice choose(const AirHandler& unit, const HourAir& air, const EnergyWeights& weights);
 
 // The damper position in [x_min, x_max] that minimises E. E is piecewise linear in x (coil
 // entering enthalpy and humidity are linear in x; the breakpoints are x* and the fraction at
 // which the entering humidity reaches the coil's leaving cap), so its minimum is at one of
 // those points or an end.
-Operation optimal_damper(const AirHandler& unit, const HourAir& air,
+[[nodiscard]] Operation optimal_damper(const AirHandler& unit, const HourAir& air,
                          const EnergyWeights& weights);
 
 }  // namespace limitline::airside

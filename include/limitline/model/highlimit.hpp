@@ -23,15 +23,15 @@ inline constexpr std::size_t kQuantityCount = 4;
 
 enum class Reference : std::uint8_t { fixed, return_air };
 
-std::string_view quantity_name(Quantity q);  // "dry-bulb", "enthalpy", "dew-point", ...
-std::optional<Quantity> quantity_from_name(std::string_view name);
-std::string_view reference_name(Reference r);  // "fixed", "return"
-std::optional<Reference> reference_from_name(std::string_view name);
+[[nodiscard]] std::string_view quantity_name(Quantity q);  // "dry-bulb", "enthalpy", "dew-point", ...
+[[nodiscard]] std::optional<Quantity> quantity_from_name(std::string_view name);
+[[nodiscard]] std::string_view reference_name(Reference r);  // "fixed", "return"
+[[nodiscard]] std::optional<Reference> reference_from_name(std::string_view name);
 
 // The kind of a quantity's values (limits, readings) and of its differences (offsets,
 // deadbands, excess over a limit), for parsing and display at the edges.
-units::Kind quantity_kind(Quantity q);
-units::Kind quantity_difference_kind(Quantity q);
+[[nodiscard]] units::Kind quantity_kind(Quantity q);
+[[nodiscard]] units::Kind quantity_difference_kind(Quantity q);
 
 // The values a decision is made on (sensor readings, or the true state), SI, indexed by
 // Quantity: °C, kJ/kg, °C, kg/kg.
@@ -40,7 +40,7 @@ struct AirValues {
   double operator[](Quantity q) const { return value[static_cast<std::size_t>(q)]; }
   double& operator[](Quantity q) { return value[static_cast<std::size_t>(q)]; }
 };
-AirValues air_values(double dry_bulb_c, double enthalpy_kj_per_kg, double dew_point_c,
+[[nodiscard]] AirValues air_values(double dry_bulb_c, double enthalpy_kj_per_kg, double dew_point_c,
                      double humidity_ratio);
 
 struct Condition {
@@ -49,7 +49,7 @@ struct Condition {
   double limit = 0.0;     // fixed: the limit; return_air: the offset added to the return value
   double deadband = 0.0;  // ≥ 0, same kind as the quantity (a difference)
 
-  double effective_limit(const AirValues& ret) const {
+  [[nodiscard]] double effective_limit(const AirValues& ret) const {
     return reference == Reference::fixed ? limit : ret[quantity] + limit;
   }
 };
@@ -58,7 +58,7 @@ struct Strategy {
   std::string name;
   std::string preset;  // the preset it came from, empty for custom conditions
   std::vector<Condition> conditions;
-  bool needs(Quantity q) const;  // any condition uses q (outdoor, or return when differential)
+  [[nodiscard]] bool needs(Quantity q) const;  // any condition uses q (outdoor, or return when differential)
 };
 
 // --- Presets ---------------------------------------------------------------------------
@@ -76,20 +76,20 @@ struct PresetSettings {
 };
 // 75 °F dry-bulb, 28 Btu/lb enthalpy, 55 °F dew point, zero offsets and deadbands (common
 // practice; the energy-code rows of data/codes give the required values per climate zone).
-PresetSettings preset_defaults();
+[[nodiscard]] PresetSettings preset_defaults();
 
 struct PresetInfo {
   std::string_view name;         // "fixed-enthalpy+dry-bulb"
   std::string_view description;  // one line, original wording
 };
-std::span<const PresetInfo> presets();
-bool is_preset(std::string_view name);
+[[nodiscard]] std::span<const PresetInfo> presets();
+[[nodiscard]] bool is_preset(std::string_view name);
 
 // Builds the strategy of a preset; throws InputError naming the preset when it is unknown.
-Strategy make_preset(std::string_view preset, const PresetSettings& settings,
+[[nodiscard]] Strategy make_preset(std::string_view preset, const PresetSettings& settings,
                      std::string name = {});
 // Every preset with the given settings, in the order of presets().
-std::vector<Strategy> all_presets(const PresetSettings& settings);
+[[nodiscard]] std::vector<Strategy> all_presets(const PresetSettings& settings);
 
 // --- Decisions ------------------------------------------------------------------------
 
@@ -111,7 +111,7 @@ struct ConditionResult {
   double limit;           // effective limit (return value + offset for differential types)
   double excess;          // outdoor − limit (> 0 above the limit)
   ConditionStatus status;
-  bool disables() const { return status != ConditionStatus::clear; }
+  [[nodiscard]] bool disables() const { return status != ConditionStatus::clear; }
 };
 
 struct Decision {
@@ -123,11 +123,11 @@ struct Decision {
 };
 
 // Evaluates the strategy and updates its state (the full account, for reports).
-Decision decide(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
+[[nodiscard]] Decision decide(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
                 StrategyState& state);
 
 // The same decision without the account, for annual loops: returns enabled.
-bool permits(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
+[[nodiscard]] bool permits(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
              StrategyState& state);
 
 }  // namespace limitline::highlimit

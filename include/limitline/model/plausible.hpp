@@ -26,8 +26,8 @@ struct Band {
 };
 
 // Every band, and one by name (nullptr when the name has none).
-std::span<const Band> bands();
-const Band* find(std::string_view name);
+[[nodiscard]] std::span<const Band> bands();
+[[nodiscard]] const Band* find(std::string_view name);
 
 // Where a value was written: `origin` starts every message ("FILE:LINE: KEY", "--outdoor
 // dry-bulb"); `bare_reading` says how a bare number there is read ("in an SI file", "with
@@ -38,15 +38,15 @@ struct Source {
 };
 // The two readings of a bare number: in a unit file ("in an SI file") and on the command line
 // ("read in SI units").
-std::string in_file(units::System bare);
-std::string on_command_line(units::System bare);
+[[nodiscard]] std::string in_file(units::System bare);
+[[nodiscard]] std::string on_command_line(units::System bare);
 
 // Parses `text` as the band's kind (units::parse, with its absolute bounds) in the `bare`
 // system and weighs it against the band. Inside: the value. Outside, a bare number whose
 // reading in the other system is inside: InputError naming both readings and the spelling to
 // write ("75 in an SI file is 75 °C, ...; if you meant 75 °F write \"75F\""). Otherwise the
 // value, with one warning appended to `warnings` (values shown in the `bare` system).
-double parse(const Band& band, std::string_view text, units::System bare, const Source& source,
+[[nodiscard]] double parse(const Band& band, std::string_view text, units::System bare, const Source& source,
              std::vector<std::string>& warnings);
 
 }  // namespace limitline::plausible

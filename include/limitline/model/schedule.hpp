@@ -21,16 +21,16 @@ struct Schedule {
   int first_weekday = 0;                      // weekday of 1 January, Monday = 0
 
   // Weekday of a 0-based day of the year.
-  int weekday(int day_of_year) const { return (first_weekday + day_of_year) % 7; }
+  [[nodiscard]] int weekday(int day_of_year) const { return (first_weekday + day_of_year) % 7; }
   // Share of [start_min, start_min + length_min) of that day during which the fan runs, 0–1.
-  double occupied_share(int day_of_year, int month, int day, int start_min,
+  [[nodiscard]] double occupied_share(int day_of_year, int month, int day, int start_min,
                         int length_min) const;
   // Occupied hours in a week (for the report).
-  double weekly_hours() const;
+  [[nodiscard]] double weekly_hours() const;
   // One line for the report: "always occupied" or "Mon–Fri 06:00–19:00, Sat 08:00–13:00; …".
-  std::string describe() const;
+  [[nodiscard]] std::string describe() const;
 };
 
-std::string_view weekday_name(int weekday);  // "Monday"
+[[nodiscard]] std::string_view weekday_name(int weekday);  // "Monday"
 
 }  // namespace limitline

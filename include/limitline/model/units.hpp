@@ -17,7 +17,7 @@ namespace limitline::units {
 enum class System { ip, si };
 
 // "ip" or "si" (any case); anything else is an InputError naming `origin`.
-System parse_system(std::string_view text, std::string_view origin = "--units");
+[[nodiscard]] System parse_system(std::string_view text, std::string_view origin = "--units");
 [[nodiscard]] std::string_view system_name(System s);  // "ip", "si"
 [[nodiscard]] std::span<const Named<System>> system_names();
 
@@ -40,7 +40,7 @@ enum class Kind {
 };
 
 // Human name of the kind ("a temperature", "an enthalpy") for error messages.
-std::string_view kind_name(Kind k);
+[[nodiscard]] std::string_view kind_name(Kind k);
 
 // Parses `text` ("75F", "23.9 °C", "28btu/lb", "50%", "0.0093", "12000cfm", "20,000 cfm") as
 // a quantity of `kind` and returns it in SI. A bare number takes the default unit of `bare`
@@ -50,51 +50,51 @@ std::string_view kind_name(Kind k);
 // 1e308 cfm) is refused, so no parsed quantity can overflow a calculation. `origin` says where
 // the text came from (an option, or file:line key) and starts every error message. Throws
 // InputError.
-double parse(Kind kind, std::string_view text, System bare, std::string_view origin);
+[[nodiscard]] double parse(Kind kind, std::string_view text, System bare, std::string_view origin);
 
 // Parses a plain number (no unit) or throws InputError naming `origin`.
-double parse_number(std::string_view text, std::string_view origin);
+[[nodiscard]] double parse_number(std::string_view text, std::string_view origin);
 
 // True when `text` carries an explicit unit (anything after the number).
-bool has_unit(std::string_view text);
+[[nodiscard]] bool has_unit(std::string_view text);
 
 // The absolute bounds parse() holds a kind to (SI): absolute zero for a temperature, 0 for a
 // pressure, a thousand times any air-side figure for the rest.
-std::pair<double, double> absolute_bounds(Kind kind);
+[[nodiscard]] std::pair<double, double> absolute_bounds(Kind kind);
 
 // True when `value` lies in [lo, hi] up to the rounding of a unit conversion, so that an end
 // point written in either system ("36F" for 20 K) is inside; held_within() returns such a
 // value held to the end it rounds past (others unchanged).
-bool within(double value, double lo, double hi);
-double held_within(double value, double lo, double hi);
+[[nodiscard]] bool within(double value, double lo, double hi);
+[[nodiscard]] double held_within(double value, double lo, double hi);
 
 // The unit as a user writes it after a number ("F", "kJ/kg", "cfm"), for "write \"75F\"".
-std::string_view written_unit(Kind kind, System system);
+[[nodiscard]] std::string_view written_unit(Kind kind, System system);
 
 // A value for a message, converted to `system` with up to `significant` digits ("75 °C",
 // "20000 cfm", "23.8889 °C").
-std::string format_brief(Kind kind, System system, double value_si, int significant = 6);
+[[nodiscard]] std::string format_brief(Kind kind, System system, double value_si, int significant = 6);
 // A range for a message ("10 °C to 40 °C"), each end rounded toward the inside at 4 decimals
 // so that an end written as shown is accepted.
-std::string format_range(Kind kind, System system, double lo_si, double hi_si);
+[[nodiscard]] std::string format_range(Kind kind, System system, double lo_si, double hi_si);
 
 // SI value → display value in `system`, and back.
-double to_display(Kind kind, System system, double value_si);
-double from_display(Kind kind, System system, double display_value);
+[[nodiscard]] double to_display(Kind kind, System system, double value_si);
+[[nodiscard]] double from_display(Kind kind, System system, double display_value);
 
 // Display unit label ("°F", "Btu/lb", "kJ/kg", "cfm", "%").
-std::string_view unit_label(Kind kind, System system);
+[[nodiscard]] std::string_view unit_label(Kind kind, System system);
 // Suffix of a JSON or CSV key for that unit ("f", "c", "btu_per_lb", "kj_per_kg", "psia").
-std::string_view key_suffix(Kind kind, System system);
+[[nodiscard]] std::string_view key_suffix(Kind kind, System system);
 
 // Enthalpy datum shift (docs/model.md §Units and datums), exposed for tests and the chart.
-constexpr double enthalpy_ip_from_si(double h_kj_per_kg) { return h_kj_per_kg / 2.326 + 7.68; }
-constexpr double enthalpy_si_from_ip(double h_btu_per_lb) { return (h_btu_per_lb - 7.68) * 2.326; }
+[[nodiscard]] constexpr double enthalpy_ip_from_si(double h_kj_per_kg) { return h_kj_per_kg / 2.326 + 7.68; }
+[[nodiscard]] constexpr double enthalpy_si_from_ip(double h_btu_per_lb) { return (h_btu_per_lb - 7.68) * 2.326; }
 
-constexpr double fahrenheit_from_celsius(double c) { return c * 1.8 + 32.0; }
-constexpr double celsius_from_fahrenheit(double f) { return (f - 32.0) / 1.8; }
+[[nodiscard]] constexpr double fahrenheit_from_celsius(double c) { return c * 1.8 + 32.0; }
+[[nodiscard]] constexpr double celsius_from_fahrenheit(double f) { return (f - 32.0) / 1.8; }
 
 // Formats an SI value for display: converted, rounded to `decimals`, with its unit label.
-std::string format(Kind kind, System system, double value_si, int decimals);
+[[nodiscard]] std::string format(Kind kind, System system, double value_si, int decimals);
 
 }  // namespace limitline::units
