@@ -29,8 +29,8 @@ constexpr std::string_view kDetails =
     "return-dew-point, mixed-air, supply-air, damper, fan, cooling; UNIT F, C, % or fraction.\n\n"
     "Examples:\n"
     "  limitline audit examples/audit-office.toml examples/trend-office.csv\n"
-    "  limitline audit unit.toml log.csv --strategy \"dry-bulb 65F\" --format md\n"
-    "  limitline audit unit.toml log.csv --column mixed-air=\"AHU1 MAT:C\" --max-gap 45";
+    "  limitline audit examples/audit-office.toml examples/trend-office.csv --edition ashrae-90.1-2019 --zone 4A --format md\n"
+    "  limitline audit examples/audit-office.toml examples/trend-office.csv --column mixed-air=\"MA Temp (°F):F\" --max-gap 45";
 
 highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map& vm, std::string& source) {
   const bool code = vm.count("edition") || vm.count("zone");

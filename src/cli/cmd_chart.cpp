@@ -27,8 +27,8 @@ constexpr std::string_view kDetails =
     "Examples:\n"
     "  limitline chart -o chart.svg\n"
     "  limitline chart --demo mesa-alta --units si -o mesa.svg\n"
-    "  limitline chart unit.toml --weather site.csv --strategy \"fixed dry-bulb 65F\" -o chart.svg\n"
-    "  limitline chart unit.toml --outdoor 68F/80% --return 75F/50% -o point.svg";
+    "  limitline chart examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --strategy \"dry-bulb 65F\" -o chart.svg\n"
+    "  limitline chart examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --outdoor 68F/80% --return 75F/50% -o point.svg";
 
 }  // namespace
 

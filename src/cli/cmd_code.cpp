@@ -57,7 +57,7 @@ std::string details() {
       "Examples:\n"
       "  limitline code --edition ashrae-90.1-2019 --zone 4A\n"
       "  limitline code --edition title24-2022 --zone 12 --elevation 4500ft --format md\n"
-      "  limitline code unit.toml --code-table city-amendments.toml\n"
+      "  limitline code tests/data/codes-unit-4a.toml --code-table tests/data/codes-amend-90.1-2019-4a.toml\n"
       "  limitline code --all-editions --units si --format json",
       codes::kAltitudeFootnoteThresholdBtuPerLb, codes::kTemperatureToleranceF,
       codes::kEnthalpyToleranceBtuPerLb, codes::kTemperatureToleranceK,

@@ -26,7 +26,7 @@ constexpr std::string_view kDetails =
     "Examples:\n"
     "  limitline report -o study.html\n"
     "  limitline report --demo mesa-alta --units si -o mesa.html\n"
-    "  limitline report unit.toml --weather site.csv --format md -o study/report.md";
+    "  limitline report examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --format md -o report.md";
 
 // "dir/report.md" → "dir/report-chart.svg": the pictures sit beside the Markdown file.
 std::filesystem::path beside(const std::filesystem::path& md, std::string_view suffix) {

@@ -30,9 +30,9 @@ constexpr std::string_view kDetails =
     "reports the trials that finished, marked partial (exit code 130).\n\n"
     "Examples:\n"
     "  limitline sensors\n"
-    "  limitline sensors unit.toml --weather site.csv --trials 2000 --seed 7\n"
-    "  limitline sensors unit.toml --sweep outdoor_rh=-10%:10%:1%\n"
-    "  limitline sensors unit.toml --format json --trials-csv trials.csv";
+    "  limitline sensors examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --trials 2000 --seed 7\n"
+    "  limitline sensors examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --sweep outdoor_rh=-10%:10%:1%\n"
+    "  limitline sensors --format json --trials-csv trials.csv";
 
 constexpr std::size_t kMaxTrials = 100000;
 constexpr unsigned kMaxThreads = 256;

@@ -24,9 +24,9 @@ constexpr std::string_view kDetails =
     "embedded demo unit is used (an invented unit and climate).\n\n"
     "Examples:\n"
     "  limitline sequence\n"
-    "  limitline sequence unit.toml --strategy \"fixed enthalpy + dry-bulb\" --format md\n"
-    "  limitline sequence unit.toml --with-year --units si\n"
-    "  limitline sequence unit.toml --weather site.csv";
+    "  limitline sequence examples/office-humid-coast.toml --strategy \"enthalpy 28 + dry-bulb 75F\" --format md\n"
+    "  limitline sequence --demo mesa-alta --with-year --units si\n"
+    "  limitline sequence examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv";
 
 }  // namespace
 

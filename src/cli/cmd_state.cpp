@@ -46,7 +46,7 @@ constexpr std::string_view kDetails =
     "Examples:\n"
     "  limitline state --dry-bulb 75F --rh 50%\n"
     "  limitline state --dry-bulb 24C --dew-point 12C --elevation 1500m --units si --format json\n"
-    "  limitline state --batch points.csv --units si > properties.csv";
+    "  limitline state --batch examples/state-points.csv --units si > properties.csv";
 
 
 }  // namespace

@@ -35,9 +35,9 @@ constexpr std::string_view kDetails =
     "Examples:\n"
     "  limitline year\n"
     "  limitline year --demo mesa-alta --units si\n"
-    "  limitline year examples/office-rtu-humid.toml --weather site.csv --format json\n"
-    "  limitline year unit.toml --batch weather-folder/\n"
-    "  limitline year unit.toml --hourly hours.csv";
+    "  limitline year examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --format json\n"
+    "  limitline year examples/office-humid-coast.toml --batch tests/data/\n"
+    "  limitline year examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --hourly hours.csv";
 
 void show_progress(std::size_t done, std::size_t total) {
   std::fprintf(stderr, "\r  %zu of %zu sites", done, total);

@@ -44,6 +44,13 @@ inline std::filesystem::path scratch_dir(const std::string& suite) {
   return d;
 }
 
+// Every output of a run, standard output and error, is free of NaN and inf.
+inline void check_no_nan(const CliRun& r) {
+  static const std::regex bad(R"((^|[^a-z])(nan|inf)([^a-z]|$))", std::regex::icase);
+  CHECK_FALSE(std::regex_search(r.out, bad));
+  CHECK_FALSE(std::regex_search(r.err, bad));
+}
+
 // Runs `limitline ARGS...` in the source folder with the source tree's data (code tables).
 inline CliRun run_cli(const std::vector<std::string>& args, const std::string& suite = "cli") {
   const auto dir = scratch_dir(suite);
@@ -56,9 +63,7 @@ inline CliRun run_cli(const std::vector<std::string>& args, const std::string& s
   const int status = std::system(cmd.c_str());
   REQUIRE(WIFEXITED(status));
   CliRun r{WEXITSTATUS(status), slurp(dir / "out"), slurp(dir / "err")};
-  static const std::regex bad(R"((^|[^a-z])(nan|inf)([^a-z]|$))", std::regex::icase);
-  CHECK_FALSE(std::regex_search(r.out, bad));
-  CHECK_FALSE(std::regex_search(r.err, bad));
+  check_no_nan(r);
   return r;
 }
 
