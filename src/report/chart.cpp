@@ -267,7 +267,8 @@ Curve wet_bulb_curve(const ChartGeometry& g, const Psy& psy, double wb) {
   if (a >= b || !w_at_wet_bulb(a, wb, psy.p)) return c;
   if (!w_at_wet_bulb(b, wb, psy.p)) b = bisect(a, b, [&](double t) { return w_at_wet_bulb(t, wb, psy.p).has_value(); });
   for (int i = 0; i <= 24; ++i) {
-    const double t = a + (b - a) * i / 24;
+    // Held to b: a + (b - a) rounds past b by an ulp, where no wet-bulb line may exist.
+    const double t = std::min(b, a + (b - a) * i / 24);
     c.push_back({t, std::max(0.0, *w_at_wet_bulb(t, wb, psy.p))});
   }
   return c;
