@@ -73,8 +73,8 @@ TEST_CASE("mixing conserves dry air, water and enthalpy (ASHRAE HoF ch. 1, adiab
   for (double x : {0.05, 0.2, 0.5, 0.8, 0.95}) {
     const double m_o = x, m_r = 1.0 - x;  // per kg of mixed dry air
     const air::AirState m = air::mix(o, r, x);
-    check_near(m_o * o.enthalpy_kj_per_kg + m_r * r.enthalpy_kj_per_kg, m.enthalpy_kj_per_kg,
-               1e-12, "energy balance");
+    check_near(m_o * o.enthalpy_kj_per_kg + m_r * r.enthalpy_kj_per_kg, m.enthalpy_kj_per_kg, 1e-12,
+               "energy balance");
     check_near(m_o * o.humidity_ratio + m_r * r.humidity_ratio, m.humidity_ratio, 1e-15,
                "water balance");
     check_near((r.enthalpy_kj_per_kg - m.enthalpy_kj_per_kg) /
@@ -83,8 +83,8 @@ TEST_CASE("mixing conserves dry air, water and enthalpy (ASHRAE HoF ch. 1, adiab
     check_near((r.humidity_ratio - m.humidity_ratio) / (m.humidity_ratio - o.humidity_ratio),
                m_o / m_r, 1e-9, "lever rule on humidity ratio");
     // The mixed dry-bulb is the one eq. 32 gives for the mixed h and W.
-    check_near(psy::enthalpy_kj_per_kg(m.dry_bulb_c, m.humidity_ratio), m.enthalpy_kj_per_kg,
-               1e-12, "eq. 32 at the mixed state");
+    check_near(psy::enthalpy_kj_per_kg(m.dry_bulb_c, m.humidity_ratio), m.enthalpy_kj_per_kg, 1e-12,
+               "eq. 32 at the mixed state");
   }
   // The ends are the two streams themselves.
   check_near(air::mix(o, r, 0.0).dry_bulb_c, r.dry_bulb_c, 1e-12);
@@ -101,11 +101,11 @@ TEST_CASE("mixing reproduces the ASHRAE HoF ch. 1 adiabatic-mixing example") {
   const double w2 = psy::humidity_ratio_from_wet_bulb(25.0, 18.0, kSea);
   const double m1 = 2.0 / psy::specific_volume_m3_per_kg(4.0, w1, kSea);
   const double m2 = 6.25 / psy::specific_volume_m3_per_kg(25.0, w2, kSea);
-  const air::AirState m = air::mix(air::air_state(4.0, w1), air::air_state(25.0, w2),
-                                   m1 / (m1 + m2));
+  const air::AirState m =
+      air::mix(air::air_state(4.0, w1), air::air_state(25.0, w2), m1 / (m1 + m2));
   check_near(m.dry_bulb_c, 19.5, 0.3, "t3");
-  check_near(psy::wet_bulb_from_humidity_ratio_c(m.dry_bulb_c, m.humidity_ratio, kSea), 14.6,
-             0.3, "t3*");
+  check_near(psy::wet_bulb_from_humidity_ratio_c(m.dry_bulb_c, m.humidity_ratio, kSea), 14.6, 0.3,
+             "t3*");
 }
 
 TEST_CASE("temperature-weighted hand mixing is within 0.5 F of enthalpy mixing, -20..100 F") {
@@ -163,10 +163,10 @@ TEST_CASE("OA-fraction hand calculation: examples solved by hand from the mixing
   struct Case {
     const char* name;
     double outdoor_f, w_o, return_f, w_r, x_min;
-    double x_needed;       // by hand
+    double x_needed;  // by hand
     bool within;
     double x_applied;
-    double mixed_f;        // by hand, at x_applied
+    double mixed_f;  // by hand, at x_applied
     air::Makeup makeup;
   };
   const Case cases[] = {
@@ -179,8 +179,8 @@ TEST_CASE("OA-fraction hand calculation: examples solved by hand from the mixing
        53.5667, air::Makeup::heating},
       // 65 °F / 0.0080 against 75 °F / 0.0093: x = 1.9953 > 100 %; at 100 % the mixed air is
       // the outdoor air, 65 °F: cooling makes up 10 °F.
-      {"warm, above the maximum: cooling", 65, 0.0080, 75, 0.0093, 0.20, 1.995285, false, 1.0,
-       65.0, air::Makeup::cooling},
+      {"warm, above the maximum: cooling", 65, 0.0080, 75, 0.0093, 0.20, 1.995285, false, 1.0, 65.0,
+       air::Makeup::cooling},
       // 85 °F / 0.0120 against 75 °F / 0.0093: x = −1.9710, below the 20 % minimum; at 20 %
       // the mixed air is 77.008 °F: cooling makes up 22.008 °F.
       {"warm, below the minimum: cooling", 85, 0.0120, 75, 0.0093, 0.20, -1.970981, false, 0.20,
@@ -250,8 +250,8 @@ TEST_CASE("coil: leaving air never supersaturated, total = sensible + latent, lo
           // The leaving-RH cap binds where the coil cools (heating keeps W).
           if (l.cooling_kj_per_kg > 0.0)
             CHECK(psy::relative_humidity_from_humidity_ratio(l.leaving.dry_bulb_c,
-                                                             l.leaving.humidity_ratio, p) <=
-                  u.coil_leaving_rh_max + 1e-9);
+                                                             l.leaving.humidity_ratio,
+                                                             p) <= u.coil_leaving_rh_max + 1e-9);
           check_near(l.sensible_kj_per_kg + l.latent_kj_per_kg, l.cooling_kj_per_kg, 1e-12);
           CHECK(l.cooling_kj_per_kg >= 0.0);
           CHECK(l.latent_kj_per_kg >= -1e-12);
@@ -323,8 +323,7 @@ TEST_CASE("damper rule step 1: no cooling needed keeps the minimum, enabled or n
   // 25 % of −10 °F outdoor air with 72 °F return mixes near 51.5 °F (temperature weighting):
   // below the 53.5 °F target, so no cooling is needed and the damper stays at the minimum.
   const air::HourAir cold = hour(u, state_rh(F(-10.0), 0.6), state_rh(F(72.0), 0.4));
-  REQUIRE(air::mix(cold.outdoor, cold.ret, u.min_oa_fraction).dry_bulb_c <
-          u.mixed_air_target_c());
+  REQUIRE(air::mix(cold.outdoor, cold.ret, u.min_oa_fraction).dry_bulb_c < u.mixed_air_target_c());
   CHECK_FALSE(air::choose(u, cold, {}).cooling_needed);
   for (bool enabled : {false, true}) {
     const air::Operation op = air::operate(u, cold, enabled, {});
@@ -430,8 +429,8 @@ TEST_CASE("optimal damper is no worse than disabled, enabled or a brute-force sc
                 const double x =
                     u.min_oa_fraction + (u.max_oa_fraction - u.min_oa_fraction) * i / 1000.0;
                 const air::CoilLoads l = air::coil_loads(u, h.coil, air::mix(h.outdoor, h.ret, x));
-                scan = std::min(scan, w.cooling * l.cooling_kj_per_kg +
-                                          w.heating * l.heating_kj_per_kg);
+                scan = std::min(scan,
+                                w.cooling * l.cooling_kj_per_kg + w.heating * l.heating_kj_per_kg);
               }
               CHECK(best.weighted_kj_per_kg <= scan + 1e-9);
               // A 0.001 step cannot miss a minimum of a piecewise-linear E by much.

@@ -23,11 +23,9 @@ namespace {
 
 const std::string kOffice = test::office_with_schedule();
 
-
 const weather::WeatherSeries& greensboro() {
   static const weather::WeatherSeries w = weather::read_file(
-      test::greensboro_path(), weather::Mapping{},
-      psychro::standard_pressure_kpa(273.0));
+      test::greensboro_path(), weather::Mapping{}, psychro::standard_pressure_kpa(273.0));
   return w;
 }
 
@@ -122,7 +120,8 @@ TEST_CASE("hour counts agree with a plain loop written here") {
     const double share = y.schedule.occupied_share(w.day_of_year, w.month, w.day, w.start_min, 60);
     if (share <= 0) continue;
     operating += share;
-    const double w_r = psychro::humidity_ratio_from_relative_humidity(y.unit.return_air.dry_bulb_c, 0.5, w.pressure_kpa);
+    const double w_r = psychro::humidity_ratio_from_relative_humidity(y.unit.return_air.dry_bulb_c,
+                                                                      0.5, w.pressure_kpa);
     const double h_r = psychro::enthalpy_kj_per_kg(y.unit.return_air.dry_bulb_c, w_r);
     const double h_o = psychro::enthalpy_kj_per_kg(w.dry_bulb_c, w.humidity_ratio);
     auto t_mix = [&](double x) {
@@ -144,7 +143,9 @@ TEST_CASE("hour counts agree with a plain loop written here") {
   CHECK(got.annual.hours_free_cooling == doctest::Approx(free_cooling));
 }
 
-TEST_CASE("differential dry-bulb makes harmful decisions in a humid climate that differential enthalpy does not") {
+TEST_CASE(
+    "differential dry-bulb makes harmful decisions in a humid climate that differential enthalpy "
+    "does not") {
   // ASHRAE 90.1 (2013–2022) high-limit table prohibits differential dry-bulb in climate zones
   // 1A–4A (from memory); Greensboro NC is zone 4A (from memory, see tests/data/SOURCES.md).
   // The reason shows up as hours that differential dry-bulb economizes at a loss.
@@ -186,7 +187,8 @@ TEST_CASE("results are stable: same input, same numbers; half-hour rows give the
   const auto p = annual::prepare(a.unit.air_handler, a.unit.return_air, halves, a.schedule, {});
   const auto h = annual::evaluate(strategies_or_presets(a.unit), p);
   CHECK(p.operating_hours == doctest::Approx(a.prepared.operating_hours));
-  CHECK(h.no_economizer.annual.cooling_kwh == doctest::Approx(a.result.no_economizer.annual.cooling_kwh));
+  CHECK(h.no_economizer.annual.cooling_kwh ==
+        doctest::Approx(a.result.no_economizer.annual.cooling_kwh));
   CHECK(h.perfect_changeover.annual.energy_kwh ==
         doctest::Approx(a.result.perfect_changeover.annual.energy_kwh));
 }
@@ -195,5 +197,6 @@ TEST_CASE("the fan is off outside the schedule: no loads, no decisions") {
   const Year y = run_year(kOffice);
   // Mon–Fri 13 h + Sat 5 h = 70 h a week; 52 weeks and a day of a year starting on Monday.
   CHECK(y.prepared.operating_hours == doctest::Approx(52 * 70 + 13));
-  for (const auto& s : y.result.strategies) CHECK(s.annual.hours_operating == doctest::Approx(y.prepared.operating_hours));
+  for (const auto& s : y.result.strategies)
+    CHECK(s.annual.hours_operating == doctest::Approx(y.prepared.operating_hours));
 }

@@ -42,12 +42,14 @@ double numeric_sigma(double to, double tr, double tm, double so, double sr, doub
 // interval; the last sample counts for the median interval.
 std::vector<double> weights_h(const std::vector<test::GeneratedRow>& rows) {
   std::vector<double> dt;
-  for (std::size_t i = 1; i < rows.size(); ++i) dt.push_back(static_cast<double>(rows[i].time_s - rows[i - 1].time_s));
+  for (std::size_t i = 1; i < rows.size(); ++i)
+    dt.push_back(static_cast<double>(rows[i].time_s - rows[i - 1].time_s));
   std::vector<double> s = dt;
   std::sort(s.begin(), s.end());
   const double med = s[s.size() / 2];
   std::vector<double> w;
-  for (std::size_t i = 0; i < rows.size(); ++i) w.push_back(std::min(i + 1 < rows.size() ? dt[i] : med, 2 * med) / 3600.0);
+  for (std::size_t i = 0; i < rows.size(); ++i)
+    w.push_back(std::min(i + 1 < rows.size() ? dt[i] : med, 2 * med) / 3600.0);
   return w;
 }
 
@@ -67,9 +69,12 @@ double expected_hours(const test::Generated& g, Pred pred) {
 template <class Flag>
 double expected_measured_hours(const test::Generated& g, Flag flag, double sensor_k = 0.5) {
   return expected_hours(g, [&](const test::GeneratedRow& r) {
-    if (!r.fan || !r.in_fault || std::abs(r.t_out_log - r.t_ret_log) < 4 * std::sqrt(3.0) * sensor_k) return false;
+    if (!r.fan || !r.in_fault ||
+        std::abs(r.t_out_log - r.t_ret_log) < 4 * std::sqrt(3.0) * sensor_k)
+      return false;
     const double x = (r.t_mix_log - r.t_ret_log) / (r.t_out_log - r.t_ret_log);
-    return flag(x, numeric_sigma(r.t_out_log, r.t_ret_log, r.t_mix_log, sensor_k, sensor_k, sensor_k), r);
+    return flag(
+        x, numeric_sigma(r.t_out_log, r.t_ret_log, r.t_mix_log, sensor_k, sensor_k, sensor_k), r);
   });
 }
 
@@ -79,7 +84,8 @@ struct Audited {
   audit::Result result;
 };
 
-Audited audit_generated(const std::vector<test::Fault>& faults, int days = 21, audit::Accuracy acc = {}) {
+Audited audit_generated(const std::vector<test::Fault>& faults, int days = 21,
+                        audit::Accuracy acc = {}) {
   const UnitFile unit = example_unit();
   Audited a{test::generate_trend(unit, faults, days), {}, {}};
   a.log = trend::parse_trend(a.gen.csv, "generated.csv", {});
@@ -98,7 +104,8 @@ std::set<audit::FindingKind> kinds(const audit::Result& r) {
 std::string describe(const audit::Result& r) {
   std::string s;
   for (const auto& f : r.findings)
-    s += fmt::format("{} {:.2f} h from {} ;", audit::finding_key(f.kind), f.hours, trend::format_timestamp(f.first_s));
+    s += fmt::format("{} {:.2f} h from {} ;", audit::finding_key(f.kind), f.hours,
+                     trend::format_timestamp(f.first_s));
   return s;
 }
 
@@ -108,13 +115,16 @@ const double kInterval_h = 0.25;
 
 TEST_CASE("measured outdoor-air fraction: value and first-order uncertainty") {
   const audit::Accuracy acc{0.5, 0.3, 0.4};
-  struct Case { double to, tr, tm; };
+  struct Case {
+    double to, tr, tm;
+  };
   for (const Case c : {Case{5.0, 23.0, 19.4}, Case{30.0, 22.0, 25.0}, Case{12.0, 24.0, 12.5},
                        Case{-10.0, 21.0, 14.8}}) {
     const auto m = audit::measured_fraction(c.to, c.tr, c.tm, acc);
     REQUIRE(m);
     CHECK(m->fraction == doctest::Approx((c.tm - c.tr) / (c.to - c.tr)).epsilon(1e-12));
-    CHECK(m->sigma == doctest::Approx(numeric_sigma(c.to, c.tr, c.tm, 0.5, 0.3, 0.4)).epsilon(1e-6));
+    CHECK(m->sigma ==
+          doctest::Approx(numeric_sigma(c.to, c.tr, c.tm, 0.5, 0.3, 0.4)).epsilon(1e-6));
   }
   // Gate: 4 × √(0.5² + 0.3² + 0.4²) = 2.83 K.
   CHECK_FALSE(audit::measured_fraction(21.0, 23.5, 22.0, acc));
@@ -147,10 +157,13 @@ TEST_CASE("stuck damper: found with its hours, nothing else") {
   REQUIRE(f);
   // Expected: fan-on samples in the window where the temperatures allow a measurement and the
   // commanded fraction is beyond 3σ + 0.15 of the real (minimum) one.
-  const double expected = expected_measured_hours(a.gen, [](double x, double sig, const test::GeneratedRow& r) {
-    return std::abs(x - r.x_command) > 3 * sig + 0.15;
-  });
-  CHECK(expected_hours(a.gen, [](const test::GeneratedRow& r) { return r.fan && r.in_fault && r.x_true != 0.2; }) == 0);
+  const double expected =
+      expected_measured_hours(a.gen, [](double x, double sig, const test::GeneratedRow& r) {
+        return std::abs(x - r.x_command) > 3 * sig + 0.15;
+      });
+  CHECK(expected_hours(a.gen, [](const test::GeneratedRow& r) {
+          return r.fan && r.in_fault && r.x_true != 0.2;
+        }) == 0);
   CHECK(expected > 2.0);
   CHECK(std::abs(f->hours - expected) <= kInterval_h + 1e-9);
   CHECK(f->first_s >= faults[0].from_s);
@@ -191,8 +204,10 @@ TEST_CASE("outdoor sensor reading 3 K high: mixed air out of range at full outdo
   REQUIRE(f);
   // At full outdoor air the mixed air is the real outdoor air, 3 K below the reading: always
   // beyond 3 × √(0.5² + 0.5²) = 2.1 K. Modulating samples near full outdoor air can add some.
-  const double full = expected_hours(a.gen, [](const test::GeneratedRow& r) { return r.fan && r.in_fault && r.x_true > 0.999; });
-  const double near_full = expected_hours(a.gen, [](const test::GeneratedRow& r) { return r.fan && r.in_fault && r.x_true > 0.6; });
+  const double full = expected_hours(
+      a.gen, [](const test::GeneratedRow& r) { return r.fan && r.in_fault && r.x_true > 0.999; });
+  const double near_full = expected_hours(
+      a.gen, [](const test::GeneratedRow& r) { return r.fan && r.in_fault && r.x_true > 0.6; });
   CHECK(full > 2.0);
   CHECK(f->hours >= full - kInterval_h - 1e-9);
   CHECK(f->hours <= near_full + kInterval_h + 1e-9);
@@ -210,11 +225,12 @@ TEST_CASE("damper stuck at 60 %: excess outdoor air at minimum command, and not 
   const auto faults = week_fault(test::FaultKind::damper_stuck_at, 0.6);
   const auto a = audit_generated(faults);
   INFO(describe(a.result));
-  CHECK(kinds(a.result) == std::set{audit::FindingKind::damper_not_following,
-                                    audit::FindingKind::excess_outdoor_air});
-  const double excess = expected_measured_hours(a.gen, [](double x, double sig, const test::GeneratedRow& r) {
-    return r.x_command <= 0.2 + 0.05 && x > 0.2 + 3 * sig + 0.05;
-  });
+  CHECK(kinds(a.result) ==
+        std::set{audit::FindingKind::damper_not_following, audit::FindingKind::excess_outdoor_air});
+  const double excess =
+      expected_measured_hours(a.gen, [](double x, double sig, const test::GeneratedRow& r) {
+        return r.x_command <= 0.2 + 0.05 && x > 0.2 + 3 * sig + 0.05;
+      });
   const auto* f = a.result.find(audit::FindingKind::excess_outdoor_air);
   REQUIRE(f);
   CHECK(excess > 2.0);
@@ -230,9 +246,10 @@ TEST_CASE("damper closing fully at its minimum command: outdoor air below the mi
   const auto a = audit_generated(faults, 21, {0.1, 0.1, 0.1});
   INFO(describe(a.result));
   CHECK(kinds(a.result) == std::set{audit::FindingKind::below_minimum});
-  const double below = expected_measured_hours(a.gen, [](double x, double sig, const test::GeneratedRow&) {
-    return x < 0.2 - 3 * sig - 0.05;
-  }, 0.1);
+  const double below = expected_measured_hours(
+      a.gen,
+      [](double x, double sig, const test::GeneratedRow&) { return x < 0.2 - 3 * sig - 0.05; },
+      0.1);
   const auto* f = a.result.find(audit::FindingKind::below_minimum);
   REQUIRE(f);
   CHECK(below > 2.0);
@@ -278,7 +295,8 @@ TEST_CASE("the committed example log is the generator's output") {
 }
 
 TEST_CASE("audit command: text, markdown and JSON reports with coverage, mapping and cautions") {
-  const auto t = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv"}, "audit");
+  const auto t =
+      run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv"}, "audit");
   CHECK(t.rc == 0);
   CHECK(contains(t.out, "Damper not following its command"));
   CHECK(contains(t.out, "Economizing while the high-limit says off"));
@@ -286,11 +304,15 @@ TEST_CASE("audit command: text, markdown and JSON reports with coverage, mapping
   CHECK(contains(t.out, "OA Damper Cmd (%)"));
   CHECK(contains(t.out, "authority having jurisdiction"));
   CHECK(contains(t.out, "gap"));
-  const auto md = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--format", "md", "--units", "si"}, "audit");
+  const auto md = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv",
+                           "--format", "md", "--units", "si"},
+                          "audit");
   CHECK(md.rc == 0);
   CHECK(contains(md.out, "## Findings"));
   CHECK(contains(md.out, "kWh"));
-  const auto js = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--format", "json"}, "audit");
+  const auto js = run_cli(
+      {"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--format", "json"},
+      "audit");
   CHECK(js.rc == 0);
   CHECK(contains(js.out, "\"kind\": \"high-limit-elsewhere\""));
   CHECK(contains(js.out, "\"energy_kbtu\""));
@@ -303,25 +325,37 @@ TEST_CASE("audit command: bad input and usage") {
   const auto missing = run_cli({"audit", "examples/audit-office.toml", "no-such.csv"}, "audit");
   CHECK(missing.rc == 2);
   CHECK(contains(missing.err, "no-such.csv"));
-  const auto strat = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--strategy", "nope"}, "audit");
+  const auto strat = run_cli(
+      {"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--strategy", "nope"},
+      "audit");
   CHECK(strat.rc == 2);
   CHECK(contains(strat.err, "dry-bulb 70F"));
-  const auto col = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--column", "wind=Speed"}, "audit");
+  const auto col = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv",
+                            "--column", "wind=Speed"},
+                           "audit");
   CHECK(col.rc == 2);
   CHECK(contains(col.err, "outdoor-dry-bulb"));
-  const auto acc = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--mixed-accuracy", "-1F"}, "audit");
+  const auto acc = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv",
+                            "--mixed-accuracy", "-1F"},
+                           "audit");
   CHECK(acc.rc == 2);
-  const auto zone = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--edition", "ashrae-90.1-2019"}, "audit");
+  const auto zone = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv",
+                             "--edition", "ashrae-90.1-2019"},
+                            "audit");
   CHECK(zone.rc == 1);  // the example's site names no climate zone
 }
 
 TEST_CASE("audit command: the energy code's strategy with --edition and --zone") {
-  const auto r = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--edition",
-                          "ashrae-90.1-2019", "--zone", "4A", "--strategy", "fixed-dry-bulb"}, "audit");
+  const auto r =
+      run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--edition",
+               "ashrae-90.1-2019", "--zone", "4A", "--strategy", "fixed-dry-bulb"},
+              "audit");
   CHECK(r.rc == 0);
   CHECK(contains(r.out, "ashrae-90.1-2019 zone 4A, fixed-dry-bulb"));
-  const auto bad = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--edition",
-                            "ashrae-90.1-2019", "--zone", "4A", "--strategy", "no-such-type"}, "audit");
+  const auto bad =
+      run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--edition",
+               "ashrae-90.1-2019", "--zone", "4A", "--strategy", "no-such-type"},
+              "audit");
   CHECK(bad.rc == 2);
   CHECK(contains(bad.err, "allowed:"));
 }
@@ -333,25 +367,31 @@ TEST_CASE("audit command: malformed logs give one-line errors naming file and li
     return (dir / name).string();
   };
   const std::string head = "Timestamp,OAT (°F),RAT (°F),MAT (°F),OA Damper Cmd (%),SF Status\n";
-  const auto unsorted = write("unsorted.csv", head + "2026-05-04 10:15,50,72,68,20,On\n2026-05-04 10:00,50,72,68,20,On\n");
+  const auto unsorted = write(
+      "unsorted.csv", head + "2026-05-04 10:15,50,72,68,20,On\n2026-05-04 10:00,50,72,68,20,On\n");
   const auto r1 = run_cli({"audit", "examples/audit-office.toml", unsorted}, "audit");
   CHECK(r1.rc == 2);
   CHECK(contains(r1.err, "unsorted.csv:3: time 2026-05-04 10:00 is before"));
-  const auto celsius = write("celsius.csv", head + "2026-05-04 10:00,10,22,20,20,On\n2026-05-04 10:15,10,22,20,20,On\n");
+  const auto celsius = write(
+      "celsius.csv", head + "2026-05-04 10:00,10,22,20,20,On\n2026-05-04 10:15,10,22,20,20,On\n");
   const auto r2 = run_cli({"audit", "examples/audit-office.toml", celsius}, "audit");
   CHECK(r2.rc == 2);
   CHECK(contains(r2.err, "is the column's unit right"));
   // The same file read with its real unit set by --column runs.
-  const auto r3 = run_cli({"audit", "examples/audit-office.toml", celsius, "--column", "outdoor-dry-bulb=OAT (°F):C",
-                           "--column", "return-dry-bulb=RAT (°F):C", "--column", "mixed-air=MAT (°F):C",
-                           "--max-gap", "20"}, "audit");
+  const auto r3 = run_cli({"audit", "examples/audit-office.toml", celsius, "--column",
+                           "outdoor-dry-bulb=OAT (°F):C", "--column", "return-dry-bulb=RAT (°F):C",
+                           "--column", "mixed-air=MAT (°F):C", "--max-gap", "20"},
+                          "audit");
   CHECK(r3.rc == 0);
   CHECK(contains(r3.out, "--column"));
   CHECK(contains(r3.out, "at most 20.0 min"));
-  const auto r4 = run_cli({"audit", "examples/audit-office.toml", celsius, "--max-gap", "0"}, "audit");
+  const auto r4 =
+      run_cli({"audit", "examples/audit-office.toml", celsius, "--max-gap", "0"}, "audit");
   CHECK(r4.rc == 2);
   CHECK(contains(r4.err, "--max-gap"));
-  const auto r5 = run_cli({"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--max-gap", "1e308"}, "audit");
+  const auto r5 = run_cli(
+      {"audit", "examples/audit-office.toml", "examples/trend-office.csv", "--max-gap", "1e308"},
+      "audit");
   CHECK(r5.rc == 2);
   CHECK(contains(r5.err, "--max-gap"));
 }

@@ -55,7 +55,8 @@ struct Audit {
 std::vector<audit::SampleVerdict> judge_all(const Audit& a) {
   limitline::highlimit::StrategyState state(a.options.strategy);
   std::vector<audit::SampleVerdict> out;
-  for (std::size_t i = 0; i < a.log.size(); ++i) out.push_back(audit::judge_sample(a.context, i, state));
+  for (std::size_t i = 0; i < a.log.size(); ++i)
+    out.push_back(audit::judge_sample(a.context, i, state));
   return out;
 }
 
@@ -109,14 +110,16 @@ TEST_CASE("a sample without the readings a decision needs is left out, and count
   const audit::Result r = tally.finish();
   CHECK(r.operating_intervals == 1);
   bool said = false;
-  for (const auto& n : r.notes) said = said || contains(n, "1 sample(s) without the readings a decision needs");
+  for (const auto& n : r.notes)
+    said = said || contains(n, "1 sample(s) without the readings a decision needs");
   CHECK(said);
 }
 
 TEST_CASE("the tally keeps each finding's first and worst sample, and adds hours and energy") {
   // Three samples 15 minutes apart: each stands for 0.25 h (the last for the median interval).
-  const auto a = make_audit("2026-05-04 10:00,65,74,20,On\n2026-05-04 10:15,65,74,20,On\n"
-                            "2026-05-04 10:30,65,74,20,On\n");
+  const auto a = make_audit(
+      "2026-05-04 10:00,65,74,20,On\n2026-05-04 10:15,65,74,20,On\n"
+      "2026-05-04 10:30,65,74,20,On\n");
   audit::FindingsTally tally(a->context);
   const double excess[] = {0.1, 0.3, 0.2};
   const std::optional<double> energy[] = {1.0, 2.0, std::nullopt};
@@ -126,7 +129,8 @@ TEST_CASE("the tally keeps each finding's first and worst sample, and adds hours
     v.findings[static_cast<std::size_t>(FindingKind::damper_not_following)] =
         audit::SampleFinding{excess[i], energy[i]};
     if (i < 2)
-      v.findings[static_cast<std::size_t>(FindingKind::below_minimum)] = audit::SampleFinding{0.05, 1.5};
+      v.findings[static_cast<std::size_t>(FindingKind::below_minimum)] =
+          audit::SampleFinding{0.05, 1.5};
     tally.add(i, v);
   }
   const audit::Result r = tally.finish();
@@ -151,9 +155,10 @@ TEST_CASE("the tally keeps each finding's first and worst sample, and adds hours
 }
 
 TEST_CASE("judging every sample and tallying the verdicts is the audit") {
-  const auto a = make_audit("2026-05-04 10:00,75,74,60,On\n2026-05-04 10:15,71,74,0,Off\n"
-                            "2026-05-04 10:30,69,74,60,On\n2026-05-04 10:45,,74,60,On\n"
-                            "2026-05-04 11:00,60,74,20,On\n");
+  const auto a = make_audit(
+      "2026-05-04 10:00,75,74,60,On\n2026-05-04 10:15,71,74,0,Off\n"
+      "2026-05-04 10:30,69,74,60,On\n2026-05-04 10:45,,74,60,On\n"
+      "2026-05-04 11:00,60,74,20,On\n");
   audit::FindingsTally tally(a->context);
   const auto v = judge_all(*a);
   for (std::size_t i = 0; i < v.size(); ++i) tally.add(i, v[i]);

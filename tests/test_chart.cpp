@@ -62,14 +62,17 @@ report::ChartInput demo_chart(units::System s) {
 
 std::filesystem::path greensboro_unit(const std::string& name, const std::string& strategies) {
   const auto p = scratch_dir("chart") / name;
-  std::ofstream(p) << "[site]\nname = \"test clinic (invented)\"\npressure = \"98kPa\"\n"
-                      "[air_handler]\nsupply_airflow = \"4000cfm\"\nsupply_air_temp = \"56F\"\n"
-                      "min_outdoor_air = \"25%\"\nreturn_air_temp = \"74F\"\nreturn_air_rh = \"45%\"\n"
-                   << strategies;
+  std::ofstream(p)
+      << "[site]\nname = \"test clinic (invented)\"\npressure = \"98kPa\"\n"
+         "[air_handler]\nsupply_airflow = \"4000cfm\"\nsupply_air_temp = \"56F\"\n"
+         "min_outdoor_air = \"25%\"\nreturn_air_temp = \"74F\"\nreturn_air_rh = \"45%\"\n"
+      << strategies;
   return p;
 }
 
-std::string greensboro() { return std::string(LIMITLINE_TEST_DATA_DIR) + "/greensboro-nc-tmy3.csv"; }
+std::string greensboro() {
+  return std::string(LIMITLINE_TEST_DATA_DIR) + "/greensboro-nc-tmy3.csv";
+}
 
 }  // namespace
 
@@ -84,7 +87,8 @@ TEST_CASE("chart geometry maps dry-bulb and humidity ratio linearly and back") {
   CHECK_THROWS_AS(report::ChartGeometry(10, 10, 0.02, {0, 0, 100, 100}), std::invalid_argument);
   CHECK_THROWS_AS(report::ChartGeometry(0, 10, 0.0, {0, 0, 100, 100}), std::invalid_argument);
   CHECK_THROWS_AS(report::ChartGeometry(0, 10, 0.02, {0, 0, 0, 100}), std::invalid_argument);
-  CHECK_THROWS_AS(report::ChartGeometry(0, std::nan(""), 0.02, {0, 0, 100, 100}), std::invalid_argument);
+  CHECK_THROWS_AS(report::ChartGeometry(0, std::nan(""), 0.02, {0, 0, 100, 100}),
+                  std::invalid_argument);
 }
 
 TEST_CASE("the chart range covers every occupied hour and widens only to whole ticks") {
@@ -104,7 +108,8 @@ TEST_CASE("the chart range covers every occupied hour and widens only to whole t
   const double f1 = units::fahrenheit_from_celsius(g.dry_bulb_max_c());
   CHECK(std::fabs(f0 / 10 - std::round(f0 / 10)) < 1e-9);
   CHECK(std::fabs(f1 / 10 - std::round(f1 / 10)) < 1e-9);
-  CHECK(std::fabs(g.humidity_ratio_max() * 7000 / 20 - std::round(g.humidity_ratio_max() * 7000 / 20)) < 1e-9);
+  CHECK(std::fabs(g.humidity_ratio_max() * 7000 / 20 -
+                  std::round(g.humidity_ratio_max() * 7000 / 20)) < 1e-9);
   // The default 20–110 °F is kept when the climate lies inside it.
   CHECK(f0 <= 20.0 + 1e-9);
   CHECK(f1 >= 110.0 - 1e-9);
@@ -130,7 +135,9 @@ TEST_CASE("points of the drawn saturation curve map back to saturation within ha
         if (ws > g.humidity_ratio_max()) continue;  // clipped at the top edge
         worst = std::max(worst, std::fabs(g.y(ws) - p.y));
         worst_sea_level = std::max(
-            worst_sea_level, std::fabs(g.y(psychro::saturation_humidity_ratio(t, psychro::kStandardPressureKpa)) - p.y));
+            worst_sea_level,
+            std::fabs(g.y(psychro::saturation_humidity_ratio(t, psychro::kStandardPressureKpa)) -
+                      p.y));
       }
       CHECK(worst < kHalfPixel);
       // The chart is drawn at the site pressure: Mesa Alta (about 1800 m) is visibly not sea level.
@@ -152,7 +159,8 @@ TEST_CASE("the saturation curve passes through a handbook saturation state") {
   c.pressure_kpa = 101.325;
   c.return_air = {24.0, 0.009};
   const auto g = report::chart_geometry(c);
-  const auto pts = path_points(attr(tags_with(report::psychrometric_chart_svg(c), {"id=\"saturation\""}).at(0), "d"));
+  const auto pts = path_points(
+      attr(tags_with(report::psychrometric_chart_svg(c), {"id=\"saturation\""}).at(0), "d"));
   // The drawn point nearest 20 °C, interpolated to 20 °C exactly.
   const double x20 = g.x(20.0);
   for (std::size_t i = 0; i + 1 < pts.size(); ++i) {
@@ -174,9 +182,11 @@ TEST_CASE("each high-limit line sits where its limit is") {
 
   SUBCASE("a fixed dry-bulb limit is a vertical line at its dry-bulb, up to saturation") {
     // The demo unit file sets 65 °F and 75 °F.
-    for (const auto& [name, limit_f] : {std::pair{"fixed dry-bulb 65F", 65.0}, std::pair{"fixed dry-bulb 75F", 75.0}}) {
-      const auto tags = tags_with(svg, {"class=\"boundary\"", std::string("data-strategy=\"") + name + "\"",
-                                        "data-quantity=\"dry-bulb\""});
+    for (const auto& [name, limit_f] :
+         {std::pair{"fixed dry-bulb 65F", 65.0}, std::pair{"fixed dry-bulb 75F", 75.0}}) {
+      const auto tags =
+          tags_with(svg, {"class=\"boundary\"", std::string("data-strategy=\"") + name + "\"",
+                          "data-quantity=\"dry-bulb\""});
       REQUIRE(tags.size() == 1);
       const auto pts = path_points(attr(tags[0], "d"));
       REQUIRE(pts.size() == 2);
@@ -188,14 +198,18 @@ TEST_CASE("each high-limit line sits where its limit is") {
     }
   }
   SUBCASE("a differential dry-bulb line stands at the return-air dry-bulb") {
-    const auto tags = tags_with(svg, {"data-strategy=\"differential dry-bulb\"", "data-reference=\"return\""});
+    const auto tags =
+        tags_with(svg, {"data-strategy=\"differential dry-bulb\"", "data-reference=\"return\""});
     REQUIRE(tags.size() == 1);
     for (const auto& pt : path_points(attr(tags[0], "d")))
       CHECK(std::fabs(pt.x - g.x(c.return_air.dry_bulb_c)) < kHalfPixel);
   }
-  SUBCASE("a fixed enthalpy limit follows its constant-enthalpy line, and the dry-bulb limit ends on it") {
+  SUBCASE(
+      "a fixed enthalpy limit follows its constant-enthalpy line, and the dry-bulb limit ends on "
+      "it") {
     const double h = units::enthalpy_si_from_ip(28.0);  // the demo's 28 Btu/lb
-    const auto e = tags_with(svg, {"data-strategy=\"fixed enthalpy + dry-bulb\"", "data-quantity=\"enthalpy\""});
+    const auto e = tags_with(
+        svg, {"data-strategy=\"fixed enthalpy + dry-bulb\"", "data-quantity=\"enthalpy\""});
     REQUIRE(e.size() == 1);
     const auto pts = path_points(attr(e[0], "d"));
     REQUIRE(pts.size() > 10);
@@ -207,20 +221,27 @@ TEST_CASE("each high-limit line sits where its limit is") {
     const double t75 = units::celsius_from_fahrenheit(75.0);
     CHECK(std::fabs(pts.back().x - g.x(t75)) < kHalfPixel);
     const double t_start = g.dry_bulb_c(pts.front().x);
-    CHECK(std::fabs(g.y(psychro::saturation_humidity_ratio(t_start, p)) - pts.front().y) < kHalfPixel);
-    const auto d = tags_with(svg, {"data-strategy=\"fixed enthalpy + dry-bulb\"", "data-quantity=\"dry-bulb\""});
+    CHECK(std::fabs(g.y(psychro::saturation_humidity_ratio(t_start, p)) - pts.front().y) <
+          kHalfPixel);
+    const auto d = tags_with(
+        svg, {"data-strategy=\"fixed enthalpy + dry-bulb\"", "data-quantity=\"dry-bulb\""});
     REQUIRE(d.size() == 1);
     const auto dp = path_points(attr(d[0], "d"));
-    CHECK(std::fabs(std::min(dp[0].y, dp[1].y) - g.y(psychro::humidity_ratio_from_enthalpy(t75, h))) < kHalfPixel);
+    CHECK(std::fabs(std::min(dp[0].y, dp[1].y) -
+                    g.y(psychro::humidity_ratio_from_enthalpy(t75, h))) < kHalfPixel);
   }
   SUBCASE("a dew-point limit is a horizontal line at its humidity ratio") {
-    const double w = psychro::humidity_ratio_from_dew_point(units::celsius_from_fahrenheit(55.0), p);
-    const auto tags = tags_with(svg, {"data-strategy=\"dew point + dry-bulb\"", "data-quantity=\"dew-point\""});
+    const double w =
+        psychro::humidity_ratio_from_dew_point(units::celsius_from_fahrenheit(55.0), p);
+    const auto tags =
+        tags_with(svg, {"data-strategy=\"dew point + dry-bulb\"", "data-quantity=\"dew-point\""});
     REQUIRE(tags.size() == 1);
     const auto pts = path_points(attr(tags[0], "d"));
     for (const auto& pt : pts) CHECK(std::fabs(pt.y - g.y(w)) < kHalfPixel);
-    CHECK(std::fabs(pts.front().x - g.x(units::celsius_from_fahrenheit(55.0))) < kHalfPixel);  // starts saturated
-    CHECK(std::fabs(pts.back().x - g.x(units::celsius_from_fahrenheit(75.0))) < kHalfPixel);   // ends at 75 °F
+    CHECK(std::fabs(pts.front().x - g.x(units::celsius_from_fahrenheit(55.0))) <
+          kHalfPixel);  // starts saturated
+    CHECK(std::fabs(pts.back().x - g.x(units::celsius_from_fahrenheit(75.0))) <
+          kHalfPixel);  // ends at 75 °F
   }
   SUBCASE("the return air and the mixed-air target are marked") {
     const auto r = tags_with(svg, {"class=\"return-air\""});
@@ -231,7 +252,8 @@ TEST_CASE("each high-limit line sits where its limit is") {
     const auto m = tags_with(svg, {"class=\"mixed-air-target\""});
     REQUIRE(m.size() == 1);
     // 55 °F supply less 1.5 °F fan heat (the demo unit file).
-    CHECK(std::fabs(path_points(attr(m[0], "d"))[0].x - g.x(units::celsius_from_fahrenheit(53.5))) < kHalfPixel);
+    CHECK(std::fabs(path_points(attr(m[0], "d"))[0].x - g.x(units::celsius_from_fahrenheit(53.5))) <
+          kHalfPixel);
     CHECK(contains(svg, "mixed-air target 53.5 °F"));
   }
 }
@@ -241,9 +263,12 @@ TEST_CASE("the climate overlay counts every occupied hour by the perfect changeo
   const auto c = demo_chart(units::System::ip);
   double econ = 0, not_econ = 0, none = 0;
   for (const auto& iv : d.prepared.intervals) {
-    if (!iv.cooling_needed) none += iv.hours;
-    else if (iv.enabling_pays()) econ += iv.hours;
-    else not_econ += iv.hours;
+    if (!iv.cooling_needed)
+      none += iv.hours;
+    else if (iv.enabling_pays())
+      econ += iv.hours;
+    else
+      not_econ += iv.hours;
   }
   const std::string svg = report::psychrometric_chart_svg(c);
   CHECK(contains(svg, fmt::format("economize {:.0f} h", econ)));
@@ -260,9 +285,12 @@ TEST_CASE("the climate overlay counts every occupied hour by the perfect changeo
   for (const auto& t : cells) {
     const double x = std::stod(attr(t, "x")), y = std::stod(attr(t, "y"));
     const double w = std::stod(attr(t, "width")), h = std::stod(attr(t, "height"));
-    if (y < g.area().top - 1e-6 || y + h > g.area().top + g.area().height + 1e-6) continue;  // legend keys
+    if (y < g.area().top - 1e-6 || y + h > g.area().top + g.area().height + 1e-6)
+      continue;  // legend keys
     ++inside;
-    CHECK(w == doctest::Approx(g.x(units::celsius_from_fahrenheit(1.0)) - g.x(units::celsius_from_fahrenheit(0.0))).epsilon(0.01));
+    CHECK(w == doctest::Approx(g.x(units::celsius_from_fahrenheit(1.0)) -
+                               g.x(units::celsius_from_fahrenheit(0.0)))
+                   .epsilon(0.01));
     CHECK(h == doctest::Approx(g.y(0.0) - g.y(5.0 / 7000.0)).epsilon(0.01));
     CHECK(x >= g.area().left - 1e-6);
     CHECK(x + w <= g.area().left + g.area().width + 1e-6);
@@ -270,7 +298,8 @@ TEST_CASE("the climate overlay counts every occupied hour by the perfect changeo
   CHECK(inside > 100);
 }
 
-TEST_CASE("overlay cells widen when the weather was recorded in whole degrees of the other system") {
+TEST_CASE(
+    "overlay cells widen when the weather was recorded in whole degrees of the other system") {
   // The demo climate is recorded to 0.1 °C: the finest cells, 1 °F × 5 gr/lb and 0.5 °C × 0.5 g/kg.
   const auto climate = report::climate_hours(harbourside().prepared);
   auto ip = report::overlay_bin_size(climate, units::System::ip);
@@ -282,13 +311,15 @@ TEST_CASE("overlay cells widen when the weather was recorded in whole degrees of
   // Whole °C readings are 1.8 °F apart, so 1 °F columns would alternate full and empty.
   std::vector<report::ClimateHour> whole_c;
   for (int t = -5; t <= 35; ++t)
-    for (double w : {0.004, 0.006, 0.008}) whole_c.push_back({{static_cast<double>(t), w}, 1.0, report::HourOutcome::economize});
+    for (double w : {0.004, 0.006, 0.008})
+      whole_c.push_back({{static_cast<double>(t), w}, 1.0, report::HourOutcome::economize});
   ip = report::overlay_bin_size(whole_c, units::System::ip);
   CHECK(ip.dry_bulb == 2.0);
   // Whole °F readings are 0.56 °C apart: 0.5 °C columns leave every ninth one empty.
   std::vector<report::ClimateHour> whole_f;
   for (int f = 20; f <= 100; ++f)
-    whole_f.push_back({{units::celsius_from_fahrenheit(f), 0.006}, 1.0, report::HourOutcome::economize});
+    whole_f.push_back(
+        {{units::celsius_from_fahrenheit(f), 0.006}, 1.0, report::HourOutcome::economize});
   si = report::overlay_bin_size(whole_f, units::System::si);
   CHECK(si.dry_bulb == 1.0);
   // The chart says which cell it used.
@@ -302,9 +333,12 @@ TEST_CASE("charts parse as XML, are standalone and render to a picture that is n
     const auto c = demo_chart(s);
     const std::string svg = report::psychrometric_chart_svg(c);
     check_standalone(svg);
-    check_svg_renders(svg, "chart", std::string("psychrometric-") + std::string(units::system_name(s)));
+    check_svg_renders(svg, "chart",
+                      std::string("psychrometric-") + std::string(units::system_name(s)));
     CHECK(contains(svg, s == units::System::ip ? "GRAINS PER LB" : "G PER KG"));
-    CHECK(contains(svg, s == units::System::ip ? "14.678 psia" : "101.20 kPa"));  // standard pressure at 33 ft, eq. 3
+    CHECK(contains(svg, s == units::System::ip
+                            ? "14.678 psia"
+                            : "101.20 kPa"));  // standard pressure at 33 ft, eq. 3
   }
   const Demo& d = harbourside();
   const auto year = annual::evaluate(d.in.strategies, d.prepared);
@@ -343,8 +377,10 @@ TEST_CASE("the monthly bars carry each strategy's economizing hours and the idea
   for (int m = 1; m <= 12; ++m) {
     const auto t = tags_with(svg, {"class=\"ideal\"", "data-month=\"" + std::to_string(m) + "\""});
     REQUIRE(t.size() == 1);
-    const double ideal = year.perfect_changeover.monthly[static_cast<std::size_t>(m - 1)].hours_economizing;
-    CHECK(path_points(attr(t[0], "d"))[0].y == doctest::Approx(bottom - ideal * scale).epsilon(1e-3));
+    const double ideal =
+        year.perfect_changeover.monthly[static_cast<std::size_t>(m - 1)].hours_economizing;
+    CHECK(path_points(attr(t[0], "d"))[0].y ==
+          doctest::Approx(bottom - ideal * scale).epsilon(1e-3));
   }
 }
 
@@ -356,7 +392,8 @@ TEST_CASE("limitline chart writes the demo chart and one checked point") {
   std::string svg = slurp(out);
   check_standalone(svg);
   CHECK(contains(svg, "class=\"climate\""));
-  for (const auto& st : harbourside().in.strategies) CHECK(contains(svg, "data-strategy=\"" + st.name + "\""));
+  for (const auto& st : harbourside().in.strategies)
+    CHECK(contains(svg, "data-strategy=\"" + st.name + "\""));
 
   // One point: outdoor, return and the mixed air on the line between them.
   const auto pt = (dir / "cli-point.svg").string();
@@ -394,7 +431,8 @@ preset = "fixed-enthalpy"
 enthalpy_limit = "28btu/lb"
 )");
   const auto out = (scratch_dir("chart") / "gso.svg").string();
-  const auto r = run_cli({"chart", unit.string(), "--weather", greensboro(), "--units", "si", "-o", out}, "chart");
+  const auto r = run_cli(
+      {"chart", unit.string(), "--weather", greensboro(), "--units", "si", "-o", out}, "chart");
   REQUIRE(r.rc == 0);
   const std::string svg = slurp(out);
   check_standalone(svg);
@@ -405,7 +443,8 @@ enthalpy_limit = "28btu/lb"
 
   // A checked point on top of the same climate.
   const auto both = (scratch_dir("chart") / "gso-point.svg").string();
-  REQUIRE(run_cli({"chart", unit.string(), "--weather", greensboro(), "--outdoor", "20C/dp15C", "--units", "si", "-o", both},
+  REQUIRE(run_cli({"chart", unit.string(), "--weather", greensboro(), "--outdoor", "20C/dp15C",
+                   "--units", "si", "-o", both},
                   "chart")
               .rc == 0);
   const std::string svg2 = slurp(both);

@@ -196,12 +196,12 @@ TEST_CASE("check: the text report has every section and the cautions") {
   const std::string unit = write_unit("unit.toml", kUnit).string();
   const Run r = run("check '" + unit + "' --outdoor 68F/dp58F");
   REQUIRE(r.code == 0);
-  for (const char* s : {"Unit         CLI test unit", "Air the decisions are made on", "outdoor",
-                        "return", "Hand calculation",
-                        "Mixed air of 53.5 °F is not reachable: would need 308.3% outdoor air",
-                        "Economizer disabled and enabled", "optimal damper", "Strategies",
-                        "Conditions", "enthalpy above return + 0.00 Btu/lb", "Cautions:",
-                        "authority having jurisdiction", "Ventilation minimums"})
+  for (const char* s :
+       {"Unit         CLI test unit", "Air the decisions are made on", "outdoor", "return",
+        "Hand calculation", "Mixed air of 53.5 °F is not reachable: would need 308.3% outdoor air",
+        "Economizer disabled and enabled", "optimal damper", "Strategies", "Conditions",
+        "enthalpy above return + 0.00 Btu/lb", "Cautions:", "authority having jurisdiction",
+        "Ventilation minimums"})
     CHECK_MESSAGE(r.out.find(s) != std::string::npos, "missing: ", s);
   // The outdoor state the decisions used: 68 °F with a 58 °F dew point.
   CHECK(r.out.find("68.0 °F") != std::string::npos);
@@ -234,10 +234,10 @@ TEST_CASE("check: JSON keys carry their units and agree with the library") {
   const Run ip = run("check '" + unit + "' --outdoor 72F/90% --format json");
   REQUIRE(ip.code == 0);
   no_nan(ip.out);
-  for (const char* k : {"\"dry_bulb_f\"", "\"enthalpy_btu_per_lb\"", "\"dew_point_f\"",
-                        "\"cooling_kbtu_per_h\"", "\"cooling_btu_per_lb\"",
-                        "\"outdoor_air_needed_pct\"", "\"verdict\": \"harmful_enable\"",
-                        "\"excess_energy_per_hour_kbtu\"", "\"cautions\""})
+  for (const char* k :
+       {"\"dry_bulb_f\"", "\"enthalpy_btu_per_lb\"", "\"dew_point_f\"", "\"cooling_kbtu_per_h\"",
+        "\"cooling_btu_per_lb\"", "\"outdoor_air_needed_pct\"", "\"verdict\": \"harmful_enable\"",
+        "\"excess_energy_per_hour_kbtu\"", "\"cautions\""})
     CHECK_MESSAGE(ip.out.find(k) != std::string::npos, "missing ", k);
   CHECK(std::count(ip.out.begin(), ip.out.end(), '{') ==
         std::count(ip.out.begin(), ip.out.end(), '}'));
@@ -261,8 +261,8 @@ TEST_CASE("check: JSON keys carry their units and agree with the library") {
   const double p = u.site.design_pressure_kpa();
   const auto outdoor = limitline::parse_air_point("22.2C/90%", limitline::units::System::si, "o");
   const auto strategies = limitline::strategies_or_presets(u);
-  const limitline::PointCheck pc = limitline::check_point(
-      u.air_handler, u.weights, strategies, outdoor.state(p), u.return_air.state(p));
+  const limitline::PointCheck pc = limitline::check_point(u.air_handler, u.weights, strategies,
+                                                          outdoor.state(p), u.return_air.state(p));
   CHECK(json_number(si.out, "cooling_kj_per_kg", disabled) ==
         doctest::Approx(pc.choice.disabled.loads.cooling_kj_per_kg).epsilon(1e-6));
 }
@@ -301,8 +301,8 @@ TEST_CASE("check_point: verdict tolerance and the perfect changeover") {
   for (const char* o : {"72F/90%", "65F/30%", "10F/50%", "85F/40%"}) {
     INFO(o);
     const auto point = limitline::parse_air_point(o, limitline::units::System::ip, "o");
-    const limitline::PointCheck pc = limitline::check_point(
-        u.air_handler, u.weights, strategies, point.state(p), u.return_air.state(p));
+    const limitline::PointCheck pc = limitline::check_point(u.air_handler, u.weights, strategies,
+                                                            point.state(p), u.return_air.state(p));
     REQUIRE(pc.outcomes.size() == 3);
     for (const auto& out : pc.outcomes) {
       CHECK(out.excess_kj_per_kg >= 0.0);
@@ -360,9 +360,10 @@ TEST_CASE("check: command-line air is weighed against plausible bands") {
   // common practice).
   auto r = run_cli({"check", unit, "--outdoor", "68/50%", "--units", "si"}, "check-plaus");
   CHECK(r.rc == 2);
-  CHECK(contains(r.err, "--outdoor dry-bulb: 68 read in SI units is 68 °C, outside the plausible "
-                        "range of an outdoor dry-bulb (-50 °C to 55 °C, common practice); if you "
-                        "meant 68 °F write \"68F\""));
+  CHECK(contains(r.err,
+                 "--outdoor dry-bulb: 68 read in SI units is 68 °C, outside the plausible "
+                 "range of an outdoor dry-bulb (-50 °C to 55 °C, common practice); if you "
+                 "meant 68 °F write \"68F\""));
   CHECK(std::count(r.err.begin(), r.err.end(), '\n') == 1);
   // 24 read in IP return air is 24 °F; 24 °C is meant.
   r = run_cli({"check", unit, "--outdoor", "68F/50%", "--return", "24/50%"}, "check-plaus");
@@ -372,7 +373,8 @@ TEST_CASE("check: command-line air is weighed against plausible bands") {
   // --strict makes it an error.
   r = run_cli({"check", unit, "--outdoor", "60C/5%"}, "check-plaus");
   CHECK(r.rc == 0);
-  CHECK(contains(r.err, "warning: --outdoor dry-bulb: '60C' (140 °F) is outside the plausible range"));
+  CHECK(contains(r.err,
+                 "warning: --outdoor dry-bulb: '60C' (140 °F) is outside the plausible range"));
   CHECK(contains(r.out, "Warning      --outdoor dry-bulb: '60C'"));
   r = run_cli({"check", unit, "--outdoor", "60C/5%", "--strict"}, "check-plaus");
   CHECK(r.rc == 2);
@@ -394,8 +396,9 @@ TEST_CASE("check: unit-file values in the wrong unit system and beyond physics a
                  "--format", format},
                 "check-plaus");
     CHECK(r.rc == 2);
-    CHECK(contains(r.err, "huge.toml:4: air_handler.supply_airflow: '1e308cfm' is beyond any "
-                          "physical airflow"));
+    CHECK(contains(r.err,
+                   "huge.toml:4: air_handler.supply_airflow: '1e308cfm' is beyond any "
+                   "physical airflow"));
     CHECK(r.out.empty());
   }
   std::string grouped = kUnitHead;
@@ -407,13 +410,20 @@ TEST_CASE("check: unit-file values in the wrong unit system and beyond physics a
 }
 
 TEST_CASE("a bad [site] energy_code or climate_zone names FILE:LINE in check, sensors and year") {
-  const std::string weather = std::string(LIMITLINE_SOURCE_DIR) + "/tests/data/greensboro-nc-tmy3.csv";
-  const std::string bad_code = write_unit(
-      "badcode.toml", "[site]\nname = \"x\"\nenergy_code = \"ashrae-90.1-2099\"\nclimate_zone = \"4A\"\n" +
-                          kUnitHead.substr(kUnitHead.find("[air_handler]"))).string();
-  const std::string bad_zone = write_unit(
-      "badzone.toml", "[site]\nname = \"x\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"4D\"\n" +
-                          kUnitHead.substr(kUnitHead.find("[air_handler]"))).string();
+  const std::string weather =
+      std::string(LIMITLINE_SOURCE_DIR) + "/tests/data/greensboro-nc-tmy3.csv";
+  const std::string bad_code =
+      write_unit(
+          "badcode.toml",
+          "[site]\nname = \"x\"\nenergy_code = \"ashrae-90.1-2099\"\nclimate_zone = \"4A\"\n" +
+              kUnitHead.substr(kUnitHead.find("[air_handler]")))
+          .string();
+  const std::string bad_zone =
+      write_unit(
+          "badzone.toml",
+          "[site]\nname = \"x\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"4D\"\n" +
+              kUnitHead.substr(kUnitHead.find("[air_handler]")))
+          .string();
   const std::vector<std::vector<std::string>> commands = {
       {"check", "--outdoor", "68F/50%"},
       {"sensors", "--weather", weather, "--trials", "1", "--break-even-trials", "0"},
@@ -424,7 +434,9 @@ TEST_CASE("a bad [site] energy_code or climate_zone names FILE:LINE in check, se
     args.insert(args.end(), c.begin() + 1, c.end());
     auto r = run_cli(args, "check-code");
     CHECK(r.rc == 2);
-    CHECK(contains(r.err, "badcode.toml:3: site.energy_code: 'ashrae-90.1-2099' is not a loaded code edition"));
+    CHECK(contains(
+        r.err,
+        "badcode.toml:3: site.energy_code: 'ashrae-90.1-2099' is not a loaded code edition"));
     args[1] = bad_zone;
     r = run_cli(args, "check-code");
     CHECK(r.rc == 2);
@@ -435,8 +447,9 @@ TEST_CASE("a bad [site] energy_code or climate_zone names FILE:LINE in check, se
 
 TEST_CASE("--pressure and --elevation are weighed against the plausible band of a site") {
   // 14.7 read in SI units is 14.7 kPa (about 13,700 m up); 14.7 psia is 101.4 kPa (NIST SP 811).
-  auto r = run_cli({"state", "--dry-bulb", "24C", "--rh", "50%", "--pressure", "14.7", "--units", "si"},
-                   "check-site");
+  auto r =
+      run_cli({"state", "--dry-bulb", "24C", "--rh", "50%", "--pressure", "14.7", "--units", "si"},
+              "check-site");
   CHECK(r.rc == 2);
   CHECK(contains(r.err, "--pressure: 14.7 read in SI units is 14.7 kPa"));
   CHECK(contains(r.err, "if you meant 14.7 psia write \"14.7psia\""));
@@ -445,8 +458,8 @@ TEST_CASE("--pressure and --elevation are weighed against the plausible band of 
               "check-site");
   CHECK(r.rc == 0);
   CHECK(contains(r.err, "warning: --elevation: '8000m'"));
-  r = run_cli({"code", "--edition", "ashrae-90.1-2019", "--zone", "5B", "--elevation", "8000m",
-               "--strict"},
-              "check-site");
+  r = run_cli(
+      {"code", "--edition", "ashrae-90.1-2019", "--zone", "5B", "--elevation", "8000m", "--strict"},
+      "check-site");
   CHECK(r.rc == 2);
 }

@@ -45,9 +45,9 @@ Run run(const std::vector<std::string>& args) {
     std::filesystem::create_directories(d);
     return d;
   }();
-  std::string cmd = fmt::format("cd {} && LIMITLINE_DATA_DIR={} {}", quote(LIMITLINE_SOURCE_DIR),
-                                quote(std::string(LIMITLINE_SOURCE_DIR) + "/data"),
-                                quote(LIMITLINE_EXE));
+  std::string cmd =
+      fmt::format("cd {} && LIMITLINE_DATA_DIR={} {}", quote(LIMITLINE_SOURCE_DIR),
+                  quote(std::string(LIMITLINE_SOURCE_DIR) + "/data"), quote(LIMITLINE_EXE));
   cmd += " code";
   for (const auto& a : args) cmd += " " + quote(a);
   cmd += fmt::format(" > {} 2> {}", quote((dir / "out").string()), quote((dir / "err").string()));
@@ -135,8 +135,8 @@ TEST_CASE("display units and the figures compared are separate choices") {
   // 90.1-2019: 65 °F in 4A; its SI edition prints 18 °C (from memory).
   const Run ip_in_si = run({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--units", "si"});
   CHECK(has(line_of(ip_in_si.out, "fixed-dry-bulb "), "18.3 °C"));
-  const Run si = run({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--units", "si",
-                      "--compare-in", "si"});
+  const Run si =
+      run({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--units", "si", "--compare-in", "si"});
   CHECK(has(line_of(si.out, "fixed-dry-bulb "), "18.0 °C"));
   CHECK(has(si.out, "Compared in   SI figures"));
 }
@@ -179,8 +179,8 @@ TEST_CASE("a unit file gets a verdict per strategy") {
     CHECK(has(z.out, "5A (from --zone)"));
   }
   SUBCASE("JSON names the deviation and the settings to use") {
-    const Run j = run({"tests/data/codes-unit-4a.toml", "--format", "json", "--economizer",
-                       "integrated"});
+    const Run j =
+        run({"tests/data/codes-unit-4a.toml", "--format", "json", "--economizer", "integrated"});
     REQUIRE(j.rc == 0);
     CHECK(has(j.out, "\"verdict\": \"set-wrong\""));
     CHECK(json_number(j.out, "difference_delta_f") == doctest::Approx(10));
@@ -191,8 +191,8 @@ TEST_CASE("a unit file gets a verdict per strategy") {
   SUBCASE("a unit file without a code names what is missing") {
     const auto path = std::filesystem::path(LIMITLINE_BINARY_DIR) / "test_code_cli" / "nocode.toml";
     std::string text = slurp(std::filesystem::path(LIMITLINE_TEST_DATA_DIR) / "codes-unit-4a.toml");
-    text.erase(text.find("energy_code"), text.find('\n', text.find("energy_code")) -
-                                             text.find("energy_code") + 1);
+    text.erase(text.find("energy_code"),
+               text.find('\n', text.find("energy_code")) - text.find("energy_code") + 1);
     std::ofstream(path) << text;
     check_one_line_error(run({path.string()}), 2, {"nocode.toml", "energy_code", "--edition"});
     CHECK(run({path.string(), "--edition", "iecc-2021"}).rc == 0);
@@ -203,10 +203,10 @@ TEST_CASE("--all-editions prints one matrix of every edition") {
   const Run r = run({"--all-editions"});
   INFO(r.err);
   REQUIRE(r.rc == 0);
-  for (const auto* id : {"ashrae-90.1-2010", "ashrae-90.1-2013", "ashrae-90.1-2016",
-                         "ashrae-90.1-2019", "ashrae-90.1-2022", "iecc-2015", "iecc-2018",
-                         "iecc-2021", "iecc-2024", "title24-2013", "title24-2016",
-                         "title24-2019", "title24-2022"})
+  for (const auto* id :
+       {"ashrae-90.1-2010", "ashrae-90.1-2013", "ashrae-90.1-2016", "ashrae-90.1-2019",
+        "ashrae-90.1-2022", "iecc-2015", "iecc-2018", "iecc-2021", "iecc-2024", "title24-2013",
+        "title24-2016", "title24-2019", "title24-2022"})
     CHECK(has(r.out, id));
   // 4A (from memory): 90.1-2010 allows fixed enthalpy alone; 2013 on only with dry-bulb.
   const auto from4a = r.out.substr(r.out.find("\n4A "));
@@ -253,9 +253,10 @@ TEST_CASE("bad input and wrong use give one-line errors and their exit codes") {
 TEST_CASE("help describes every mode and option") {
   const Run r = run({"--help"});
   CHECK(r.rc == 0);
-  for (const auto* s : {"--edition", "--zone", "--elevation", "--pressure", "--economizer",
-                        "--all-editions", "--list-editions", "--code-table", "--compare-in",
-                        "--units", "--format", "complies", "not-allowed", "set-wrong",
-                        "not-evaluable", "0.05", "the README section 'Energy-code tables'", "from memory"})
+  for (const auto* s :
+       {"--edition", "--zone", "--elevation", "--pressure", "--economizer", "--all-editions",
+        "--list-editions", "--code-table", "--compare-in", "--units", "--format", "complies",
+        "not-allowed", "set-wrong", "not-evaluable", "0.05",
+        "the README section 'Energy-code tables'", "from memory"})
     CHECK(has(r.out, s));
 }

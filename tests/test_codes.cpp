@@ -96,13 +96,13 @@ codes::CodeTables from_text(const std::string& text, const std::string& name = "
 // --- What each zone allows (from the issue's recollection; see the header) ------------------
 
 struct Expect {
-  std::optional<double> fixed_db;      // fixed-dry-bulb limit, °F
-  std::optional<double> diff_db;       // differential-dry-bulb offset, °F
-  std::optional<double> fixed_h;       // fixed-enthalpy limit, Btu/lb
-  bool fixed_h_db = false;             // fixed-enthalpy+dry-bulb 28 Btu/lb or 75 °F
-  bool diff_h = false;                 // differential-enthalpy
-  bool diff_h_db = false;              // differential-enthalpy+dry-bulb 75 °F
-  bool dew_db = false;                 // fixed-dew-point+dry-bulb 55 °F or 75 °F
+  std::optional<double> fixed_db;  // fixed-dry-bulb limit, °F
+  std::optional<double> diff_db;   // differential-dry-bulb offset, °F
+  std::optional<double> fixed_h;   // fixed-enthalpy limit, Btu/lb
+  bool fixed_h_db = false;         // fixed-enthalpy+dry-bulb 28 Btu/lb or 75 °F
+  bool diff_h = false;             // differential-enthalpy
+  bool diff_h_db = false;          // differential-enthalpy+dry-bulb 75 °F
+  bool dew_db = false;             // fixed-dew-point+dry-bulb 55 °F or 75 °F
 };
 
 const std::vector<std::string> kDry = {"1B", "2B", "3B", "3C", "4B", "4C",
@@ -160,21 +160,23 @@ std::vector<Case> cases(const Expect& e) {
     out.push_back({std::move(label), strategy(preset, ip), allowed ? v : Verdict::not_allowed});
   };
   const double L = e.fixed_db.value_or(75);
-  for (auto [d, v] : {std::pair{0.0, Verdict::complies}, {0.04, Verdict::complies},
-                      {-0.04, Verdict::complies}, {0.1, Verdict::set_wrong},
-                      {-0.1, Verdict::set_wrong}, {5.0, Verdict::set_wrong}})
+  for (auto [d, v] : {std::pair{0.0, Verdict::complies},
+                      {0.04, Verdict::complies},
+                      {-0.04, Verdict::complies},
+                      {0.1, Verdict::set_wrong},
+                      {-0.1, Verdict::set_wrong},
+                      {5.0, Verdict::set_wrong}})
     add(fmt::format("fixed-dry-bulb {:+}", d), "fixed-dry-bulb", {.db = L + d},
         e.fixed_db.has_value(), v);
   const double O = e.diff_db.value_or(0);
-  for (auto [d, v] : {std::pair{0.0, Verdict::complies}, {0.1, Verdict::set_wrong},
-                      {-1.0, Verdict::set_wrong}})
-    add(fmt::format("differential-dry-bulb {:+}", d), "differential-dry-bulb",
-        {.db_off = O + d}, e.diff_db.has_value(), v);
+  for (auto [d, v] :
+       {std::pair{0.0, Verdict::complies}, {0.1, Verdict::set_wrong}, {-1.0, Verdict::set_wrong}})
+    add(fmt::format("differential-dry-bulb {:+}", d), "differential-dry-bulb", {.db_off = O + d},
+        e.diff_db.has_value(), v);
   for (auto [d, v] : {std::pair{0.0, Verdict::complies}, {0.1, Verdict::set_wrong}})
     add(fmt::format("fixed-enthalpy {:+}", d), "fixed-enthalpy", {.h = 28 + d},
         e.fixed_h.has_value(), v);
-  add("fixed-enthalpy+dry-bulb at", "fixed-enthalpy+dry-bulb", {}, e.fixed_h_db,
-      Verdict::complies);
+  add("fixed-enthalpy+dry-bulb at", "fixed-enthalpy+dry-bulb", {}, e.fixed_h_db, Verdict::complies);
   add("fixed-enthalpy+dry-bulb inside", "fixed-enthalpy+dry-bulb", {.db = 74.96, .h = 27.96},
       e.fixed_h_db, Verdict::complies);
   add("fixed-enthalpy+dry-bulb h over", "fixed-enthalpy+dry-bulb", {.h = 28.1}, e.fixed_h_db,
@@ -188,8 +190,7 @@ std::vector<Case> cases(const Expect& e) {
       Verdict::complies);
   add("differential-enthalpy+dry-bulb t over", "differential-enthalpy+dry-bulb", {.db = 75.1},
       e.diff_h_db, Verdict::set_wrong);
-  add("fixed-dew-point+dry-bulb at", "fixed-dew-point+dry-bulb", {}, e.dew_db,
-      Verdict::complies);
+  add("fixed-dew-point+dry-bulb at", "fixed-dew-point+dry-bulb", {}, e.dew_db, Verdict::complies);
   add("fixed-dew-point+dry-bulb over", "fixed-dew-point+dry-bulb", {.dp = 55.1}, e.dew_db,
       Verdict::set_wrong);
   return out;
@@ -362,7 +363,8 @@ TEST_CASE("a setting exactly at the limit complies; the deviation says how much 
 
 TEST_CASE("both settings of a two-condition type are checked") {
   const auto req = zone_req("ashrae-90.1-2019", "4A");
-  const auto c = codes::check_strategy(req, strategy("fixed-enthalpy+dry-bulb", {.db = 76, .h = 29}));
+  const auto c =
+      codes::check_strategy(req, strategy("fixed-enthalpy+dry-bulb", {.db = 76, .h = 29}));
   REQUIRE(c.verdict == Verdict::set_wrong);
   CHECK(c.deviations.size() == 2);
   const std::string text = codes::verdict_text(c, req, units::System::ip);
@@ -425,8 +427,9 @@ TEST_CASE("custom conditions equivalent to a preset are judged as that preset") 
   hl::Strategy s;
   s.name = "custom";
   // Written in the other order from the preset.
-  s.conditions = {{hl::Quantity::dry_bulb, hl::Reference::fixed, units::celsius_from_fahrenheit(75), 0},
-                  {hl::Quantity::enthalpy, hl::Reference::fixed, units::enthalpy_si_from_ip(28), 1.0}};
+  s.conditions = {
+      {hl::Quantity::dry_bulb, hl::Reference::fixed, units::celsius_from_fahrenheit(75), 0},
+      {hl::Quantity::enthalpy, hl::Reference::fixed, units::enthalpy_si_from_ip(28), 1.0}};
   const auto m = codes::match_control(s, p);
   REQUIRE(m.has_value());
   CHECK(m->control == "fixed-enthalpy+dry-bulb");
@@ -436,8 +439,9 @@ TEST_CASE("custom conditions equivalent to a preset are judged as that preset") 
 
   SUBCASE("two conditions on one quantity act as the lower limit") {
     hl::Strategy two;
-    two.conditions = {{hl::Quantity::dry_bulb, hl::Reference::fixed, units::celsius_from_fahrenheit(75), 0},
-                      {hl::Quantity::dry_bulb, hl::Reference::fixed, units::celsius_from_fahrenheit(70), 0}};
+    two.conditions = {
+        {hl::Quantity::dry_bulb, hl::Reference::fixed, units::celsius_from_fahrenheit(75), 0},
+        {hl::Quantity::dry_bulb, hl::Reference::fixed, units::celsius_from_fahrenheit(70), 0}};
     const auto m2 = codes::match_control(two, p);
     REQUIRE(m2.has_value());
     CHECK(m2->control == "fixed-dry-bulb");
@@ -449,8 +453,9 @@ TEST_CASE("custom conditions equivalent to a preset are judged as that preset") 
     // 90.1-2010: dew point 55 °F with dry-bulb 75 °F, all zones (from memory).
     const double w = psy::humidity_ratio_from_dew_point(units::celsius_from_fahrenheit(55), p);
     hl::Strategy hr;
-    hr.conditions = {{hl::Quantity::humidity_ratio, hl::Reference::fixed, w, 0},
-                     {hl::Quantity::dry_bulb, hl::Reference::fixed, units::celsius_from_fahrenheit(75), 0}};
+    hr.conditions = {
+        {hl::Quantity::humidity_ratio, hl::Reference::fixed, w, 0},
+        {hl::Quantity::dry_bulb, hl::Reference::fixed, units::celsius_from_fahrenheit(75), 0}};
     const auto m3 = codes::match_control(hr, p);
     REQUIRE(m3.has_value());
     CHECK(m3->control == "fixed-dew-point+dry-bulb");
@@ -501,8 +506,10 @@ TEST_CASE("fixed enthalpy limit at altitude follows the footnote") {
   const auto sea = enthalpy_of(zone_req("ashrae-90.1-2019", "5B", psy::kStandardPressureKpa));
   CHECK_FALSE(sea.site_adjusted);
   CHECK(units::enthalpy_ip_from_si(sea.value) == doctest::Approx(28.0));
-  CHECK_FALSE(enthalpy_of(zone_req("ashrae-90.1-2019", "5B", psy::standard_pressure_kpa(300))).site_adjusted);
-  CHECK(enthalpy_of(zone_req("ashrae-90.1-2019", "5B", psy::standard_pressure_kpa(600))).site_adjusted);
+  CHECK_FALSE(enthalpy_of(zone_req("ashrae-90.1-2019", "5B", psy::standard_pressure_kpa(300)))
+                  .site_adjusted);
+  CHECK(enthalpy_of(zone_req("ashrae-90.1-2019", "5B", psy::standard_pressure_kpa(600)))
+            .site_adjusted);
 
   // The verdicts follow: 28 Btu/lb at 6000 ft shuts off early; the site figure complies.
   const auto at28 = strategy("fixed-enthalpy+dry-bulb", {});
@@ -524,7 +531,8 @@ TEST_CASE("an amendment overriding one row changes exactly that verdict") {
   const auto amended = codes::CodeTables::load(kShipped, extra);
 
   std::vector<std::pair<std::string, hl::Strategy>> grid;
-  for (double db : {65.0, 70.0, 75.0}) grid.emplace_back(fmt::format("fdb {}", db), strategy("fixed-dry-bulb", {.db = db}));
+  for (double db : {65.0, 70.0, 75.0})
+    grid.emplace_back(fmt::format("fdb {}", db), strategy("fixed-dry-bulb", {.db = db}));
   for (const auto& c : cases(Expect{})) grid.emplace_back(c.label, c.strategy);
   auto all = [&](const codes::CodeTables& t) {
     std::map<std::string, Verdict> out;
@@ -558,8 +566,11 @@ TEST_CASE("an extra file may add a whole edition") {
   const auto& e = t.edition("test-minimal");
   CHECK_FALSE(e.integration.required);
   CHECK(codes::check_integration(e, limitline::airside::EconomizerType::non_integrated).complies);
-  check_error([&] { (void)codes::CodeTables::load(kShipped, std::vector{extra[0], extra[0]}); },
-              {"codes-minimal.toml", "test-minimal", "already loaded", "[amendment]"});
+  check_error(
+      [&] {
+        (void)codes::CodeTables::load(kShipped, std::vector{extra[0], extra[0]});
+      },
+      {"codes-minimal.toml", "test-minimal", "already loaded", "[amendment]"});
 }
 
 // --- Malformed tables ------------------------------------------------------------------------
@@ -569,7 +580,8 @@ TEST_CASE("malformed table files are errors naming file, line and key") {
     return [name] { (void)codes::CodeTables::load(kShipped, std::vector{kTestData / name}); };
   };
   check_error(load("codes-bad-syntax.toml"), {"codes-bad-syntax.toml:23:", "not valid TOML"});
-  check_error(load("codes-bad-key.toml"), {"codes-bad-key.toml:24:", "'dry_bulb_limit'", "not known"});
+  check_error(load("codes-bad-key.toml"),
+              {"codes-bad-key.toml:24:", "'dry_bulb_limit'", "not known"});
   check_error(load("codes-bad-units.toml"),
               {"codes-bad-units.toml:23:", "'dry_bulb_c'", "disagrees", "dry_bulb_f"});
   check_error(load("codes-bad-gap.toml"), {"codes-bad-gap.toml", "fixed-enthalpy", "CZ2"});
@@ -597,38 +609,45 @@ TEST_CASE("each malformation of a row names its line and key") {
   fails(with("dry_bulb_f = 75", "dry_bulb_f = \"75\""), {"mem.toml:21:", "'dry_bulb_f'", "number"});
   fails(with("dry_bulb_f = 75", "dry_bulb_f = inf"), {"mem.toml:21:", "'dry_bulb_f'", "finite"});
   fails(with("dry_bulb_f = 75\n", ""), {"mem.toml:17:", "'dry_bulb_f'", "missing"});
-  fails(with("clause = \"T.2\"\nprovenance", "provenance"), {"mem.toml:17:", "'clause'", "missing"});
+  fails(with("clause = \"T.2\"\nprovenance", "provenance"),
+        {"mem.toml:17:", "'clause'", "missing"});
   fails(with("control = \"fixed-dry-bulb\"", "control = \"fixed-drybulb\""),
         {"mem.toml:18:", "'control'", "fixed-drybulb", "modelled = false"});
   fails(with("zones = \"all\"\ndry_bulb_f", "zones = [\"CZ1\", \"CZ3\"]\ndry_bulb_f"),
         {"mem.toml:20:", "'zones'", "CZ3", "not a zone of test-minimal"});
   fails(with("zones = \"all\"\ndry_bulb_f", "zones = [\"CZ1\", \"1\"]\ndry_bulb_f"),
         {"mem.toml:20:", "'zones'", "twice"});
-  fails(with("permission = \"allowed\"", "permission = \"maybe\""), {"mem.toml:19:", "'permission'"});
+  fails(with("permission = \"allowed\"", "permission = \"maybe\""),
+        {"mem.toml:19:", "'permission'"});
   fails(with("permission = \"prohibited\"\nzones = \"all\"\nclause",
              "permission = \"prohibited\"\nzones = \"all\"\ndry_bulb_offset_delta_f = 0\nclause"),
         {"'dry_bulb_offset_delta_f'", "prohibited row takes no limits"});
   fails(with("dry_bulb_c = 23.9", "dry_bulb_c = 23.9\ndew_point_f = 55"),
         {"mem.toml:23:", "'dew_point_f'", "not a setting of 'fixed-dry-bulb'"});
-  fails(with("dry_bulb_c = 23.9", "dry_bulb_c = 23.9\nsite_enthalpy = { dry_bulb_f = 75, dry_bulb_c = 23.9, relative_humidity_pct = 50 }"),
+  fails(with("dry_bulb_c = 23.9",
+             "dry_bulb_c = 23.9\nsite_enthalpy = { dry_bulb_f = 75, dry_bulb_c = 23.9, "
+             "relative_humidity_pct = 50 }"),
         {"mem.toml:23:", "'site_enthalpy'", "fixed enthalpy"});
-  fails(with("zone_system = \"california\"", "zone_system = \"ashrae\""), {"mem.toml:6:", "'zone_system'"});
-  fails(with("zones = [\"CZ1\", \"CZ2\"]", "zones = [\"CZ1\", \"CZ17\"]"), {"mem.toml:7:", "'zones'", "CZ17"});
+  fails(with("zone_system = \"california\"", "zone_system = \"ashrae\""),
+        {"mem.toml:6:", "'zone_system'"});
+  fails(with("zones = [\"CZ1\", \"CZ2\"]", "zones = [\"CZ1\", \"CZ17\"]"),
+        {"mem.toml:7:", "'zones'", "CZ17"});
   fails(with("required = false", "required = \"no\""), {"mem.toml:12:", "'required'"});
-  fails(with("governing_units = \"ip\"", "governing_units = \"metric\""), {"mem.toml:8:", "'governing_units'"});
+  fails(with("governing_units = \"ip\"", "governing_units = \"metric\""),
+        {"mem.toml:8:", "'governing_units'"});
   fails(with("[edition]", "[amendment]\nedition = \"x\"\n[edition]"), {"mem.toml", "not both"});
   fails("title = \"nothing\"\n", {"mem.toml", "no [edition] or [amendment]"});
   // An enthalpy converted as a plain energy (28 × 2.326 = 65.1) misses the datum shift.
-  const std::string enth = with(
-      "control = \"fixed-enthalpy\"\npermission = \"prohibited\"\nzones = \"all\"",
-      "control = \"fixed-enthalpy\"\npermission = \"allowed\"\nzones = \"all\"\n"
-      "enthalpy_btu_per_lb = 28\nenthalpy_kj_per_kg = 65.1");
+  const std::string enth =
+      with("control = \"fixed-enthalpy\"\npermission = \"prohibited\"\nzones = \"all\"",
+           "control = \"fixed-enthalpy\"\npermission = \"allowed\"\nzones = \"all\"\n"
+           "enthalpy_btu_per_lb = 28\nenthalpy_kj_per_kg = 65.1");
   fails(enth, {"'enthalpy_kj_per_kg'", "disagrees"});
   CHECK_NOTHROW((void)from_text(base));
-  CHECK_NOTHROW((void)from_text(with(
-      "control = \"fixed-enthalpy\"\npermission = \"prohibited\"\nzones = \"all\"",
-      "control = \"fixed-enthalpy\"\npermission = \"allowed\"\nzones = \"all\"\n"
-      "enthalpy_btu_per_lb = 28\nenthalpy_kj_per_kg = 47.3")));
+  CHECK_NOTHROW((void)from_text(
+      with("control = \"fixed-enthalpy\"\npermission = \"prohibited\"\nzones = \"all\"",
+           "control = \"fixed-enthalpy\"\npermission = \"allowed\"\nzones = \"all\"\n"
+           "enthalpy_btu_per_lb = 28\nenthalpy_kj_per_kg = 47.3")));
 }
 
 TEST_CASE("a type limitline does not model is recorded, never selected") {
@@ -648,8 +667,11 @@ TEST_CASE("a type limitline does not model is recorded, never selected") {
   std::string partial = base + extra;
   partial.replace(partial.rfind("zones = \"all\""), 13, "zones = [\"CZ2\"]");
   check_error([&] { (void)from_text(partial); }, {"maker-curve", "CZ1", "every zone"});
-  check_error([&] { (void)from_text(base + "\n[[row]]\ncontrol = \"fixed-dry-bulb\"\nmodelled = false\n"); },
-              {"'modelled'", "preset"});
+  check_error(
+      [&] {
+        (void)from_text(base + "\n[[row]]\ncontrol = \"fixed-dry-bulb\"\nmodelled = false\n");
+      },
+      {"'modelled'", "preset"});
   std::string nodesc = base + extra;
   nodesc.erase(nodesc.find("description = \"a changeover curve\"\n"), 35);
   check_error([&] { (void)from_text(nodesc); }, {"description"});
@@ -662,21 +684,29 @@ TEST_CASE("amendments are checked like tables") {
                                                                 {"amend.toml", amendment}};
     return codes::CodeTables::from_documents(d);
   };
-  check_error([&] { (void)docs("[amendment]\nedition = \"nope\"\nname = \"x\"\nprovenance = \"y\"\n"); },
-              {"amend.toml:2:", "'edition'", "nope", "test-minimal"});
+  check_error(
+      [&] { (void)docs("[amendment]\nedition = \"nope\"\nname = \"x\"\nprovenance = \"y\"\n"); },
+      {"amend.toml:2:", "'edition'", "nope", "test-minimal"});
   check_error([&] { (void)docs("[amendment]\nedition = \"test-minimal\"\nname = \"x\"\n"); },
               {"amend.toml:1:", "'provenance'", "missing"});
-  check_error([&] { (void)docs("[amendment]\nedition = \"test-minimal\"\nname = \"x\"\nprovenance = \"y\"\n"); },
-              {"amend.toml", "changes nothing"});
+  check_error(
+      [&] {
+        (void)docs("[amendment]\nedition = \"test-minimal\"\nname = \"x\"\nprovenance = \"y\"\n");
+      },
+      {"amend.toml", "changes nothing"});
   // A new control type in an amendment must still cover every zone.
-  check_error([&] {
-    (void)docs("[amendment]\nedition = \"test-minimal\"\nname = \"x\"\nprovenance = \"y\"\n\n"
-               "[[row]]\ncontrol = \"curve\"\nmodelled = false\npermission = \"allowed\"\n"
-               "zones = [\"CZ1\"]\ndescription = \"d\"\nclause = \"c\"\nprovenance = \"p\"\n");
-  }, {"amend.toml", "curve", "CZ2"});
-  const auto t = docs("[amendment]\nedition = \"test-minimal\"\nname = \"x\"\nprovenance = \"y\"\n\n"
-                      "[integration]\nrequired = true\nclause = \"L\"\nrequirement = \"r\"\n"
-                      "provenance = \"p\"\n");
+  check_error(
+      [&] {
+        (void)docs(
+            "[amendment]\nedition = \"test-minimal\"\nname = \"x\"\nprovenance = \"y\"\n\n"
+            "[[row]]\ncontrol = \"curve\"\nmodelled = false\npermission = \"allowed\"\n"
+            "zones = [\"CZ1\"]\ndescription = \"d\"\nclause = \"c\"\nprovenance = \"p\"\n");
+      },
+      {"amend.toml", "curve", "CZ2"});
+  const auto t = docs(
+      "[amendment]\nedition = \"test-minimal\"\nname = \"x\"\nprovenance = \"y\"\n\n"
+      "[integration]\nrequired = true\nclause = \"L\"\nrequirement = \"r\"\n"
+      "provenance = \"p\"\n");
   CHECK(t.edition("test-minimal").integration.required);
 }
 
@@ -701,8 +731,11 @@ TEST_CASE("climate zones are read in the spellings people write") {
               {"--zone", "0A", "not a zone of ashrae-90.1-2013"});
   check_error([] { (void)shipped().edition("ashrae-90.1-2020"); },
               {"--edition", "ashrae-90.1-2020", "ashrae-90.1-2019"});
-  check_error([] { (void)codes::requirements(shipped().edition("iecc-2021"), "4A", {5.0, {}}); },
-              {"site pressure"});
+  check_error(
+      [] {
+        (void)codes::requirements(shipped().edition("iecc-2021"), "4A", {5.0, {}});
+      },
+      {"site pressure"});
 }
 
 TEST_CASE("integrated economizers are required by every shipped edition (from memory)") {
@@ -722,11 +755,13 @@ TEST_CASE("compliance words for the annual report") {
   REQUIRE(words.size() == s.size());
   // 90.1-2019 in 4A (from memory): 65 °F fixed dry-bulb, no differential dry-bulb, the
   // enthalpy types only with the 75 °F dry-bulb limit, no dew-point type.
-  const std::map<std::string, std::string> want = {
-      {"fixed-dry-bulb", "set-wrong"},          {"differential-dry-bulb", "not-allowed"},
-      {"fixed-enthalpy", "not-allowed"},        {"fixed-enthalpy+dry-bulb", "complies"},
-      {"differential-enthalpy", "not-allowed"}, {"differential-enthalpy+dry-bulb", "complies"},
-      {"fixed-dew-point+dry-bulb", "not-allowed"}};
+  const std::map<std::string, std::string> want = {{"fixed-dry-bulb", "set-wrong"},
+                                                   {"differential-dry-bulb", "not-allowed"},
+                                                   {"fixed-enthalpy", "not-allowed"},
+                                                   {"fixed-enthalpy+dry-bulb", "complies"},
+                                                   {"differential-enthalpy", "not-allowed"},
+                                                   {"differential-enthalpy+dry-bulb", "complies"},
+                                                   {"fixed-dew-point+dry-bulb", "not-allowed"}};
   for (std::size_t i = 0; i < s.size(); ++i) {
     CAPTURE(s[i].preset);
     CHECK(words[i] == want.at(s[i].preset));
@@ -753,7 +788,8 @@ TEST_CASE("the code-table folder is found from the environment, else the install
 TEST_CASE("setting keys follow the JSON key convention") {
   using hl::Quantity;
   using hl::Reference;
-  CHECK(codes::setting_key(Quantity::dry_bulb, Reference::fixed, units::System::ip) == "dry_bulb_f");
+  CHECK(codes::setting_key(Quantity::dry_bulb, Reference::fixed, units::System::ip) ==
+        "dry_bulb_f");
   CHECK(codes::setting_key(Quantity::enthalpy, Reference::fixed, units::System::si) ==
         "enthalpy_kj_per_kg");
   CHECK(codes::setting_key(Quantity::dry_bulb, Reference::return_air, units::System::si) ==
@@ -761,7 +797,8 @@ TEST_CASE("setting keys follow the JSON key convention") {
   CHECK(codes::setting_key(Quantity::enthalpy, Reference::return_air, units::System::ip) ==
         "enthalpy_offset_delta_btu_per_lb");
   CHECK(codes::tolerance(Quantity::dry_bulb, units::System::ip) == codes::kTemperatureToleranceF);
-  CHECK(codes::tolerance(Quantity::enthalpy, units::System::si) == codes::kEnthalpyToleranceKjPerKg);
+  CHECK(codes::tolerance(Quantity::enthalpy, units::System::si) ==
+        codes::kEnthalpyToleranceKjPerKg);
 }
 
 TEST_CASE("a code table nested beyond 64 levels is refused before the parser sees it") {
@@ -779,22 +816,30 @@ TEST_CASE("a unit's [site] energy_code and climate_zone are checked, naming FILE
   CHECK_NOTHROW(codes::check_site_code("", "", "", ""));
   CHECK_NOTHROW(codes::check_site_code("ashrae-90.1-2019", "u.toml:4: site.energy_code", "4a",
                                        "u.toml:5: site.climate_zone"));
-  check_error([] { codes::check_site_code("ashrae-90.1-2099", "u.toml:4: site.energy_code", "4A",
-                                          "u.toml:5: site.climate_zone"); },
-              {"u.toml:4: site.energy_code: 'ashrae-90.1-2099' is not a loaded code edition",
-               "ashrae-90.1-2019"});
-  check_error([] { codes::check_site_code("ashrae-90.1-2019", "u.toml:4: site.energy_code", "4D",
-                                          "u.toml:5: site.climate_zone"); },
-              {"u.toml:5: site.climate_zone:", "4D"});
-  check_error([] { codes::check_site_code("ashrae-90.1-2019", "u.toml:4: site.energy_code", "", ""); },
-              {"u.toml:4: site.energy_code: the site names an energy code but no climate_zone"});
+  check_error(
+      [] {
+        codes::check_site_code("ashrae-90.1-2099", "u.toml:4: site.energy_code", "4A",
+                               "u.toml:5: site.climate_zone");
+      },
+      {"u.toml:4: site.energy_code: 'ashrae-90.1-2099' is not a loaded code edition",
+       "ashrae-90.1-2019"});
+  check_error(
+      [] {
+        codes::check_site_code("ashrae-90.1-2019", "u.toml:4: site.energy_code", "4D",
+                               "u.toml:5: site.climate_zone");
+      },
+      {"u.toml:5: site.climate_zone:", "4D"});
+  check_error(
+      [] { codes::check_site_code("ashrae-90.1-2019", "u.toml:4: site.energy_code", "", ""); },
+      {"u.toml:4: site.energy_code: the site names an energy code but no climate_zone"});
   check_error([] { codes::check_site_code("", "", "4A", "u.toml:5: site.climate_zone"); },
               {"u.toml:5: site.climate_zone: the site names a climate zone but no energy_code"});
 }
 
 TEST_CASE("zone and edition errors echo the value safely") {
-  check_error([] { (void)codes::normalise_zone(codes::ZoneSystem::ashrae169, "4\x1b[2J", "--zone"); },
-              {"--zone", "'4\\x1b[2J'"});
+  check_error(
+      [] { (void)codes::normalise_zone(codes::ZoneSystem::ashrae169, "4\x1b[2J", "--zone"); },
+      {"--zone", "'4\\x1b[2J'"});
   check_error([] { (void)shipped().edition(std::string(500, 'x')); },
               {"--edition", "(500 characters)"});
 }

@@ -75,9 +75,8 @@ Reference load() {
       }
     }
     REQUIRE_MESSAGE(p == end, "too many fields at line ", line_no);
-    ref.rows.push_back(
-        {v[0], v[1], v[2], v[3], v[4], v[5], v[6], v[7], v[8], v[9], v[10], v[11], v[12], v[13],
-         line_no});
+    ref.rows.push_back({v[0], v[1], v[2], v[3], v[4], v[5], v[6], v[7], v[8], v[9], v[10], v[11],
+                        v[12], v[13], line_no});
   }
   return ref;
 }
@@ -133,8 +132,8 @@ TEST_CASE("humidity ratio and enthalpy from dry-bulb and RH agree to 1e-7 (psych
     }
     const double w = psy::humidity_ratio_from_relative_humidity(r.t, r.rh, r.p());
     const double h = psy::enthalpy_kj_per_kg(r.t, w);
-    const bool ok = relative_difference(w, r.w) <= 1e-7 &&
-                    relative_difference(h * 1000.0, r.h_j) <= 1e-7;
+    const bool ok =
+        relative_difference(w, r.w) <= 1e-7 && relative_difference(h * 1000.0, r.h_j) <= 1e-7;
     if (!ok && ++failures <= 5) {
       INFO("line ", r.line, ": t=", r.t, " rh=", r.rh, " p=", r.p());
       CHECK(w == doctest::Approx(r.w).epsilon(1e-7).scale(0));
@@ -151,7 +150,8 @@ TEST_CASE("relative humidity round trips (psychrolib 1.1.1)") {
   for (const Row& r : rows) {
     // psychrolib's own round trip: its RH from its W gives the RH it started from.
     if (std::fabs(r.rh_round_trip - r.rh) > 1e-9 && ++failures <= 5)
-      CHECK_MESSAGE(r.rh_round_trip == doctest::Approx(r.rh).epsilon(1e-9).scale(0), "line ", r.line);
+      CHECK_MESSAGE(r.rh_round_trip == doctest::Approx(r.rh).epsilon(1e-9).scale(0), "line ",
+                    r.line);
     if (between_freezing_and_triple_point(r.t)) {
       ++excluded;
       continue;
@@ -264,8 +264,7 @@ TEST_CASE("specific volume, degree of saturation and standard pressure agree (ps
   for (const Row& r : rows) {
     const double p_std = psy::standard_pressure_kpa(r.z_m) * 1000.0;
     const double v = psy::specific_volume_m3_per_kg(r.t, r.w, r.p());
-    bool ok = relative_difference(p_std, r.p_std_pa) <= 1e-7 &&
-              relative_difference(v, r.v) <= 1e-7;
+    bool ok = relative_difference(p_std, r.p_std_pa) <= 1e-7 && relative_difference(v, r.v) <= 1e-7;
     if (between_freezing_and_triple_point(r.t)) {
       ++excluded;  // W_s at the dry-bulb comes from different fits
     } else {
@@ -275,7 +274,8 @@ TEST_CASE("specific volume, degree of saturation and standard pressure agree (ps
       INFO("line ", r.line, ": t=", r.t, " W=", r.w, " p=", r.p(), " z=", r.z_m);
       CHECK(p_std == doctest::Approx(r.p_std_pa).epsilon(1e-7).scale(0));
       CHECK(v == doctest::Approx(r.v).epsilon(1e-7).scale(0));
-      CHECK(psy::degree_of_saturation(r.t, r.w, r.p()) == doctest::Approx(r.mu).epsilon(1e-7).scale(0));
+      CHECK(psy::degree_of_saturation(r.t, r.w, r.p()) ==
+            doctest::Approx(r.mu).epsilon(1e-7).scale(0));
     }
   }
   CHECK(failures == 0);

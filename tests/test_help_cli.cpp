@@ -71,10 +71,10 @@ fs::path example_folder() {
 
 // Runs one example line through the shell, as a user would type it.
 CliRun run_example(const fs::path& dir, const std::string& example) {
-  const std::string cmd = "cd " + shell_quote(dir.string()) + " && PATH=" +
-                          shell_quote((dir / "bin").string()) + ":\"$PATH\" LIMITLINE_DATA_DIR=" +
-                          shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/data") + " sh -c " +
-                          shell_quote(example) + " < /dev/null > out.txt 2> err.txt";
+  const std::string cmd =
+      "cd " + shell_quote(dir.string()) + " && PATH=" + shell_quote((dir / "bin").string()) +
+      ":\"$PATH\" LIMITLINE_DATA_DIR=" + shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/data") +
+      " sh -c " + shell_quote(example) + " < /dev/null > out.txt 2> err.txt";
   const int status = std::system(cmd.c_str());
   REQUIRE(WIFEXITED(status));
   CliRun r{WEXITSTATUS(status), slurp(dir / "out.txt"), slurp(dir / "err.txt")};

@@ -112,7 +112,8 @@ TEST_CASE("preset settings feed the right condition, with the enthalpy datum shi
   CHECK(fe.conditions[1].deadband == 0.5);
   const hl::Strategy dd = hl::make_preset("differential-dry-bulb", s);
   CHECK(dd.conditions[0].limit == -1.0);
-  CHECK(dd.conditions[0].effective_limit(kReturn) == doctest::Approx(kReturn[Quantity::dry_bulb] - 1.0));
+  CHECK(dd.conditions[0].effective_limit(kReturn) ==
+        doctest::Approx(kReturn[Quantity::dry_bulb] - 1.0));
   const hl::Strategy de = hl::make_preset("differential-enthalpy", s);
   CHECK(de.conditions[0].limit == 2.0);
   const hl::Strategy dp = hl::make_preset("fixed-dew-point+dry-bulb", s);
@@ -188,7 +189,7 @@ TEST_CASE("deadband: trips above, holds down to limit - deadband, clears only be
   CHECK(status(limit) == ConditionStatus::clear);
   CHECK(status(limit + 0.01) == ConditionStatus::tripped);
   CHECK(status(limit - 0.1) == ConditionStatus::held);
-  CHECK(status(limit) == ConditionStatus::held);       // back at the limit: still off
+  CHECK(status(limit) == ConditionStatus::held);         // back at the limit: still off
   CHECK(status(limit - band) == ConditionStatus::held);  // "clears only below limit − deadband"
   CHECK(status(limit - band - 1e-9) == ConditionStatus::clear);
   CHECK(status(limit - 0.1) == ConditionStatus::clear);  // cleared: no longer held
@@ -243,8 +244,8 @@ TEST_CASE("permits() and decide() agree over a long random sequence with deadban
 }
 
 TEST_CASE("names and kinds of quantities and references") {
-  for (Quantity q : {Quantity::dry_bulb, Quantity::enthalpy, Quantity::dew_point,
-                     Quantity::humidity_ratio}) {
+  for (Quantity q :
+       {Quantity::dry_bulb, Quantity::enthalpy, Quantity::dew_point, Quantity::humidity_ratio}) {
     const auto back = hl::quantity_from_name(hl::quantity_name(q));
     REQUIRE(back);
     CHECK(*back == q);

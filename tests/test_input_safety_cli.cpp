@@ -25,10 +25,12 @@ bool contains(const std::string& s, const std::string& needle) {
 std::string write_unit(const std::string& name, const std::string& site_extra,
                        const std::string& tail = "") {
   const auto path = scratch_dir(kSuite) / name;
-  std::ofstream(path) << "[site]\nname = \"test unit\"\nelevation = \"900ft\"\n" << site_extra
-                      << "\n[air_handler]\nsupply_airflow = \"8000cfm\"\nsupply_air_temp = \"55F\"\n"
-                         "min_outdoor_air = \"20%\"\nreturn_air_temp = \"74F\"\nreturn_air_rh = \"45%\"\n"
-                      << tail;
+  std::ofstream(path)
+      << "[site]\nname = \"test unit\"\nelevation = \"900ft\"\n"
+      << site_extra
+      << "\n[air_handler]\nsupply_airflow = \"8000cfm\"\nsupply_air_temp = \"55F\"\n"
+         "min_outdoor_air = \"20%\"\nreturn_air_temp = \"74F\"\nreturn_air_rh = \"45%\"\n"
+      << tail;
   return path.string();
 }
 
@@ -37,7 +39,8 @@ std::string write_unit(const std::string& name, const std::string& site_extra,
 TEST_CASE("a [sensors] accuracy beyond common practice is a warning in the study's context") {
   // 20 % RH is inside the allowed range (to 30 %) but several times a transmitter's catalogue
   // accuracy: kept, with a word (common practice).
-  const std::string unit = write_unit("sensors-warn.toml", "", "\n[sensors]\nreturn_rh = \"20%\"\n");
+  const std::string unit =
+      write_unit("sensors-warn.toml", "", "\n[sensors]\nreturn_rh = \"20%\"\n");
   const auto r = run_cli({"sensors", unit, "--weather", kGreensboro, "--trials", "4",
                           "--break-even-trials", "0", "--format", "json"},
                          kSuite);

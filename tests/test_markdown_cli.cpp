@@ -30,7 +30,8 @@ std::filesystem::path hostile_unit() {
   unit.replace(unit.find(name), name.size(), "name = \"" + kSite + "\"");
   std::ofstream(p) << unit << R"(
 [[strategy]]
-name = ")" << kStrategy << R"("
+name = ")" << kStrategy
+                   << R"("
 preset = "fixed-dry-bulb"
 dry_bulb_limit = "65F"
 )";
@@ -57,8 +58,10 @@ void check_tables_intact(const std::string& md) {
     }
     std::size_t pipes = 0;
     for (std::size_t i = 0; i < line.size(); ++i) {
-      if (line[i] == '\\') ++i;
-      else if (line[i] == '|') ++pipes;
+      if (line[i] == '\\')
+        ++i;
+      else if (line[i] == '|')
+        ++pipes;
     }
     if (columns == 0) columns = pipes;
     CAPTURE(line);
@@ -82,11 +85,13 @@ TEST_CASE("markdown_escape makes names literal text") {
 
 TEST_CASE("year --format md and report --format md carry no raw HTML from names") {
   const auto unit = hostile_unit();
-  const auto year = run_cli({"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--format", "md"}, kSuite);
+  const auto year = run_cli(
+      {"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--format", "md"},
+      kSuite);
   REQUIRE(year.rc == 0);
   const auto md_path = scratch_dir(kSuite) / "study.md";
-  const auto report = run_cli({"report", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--format", "md",
-                               "-o", md_path.string()},
+  const auto report = run_cli({"report", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"),
+                               "--format", "md", "-o", md_path.string()},
                               kSuite);
   REQUIRE(report.rc == 0);
   for (const std::string& md : {year.out, slurp(md_path)}) {
@@ -102,7 +107,8 @@ TEST_CASE("year --format md and report --format md carry no raw HTML from names"
 TEST_CASE("the HTML report escapes the same names") {
   const auto unit = hostile_unit();
   const auto html_path = scratch_dir(kSuite) / "study.html";
-  const auto r = run_cli({"report", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "-o", html_path.string()},
+  const auto r = run_cli({"report", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"),
+                          "-o", html_path.string()},
                          kSuite);
   REQUIRE(r.rc == 0);
   const std::string html = slurp(html_path);

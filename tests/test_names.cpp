@@ -17,8 +17,8 @@ using limitline::Named;
 namespace {
 
 enum class Colour { red, green };
-constexpr Named<Colour> kColours[] = {{"red", Colour::red}, {"green", Colour::green},
-                                      {"verdant", Colour::green}};
+constexpr Named<Colour> kColours[] = {
+    {"red", Colour::red}, {"green", Colour::green}, {"verdant", Colour::green}};
 
 // Every row's name reads back as its value; every value's name is its first row.
 template <class Span, class FromName, class Name>

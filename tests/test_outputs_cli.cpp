@@ -59,7 +59,8 @@ std::vector<std::string> strays(const fs::path& dir, const std::vector<std::stri
 CliRun run_redirected(const std::vector<std::string>& args, const std::string& redirect) {
   const auto dir = scratch_dir(kSuite);
   std::string cmd = "cd " + shell_quote(LIMITLINE_SOURCE_DIR) + " && LIMITLINE_DATA_DIR=" +
-                    shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/data") + " " + shell_quote(LIMITLINE_EXE);
+                    shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/data") + " " +
+                    shell_quote(LIMITLINE_EXE);
   for (const auto& a : args) cmd += " " + shell_quote(a);
   cmd += " < /dev/null " + redirect + " 2> " + shell_quote((dir / "redirected-err").string());
   const int status = std::system(cmd.c_str());
@@ -89,7 +90,9 @@ TEST_CASE("a full file system leaves the existing target untouched, no temporary
   SmallFileSystem small;
   if (!small.mounted) {
     // Not root: /dev/full stands in; a device is written in place and the failure is reported.
-    const auto r = run_cli({"chart", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "-o", "/dev/full"}, kSuite);
+    const auto r = run_cli(
+        {"chart", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "-o", "/dev/full"},
+        kSuite);
     CHECK(r.rc == 2);
     CHECK(contains(r.err, "No space left on device"));
     return;
@@ -102,9 +105,15 @@ TEST_CASE("a full file system leaves the existing target untouched, no temporary
   };
   const std::string target = (small.dir / "out.file").string();
   const std::vector<Case> cases = {
-      {"chart -o", {"chart", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "-o", target}, target},
-      {"report -o (html)", {"report", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "-o", target}, target},
-      {"year --hourly", {"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--hourly", target}, target},
+      {"chart -o",
+       {"chart", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "-o", target},
+       target},
+      {"report -o (html)",
+       {"report", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "-o", target},
+       target},
+      {"year --hourly",
+       {"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--hourly", target},
+       target},
       {"sensors --trials-csv",
        {"sensors", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--trials", "400",
         "--break-even-trials", "0", "--trials-csv", target},
@@ -126,8 +135,8 @@ TEST_CASE("a full file system leaves the existing target untouched, no temporary
     INFO("report --format md: none of its three files is left half-written");
     const auto md = small.dir / "study.md";
     std::ofstream(md, std::ios::binary) << good;
-    const auto r = run_cli({"report", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--format", "md",
-                            "-o", md.string()},
+    const auto r = run_cli({"report", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"),
+                            "--format", "md", "-o", md.string()},
                            kSuite);
     CHECK(r.rc == 2);
     CHECK(contains(r.err, "No space left on device"));
@@ -176,19 +185,21 @@ TEST_CASE("an output that is also an input is refused, and the input kept") {
     CHECK(contains(r.err, "is also an input"));
   }
   SUBCASE("chart -o through a link to the weather file") {
-    const auto r = run_cli({"chart", unit.string(), "--weather", weather.string(), "-o", (dir / "alias.csv").string()},
-                           kSuite);
+    const auto r = run_cli(
+        {"chart", unit.string(), "--weather", weather.string(), "-o", (dir / "alias.csv").string()},
+        kSuite);
     CHECK(r.rc == 2);
     CHECK(contains(r.err, "is also an input"));
   }
   SUBCASE("report -o onto the unit file") {
-    const auto r = run_cli({"report", unit.string(), "--weather", weather.string(), "-o", unit.string()}, kSuite);
+    const auto r = run_cli(
+        {"report", unit.string(), "--weather", weather.string(), "-o", unit.string()}, kSuite);
     CHECK(r.rc == 2);
     CHECK(contains(r.err, "is also an input"));
   }
   SUBCASE("sensors --trials-csv onto the weather file") {
-    const auto r = run_cli({"sensors", unit.string(), "--weather", weather.string(), "--trials", "5",
-                            "--break-even-trials", "0", "--trials-csv", weather.string()},
+    const auto r = run_cli({"sensors", unit.string(), "--weather", weather.string(), "--trials",
+                            "5", "--break-even-trials", "0", "--trials-csv", weather.string()},
                            kSuite);
     CHECK(r.rc == 2);
     CHECK(contains(r.err, "is also an input"));
@@ -235,7 +246,8 @@ TEST_CASE("standard output is checked before exit: a full disk or a closed stdou
   SUBCASE("state --batch to /dev/full") {
     const auto dir = fresh_dir("batch-full");
     std::ofstream(dir / "points.csv") << "dry_bulb,rh\n75,50\n80,40\n";
-    const auto r = run_redirected({"state", "--batch", (dir / "points.csv").string()}, "> /dev/full");
+    const auto r =
+        run_redirected({"state", "--batch", (dir / "points.csv").string()}, "> /dev/full");
     CHECK(r.rc == 2);
     CHECK(contains(r.err, "No space left on device"));
   }
@@ -247,7 +259,8 @@ TEST_CASE("standard output is checked before exit: a full disk or a closed stdou
   }
 }
 
-TEST_CASE("Ctrl-C while --hourly is open leaves no half file and the old one untouched (exit 130)") {
+TEST_CASE(
+    "Ctrl-C while --hourly is open leaves no half file and the old one untouched (exit 130)") {
   // The weather comes through a named pipe: the command holds its --hourly output open while
   // it waits for the weather, so the interrupt lands at a known point.
   const auto dir = fresh_dir("interrupt");
@@ -256,7 +269,8 @@ TEST_CASE("Ctrl-C while --hourly is open leaves no half file and the old one unt
   REQUIRE(::mkfifo(fifo.c_str(), 0600) == 0);
   const auto hours = dir / "hours.csv";
   std::ofstream(hours) << "an earlier run\n";
-  const pid_t pid = limitline::test::spawn_cli({"year", unit.string(), "--weather", fifo.string(), "--hourly", hours.string()});
+  const pid_t pid = limitline::test::spawn_cli(
+      {"year", unit.string(), "--weather", fifo.string(), "--hourly", hours.string()});
   // Opening the pipe for writing returns once the command opened it for reading: by then its
   // temporary output exists.
   const int w = ::open(fifo.c_str(), O_WRONLY);

@@ -44,7 +44,7 @@ TEST_CASE("every index runs once and results do not depend on the thread count")
     CHECK(one[i] == (k - 1) * k * (2 * k - 1) / 6);  // sum of squares 0..k-1, closed form
   }
   CHECK(run_squares(200, 3) == one);
-  CHECK(run_squares(200, 0) == one);   // all cores
+  CHECK(run_squares(200, 0) == one);  // all cores
   CHECK(run_squares(3, 16) == std::vector<long long>(one.begin(), one.begin() + 3));
   CHECK(run_squares(0, 4).empty());
 }
@@ -61,8 +61,8 @@ TEST_CASE("progress is reported on the calling thread, rising to the total once"
     seen.push_back(done);
   };
   std::atomic<int> calls{0};
-  const auto done =
-      limitline::parallel_for(50, run, [&]() -> ParallelWork { return [&](std::size_t) { ++calls; }; });
+  const auto done = limitline::parallel_for(
+      50, run, [&]() -> ParallelWork { return [&](std::size_t) { ++calls; }; });
   CHECK(calls == 50);
   CHECK_FALSE(other_thread);
   REQUIRE_FALSE(seen.empty());

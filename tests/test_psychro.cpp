@@ -61,10 +61,9 @@ TEST_CASE("saturation pressure over water matches IAPWS-95 steam tables within 3
   // IAPWS-95 saturation pressures (steam tables, from memory).
   const Point iapws[] = {
       {0.01, 0.611655},  // triple point
-      {10.0, 1.2282},  {20.0, 2.3392},  {25.0, 3.1699},  {30.0, 4.2470}, {40.0, 7.3851},
-      {50.0, 12.352},  {60.0, 19.946},  {80.0, 47.414},  {100.0, 101.42},
-      {150.0, 476.16}, {200.0, 1554.9},
-      {99.974, 101.325},  // normal boiling point on ITS-90
+      {10.0, 1.2282},   {20.0, 2.3392},    {25.0, 3.1699}, {30.0, 4.2470},  {40.0, 7.3851},
+      {50.0, 12.352},   {60.0, 19.946},    {80.0, 47.414}, {100.0, 101.42}, {150.0, 476.16},
+      {200.0, 1554.9},  {99.974, 101.325},  // normal boiling point on ITS-90
   };
   for (const Point& pt : iapws)
     check_relative(psy::saturation_pressure_kpa(pt.t_c), pt.p_kpa, 300e-6,
@@ -80,14 +79,13 @@ TEST_CASE("saturation pressure matches the ASHRAE HoF ch. 1 saturation table (Ta
   };
   // ASHRAE HoF 2017 ch. 1 Table 3, p_ws in kPa (over ice below 0 °C; from memory).
   const Point table3[] = {
-      {-60.0, 0.00108, 1e-5}, {-40.0, 0.01285, 1e-5},  {-20.0, 0.10326, 1e-5},
-      {-10.0, 0.25990, 1e-5}, {5.0, 0.87258, 1e-5},     {15.0, 1.7058, 1e-4},
+      {-60.0, 0.00108, 1e-5}, {-40.0, 0.01285, 1e-5}, {-20.0, 0.10326, 1e-5},
+      {-10.0, 0.25990, 1e-5}, {5.0, 0.87258, 1e-5},   {15.0, 1.7058, 1e-4},
       {20.0, 2.3393, 1e-4},   {35.0, 5.6290, 1e-4},
   };
   for (const Point& pt : table3)
     check_near(psy::saturation_pressure_kpa(pt.t_c), pt.p_kpa,
-               300e-6 * pt.p_kpa + 0.5 * pt.printed_step,
-               fmt::format("Table 3 at {} °C", pt.t_c));
+               300e-6 * pt.p_kpa + 0.5 * pt.printed_step, fmt::format("Table 3 at {} °C", pt.t_c));
 }
 
 TEST_CASE("saturation pressure at 0 °C: ice below, water from 0 °C, nearly continuous") {
@@ -104,7 +102,8 @@ TEST_CASE("slope of ln p_ws: matches the fit's own derivative and Clausius–Cla
   for (double t : {-80.0, -30.0, -5.0, 5.0, 20.0, 45.0, 90.0, 180.0}) {
     const double h = 1e-4;
     const double numeric = (std::log(psy::saturation_pressure_kpa(t + h)) -
-                            std::log(psy::saturation_pressure_kpa(t - h))) / (2 * h);
+                            std::log(psy::saturation_pressure_kpa(t - h))) /
+                           (2 * h);
     check_relative(psy::saturation_pressure_log_slope_per_k(t), numeric, 1e-7,
                    fmt::format("slope at {} °C", t));
   }
@@ -112,8 +111,8 @@ TEST_CASE("slope of ln p_ws: matches the fit's own derivative and Clausius–Cla
   // 20 °C (IAPWS-95 steam tables, from memory) and R_v = 0.461526 kJ/(kg·K) (ASHRAE HoF ch. 1):
   // agreement to 0.5 % (the ideal-vapour assumption costs about 0.1 %).
   const double T = 293.15;
-  check_relative(psy::saturation_pressure_log_slope_per_k(20.0), 2453.5 / (0.461526 * T * T),
-                 5e-3, "Clausius–Clapeyron at 20 °C");
+  check_relative(psy::saturation_pressure_log_slope_per_k(20.0), 2453.5 / (0.461526 * T * T), 5e-3,
+                 "Clausius–Clapeyron at 20 °C");
 }
 
 TEST_CASE("saturation pressure outside -100..200 °C is a RangeError, never NaN") {
@@ -210,7 +209,8 @@ TEST_CASE("dew point <-> humidity ratio round trip over the whole range") {
 TEST_CASE("dew point is the exact inverse of eq. 5/6 within 2e-8 K (against bisection)") {
   // Not the eq. 39/40 regressions: the inverse of the saturation-pressure fit itself, here
   // found by plain bisection on saturation_pressure_kpa() over the whole range.
-  const double p_lo = psy::saturation_pressure_kpa(-100.0), p_hi = psy::saturation_pressure_kpa(200.0);
+  const double p_lo = psy::saturation_pressure_kpa(-100.0),
+               p_hi = psy::saturation_pressure_kpa(200.0);
   double worst = 0.0;
   for (int i = 0; i <= 20000; ++i) {
     const double pw = p_lo * std::pow(p_hi / p_lo, i / 20000.0);
@@ -233,7 +233,8 @@ TEST_CASE("dew point of steam-table saturation pressures") {
 }
 
 TEST_CASE("a vapour pressure between the ice and water fits at 0 °C has its dew point at 0 °C") {
-  const double ice = psy::saturation_pressure_kpa(-1e-12), water = psy::saturation_pressure_kpa(0.0);
+  const double ice = psy::saturation_pressure_kpa(-1e-12),
+               water = psy::saturation_pressure_kpa(0.0);
   CHECK(psy::dew_point_from_vapor_pressure_c(0.5 * (ice + water)) == 0.0);
 }
 
@@ -295,7 +296,8 @@ TEST_CASE("wet-bulb above dry-bulb, or too low for any humidity, is a RangeError
                     "wet-bulb 21 °C is above dry-bulb 20 °C");
   check_range_error([] { (void)psy::humidity_ratio_from_wet_bulb(40.0, 5.0, kSea); }, "negative");
   check_range_error([] { (void)psy::humidity_ratio_from_wet_bulb(40.0, kNaN, kSea); }, "wet-bulb");
-  check_range_error([] { (void)psy::wet_bulb_from_humidity_ratio_c(20.0, -0.001, kSea); }, "-0.001");
+  check_range_error([] { (void)psy::wet_bulb_from_humidity_ratio_c(20.0, -0.001, kSea); },
+                    "-0.001");
   check_range_error([] { (void)psy::wet_bulb_from_humidity_ratio_c(20.0, 0.05, kSea); },
                     "above saturation");
 }
@@ -307,8 +309,7 @@ TEST_CASE("enthalpy <-> dry-bulb and enthalpy <-> humidity ratio round trips") {
     for (double w : {0.0, 0.0005, 0.004, 0.0093, 0.02, 0.05}) {
       const double h = psy::enthalpy_kj_per_kg(t, w);
       check_near(psy::dry_bulb_from_enthalpy_c(h, w), t, 1e-10, fmt::format("t={} w={}", t, w));
-      check_near(psy::humidity_ratio_from_enthalpy(t, h), w, 1e-13,
-                 fmt::format("t={} w={}", t, w));
+      check_near(psy::humidity_ratio_from_enthalpy(t, h), w, 1e-13, fmt::format("t={} w={}", t, w));
     }
   // Dry air at 0 °C is the zero of the SI datum (ASHRAE HoF ch. 1, eq. 32).
   CHECK(psy::enthalpy_kj_per_kg(0.0, 0.0) == 0.0);
@@ -418,8 +419,8 @@ TEST_CASE("IP enthalpy via the datum shift equals the IP form of eq. 32") {
 TEST_CASE("every humidity input gives back the same state") {
   for (double p : {70.0, kSea})
     for (double t : {-25.0, 3.0, 24.0, 38.0}) {
-      const auto ref = psy::properties(
-          psy::state_from(t, psy::HumidityInput::relative_humidity, 0.45, p));
+      const auto ref =
+          psy::properties(psy::state_from(t, psy::HumidityInput::relative_humidity, 0.45, p));
       using H = psy::HumidityInput;
       const std::pair<H, double> inputs[] = {{H::wet_bulb, ref.wet_bulb_c},
                                              {H::dew_point, ref.dew_point_c},
@@ -434,8 +435,8 @@ TEST_CASE("every humidity input gives back the same state") {
 }
 
 TEST_CASE("properties of saturated air: dew point = wet-bulb = dry-bulb, RH = μ = 1") {
-  const auto p = psy::properties(psy::state_from(22.0, psy::HumidityInput::relative_humidity,
-                                                 1.0, kSea));
+  const auto p =
+      psy::properties(psy::state_from(22.0, psy::HumidityInput::relative_humidity, 1.0, kSea));
   check_near(p.dew_point_c, 22.0, 1e-6);
   check_near(p.wet_bulb_c, 22.0, 1e-6);
   check_near(p.relative_humidity, 1.0, 1e-12);
@@ -449,7 +450,8 @@ TEST_CASE("impossible states are RangeErrors (InputErrors) naming value and limi
                     "dew point 25 °C is above dry-bulb 24 °C");
   check_range_error([] { (void)psy::state_from(24.0, H::wet_bulb, 24.5, kSea); },
                     "wet-bulb 24.5 °C is above dry-bulb 24 °C");
-  check_range_error([] { (void)psy::state_from(24.0, H::humidity_ratio, -0.001, kSea); }, "0 or more");
+  check_range_error([] { (void)psy::state_from(24.0, H::humidity_ratio, -0.001, kSea); },
+                    "0 or more");
   check_range_error([] { (void)psy::state_from(24.0, H::humidity_ratio, 0.03, kSea); },
                     "above saturation");
   check_range_error([] { (void)psy::state_from(24.0, H::enthalpy, 10.0, kSea); },
@@ -479,11 +481,18 @@ TEST_CASE("no property is ever NaN or infinite over a dense sweep of valid state
           CHECK((pws >= p || rh * pws < psy::saturation_pressure_kpa(-100.0)));
           continue;
         }
-        const double all[] = {r.dry_bulb_c, r.wet_bulb_c, r.dew_point_c, r.relative_humidity,
-                              r.humidity_ratio, r.enthalpy_kj_per_kg,
-                              r.specific_volume_m3_per_kg, r.density_kg_per_m3,
-                              r.vapor_pressure_kpa, r.pressure_kpa,
-                              r.saturation_humidity_ratio, r.degree_of_saturation};
+        const double all[] = {r.dry_bulb_c,
+                              r.wet_bulb_c,
+                              r.dew_point_c,
+                              r.relative_humidity,
+                              r.humidity_ratio,
+                              r.enthalpy_kj_per_kg,
+                              r.specific_volume_m3_per_kg,
+                              r.density_kg_per_m3,
+                              r.vapor_pressure_kpa,
+                              r.pressure_kpa,
+                              r.saturation_humidity_ratio,
+                              r.degree_of_saturation};
         for (double v : all) CHECK(std::isfinite(v));
         CHECK(r.dew_point_c <= r.wet_bulb_c + 1e-6);
         CHECK(r.wet_bulb_c <= r.dry_bulb_c);

@@ -64,7 +64,8 @@ Judged judge() {
 
 }  // namespace
 
-TEST_CASE("the unit report sets the weather file's pressure beside the footnote's, and its source") {
+TEST_CASE(
+    "the unit report sets the weather file's pressure beside the footnote's, and its source") {
   Judged j = judge();
   j.verdicts.req = &j.req;
   SUBCASE("no weather file: no line") {
@@ -87,9 +88,11 @@ TEST_CASE("the unit report sets the weather file's pressure beside the footnote'
     }
   }
   SUBCASE("a file that cannot be read is said, with the reason") {
-    j.verdicts.weather = report::WeatherPressure{"site.csv: cannot open the weather file", {}, 0, 0, {}};
-    CHECK(contains(report::code_unit_markdown(j.verdicts, System::si),
-                   "- **Weather pressure**: not compared: site.csv: cannot open the weather file\n"));
+    j.verdicts.weather =
+        report::WeatherPressure{"site.csv: cannot open the weather file", {}, 0, 0, {}};
+    CHECK(
+        contains(report::code_unit_markdown(j.verdicts, System::si),
+                 "- **Weather pressure**: not compared: site.csv: cannot open the weather file\n"));
   }
 }
 

@@ -59,8 +59,11 @@ Checked check_at(const std::string& outdoor) {
 
 TEST_CASE("the check report shows the context's warnings and air sources in every format") {
   const Checked c = check_at("68F/80%");
-  const report::PointCheckContext ctx{&c.unit, "measured at the intake", "assumed return",
-                                      {"u.toml:3: a warning for the test"}, System::ip};
+  const report::PointCheckContext ctx{&c.unit,
+                                      "measured at the intake",
+                                      "assumed return",
+                                      {"u.toml:3: a warning for the test"},
+                                      System::ip};
   const std::string text = report::point_check_text(c.pc, ctx);
   const std::string md = report::point_check_markdown(c.pc, ctx);
   const std::string json = report::point_check_json(c.pc, ctx);

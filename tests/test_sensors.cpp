@@ -38,7 +38,6 @@ using sensors::Sensor;
 
 const std::string kOffice = test::office_with_schedule();
 
-
 const std::string kGreensboro = test::greensboro_path();
 
 struct Year {
@@ -51,9 +50,11 @@ struct Year {
     highlimit::PresetSettings s = highlimit::preset_defaults();
     s.dry_bulb_deadband_k = 2.0 / 1.8;
     s.enthalpy_deadband_kj_per_kg = 1.0;
-    strategies.push_back(highlimit::make_preset("fixed-dry-bulb", s, "fixed dry-bulb, 2F deadband"));
+    strategies.push_back(
+        highlimit::make_preset("fixed-dry-bulb", s, "fixed dry-bulb, 2F deadband"));
     strategies.push_back(highlimit::make_preset("fixed-enthalpy", s, "fixed enthalpy, deadband"));
-    const auto w = weather::read_file(kGreensboro, weather::Mapping{}, unit.site.design_pressure_kpa());
+    const auto w =
+        weather::read_file(kGreensboro, weather::Mapping{}, unit.site.design_pressure_kpa());
     prepared = annual::prepare(unit.air_handler, unit.return_air, outdoor_intervals(w),
                                read_schedule(*unit.schedule, unit.path), {});
   }
@@ -64,7 +65,8 @@ const Year& year() {
   return y;
 }
 
-const highlimit::Strategy& by_name(const std::vector<highlimit::Strategy>& list, std::string_view name) {
+const highlimit::Strategy& by_name(const std::vector<highlimit::Strategy>& list,
+                                   std::string_view name) {
   for (const auto& s : list)
     if (s.name == name) return s;
   FAIL("no strategy " << name);
@@ -78,7 +80,8 @@ std::vector<sensors::TrialOutcome> one_trial(const sensors::Engine& e, const sen
   std::vector<sensors::TrialOutcome> out(e.strategies().size());
   sensors::Clamps c;
   if (decisions) decisions->assign(e.strategies().size() * e.intervals(), 0);
-  e.run(b, ws, out, clamps ? *clamps : c, decisions ? std::span(*decisions) : std::span<std::uint8_t>{});
+  e.run(b, ws, out, clamps ? *clamps : c,
+        decisions ? std::span(*decisions) : std::span<std::uint8_t>{});
   return out;
 }
 
@@ -106,7 +109,8 @@ bool same(const sensors::TrialOutcome& a, const sensors::TrialOutcome& b) {
 TEST_CASE("exact sensors reproduce annual::evaluate exactly, every strategy and kind") {
   const Year& y = year();
   const annual::YearResult ref = annual::evaluate(y.strategies, y.prepared);
-  for (HumidityKind kind : {HumidityKind::relative_humidity, HumidityKind::dew_point, HumidityKind::enthalpy}) {
+  for (HumidityKind kind :
+       {HumidityKind::relative_humidity, HumidityKind::dew_point, HumidityKind::enthalpy}) {
     CAPTURE(sensors::humidity_kind_name(kind));
     const sensors::Engine engine(y.prepared, y.strategies, kind);
     CHECK(engine.perfect_energy_kwh() == ref.perfect_changeover.annual.energy_kwh);
@@ -121,10 +125,13 @@ TEST_CASE("exact sensors reproduce annual::evaluate exactly, every strategy and 
     for (const auto& s : study.ranked) {
       CAPTURE(s.name);
       const annual::StrategyResult& r =
-          *std::find_if(ref.strategies.begin(), ref.strategies.end(), [&](const auto& x) { return x.name == s.name; });
+          *std::find_if(ref.strategies.begin(), ref.strategies.end(),
+                        [&](const auto& x) { return x.name == s.name; });
       check_same(s.exact, r);
-      for (std::size_t k = 0; k < study.trials_completed(); ++k) check_same(study.outcome(k, s.index), r);
-      for (double q : {s.shortfall_kwh.p10, s.shortfall_kwh.p50, s.shortfall_kwh.p90, s.shortfall_kwh.worst})
+      for (std::size_t k = 0; k < study.trials_completed(); ++k)
+        check_same(study.outcome(k, s.index), r);
+      for (double q :
+           {s.shortfall_kwh.p10, s.shortfall_kwh.p50, s.shortfall_kwh.p90, s.shortfall_kwh.worst})
         CHECK(q == r.shortfall_vs_perfect_kwh);
       CHECK(s.shortfall_kwh.mean == doctest::Approx(r.shortfall_vs_perfect_kwh).epsilon(1e-12));
       CHECK(s.harmful_hours.worst == r.annual.harmful_hours);
@@ -160,7 +167,8 @@ TEST_CASE("decisions with exact sensors are the annual decisions, hour by hour")
 namespace {
 // Runs `strategy` with exact sensors and with `b`; every hour disabled with the bias must be
 // disabled without it, and the bias must change some hours (else the check proves nothing).
-void check_only_removes_trips(const highlimit::Strategy& strategy, const sensors::Biases& b, HumidityKind kind) {
+void check_only_removes_trips(const highlimit::Strategy& strategy, const sensors::Biases& b,
+                              HumidityKind kind) {
   const Year& y = year();
   const std::vector<highlimit::Strategy> one = {strategy};
   const sensors::Engine engine(y.prepared, one, kind);
@@ -183,29 +191,36 @@ TEST_CASE("a bias that moves readings away from the limit can only remove trips"
   SUBCASE("outdoor dry-bulb reading low, fixed dry-bulb limit (with and without deadband)") {
     sensors::Biases b{};
     at(b, Sensor::outdoor_dry_bulb) = -1.0;
-    check_only_removes_trips(by_name(y.strategies, "fixed-dry-bulb"), b, HumidityKind::relative_humidity);
-    check_only_removes_trips(by_name(y.strategies, "fixed dry-bulb, 2F deadband"), b, HumidityKind::relative_humidity);
+    check_only_removes_trips(by_name(y.strategies, "fixed-dry-bulb"), b,
+                             HumidityKind::relative_humidity);
+    check_only_removes_trips(by_name(y.strategies, "fixed dry-bulb, 2F deadband"), b,
+                             HumidityKind::relative_humidity);
   }
   SUBCASE("outdoor RH reading low, fixed enthalpy limit (with and without deadband)") {
     sensors::Biases b{};
     at(b, Sensor::outdoor_humidity) = -0.05;
-    check_only_removes_trips(by_name(y.strategies, "fixed-enthalpy"), b, HumidityKind::relative_humidity);
-    check_only_removes_trips(by_name(y.strategies, "fixed enthalpy, deadband"), b, HumidityKind::relative_humidity);
+    check_only_removes_trips(by_name(y.strategies, "fixed-enthalpy"), b,
+                             HumidityKind::relative_humidity);
+    check_only_removes_trips(by_name(y.strategies, "fixed enthalpy, deadband"), b,
+                             HumidityKind::relative_humidity);
   }
   SUBCASE("outdoor dew-point reading low, fixed dew-point limit") {
     sensors::Biases b{};
     at(b, Sensor::outdoor_humidity) = -1.0;
-    check_only_removes_trips(by_name(y.strategies, "fixed-dew-point+dry-bulb"), b, HumidityKind::dew_point);
+    check_only_removes_trips(by_name(y.strategies, "fixed-dew-point+dry-bulb"), b,
+                             HumidityKind::dew_point);
   }
   SUBCASE("return dry-bulb reading high, differential dry-bulb") {
     sensors::Biases b{};
     at(b, Sensor::return_dry_bulb) = 0.5;
-    check_only_removes_trips(by_name(y.strategies, "differential-dry-bulb"), b, HumidityKind::relative_humidity);
+    check_only_removes_trips(by_name(y.strategies, "differential-dry-bulb"), b,
+                             HumidityKind::relative_humidity);
   }
   SUBCASE("return RH reading high, differential enthalpy") {
     sensors::Biases b{};
     at(b, Sensor::return_rh) = 0.04;
-    check_only_removes_trips(by_name(y.strategies, "differential-enthalpy"), b, HumidityKind::relative_humidity);
+    check_only_removes_trips(by_name(y.strategies, "differential-enthalpy"), b,
+                             HumidityKind::relative_humidity);
   }
 }
 
@@ -224,7 +239,8 @@ TEST_CASE("results are identical for 1 and N threads at the same seed") {
   const auto a = sensors::run_study(engine, set, opt, one);
   const auto b = sensors::run_study(engine, set, opt, many);
   REQUIRE(a.trial_outcomes.size() == b.trial_outcomes.size());
-  for (std::size_t i = 0; i < a.trial_outcomes.size(); ++i) CHECK(same(a.trial_outcomes[i], b.trial_outcomes[i]));
+  for (std::size_t i = 0; i < a.trial_outcomes.size(); ++i)
+    CHECK(same(a.trial_outcomes[i], b.trial_outcomes[i]));
   CHECK(a.trial_biases == b.trial_biases);
   CHECK(a.beats == b.beats);
   for (std::size_t s = 0; s < a.ranked.size(); ++s) {
@@ -360,7 +376,8 @@ TEST_CASE("the study's mean bias effect agrees with the trial mean within its st
     const double mean = sum / n;
     CHECK(s.shortfall_kwh.mean == doctest::Approx(mean).epsilon(1e-12));
     const double var = (sum2 - n * mean * mean) / (n - 1);
-    CHECK(s.shortfall_kwh.std_error == doctest::Approx(std::sqrt(std::max(var, 0.0) / n)).epsilon(1e-6));
+    CHECK(s.shortfall_kwh.std_error ==
+          doctest::Approx(std::sqrt(std::max(var, 0.0) / n)).epsilon(1e-6));
     CHECK(s.shortfall_kwh.p10 <= s.shortfall_kwh.p50);
     CHECK(s.shortfall_kwh.p50 <= s.shortfall_kwh.p90);
     CHECK(s.shortfall_kwh.p90 <= s.shortfall_kwh.worst);
@@ -392,7 +409,8 @@ TEST_CASE("derived readings follow psychro, and clamps are counted, never NaN") 
     CHECK_FALSE(r.clamped);
     const double w = psychro::humidity_ratio_from_relative_humidity(30.0, 0.5, p);
     CHECK(r.values[highlimit::Quantity::humidity_ratio] == doctest::Approx(w).epsilon(1e-14));
-    CHECK(r.values[highlimit::Quantity::enthalpy] == doctest::Approx(psychro::enthalpy_kj_per_kg(30.0, w)).epsilon(1e-14));
+    CHECK(r.values[highlimit::Quantity::enthalpy] ==
+          doctest::Approx(psychro::enthalpy_kj_per_kg(30.0, w)).epsilon(1e-14));
     CHECK(r.values[highlimit::Quantity::dew_point] ==
           doctest::Approx(psychro::dew_point_from_humidity_ratio_c(w, p)).epsilon(1e-10));
   }
@@ -426,8 +444,11 @@ TEST_CASE("derived readings follow psychro, and clamps are counted, never NaN") 
   }
   SUBCASE("absurd readings stay finite") {
     for (double t : {-180.0, -95.0, 150.0, 250.0})
-      for (HumidityKind k : {HumidityKind::relative_humidity, HumidityKind::dew_point, HumidityKind::enthalpy}) {
-        const double hum = k == HumidityKind::relative_humidity ? 1.5 : k == HumidityKind::dew_point ? t + 5 : 900.0;
+      for (HumidityKind k :
+           {HumidityKind::relative_humidity, HumidityKind::dew_point, HumidityKind::enthalpy}) {
+        const double hum = k == HumidityKind::relative_humidity ? 1.5
+                           : k == HumidityKind::dew_point       ? t + 5
+                                                                : 900.0;
         const auto r = sensors::derive_reading(t, k, hum, 60.0, true);
         for (double v : r.values.value) CHECK(std::isfinite(v));
       }
@@ -442,7 +463,8 @@ TEST_CASE("derived readings follow psychro, and clamps are counted, never NaN") 
     std::uint32_t expected = 0;
     for (const auto& iv : y.prepared.intervals) {
       const double rh = psychro::relative_humidity_from_humidity_ratio(
-          iv.outdoor[highlimit::Quantity::dry_bulb], iv.outdoor[highlimit::Quantity::humidity_ratio], iv.pressure_kpa);
+          iv.outdoor[highlimit::Quantity::dry_bulb],
+          iv.outdoor[highlimit::Quantity::humidity_ratio], iv.pressure_kpa);
       expected += rh + 0.08 > 1.0;
     }
     CHECK(expected > 0);
@@ -455,7 +477,8 @@ TEST_CASE("derived readings follow psychro, and clamps are counted, never NaN") 
 
 namespace {
 sensors::SensorSet read_table(const std::string& table, const std::string& top = "") {
-  const UnitFile u = parse_unit_file(top + std::string(kOffice) + "\n[sensors]\n" + table, "u.toml");
+  const UnitFile u =
+      parse_unit_file(top + std::string(kOffice) + "\n[sensors]\n" + table, "u.toml");
   return sensors::read_sensors(u.sensors ? &*u.sensors : nullptr, u.path, u.units);
 }
 std::string error_of(const std::string& table, const std::string& top = "") {
@@ -498,21 +521,29 @@ TEST_CASE("[sensors]: defaults, values, units and kinds") {
     const auto e = read_table("outdoor_humidity_kind = \"enthalpy\"\n");
     CHECK(e.outdoor_humidity == HumidityKind::enthalpy);
     CHECK(at(e.accuracy, Sensor::outdoor_humidity) == doctest::Approx(2.326));  // 1 Btu/lb typical
-    const auto h = read_table("outdoor_humidity_kind = \"dew_point\"\noutdoor_dew_point = \"0.5K\"\n");
+    const auto h =
+        read_table("outdoor_humidity_kind = \"dew_point\"\noutdoor_dew_point = \"0.5K\"\n");
     CHECK(h.outdoor_humidity == HumidityKind::dew_point);
   }
 }
 
 TEST_CASE("[sensors]: every error names file, line and key") {
-  auto line = [](int offset) { return "u.toml:" + std::to_string(kFirstLine + offset) + ": sensors."; };
+  auto line = [](int offset) {
+    return "u.toml:" + std::to_string(kFirstLine + offset) + ": sensors.";
+  };
   std::string e = error_of("outdoor_rh = \"5%\"\noutdoor_tempurature = \"1F\"\n");
-  CHECK(e.find(line(1) + "outdoor_tempurature: unknown key in [sensors] (allowed: outdoor_dry_bulb") == 0);
+  CHECK(e.find(line(1) +
+               "outdoor_tempurature: unknown key in [sensors] (allowed: outdoor_dry_bulb") == 0);
   e = error_of("outdoor_rh = \"-2%\"\n");
   CHECK(e.find(line(0) + "outdoor_rh: -2.00% is outside the allowed range (0% to 30%") == 0);
   e = error_of("outdoor_dry_bulb = \"25F\"\n");
   CHECK(e.find(line(0) + "outdoor_dry_bulb: 25.00 °F is outside the allowed range") == 0);
   e = error_of("outdoor_dry_bulb = \"5btu/lb\"\n");
-  CHECK(e.find(line(0) + "outdoor_dry_bulb: '5btu/lb' has unit 'btu/lb', which is not a temperature difference") == 0);
+  CHECK(
+      e.find(
+          line(0) +
+          "outdoor_dry_bulb: '5btu/lb' has unit 'btu/lb', which is not a temperature difference") ==
+      0);
   e = error_of("outdoor_dry_bulb = true\n");
   CHECK(e.find(line(0) + "outdoor_dry_bulb: must be an accuracy") == 0);
   e = error_of("distribution = \"gaussian\"\n");
@@ -523,7 +554,9 @@ TEST_CASE("[sensors]: every error names file, line and key") {
   CHECK(e.find(line(1) + "outdoor_dew_point: outdoor_humidity_kind is \"rh\" (line " +
                std::to_string(kFirstLine) + "); give outdoor_rh instead") == 0);
   e = error_of("outdoor_rh = \"5%\"\noutdoor_enthalpy = \"1btu/lb\"\n");
-  CHECK(e.find(line(1) + "outdoor_enthalpy: give one outdoor humidity sensor; outdoor_rh is already given on line " +
+  CHECK(e.find(line(1) +
+               "outdoor_enthalpy: give one outdoor humidity sensor; outdoor_rh is already given on "
+               "line " +
                std::to_string(kFirstLine)) == 0);
   e = error_of("outdoor_rh = \"0.5\"\n");
   CHECK(e.find(line(0) + "outdoor_rh: '0.5' is ambiguous") == 0);
@@ -531,7 +564,8 @@ TEST_CASE("[sensors]: every error names file, line and key") {
 
 TEST_CASE("[sensors]: the largest accuracy is accepted as documented, in either system") {
   // README: at most 10 K (18 °F), 30 % RH, 20 kJ/kg; 18 °F is 10 K exactly (NIST SP 811).
-  const auto s = read_table("outdoor_dry_bulb = \"18F\"\nreturn_dry_bulb = \"10K\"\noutdoor_rh = \"30%\"\n");
+  const auto s =
+      read_table("outdoor_dry_bulb = \"18F\"\nreturn_dry_bulb = \"10K\"\noutdoor_rh = \"30%\"\n");
   CHECK(at(s.accuracy, Sensor::outdoor_dry_bulb) == 10.0);
   CHECK(at(s.accuracy, Sensor::return_dry_bulb) == 10.0);
   CHECK(at(s.accuracy, Sensor::outdoor_humidity) == doctest::Approx(0.30));
@@ -540,11 +574,16 @@ TEST_CASE("[sensors]: the largest accuracy is accepted as documented, in either 
   // Valid but far beyond any sensor in service (common practice): kept, with a warning on
   // the key's own line.
   REQUIRE(s.warnings.size() == 3);
-  CHECK(s.warnings[0].rfind("u.toml:" + std::to_string(kFirstLine) + ": sensors.outdoor_dry_bulb: '18F'", 0) == 0);
-  CHECK(s.warnings[0].find("outside the plausible range of a dry-bulb sensor accuracy") != std::string::npos);
+  CHECK(s.warnings[0].rfind(
+            "u.toml:" + std::to_string(kFirstLine) + ": sensors.outdoor_dry_bulb: '18F'", 0) == 0);
+  CHECK(s.warnings[0].find("outside the plausible range of a dry-bulb sensor accuracy") !=
+        std::string::npos);
   // Just past the end is refused, naming the end that is accepted.
   const std::string err = error_of("outdoor_rh = \"5%\"\noutdoor_dry_bulb = \"18.1F\"\n");
-  CHECK(err.find("u.toml:" + std::to_string(kFirstLine + 1) + ": sensors.outdoor_dry_bulb: 18.10 °F is outside the allowed range (0 °F to 18 °F") == 0);
+  CHECK(err.find(
+            "u.toml:" + std::to_string(kFirstLine + 1) +
+            ": sensors.outdoor_dry_bulb: 18.10 °F is outside the allowed range (0 °F to 18 °F") ==
+        0);
 }
 
 // --- Sweep --------------------------------------------------------------------------------------
@@ -557,27 +596,28 @@ sensors::SweepSpec parse_sweep(std::string_view text, HumidityKind configured, u
   const auto eq = text.find('=');
   const std::string_view range = text.substr(eq + 1);
   const auto c1 = range.find(':'), c2 = range.find(':', c1 + 1);
-  return sensors::sweep_spec(text.substr(0, eq),
-                             {range.substr(0, c1), range.substr(c1 + 1, c2 - c1 - 1), range.substr(c2 + 1)},
-                             configured, bare, origin);
+  return sensors::sweep_spec(
+      text.substr(0, eq),
+      {range.substr(0, c1), range.substr(c1 + 1, c2 - c1 - 1), range.substr(c2 + 1)}, configured,
+      bare, origin);
 }
 }  // namespace
 
 TEST_CASE("--sweep: parsing") {
   const auto s = parse_sweep("outdoor_rh=-10%:10%:1%", HumidityKind::relative_humidity,
-                                      units::System::ip, "--sweep");
+                             units::System::ip, "--sweep");
   CHECK(s.sensor == Sensor::outdoor_humidity);
   REQUIRE(s.biases.size() == 21);
   CHECK(s.biases.front() == doctest::Approx(-0.10));
   CHECK(s.biases.back() == doctest::Approx(0.10));
   CHECK(std::count(s.biases.begin(), s.biases.end(), 0.0) == 1);  // the exact point is exact
   const auto t = parse_sweep("return-dry-bulb=-2:2:0.5", HumidityKind::relative_humidity,
-                                      units::System::ip, "--sweep");
+                             units::System::ip, "--sweep");
   CHECK(t.sensor == Sensor::return_dry_bulb);
   CHECK(t.biases.size() == 9);
   CHECK(t.biases.front() == doctest::Approx(-2.0 / 1.8));  // bare numbers in --units ip: °F
   const auto d = parse_sweep("outdoor_dew_point=-2F:2F:1F", HumidityKind::relative_humidity,
-                                      units::System::ip, "--sweep");
+                             units::System::ip, "--sweep");
   CHECK(d.outdoor_kind == HumidityKind::dew_point);
 
   auto err = [](const char* text) -> std::string {
@@ -588,7 +628,8 @@ TEST_CASE("--sweep: parsing") {
     }
     return "no error";
   };
-  CHECK(err("indoor_rh=1%:2%:1%").find("--sweep: 'indoor_rh' is not a sensor (allowed: outdoor_dry_bulb") == 0);
+  CHECK(err("indoor_rh=1%:2%:1%")
+            .find("--sweep: 'indoor_rh' is not a sensor (allowed: outdoor_dry_bulb") == 0);
   // A STEP so small the count overflows any integer: said in words, never a wrapped number.
   const std::string tiny = err("outdoor_rh=-10%:10%:1e-300%");
   CHECK(tiny.find("--sweep: more than a billion biases asked for; at most 401") == 0);
@@ -596,7 +637,8 @@ TEST_CASE("--sweep: parsing") {
   CHECK(err("outdoor_rh=-10%:10%:0.01%").find("--sweep: 2001 biases asked for; at most 401") == 0);
   CHECK(err("outdoor_rh=5%:-5%:1%").find("--sweep: FROM 5.00% is above TO -5.00%") == 0);
   CHECK(err("outdoor_rh=-5%:5%:0%").find("--sweep: STEP 0.00% must be more than 0") == 0);
-  CHECK(err("outdoor_rh=-50%:5%:1%").find("--sweep: bias -50.00% is outside the allowed range") == 0);
+  CHECK(err("outdoor_rh=-50%:5%:1%").find("--sweep: bias -50.00% is outside the allowed range") ==
+        0);
   CHECK(err("outdoor_rh=-10%:10%:0.01%").find("--sweep: 2001 biases asked for; at most 401") == 0);
   CHECK(err("outdoor_rh=-10%:ten:1%").find("--sweep TO: 'ten' is not a percentage") == 0);
 }
@@ -604,7 +646,7 @@ TEST_CASE("--sweep: parsing") {
 TEST_CASE("sweep: exact at zero, unaffected strategies flat, monotone harmful hours") {
   const Year& y = year();
   const auto spec = parse_sweep("outdoor_rh=-10%:10%:2%", HumidityKind::relative_humidity,
-                                         units::System::ip, "--sweep");
+                                units::System::ip, "--sweep");
   const auto sw = sensors::run_sweep(y.prepared, y.strategies, spec);
   const annual::YearResult ref = annual::evaluate(y.strategies, y.prepared);
   REQUIRE_FALSE(sw.partial);
@@ -633,7 +675,8 @@ TEST_CASE("sweep: exact at zero, unaffected strategies flat, monotone harmful ho
     for (std::size_t i = sw.reference + 1; i < spec.biases.size() && !above; ++i) {
       double best_db = 1e300;
       for (std::size_t d = 0; d < y.strategies.size(); ++d)
-        if (sensors::dry_bulb_only(y.strategies[d])) best_db = std::min(best_db, sw.outcomes[i][d].shortfall_kwh);
+        if (sensors::dry_bulb_only(y.strategies[d]))
+          best_db = std::min(best_db, sw.outcomes[i][d].shortfall_kwh);
       if (sw.outcomes[i][s].shortfall_kwh > best_db) above = spec.biases[i];
     }
     CHECK(sw.falls_behind[s].above == above);
@@ -688,7 +731,8 @@ TEST_CASE("break-even: 'never', 'always' and a crossing, each checked independen
     so.seed = opt.seed;
     const auto st = sensors::run_study(e2, sc, so);
     const auto mean = [&](std::size_t i) {
-      return std::find_if(st.ranked.begin(), st.ranked.end(), [&](const auto& x) { return x.index == i; })
+      return std::find_if(st.ranked.begin(), st.ranked.end(),
+                          [&](const auto& x) { return x.index == i; })
           ->shortfall_kwh.mean;
     };
     return std::pair{mean(0), mean(1)};
@@ -765,7 +809,8 @@ test::CliRun run_and_interrupt(std::vector<std::string> args) {
     std::ifstream status("/proc/" + std::to_string(pid) + "/status");
     bool caught = false;
     for (std::string line; std::getline(status, line);)
-      if (line.rfind("SigCgt:", 0) == 0) caught = (std::stoull(line.substr(7), nullptr, 16) >> (SIGINT - 1)) & 1;
+      if (line.rfind("SigCgt:", 0) == 0)
+        caught = (std::stoull(line.substr(7), nullptr, 16) >> (SIGINT - 1)) & 1;
     if (caught) break;
     std::this_thread::sleep_for(std::chrono::milliseconds(50));
   }
@@ -774,7 +819,8 @@ test::CliRun run_and_interrupt(std::vector<std::string> args) {
   test::CliRun r;
   auto drain = [](int fd, std::string& into) {
     char buf[4096];
-    for (ssize_t n; (n = ::read(fd, buf, sizeof buf)) > 0;) into.append(buf, static_cast<std::size_t>(n));
+    for (ssize_t n; (n = ::read(fd, buf, sizeof buf)) > 0;)
+      into.append(buf, static_cast<std::size_t>(n));
     close(fd);
   };
   std::thread err_reader(drain, err_pipe[0], std::ref(r.err));
@@ -794,11 +840,13 @@ std::string write_unit(const std::string& name, const std::string& extra) {
 }  // namespace
 
 TEST_CASE("sensors command: text, JSON, per-trial CSV and errors") {
-  const std::string unit = write_unit("sensors-test-unit.toml", "\n[sensors]\noutdoor_rh = \"4%\"\n");
+  const std::string unit =
+      write_unit("sensors-test-unit.toml", "\n[sensors]\noutdoor_rh = \"4%\"\n");
   const std::string csv = (test::scratch_dir("sensors") / "trials.csv").string();
   SUBCASE("text, with a sweep, ends with the cautions") {
-    const test::CliRun r = test::run_cli({"sensors", unit, "--weather", kGreensboro, "--trials", "20", "--break-even-trials", "8",
-                           "--sweep", "return_rh=-4%:4%:2%"});
+    const test::CliRun r =
+        test::run_cli({"sensors", unit, "--weather", kGreensboro, "--trials", "20",
+                       "--break-even-trials", "8", "--sweep", "return_rh=-4%:4%:2%"});
     REQUIRE(r.rc == 0);
     CHECK(r.out.find("outdoor RH         ±4.0%") != std::string::npos);
     CHECK(r.out.find("Trials: 20 requested, 20 finished (seed 1)") != std::string::npos);
@@ -807,34 +855,42 @@ TEST_CASE("sensors command: text, JSON, per-trial CSV and errors") {
     CHECK(r.out.find("Cautions:") != std::string::npos);
   }
   SUBCASE("JSON and CSV") {
-    const test::CliRun r = test::run_cli({"sensors", unit, "--weather", kGreensboro, "--trials", "12", "--break-even-trials", "0",
-                           "--format", "json", "--units", "si", "--trials-csv", csv, "--seed", "5"});
+    const test::CliRun r = test::run_cli({"sensors", unit, "--weather", kGreensboro, "--trials",
+                                          "12", "--break-even-trials", "0", "--format", "json",
+                                          "--units", "si", "--trials-csv", csv, "--seed", "5"});
     REQUIRE(r.rc == 0);
-    for (const char* key : {"\"trials_completed\": 12", "\"partial\": false", "\"shortfall_kwh\"", "\"p90\"",
-                            "\"harmful_hours\"", "\"missed_hours\"", "\"beats\"", "\"outdoor_rh_pct\": 4",
-                            "\"outdoor_dry_bulb_delta_k\"", "\"cautions\""})
+    for (const char* key :
+         {"\"trials_completed\": 12", "\"partial\": false", "\"shortfall_kwh\"", "\"p90\"",
+          "\"harmful_hours\"", "\"missed_hours\"", "\"beats\"", "\"outdoor_rh_pct\": 4",
+          "\"outdoor_dry_bulb_delta_k\"", "\"cautions\""})
       CHECK_MESSAGE(r.out.find(key) != std::string::npos, key);
     CHECK(r.out.find("shortfall_kbtu") == std::string::npos);  // SI only
     std::ifstream f(csv);
     std::string header;
     std::getline(f, header);
-    CHECK(header.rfind("trial,outdoor_dry_bulb_bias_delta_k,outdoor_rh_bias_pct,return_dry_bulb_bias_delta_k,"
-                       "return_rh_bias_pct,outdoor_humidity_clamped,return_rh_clamped,strategy,shortfall_kwh,",
-                       0) == 0);
+    CHECK(
+        header.rfind(
+            "trial,outdoor_dry_bulb_bias_delta_k,outdoor_rh_bias_pct,return_dry_bulb_bias_delta_k,"
+            "return_rh_bias_pct,outdoor_humidity_clamped,return_rh_clamped,strategy,shortfall_kwh,",
+            0) == 0);
     std::size_t rows = 0;
     for (std::string line; std::getline(f, line);) ++rows;
     CHECK(rows == 12 * 7);
   }
   SUBCASE("bad input: exit 2 with one line naming the value") {
-    const std::string bad = write_unit("sensors-test-bad.toml", "\n[sensors]\nreturn_rh = \"45%\"\n");
+    const std::string bad =
+        write_unit("sensors-test-bad.toml", "\n[sensors]\nreturn_rh = \"45%\"\n");
     test::CliRun r = test::run_cli({"sensors", bad, "--weather", kGreensboro});
     CHECK(r.rc == 2);
-    CHECK(r.err.find("sensors-test-bad.toml:" + std::to_string(kFirstLine) + ": sensors.return_rh: 45.00% is outside the allowed range") !=
+    CHECK(r.err.find("sensors-test-bad.toml:" + std::to_string(kFirstLine) +
+                     ": sensors.return_rh: 45.00% is outside the allowed range") !=
           std::string::npos);
     r = test::run_cli({"sensors", unit, "--weather", kGreensboro, "--trials", "0"});
     CHECK(r.rc == 2);
-    CHECK(r.err.find("--trials: 0 is outside the allowed range (1 to 100000)") != std::string::npos);
-    r = test::run_cli({"sensors", unit, "--weather", kGreensboro, "--sweep", "outdoor_rh=-5%:5%:0%"});
+    CHECK(r.err.find("--trials: 0 is outside the allowed range (1 to 100000)") !=
+          std::string::npos);
+    r = test::run_cli(
+        {"sensors", unit, "--weather", kGreensboro, "--sweep", "outdoor_rh=-5%:5%:0%"});
     CHECK(r.rc == 2);
     CHECK(r.err.find("--sweep: STEP 0.00% must be more than 0") != std::string::npos);
     r = test::run_cli({"sensors", unit, "--format", "csv"});
@@ -842,7 +898,8 @@ TEST_CASE("sensors command: text, JSON, per-trial CSV and errors") {
   }
   SUBCASE("--sweep syntax is the command line's: exit 1 with the form to write") {
     for (const char* text : {"outdoor_rh", "outdoor_rh=1%:2%", "outdoor_rh=1%:2%:1%:4%"}) {
-      const test::CliRun r = test::run_cli({"sensors", unit, "--weather", kGreensboro, "--sweep", text});
+      const test::CliRun r =
+          test::run_cli({"sensors", unit, "--weather", kGreensboro, "--sweep", text});
       CHECK(r.rc == 1);
       CHECK(r.err.find("FROM:TO:STEP") != std::string::npos);
     }
@@ -850,7 +907,8 @@ TEST_CASE("sensors command: text, JSON, per-trial CSV and errors") {
 }
 
 TEST_CASE("sensors command: Ctrl-C reports the finished trials, marked partial") {
-  const test::CliRun r = run_and_interrupt({"sensors", "--trials", "100000", "--break-even-trials", "0"});
+  const test::CliRun r =
+      run_and_interrupt({"sensors", "--trials", "100000", "--break-even-trials", "0"});
   CHECK(r.rc == 130);
   CHECK(r.out.find("PARTIAL RESULTS: interrupted; ") != std::string::npos);
   CHECK(r.out.find(" of 100000 trials finished") != std::string::npos);

@@ -279,20 +279,37 @@ TEST_CASE("changing one value changes exactly the paragraph that states it") {
     std::string now;  // text the changed paragraph then holds
   };
   const Change changes[] = {
-      {"enthalpy_limit = \"27.5btu/lb\"", "enthalpy_limit = \"26btu/lb\"", {"3.2"}, "above 26 Btu/lb"},
-      {"enthalpy_deadband = \"0.5btu/lb\"", "enthalpy_deadband = \"1btu/lb\"", {"3.2"},
+      {"enthalpy_limit = \"27.5btu/lb\"",
+       "enthalpy_limit = \"26btu/lb\"",
+       {"3.2"},
+       "above 26 Btu/lb"},
+      {"enthalpy_deadband = \"0.5btu/lb\"",
+       "enthalpy_deadband = \"1btu/lb\"",
+       {"3.2"},
        "a deadband of 1 Btu/lb"},
       {"dry_bulb_limit = \"72F\"", "dry_bulb_limit = \"70F\"", {"3.3"}, "above 70 °F"},
       {"dry_bulb_deadband = \"3F\"", "dry_bulb_deadband = \"1F\"", {"3.3"}, "a deadband of 1 °F"},
-      {"min_outdoor_air = \"18%\"", "min_outdoor_air = \"25%\"", {"5.1"}, "minimum of 25% outdoor air"},
+      {"min_outdoor_air = \"18%\"",
+       "min_outdoor_air = \"25%\"",
+       {"5.1"},
+       "minimum of 25% outdoor air"},
       {"max_outdoor_air = \"90%\"", "max_outdoor_air = \"80%\"", {"4.2"}, "no further than 80%"},
-      {"supply_airflow = \"9000cfm\"", "supply_airflow = \"10000cfm\"", {"5.1"}, "airflow of 10,000 cfm"},
+      {"supply_airflow = \"9000cfm\"",
+       "supply_airflow = \"10000cfm\"",
+       {"5.1"},
+       "airflow of 10,000 cfm"},
       // The supply setpoint and the fan heat fix the mixed-air setpoint, and the low-limit is
       // chosen below it: both paragraphs state a figure derived from them.
-      {"supply_air_temp = \"56F\"", "supply_air_temp = \"55F\"", {"4.1", "6.1"}, "setpoint of 55 °F"},
+      {"supply_air_temp = \"56F\"",
+       "supply_air_temp = \"55F\"",
+       {"4.1", "6.1"},
+       "setpoint of 55 °F"},
       {"fan_heat = \"2F\"", "fan_heat = \"1F\"", {"4.1", "6.1"}, "less 1 °F"},
       {"economizer = \"integrated\"", "economizer = \"non-integrated\"", {"4.3"}, "Non-integrated"},
-      {"fan_position = \"draw-through\"", "fan_position = \"blow-through\"", {"4.1"}, "blow-through"},
+      {"fan_position = \"draw-through\"",
+       "fan_position = \"blow-through\"",
+       {"4.1"},
+       "blow-through"},
   };
   for (const auto& c : changes) {
     CAPTURE(c.to);
@@ -302,22 +319,24 @@ TEST_CASE("changing one value changes exactly the paragraph that states it") {
   }
 
   SUBCASE("with a code named, a limit change still touches only its condition") {
-    const std::string coded =
-        replace_once(kUnit, "elevation = \"300ft\"",
-                     "elevation = \"300ft\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"5A\"");
+    const std::string coded = replace_once(
+        kUnit, "elevation = \"300ft\"",
+        "elevation = \"300ft\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"5A\"");
     const auto a = build(coded, System::ip).doc;
-    const auto b2 = build(replace_once(coded, "dry_bulb_limit = \"72F\"", "dry_bulb_limit = \"76F\""),
-                          System::ip)
-                        .doc;
+    const auto b2 =
+        build(replace_once(coded, "dry_bulb_limit = \"72F\"", "dry_bulb_limit = \"76F\""),
+              System::ip)
+            .doc;
     CHECK(changed(a, b2) == std::set<std::string>{"3.3"});
   }
 }
 
 TEST_CASE("a low-limit that would meet the freeze figure is flagged") {
   // 42 °F supply − 2 °F fan heat = 40 °F mixed air; 3 °F below is 37 °F, under 38 °F.
-  const auto low = build(replace_once(kUnit, "supply_air_temp = \"56F\"", "supply_air_temp = \"42F\""),
-                         System::ip)
-                       .doc;
+  const auto low =
+      build(replace_once(kUnit, "supply_air_temp = \"56F\"", "supply_air_temp = \"42F\""),
+            System::ip)
+          .doc;
   CHECK(contains(text_of(low, "6.1"), "falls below 37 °F"));
   CHECK(contains(text_of(low, "6.1"), "not above the 38 °F common-practice figure"));
   CHECK(!contains(text_of(build(kUnit, System::ip).doc, "6.1"), "common-practice figure"));
@@ -328,14 +347,15 @@ TEST_CASE("each preset's high-limit paragraphs state its conditions") {
   s.dry_bulb_limit_c = units::celsius_from_fahrenheit(70);
   s.enthalpy_limit_kj_per_kg = units::enthalpy_si_from_ip(27);
   s.dew_point_limit_c = units::celsius_from_fahrenheit(54);
-  s.dry_bulb_offset_k = -2.0 / 1.8;  // −2 °F
+  s.dry_bulb_offset_k = -2.0 / 1.8;            // −2 °F
   s.enthalpy_offset_kj_per_kg = -1.0 * 2.326;  // −1 Btu/lb (a difference: no datum)
   s.dry_bulb_deadband_k = 1.0 / 1.8;
   s.enthalpy_deadband_kj_per_kg = 0.0;
   s.dew_point_deadband_k = 2.0 / 1.8;
 
-  const std::string db = "outdoor-air dry-bulb temperature rises above 70 °F. Release this "
-                         "lockout only when it falls below 69 °F, a deadband of 1 °F.";
+  const std::string db =
+      "outdoor-air dry-bulb temperature rises above 70 °F. Release this "
+      "lockout only when it falls below 69 °F, a deadband of 1 °F.";
   const std::map<std::string, std::vector<std::string>> expected = {
       {"fixed-dry-bulb", {db}},
       {"differential-dry-bulb",
@@ -368,8 +388,8 @@ TEST_CASE("each preset's high-limit paragraphs state its conditions") {
     CHECK(contains(text_of(d, "3.1"), fmt::format("of the {} type", p.name)));
     for (std::size_t i = 0; i < want.size(); ++i) {
       const std::string& para = text_of(d, fmt::format("3.{}", i + 2));
-      CHECK(contains(para, fmt::format("Condition {}: lock out the economizer when the {}", i + 1,
-                                       want[i])));
+      CHECK(contains(
+          para, fmt::format("Condition {}: lock out the economizer when the {}", i + 1, want[i])));
     }
     CHECK(contains(text_of(d, fmt::format("3.{}", want.size() + 2)), "At the limit"));
     // The sensors follow the quantities the conditions read.
@@ -383,9 +403,9 @@ TEST_CASE("each preset's high-limit paragraphs state its conditions") {
 }
 
 TEST_CASE("each setpoint carries its basis") {
-  const std::string coded =
-      replace_once(kUnit, "elevation = \"300ft\"",
-                   "elevation = \"300ft\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"5A\"");
+  const std::string coded = replace_once(
+      kUnit, "elevation = \"300ft\"",
+      "elevation = \"300ft\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"5A\"");
   SUBCASE("no code, no annual run: design choice") {
     const auto d = build(kUnit, System::ip).doc;
     CHECK(contains(text_of(d, "3.2"), "Basis: design choice; the unit file names no energy code"));
@@ -401,8 +421,10 @@ TEST_CASE("each setpoint carries its basis") {
     CHECK(contains(text_of(d, "3.1"), "from memory"));
     CHECK(contains(text_of(d, "3.2"), "does not meet that code as written"));
     CHECK(contains(text_of(d, "3.2"), "below it, so the economizer would shut off earlier"));
-    CHECK(contains(text_of(d, "3.3"), "requires, for this control type, 75 °F; this setpoint is 3 °F below"));
-    CHECK(contains(text_of(d, "4.3"), "6.5.1.3, which requires an integrated economizer; this unit meets it"));
+    CHECK(contains(text_of(d, "3.3"),
+                   "requires, for this control type, 75 °F; this setpoint is 3 °F below"));
+    CHECK(contains(text_of(d, "4.3"),
+                   "6.5.1.3, which requires an integrated economizer; this unit meets it"));
     const auto ok = build(replace_once(replace_once(coded, "\"27.5btu/lb\"", "\"28btu/lb\""),
                                        "\"72F\"", "\"75F\""),
                           System::ip)
@@ -413,9 +435,11 @@ TEST_CASE("each setpoint carries its basis") {
   SUBCASE("a type the zone does not allow") {
     // 90.1-2019 zone 3A (shipped table, from memory): differential dry-bulb not allowed.
     const std::string in3a = replace_once(coded, "climate_zone = \"5A\"", "climate_zone = \"3A\"");
-    const std::string diff = in3a + "\n[[strategy]]\nname = \"diff\"\npreset = \"differential-dry-bulb\"\n";
+    const std::string diff =
+        in3a + "\n[[strategy]]\nname = \"diff\"\npreset = \"differential-dry-bulb\"\n";
     const auto d = build(diff, System::ip, "diff").doc;
-    CHECK(contains(text_of(d, "3.1"), "does not allow this control type (differential-dry-bulb) in climate zone 3A"));
+    CHECK(contains(text_of(d, "3.1"),
+                   "does not allow this control type (differential-dry-bulb) in climate zone 3A"));
     CHECK(contains(text_of(d, "3.2"), "Basis: design choice; the control type is not allowed"));
   }
   SUBCASE("annual results: rank and shortfall") {
@@ -448,8 +472,9 @@ TEST_CASE("each setpoint carries its basis") {
                    "before adopting it."));
     std::swap(y.strategies[0], y.strategies[1]);
     const auto first = build(kUnit, System::ip, {}, &a).doc;
-    CHECK(contains(text_of(first, "3.2"), "The annual evaluation of paragraph 3.5 supports it: this "
-                                          "strategy ranked first of the 2 evaluated."));
+    CHECK(contains(text_of(first, "3.2"),
+                   "The annual evaluation of paragraph 3.5 supports it: this "
+                   "strategy ranked first of the 2 evaluated."));
     CHECK(contains(text_of(first, "3.5"), "ranked 1 of the 2 strategies"));
     CHECK(!contains(text_of(first, "3.5"), "The best strategy evaluated"));
     // A strategy missing from the results it would cite is refused.
@@ -461,13 +486,14 @@ TEST_CASE("each setpoint carries its basis") {
 TEST_CASE("sensor accuracies follow the unit's [sensors] table") {
   const auto typical = build(kUnit, System::ip).doc;
   CHECK(contains(seq::to_text(typical), "a typical commercial figure, common practice"));
-  const auto given = build(kUnit + "\n[sensors]\noutdoor_dry_bulb = \"0.5F\"\noutdoor_rh = \"3%\"\n",
-                           System::ip)
-                         .doc;
+  const auto given =
+      build(kUnit + "\n[sensors]\noutdoor_dry_bulb = \"0.5F\"\noutdoor_rh = \"3%\"\n", System::ip)
+          .doc;
   const std::string t = seq::to_markdown(given);
   CHECK(contains(t, "Outdoor-air temperature: "));
-  CHECK(contains(t, "accuracy ±0.5 °F or better, the figure the sensor-error study assumes (from "
-                    "the unit file's [sensors] table)"));
+  CHECK(contains(t,
+                 "accuracy ±0.5 °F or better, the figure the sensor-error study assumes (from "
+                 "the unit file's [sensors] table)"));
   CHECK(contains(t, "accuracy ±3% RH or better"));
   // The pressure enthalpy is computed at: standard pressure at 300 ft (eq. 3), about 14.54 psia.
   CHECK(contains(t, "design pressure of about 14.54 psia"));
@@ -479,14 +505,16 @@ TEST_CASE("cross-references point at paragraphs that exist") {
     const std::string all = seq::to_markdown(d);
     const std::regex ref(R"(paragraph (\d+\.\d+))");
     int refs = 0;
-    for (auto it = std::sregex_iterator(all.begin(), all.end(), ref); it != std::sregex_iterator(); ++it) {
+    for (auto it = std::sregex_iterator(all.begin(), all.end(), ref); it != std::sregex_iterator();
+         ++it) {
       CAPTURE((*it)[1].str());
       CHECK(d.find((*it)[1].str()) != nullptr);
       ++refs;
     }
     CHECK(refs > 10);
     const std::regex sec(R"(section (\d+))");
-    for (auto it = std::sregex_iterator(all.begin(), all.end(), sec); it != std::sregex_iterator(); ++it)
+    for (auto it = std::sregex_iterator(all.begin(), all.end(), sec); it != std::sregex_iterator();
+         ++it)
       CHECK(std::stoi((*it)[1].str()) <= static_cast<int>(d.sections.size()));
   }
 }
@@ -511,7 +539,8 @@ TEST_CASE("the eight sections come in a fixed order, each numbered from 1") {
   }
 }
 
-TEST_CASE("paragraphs cited before the annual evaluation is written name it, for any condition count") {
+TEST_CASE(
+    "paragraphs cited before the annual evaluation is written name it, for any condition count") {
   // Section 4 cites the annual paragraph of section 3, whose number depends on how many
   // conditions the strategy has: one strategy of each count.
   limitline::annual::YearResult y;
@@ -520,8 +549,8 @@ TEST_CASE("paragraphs cited before the annual evaluation is written name it, for
   one.name = "plain dry-bulb";
   y.strategies = {two, one};
   const seq::AnnualSupport a{&y, "invented.csv"};
-  for (const auto& [strategy, conditions] :
-       std::vector<std::pair<std::string, std::size_t>>{{"enthalpy and dry-bulb", 2}, {"plain dry-bulb", 1}}) {
+  for (const auto& [strategy, conditions] : std::vector<std::pair<std::string, std::size_t>>{
+           {"enthalpy and dry-bulb", 2}, {"plain dry-bulb", 1}}) {
     CAPTURE(strategy);
     const auto d = build(kUnit, System::ip, strategy, &a).doc;
     const seq::Section& high_limit = d.sections.at(2);
@@ -531,7 +560,8 @@ TEST_CASE("paragraphs cited before the annual evaluation is written name it, for
     const std::string all = seq::to_markdown(d);
     const std::regex cite(R"(annual evaluation of paragraph (\d+\.\d+))");
     int cites = 0;
-    for (auto it = std::sregex_iterator(all.begin(), all.end(), cite); it != std::sregex_iterator(); ++it) {
+    for (auto it = std::sregex_iterator(all.begin(), all.end(), cite); it != std::sregex_iterator();
+         ++it) {
       CHECK((*it)[1].str() == last);
       ++cites;
     }
@@ -590,8 +620,9 @@ TEST_CASE("the command: deterministic output, formats, strategies") {
   REQUIRE(md.rc == 0);
   CHECK(md.out.rfind("# Economizer sequence of operation", 0) == 0);
   // 68 °F is 20 °C exactly.
-  CHECK(contains(md.out, "**3.2** Condition 1: lock out the economizer when the outdoor-air "
-                         "dry-bulb temperature rises above 20 °C. Release it as soon"));
+  CHECK(contains(md.out,
+                 "**3.2** Condition 1: lock out the economizer when the outdoor-air "
+                 "dry-bulb temperature rises above 20 °C. Release it as soon"));
 
   // The embedded demo with its year: the same bytes twice, and the annual paragraph.
   const CliRun y1 = run({"--with-year"});

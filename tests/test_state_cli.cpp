@@ -18,20 +18,30 @@ using limitline::test::scratch_dir;
 
 namespace {
 
-const std::vector<std::string> kSiKeys = {
-    "dry_bulb_c",         "wet_bulb_c",
-    "dew_point_c",        "relative_humidity",
-    "humidity_ratio",     "enthalpy_kj_per_kg",
-    "specific_volume_m3_per_kg", "density_kg_per_m3",
-    "vapor_pressure_kpa", "pressure_kpa",
-    "saturation_humidity_ratio", "degree_of_saturation"};
-const std::vector<std::string> kIpKeys = {
-    "dry_bulb_f",          "wet_bulb_f",
-    "dew_point_f",         "relative_humidity",
-    "humidity_ratio",      "enthalpy_btu_per_lb",
-    "specific_volume_ft3_per_lb", "density_lb_per_ft3",
-    "vapor_pressure_psia", "pressure_psia",
-    "saturation_humidity_ratio", "degree_of_saturation"};
+const std::vector<std::string> kSiKeys = {"dry_bulb_c",
+                                          "wet_bulb_c",
+                                          "dew_point_c",
+                                          "relative_humidity",
+                                          "humidity_ratio",
+                                          "enthalpy_kj_per_kg",
+                                          "specific_volume_m3_per_kg",
+                                          "density_kg_per_m3",
+                                          "vapor_pressure_kpa",
+                                          "pressure_kpa",
+                                          "saturation_humidity_ratio",
+                                          "degree_of_saturation"};
+const std::vector<std::string> kIpKeys = {"dry_bulb_f",
+                                          "wet_bulb_f",
+                                          "dew_point_f",
+                                          "relative_humidity",
+                                          "humidity_ratio",
+                                          "enthalpy_btu_per_lb",
+                                          "specific_volume_ft3_per_lb",
+                                          "density_lb_per_ft3",
+                                          "vapor_pressure_psia",
+                                          "pressure_psia",
+                                          "saturation_humidity_ratio",
+                                          "degree_of_saturation"};
 
 // The flat JSON object `state --format json` prints: every key with its number, in order.
 std::vector<std::pair<std::string, double>> json_numbers(const std::string& text) {
@@ -88,9 +98,10 @@ void check_rows_then_error(const limitline::test::CliRun& r, std::size_t good_ro
   CHECK(r.rc == 2);
   const auto out = lines(r.out);
   REQUIRE(out.size() == good_rows + 1);
-  CHECK(out[0] == "dry_bulb_f,wet_bulb_f,dew_point_f,relative_humidity,humidity_ratio,enthalpy_btu_per_lb,"
-                  "specific_volume_ft3_per_lb,density_lb_per_ft3,vapor_pressure_psia,pressure_psia,"
-                  "saturation_humidity_ratio,degree_of_saturation");
+  CHECK(out[0] ==
+        "dry_bulb_f,wet_bulb_f,dew_point_f,relative_humidity,humidity_ratio,enthalpy_btu_per_lb,"
+        "specific_volume_ft3_per_lb,density_lb_per_ft3,vapor_pressure_psia,pressure_psia,"
+        "saturation_humidity_ratio,degree_of_saturation");
   CHECK(r.out.back() == '\n');
   REQUIRE(!r.err.empty());
   CHECK(r.err.find('\n') == r.err.size() - 1);
@@ -102,10 +113,10 @@ TEST_CASE("text output lists every property with its unit") {
   const auto r = state({"--dry-bulb", "75F", "--rh", "50%"});
   REQUIRE(r.rc == 0);
   CHECK(r.err.empty());
-  for (const char* label : {"Dry-bulb", "Wet-bulb", "Dew point", "Relative humidity",
-                            "Humidity ratio", "Enthalpy", "Specific volume", "Density",
-                            "Vapour pressure", "Pressure", "Saturation humidity ratio",
-                            "Degree of saturation"})
+  for (const char* label :
+       {"Dry-bulb", "Wet-bulb", "Dew point", "Relative humidity", "Humidity ratio", "Enthalpy",
+        "Specific volume", "Density", "Vapour pressure", "Pressure", "Saturation humidity ratio",
+        "Degree of saturation"})
     CHECK_MESSAGE(contains(r.out, label), label);
   CHECK(contains(r.out, "75.0 °F"));
   CHECK(contains(r.out, "50.0%"));
@@ -120,10 +131,10 @@ TEST_CASE("text output lists every property with its unit") {
 }
 
 TEST_CASE("JSON carries every documented key, for si and for ip") {
-  for (const auto& [units, keys] : {std::pair{std::string("si"), kSiKeys},
-                                    std::pair{std::string("ip"), kIpKeys}}) {
-    const auto r = state({"--dry-bulb", "75F", "--rh", "50%", "--units", units, "--format",
-                          "json"});
+  for (const auto& [units, keys] :
+       {std::pair{std::string("si"), kSiKeys}, std::pair{std::string("ip"), kIpKeys}}) {
+    const auto r =
+        state({"--dry-bulb", "75F", "--rh", "50%", "--units", units, "--format", "json"});
     INFO(units, ": ", r.out);
     REQUIRE(r.rc == 0);
     const auto members = json_numbers(r.out);
@@ -154,8 +165,8 @@ TEST_CASE("JSON values: the handbook example and the 90.1 enthalpy facts") {
   for (const auto& [elevation, h] : {std::pair{"0ft", 28.1}, std::pair{"6000ft", 30.7}}) {
     // 75 °F / 50 %: 28.1 Btu/lb at sea level (psychrometric chart), about 30.7 Btu/lb at about
     // 6000 ft (ASHRAE 90.1 Table 6.5.1.1.3 footnote); both from memory.
-    const auto r = state({"--dry-bulb", "75", "--rh", "50", "--elevation", elevation,
-                          "--format", "json"});
+    const auto r =
+        state({"--dry-bulb", "75", "--rh", "50", "--elevation", elevation, "--format", "json"});
     REQUIRE(r.rc == 0);
     std::map<std::string, double> v;
     for (const auto& [k, x] : json_numbers(r.out)) v[k] = x;
@@ -192,8 +203,8 @@ TEST_CASE("CSV: the JSON keys as header, one row, the same numbers") {
 
 TEST_CASE("every humidity input gives the same state") {
   std::map<std::string, double> ref;
-  const auto base = state({"--dry-bulb", "24C", "--rh", "45%", "--units", "si", "--format",
-                           "json"});
+  const auto base =
+      state({"--dry-bulb", "24C", "--rh", "45%", "--units", "si", "--format", "json"});
   REQUIRE(base.rc == 0);
   for (const auto& [k, x] : json_numbers(base.out)) ref[k] = x;
   const std::pair<const char*, std::string> inputs[] = {
@@ -202,8 +213,7 @@ TEST_CASE("every humidity input gives the same state") {
       {"--humidity-ratio", number(ref["humidity_ratio"])},
       {"--enthalpy", number(ref["enthalpy_kj_per_kg"]) + "kJ/kg"}};
   for (const auto& [option, value] : inputs) {
-    const auto r = state({"--dry-bulb", "24C", option, value, "--units", "si", "--format",
-                          "json"});
+    const auto r = state({"--dry-bulb", "24C", option, value, "--units", "si", "--format", "json"});
     INFO(option, " ", value, "\n", r.err);
     REQUIRE(r.rc == 0);
     std::map<std::string, double> v;
@@ -326,8 +336,7 @@ TEST_CASE("bad input: usage errors exit 1, impossible values exit 2, one line ea
     check_one_line_error(state({"--dry-bulb", "75F", "--rh", "50%", "--colour"}), 1);
     check_one_line_error(state({"--dry-bulb", "75F", "--rh", "50%", "--units", "metric"}), 1);
     check_one_line_error(
-        state({"--dry-bulb", "75F", "--rh", "50%", "--pressure", "14.7psia", "--elevation",
-               "0ft"}),
+        state({"--dry-bulb", "75F", "--rh", "50%", "--pressure", "14.7psia", "--elevation", "0ft"}),
         1);
   }
   SUBCASE("RH 120 %") {
@@ -382,9 +391,9 @@ TEST_CASE("bad input: usage errors exit 1, impossible values exit 2, one line ea
 TEST_CASE("help exits 0 and shows the options") {
   const auto r = state({"--help"});
   CHECK(r.rc == 0);
-  for (const char* o : {"--dry-bulb", "--rh", "--wet-bulb", "--dew-point", "--humidity-ratio",
-                        "--enthalpy", "--elevation", "--pressure", "--batch", "--units",
-                        "--format"})
+  for (const char* o :
+       {"--dry-bulb", "--rh", "--wet-bulb", "--dew-point", "--humidity-ratio", "--enthalpy",
+        "--elevation", "--pressure", "--batch", "--units", "--format"})
     CHECK_MESSAGE(contains(r.out, o), o);
 }
 
@@ -398,16 +407,21 @@ TEST_CASE("batch mode keeps every good row before a bad one: 4,999 rows, then th
   CHECK(contains(r.err, file + ":5001"));
 }
 
-TEST_CASE("batch mode reads a UTF-8 byte-order mark and CR-only line endings like the other readers") {
+TEST_CASE(
+    "batch mode reads a UTF-8 byte-order mark and CR-only line endings like the other readers") {
   const auto plain = state({"--batch", write_file("plain.csv", "dry_bulb,rh\n75,50\n60,80\n")});
   REQUIRE(plain.rc == 0);
-  const auto bom = state({"--batch", write_file("bom.csv", "\xEF\xBB\xBF" "dry_bulb,rh\n75,50\n60,80\n")});
+  const auto bom = state({"--batch", write_file("bom.csv",
+                                                "\xEF\xBB\xBF"
+                                                "dry_bulb,rh\n75,50\n60,80\n")});
   CHECK(bom.rc == 0);
   CHECK(bom.out == plain.out);
   const auto cr = state({"--batch", write_file("cr.csv", "dry_bulb,rh\r75,50\r60,80\r")});
   CHECK(cr.rc == 0);
   CHECK(cr.out == plain.out);
-  const auto crlf = state({"--batch", write_file("crlf.csv", "\xEF\xBB\xBF" "dry_bulb,rh\r\n75,50\r\n60,80")});
+  const auto crlf = state({"--batch", write_file("crlf.csv",
+                                                 "\xEF\xBB\xBF"
+                                                 "dry_bulb,rh\r\n75,50\r\n60,80")});
   CHECK(crlf.rc == 0);
   CHECK(crlf.out == plain.out);
   const auto cr_bad = state({"--batch", write_file("cr-bad.csv", "dry_bulb,rh\r75,50\r60,180\r")});

@@ -49,7 +49,8 @@ TEST_CASE("lines: LF, CR LF and a lone CR end lines, a byte-order mark is droppe
   CHECK(texts(ts::split_lines("a\nb\n")) == V{"a", "b"});
   CHECK(texts(ts::split_lines("a\r\nb\r\n")) == V{"a", "b"});
   CHECK(texts(ts::split_lines("a\rb\r")) == V{"a", "b"});  // a text without LF: old Mac exports
-  CHECK(texts(ts::split_lines("\xEF\xBB\xBF" "a\nb")) == V{"a", "b"});
+  CHECK(texts(ts::split_lines("\xEF\xBB\xBF"
+                              "a\nb")) == V{"a", "b"});
   // In a text that has LFs a stray CR inside a line is text, not a line end.
   CHECK(texts(ts::split_lines("a\rx\nb\n")) == V{"a\rx", "b"});
   CHECK(texts(ts::split_lines("a\n\nb")) == V{"a", "", "b"});
@@ -65,7 +66,9 @@ TEST_CASE("lines: LF, CR LF and a lone CR end lines, a byte-order mark is droppe
 TEST_CASE("lines: text arriving in pieces is cut as the whole text, wherever a piece ends") {
   using V = std::vector<std::string>;
   // Every cut position, through a byte-order mark and between the CR and LF of a line end.
-  const std::string text = "\xEF\xBB\xBF" "head\r\nrow 1\rrow 2\nlast";
+  const std::string text =
+      "\xEF\xBB\xBF"
+      "head\r\nrow 1\rrow 2\nlast";
   const V whole{"head", "row 1", "row 2", "last"};
   for (std::size_t at = 0; at <= text.size(); ++at) {
     INFO("cut at " << at);

@@ -17,7 +17,8 @@ using trend::Channel;
 
 namespace {
 
-bool throws_with(const std::string& text, const std::string& needle, const trend::ReadOptions& o = {}) {
+bool throws_with(const std::string& text, const std::string& needle,
+                 const trend::ReadOptions& o = {}) {
   try {
     trend::parse_trend(text, "log.csv", o);
   } catch (const InputError& e) {
@@ -30,7 +31,8 @@ bool throws_with(const std::string& text, const std::string& needle, const trend
   return false;
 }
 
-const std::string kHeader = "Timestamp,OAT (F),RA Temp (°F),MA Temp (°F),OA Damper Cmd (%),SF Status\n";
+const std::string kHeader =
+    "Timestamp,OAT (F),RA Temp (°F),MA Temp (°F),OA Damper Cmd (%),SF Status\n";
 
 }  // namespace
 
@@ -48,7 +50,8 @@ TEST_CASE("time stamps: ISO 8601 and building-automation forms") {
   CHECK(trend::parse_timestamp("2026/05/04 13:15", "t") == t0 + 13 * 3600 + 15 * 60);
   CHECK(trend::format_timestamp(t0 + 13 * 3600 + 15 * 60) == "2026-05-04 13:15");
   // 2024 is a leap year (Gregorian rule).
-  CHECK(trend::parse_timestamp("2024-03-01", "t") - trend::parse_timestamp("2024-02-28", "t") == 2 * 86400);
+  CHECK(trend::parse_timestamp("2024-03-01", "t") - trend::parse_timestamp("2024-02-28", "t") ==
+        2 * 86400);
   for (const char* bad : {"2026-02-30 00:00", "13/01/2026 00:00", "2026-05-04 25:00", "yesterday",
                           "05/04/2026 13:00 PM", "2026-05-04 10:00 later", "2026-05-04T10:00+99:99",
                           "2026-05-04T10:00+15:00"})
@@ -65,8 +68,9 @@ TEST_CASE("columns found from common header names, units from the header") {
       "2026-05-04,10:30,11.0,50,22.0,45,,13.0,20,true,0\n";
   const auto log = trend::parse_trend(text, "log.csv", {});
   REQUIRE(log.size() == 3);
-  for (Channel c : {Channel::outdoor_dry_bulb, Channel::outdoor_rh, Channel::return_dry_bulb, Channel::return_rh,
-                    Channel::mixed_air, Channel::supply_air, Channel::damper, Channel::fan, Channel::cooling})
+  for (Channel c : {Channel::outdoor_dry_bulb, Channel::outdoor_rh, Channel::return_dry_bulb,
+                    Channel::return_rh, Channel::mixed_air, Channel::supply_air, Channel::damper,
+                    Channel::fan, Channel::cooling})
     CHECK(log.has(c));
   CHECK(*log.sample(0)[Channel::outdoor_dry_bulb] == doctest::Approx(10.0));
   CHECK(*log.sample(0)[Channel::outdoor_rh] == doctest::Approx(0.5));
@@ -78,7 +82,8 @@ TEST_CASE("columns found from common header names, units from the header") {
 }
 
 TEST_CASE("°F read back to °C; bare temperatures take the --units system and say so") {
-  const std::string text = "Timestamp,OAT,RAT,MAT\n2026-05-04 10:00,50,72,68\n2026-05-04 10:15,50,72,68\n";
+  const std::string text =
+      "Timestamp,OAT,RAT,MAT\n2026-05-04 10:00,50,72,68\n2026-05-04 10:15,50,72,68\n";
   const auto log = trend::parse_trend(text, "log.csv", {});
   CHECK(*log.sample(0)[Channel::outdoor_dry_bulb] == doctest::Approx(10.0));
   CHECK(log.columns[0].note.find("°F") != std::string::npos);
@@ -110,17 +115,19 @@ TEST_CASE("irregular intervals: weights capped at twice the median, gaps reporte
 
 TEST_CASE("malformed logs: unsorted, duplicate stamps, unit mix-ups, bad cells") {
   SUBCASE("times going back") {
-    throws_with(kHeader + "2026-05-04 10:15,50,72,68,20,On\n2026-05-04 10:00,50,72,68,20,On\n",
-                "log.csv:3: time 2026-05-04 10:00 is before the previous sample's 2026-05-04 10:15");
+    throws_with(
+        kHeader + "2026-05-04 10:15,50,72,68,20,On\n2026-05-04 10:00,50,72,68,20,On\n",
+        "log.csv:3: time 2026-05-04 10:00 is before the previous sample's 2026-05-04 10:15");
   }
   SUBCASE("the same stamp with different readings") {
     throws_with(kHeader + "2026-05-04 10:00,50,72,68,20,On\n2026-05-04 10:00,51,72,68,20,On\n",
                 "log.csv:3: time 2026-05-04 10:00 repeats line 2 with different readings");
   }
   SUBCASE("exact repeats are dropped and counted") {
-    const auto log = trend::parse_trend(kHeader + "2026-05-04 10:00,50,72,68,20,On\n"
-                                                  "05/04/2026 10:00,50,72,68,20,On\n"
-                                                  "2026-05-04 10:15,50,72,68,20,On\n",
+    const auto log = trend::parse_trend(kHeader +
+                                            "2026-05-04 10:00,50,72,68,20,On\n"
+                                            "05/04/2026 10:00,50,72,68,20,On\n"
+                                            "2026-05-04 10:15,50,72,68,20,On\n",
                                         "log.csv", {});
     CHECK(log.size() == 2);
     CHECK(log.coverage.duplicate_rows == 1);
@@ -146,14 +153,18 @@ TEST_CASE("malformed logs: unsorted, duplicate stamps, unit mix-ups, bad cells")
     throws_with(kHeader + "2026-05-04 10:00,5O,72,68,20,On\n2026-05-04 10:15,50,72,68,20,On\n",
                 "log.csv:2: outdoor-dry-bulb '5O'");
   }
-  SUBCASE("no time column") { throws_with("OAT,RAT\n50,72\n", "no header line with a time column"); }
+  SUBCASE("no time column") {
+    throws_with("OAT,RAT\n50,72\n", "no header line with a time column");
+  }
   SUBCASE("two columns for one quantity") {
-    throws_with("Timestamp,OAT,OA Temp\n2026-05-04 10:00,50,50\n", "both look like outdoor-dry-bulb");
+    throws_with("Timestamp,OAT,OA Temp\n2026-05-04 10:00,50,50\n",
+                "both look like outdoor-dry-bulb");
   }
 }
 
 TEST_CASE("--column overrides the header and its unit") {
-  const std::string text = "Timestamp,AHU1-T1,RAT (°F)\n2026-05-04 10:00,10,72\n2026-05-04 10:15,11,72\n";
+  const std::string text =
+      "Timestamp,AHU1-T1,RAT (°F)\n2026-05-04 10:00,10,72\n2026-05-04 10:15,11,72\n";
   trend::ReadOptions o;
   o.columns.push_back(trend::parse_column_override("outdoor_dry_bulb=AHU1-T1:C", "--column"));
   const auto log = trend::parse_trend(text, "log.csv", o);
@@ -164,7 +175,8 @@ TEST_CASE("--column overrides the header and its unit") {
   CHECK_THROWS_WITH_AS(trend::parse_column_override("mixed-air=MAT:K", "--column"),
                        doctest::Contains("F, C, %, fraction"), InputError);
   o.columns = {trend::parse_column_override("mixed-air=MAT", "--column")};
-  CHECK_THROWS_WITH_AS(trend::parse_trend(text, "log.csv", o), doctest::Contains("no column 'MAT'"), InputError);
+  CHECK_THROWS_WITH_AS(trend::parse_trend(text, "log.csv", o), doctest::Contains("no column 'MAT'"),
+                       InputError);
 }
 
 TEST_CASE("a row with an extra or a missing field is refused, naming file and line") {
@@ -175,14 +187,16 @@ TEST_CASE("a row with an extra or a missing field is refused, naming file and li
   throws_with(kHeader + "2026-05-04 10:00,50,72,68,20,On\n2026-05-04 10:15,50,72,68,20\n",
               "log.csv:3: the row has 5 fields but the header (line 1) has 6");
   // Empty fields after the last column (a trailing delimiter) are no field.
-  const auto log = trend::parse_trend(kHeader + "2026-05-04 10:00,50,72,68,20,On,\n"
-                                                "2026-05-04 10:15,50,72,68,20,On,,\n",
+  const auto log = trend::parse_trend(kHeader +
+                                          "2026-05-04 10:00,50,72,68,20,On,\n"
+                                          "2026-05-04 10:15,50,72,68,20,On,,\n",
                                       "log.csv", {});
   CHECK(log.size() == 2);
 }
 
 TEST_CASE("line endings LF, CR LF and CR alone, and a UTF-8 byte-order mark, read the same") {
-  const std::string lf = "# export\n" + kHeader + "2026-05-04 10:00,50,72,68,20,On\n\n"
+  const std::string lf = "# export\n" + kHeader +
+                         "2026-05-04 10:00,50,72,68,20,On\n\n"
                          "2026-05-04 10:15,51,72,68,20,Off\n2026-05-04 10:30,52,72,68,20,On";
   auto with = [&](const std::string& eol) {
     std::string out;
@@ -191,16 +205,19 @@ TEST_CASE("line endings LF, CR LF and CR alone, and a UTF-8 byte-order mark, rea
   };
   const auto ref = trend::parse_trend(lf, "log.csv", {});
   REQUIRE(ref.size() == 3);
-  for (const std::string& text : {with("\r\n"), with("\r"), "\xEF\xBB\xBF" + lf, "\xEF\xBB\xBF" + with("\r")}) {
+  for (const std::string& text :
+       {with("\r\n"), with("\r"), "\xEF\xBB\xBF" + lf, "\xEF\xBB\xBF" + with("\r")}) {
     const auto log = trend::parse_trend(text, "log.csv", {});
     REQUIRE(log.size() == 3);
     CHECK(log.line == ref.line);  // line numbers count every line ending
     CHECK(log.time_s == ref.time_s);
-    CHECK(*log.value(Channel::outdoor_dry_bulb, 2) == doctest::Approx(*ref.value(Channel::outdoor_dry_bulb, 2)));
+    CHECK(*log.value(Channel::outdoor_dry_bulb, 2) ==
+          doctest::Approx(*ref.value(Channel::outdoor_dry_bulb, 2)));
     CHECK(*log.value(Channel::fan, 1) == 0.0);
   }
   // Errors name the right line whatever the ending.
-  throws_with(with("\r") + "\r2026-05-04 10:45,5O,72,68,20,On\r", "log.csv:7: outdoor-dry-bulb '5O'");
+  throws_with(with("\r") + "\r2026-05-04 10:45,5O,72,68,20,On\r",
+              "log.csv:7: outdoor-dry-bulb '5O'");
 }
 
 TEST_CASE("a log read from a file in pieces is the one read from memory") {
@@ -209,11 +226,13 @@ TEST_CASE("a log read from a file in pieces is the one read from memory") {
   const std::size_t piece = 1 << 16;
   std::string body;
   for (int i = 0; body.size() < 3 * piece; ++i)
-    body += fmt::format("2026-05-04 {:02}:{:02}:{:02},{},72,68,20,On\r\n", i / 3600 % 24, i / 60 % 60, i % 60, 40 + i % 20);
+    body += fmt::format("2026-05-04 {:02}:{:02}:{:02},{},72,68,20,On\r\n", i / 3600 % 24,
+                        i / 60 % 60, i % 60, 40 + i % 20);
   for (const bool lone_cr : {false, true}) {
     std::string text = kHeader + body;
     if (lone_cr)
-      for (std::size_t at = text.find("\r\n"); at != std::string::npos; at = text.find("\r\n", at)) text.erase(at + 1, 1);
+      for (std::size_t at = text.find("\r\n"); at != std::string::npos; at = text.find("\r\n", at))
+        text.erase(at + 1, 1);
     // Pad the first line so that a line ending falls across the first boundary: the CR as the
     // piece's last byte.
     const std::size_t cr = text.rfind('\r', piece - 1);
@@ -235,15 +254,18 @@ TEST_CASE("a log read from a file in pieces is the one read from memory") {
 TEST_CASE("offending values are echoed escaped and cut") {
   // A cell with a terminal escape and a newline-free 1,000-character value: the message stays
   // one readable line.
-  throws_with(kHeader + "2026-05-04 10:00,\x1b[31m50,72,68,20,On\n2026-05-04 10:15,50,72,68,20,On\n",
-              "'\\x1b[31m50'");
+  throws_with(
+      kHeader + "2026-05-04 10:00,\x1b[31m50,72,68,20,On\n2026-05-04 10:15,50,72,68,20,On\n",
+      "'\\x1b[31m50'");
   throws_with(kHeader + "2026-05-04 10:00,50,72,68,20," + std::string(1000, 'x') + "\n",
               "(1000 characters)");
-  throws_with(std::string("Timestamp,OAT\n") + "2026-05-04 10:00\x07,50\n", "'2026-05-04 10:00\\x07'");
+  throws_with(std::string("Timestamp,OAT\n") + "2026-05-04 10:00\x07,50\n",
+              "'2026-05-04 10:00\\x07'");
 }
 
 TEST_CASE("--max-gap must be a finite time up to a year") {
-  const std::string text = kHeader + "2026-05-04 10:00,50,72,68,20,On\n2026-05-04 10:15,50,72,68,20,On\n";
+  const std::string text =
+      kHeader + "2026-05-04 10:00,50,72,68,20,On\n2026-05-04 10:15,50,72,68,20,On\n";
   for (double bad : {0.0, -60.0, 400 * 86400.0, std::numeric_limits<double>::infinity(),
                      std::numeric_limits<double>::quiet_NaN()}) {
     trend::ReadOptions o;

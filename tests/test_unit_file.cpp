@@ -54,8 +54,7 @@ std::string replace(std::string text, const std::string& from, const std::string
 }
 
 // Parsing fails with a message that starts "unit.toml:LINE: KEY" and contains `detail`.
-void refuses(const std::string& text, int line, const std::string& key,
-             const std::string& detail) {
+void refuses(const std::string& text, int line, const std::string& key, const std::string& detail) {
   try {
     parse_unit_file(text, "unit.toml");
     FAIL("accepted; expected an error at line ", line, " for ", key);
@@ -213,10 +212,12 @@ outdoor_dry_bulb = "0.5F"
   // The raw tables keep their source, so their own layers can report file and line; a copy
   // of the unit file keeps it too.
   const toml::node* file = weather.get("file");
-  CHECK(limitline::detail::source_origin(file->source(), "weather.file") == "d.toml:9: weather.file");
+  CHECK(limitline::detail::source_origin(file->source(), "weather.file") ==
+        "d.toml:9: weather.file");
   const UnitFile copy = u;
   const toml::node* copied = limitline::detail::toml_table(*copy.weather).get("file");
-  CHECK(limitline::detail::source_origin(copied->source(), "weather.file") == "d.toml:9: weather.file");
+  CHECK(limitline::detail::source_origin(copied->source(), "weather.file") ==
+        "d.toml:9: weather.file");
 }
 
 TEST_CASE("TOML syntax errors name the file and line") {
@@ -243,10 +244,12 @@ TEST_CASE("unknown keys anywhere outside the raw tables are errors") {
           "allowed: name, elevation");
   refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\nlimit = \"70F\"\n", 20,
           "strategy[1].limit", "unknown key in [[strategy]]");
-  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"enthalpy\", "
-                  "limit = \"28btu/lb\", hysteresis = \"1btu/lb\" } ]\n",
+  refuses(kBase +
+              "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"enthalpy\", "
+              "limit = \"28btu/lb\", hysteresis = \"1btu/lb\" } ]\n",
           20, "strategy[1].conditions[1].hysteresis", "unknown key in a condition");
-  refuses(kBase + "[energy]\ncooling_cop = 3\n", 19, "energy.cooling_cop", "unknown key in [energy]");
+  refuses(kBase + "[energy]\ncooling_cop = 3\n", 19, "energy.cooling_cop",
+          "unknown key in [energy]");
 }
 
 TEST_CASE("a value of the wrong kind names the key and what was expected") {
@@ -262,8 +265,8 @@ TEST_CASE("a value of the wrong kind names the key and what was expected") {
           "air_handler.fan_position", "allowed: draw-through, blow-through");
   refuses(replace(kBase, "economizer = \"integrated\"", "economizer = 1"), 14,
           "air_handler.economizer", "must be a string");
-  refuses(replace(kBase, "elevation = \"850ft\"", "elevation = \"850psia\""), 3,
-          "site.elevation", "not a length");
+  refuses(replace(kBase, "elevation = \"850ft\"", "elevation = \"850psia\""), 3, "site.elevation",
+          "not a length");
   refuses("units = \"metric\"\n" + kBase, 1, "units", "allowed: ip, si");
 }
 
@@ -274,12 +277,11 @@ TEST_CASE("missing required keys are reported at their table") {
           "ventilation minimum");
   refuses(replace(kBase, "return_air_rh = \"50%\"\n", "\n"), 7, "air_handler.return_air_rh",
           "return-air humidity");
-  refuses(kBase + "[[strategy]]\nname = \"nothing\"\n", 18, "strategy[1].preset",
-          "give preset");
-  refuses(kBase + "[[strategy]]\nconditions = [ { quantity = \"enthalpy\", limit = 47 } ]\n",
-          18, "strategy[1].name", "needs a name");
-  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"dry-bulb\" } ]\n",
-          20, "strategy[1].conditions[1].limit", "needs its limit");
+  refuses(kBase + "[[strategy]]\nname = \"nothing\"\n", 18, "strategy[1].preset", "give preset");
+  refuses(kBase + "[[strategy]]\nconditions = [ { quantity = \"enthalpy\", limit = 47 } ]\n", 18,
+          "strategy[1].name", "needs a name");
+  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"dry-bulb\" } ]\n", 20,
+          "strategy[1].conditions[1].limit", "needs its limit");
   try {
     parse_unit_file("[site]\nname = \"x\"\n", "none.toml");
     FAIL("accepted a file without [air_handler]");
@@ -299,9 +301,11 @@ TEST_CASE("contradictory values are refused") {
           "air_handler.return_air_rh", "105.0% is outside the allowed range (0% to 100%)");
   refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_dew_point = \"80F\""), 17,
           "air_handler.return_air_dew_point", "80 °F is above the dry-bulb 75 °F");
-  refuses(replace(kBase, "return_air_rh = \"50%\"", "return_air_rh = \"50%\"\nreturn_air_dew_point = \"55F\""),
+  refuses(replace(kBase, "return_air_rh = \"50%\"",
+                  "return_air_rh = \"50%\"\nreturn_air_dew_point = \"55F\""),
           18, "air_handler.return_air_dew_point", "give one return-air humidity");
-  refuses(replace(kBase, "min_outdoor_air = \"25%\"", "min_outdoor_air = \"25%\"\nmin_outdoor_airflow = \"3000cfm\""),
+  refuses(replace(kBase, "min_outdoor_air = \"25%\"",
+                  "min_outdoor_air = \"25%\"\nmin_outdoor_airflow = \"3000cfm\""),
           13, "air_handler.min_outdoor_airflow", "not both");
   refuses(replace(kBase, "min_outdoor_air = \"25%\"", "min_outdoor_airflow = \"13000cfm\""), 12,
           "air_handler.min_outdoor_airflow", "up to supply_airflow 12000 cfm");
@@ -315,8 +319,7 @@ TEST_CASE("contradictory values are refused") {
           "air_handler.supply_airflow", "more than 0");
   refuses("units = \"si\"\n[site]\nunits = \"si\"\n[air_handler]\n", 3, "site.units",
           "already set");
-  refuses(kBase + "[energy]\ncooling_weight = 0\nheating_weight = 0\n", 18, "energy",
-          "both 0");
+  refuses(kBase + "[energy]\ncooling_weight = 0\nheating_weight = 0\n", 18, "energy", "both 0");
   refuses(kBase + "[energy]\nheating_weight = -1\n", 19, "energy.heating_weight",
           "outside the allowed range");
 }
@@ -332,24 +335,29 @@ name = "A"
 preset = "fixed-enthalpy"
 )";
   refuses(two, 24, "strategy[2].name", "'A' is already the name of strategy[1] (line 20)");
-  refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\n[[strategy]]\npreset = "
-                  "\"fixed-dry-bulb\"\ndry_bulb_limit = \"70F\"\n",
+  refuses(kBase +
+              "[[strategy]]\npreset = \"fixed-dry-bulb\"\n[[strategy]]\npreset = "
+              "\"fixed-dry-bulb\"\ndry_bulb_limit = \"70F\"\n",
           20, "strategy[2].name", "already the name of strategy[1]");
-  refuses(kBase + "[[strategy]]\nname = \"x\"\npreset = \"fixed-enthalpy\"\nconditions = [ { "
-                  "quantity = \"enthalpy\", limit = 47 } ]\n",
-          21, "strategy[1].conditions", "give preset or conditions, not both (preset is on line 20)");
+  refuses(kBase +
+              "[[strategy]]\nname = \"x\"\npreset = \"fixed-enthalpy\"\nconditions = [ { "
+              "quantity = \"enthalpy\", limit = 47 } ]\n",
+          21, "strategy[1].conditions",
+          "give preset or conditions, not both (preset is on line 20)");
   refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndew_point_limit = \"55F\"\n", 20,
           "strategy[1].dew_point_limit",
           "preset 'fixed-dry-bulb' does not use dew_point_limit (it takes: dry_bulb_limit, "
           "deadband, dry_bulb_deadband)");
   refuses(kBase + "[[strategy]]\npreset = \"differential-dry-bulb\"\ndry_bulb_limit = \"70F\"\n",
-          20, "strategy[1].dry_bulb_limit", "does not use dry_bulb_limit (it takes: dry_bulb_offset");
+          20, "strategy[1].dry_bulb_limit",
+          "does not use dry_bulb_limit (it takes: dry_bulb_offset");
   refuses(kBase + "[[strategy]]\npreset = \"fixed-enthalpy+dry-bulb\"\ndeadband = \"1F\"\n", 20,
           "strategy[1].deadband",
           "more than one quantity; give each its own deadband (dry_bulb_deadband, "
           "enthalpy_deadband)");
-  refuses(kBase + "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndeadband = \"1F\"\n"
-                  "dry_bulb_deadband = \"1F\"\n",
+  refuses(kBase +
+              "[[strategy]]\npreset = \"fixed-dry-bulb\"\ndeadband = \"1F\"\n"
+              "dry_bulb_deadband = \"1F\"\n",
           21, "strategy[1].dry_bulb_deadband", "give deadband or dry_bulb_deadband, not both");
   refuses(kBase + "[[strategy]]\npreset = \"fixed-enthalpy\"\ndeadband = \"1F\"\n", 20,
           "strategy[1].deadband", "not an enthalpy difference");
@@ -367,8 +375,8 @@ TEST_CASE("condition errors") {
   auto cond = [](const std::string& c) {
     return kBase + "[[strategy]]\nname = \"c\"\nconditions = [ " + c + " ]\n";
   };
-  refuses(cond("{ quantity = \"wet-bulb\", limit = 60 }"), 20,
-          "strategy[1].conditions[1].quantity", "allowed: dry-bulb, enthalpy, dew-point, humidity-ratio");
+  refuses(cond("{ quantity = \"wet-bulb\", limit = 60 }"), 20, "strategy[1].conditions[1].quantity",
+          "allowed: dry-bulb, enthalpy, dew-point, humidity-ratio");
   refuses(cond("{ quantity = \"enthalpy\", reference = \"outdoor\", limit = 28 }"), 20,
           "strategy[1].conditions[1].reference", "allowed: fixed, return");
   refuses(cond("{ quantity = \"enthalpy\", offset = \"1btu/lb\" }"), 20,
@@ -380,13 +388,15 @@ TEST_CASE("condition errors") {
           20, "strategy[1].conditions[2].limit", "not a temperature");
   refuses(cond("{ quantity = \"humidity-ratio\", limit = \"0.2\" }"), 20,
           "strategy[1].conditions[1].limit", "outside the allowed range");
-  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = []\n", 20,
-          "strategy[1].conditions", "non-empty");
-  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"dry-bulb\", limit = "
-                  "70 } ]\ndeadband = \"1F\"\n",
+  refuses(kBase + "[[strategy]]\nname = \"c\"\nconditions = []\n", 20, "strategy[1].conditions",
+          "non-empty");
+  refuses(kBase +
+              "[[strategy]]\nname = \"c\"\nconditions = [ { quantity = \"dry-bulb\", limit = "
+              "70 } ]\ndeadband = \"1F\"\n",
           21, "strategy[1].deadband", "give each condition its own deadband");
   // A name as it is spelled in TOML keys is accepted: dew_point = dew-point.
-  const UnitFile u = parse_unit_file(cond("{ quantity = \"dew_point\", limit = \"55F\" }"), "u.toml");
+  const UnitFile u =
+      parse_unit_file(cond("{ quantity = \"dew_point\", limit = \"55F\" }"), "u.toml");
   CHECK(u.strategies[0].conditions[0].quantity == hl::Quantity::dew_point);
 }
 
@@ -395,13 +405,14 @@ TEST_CASE("load_unit_file names a file it cannot open") {
     limitline::load_unit_file("/nonexistent/unit.toml");
     FAIL("opened a missing file");
   } catch (const InputError& e) {
-    CHECK(std::string(e.what()) == "/nonexistent/unit.toml: cannot open the unit file (No such file or directory)");
+    CHECK(std::string(e.what()) ==
+          "/nonexistent/unit.toml: cannot open the unit file (No such file or directory)");
   }
 }
 
 TEST_CASE("the example unit files all read") {
-  for (const char* name : {"office-humid-coast.toml", "lab-high-plateau.toml",
-                           "school-custom-conditions.toml"}) {
+  for (const char* name :
+       {"office-humid-coast.toml", "lab-high-plateau.toml", "school-custom-conditions.toml"}) {
     INFO(name);
     const UnitFile u =
         limitline::load_unit_file(std::string(LIMITLINE_SOURCE_DIR) + "/examples/" + name);
@@ -472,7 +483,8 @@ std::string si_base() {
 }
 }  // namespace
 
-TEST_CASE("a bare number plausible only in the other unit system is refused, naming both readings") {
+TEST_CASE(
+    "a bare number plausible only in the other unit system is refused, naming both readings") {
   // Return air 10–40 °C and supply setpoint 5–25 °C are common practice; 75 °F is 23.9 °C.
   refuses(replace(si_base(), "return_air_temp = \"75F\"", "return_air_temp = 75"), 17,
           "air_handler.return_air_temp",
@@ -482,17 +494,21 @@ TEST_CASE("a bare number plausible only in the other unit system is refused, nam
           "air_handler.supply_airflow", "if you meant 20000 cfm write \"20000cfm\"");
   // In an IP file "13" is 13 °F; the setpoint meant is 13 °C. The range is shown in °F.
   refuses(replace(kBase, "supply_air_temp = \"55F\"", "supply_air_temp = \"13\""), 9,
-          "air_handler.supply_air_temp", "13 in an IP file is 13 °F, outside the plausible range "
-                                         "of a supply-air setpoint (41 °F to 77 °F");
+          "air_handler.supply_air_temp",
+          "13 in an IP file is 13 °F, outside the plausible range "
+          "of a supply-air setpoint (41 °F to 77 °F");
   // A dry-bulb high-limit of 24 °F is no setting; 24 °C is (common practice: 65–75 °F).
   refuses(kBase + R"(
 [[strategy]]
 preset = "fixed-dry-bulb"
 dry_bulb_limit = 24
-)", 21, "strategy[1].dry_bulb_limit", "write \"24C\"");
+)",
+          21, "strategy[1].dry_bulb_limit", "write \"24C\"");
 }
 
-TEST_CASE("an implausible value written with its unit is kept, with a warning naming file, line and key") {
+TEST_CASE(
+    "an implausible value written with its unit is kept, with a warning naming file, line and "
+    "key") {
   const UnitFile u = parse_unit_file(
       replace(kBase, "return_air_temp = \"75F\"", "return_air_temp = \"45C\""), "unit.toml");
   CHECK(u.return_air.dry_bulb_c == 45.0);
@@ -533,7 +549,8 @@ TEST_CASE("thousands separators in quantities") {
 
 TEST_CASE("documented end points are inside, and a range error names the key's own line") {
   // fan_heat: 0 up to 20 K (36 °F); supply_air_temp: -40 °C to 60 °C (README).
-  UnitFile u = parse_unit_file(replace(kBase, "fan_heat = \"1.5F\"", "fan_heat = \"36F\""), "u.toml");
+  UnitFile u =
+      parse_unit_file(replace(kBase, "fan_heat = \"1.5F\"", "fan_heat = \"36F\""), "u.toml");
   CHECK(u.air_handler.fan_heat_k == 20.0);
   u = parse_unit_file(replace(kBase, "supply_air_temp = \"55F\"", "supply_air_temp = \"-40C\""),
                       "u.toml");
@@ -549,7 +566,8 @@ dry_bulb_limit = "140F"
 [[strategy]]
 preset = "differential-enthalpy"
 enthalpy_offset = "-35kJ/kg"
-)", "u.toml");
+)",
+                      "u.toml");
   CHECK(u.strategies[0].conditions[0].limit == -60.0);
   CHECK(u.strategies[0].conditions[1].limit == 60.0);
   CHECK(u.strategies[1].conditions[0].limit == -35.0);
@@ -582,8 +600,8 @@ TEST_CASE("TOML nested beyond 64 levels is refused before the parser sees it") {
   };
   std::string dotted;
   for (int i = 0; i < 50000; ++i) dotted += i ? ".a" : "a";
-  refused("[" + dotted + "]\n", "1:");                 // a table header
-  refused("x = 1\n" + dotted + " = 1\n", "2:");        // a dotted key
+  refused("[" + dotted + "]\n", "1:");           // a table header
+  refused("x = 1\n" + dotted + " = 1\n", "2:");  // a dotted key
   refused("a = " + std::string(50000, '[') + std::string(50000, ']') + "\n", "1:");  // arrays
   std::string inline_tables = "a = ";
   for (int i = 0; i < 50000; ++i) inline_tables += "{b = ";

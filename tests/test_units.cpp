@@ -235,10 +235,13 @@ TEST_CASE("has_unit tells a bare number from one with a unit") {
 }
 
 TEST_CASE("display conversion round trips for every kind in both systems") {
-  const Kind kinds[] = {Kind::temperature, Kind::temperature_difference, Kind::enthalpy,
-                        Kind::enthalpy_difference, Kind::pressure, Kind::length, Kind::fraction,
-                        Kind::humidity_ratio, Kind::airflow, Kind::energy, Kind::power,
-                        Kind::specific_volume, Kind::density};
+  const Kind kinds[] = {Kind::temperature, Kind::temperature_difference,
+                        Kind::enthalpy,    Kind::enthalpy_difference,
+                        Kind::pressure,    Kind::length,
+                        Kind::fraction,    Kind::humidity_ratio,
+                        Kind::airflow,     Kind::energy,
+                        Kind::power,       Kind::specific_volume,
+                        Kind::density};
   for (Kind k : kinds)
     for (System s : {System::ip, System::si})
       for (double v : {-40.0, 0.0, 0.0093, 1.0, 47.3, 101.325, 1524.0}) {
@@ -299,9 +302,10 @@ TEST_CASE("a comma that does not group digits by three is refused, never read as
 
 TEST_CASE("magnitudes beyond any physical bound are refused for every kind") {
   SUBCASE("the cases that once overflowed to inf and nan") {
-    const std::string e =
-        parse_error(Kind::airflow, "1e308cfm", System::ip, "unit.toml:9: air_handler.supply_airflow");
-    CHECK(contains(e, "unit.toml:9: air_handler.supply_airflow: '1e308cfm' is beyond any physical airflow"));
+    const std::string e = parse_error(Kind::airflow, "1e308cfm", System::ip,
+                                      "unit.toml:9: air_handler.supply_airflow");
+    CHECK(contains(
+        e, "unit.toml:9: air_handler.supply_airflow: '1e308cfm' is beyond any physical airflow"));
     CHECK(contains(parse_error(Kind::airflow, "1e400cfm"), "beyond any physical airflow"));
     CHECK(contains(parse_error(Kind::enthalpy, "1e300btu/lb"), "beyond any physical enthalpy"));
   }
@@ -334,7 +338,8 @@ TEST_CASE("range ends are inclusive through a unit conversion") {
   // 20 kJ/kg is 8.59845 Btu/lb (÷ 2.326), shown 8.5984.
   CHECK(units::format_range(Kind::enthalpy_difference, System::ip, 0.0, 20.0) ==
         "0 Btu/lb to 8.5984 Btu/lb");
-  CHECK(units::format_range(Kind::temperature_difference, System::ip, 0.0, 20.0) == "0 °F to 36 °F");
+  CHECK(units::format_range(Kind::temperature_difference, System::ip, 0.0, 20.0) ==
+        "0 °F to 36 °F");
   CHECK(units::format_range(Kind::temperature, System::ip, -40.0, 60.0) == "-40 °F to 140 °F");
   CHECK(units::format_brief(Kind::temperature, System::si, 75.0) == "75 °C");
   CHECK(units::written_unit(Kind::temperature, System::ip) == "F");
@@ -345,7 +350,8 @@ TEST_CASE("offending text is echoed safely: control characters escaped, long val
   CHECK(contains(e, "\\x1b"));
   CHECK_FALSE(contains(e, "\x1b"));
   const std::string long_text(100000, '7');
-  const std::string l = parse_error(Kind::temperature, (long_text + "X").c_str(), System::ip, "--dry-bulb");
+  const std::string l =
+      parse_error(Kind::temperature, (long_text + "X").c_str(), System::ip, "--dry-bulb");
   CHECK(l.size() < 400);
   CHECK(contains(l, "(100001 characters)"));
 }
@@ -375,8 +381,8 @@ TEST_CASE("plausible bands are data: one per quantity, each inside its kind's ab
     CHECK(b.lo < b.hi);
     CHECK(plausible::find(b.name) == &b);
     // The ends parse back as values of the kind (no end beyond the absolute bounds).
-    CHECK_NOTHROW(units::parse(b.kind, fmt::format("{}", units::to_display(b.kind, System::si, b.hi)),
-                               System::si, "x"));
+    CHECK_NOTHROW(units::parse(
+        b.kind, fmt::format("{}", units::to_display(b.kind, System::si, b.hi)), System::si, "x"));
   }
   CHECK(plausible::find("air_handler.no_such_key") == nullptr);
 }
@@ -384,17 +390,17 @@ TEST_CASE("plausible bands are data: one per quantity, each inside its kind's ab
 TEST_CASE("a bare number plausible only in the other unit system is refused with both readings") {
   // Return air 10–40 °C (common practice); 75 °F is 23.9 °C (NIST SP 811).
   const std::string e = plausible_error("air_handler.return_air_temp", "75", System::si, kSiFile);
-  CHECK(e == "unit.toml:12: air_handler.return_air_temp: 75 in an SI file is 75 °C, outside the "
-             "plausible range of a return-air dry-bulb (10 °C to 40 °C, common practice); if you "
-             "meant 75 °F write \"75F\"");
+  CHECK(e ==
+        "unit.toml:12: air_handler.return_air_temp: 75 in an SI file is 75 °C, outside the "
+        "plausible range of a return-air dry-bulb (10 °C to 40 °C, common practice); if you "
+        "meant 75 °F write \"75F\"");
   // Supply setpoint 5–25 °C: "13" in an IP file is 13 °F; 13 °C is meant.
   const std::string s = plausible_error("air_handler.supply_air_temp", "13", System::ip, kIpFile);
   CHECK(contains(s, "13 in an IP file is 13 °F"));
   CHECK(contains(s, "41 °F to 77 °F"));  // 5 °C and 25 °C in °F: the file's system
   CHECK(contains(s, "write \"13C\""));
   // 20000 in an SI file is 20000 m³/s; 20000 cfm (9.4 m³/s) is meant.
-  const std::string a =
-      plausible_error("air_handler.supply_airflow", "20000", System::si, kSiFile);
+  const std::string a = plausible_error("air_handler.supply_airflow", "20000", System::si, kSiFile);
   CHECK(contains(a, "20000 in an SI file is 20000 m³/s"));
   CHECK(contains(a, "write \"20000cfm\""));
 }
@@ -412,8 +418,8 @@ TEST_CASE("an implausible value with its unit, or implausible in both systems, i
   REQUIRE(w.size() == 2);
   CHECK(contains(w[1], "45 in an SI file is 45 °C, outside the plausible range"));
   // A percentage reads the same in both systems: never refused for its system.
-  CHECK(plausible::parse(*plausible::find("air_handler.min_outdoor_air"), "95", System::si,
-                         kSiFile, w) == doctest::Approx(0.95));
+  CHECK(plausible::parse(*plausible::find("air_handler.min_outdoor_air"), "95", System::si, kSiFile,
+                         w) == doctest::Approx(0.95));
   CHECK(w.size() == 3);
   // Inside the band: no word.
   CHECK(plausible::parse(band, "24", System::si, kSiFile, w) == 24.0);

@@ -23,13 +23,16 @@ TEST_CASE("an SI unit file prints SI unless --units overrides it") {
   REQUIRE(si.rc == 0);
   CHECK(contains(si.out, "kWh"));
   CHECK_FALSE(contains(si.out, "kBtu"));
-  const auto ip = run_cli({"year", kSiUnit, "--weather", data("greensboro-nc-tmy3.csv"), "--units", "ip"}, kSuite);
+  const auto ip = run_cli(
+      {"year", kSiUnit, "--weather", data("greensboro-nc-tmy3.csv"), "--units", "ip"}, kSuite);
   REQUIRE(ip.rc == 0);
   CHECK(contains(ip.out, "kBtu"));
-  const auto json = run_cli({"year", kSiUnit, "--weather", data("greensboro-nc-tmy3.csv"), "--format", "json"}, kSuite);
+  const auto json = run_cli(
+      {"year", kSiUnit, "--weather", data("greensboro-nc-tmy3.csv"), "--format", "json"}, kSuite);
   REQUIRE(json.rc == 0);
   CHECK(contains(json.out, "\"units\": \"si\""));
-  const auto ip_file = run_cli({"year", kIpUnit, "--weather", data("greensboro-nc-tmy3.csv")}, kSuite);
+  const auto ip_file =
+      run_cli({"year", kIpUnit, "--weather", data("greensboro-nc-tmy3.csv")}, kSuite);
   REQUIRE(ip_file.rc == 0);
   CHECK(contains(ip_file.out, "kBtu"));
 }
@@ -53,7 +56,8 @@ TEST_CASE("every command that reads a unit file follows its units") {
     CHECK(contains(r.out, "°C"));
   }
   SUBCASE("chart") {
-    const auto r = run_cli({"chart", kSiUnit, "--weather", data("greensboro-nc-tmy3.csv"), "-o", "-"}, kSuite);
+    const auto r =
+        run_cli({"chart", kSiUnit, "--weather", data("greensboro-nc-tmy3.csv"), "-o", "-"}, kSuite);
     REQUIRE(r.rc == 0);
     CHECK(contains(r.out, "°C"));
   }
@@ -61,20 +65,26 @@ TEST_CASE("every command that reads a unit file follows its units") {
 
 TEST_CASE("bare numbers on the command line are read in the active system") {
   SUBCASE("an SI unit file: a bare --outdoor dry-bulb is °C") {
-    const auto bare = run_cli({"check", kSiUnit, "--outdoor", "21/dp2", "--format", "json"}, kSuite);
-    const auto given = run_cli({"check", kSiUnit, "--outdoor", "21C/dp2C", "--format", "json"}, kSuite);
+    const auto bare =
+        run_cli({"check", kSiUnit, "--outdoor", "21/dp2", "--format", "json"}, kSuite);
+    const auto given =
+        run_cli({"check", kSiUnit, "--outdoor", "21C/dp2C", "--format", "json"}, kSuite);
     REQUIRE(bare.rc == 0);
     CHECK(bare.out == given.out);
   }
   SUBCASE("an IP unit file: a bare --outdoor dry-bulb is °F") {
-    const auto bare = run_cli({"check", kIpUnit, "--outdoor", "68/80%", "--format", "json"}, kSuite);
-    const auto given = run_cli({"check", kIpUnit, "--outdoor", "68F/80%", "--format", "json"}, kSuite);
+    const auto bare =
+        run_cli({"check", kIpUnit, "--outdoor", "68/80%", "--format", "json"}, kSuite);
+    const auto given =
+        run_cli({"check", kIpUnit, "--outdoor", "68F/80%", "--format", "json"}, kSuite);
     REQUIRE(bare.rc == 0);
     CHECK(bare.out == given.out);
   }
   SUBCASE("--units overrides the file for bare numbers too") {
-    const auto bare = run_cli({"check", kSiUnit, "--outdoor", "70/dp36", "--units", "ip", "--format", "json"}, kSuite);
-    const auto given = run_cli({"check", kSiUnit, "--outdoor", "70F/dp36F", "--units", "ip", "--format", "json"}, kSuite);
+    const auto bare = run_cli(
+        {"check", kSiUnit, "--outdoor", "70/dp36", "--units", "ip", "--format", "json"}, kSuite);
+    const auto given = run_cli(
+        {"check", kSiUnit, "--outdoor", "70F/dp36F", "--units", "ip", "--format", "json"}, kSuite);
     REQUIRE(bare.rc == 0);
     CHECK(bare.out == given.out);
   }
@@ -86,7 +96,8 @@ TEST_CASE("bare numbers on the command line are read in the active system") {
   }
   SUBCASE("state has no unit file: bare numbers are IP unless --units si") {
     const auto bare = run_cli({"state", "--dry-bulb", "24", "--rh", "50", "--units", "si"}, kSuite);
-    const auto given = run_cli({"state", "--dry-bulb", "24C", "--rh", "50%", "--units", "si"}, kSuite);
+    const auto given =
+        run_cli({"state", "--dry-bulb", "24C", "--rh", "50%", "--units", "si"}, kSuite);
     REQUIRE(bare.rc == 0);
     CHECK(bare.out == given.out);
   }
@@ -103,14 +114,17 @@ TEST_CASE("an error about a value speaks the active system") {
 }
 
 TEST_CASE("the help says where --units comes from") {
-  for (const char* command : {"state", "check", "year", "code", "chart", "report", "sequence", "sensors", "audit"}) {
+  for (const char* command :
+       {"state", "check", "year", "code", "chart", "report", "sequence", "sensors", "audit"}) {
     CAPTURE(command);
     const auto r = run_cli({command, "--help"}, kSuite);
     CHECK(r.rc == 0);
     std::string words;  // the help wraps its lines: compare the words
     for (char c : r.out)
-      if (c != ' ' && c != '\n') words += c;
-      else if (!words.empty() && words.back() != ' ') words += ' ';
+      if (c != ' ' && c != '\n')
+        words += c;
+      else if (!words.empty() && words.back() != ' ')
+        words += ' ';
     CHECK(contains(words, "--units"));
     CHECK(contains(words, "(default: the unit file's units, else ip)"));
   }

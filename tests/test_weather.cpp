@@ -1014,7 +1014,8 @@ TEST_CASE("[weather]: every key read") {
 TEST_CASE("[weather]: errors name file, line and key") {
   CHECK(mapping_error("[weather]\nfile = \"a.csv\"\ndry_bulbs = { column = \"T\" }\n") ==
         "unit.toml:3: [weather] key 'dry_bulbs' is not known (allowed: file, humidity, "
-        "on_bad_row, max_bad_share, time_convention, dry_bulb, dew_point, relative_humidity, wet_bulb, "
+        "on_bad_row, max_bad_share, time_convention, dry_bulb, dew_point, relative_humidity, "
+        "wet_bulb, "
         "humidity_ratio, pressure, timestamp, date, time, year, month, day, hour, minute)");
   CHECK(mapping_error("[weather]\n[weather.dry_bulb]\ncolumn = \"T\"\nunits = \"C\"\n") ==
         "unit.toml:4: [weather] key 'dry_bulb.units' is not known (allowed: column, unit)");
@@ -1102,10 +1103,13 @@ bool mentions_skip(const std::string& message) {
 
 TEST_CASE("labels: a °F dry-bulb and dew point under (C) headers are refused with the fix") {
   const std::string text = greensboro_fahrenheit_under_celsius();
-  for (wx::BadRowPolicy p : {wx::BadRowPolicy::error, wx::BadRowPolicy::skip, wx::BadRowPolicy::fill}) {
+  for (wx::BadRowPolicy p :
+       {wx::BadRowPolicy::error, wx::BadRowPolicy::skip, wx::BadRowPolicy::fill}) {
     CAPTURE(wx::bad_row_policy_name(p));
-    const std::string msg = error_of([&] { wx::read_text(text, "g.csv", policy(p, 0.01), 101.325); });
-    CHECK(msg.rfind("g.csv: column 'Dry-bulb (C)' contradicts its unit °C (from its header)", 0) == 0);
+    const std::string msg =
+        error_of([&] { wx::read_text(text, "g.csv", policy(p, 0.01), 101.325); });
+    CHECK(msg.rfind("g.csv: column 'Dry-bulb (C)' contradicts its unit °C (from its header)", 0) ==
+          0);
     // Greensboro's median dry-bulb near 15 °C is near 60 °F: far above any outdoor median.
     CHECK(msg.find("its median is 60.1 °C") != std::string::npos);
     CHECK(msg.find("read in °F its values are plausible") != std::string::npos);
@@ -1174,8 +1178,8 @@ TEST_CASE("labels: a few bad rows are bad rows, not a wrong unit") {
   const std::string msg = error_of([&] { wx::read_text(text, "g.csv", {}, 101.325); });
   CHECK(msg.rfind("g.csv:8: column 'Dry-bulb (C)' value '75.0' is 75 °C", 0) == 0);
   CHECK(msg.find("contradicts") == std::string::npos);
-  const wx::WeatherSeries s = wx::read_text(text, "g.csv", policy(wx::BadRowPolicy::skip, 0.01),
-                                            101.325);
+  const wx::WeatherSeries s =
+      wx::read_text(text, "g.csv", policy(wx::BadRowPolicy::skip, 0.01), 101.325);
   CHECK(s.info.skipped() == 20);
   CHECK(s.hours.size() == 8740);
 }
@@ -1274,10 +1278,11 @@ TEST_CASE("resolution: whole-degree Greensboro reads, its saturated rows counted
           h.dry_bulb_c + 1e-6);
   bool said = false;
   for (const std::string& l : wx::describe(s.info))
-    said = said || l.rfind(fmt::format("{} rows read as saturated: whole-degree rounding (dew "
-                                       "point up to 1.56 K above the dry-bulb read as equal to it; ",
-                                       above),
-                           0) == 0;
+    said =
+        said || l.rfind(fmt::format("{} rows read as saturated: whole-degree rounding (dew "
+                                    "point up to 1.56 K above the dry-bulb read as equal to it; ",
+                                    above),
+                        0) == 0;
   CHECK(said);
 
   // A dew point far above the dry-bulb stays an error, the tolerance stated.
@@ -1293,8 +1298,9 @@ TEST_CASE("resolution: whole-degree Greensboro reads, its saturated rows counted
 }
 
 TEST_CASE("humidity: RH 0 % is a bad row with file, line and column; skip and fill apply") {
-  const std::string csv = "Timestamp,Temp (C),RH (%)\n2019-07-01T12:00,20,50\n"
-                          "2019-07-01T13:00,20,0\n2019-07-01T14:00,20,60\n";
+  const std::string csv =
+      "Timestamp,Temp (C),RH (%)\n2019-07-01T12:00,20,50\n"
+      "2019-07-01T13:00,20,0\n2019-07-01T14:00,20,60\n";
   CHECK(read_error(csv) ==
         "t.csv:3: column 'RH (%)' value '0' is 0 % relative humidity, air drier than the "
         "psychrometric model reaches (a dew point below -100 °C); allowed: a humidity above 0 "
@@ -1322,8 +1328,9 @@ TEST_CASE("one year: a file spanning several years is refused with its span") {
         "(line 2 and line 8762 are both 01-01 00:00, of 2001 and 2002); allowed: one year of "
         "rows, or a typical year whose months come from different years");
   // Thirteen months: the first January's hours come back a year later.
-  const std::string thirteen = kHeader + "2019-01-15T00:00,5,0,101.3\n2019-06-01T00:00,5,0,101.3\n"
-                                         "2020-01-15T00:00,5,0,101.3\n";
+  const std::string thirteen = kHeader +
+                               "2019-01-15T00:00,5,0,101.3\n2019-06-01T00:00,5,0,101.3\n"
+                               "2020-01-15T00:00,5,0,101.3\n";
   CHECK(read_error(thirteen).rfind("t.csv: the file spans 2019-01-15 to 2020-01-15, more than "
                                    "one year (366 days)",
                                    0) == 0);
@@ -1343,8 +1350,8 @@ TEST_CASE("one year: a file spanning several years is refused with its span") {
 TEST_CASE("line ends: CR only, CRLF and a byte-order mark read as LF does") {
   const std::string lf = slurp(kGreensboro);
   const wx::WeatherSeries a = wx::read_text(lf, "g.csv", {}, 101.325);
-  for (const std::string& variant :
-       {with_line_ends(lf, "\r"), with_line_ends(lf, "\r\n"), "\xEF\xBB\xBF" + with_line_ends(lf, "\r")}) {
+  for (const std::string& variant : {with_line_ends(lf, "\r"), with_line_ends(lf, "\r\n"),
+                                     "\xEF\xBB\xBF" + with_line_ends(lf, "\r")}) {
     const wx::WeatherSeries b = wx::read_text(variant, "g.csv", {}, 101.325);
     REQUIRE(b.hours.size() == a.hours.size());
     CHECK(b.info.header_line == 2);
@@ -1353,9 +1360,10 @@ TEST_CASE("line ends: CR only, CRLF and a byte-order mark read as LF does") {
     CHECK(b.hours[4000].humidity_ratio == a.hours[4000].humidity_ratio);
   }
   // Line numbers in messages count CR-only lines.
-  CHECK(read_error("Timestamp,Temp (C),RH (%)\r2019-07-01T13:00,20,50\r2019-07-01T14:00,20,130\r") ==
-        "t.csv:3: column 'RH (%)' value '130' is 130 % relative humidity; allowed 0 % to 100 % "
-        "(up to 101 % is read as 100 %) (or set on_bad_row to skip or fill)");
+  CHECK(
+      read_error("Timestamp,Temp (C),RH (%)\r2019-07-01T13:00,20,50\r2019-07-01T14:00,20,130\r") ==
+      "t.csv:3: column 'RH (%)' value '130' is 130 % relative humidity; allowed 0 % to 100 % "
+      "(up to 101 % is read as 100 %) (or set on_bad_row to skip or fill)");
 }
 
 TEST_CASE("messages: echoed values have control characters escaped and long ones cut") {

@@ -46,7 +46,7 @@ return_air_temp = "75F"
 return_air_rh = "50%"
 )",
                                       elevation) +
-                                      extra);
+                              extra);
 }
 
 // Greensboro (line 2 its header) with `edit` applied to the fields of each data row.
@@ -95,14 +95,15 @@ TEST_CASE("with no unit file every weather command reads a user's file by its ow
 
 TEST_CASE("a °F column under a (C) header is refused with the unit fix, never skip") {
   const auto unit = write_unit("labels.toml", "900ft");
-  const auto file = write_file("fahrenheit.csv", greensboro_with([](std::vector<std::string>& f) {
-    f[2] = fmt::format("{:.1f}", std::stod(f[2]) * 1.8 + 32.0);  // °F = 1.8·°C + 32
-    f[3] = fmt::format("{:.1f}", std::stod(f[3]) * 1.8 + 32.0);
-  }));
+  const auto file =
+      write_file("fahrenheit.csv", greensboro_with([](std::vector<std::string>& f) {
+                   f[2] = fmt::format("{:.1f}", std::stod(f[2]) * 1.8 + 32.0);  // °F = 1.8·°C + 32
+                   f[3] = fmt::format("{:.1f}", std::stod(f[3]) * 1.8 + 32.0);
+                 }));
   for (const char* policy : {"error", "skip", "fill"}) {
     CAPTURE(policy);
-    const auto r =
-        run_cli({"year", unit.string(), "--weather", file.string(), "--on-bad-row", policy}, kSuite);
+    const auto r = run_cli(
+        {"year", unit.string(), "--weather", file.string(), "--on-bad-row", policy}, kSuite);
     CHECK(r.rc == 2);
     CHECK(contains(r.err, "column 'Dry-bulb (C)' contradicts its unit °C"));
     CHECK(contains(r.err, "median is 60.1 °C"));
@@ -123,8 +124,9 @@ TEST_CASE("--max-bad-share: skip refuses beyond 1 % of rows unless the share is 
   const auto unit = write_unit("share.toml", "900ft");
   int row = 0;
   const auto file = write_file("gaps.csv", greensboro_with([&](std::vector<std::string>& f) {
-    if (row++ % 50 == 7) f[3] = "";  // 176 of 8760 rows (2.0 %) without a dew point
-  }));
+                                 if (row++ % 50 == 7)
+                                   f[3] = "";  // 176 of 8760 rows (2.0 %) without a dew point
+                               }));
   const auto refused =
       run_cli({"year", unit.string(), "--weather", file.string(), "--on-bad-row", "skip"}, kSuite);
   CHECK(refused.rc == 2);
@@ -153,11 +155,12 @@ TEST_CASE("whole-degree weather reads, its saturated rows counted in the report"
   int above = 0;
   // Dry-bulb cut to whole °C (a logger dropping decimals), dew point rounded to nearest.
   const auto file = write_file("whole.csv", greensboro_with([&](std::vector<std::string>& f) {
-    const double t = std::floor(std::stod(f[2])), d = std::round(std::stod(f[3]));
-    above += d > t;
-    f[2] = fmt::format("{:.0f}", t);
-    f[3] = fmt::format("{:.0f}", d);
-  }));
+                                 const double t = std::floor(std::stod(f[2])),
+                                              d = std::round(std::stod(f[3]));
+                                 above += d > t;
+                                 f[2] = fmt::format("{:.0f}", t);
+                                 f[3] = fmt::format("{:.0f}", d);
+                               }));
   REQUIRE(above > 50);
   const auto r = run_cli({"year", unit.string(), "--weather", file.string()}, kSuite);
   CHECK(r.rc == 0);
@@ -173,7 +176,9 @@ TEST_CASE("site and weather pressure: Greensboro under a unit at 20 ft warns, at
   CHECK(warned.rc == 0);
   CHECK(contains(warned.err, "warning: "));
   // In the unit file's own system (IP here): 2 kPa is 0.29 psia, 200 m is 656 ft.
-  CHECK(contains(warned.err, "p20.toml:3: site.elevation: elevation 20 ft gives a standard pressure of 14.69 psia"));
+  CHECK(contains(
+      warned.err,
+      "p20.toml:3: site.elevation: elevation 20 ft gives a standard pressure of 14.69 psia"));
   CHECK(contains(warned.err, "more than the 0.29 psia (about 656 ft) tolerance"));
   CHECK(contains(warned.out, "Warning: "));
   const auto strict = run_cli({"year", low.string(), "--weather", w, "--strict"}, kSuite);
@@ -207,7 +212,8 @@ TEST_CASE("a weather file spanning ten years is refused with the span named") {
   for (int y = 2001; y <= 2010; ++y)
     for (int m = 1; m <= 12; ++m)
       for (int d = 1; d <= kDays[m - 1] + (m == 2 && y % 4 == 0); ++d)
-        for (int h = 0; h < 24; ++h) text += fmt::format("{}-{:02}-{:02}T{:02}:00,15,50\n", y, m, d, h);
+        for (int h = 0; h < 24; ++h)
+          text += fmt::format("{}-{:02}-{:02}T{:02}:00,15,50\n", y, m, d, h);
   const auto file = write_file("ten-years.csv", text);
   const auto r = run_cli({"year", unit.string(), "--weather", file.string()}, kSuite);
   CHECK(r.rc == 2);
@@ -221,14 +227,16 @@ TEST_CASE("a weather file with CR-only line ends gives the same year as with LF"
   for (char& c : cr)
     if (c == '\n') c = '\r';
   const auto file = write_file("greensboro-nc-tmy3.csv", cr);
-  const auto a = run_cli({"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"),
-                          "--format", "json"},
-                         kSuite);
-  const auto b = run_cli({"year", unit.string(), "--weather", file.string(), "--format", "json"},
-                         kSuite);
+  const auto a = run_cli(
+      {"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--format", "json"},
+      kSuite);
+  const auto b =
+      run_cli({"year", unit.string(), "--weather", file.string(), "--format", "json"}, kSuite);
   CHECK(a.rc == 0);
   CHECK(b.rc == 0);
-  const auto results = [](const std::string& json) { return json.substr(json.find("\"results\"")); };
+  const auto results = [](const std::string& json) {
+    return json.substr(json.find("\"results\""));
+  };
   CHECK(results(a.out) == results(b.out));
 }
 
@@ -236,8 +244,8 @@ TEST_CASE("RH 0 % in a weather row names file, line and column; skip applies") {
   const auto unit = write_unit("rh0.toml", "900ft");
   int row = 0;
   const auto file = write_file("rh0.csv", greensboro_with([&](std::vector<std::string>& f) {
-    if (row++ == 100) f[4] = "0";
-  }));
+                                 if (row++ == 100) f[4] = "0";
+                               }));
   const std::vector<std::string> rh = {"--humidity", "relative-humidity"};
   auto args = std::vector<std::string>{"year", unit.string(), "--weather", file.string()};
   args.insert(args.end(), rh.begin(), rh.end());

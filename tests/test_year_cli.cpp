@@ -50,24 +50,40 @@ TEST_CASE("with no arguments year runs the embedded demo and ends with the cauti
 
 TEST_CASE("json carries the results keyed by strategy name, references included") {
   const auto unit = write_unit("json.toml");
-  const auto r = run_cli({"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"),
-                          "--format", "json"},
-                         "year_cli");
+  const auto r = run_cli(
+      {"year", unit.string(), "--weather", data("greensboro-nc-tmy3.csv"), "--format", "json"},
+      "year_cli");
   REQUIRE(r.rc == 0);
-  for (const char* key : {"\"results\"", "\"no-economizer\"", "\"perfect-changeover\"",
-                          "\"optimal-damper\"", "\"differential-enthalpy\"", "\"hours_enabled\"",
-                          "\"hours_economizing\"", "\"hours_free_cooling\"", "\"hours_integrated\"",
-                          "\"cooling_kwh\"", "\"latent_kwh\"", "\"heating_kwh\"", "\"harmful_hours\"",
-                          "\"harmful_kwh\"", "\"missed_hours\"", "\"missed_kwh\"",
-                          "\"savings_vs_no_economizer_kwh\"", "\"shortfall_vs_perfect_kwh\"",
-                          "\"cooling_ton_hours\"", "\"cooling_kbtu\"", "\"monthly\"", "\"cautions\""})
+  for (const char* key : {"\"results\"",
+                          "\"no-economizer\"",
+                          "\"perfect-changeover\"",
+                          "\"optimal-damper\"",
+                          "\"differential-enthalpy\"",
+                          "\"hours_enabled\"",
+                          "\"hours_economizing\"",
+                          "\"hours_free_cooling\"",
+                          "\"hours_integrated\"",
+                          "\"cooling_kwh\"",
+                          "\"latent_kwh\"",
+                          "\"heating_kwh\"",
+                          "\"harmful_hours\"",
+                          "\"harmful_kwh\"",
+                          "\"missed_hours\"",
+                          "\"missed_kwh\"",
+                          "\"savings_vs_no_economizer_kwh\"",
+                          "\"shortfall_vs_perfect_kwh\"",
+                          "\"cooling_ton_hours\"",
+                          "\"cooling_kbtu\"",
+                          "\"monthly\"",
+                          "\"cautions\""})
     CHECK_MESSAGE(contains(r.out, key), key);
 }
 
 TEST_CASE("the weather mapping is printed at the top of the report") {
   const auto unit = write_unit("map.toml");
-  const auto r = run_cli({"year", unit.string(), "--weather", data("pvgis-tmy-45n-8e.csv"), "--units", "si"},
-                         "year_cli");
+  const auto r =
+      run_cli({"year", unit.string(), "--weather", data("pvgis-tmy-45n-8e.csv"), "--units", "si"},
+              "year_cli");
   REQUIRE(r.rc == 0);
   // PVGIS layout (pvlib test data): T2m °C, RH %, SP Pa.
   CHECK(contains(r.out, "'T2m'"));
@@ -98,7 +114,8 @@ TEST_CASE("--batch evaluates every weather file of a folder, in name order") {
                              std::filesystem::copy_options::overwrite_existing);
   std::filesystem::copy_file(data("pvgis-tmy-45n-8e.csv"), dir / "b-piedmont.csv",
                              std::filesystem::copy_options::overwrite_existing);
-  const auto r = run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "csv"}, "year_cli");
+  const auto r =
+      run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "csv"}, "year_cli");
   REQUIRE(r.rc == 0);
   const auto a = r.out.find("a-greensboro.csv");
   const auto b = r.out.find("b-piedmont.csv");
@@ -156,11 +173,14 @@ std::filesystem::path batch_dir(const std::string& name) {
   return dir;
 }
 
-std::size_t count(const std::string& s, char c) { return static_cast<std::size_t>(std::count(s.begin(), s.end(), c)); }
+std::size_t count(const std::string& s, char c) {
+  return static_cast<std::size_t>(std::count(s.begin(), s.end(), c));
+}
 
 }  // namespace
 
-TEST_CASE("--batch lists a folder named x.csv and a dangling link as failing sites, keeping the others") {
+TEST_CASE(
+    "--batch lists a folder named x.csv and a dangling link as failing sites, keeping the others") {
   const auto unit = write_unit("batch-odd.toml");
   const auto dir = batch_dir("odd-sites");
   std::filesystem::copy_file(data("greensboro-nc-tmy3.csv"), dir / "a-greensboro.csv");
@@ -177,7 +197,8 @@ TEST_CASE("--batch lists a folder named x.csv and a dangling link as failing sit
     CHECK(contains(r.out, "link to a file that does not exist"));
   }
   SUBCASE("csv: data only on stdout, the errors on stderr") {
-    const auto r = run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "csv"}, "year_cli");
+    const auto r =
+        run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "csv"}, "year_cli");
     CHECK(r.rc == 2);
     std::istringstream lines(r.out);
     std::size_t rows = 0;
@@ -193,7 +214,8 @@ TEST_CASE("--batch lists a folder named x.csv and a dangling link as failing sit
     CHECK(contains(r.err, "c-dangling.csv"));
   }
   SUBCASE("json: each site with its status, errors as data") {
-    const auto r = run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "json"}, "year_cli");
+    const auto r =
+        run_cli({"year", unit.string(), "--batch", dir.string(), "--format", "json"}, "year_cli");
     CHECK(r.rc == 2);
     CHECK(r.out.front() == '{');
     CHECK(contains(r.out, "\"status\": \"ok\""));
@@ -213,9 +235,11 @@ TEST_CASE("--batch on Ctrl-C reports the finished sites marked partial (exit 130
   std::filesystem::copy_file(data("greensboro-nc-tmy3.csv"), dir / "a-greensboro.csv");
   REQUIRE(::mkfifo((dir / "b-pipe.csv").c_str(), 0600) == 0);
   std::filesystem::copy_file(data("pvgis-tmy-45n-8e.csv"), dir / "c-piedmont.csv");
-  const auto out = scratch_dir("year_cli") / "interrupted.out", err = scratch_dir("year_cli") / "interrupted.err";
+  const auto out = scratch_dir("year_cli") / "interrupted.out",
+             err = scratch_dir("year_cli") / "interrupted.err";
   const pid_t pid = limitline::test::spawn_cli(
-      {"year", unit.string(), "--batch", dir.string(), "--threads", "1", "--format", "csv"}, out.string(), err.string());
+      {"year", unit.string(), "--batch", dir.string(), "--threads", "1", "--format", "csv"},
+      out.string(), err.string());
   const int w = ::open((dir / "b-pipe.csv").c_str(), O_WRONLY);
   REQUIRE(w >= 0);
   limitline::test::signal_and_wait_taken(pid, SIGINT);

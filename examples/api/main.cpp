@@ -28,11 +28,12 @@ int main() {
       const double pressure_kpa = psy::standard_pressure_kpa(elevation_ft * 0.3048);
       const psy::Properties p = psy::properties(
           psy::state_from(dry_bulb_c, psy::HumidityInput::relative_humidity, 0.5, pressure_kpa));
-      std::printf("75F/50%% at %.0f ft: enthalpy %s, dew point %s\n", elevation_ft,
-                  units::format(units::Kind::enthalpy, units::System::ip, p.enthalpy_kj_per_kg, 1).c_str(),
-                  units::format(units::Kind::temperature, units::System::ip, p.dew_point_c, 1).c_str());
-      const hl::AirValues outdoor = hl::air_values(p.dry_bulb_c, p.enthalpy_kj_per_kg,
-                                                   p.dew_point_c, p.humidity_ratio);
+      std::printf(
+          "75F/50%% at %.0f ft: enthalpy %s, dew point %s\n", elevation_ft,
+          units::format(units::Kind::enthalpy, units::System::ip, p.enthalpy_kj_per_kg, 1).c_str(),
+          units::format(units::Kind::temperature, units::System::ip, p.dew_point_c, 1).c_str());
+      const hl::AirValues outdoor =
+          hl::air_values(p.dry_bulb_c, p.enthalpy_kj_per_kg, p.dew_point_c, p.humidity_ratio);
       for (const hl::Strategy& s : strategies) {
         hl::StrategyState state(s);
         // Fixed limits compare the outdoor air alone; the return air passed is not read.

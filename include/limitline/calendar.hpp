@@ -8,8 +8,8 @@ namespace limitline::calendar {
 
 // The days of month `m` in year `y`: 28 to 31.
 [[nodiscard]] constexpr int days_in_month(std::chrono::year y, std::chrono::month m) {
-  return static_cast<int>(
-      static_cast<unsigned>(std::chrono::year_month_day_last{y, std::chrono::month_day_last{m}}.day()));
+  return static_cast<int>(static_cast<unsigned>(
+      std::chrono::year_month_day_last{y, std::chrono::month_day_last{m}}.day()));
 }
 
 // The most days month `m` has in any year (29 for February): for dates written without a
@@ -28,8 +28,10 @@ namespace limitline::calendar {
 // leap year), for any year std::chrono::year holds (-32767 to 32767).
 [[nodiscard]] constexpr bool is_date(int year, int month, int day) {
   return year >= static_cast<int>(std::chrono::year::min()) &&
-         year <= static_cast<int>(std::chrono::year::max()) && month >= 1 && month <= 12 && day >= 1 &&
-         day <= days_in_month(std::chrono::year{year}, std::chrono::month{static_cast<unsigned>(month)});
+         year <= static_cast<int>(std::chrono::year::max()) && month >= 1 && month <= 12 &&
+         day >= 1 &&
+         day <= days_in_month(std::chrono::year{year},
+                              std::chrono::month{static_cast<unsigned>(month)});
 }
 
 }  // namespace limitline::calendar

@@ -29,8 +29,8 @@ using ParallelWork = std::function<void(std::size_t index)>;
 // the end. No item starts once *cancel is true or an item has thrown; the items under way
 // finish, and the first exception is rethrown here once every thread has stopped. Returns
 // which indices finished (all of them unless cancelled).
-[[nodiscard]] std::vector<std::uint8_t> parallel_for(std::size_t n, const ParallelRun& run,
-                                                     const std::function<ParallelWork()>& make_worker);
+[[nodiscard]] std::vector<std::uint8_t> parallel_for(
+    std::size_t n, const ParallelRun& run, const std::function<ParallelWork()>& make_worker);
 
 // The same with a workspace per thread: work(index, workspace) after make() once per thread.
 template <class MakeWorkspace, class Work>

@@ -8,9 +8,7 @@
 namespace limitline::text {
 
 // White space as std::isspace has it in the "C" locale: space, \t, \n, \v, \f, \r.
-[[nodiscard]] constexpr bool is_space(char c) {
-  return c == ' ' || (c >= '\t' && c <= '\r');
-}
+[[nodiscard]] constexpr bool is_space(char c) { return c == ' ' || (c >= '\t' && c <= '\r'); }
 // Blanks as std::isblank has it in the "C" locale: space and tab.
 [[nodiscard]] constexpr bool is_blank(char c) { return c == ' ' || c == '\t'; }
 

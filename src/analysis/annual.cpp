@@ -32,8 +32,10 @@ inline void accumulate(Totals& t, const PreparedInterval& iv, const Outcome& o, 
   if (enabled) t.hours_enabled += h;
   if (o.economizing) {
     t.hours_economizing += h;
-    if (o.mechanical_cooling) t.hours_integrated += h;
-    else t.hours_free_cooling += h;
+    if (o.mechanical_cooling)
+      t.hours_integrated += h;
+    else
+      t.hours_free_cooling += h;
   }
   t.cooling_kwh += o.cooling_kwh;
   t.sensible_kwh += o.sensible_kwh;
@@ -98,10 +100,9 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
   const double mass_flow = unit.dry_air_mass_flow_kg_per_s();
   // Saturation pressures that do not change through the year, computed once.
   const double pws_return = psychro::saturation_pressure_kpa(ret_spec.dry_bulb_c);
-  const double pws_return_dew =
-      ret_spec.humidity_kind == psychro::HumidityInput::dew_point
-          ? psychro::saturation_pressure_kpa(ret_spec.humidity_value)
-          : 0.0;
+  const double pws_return_dew = ret_spec.humidity_kind == psychro::HumidityInput::dew_point
+                                    ? psychro::saturation_pressure_kpa(ret_spec.humidity_value)
+                                    : 0.0;
   const double pws_coil = psychro::saturation_pressure_kpa(unit.coil_leaving_temp_c());
   double last_pressure = -1.0;
   airside::HourAir air{};
@@ -128,25 +129,26 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
       double w_ret = 0.0;
       switch (ret_spec.humidity_kind) {
         case psychro::HumidityInput::relative_humidity:
-          w_ret = psychro::humidity_ratio_from_vapor_pressure(ret_spec.humidity_value * pws_return, pr);
+          w_ret =
+              psychro::humidity_ratio_from_vapor_pressure(ret_spec.humidity_value * pws_return, pr);
           break;
         case psychro::HumidityInput::dew_point:
           w_ret = psychro::humidity_ratio_from_vapor_pressure(pws_return_dew, pr);
           break;
-        case psychro::HumidityInput::humidity_ratio:
-          w_ret = ret_spec.humidity_value;
-          break;
+        case psychro::HumidityInput::humidity_ratio: w_ret = ret_spec.humidity_value; break;
         case psychro::HumidityInput::wet_bulb:
-          w_ret = psychro::humidity_ratio_from_wet_bulb(ret_spec.dry_bulb_c, ret_spec.humidity_value, pr);
+          w_ret = psychro::humidity_ratio_from_wet_bulb(ret_spec.dry_bulb_c,
+                                                        ret_spec.humidity_value, pr);
           break;
         case psychro::HumidityInput::enthalpy:
-          w_ret = psychro::humidity_ratio_from_enthalpy(ret_spec.dry_bulb_c, ret_spec.humidity_value);
+          w_ret =
+              psychro::humidity_ratio_from_enthalpy(ret_spec.dry_bulb_c, ret_spec.humidity_value);
           break;
       }
       psychro::check_humidity_ratio(w_ret, ret_spec.dry_bulb_c, pr, "return-air humidity ratio");
       air.ret = airside::air_state(ret_spec.dry_bulb_c, w_ret);
-      air.coil = {unit.coil_leaving_temp_c(),
-                  psychro::humidity_ratio_from_vapor_pressure(unit.coil_leaving_rh_max * pws_coil, pr)};
+      air.coil = {unit.coil_leaving_temp_c(), psychro::humidity_ratio_from_vapor_pressure(
+                                                  unit.coil_leaving_rh_max * pws_coil, pr)};
       ret_values = highlimit::air_values(
           air.ret.dry_bulb_c, air.ret.enthalpy_kj_per_kg,
           opt.compute_dew_point ? psychro::dew_point_from_humidity_ratio_c(w_ret, pr) : 0.0, w_ret);
@@ -167,8 +169,9 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
     iv.optimal = outcome(airside::optimal_damper(unit, air, opt.weights), kg, opt.weights);
     iv.outdoor = highlimit::air_values(
         w.dry_bulb_c, air.outdoor.enthalpy_kj_per_kg,
-        opt.compute_dew_point ? psychro::dew_point_from_humidity_ratio_c(w.humidity_ratio, w.pressure_kpa)
-                              : 0.0,
+        opt.compute_dew_point
+            ? psychro::dew_point_from_humidity_ratio_c(w.humidity_ratio, w.pressure_kpa)
+            : 0.0,
         w.humidity_ratio);
     iv.ret = ret_values;
     p.intervals.push_back(iv);
@@ -219,8 +222,7 @@ StrategyResult run_reference(Kind reference, const Prepared& p, const RunOptions
         enabled = iv.optimal.economizing;
         accumulate(t, iv, iv.optimal, enabled);
         break;
-      case Kind::strategy:
-        throw std::logic_error("annual::run_reference: not a reference");
+      case Kind::strategy: throw std::logic_error("annual::run_reference: not a reference");
     }
     if (opt.keep_decisions) r.enabled_by_interval[i] = enabled;
   }

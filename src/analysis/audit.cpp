@@ -37,11 +37,12 @@ constexpr KindText kKinds[kFindingKindCount] = {
     {"high-limit-elsewhere", "High-limit apparently set elsewhere than configured",
      "at least 4 samples (cooling needed, the other conditions clear) with the damper open "
      "above the configured limit, or at minimum below limit − deadband, by more than the "
-     "tolerance (1 K / 2.3 kJ/kg); hours are the samples on the wrong side of the configured limit or band (they overlap the first two findings)"},
+     "tolerance (1 K / 2.3 kJ/kg); hours are the samples on the wrong side of the configured limit "
+     "or band (they overlap the first two findings)"},
 };
 
 double switch_tolerance(highlimit::Quantity q) {
-  return q == highlimit::Quantity::enthalpy ? kSwitchToleranceKjPerKg
+  return q == highlimit::Quantity::enthalpy         ? kSwitchToleranceKjPerKg
          : q == highlimit::Quantity::humidity_ratio ? 0.0005  // about 0.5 g/kg, common practice
                                                     : kSwitchToleranceK;
 }
@@ -55,13 +56,15 @@ std::string_view finding_rule(FindingKind k) { return kKinds[static_cast<std::si
 std::optional<MeasuredFraction> measured_fraction(double t_o, double t_r, double t_m,
                                                   const Accuracy& a) {
   const double d = t_o - t_r;
-  const double gate = kFractionGateFactor * std::sqrt(a.outdoor_k * a.outdoor_k +
-                                                      a.return_k * a.return_k + a.mixed_k * a.mixed_k);
+  const double gate =
+      kFractionGateFactor *
+      std::sqrt(a.outdoor_k * a.outdoor_k + a.return_k * a.return_k + a.mixed_k * a.mixed_k);
   if (std::abs(d) < gate || d == 0.0) return std::nullopt;
   const double x = (t_m - t_r) / d;
   // ∂x/∂t_m = 1/d, ∂x/∂t_o = −x/d, ∂x/∂t_r = (x − 1)/d.
   const double var = (a.mixed_k * a.mixed_k + x * x * a.outdoor_k * a.outdoor_k +
-                      (1 - x) * (1 - x) * a.return_k * a.return_k) / (d * d);
+                      (1 - x) * (1 - x) * a.return_k * a.return_k) /
+                     (d * d);
   return MeasuredFraction{x, std::sqrt(var)};
 }
 
@@ -79,19 +82,24 @@ std::vector<std::string> log_notes(const SampleContext& c) {
   const auto& s = c.options->strategy;
   std::vector<std::string> notes;
   bool differential = false;
-  for (const auto& cond : s.conditions) differential = differential || cond.reference == highlimit::Reference::return_air;
+  for (const auto& cond : s.conditions)
+    differential = differential || cond.reference == highlimit::Reference::return_air;
   if (!c.outdoor_humidity)
-    notes.push_back("no outdoor humidity in the log: the energy model takes the outdoor air at "
-                    "the return air's humidity ratio");
+    notes.push_back(
+        "no outdoor humidity in the log: the energy model takes the outdoor air at "
+        "the return air's humidity ratio");
   if (!log.has(Channel::return_dry_bulb))
-    notes.push_back("no return dry-bulb in the log: decisions and energy use the unit file's "
-                    "design return air, and no outdoor-air fraction can be measured");
+    notes.push_back(
+        "no return dry-bulb in the log: decisions and energy use the unit file's "
+        "design return air, and no outdoor-air fraction can be measured");
   else if (!log.has(Channel::return_rh) && !log.has(Channel::return_dew_point))
-    notes.push_back("no return humidity in the log: the return air takes the unit file's "
-                    "design humidity ratio");
+    notes.push_back(
+        "no return humidity in the log: the return air takes the unit file's "
+        "design humidity ratio");
   if (differential && !log.has(Channel::return_dry_bulb))
-    notes.push_back("differential strategy judged against the design return air, not a "
-                    "measured one");
+    notes.push_back(
+        "differential strategy judged against the design return air, not a "
+        "measured one");
   if (!log.has(Channel::fan))
     notes.push_back("no supply-fan status in the log: every sample is taken as fan on");
   if (!log.has(Channel::damper))
@@ -114,15 +122,19 @@ SampleContext sample_context(const UnitFile& unit, const trend::TrendLog& log,
   c.dry_air_kg_per_s = unit.air_handler.dry_air_mass_flow_kg_per_s();
   c.coil = airside::coil_limits(unit.air_handler, c.pressure_kpa);
   if (!log.has(Channel::outdoor_dry_bulb))
-    throw InputError(fmt::format("{}: no outdoor dry-bulb column; the audit needs one (set it "
-                                 "with --column outdoor-dry-bulb=HEADER[:UNIT])", log.path));
+    throw InputError(
+        fmt::format("{}: no outdoor dry-bulb column; the audit needs one (set it "
+                    "with --column outdoor-dry-bulb=HEADER[:UNIT])",
+                    log.path));
   c.outdoor_humidity = log.has(Channel::outdoor_rh) || log.has(Channel::outdoor_dew_point);
   c.needs_outdoor_humidity = s.needs(highlimit::Quantity::enthalpy) ||
                              s.needs(highlimit::Quantity::dew_point) ||
                              s.needs(highlimit::Quantity::humidity_ratio);
   if (c.needs_outdoor_humidity && !c.outdoor_humidity)
-    throw InputError(fmt::format("{}: strategy {} needs the outdoor humidity, and the log has "
-                                 "no outdoor RH or dew-point column", log.path, echo(s.name)));
+    throw InputError(
+        fmt::format("{}: strategy {} needs the outdoor humidity, and the log has "
+                    "no outdoor RH or dew-point column",
+                    log.path, echo(s.name)));
   c.design_return = unit.return_air.at(c.pressure_kpa);
   return c;
 }
@@ -139,8 +151,8 @@ std::optional<double> logged_humidity_ratio(const trend::Sample& smp, const char
     w = psychro::humidity_ratio_from_relative_humidity(t, *rh, p);
   } else if (auto dp = smp[dp_ch]) {
     if (*dp > t + 0.05)
-      throw InputError(fmt::format("{} dew point {:.1f} °C above the {} dry-bulb {:.1f} °C",
-                                   point, *dp, point, t));
+      throw InputError(fmt::format("{} dew point {:.1f} °C above the {} dry-bulb {:.1f} °C", point,
+                                   *dp, point, t));
     w = psychro::humidity_ratio_from_dew_point(*dp, p);
   } else if (fallback < 0) {
     return std::nullopt;
@@ -173,7 +185,8 @@ void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_
     const double lo = std::min(*t_o, *t_r), hi = std::max(*t_o, *t_r);
     const double s_lo = std::hypot(acc.mixed_k, out_low ? acc.outdoor_k : acc.return_k);
     const double s_hi = std::hypot(acc.mixed_k, out_low ? acc.return_k : acc.outdoor_k);
-    const double excess = std::max(lo - *t_m - kCoverageFactor * s_lo, *t_m - hi - kCoverageFactor * s_hi);
+    const double excess =
+        std::max(lo - *t_m - kCoverageFactor * s_lo, *t_m - hi - kCoverageFactor * s_hi);
     if (excess > 0) {
       mixed_bad = true;
       found(FindingKind::mixed_air_out_of_range, excess, std::nullopt);
@@ -185,16 +198,19 @@ void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_
   }
   const auto damper = smp[Channel::damper];
   std::optional<bool> observed;
-  if (damper) observed = *damper > x_min + kDamperMarginFraction;
-  else if (meas) observed = meas->fraction > x_min + kDamperMarginFraction + kCoverageFactor * meas->sigma;
+  if (damper)
+    observed = *damper > x_min + kDamperMarginFraction;
+  else if (meas)
+    observed = meas->fraction > x_min + kDamperMarginFraction + kCoverageFactor * meas->sigma;
 
   // Energy of what happened against what should have: at the measured fraction when there
   // is one, else the commanded one.
-  const double x_obs = meas ? std::clamp(meas->fraction, 0.0, 1.0)
+  const double x_obs = meas     ? std::clamp(meas->fraction, 0.0, 1.0)
                        : damper ? std::clamp(*damper, x_min, ah.max_oa_fraction)
                                 : expected.oa_fraction;
   const airside::CoilLoads loads = airside::coil_loads(ah, c.coil, airside::mix(out, ret, x_obs));
-  const double e_obs = c.unit->weights.cooling * loads.cooling_kj_per_kg + c.unit->weights.heating * loads.heating_kj_per_kg;
+  const double e_obs = c.unit->weights.cooling * loads.cooling_kj_per_kg +
+                       c.unit->weights.heating * loads.heating_kj_per_kg;
   const double impact = (e_obs - expected.weighted_kj_per_kg) * c.dry_air_kg_per_s * w_s / 3600.0;
   v.energy_kwh = impact;
 
@@ -203,7 +219,8 @@ void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_
   if (observed && !*observed && enabled && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
     found(FindingKind::not_economizing_when_enabled, choice.enabled.oa_fraction - x_obs, impact);
   if (meas && damper) {
-    const double dev = std::abs(meas->fraction - *damper) - (kCoverageFactor * meas->sigma + kDamperTrackingMargin);
+    const double dev = std::abs(meas->fraction - *damper) -
+                       (kCoverageFactor * meas->sigma + kDamperTrackingMargin);
     if (dev > 0) found(FindingKind::damper_not_following, dev, impact);
   }
   if (meas) {
@@ -235,9 +252,9 @@ SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::Str
       ret = airside::air_state(*t_r, *logged_humidity_ratio(smp, "return", *t_r, Channel::return_rh,
                                                             Channel::return_dew_point,
                                                             c.design_return.humidity_ratio, p));
-    const auto w_found = logged_humidity_ratio(smp, "outdoor", *t_o, Channel::outdoor_rh,
-                                               Channel::outdoor_dew_point,
-                                               c.needs_outdoor_humidity ? -1.0 : ret.humidity_ratio, p);
+    const auto w_found =
+        logged_humidity_ratio(smp, "outdoor", *t_o, Channel::outdoor_rh, Channel::outdoor_dew_point,
+                              c.needs_outdoor_humidity ? -1.0 : ret.humidity_ratio, p);
     if (!w_found) return v;
     double w_o = *w_found;
     w_o = std::min(w_o, psychro::saturation_humidity_ratio(*t_o, p));
@@ -271,7 +288,8 @@ SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::Str
 
 FindingsTally::FindingsTally(const SampleContext& c)
     : c_(&c), points_(c.options->strategy.conditions.size()) {
-  for (std::size_t k = 0; k < kFindingKindCount; ++k) findings_[k].kind = static_cast<FindingKind>(k);
+  for (std::size_t k = 0; k < kFindingKindCount; ++k)
+    findings_[k].kind = static_cast<FindingKind>(k);
 }
 
 void FindingsTally::record(FindingKind k, std::size_t i, double excess,
@@ -288,8 +306,10 @@ void FindingsTally::record(FindingKind k, std::size_t i, double excess,
   ++f.intervals;
   f.hours += c_->log->weight_s(i) / 3600.0;
   f.last_s = t;
-  if (!energy_kwh) f.energy_kwh.reset();
-  else if (f.energy_kwh) *f.energy_kwh += *energy_kwh;
+  if (!energy_kwh)
+    f.energy_kwh.reset();
+  else if (f.energy_kwh)
+    *f.energy_kwh += *energy_kwh;
 }
 
 void FindingsTally::add(std::size_t i, const SampleVerdict& v) {
@@ -299,7 +319,8 @@ void FindingsTally::add(std::size_t i, const SampleVerdict& v) {
   ++operating_intervals_;
   if (v.fraction_measured) ++fraction_intervals_;
   for (std::size_t k = 0; k < kFindingKindCount; ++k)
-    if (const auto& f = v.findings[k]) record(static_cast<FindingKind>(k), i, f->excess, f->energy_kwh);
+    if (const auto& f = v.findings[k])
+      record(static_cast<FindingKind>(k), i, f->excess, f->energy_kwh);
   if (!v.switch_open) return;
   // Evidence for one condition's switching point only where the other conditions are clear.
   const auto& s = c_->options->strategy;
@@ -310,8 +331,10 @@ void FindingsTally::add(std::size_t i, const SampleVerdict& v) {
         others_clear = false;
     if (!others_clear) continue;
     const auto& cond = s.conditions[c];
-    const double ref = cond.reference == highlimit::Reference::return_air ? v.ret[cond.quantity] : 0.0;
-    points_[c].push_back({v.outdoor[cond.quantity] - ref, v.energy_kwh, static_cast<std::uint32_t>(i), *v.switch_open});
+    const double ref =
+        cond.reference == highlimit::Reference::return_air ? v.ret[cond.quantity] : 0.0;
+    points_[c].push_back({v.outdoor[cond.quantity] - ref, v.energy_kwh,
+                          static_cast<std::uint32_t>(i), *v.switch_open});
   }
 }
 
@@ -337,18 +360,22 @@ std::optional<SwitchPoint> FindingsTally::switch_point(const highlimit::Conditio
   const double tol = switch_tolerance(cond.quantity);
   int open_beyond = 0, closed_beyond = 0;
   for (std::size_t k = 0; k < pts.size(); ++k) {
-    if (pts[k].open) hi_open = std::max(hi_open, pts[k].v);
-    else lo_closed = std::min(lo_closed, pts[k].v);
+    if (pts[k].open)
+      hi_open = std::max(hi_open, pts[k].v);
+    else
+      lo_closed = std::min(lo_closed, pts[k].v);
     if (static_cast<int>(k) < best && pts[k].open) below_open = std::max(below_open, pts[k].v);
-    if (static_cast<int>(k) >= best && !pts[k].open) above_closed = std::min(above_closed, pts[k].v);
+    if (static_cast<int>(k) >= best && !pts[k].open)
+      above_closed = std::min(above_closed, pts[k].v);
     open_beyond += pts[k].open && pts[k].v > cond.limit + tol;
     closed_beyond += !pts[k].open && pts[k].v < cond.limit - cond.deadband - tol;
   }
-  const double estimate = below_open > -1e299 && above_closed < 1e299 ? (below_open + above_closed) / 2
-                          : below_open > -1e299                      ? below_open
-                                                                     : above_closed;
-  SwitchPoint sp{index, cond.quantity, cond.reference, cond.limit, cond.deadband,
-                 estimate, hi_open, lo_closed, n_open, n_closed, best_err, false};
+  const double estimate = below_open > -1e299 && above_closed < 1e299
+                              ? (below_open + above_closed) / 2
+                          : below_open > -1e299 ? below_open
+                                                : above_closed;
+  SwitchPoint sp{index,   cond.quantity, cond.reference, cond.limit, cond.deadband, estimate,
+                 hi_open, lo_closed,     n_open,         n_closed,   best_err,      false};
   sp.differs = open_beyond >= kSwitchMinimumSamples || closed_beyond >= kSwitchMinimumSamples;
   if (sp.differs)
     for (const auto& q : pts) {
@@ -365,8 +392,10 @@ Result FindingsTally::finish() {
   r.strategy_name = s.name;
   r.notes = log_notes(*c_);
   if (skipped_ > 0)
-    r.notes.push_back(fmt::format("{} sample(s) without the readings a decision needs (outdoor "
-                                  "air, or fan status) were left out", skipped_));
+    r.notes.push_back(
+        fmt::format("{} sample(s) without the readings a decision needs (outdoor "
+                    "air, or fan status) were left out",
+                    skipped_));
   r.operating_hours = operating_hours_;
   r.operating_intervals = operating_intervals_;
   r.fraction_intervals = fraction_intervals_;
@@ -376,7 +405,8 @@ Result FindingsTally::finish() {
   // The wrong-side intervals of every differing condition, added afterwards in time order.
   std::vector<Beyond> hl_beyond;
   for (std::size_t c = 0; c < s.conditions.size(); ++c)
-    if (auto sp = switch_point(s.conditions[c], static_cast<int>(c), std::move(points_[c]), hl_beyond))
+    if (auto sp =
+            switch_point(s.conditions[c], static_cast<int>(c), std::move(points_[c]), hl_beyond))
       r.switch_points.push_back(*sp);
   // In time order, a sample beyond two conditions once, by the farther.
   std::sort(hl_beyond.begin(), hl_beyond.end(),

@@ -83,18 +83,20 @@ PointCheck check_point(const airside::AirHandler& unit, const airside::EnergyWei
   pc.estimate_loads = airside::coil_loads(unit, air.coil, pc.estimate.mixed);
 
   pc.choice = airside::choose(unit, air, weights);
-  pc.changeover_enables =
-      pc.choice.cooling_needed &&
-      pc.choice.enabled.weighted_kj_per_kg < pc.choice.disabled.weighted_kj_per_kg;
-  pc.changeover_kj_per_kg = std::min(pc.choice.enabled.weighted_kj_per_kg,
-                                     pc.choice.disabled.weighted_kj_per_kg);
+  pc.changeover_enables = pc.choice.cooling_needed && pc.choice.enabled.weighted_kj_per_kg <
+                                                          pc.choice.disabled.weighted_kj_per_kg;
+  pc.changeover_kj_per_kg =
+      std::min(pc.choice.enabled.weighted_kj_per_kg, pc.choice.disabled.weighted_kj_per_kg);
   pc.optimal = airside::optimal_damper(unit, air, weights);
 
   pc.outcomes.reserve(strategies.size());
   for (const highlimit::Strategy& s : strategies) {
     highlimit::StrategyState state(s);
-    StrategyOutcome o{s, highlimit::decide(s, pc.outdoor_values, pc.return_values, state), {},
-                      Verdict::right_decision, 0.0};
+    StrategyOutcome o{s,
+                      highlimit::decide(s, pc.outdoor_values, pc.return_values, state),
+                      {},
+                      Verdict::right_decision,
+                      0.0};
     o.operation = o.decision.enabled ? pc.choice.enabled : pc.choice.disabled;
     o.verdict = judge(pc.choice, o.decision.enabled);
     o.excess_kj_per_kg = std::max(0.0, o.operation.weighted_kj_per_kg - pc.changeover_kj_per_kg);

@@ -49,10 +49,10 @@ constexpr SensorRow kRows[] = {
      Kind::temperature_difference, 2.0 * kFahrenheitK, 10.0, 10.0 * kFahrenheitK},
     {"outdoor_enthalpy", "outdoor enthalpy", Sensor::outdoor_humidity, HumidityKind::enthalpy,
      Kind::enthalpy_difference, 1.0 * kBtuPerLbKjPerKg, 20.0, 5.0 * kBtuPerLbKjPerKg},
-    {"return_dry_bulb", "return dry-bulb", Sensor::return_dry_bulb,
-     HumidityKind::relative_humidity, Kind::temperature_difference, 1.0 * kFahrenheitK, 10.0, 0},
-    {"return_rh", "return RH", Sensor::return_rh, HumidityKind::relative_humidity,
-     Kind::fraction, 0.05, 0.30, 0.25},
+    {"return_dry_bulb", "return dry-bulb", Sensor::return_dry_bulb, HumidityKind::relative_humidity,
+     Kind::temperature_difference, 1.0 * kFahrenheitK, 10.0, 0},
+    {"return_rh", "return RH", Sensor::return_rh, HumidityKind::relative_humidity, Kind::fraction,
+     0.05, 0.30, 0.25},
 };
 
 const SensorRow& row(Sensor s, HumidityKind k) {
@@ -194,7 +194,7 @@ Reading derive(double t_c, HumidityKind kind, double humidity, double p_kpa, boo
       break;
     }
     case HumidityKind::enthalpy: {
-      h = humidity;  // the controller compares the enthalpy reading itself
+      h = humidity;           // the controller compares the enthalpy reading itself
       if (h < 1.006 * t_c) {  // below dry air at this dry-bulb
         w = 0.0;
         clamped = true;
@@ -343,8 +343,7 @@ SensorSet read_sensors(const RawTable* raw, std::string_view file, units::System
     const std::string where = origin(v.source(), k.str());
     const std::string band = fmt::format("sensors.{}", r->key);
     double a = plausible::parse(*plausible::find(band), text_of(v, k.str(), true), bare,
-                                {where, plausible::in_file(bare)},
-                                s.warnings);
+                                {where, plausible::in_file(bare)}, s.warnings);
     // The largest accuracy is accepted as written in either system ("18F" for 10 K).
     if (!units::within(a, 0.0, r->max))
       fail(v.source(), k.str(),
@@ -649,7 +648,8 @@ StudyResult run_study(const Engine& engine, const SensorSet& sensors, const Stud
     r.trial.push_back(static_cast<std::uint32_t>(k));
     r.trial_biases.push_back(biases[k]);
     r.trial_clamps.push_back(clamps[k]);
-    r.trial_outcomes.insert(r.trial_outcomes.end(), outcomes.begin() + static_cast<std::ptrdiff_t>(k * n_s),
+    r.trial_outcomes.insert(r.trial_outcomes.end(),
+                            outcomes.begin() + static_cast<std::ptrdiff_t>(k * n_s),
                             outcomes.begin() + static_cast<std::ptrdiff_t>((k + 1) * n_s));
   }
 
@@ -706,8 +706,8 @@ SweepSpec sweep_spec(std::string_view sensor_key, const std::array<std::string_v
   if (r == nullptr) {
     std::string allowed;
     for (const SensorRow& x : kRows) allowed += (allowed.empty() ? "" : ", ") + std::string(x.key);
-    throw InputError(fmt::format("{}: {} is not a sensor (allowed: {})", origin,
-                                 echo(sensor_key), allowed));
+    throw InputError(
+        fmt::format("{}: {} is not a sensor (allowed: {})", origin, echo(sensor_key), allowed));
   }
   SweepSpec spec;
   spec.sensor = r->sensor;
@@ -801,9 +801,8 @@ SweepResult run_sweep(const annual::Prepared& p, std::span<const highlimit::Stra
       return best_db && r.outcomes[i][s].shortfall_kwh > *best_db;
     })
                                                  : SweepTurn{});
-    r.stops_saving.push_back(turn([&](std::size_t i) {
-      return r.outcomes[i][s].energy_kwh >= r.no_economizer_kwh;
-    }));
+    r.stops_saving.push_back(
+        turn([&](std::size_t i) { return r.outcomes[i][s].energy_kwh >= r.no_economizer_kwh; }));
   }
   return r;
 }
@@ -837,7 +836,8 @@ std::vector<BreakEvenPair> humidity_pairs(const std::vector<highlimit::Strategy>
         pair.dry_name = all[d].name;
         pairs.push_back(pair);
         for (std::size_t x : {h, d})
-          if (std::find(involved.begin(), involved.end(), x) == involved.end()) involved.push_back(x);
+          if (std::find(involved.begin(), involved.end(), x) == involved.end())
+            involved.push_back(x);
       }
   std::sort(involved.begin(), involved.end());
   return pairs;
@@ -853,7 +853,8 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
   // The humidity accuracies a scale multiplies; the typical ones when both are zero.
   if (at(r.base.accuracy, Sensor::outdoor_humidity) == 0.0 &&
       at(r.base.accuracy, Sensor::return_rh) == 0.0) {
-    at(r.base.accuracy, Sensor::outdoor_humidity) = typical_accuracy(Sensor::outdoor_humidity, kind);
+    at(r.base.accuracy, Sensor::outdoor_humidity) =
+        typical_accuracy(Sensor::outdoor_humidity, kind);
     at(r.base.accuracy, Sensor::return_rh) = typical_accuracy(Sensor::return_rh, kind);
   }
   const double base_o = at(r.base.accuracy, Sensor::outdoor_humidity);
@@ -906,8 +907,8 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
     return r;
   }
   auto pos = [&](std::size_t engine_index) {
-    return static_cast<std::size_t>(
-        std::find(involved.begin(), involved.end(), engine_index) - involved.begin());
+    return static_cast<std::size_t>(std::find(involved.begin(), involved.end(), engine_index) -
+                                    involved.begin());
   };
   // A humidity strategy's mean at a scale, remembered: pairs with the same humidity strategy
   // share their first bisection steps.
@@ -949,8 +950,10 @@ BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
       }
       step_done();
       const double f = it->second - pair.dry_mean_kwh;
-      if (f < 0.0) lo = mid, f_lo = f;
-      else hi = mid, f_hi = f;
+      if (f < 0.0)
+        lo = mid, f_lo = f;
+      else
+        hi = mid, f_hi = f;
     }
     if (interrupted) {
       r.partial = true;

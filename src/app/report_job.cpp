@@ -14,12 +14,15 @@ namespace {
 
 using units::Kind;
 
-std::string q(Kind k, units::System s, double si, int decimals) { return units::format(k, s, si, decimals); }
+std::string q(Kind k, units::System s, double si, int decimals) {
+  return units::format(k, s, si, decimals);
+}
 
 std::string air_text(const AirPoint& a, double p, units::System s) {
   const psychro::Properties pr = a.properties(p);
-  return fmt::format("{}, {:.0f}% RH (dew point {}, enthalpy {})", q(Kind::temperature, s, pr.dry_bulb_c, 1),
-                     100.0 * pr.relative_humidity, q(Kind::temperature, s, pr.dew_point_c, 1),
+  return fmt::format("{}, {:.0f}% RH (dew point {}, enthalpy {})",
+                     q(Kind::temperature, s, pr.dry_bulb_c, 1), 100.0 * pr.relative_humidity,
+                     q(Kind::temperature, s, pr.dew_point_c, 1),
                      q(Kind::enthalpy, s, pr.enthalpy_kj_per_kg, 1));
 }
 
@@ -28,21 +31,28 @@ std::vector<std::pair<std::string, std::string>> unit_facts(const UnitFile& u, u
   const double p = u.site.design_pressure_kpa();
   std::string min_oa = q(Kind::fraction, s, a.min_oa_fraction, 0);
   if (u.min_outdoor_airflow_m3_per_s)
-    min_oa = fmt::format("{} ({} of outdoor air)", min_oa, q(Kind::airflow, s, *u.min_outdoor_airflow_m3_per_s, s == units::System::ip ? 0 : 3));
+    min_oa = fmt::format(
+        "{} ({} of outdoor air)", min_oa,
+        q(Kind::airflow, s, *u.min_outdoor_airflow_m3_per_s, s == units::System::ip ? 0 : 3));
   std::vector<std::pair<std::string, std::string>> f = {
-      {"Supply air", fmt::format("{} at {}", q(Kind::airflow, s, a.supply_airflow_m3_per_s, s == units::System::ip ? 0 : 3),
-                                 q(Kind::temperature, s, a.supply_air_temp_c, 1))},
+      {"Supply air",
+       fmt::format("{} at {}",
+                   q(Kind::airflow, s, a.supply_airflow_m3_per_s, s == units::System::ip ? 0 : 3),
+                   q(Kind::temperature, s, a.supply_air_temp_c, 1))},
       {"Supply fan", fmt::format("{}, heat {}", airside::fan_position_name(a.fan_position),
                                  q(Kind::temperature_difference, s, a.fan_heat_k, 1))},
-      {"Outdoor air", fmt::format("{} minimum, {} maximum; {} economizer", min_oa, q(Kind::fraction, s, a.max_oa_fraction, 0),
+      {"Outdoor air", fmt::format("{} minimum, {} maximum; {} economizer", min_oa,
+                                  q(Kind::fraction, s, a.max_oa_fraction, 0),
                                   airside::economizer_name(a.economizer))},
       {"Mixed-air target", q(Kind::temperature, s, a.mixed_air_target_c(), 1)},
-      {"Cooling coil", fmt::format("leaving {}, at most {} RH", q(Kind::temperature, s, a.coil_leaving_temp_c(), 1),
-                                   q(Kind::fraction, s, a.coil_leaving_rh_max, 0))},
+      {"Cooling coil",
+       fmt::format("leaving {}, at most {} RH", q(Kind::temperature, s, a.coil_leaving_temp_c(), 1),
+                   q(Kind::fraction, s, a.coil_leaving_rh_max, 0))},
       {"Return air", air_text(u.return_air, p, s)},
   };
   if (u.weights.cooling != 1.0 || u.weights.heating != 1.0)
-    f.emplace_back("Energy weights", fmt::format("cooling {:.3g}, heating {:.3g}", u.weights.cooling, u.weights.heating));
+    f.emplace_back("Energy weights", fmt::format("cooling {:.3g}, heating {:.3g}",
+                                                 u.weights.cooling, u.weights.heating));
   return f;
 }
 
@@ -51,7 +61,9 @@ std::vector<std::pair<std::string, std::string>> unit_facts(const UnitFile& u, u
 UnitFile load_unit(const UnitSource& source) {
   if (!source.embedded) return load_unit_file(source.path);
   const auto text = embedded::find(source.path);
-  if (!text) throw InputError(fmt::format("embedded demo unit '{}' is missing from this build", source.path));
+  if (!text)
+    throw InputError(
+        fmt::format("embedded demo unit '{}' is missing from this build", source.path));
   return parse_unit_file(*text, source.path);
 }
 
@@ -62,23 +74,27 @@ std::string pressure_basis(const Site& site, units::System s) {
 }
 
 std::vector<highlimit::Strategy> select_strategies(std::span<const highlimit::Strategy> all,
-                                                   std::span<const std::string> names, std::string_view origin,
+                                                   std::span<const std::string> names,
+                                                   std::string_view origin,
                                                    std::string_view unit_label) {
   if (names.empty()) return {all.begin(), all.end()};
   std::vector<highlimit::Strategy> out;
   for (const auto& n : names) {
-    const auto it = std::find_if(all.begin(), all.end(), [&](const auto& s) { return s.name == n; });
+    const auto it =
+        std::find_if(all.begin(), all.end(), [&](const auto& s) { return s.name == n; });
     if (it == all.end()) {
       std::string list;
       for (const auto& s : all) list += (list.empty() ? "'" : ", '") + s.name + "'";
-      throw InputError(fmt::format("{}: '{}' is not a strategy of {} (it has {})", origin, n, unit_label, list));
+      throw InputError(
+          fmt::format("{}: '{}' is not a strategy of {} (it has {})", origin, n, unit_label, list));
     }
     out.push_back(*it);
   }
   return out;
 }
 
-report::ChartInput chart_input(const UnitFile& unit, std::vector<highlimit::Strategy> strategies, units::System s) {
+report::ChartInput chart_input(const UnitFile& unit, std::vector<highlimit::Strategy> strategies,
+                               units::System s) {
   report::ChartInput c;
   c.title = unit.site.name.empty() ? unit.path : unit.site.name;
   c.pressure_kpa = unit.site.design_pressure_kpa();
@@ -96,9 +112,10 @@ void add_climate(report::ChartInput& chart, const annual::Prepared& prepared, st
   chart.climate_label = std::move(label);
 }
 
-report::CheckMarks check_marks(const UnitFile& unit, std::span<const highlimit::Strategy> strategies,
-                               const AirPoint& outdoor, std::string_view outdoor_origin, const AirPoint& ret,
-                               std::string_view return_origin) {
+report::CheckMarks check_marks(const UnitFile& unit,
+                               std::span<const highlimit::Strategy> strategies,
+                               const AirPoint& outdoor, std::string_view outdoor_origin,
+                               const AirPoint& ret, std::string_view return_origin) {
   const double p = unit.site.design_pressure_kpa();
   const psychro::MoistAir o = outdoor.state(p, outdoor_origin);
   const psychro::MoistAir r = ret.state(p, return_origin);
@@ -115,31 +132,36 @@ report::CheckMarks check_marks(const UnitFile& unit, std::span<const highlimit::
   return m;
 }
 
-std::optional<report::ComplianceSection> compliance(const UnitFile& unit, std::span<const highlimit::Strategy> strategies,
+std::optional<report::ComplianceSection> compliance(const UnitFile& unit,
+                                                    std::span<const highlimit::Strategy> strategies,
                                                     units::System s) {
   const Site& site = unit.site;
   if (site.energy_code.empty() && site.climate_zone.empty()) return std::nullopt;
   if (site.energy_code.empty() || site.climate_zone.empty())
-    throw InputError(fmt::format("{}: the site names {} but no {}; give both site.energy_code and site.climate_zone, or neither",
-                                 site.energy_code.empty() ? site.climate_zone_origin : site.energy_code_origin,
-                                 site.energy_code.empty() ? "a climate zone" : "an energy code",
-                                 site.energy_code.empty() ? "energy code" : "climate zone"));
+    throw InputError(
+        fmt::format("{}: the site names {} but no {}; give both site.energy_code and "
+                    "site.climate_zone, or neither",
+                    site.energy_code.empty() ? site.climate_zone_origin : site.energy_code_origin,
+                    site.energy_code.empty() ? "a climate zone" : "an energy code",
+                    site.energy_code.empty() ? "energy code" : "climate zone"));
   const codes::CodeTables tables = codes::CodeTables::load_installed();
   const codes::Edition& ed = tables.edition(site.energy_code, site.energy_code_origin);
-  const codes::ZoneRequirements zone =
-      codes::requirements(ed, site.climate_zone, codes::SiteConditions{site.design_pressure_kpa(), {}}, site.climate_zone_origin);
+  const codes::ZoneRequirements zone = codes::requirements(
+      ed, site.climate_zone, codes::SiteConditions{site.design_pressure_kpa(), {}},
+      site.climate_zone_origin);
   report::ComplianceSection out;
   out.label = fmt::format("{} ({}), climate zone {}", ed.title, ed.id, zone.zone);
   const codes::IntegrationCheck integ = codes::check_integration(ed, unit.air_handler.economizer);
   if (integ.rule && integ.rule->required)
-    out.notes.push_back(fmt::format("Economizer integration ({}): {} This unit's economizer is {}: {}.", integ.rule->clause,
-                                    integ.rule->requirement,
-                                    airside::economizer_name(unit.air_handler.economizer),
-                                    integ.complies ? "complies" : "does not comply"));
+    out.notes.push_back(fmt::format(
+        "Economizer integration ({}): {} This unit's economizer is {}: {}.", integ.rule->clause,
+        integ.rule->requirement, airside::economizer_name(unit.air_handler.economizer),
+        integ.complies ? "complies" : "does not comply"));
   if (!ed.provenance.empty()) out.notes.push_back("Code table values: " + ed.provenance + ".");
   for (const auto& st : strategies) {
     const codes::StrategyCheck chk = codes::check_strategy(zone, st);
-    out.lines.push_back({st.name, std::string(codes::verdict_word(chk.verdict)), codes::verdict_text(chk, zone, s)});
+    out.lines.push_back({st.name, std::string(codes::verdict_word(chk.verdict)),
+                         codes::verdict_text(chk, zone, s)});
   }
   return out;
 }

@@ -61,8 +61,7 @@ void write_chunk(std::ostream& out, std::string& buffer) {
 
 }  // namespace
 
-std::size_t write_state_batch(std::istream& in, std::ostream& out,
-                              const StateBatchOptions& opt) {
+std::size_t write_state_batch(std::istream& in, std::ostream& out, const StateBatchOptions& opt) {
   std::string line;
   std::size_t line_no = 0;
   // Header: the first non-blank line, after a UTF-8 byte-order mark if the file starts with one.
@@ -78,9 +77,18 @@ std::size_t write_state_batch(std::istream& in, std::ostream& out,
   const HumidityColumn* humidity_kind = nullptr;
   for (std::size_t i = 0; i < header.size(); ++i) {
     const std::string h = text::to_lower(header[i]);
-    if (h == "dry_bulb") { dry_bulb = i; continue; }
-    if (h == "pressure") { pressure = i; continue; }
-    if (h == "elevation") { elevation = i; continue; }
+    if (h == "dry_bulb") {
+      dry_bulb = i;
+      continue;
+    }
+    if (h == "pressure") {
+      pressure = i;
+      continue;
+    }
+    if (h == "elevation") {
+      elevation = i;
+      continue;
+    }
     bool known = false;
     for (const HumidityColumn& c : kHumidityColumns) {
       if (c.name != h) continue;
@@ -92,19 +100,20 @@ std::size_t write_state_batch(std::istream& in, std::ostream& out,
       humidity_kind = &c;
     }
     if (!known)
-      throw InputError(fmt::format(
-          "{}:{}: column '{}' is not known (allowed: dry_bulb, rh, relative_humidity, "
-          "wet_bulb, dew_point, humidity_ratio, enthalpy, pressure, elevation)",
-          opt.origin, line_no, header[i]));
+      throw InputError(
+          fmt::format("{}:{}: column '{}' is not known (allowed: dry_bulb, rh, relative_humidity, "
+                      "wet_bulb, dew_point, humidity_ratio, enthalpy, pressure, elevation)",
+                      opt.origin, line_no, header[i]));
   }
   if (!dry_bulb) throw InputError(fmt::format("{}:{}: no dry_bulb column", opt.origin, line_no));
   if (!humidity)
-    throw InputError(fmt::format("{}:{}: no humidity column (one of rh, wet_bulb, dew_point, "
-                                 "humidity_ratio, enthalpy)",
-                                 opt.origin, line_no));
+    throw InputError(
+        fmt::format("{}:{}: no humidity column (one of rh, wet_bulb, dew_point, "
+                    "humidity_ratio, enthalpy)",
+                    opt.origin, line_no));
   if (pressure && elevation)
-    throw InputError(fmt::format("{}:{}: give pressure or elevation, not both", opt.origin,
-                                 line_no));
+    throw InputError(
+        fmt::format("{}:{}: give pressure or elevation, not both", opt.origin, line_no));
 
   const auto fields = report::property_fields();
   std::string buffer;

@@ -50,7 +50,8 @@ weather::Mapping mapping_for(const UnitFile& unit, bool unit_table, const Weathe
 }
 
 weather::WeatherSeries read_weather(const UnitFile& unit, bool embedded_unit,
-                                    const weather::Mapping& m, const std::optional<std::string>& cli_file,
+                                    const weather::Mapping& m,
+                                    const std::optional<std::string>& cli_file,
                                     std::string& label) {
   const double site_p = unit.site.design_pressure_kpa();
   if (cli_file) {
@@ -58,13 +59,15 @@ weather::WeatherSeries read_weather(const UnitFile& unit, bool embedded_unit,
     return weather::read_file(*cli_file, m, site_p);
   }
   if (!m.file)
-    throw InputError(fmt::format("{}: no weather file: give --weather FILE, or file = \"...\" in "
-                                 "the unit file's [weather] table",
-                                 unit.path));
+    throw InputError(
+        fmt::format("{}: no weather file: give --weather FILE, or file = \"...\" in "
+                    "the unit file's [weather] table",
+                    unit.path));
   if (embedded_unit) {
     const auto text = embedded::find(*m.file);
     if (!text)
-      throw InputError(fmt::format("embedded demo weather '{}' is missing from this build", *m.file));
+      throw InputError(
+          fmt::format("embedded demo weather '{}' is missing from this build", *m.file));
     label = fmt::format("{} (embedded invented demo climate)", *m.file);
     return weather::read_text(*text, *m.file, m, site_p);
   }
@@ -95,7 +98,9 @@ YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& ov
   YearInputs in;
   if (source.embedded) {
     const auto text = embedded::find(source.path);
-    if (!text) throw InputError(fmt::format("embedded demo unit '{}' is missing from this build", source.path));
+    if (!text)
+      throw InputError(
+          fmt::format("embedded demo unit '{}' is missing from this build", source.path));
     in.unit = parse_unit_file(*text, source.path);
     in.unit_label = fmt::format("{} (embedded invented demo unit)", source.path);
   } else {
@@ -121,7 +126,8 @@ YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
   in.warnings = base.unit.warnings;
   WeatherOverrides o = overrides;
   o.file = weather_path;
-  in.weather = read_weather(in.unit, false, mapping_for(in.unit, true, o), o.file, in.weather_label);
+  in.weather =
+      read_weather(in.unit, false, mapping_for(in.unit, true, o), o.file, in.weather_label);
   if (auto w = site_pressure_warning(in.unit, in.weather.info)) in.warnings.push_back(*w);
   return in;
 }
@@ -134,12 +140,14 @@ std::optional<std::string> site_pressure_warning(const UnitFile& unit,
   if (std::fabs(p_file - p_site) <= kSitePressureToleranceKpa) return std::nullopt;
   // In the unit file's own system: the warning is about what that file says.
   const units::System sys = unit.units;
-  const auto pressure = [&](double kpa) { return units::format(units::Kind::pressure, sys, kpa, sys == units::System::ip ? 2 : 1); };
+  const auto pressure = [&](double kpa) {
+    return units::format(units::Kind::pressure, sys, kpa, sys == units::System::ip ? 2 : 1);
+  };
   const auto length = [&](double m) { return units::format(units::Kind::length, sys, m, 0); };
-  const std::string given =
-      site.elevation_m ? fmt::format("elevation {} gives a standard pressure of {}",
-                                     length(*site.elevation_m), pressure(p_site))
-                       : fmt::format("pressure {}", pressure(p_site));
+  const std::string given = site.elevation_m
+                                ? fmt::format("elevation {} gives a standard pressure of {}",
+                                              length(*site.elevation_m), pressure(p_site))
+                                : fmt::format("pressure {}", pressure(p_site));
   double z = 0.0;
   try {
     z = psychro::elevation_from_standard_pressure_m(p_file);
@@ -151,8 +159,10 @@ std::optional<std::string> site_pressure_warning(const UnitFile& unit,
       "check the site's elevation and that the weather is this site's (each hour is computed "
       "at the file's pressure)",
       site.pressure_origin, given, w.source, pressure(p_file), length(z),
-      units::format(units::Kind::pressure, sys, std::fabs(p_file - p_site), sys == units::System::ip ? 2 : 1),
-      units::format(units::Kind::pressure, sys, kSitePressureToleranceKpa, sys == units::System::ip ? 2 : 0),
+      units::format(units::Kind::pressure, sys, std::fabs(p_file - p_site),
+                    sys == units::System::ip ? 2 : 1),
+      units::format(units::Kind::pressure, sys, kSitePressureToleranceKpa,
+                    sys == units::System::ip ? 2 : 0),
       length(200.0));
 }
 
@@ -164,8 +174,8 @@ std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSer
   std::vector<annual::OutdoorInterval> out;
   out.reserve(w.hours.size());
   for (const auto& h : w.hours)
-    out.push_back({h.month, h.day, h.day_of_year, h.hour * 60 + h.minute, h.weight_h,
-                   h.dry_bulb_c, h.humidity_ratio, h.pressure_kpa});
+    out.push_back({h.month, h.day, h.day_of_year, h.hour * 60 + h.minute, h.weight_h, h.dry_bulb_c,
+                   h.humidity_ratio, h.pressure_kpa});
   return out;
 }
 
@@ -184,18 +194,23 @@ report::YearContext year_context(const YearInputs& in, units::System s) {
   c.unit_source = in.unit_label;
   const Site& site = in.unit.site;
   std::string basis;
-  if (site.pressure_kpa) basis = "site pressure as given";
+  if (site.pressure_kpa)
+    basis = "site pressure as given";
   else if (site.elevation_m)
-    basis = fmt::format("standard pressure at {}", units::format(units::Kind::length, s, *site.elevation_m, 0));
-  else basis = "sea-level standard pressure (no elevation given)";
-  c.site = fmt::format("{}{}design pressure {} ({}){}", site.name, site.name.empty() ? "" : "; ",
-                       units::format(units::Kind::pressure, s, site.design_pressure_kpa(), 3), basis,
-                       in.weather.info.pressure_from_file ? "; hourly pressure from the weather file" : "");
+    basis = fmt::format("standard pressure at {}",
+                        units::format(units::Kind::length, s, *site.elevation_m, 0));
+  else
+    basis = "sea-level standard pressure (no elevation given)";
+  c.site = fmt::format(
+      "{}{}design pressure {} ({}){}", site.name, site.name.empty() ? "" : "; ",
+      units::format(units::Kind::pressure, s, site.design_pressure_kpa(), 3), basis,
+      in.weather.info.pressure_from_file ? "; hourly pressure from the weather file" : "");
   c.weather_source = in.weather_label;
   c.weather_notes = weather::describe(in.weather.info);
   c.schedule = in.schedule.describe();
   c.warnings = in.warnings;
-  for (const auto& st : in.strategies) c.strategy_descriptions[st.name] = report::describe_strategy(st, s);
+  for (const auto& st : in.strategies)
+    c.strategy_descriptions[st.name] = report::describe_strategy(st, s);
   return c;
 }
 
@@ -218,7 +233,8 @@ std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string&
   // Every entry named *.csv is a site, whatever it is: the weather reader names what is
   // wrong with a folder, a device or a dangling link, so none is skipped without a word.
   for (; !ec && it != fs::directory_iterator(); it.increment(ec)) {
-    if (text::iequals(it->path().extension().string(), ".csv")) files.push_back(it->path().string());
+    if (text::iequals(it->path().extension().string(), ".csv"))
+      files.push_back(it->path().string());
   }
   if (ec) throw InputError(fmt::format("--batch: cannot list {}: {}", echo(dir), ec.message()));
   std::sort(files.begin(), files.end());
@@ -256,13 +272,15 @@ void add_compliance(report::YearContext& c, const YearInputs& in, const CodeSele
   const std::string zone = code.zone ? *code.zone : site.climate_zone;
   if (edition.empty() && zone.empty()) return;
   if (edition.empty())
-    throw InputError(fmt::format("{}: climate_zone is given but no energy_code (set [site] "
-                                 "energy_code or --edition)",
-                                 code.zone ? std::string("--zone") : site.climate_zone_origin));
+    throw InputError(
+        fmt::format("{}: climate_zone is given but no energy_code (set [site] "
+                    "energy_code or --edition)",
+                    code.zone ? std::string("--zone") : site.climate_zone_origin));
   if (zone.empty())
-    throw InputError(fmt::format("{}: energy_code is given but no climate_zone (set [site] "
-                                 "climate_zone or --zone)",
-                                 code.edition ? std::string("--edition") : site.energy_code_origin));
+    throw InputError(
+        fmt::format("{}: energy_code is given but no climate_zone (set [site] "
+                    "climate_zone or --zone)",
+                    code.edition ? std::string("--edition") : site.energy_code_origin));
   std::vector<std::filesystem::path> extra(code.extra_tables.begin(), code.extra_tables.end());
   const codes::CodeTables tables = codes::CodeTables::load_installed(extra);
   // Errors name where each value came from: the option, or the [site] key's FILE:LINE.
@@ -273,9 +291,10 @@ void add_compliance(report::YearContext& c, const YearInputs& in, const CodeSele
   for (std::size_t i = 0; i < in.strategies.size() && i < words.size(); ++i)
     c.compliance[in.strategies[i].name] = words[i];
   const codes::Edition& e = tables.edition(edition, edition_origin);
-  c.code_label = fmt::format("{}, climate zone {} (tables from memory; verify against the "
-                             "adopted edition — see limitline code)",
-                             e.title, zone);
+  c.code_label = fmt::format(
+      "{}, climate zone {} (tables from memory; verify against the "
+      "adopted edition — see limitline code)",
+      e.title, zone);
 }
 
 }  // namespace limitline

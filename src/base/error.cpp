@@ -12,7 +12,11 @@ std::string echo(std::string_view value) {
     const auto c = static_cast<unsigned char>(value[i]);
     // A whole UTF-8 sequence (degree signs, superscripts) is kept as it is; a broken one is
     // escaped byte by byte.
-    std::size_t len = c < 0x80 ? 1 : (c >> 5) == 0x6 ? 2 : (c >> 4) == 0xe ? 3 : (c >> 3) == 0x1e ? 4 : 0;
+    std::size_t len = c < 0x80           ? 1
+                      : (c >> 5) == 0x6  ? 2
+                      : (c >> 4) == 0xe  ? 3
+                      : (c >> 3) == 0x1e ? 4
+                                         : 0;
     bool valid = len > 1 && i + len <= value.size();
     for (std::size_t k = 1; valid && k < len; ++k)
       valid = (static_cast<unsigned char>(value[i + k]) >> 6) == 0x2;
@@ -27,8 +31,10 @@ std::string echo(std::string_view value) {
       case '\t': out += "\\t"; break;
       case '\\': out += "\\\\"; break;
       default:
-        if (c < 0x20 || c >= 0x7f) out += fmt::format("\\x{:02x}", c);
-        else out.push_back(static_cast<char>(c));
+        if (c < 0x20 || c >= 0x7f)
+          out += fmt::format("\\x{:02x}", c);
+        else
+          out.push_back(static_cast<char>(c));
     }
     ++i;
   }

@@ -29,40 +29,52 @@ constexpr std::string_view kDetails =
     "return-dew-point, mixed-air, supply-air, damper, fan, cooling; UNIT F, C, % or fraction.\n\n"
     "Examples:\n"
     "  limitline audit examples/audit-office.toml examples/trend-office.csv\n"
-    "  limitline audit examples/audit-office.toml examples/trend-office.csv --edition ashrae-90.1-2019 --zone 4A --format md\n"
-    "  limitline audit examples/audit-office.toml examples/trend-office.csv --column mixed-air=\"MA Temp (°F):F\" --max-gap 45";
+    "  limitline audit examples/audit-office.toml examples/trend-office.csv --edition "
+    "ashrae-90.1-2019 --zone 4A --format md\n"
+    "  limitline audit examples/audit-office.toml examples/trend-office.csv --column "
+    "mixed-air=\"MA Temp (°F):F\" --max-gap 45";
 
-highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map& vm, std::string& source) {
+highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map& vm,
+                                  std::string& source) {
   const bool code = vm.count("edition") || vm.count("zone");
   if (code) {
-    const std::string edition = vm.count("edition") ? vm["edition"].as<std::string>() : unit.site.energy_code;
-    const std::string zone = vm.count("zone") ? vm["zone"].as<std::string>() : unit.site.climate_zone;
+    const std::string edition =
+        vm.count("edition") ? vm["edition"].as<std::string>() : unit.site.energy_code;
+    const std::string zone =
+        vm.count("zone") ? vm["zone"].as<std::string>() : unit.site.climate_zone;
     if (edition.empty()) throw UsageError("--zone needs --edition (or [site] energy_code)");
     if (zone.empty()) throw UsageError("--edition needs --zone (or [site] climate_zone)");
     const auto tables = codes::CodeTables::load_installed();
-    const auto& ed = tables.edition(edition, vm.count("edition") ? "--edition" : "site.energy_code");
+    const auto& ed =
+        tables.edition(edition, vm.count("edition") ? "--edition" : "site.energy_code");
     codes::SiteConditions site;
     site.pressure_kpa = unit.site.design_pressure_kpa();
-    const auto req = codes::requirements(ed, zone, site, vm.count("zone") ? "--zone" : "site.climate_zone");
+    const auto req =
+        codes::requirements(ed, zone, site, vm.count("zone") ? "--zone" : "site.climate_zone");
     std::string names;
     for (const auto& a : req.allowed) {
       const auto s = a.strategy();
       if (!s) continue;
       names += (names.empty() ? "" : ", ") + a.row->control;
-      if (vm.count("strategy") && text::normalise_name(a.row->control) != text::normalise_name(vm["strategy"].as<std::string>()))
+      if (vm.count("strategy") && text::normalise_name(a.row->control) !=
+                                      text::normalise_name(vm["strategy"].as<std::string>()))
         continue;
       source = fmt::format("{} zone {}, {}", ed.id, req.zone, a.row->control);
       return *s;
     }
-    throw InputError(vm.count("strategy")
-                         ? fmt::format("--strategy: '{}' is not a control type {} allows in zone {} (allowed: {})",
-                                       vm["strategy"].as<std::string>(), ed.id, req.zone, names)
-                         : fmt::format("--zone: {} allows no modelled control type in zone {}", ed.id, req.zone));
+    throw InputError(
+        vm.count("strategy")
+            ? fmt::format(
+                  "--strategy: '{}' is not a control type {} allows in zone {} (allowed: {})",
+                  vm["strategy"].as<std::string>(), ed.id, req.zone, names)
+            : fmt::format("--zone: {} allows no modelled control type in zone {}", ed.id,
+                          req.zone));
   }
   const auto all = strategies_or_presets(unit);
   if (!vm.count("strategy")) {
-    source = unit.strategies_defaulted ? "no strategy in the unit file: first preset at common-practice settings"
-                                       : "first strategy of the unit file";
+    source = unit.strategies_defaulted
+                 ? "no strategy in the unit file: first preset at common-practice settings"
+                 : "first strategy of the unit file";
     return all.front();
   }
   const std::string want = text::normalise_name(vm["strategy"].as<std::string>());
@@ -82,23 +94,31 @@ highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map&
 
 int run_audit(const std::vector<std::string>& args) {
   po::options_description options("options");
-  options.add_options()
-      ("unit", po::value<std::string>(), "unit file (TOML)")
-      ("trend", po::value<std::string>(), "trend log (CSV)")
-      ("strategy", po::value<std::string>(), "strategy of the unit file to audit against (default: the first)")
-      ("edition", po::value<std::string>(), "audit against the energy code's required strategy: edition")
-      ("zone", po::value<std::string>(), "climate zone for --edition (default: [site] climate_zone)")
-      ("column", po::value<std::vector<std::string>>()->composing(),
-       "trend column QUANTITY=HEADER[:UNIT] (repeatable)")
-      ("max-gap", po::value<std::string>(), "longest time one sample stands for, minutes (default: twice the median interval)")
-      ("outdoor-accuracy", po::value<std::string>(), "outdoor-air temperature sensor accuracy (default 0.9F / 0.5K)")
-      ("return-accuracy", po::value<std::string>(), "return-air temperature sensor accuracy (default 0.9F / 0.5K)")
-      ("mixed-accuracy", po::value<std::string>(), "mixed-air temperature sensor accuracy (default 0.9F / 0.5K)");
+  options.add_options()("unit", po::value<std::string>(), "unit file (TOML)")(
+      "trend", po::value<std::string>(), "trend log (CSV)")(
+      "strategy", po::value<std::string>(),
+      "strategy of the unit file to audit against (default: the first)")(
+      "edition", po::value<std::string>(),
+      "audit against the energy code's required strategy: edition")(
+      "zone", po::value<std::string>(),
+      "climate zone for --edition (default: [site] climate_zone)")(
+      "column", po::value<std::vector<std::string>>()->composing(),
+      "trend column QUANTITY=HEADER[:UNIT] (repeatable)")(
+      "max-gap", po::value<std::string>(),
+      "longest time one sample stands for, minutes (default: twice the median interval)")(
+      "outdoor-accuracy", po::value<std::string>(),
+      "outdoor-air temperature sensor accuracy (default 0.9F / 0.5K)")(
+      "return-accuracy", po::value<std::string>(),
+      "return-air temperature sensor accuracy (default 0.9F / 0.5K)")(
+      "mixed-accuracy", po::value<std::string>(),
+      "mixed-air temperature sensor accuracy (default 0.9F / 0.5K)");
   add_common_options(options, "text, md, json");
   po::positional_options_description pos;
   pos.add("unit", 1).add("trend", 1);
   po::variables_map vm;
-  if (!parse_options(args, options, pos, "limitline audit UNIT.toml TREND.csv [options]", kDetails, vm)) return 0;
+  if (!parse_options(args, options, pos, "limitline audit UNIT.toml TREND.csv [options]", kDetails,
+                     vm))
+    return 0;
   const Common common = read_common(vm, {Format::text, Format::md, Format::json});
   if (!vm.count("unit") || !vm.count("trend")) throw UsageError("give a unit file and a trend log");
 
@@ -115,8 +135,9 @@ int run_audit(const std::vector<std::string>& args) {
   if (vm.count("max-gap")) {
     const double minutes = units::parse_number(vm["max-gap"].as<std::string>(), "--max-gap");
     if (!(minutes > 0) || !(minutes * 60.0 <= trend::kMaxGapLimitS))
-      throw InputError(fmt::format("--max-gap: {} is not a number of minutes above 0 and at most {:.0f} (a year)",
-                                   echo(vm["max-gap"].as<std::string>()), trend::kMaxGapLimitS / 60.0));
+      throw InputError(fmt::format(
+          "--max-gap: {} is not a number of minutes above 0 and at most {:.0f} (a year)",
+          echo(vm["max-gap"].as<std::string>()), trend::kMaxGapLimitS / 60.0));
     read.max_gap_s = minutes * 60.0;
   }
   audit::Options opt;
@@ -128,9 +149,10 @@ int run_audit(const std::vector<std::string>& args) {
     if (!vm.count(name)) continue;
     const double a = quantity(vm, name, units::Kind::temperature_difference, system);
     if (!(a > 0) || a > 5.0)
-      throw InputError(fmt::format("--{}: {} is outside the allowed range (more than 0 to {})", name,
-                                   echo(vm[name].as<std::string>()),
-                                   units::format(units::Kind::temperature_difference, system, 5.0, 1)));
+      throw InputError(
+          fmt::format("--{}: {} is outside the allowed range (more than 0 to {})", name,
+                      echo(vm[name].as<std::string>()),
+                      units::format(units::Kind::temperature_difference, system, 5.0, 1)));
     *slot = a;
   }
   const trend::TrendLog log = trend::load_trend(vm["trend"].as<std::string>(), read);

@@ -27,8 +27,10 @@ constexpr std::string_view kDetails =
     "Examples:\n"
     "  limitline chart -o chart.svg\n"
     "  limitline chart --demo mesa-alta --units si -o mesa.svg\n"
-    "  limitline chart examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --strategy \"dry-bulb 65F\" -o chart.svg\n"
-    "  limitline chart examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --outdoor 68F/80% --return 75F/50% -o point.svg";
+    "  limitline chart examples/office-humid-coast.toml --weather "
+    "tests/data/greensboro-nc-tmy3.csv --strategy \"dry-bulb 65F\" -o chart.svg\n"
+    "  limitline chart examples/office-humid-coast.toml --weather "
+    "tests/data/greensboro-nc-tmy3.csv --outdoor 68F/80% --return 75F/50% -o point.svg";
 
 }  // namespace
 
@@ -36,22 +38,26 @@ int run_chart(const std::vector<std::string>& args) {
   po::options_description options("options");
   po::positional_options_description pos;
   add_job_options(options, pos);
-  options.add_options()
-      ("output,o", po::value<std::string>()->default_value("-"), "SVG file to write (- for standard output)")
-      ("strategy", po::value<std::vector<std::string>>()->composing(),
-       "draw only this strategy of the unit file (repeatable; default: all)")
-      ("outdoor", po::value<std::string>(), "one outdoor state to check, e.g. 68F/80%")
-      ("return", po::value<std::string>(), "its return air (default: the unit file's), e.g. 75F/50%")
-      ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
-      ("help,h", "show this help");
+  options.add_options()("output,o", po::value<std::string>()->default_value("-"),
+                        "SVG file to write (- for standard output)")(
+      "strategy", po::value<std::vector<std::string>>()->composing(),
+      "draw only this strategy of the unit file (repeatable; default: all)")(
+      "outdoor", po::value<std::string>(), "one outdoor state to check, e.g. 68F/80%")(
+      "return", po::value<std::string>(),
+      "its return air (default: the unit file's), e.g. 75F/50%")(
+      "strict", "treat warnings (implausible values, inputs that disagree) as errors")(
+      "help,h", "show this help");
   add_units_option(options);
   po::variables_map vm;
-  if (!parse_options(args, options, pos, "limitline chart [UNIT.toml] [options] -o chart.svg", kDetails, vm)) return 0;
+  if (!parse_options(args, options, pos, "limitline chart [UNIT.toml] [options] -o chart.svg",
+                     kDetails, vm))
+    return 0;
   const UnitsChoice units_choice(vm);
   if (vm.count("return") && !vm.count("outdoor")) throw UsageError("--return needs --outdoor");
   const UnitSource source = job_source(vm);
-  const std::vector<std::string> names =
-      vm.count("strategy") ? vm["strategy"].as<std::vector<std::string>>() : std::vector<std::string>{};
+  const std::vector<std::string> names = vm.count("strategy")
+                                             ? vm["strategy"].as<std::vector<std::string>>()
+                                             : std::vector<std::string>{};
 
   report::ChartInput chart;
   std::vector<std::filesystem::path> inputs = job_input_files(vm, {});
@@ -64,11 +70,13 @@ int run_chart(const std::vector<std::string>& args) {
     std::vector<std::string> point_warnings;
     const AirPoint outdoor = parse_air_point(vm["outdoor"].as<std::string>(), s, "--outdoor",
                                              AirRole::outdoor, point_warnings);
-    const AirPoint ret = vm.count("return") ? parse_air_point(vm["return"].as<std::string>(), s, "--return",
-                                                              AirRole::return_air, point_warnings)
-                                            : unit.return_air;
+    const AirPoint ret = vm.count("return")
+                             ? parse_air_point(vm["return"].as<std::string>(), s, "--return",
+                                               AirRole::return_air, point_warnings)
+                             : unit.return_air;
     chart = chart_input(unit, chosen, s);
-    chart.check = check_marks(unit, all, outdoor, "--outdoor", ret, vm.count("return") ? "--return" : unit.path + ": return air");
+    chart.check = check_marks(unit, all, outdoor, "--outdoor", ret,
+                              vm.count("return") ? "--return" : unit.path + ": return air");
     // After the states are known to exist: an impossible one is an error, not also a warning.
     report_warnings(point_warnings, vm.count("strict") > 0);
     chart.return_air = chart.check->ret;
@@ -83,7 +91,8 @@ int run_chart(const std::vector<std::string>& args) {
     report_warnings(in.warnings, vm.count("strict") > 0);
     const units::System s = units_choice.resolve(in.unit);
     inputs = job_input_files(vm, in.weather_label);
-    chart = chart_input(in.unit, select_strategies(in.strategies, names, "--strategy", in.unit_label), s);
+    chart = chart_input(in.unit,
+                        select_strategies(in.strategies, names, "--strategy", in.unit_label), s);
     add_climate(chart, prepare_year(in, false), in.weather_label);
   }
   const std::string output = vm["output"].as<std::string>();

@@ -14,7 +14,8 @@ namespace limitline::cli {
 namespace {
 
 constexpr std::string_view kDetails =
-    "UNIT.toml is a unit file (see the README section 'The unit file'). --outdoor, and --return when given,\n"
+    "UNIT.toml is a unit file (see the README section 'The unit file'). --outdoor, and --return "
+    "when given,\n"
     "are a dry-bulb with one humidity form:\n"
     "  68F/80%  (relative humidity)   68F/dp58F  (dew point)   68F/wb62F  (wet-bulb)\n"
     "  68F/w0.011  (humidity ratio)   68F/h30btu/lb  (enthalpy)\n"
@@ -34,10 +35,9 @@ constexpr std::string_view kDetails =
 
 int run_check(const std::vector<std::string>& args) {
   po::options_description options("options");
-  options.add_options()
-      ("unit", po::value<std::string>(), "unit file (TOML)")
-      ("outdoor", po::value<std::string>(), "outdoor air: dry-bulb/humidity (68F/80%, 68F/dp58F)")
-      ("return", po::value<std::string>(), "return air, instead of the unit file's (75F/50%)");
+  options.add_options()("unit", po::value<std::string>(), "unit file (TOML)")(
+      "outdoor", po::value<std::string>(), "outdoor air: dry-bulb/humidity (68F/80%, 68F/dp58F)")(
+      "return", po::value<std::string>(), "return air, instead of the unit file's (75F/50%)");
   add_common_options(options, "text, json, md");
   po::positional_options_description positional;
   positional.add("unit", 1);
@@ -48,7 +48,8 @@ int run_check(const std::vector<std::string>& args) {
                      kDetails, vm))
     return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::md});
-  if (!vm.count("unit")) throw UsageError("give the unit file, e.g. limitline check unit.toml --outdoor 68F/80%");
+  if (!vm.count("unit"))
+    throw UsageError("give the unit file, e.g. limitline check unit.toml --outdoor 68F/80%");
   if (!vm.count("outdoor")) throw UsageError("--outdoor is required, e.g. --outdoor 68F/80%");
 
   const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
@@ -62,7 +63,8 @@ int run_check(const std::vector<std::string>& args) {
       parse_air_point(outdoor_text, system, "--outdoor", AirRole::outdoor, warnings);
   const psychro::MoistAir outdoor =
       outdoor_point.state(p, fmt::format("--outdoor {}", outdoor_text));
-  (void)outdoor_point.properties(p, fmt::format("--outdoor {}", outdoor_text));  // throws if impossible
+  (void)outdoor_point.properties(
+      p, fmt::format("--outdoor {}", outdoor_text));  // throws if impossible
 
   psychro::MoistAir ret = unit.return_air.state(p);
   std::string return_source = "unit file";

@@ -51,19 +51,20 @@ std::string details() {
       "Tables: data/codes/*.toml, found through $LIMITLINE_DATA_DIR/codes, the installed data\n"
       "folder, or the source tree. --code-table FILE (repeatable, applied in order) adds an\n"
       "edition or an [amendment] whose rows replace the edition's rows zone by zone: a\n"
-      "jurisdiction's local amendments. The format is described in the README section 'Energy-code tables'.\n"
+      "jurisdiction's local amendments. The format is described in the README section 'Energy-code "
+      "tables'.\n"
       "Every value in the shipped tables is recalled from memory: verify it against the\n"
       "adopted edition.\n\n"
       "Examples:\n"
       "  limitline code --edition ashrae-90.1-2019 --zone 4A\n"
       "  limitline code --edition title24-2022 --zone 12 --elevation 4500ft --format md\n"
-      "  limitline code tests/data/codes-unit-4a.toml --code-table tests/data/codes-amend-90.1-2019-4a.toml\n"
+      "  limitline code tests/data/codes-unit-4a.toml --code-table "
+      "tests/data/codes-amend-90.1-2019-4a.toml\n"
       "  limitline code --all-editions --units si --format json",
       codes::kAltitudeFootnoteThresholdBtuPerLb, codes::kTemperatureToleranceF,
       codes::kEnthalpyToleranceBtuPerLb, codes::kTemperatureToleranceK,
       codes::kEnthalpyToleranceKjPerKg);
 }
-
 
 airside::EconomizerType parse_economizer(const std::string& text) {
   if (const auto e = airside::economizer_from_name(text)) return *e;
@@ -94,11 +95,13 @@ std::optional<report::WeatherPressure> weather_pressure(const UnitFile& file,
     out = report::WeatherPressure{error.what(), {}, 0.0, 0.0, {}};
   }
   if (w.info.median_pressure_kpa) {
-    out = report::WeatherPressure{
-        {}, label, *w.info.median_pressure_kpa, pressure.value_or(psychro::kStandardPressureKpa),
-        from_command_line ? report::FootnotePressure::command_line
-        : pressure        ? report::FootnotePressure::unit_site
-                          : report::FootnotePressure::sea_level};
+    out = report::WeatherPressure{{},
+                                  label,
+                                  *w.info.median_pressure_kpa,
+                                  pressure.value_or(psychro::kStandardPressureKpa),
+                                  from_command_line ? report::FootnotePressure::command_line
+                                  : pressure        ? report::FootnotePressure::unit_site
+                                                    : report::FootnotePressure::sea_level};
     std::vector<std::string> warnings;
     if (auto warning = site_pressure_warning(file, w.info)) warnings.push_back(*warning);
     report_warnings(warnings, strict);
@@ -112,18 +115,22 @@ int run_code(const std::vector<std::string>& args) {
   const std::string economizer_help =
       names_in(airside::economizer_names(), " or ") + ": checked against the edition";
   po::options_description options("options");
-  options.add_options()
-      ("unit", po::value<std::string>(), "unit file (TOML) whose strategies are judged")
-      ("edition", po::value<std::string>(), "code edition, e.g. ashrae-90.1-2019, iecc-2021, title24-2022")
-      ("zone", po::value<std::string>(), "climate zone, e.g. 4A, 7, CZ12")
-      ("elevation", po::value<std::string>(), "site elevation for the standard pressure (6000ft, 1830m)")
-      ("pressure", po::value<std::string>(), "site pressure (11.8psia, 81.2kPa)")
-      ("economizer", po::value<std::string>(), economizer_help.c_str())
-      ("all-editions", po::bool_switch(), "matrix, zone x edition, of what is allowed")
-      ("list-editions", po::bool_switch(), "list the loaded editions and their files")
-      ("code-table", po::value<std::vector<std::string>>()->composing(),
-       "extra code table or amendment (TOML), repeatable")
-      ("compare-in", po::value<std::string>(), "which table figures verdicts compare with: ip or si (default: the edition's governing units)");
+  options.add_options()("unit", po::value<std::string>(),
+                        "unit file (TOML) whose strategies are judged")(
+      "edition", po::value<std::string>(),
+      "code edition, e.g. ashrae-90.1-2019, iecc-2021, title24-2022")(
+      "zone", po::value<std::string>(), "climate zone, e.g. 4A, 7, CZ12")(
+      "elevation", po::value<std::string>(),
+      "site elevation for the standard pressure (6000ft, 1830m)")(
+      "pressure", po::value<std::string>(), "site pressure (11.8psia, 81.2kPa)")(
+      "economizer", po::value<std::string>(), economizer_help.c_str())(
+      "all-editions", po::bool_switch(), "matrix, zone x edition, of what is allowed")(
+      "list-editions", po::bool_switch(), "list the loaded editions and their files")(
+      "code-table", po::value<std::vector<std::string>>()->composing(),
+      "extra code table or amendment (TOML), repeatable")(
+      "compare-in", po::value<std::string>(),
+      "which table figures verdicts compare with: ip or si (default: the edition's governing "
+      "units)");
   add_common_options(options, "text, json, md");
   po::positional_options_description positional;
   positional.add("unit", 1);
@@ -139,8 +146,9 @@ int run_code(const std::vector<std::string>& args) {
   if (static_cast<int>(all) + static_cast<int>(list) + static_cast<int>(unit) > 1)
     throw UsageError("give one of a unit file, --all-editions or --list-editions");
   if ((all || list) && (vm.count("edition") || vm.count("zone")))
-    throw UsageError("--all-editions and --list-editions cover every edition and zone; drop "
-                     "--edition and --zone");
+    throw UsageError(
+        "--all-editions and --list-editions cover every edition and zone; drop "
+        "--edition and --zone");
   if (!unit && !all && !list && !(vm.count("edition") && vm.count("zone")))
     throw UsageError("give --edition and --zone, a unit file, --all-editions or --list-editions");
   std::optional<System> compare_in;
@@ -177,7 +185,8 @@ int run_code(const std::vector<std::string>& args) {
   }
   if (!unit) {
     const auto& e = tables.edition(vm["edition"].as<std::string>(), "--edition");
-    const auto req = codes::requirements(e, vm["zone"].as<std::string>(), {pressure, compare_in}, "--zone");
+    const auto req =
+        codes::requirements(e, vm["zone"].as<std::string>(), {pressure, compare_in}, "--zone");
     write_out(formatted(common.format, report::code_zone_text, report::code_zone_markdown,
                         report::code_zone_json, req, s, economizer));
     return 0;
@@ -187,15 +196,21 @@ int run_code(const std::vector<std::string>& args) {
   report::CodeVerdicts u;
   u.unit_path = file.path;
   std::string edition_id = file.site.energy_code, zone = file.site.climate_zone;
-  std::string edition_origin = file.site.energy_code_origin, zone_origin = file.site.climate_zone_origin;
-  if (vm.count("edition")) edition_id = vm["edition"].as<std::string>(), edition_origin = "--edition";
+  std::string edition_origin = file.site.energy_code_origin,
+              zone_origin = file.site.climate_zone_origin;
+  if (vm.count("edition"))
+    edition_id = vm["edition"].as<std::string>(), edition_origin = "--edition";
   if (vm.count("zone")) zone = vm["zone"].as<std::string>(), zone_origin = "--zone";
   if (edition_id.empty())
-    throw InputError(fmt::format("{}: [site] has no energy_code; add one (e.g. energy_code = "
-                                 "\"ashrae-90.1-2019\") or give --edition", file.path));
+    throw InputError(
+        fmt::format("{}: [site] has no energy_code; add one (e.g. energy_code = "
+                    "\"ashrae-90.1-2019\") or give --edition",
+                    file.path));
   if (zone.empty())
-    throw InputError(fmt::format("{}: [site] has no climate_zone; add one (e.g. climate_zone = "
-                                 "\"4A\") or give --zone", file.path));
+    throw InputError(
+        fmt::format("{}: [site] has no climate_zone; add one (e.g. climate_zone = "
+                    "\"4A\") or give --zone",
+                    file.path));
   u.edition_from = edition_origin;
   u.zone_from = zone_origin;
   if (!pressure && (file.site.pressure_kpa || file.site.elevation_m))

@@ -26,7 +26,8 @@ constexpr std::string_view kDetails =
     "Examples:\n"
     "  limitline report -o study.html\n"
     "  limitline report --demo mesa-alta --units si -o mesa.html\n"
-    "  limitline report examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --format md -o report.md";
+    "  limitline report examples/office-humid-coast.toml --weather "
+    "tests/data/greensboro-nc-tmy3.csv --format md -o report.md";
 
 // "dir/report.md" → "dir/report-chart.svg": the pictures sit beside the Markdown file.
 std::filesystem::path beside(const std::filesystem::path& md, std::string_view suffix) {
@@ -39,21 +40,25 @@ int run_report(const std::vector<std::string>& args) {
   po::options_description options("options");
   po::positional_options_description pos;
   add_job_options(options, pos);
-  options.add_options()
-      ("output,o", po::value<std::string>(), "file to write (html: - for standard output)")
-      ("format", po::value<std::string>()->default_value("html"), "html or md")
-      ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
-      ("help,h", "show this help");
+  options.add_options()("output,o", po::value<std::string>(),
+                        "file to write (html: - for standard output)")(
+      "format", po::value<std::string>()->default_value("html"), "html or md")(
+      "strict", "treat warnings (implausible values, inputs that disagree) as errors")(
+      "help,h", "show this help");
   add_units_option(options);
   po::variables_map vm;
-  if (!parse_options(args, options, pos, "limitline report [UNIT.toml] [options] -o report.html", kDetails, vm)) return 0;
+  if (!parse_options(args, options, pos, "limitline report [UNIT.toml] [options] -o report.html",
+                     kDetails, vm))
+    return 0;
   const UnitsChoice units_choice(vm);
   const std::string format = vm["format"].as<std::string>();
   if (format != "html" && format != "md")
-    throw UsageError(fmt::format("--format: '{}' is not a format of this command (html, md)", format));
+    throw UsageError(
+        fmt::format("--format: '{}' is not a format of this command (html, md)", format));
   if (!vm.count("output")) throw UsageError("give the file to write with -o, e.g. -o report.html");
   const std::string output = vm["output"].as<std::string>();
-  if (format == "md" && output == "-") throw UsageError("--format md writes its pictures beside the file: give -o report.md");
+  if (format == "md" && output == "-")
+    throw UsageError("--format md writes its pictures beside the file: give -o report.md");
 
   const YearInputs in = load_year_inputs(job_source(vm), weather_overrides(vm));
   report_warnings(in.warnings, vm.count("strict") > 0);
@@ -74,10 +79,12 @@ int run_report(const std::vector<std::string>& args) {
   const std::filesystem::path md(output);
   const auto chart = beside(md, "-chart.svg"), monthly = beside(md, "-monthly.svg");
   for (const auto& p : {chart, monthly, md}) refuse_input_as_output(p, "--output", inputs);
-  OutputFile chart_file(chart, "--output"), monthly_file(monthly, "--output"), md_file(md, "--output");
+  OutputFile chart_file(chart, "--output"), monthly_file(monthly, "--output"),
+      md_file(md, "--output");
   chart_file.write(doc.chart_svg);
   monthly_file.write(doc.monthly_svg);
-  md_file.write(report::report_markdown(year, doc, chart.filename().string(), monthly.filename().string()));
+  md_file.write(
+      report::report_markdown(year, doc, chart.filename().string(), monthly.filename().string()));
   chart_file.commit();
   monthly_file.commit();
   md_file.commit();

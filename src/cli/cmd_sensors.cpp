@@ -30,8 +30,10 @@ constexpr std::string_view kDetails =
     "reports the trials that finished, marked partial (exit code 130).\n\n"
     "Examples:\n"
     "  limitline sensors\n"
-    "  limitline sensors examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --trials 2000 --seed 7\n"
-    "  limitline sensors examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --sweep outdoor_rh=-10%:10%:1%\n"
+    "  limitline sensors examples/office-humid-coast.toml --weather "
+    "tests/data/greensboro-nc-tmy3.csv --trials 2000 --seed 7\n"
+    "  limitline sensors examples/office-humid-coast.toml --weather "
+    "tests/data/greensboro-nc-tmy3.csv --sweep outdoor_rh=-10%:10%:1%\n"
     "  limitline sensors --format json --trials-csv trials.csv";
 
 constexpr std::size_t kMaxTrials = 100000;
@@ -56,24 +58,28 @@ template <class T>
 T bounded(const po::variables_map& vm, const char* name, T lo, T hi) {
   const T v = vm[name].as<T>();
   if (v < lo || v > hi)
-    throw InputError(fmt::format("--{}: {} is outside the allowed range ({} to {})", name, v, lo, hi));
+    throw InputError(
+        fmt::format("--{}: {} is outside the allowed range ({} to {})", name, v, lo, hi));
   return v;
 }
 
-
 // --sweep SENSOR=FROM:TO:STEP: the syntax is the command line's, the meaning the library's.
-sensors::SweepSpec sweep_option(const std::string& text, sensors::HumidityKind configured, units::System bare) {
+sensors::SweepSpec sweep_option(const std::string& text, sensors::HumidityKind configured,
+                                units::System bare) {
   const std::string origin = "--sweep";
   const auto eq = text.find('=');
   if (eq == std::string::npos || eq == 0)
-    throw UsageError(fmt::format("{}: write SENSOR=FROM:TO:STEP, e.g. outdoor_rh=-10%:10%:1%", origin));
+    throw UsageError(
+        fmt::format("{}: write SENSOR=FROM:TO:STEP, e.g. outdoor_rh=-10%:10%:1%", origin));
   const std::string_view range = std::string_view(text).substr(eq + 1);
   std::array<std::string_view, 3> parts;
   std::size_t start = 0, count = 0;
   for (std::size_t i = 0; i <= range.size(); ++i) {
     if (i < range.size() && range[i] != ':') continue;
-    if (count == 3) count = 4;
-    else parts[count++] = range.substr(start, i - start);
+    if (count == 3)
+      count = 4;
+    else
+      parts[count++] = range.substr(start, i - start);
     start = i + 1;
   }
   if (count != 3)
@@ -88,18 +94,20 @@ int run_sensors(const std::vector<std::string>& args) {
   po::options_description options("options");
   po::positional_options_description pos;
   add_job_options(options, pos);
-  options.add_options()
-      ("trials", po::value<std::size_t>()->default_value(1000), "trials (1 to 100000)")
-      ("seed", po::value<std::uint64_t>()->default_value(1), "seed of the random biases")
-      ("threads", po::value<unsigned>()->default_value(0), "threads (0: all cores)")
-      ("trials-csv", po::value<std::string>(), "also write every trial's biases and results to this CSV file")
-      ("sweep", po::value<std::string>(),
-       "bias sweep of one sensor, SENSOR=FROM:TO:STEP, e.g. outdoor_rh=-10%:10%:1%")
-      ("break-even-trials", po::value<std::size_t>()->default_value(200),
-       "trials per accuracy in the break-even search (0: skip it)");
+  options.add_options()("trials", po::value<std::size_t>()->default_value(1000),
+                        "trials (1 to 100000)")(
+      "seed", po::value<std::uint64_t>()->default_value(1), "seed of the random biases")(
+      "threads", po::value<unsigned>()->default_value(0), "threads (0: all cores)")(
+      "trials-csv", po::value<std::string>(),
+      "also write every trial's biases and results to this CSV file")(
+      "sweep", po::value<std::string>(),
+      "bias sweep of one sensor, SENSOR=FROM:TO:STEP, e.g. outdoor_rh=-10%:10%:1%")(
+      "break-even-trials", po::value<std::size_t>()->default_value(200),
+      "trials per accuracy in the break-even search (0: skip it)");
   add_common_options(options, "text, json");
   po::variables_map vm;
-  if (!parse_options(args, options, pos, "limitline sensors [UNIT.toml] [options]", kDetails, vm)) return 0;
+  if (!parse_options(args, options, pos, "limitline sensors [UNIT.toml] [options]", kDetails, vm))
+    return 0;
   const Common common = read_common(vm, {Format::text, Format::json});
   const std::size_t trials = bounded<std::size_t>(vm, "trials", 1, kMaxTrials);
   const std::size_t be_trials = bounded<std::size_t>(vm, "break-even-trials", 0, kMaxTrials);
@@ -110,13 +118,14 @@ int run_sensors(const std::vector<std::string>& args) {
   // The output is opened first, so that a place it cannot be written fails before the work.
   const std::unique_ptr<OutputFile> csv = open_side_output(vm, "trials-csv");
   const YearInputs in = load_year_inputs(job_source(vm), weather_overrides(vm));
-  if (csv) refuse_input_as_output(csv->target(), "--trials-csv", job_input_files(vm, in.weather_label));
+  if (csv)
+    refuse_input_as_output(csv->target(), "--trials-csv", job_input_files(vm, in.weather_label));
   report_warnings(in.warnings, common.strict);
   const units::System system = common.units.resolve(in.unit);
   codes::check_site_code(in.unit.site.energy_code, in.unit.site.energy_code_origin,
                          in.unit.site.climate_zone, in.unit.site.climate_zone_origin);
-  const sensors::SensorSet set = sensors::read_sensors(in.unit.sensors ? &*in.unit.sensors : nullptr,
-                                                       in.unit.path, in.unit.units);
+  const sensors::SensorSet set = sensors::read_sensors(
+      in.unit.sensors ? &*in.unit.sensors : nullptr, in.unit.path, in.unit.units);
   report_warnings(set.warnings, common.strict);
   std::optional<sensors::SweepSpec> sweep_spec;
   if (vm.count("sweep"))
@@ -144,14 +153,16 @@ int run_sensors(const std::vector<std::string>& args) {
     be = sensors::break_even(engine, set, o, control);
   }
   std::optional<sensors::SweepResult> sweep;
-  if (sweep_spec && !guard.interrupted()) sweep = sensors::run_sweep(prepared, in.strategies, *sweep_spec, control);
+  if (sweep_spec && !guard.interrupted())
+    sweep = sensors::run_sweep(prepared, in.strategies, *sweep_spec, control);
 
   const bool interrupted = guard.interrupted();
   std::string note;
   if (interrupted) {
-    note = fmt::format("PARTIAL RESULTS: interrupted; {} of {} trials finished and every figure "
-                       "is over those",
-                       study.trials_completed(), study.trials_requested);
+    note = fmt::format(
+        "PARTIAL RESULTS: interrupted; {} of {} trials finished and every figure "
+        "is over those",
+        study.trials_completed(), study.trials_requested);
     if (be_trials > 0 && (!be || be->partial)) note += "; the break-even search did not finish";
     if (sweep_spec && (!sweep || sweep->partial)) note += "; the bias sweep did not finish";
   }
@@ -172,7 +183,8 @@ int run_sensors(const std::vector<std::string>& args) {
     csv->commit();
   }
   write_out(common.format == Format::json ? report::sensors_json(rep) : report::sensors_text(rep));
-  if (interrupted) std::fprintf(stderr, "limitline sensors: interrupted; partial results written\n");
+  if (interrupted)
+    std::fprintf(stderr, "limitline sensors: interrupted; partial results written\n");
   return interrupted ? kInterruptedExit : 0;
 }
 

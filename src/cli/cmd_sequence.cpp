@@ -24,9 +24,11 @@ constexpr std::string_view kDetails =
     "embedded demo unit is used (an invented unit and climate).\n\n"
     "Examples:\n"
     "  limitline sequence\n"
-    "  limitline sequence examples/office-humid-coast.toml --strategy \"enthalpy 28 + dry-bulb 75F\" --format md\n"
+    "  limitline sequence examples/office-humid-coast.toml --strategy \"enthalpy 28 + dry-bulb "
+    "75F\" --format md\n"
     "  limitline sequence --demo mesa-alta --with-year --units si\n"
-    "  limitline sequence examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv";
+    "  limitline sequence examples/office-humid-coast.toml --weather "
+    "tests/data/greensboro-nc-tmy3.csv";
 
 }  // namespace
 
@@ -34,10 +36,11 @@ int run_sequence(const std::vector<std::string>& args) {
   po::options_description options("options");
   po::positional_options_description pos;
   add_job_options(options, pos);
-  options.add_options()
-      ("strategy", po::value<std::string>(), "strategy of the unit file to write (default: its first)")
-      ("with-year", "run the annual evaluation (implied by --weather) and cite it as the basis "
-                    "of design-choice setpoints");
+  options.add_options()("strategy", po::value<std::string>(),
+                        "strategy of the unit file to write (default: its first)")(
+      "with-year",
+      "run the annual evaluation (implied by --weather) and cite it as the basis "
+      "of design-choice setpoints");
   add_common_options(options, "text, md");
   po::variables_map vm;
   if (!parse_options(args, options, pos, "limitline sequence [UNIT.toml] [options]", kDetails, vm))
@@ -59,8 +62,8 @@ int run_sequence(const std::vector<std::string>& args) {
   } else {
     in.unit = load_unit(source);
     in.warnings = in.unit.warnings;
-    in.unit_label =
-        source.embedded ? fmt::format("{} (embedded invented demo unit)", source.path) : source.path;
+    in.unit_label = source.embedded ? fmt::format("{} (embedded invented demo unit)", source.path)
+                                    : source.path;
     in.strategies = strategies_or_presets(in.unit);
   }
 

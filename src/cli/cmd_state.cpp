@@ -26,10 +26,8 @@ struct HumidityOption {
   HumidityInput input;
 };
 constexpr HumidityOption kHumidityOptions[] = {
-    {"rh", HumidityInput::relative_humidity},
-    {"wet-bulb", HumidityInput::wet_bulb},
-    {"dew-point", HumidityInput::dew_point},
-    {"humidity-ratio", HumidityInput::humidity_ratio},
+    {"rh", HumidityInput::relative_humidity}, {"wet-bulb", HumidityInput::wet_bulb},
+    {"dew-point", HumidityInput::dew_point},  {"humidity-ratio", HumidityInput::humidity_ratio},
     {"enthalpy", HumidityInput::enthalpy},
 };
 
@@ -48,25 +46,23 @@ constexpr std::string_view kDetails =
     "  limitline state --dry-bulb 24C --dew-point 12C --elevation 1500m --units si --format json\n"
     "  limitline state --batch examples/state-points.csv --units si > properties.csv";
 
-
 }  // namespace
 
 int run_state(const std::vector<std::string>& args) {
   po::options_description options("options");
-  options.add_options()
-      ("dry-bulb", po::value<std::string>(), "dry-bulb temperature (75F, 24C)")
-      ("rh", po::value<std::string>(), "relative humidity (50%)")
-      ("wet-bulb", po::value<std::string>(), "thermodynamic wet-bulb temperature")
-      ("dew-point", po::value<std::string>(), "dew-point temperature")
-      ("humidity-ratio", po::value<std::string>(), "humidity ratio (0.0093, 9.3g/kg, 65gr/lb)")
-      ("enthalpy", po::value<std::string>(), "enthalpy (28btu/lb, 47kJ/kg)")
-      ("elevation", po::value<std::string>(), "site elevation for standard pressure (850ft, 260m)")
-      ("pressure", po::value<std::string>(), "total pressure (14.696psia, 101.325kPa)")
-      ("batch", po::value<std::string>(), "CSV file of states (- for standard input)");
+  options.add_options()("dry-bulb", po::value<std::string>(), "dry-bulb temperature (75F, 24C)")(
+      "rh", po::value<std::string>(), "relative humidity (50%)")(
+      "wet-bulb", po::value<std::string>(), "thermodynamic wet-bulb temperature")(
+      "dew-point", po::value<std::string>(), "dew-point temperature")(
+      "humidity-ratio", po::value<std::string>(), "humidity ratio (0.0093, 9.3g/kg, 65gr/lb)")(
+      "enthalpy", po::value<std::string>(), "enthalpy (28btu/lb, 47kJ/kg)")(
+      "elevation", po::value<std::string>(), "site elevation for standard pressure (850ft, 260m)")(
+      "pressure", po::value<std::string>(), "total pressure (14.696psia, 101.325kPa)")(
+      "batch", po::value<std::string>(), "CSV file of states (- for standard input)");
   add_common_options(options, "text, json, csv");
   po::variables_map vm;
-  if (!parse_options(args, options, {}, "limitline state --dry-bulb T --rh RH [options]",
-                     kDetails, vm))
+  if (!parse_options(args, options, {}, "limitline state --dry-bulb T --rh RH [options]", kDetails,
+                     vm))
     return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::csv});
   const units::System system = common.units.resolve();  // state reads no unit file
@@ -106,22 +102,22 @@ int run_state(const std::vector<std::string>& args) {
   for (const auto& h : kHumidityOptions) {
     if (!vm.count(h.name)) continue;
     if (given)
-      throw UsageError(fmt::format("give one humidity input, not both --{} and --{}",
-                                   given->name, h.name));
+      throw UsageError(
+          fmt::format("give one humidity input, not both --{} and --{}", given->name, h.name));
     given = &h;
   }
   if (!given)
-    throw UsageError("give one humidity input: --rh, --wet-bulb, --dew-point, "
-                     "--humidity-ratio or --enthalpy");
+    throw UsageError(
+        "give one humidity input: --rh, --wet-bulb, --dew-point, "
+        "--humidity-ratio or --enthalpy");
   const double t = quantity(vm, "dry-bulb", Kind::temperature, system);
   const double value = quantity(vm, given->name, humidity_input_kind(given->input), system);
   psychro::Properties props;
   try {
     props = psychro::properties(psychro::state_from(t, given->input, value, p));
   } catch (const RangeError& e) {
-    throw InputError(fmt::format("--dry-bulb {} with --{} {}: {}",
-                                 vm["dry-bulb"].as<std::string>(), given->name,
-                                 vm[given->name].as<std::string>(), e.what()));
+    throw InputError(fmt::format("--dry-bulb {} with --{} {}: {}", vm["dry-bulb"].as<std::string>(),
+                                 given->name, vm[given->name].as<std::string>(), e.what()));
   }
 
   const auto fields = report::property_fields();

@@ -28,16 +28,20 @@ constexpr std::string_view kDetails =
     "With no unit file it runs the embedded demo (an invented unit and climate). The weather\n"
     "file comes from the unit file's [weather] table or --weather; its columns and units are\n"
     "found from the header and can be set with --column (repeatable):\n"
-    "  --column dry_bulb=Temperature:C --column dew_point=\"Dew Point:F\" --column pressure=SP:Pa\n\n"
+    "  --column dry_bulb=Temperature:C --column dew_point=\"Dew Point:F\" --column "
+    "pressure=SP:Pa\n\n"
     "--batch evaluates every .csv entry of a folder; one that cannot be read is listed with its\n"
     "error and the others kept (exit 2). Ctrl-C stops it and reports the sites that finished,\n"
-    "marked partial (exit 130); with --format csv the errors and that note go to standard error.\n\n"
+    "marked partial (exit 130); with --format csv the errors and that note go to standard "
+    "error.\n\n"
     "Examples:\n"
     "  limitline year\n"
     "  limitline year --demo mesa-alta --units si\n"
-    "  limitline year examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --format json\n"
+    "  limitline year examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv "
+    "--format json\n"
     "  limitline year examples/office-humid-coast.toml --batch tests/data/\n"
-    "  limitline year examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv --hourly hours.csv";
+    "  limitline year examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv "
+    "--hourly hours.csv";
 
 void show_progress(std::size_t done, std::size_t total) {
   std::fprintf(stderr, "\r  %zu of %zu sites", done, total);
@@ -56,8 +60,9 @@ struct BatchTally {
 };
 
 std::string partial_note(const std::vector<BatchSite>& sites) {
-  return fmt::format("PARTIAL RESULTS: interrupted; {} of {} sites evaluated, the others not started",
-                     BatchTally(sites).run, sites.size());
+  return fmt::format(
+      "PARTIAL RESULTS: interrupted; {} of {} sites evaluated, the others not started",
+      BatchTally(sites).run, sites.size());
 }
 
 std::string batch_json(const std::vector<BatchSite>& sites, units::System s, bool interrupted) {
@@ -95,14 +100,16 @@ std::string batch_json(const std::vector<BatchSite>& sites, units::System s, boo
   return j.str();
 }
 
-std::string batch_table(const std::vector<BatchSite>& sites, units::System s, Format f, bool interrupted) {
-  std::vector<report::Column> cols = {{"weather file", report::Align::left},
-                                      {"fan-on h", report::Align::right},
-                                      {"best strategy", report::Align::left},
-                                      {std::string("shortfall ") + std::string(report::energy_unit(s)), report::Align::right},
-                                      {std::string("perfect savings ") + std::string(report::energy_unit(s)), report::Align::right},
-                                      {"harmful h", report::Align::right},
-                                      {"missed h", report::Align::right}};
+std::string batch_table(const std::vector<BatchSite>& sites, units::System s, Format f,
+                        bool interrupted) {
+  std::vector<report::Column> cols = {
+      {"weather file", report::Align::left},
+      {"fan-on h", report::Align::right},
+      {"best strategy", report::Align::left},
+      {std::string("shortfall ") + std::string(report::energy_unit(s)), report::Align::right},
+      {std::string("perfect savings ") + std::string(report::energy_unit(s)), report::Align::right},
+      {"harmful h", report::Align::right},
+      {"missed h", report::Align::right}};
   report::Table t(cols);
   std::string errors;
   for (const auto& site : sites) {
@@ -136,7 +143,8 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
               const WeatherOverrides& overrides) {
   if (!vm.count("unit")) throw UsageError("--batch needs a unit file");
   if (vm.count("weather") || vm.count("hourly"))
-    throw UsageError("--batch takes its weather files from the folder; drop --weather and --hourly");
+    throw UsageError(
+        "--batch takes its weather files from the folder; drop --weather and --hourly");
   // The unit is read once; its own weather file is not needed.
   UnitFile unit = load_unit_file(source.path);
   report_warnings(unit.warnings, common.strict);
@@ -148,9 +156,9 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
   base.strategies = strategies_or_presets(unit);
   const bool tty = isatty(fileno(stderr));
   const InterruptGuard guard;
-  const auto sites = run_year_batch(base, vm["batch"].as<std::string>(), overrides,
-                                    vm["threads"].as<unsigned>(), tty ? show_progress : nullptr,
-                                    &InterruptGuard::flag());
+  const auto sites =
+      run_year_batch(base, vm["batch"].as<std::string>(), overrides, vm["threads"].as<unsigned>(),
+                     tty ? show_progress : nullptr, &InterruptGuard::flag());
   const bool interrupted = guard.interrupted();
   const BatchTally tally(sites);
   write_out(common.format == Format::json ? batch_json(sites, system, interrupted)
@@ -158,10 +166,14 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
   std::fflush(stdout);
   if (common.format == Format::csv) {
     for (const auto& s : sites)
-      if (s.run && !s.ok) std::fprintf(stderr, "limitline year: error: %s: %s\n", s.weather_path.c_str(), s.error.c_str());
+      if (s.run && !s.ok)
+        std::fprintf(stderr, "limitline year: error: %s: %s\n", s.weather_path.c_str(),
+                     s.error.c_str());
     if (interrupted) std::fprintf(stderr, "limitline year: %s\n", partial_note(sites).c_str());
   } else if (common.format == Format::json && tally.failed > 0) {
-    std::fprintf(stderr, "limitline year: error: %zu of %zu sites could not be evaluated; their errors are in the JSON\n",
+    std::fprintf(stderr,
+                 "limitline year: error: %zu of %zu sites could not be evaluated; their errors are "
+                 "in the JSON\n",
                  tally.failed, sites.size());
   }
   if (interrupted) {
@@ -177,17 +189,21 @@ int run_year(const std::vector<std::string>& args) {
   po::options_description options("options");
   po::positional_options_description pos;
   add_job_options(options, pos);
-  options.add_options()
-      ("hourly", po::value<std::string>(), "also write every hour's states, decisions and loads to this CSV file")
-      ("batch", po::value<std::string>(), "evaluate every .csv weather file of this folder; per-site summary")
-      ("threads", po::value<unsigned>()->default_value(0), "threads for --batch (0: all cores)")
-      ("edition", po::value<std::string>(), "energy-code edition for the compliance column (default: [site] energy_code)")
-      ("zone", po::value<std::string>(), "climate zone for the compliance column (default: [site] climate_zone)")
-      ("code-table", po::value<std::vector<std::string>>()->composing(),
-       "extra code-table file (a jurisdiction's amendments; repeatable)");
+  options.add_options()("hourly", po::value<std::string>(),
+                        "also write every hour's states, decisions and loads to this CSV file")(
+      "batch", po::value<std::string>(),
+      "evaluate every .csv weather file of this folder; per-site summary")(
+      "threads", po::value<unsigned>()->default_value(0), "threads for --batch (0: all cores)")(
+      "edition", po::value<std::string>(),
+      "energy-code edition for the compliance column (default: [site] energy_code)")(
+      "zone", po::value<std::string>(),
+      "climate zone for the compliance column (default: [site] climate_zone)")(
+      "code-table", po::value<std::vector<std::string>>()->composing(),
+      "extra code-table file (a jurisdiction's amendments; repeatable)");
   add_common_options(options, "text, json, csv, md");
   po::variables_map vm;
-  if (!parse_options(args, options, pos, "limitline year [UNIT.toml] [options]", kDetails, vm)) return 0;
+  if (!parse_options(args, options, pos, "limitline year [UNIT.toml] [options]", kDetails, vm))
+    return 0;
   const Common common = read_common(vm, {Format::text, Format::json, Format::csv, Format::md});
 
   const WeatherOverrides overrides = weather_overrides(vm);
@@ -198,7 +214,8 @@ int run_year(const std::vector<std::string>& args) {
   // The output is opened first, so that a place it cannot be written fails before the work.
   const std::unique_ptr<OutputFile> hourly = open_side_output(vm, "hourly");
   const YearInputs in = load_year_inputs(source, overrides);
-  if (hourly) refuse_input_as_output(hourly->target(), "--hourly", job_input_files(vm, in.weather_label));
+  if (hourly)
+    refuse_input_as_output(hourly->target(), "--hourly", job_input_files(vm, in.weather_label));
   report_warnings(in.warnings, common.strict);
   const units::System system = common.units.resolve(in.unit);
   const annual::Prepared prepared = prepare_year(in);

@@ -60,28 +60,29 @@ units::System system_option(const std::string& text, std::string_view option) {
   }
 }
 
-units::System UnitsChoice::resolve(const UnitFile& unit) const { return given_.value_or(unit.units); }
+units::System UnitsChoice::resolve(const UnitFile& unit) const {
+  return given_.value_or(unit.units);
+}
 
 void add_common_options(po::options_description& options, std::string_view formats) {
   add_units_option(options);
-  options.add_options()
-      ("strict", "treat warnings (implausible values, inputs that disagree) as errors")
-      ("format", po::value<std::string>()->default_value("text"),
-       fmt::format("output format: {}", formats).c_str())
-      ("help,h", "show this help");
+  options.add_options()("strict",
+                        "treat warnings (implausible values, inputs that disagree) as errors")(
+      "format", po::value<std::string>()->default_value("text"),
+      fmt::format("output format: {}", formats).c_str())("help,h", "show this help");
 }
 
 bool parse_options(const std::vector<std::string>& args, const po::options_description& options,
                    const po::positional_options_description& positional, std::string_view usage,
                    std::string_view details, po::variables_map& vm) {
   try {
-    po::store(po::command_line_parser(args)
-                  .options(options)
-                  .positional(positional)
-                  .style(po::command_line_style::default_style &
-                         ~po::command_line_style::allow_guessing)
-                  .run(),
-              vm);
+    po::store(
+        po::command_line_parser(args)
+            .options(options)
+            .positional(positional)
+            .style(po::command_line_style::default_style & ~po::command_line_style::allow_guessing)
+            .run(),
+        vm);
     if (vm.count("help")) {
       std::ostringstream os;
       os << "usage: " << usage << "\n\n" << options << "\n";
@@ -97,7 +98,8 @@ bool parse_options(const std::vector<std::string>& args, const po::options_descr
 }
 
 Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed) {
-  return {UnitsChoice(vm), parse_format(vm["format"].as<std::string>(), allowed), vm.count("strict") > 0};
+  return {UnitsChoice(vm), parse_format(vm["format"].as<std::string>(), allowed),
+          vm.count("strict") > 0};
 }
 
 double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
@@ -124,7 +126,8 @@ std::optional<double> site_pressure_option(const po::variables_map& vm, units::S
   try {
     return psychro::standard_pressure_kpa(read("elevation", "site.elevation"));
   } catch (const RangeError& e) {
-    throw InputError(fmt::format("--elevation {}: {}", vm["elevation"].as<std::string>(), e.what()));
+    throw InputError(
+        fmt::format("--elevation {}: {}", vm["elevation"].as<std::string>(), e.what()));
   }
 }
 
@@ -137,11 +140,11 @@ void set_command_name(std::string_view name) { g_command = fmt::format("limitlin
 void report_warnings(const std::vector<std::string>& warnings, bool strict) {
   if (warnings.empty()) return;
   if (strict)
-    throw InputError(fmt::format("{} (--strict makes warnings errors{})", warnings.front(),
-                                 warnings.size() > 1
-                                     ? fmt::format("; {} more", warnings.size() - 1)
-                                     : std::string()));
-  for (const auto& w : warnings) std::fprintf(stderr, "%s: warning: %s\n", g_command.c_str(), w.c_str());
+    throw InputError(fmt::format(
+        "{} (--strict makes warnings errors{})", warnings.front(),
+        warnings.size() > 1 ? fmt::format("; {} more", warnings.size() - 1) : std::string()));
+  for (const auto& w : warnings)
+    std::fprintf(stderr, "%s: warning: %s\n", g_command.c_str(), w.c_str());
 }
 
 void write_out(const std::string& text) {
@@ -170,9 +173,10 @@ std::unique_ptr<OutputFile> open_side_output(const po::variables_map& vm, const 
   if (!vm.count(name)) return nullptr;
   const std::string path = vm[name].as<std::string>();
   if (path == "-")
-    throw UsageError(fmt::format("--{} writes a file beside the report on standard output; give "
-                                 "a file name",
-                                 name));
+    throw UsageError(
+        fmt::format("--{} writes a file beside the report on standard output; give "
+                    "a file name",
+                    name));
   return std::make_unique<OutputFile>(path, std::string("--") + name);
 }
 

@@ -106,7 +106,8 @@ double quantity(const po::variables_map& vm, const char* name, units::Kind kind,
 // The unit-file and weather options of the commands that read a unit and its weather year
 // (UNIT.toml positional, --demo, --weather, --column, --humidity, --on-bad-row,
 // --time-convention), and what they select. Defined in job_options.cpp.
-void add_job_options(po::options_description& options, po::positional_options_description& positional);
+void add_job_options(po::options_description& options,
+                     po::positional_options_description& positional);
 limitline::UnitSource job_source(const po::variables_map& vm);
 limitline::WeatherOverrides weather_overrides(const po::variables_map& vm);
 

@@ -5,27 +5,31 @@
 
 #include <fmt/format.h>
 
-
 namespace limitline::cli {
 
-void add_job_options(po::options_description& options, po::positional_options_description& positional) {
-  options.add_options()
-      ("unit", po::value<std::string>(), "unit file (TOML); omit to use an embedded demo")
-      ("demo", po::value<std::string>(), "embedded demo: harbourside (default) or mesa-alta")
-      ("weather", po::value<std::string>(), "weather CSV (instead of the unit file's [weather] file)")
-      ("column", po::value<std::vector<std::string>>()->composing(),
-       "weather column override QUANTITY=HEADER[:UNIT] (repeatable)")
-      ("humidity", po::value<std::string>(),
-       "humidity column to use: dew-point, humidity-ratio, wet-bulb or relative-humidity")
-      ("on-bad-row", po::value<std::string>(), "missing or impossible weather rows: error (default), skip or fill")
-      ("time-convention", po::value<std::string>(), "weather stamps: hour-beginning or hour-ending (default: found from the file)")
-      ("max-bad-share", po::value<std::string>(),
-       "largest share of weather rows --on-bad-row skip or fill may drop or fill (default 1%)");
+void add_job_options(po::options_description& options,
+                     po::positional_options_description& positional) {
+  options.add_options()("unit", po::value<std::string>(),
+                        "unit file (TOML); omit to use an embedded demo")(
+      "demo", po::value<std::string>(), "embedded demo: harbourside (default) or mesa-alta")(
+      "weather", po::value<std::string>(),
+      "weather CSV (instead of the unit file's [weather] file)")(
+      "column", po::value<std::vector<std::string>>()->composing(),
+      "weather column override QUANTITY=HEADER[:UNIT] (repeatable)")(
+      "humidity", po::value<std::string>(),
+      "humidity column to use: dew-point, humidity-ratio, wet-bulb or relative-humidity")(
+      "on-bad-row", po::value<std::string>(),
+      "missing or impossible weather rows: error (default), skip or fill")(
+      "time-convention", po::value<std::string>(),
+      "weather stamps: hour-beginning or hour-ending (default: found from the file)")(
+      "max-bad-share", po::value<std::string>(),
+      "largest share of weather rows --on-bad-row skip or fill may drop or fill (default 1%)");
   positional.add("unit", 1);
 }
 
 UnitSource job_source(const po::variables_map& vm) {
-  if (vm.count("unit") && vm.count("demo")) throw UsageError("give a unit file or --demo, not both");
+  if (vm.count("unit") && vm.count("demo"))
+    throw UsageError("give a unit file or --demo, not both");
   if (vm.count("unit")) return {vm["unit"].as<std::string>(), false};
   return demo_unit(vm.count("demo") ? vm["demo"].as<std::string>() : "harbourside");
 }
@@ -38,15 +42,17 @@ WeatherOverrides::Column column_option(const std::string& spec) {
   const std::string origin = fmt::format("--column {}", echo(spec));
   const auto eq = spec.find('=');
   if (eq == std::string::npos || eq == 0 || eq + 1 == spec.size())
-    throw UsageError(fmt::format("{}: write QUANTITY=HEADER or QUANTITY=HEADER:UNIT, e.g. "
-                                 "dry_bulb=Temperature:C",
-                                 origin));
+    throw UsageError(
+        fmt::format("{}: write QUANTITY=HEADER or QUANTITY=HEADER:UNIT, e.g. "
+                    "dry_bulb=Temperature:C",
+                    origin));
   const auto q = weather::quantity_from_key(spec.substr(0, eq));
   if (!q)
-    throw UsageError(fmt::format("{}: {} is not a weather quantity (dry_bulb, dew_point, "
-                                 "relative_humidity, wet_bulb, humidity_ratio, pressure, "
-                                 "timestamp, date, time, year, month, day, hour, minute)",
-                                 origin, echo(spec.substr(0, eq))));
+    throw UsageError(
+        fmt::format("{}: {} is not a weather quantity (dry_bulb, dew_point, "
+                    "relative_humidity, wet_bulb, humidity_ratio, pressure, "
+                    "timestamp, date, time, year, month, day, hour, minute)",
+                    origin, echo(spec.substr(0, eq))));
   WeatherOverrides::Column c{*q, spec.substr(eq + 1), std::nullopt, origin};
   const auto colon = c.header.rfind(':');
   if (colon != std::string::npos && colon > 0 &&

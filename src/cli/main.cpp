@@ -40,8 +40,9 @@ void print_overview() {
       "usage: limitline COMMAND [options]   (limitline COMMAND --help for details)\n\n"
       "commands:\n";
   for (const Command& c : kCommands) out += fmt::format("  {:<10} {}\n", c.name, c.summary);
-  out += "\nExit codes: 0 success, 1 usage error, 2 bad input or an output that could not be\n"
-         "written, 130 interrupted (Ctrl-C).\n";
+  out +=
+      "\nExit codes: 0 success, 1 usage error, 2 bad input or an output that could not be\n"
+      "written, 130 interrupted (Ctrl-C).\n";
   std::fputs(out.c_str(), stdout);
 }
 
@@ -62,11 +63,12 @@ int main(int argc, char** argv) {
     if (c.name != all[0]) continue;
     limitline::cli::set_command_name(c.name);
     try {
-      return limitline::cli::finish_output(c.run(std::vector<std::string>(all.begin() + 1, all.end())));
+      return limitline::cli::finish_output(
+          c.run(std::vector<std::string>(all.begin() + 1, all.end())));
     } catch (const limitline::UsageError& e) {
       std::fflush(stdout);
-      std::fprintf(stderr, "limitline %s: %s (see limitline %s --help)\n", all[0].c_str(),
-                   e.what(), all[0].c_str());
+      std::fprintf(stderr, "limitline %s: %s (see limitline %s --help)\n", all[0].c_str(), e.what(),
+                   all[0].c_str());
       return 1;
     } catch (const limitline::InputError& e) {
       // What was written before the error (the good rows of a batch) goes out first.
@@ -79,7 +81,6 @@ int main(int argc, char** argv) {
       return 3;
     }
   }
-  std::fprintf(stderr, "limitline: '%s' is not a command (see limitline --help)\n",
-               all[0].c_str());
+  std::fprintf(stderr, "limitline: '%s' is not a command (see limitline --help)\n", all[0].c_str());
   return 1;
 }

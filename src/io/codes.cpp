@@ -35,15 +35,14 @@ constexpr std::string_view kCaliforniaZones[] = {"CZ1",  "CZ2",  "CZ3",  "CZ4", 
                                                  "CZ7",  "CZ8",  "CZ9",  "CZ10", "CZ11", "CZ12",
                                                  "CZ13", "CZ14", "CZ15", "CZ16"};
 
-constexpr Named<ZoneSystem> kZoneSystemNames[] = {
-    {"ashrae-169", ZoneSystem::ashrae169}, {"california", ZoneSystem::california}};
-constexpr Named<Permission> kPermissionNames[] = {
-    {"allowed", Permission::allowed}, {"prohibited", Permission::prohibited}};
-constexpr Named<Verdict> kVerdictWords[] = {
-    {"complies", Verdict::complies},
-    {"not-allowed", Verdict::not_allowed},
-    {"set-wrong", Verdict::set_wrong},
-    {"not-evaluable", Verdict::not_evaluable}};
+constexpr Named<ZoneSystem> kZoneSystemNames[] = {{"ashrae-169", ZoneSystem::ashrae169},
+                                                  {"california", ZoneSystem::california}};
+constexpr Named<Permission> kPermissionNames[] = {{"allowed", Permission::allowed},
+                                                  {"prohibited", Permission::prohibited}};
+constexpr Named<Verdict> kVerdictWords[] = {{"complies", Verdict::complies},
+                                            {"not-allowed", Verdict::not_allowed},
+                                            {"set-wrong", Verdict::set_wrong},
+                                            {"not-evaluable", Verdict::not_evaluable}};
 
 constexpr Quantity kQuantities[] = {Quantity::dry_bulb, Quantity::enthalpy, Quantity::dew_point,
                                     Quantity::humidity_ratio};
@@ -236,12 +235,15 @@ Row read_row(const toml::table& t, const std::string& file, const Edition& e) {
                                   echo(row.control), join(names, ", ")));
   }
   if (!row.modelled && preset)
-    r.fail("modelled", fmt::format("'{}' is a preset limitline models; drop modelled = false",
-                                   row.control));
+    r.fail("modelled",
+           fmt::format("'{}' is a preset limitline models; drop modelled = false", row.control));
   const std::string permission = *r.string("permission", true);
-  if (permission == "allowed") row.permission = Permission::allowed;
-  else if (permission == "prohibited") row.permission = Permission::prohibited;
-  else r.fail("permission", fmt::format("{} is not allowed or prohibited", echo(permission)));
+  if (permission == "allowed")
+    row.permission = Permission::allowed;
+  else if (permission == "prohibited")
+    row.permission = Permission::prohibited;
+  else
+    r.fail("permission", fmt::format("{} is not allowed or prohibited", echo(permission)));
   row.zones = read_zones(r, "zones", e);
 
   // Limits: exactly the settings of the preset, both systems, on allowed modelled rows.
@@ -259,8 +261,8 @@ Row read_row(const toml::table& t, const std::string& file, const Edition& e) {
     for (Reference ref : kReferences)
       for (System s : {System::ip, System::si}) {
         const std::string key = setting_key(q, ref, s);
-        const bool wanted = std::find(signature.begin(), signature.end(),
-                                      std::pair{q, ref}) != signature.end();
+        const bool wanted =
+            std::find(signature.begin(), signature.end(), std::pair{q, ref}) != signature.end();
         if (!r.has(key) || wanted) continue;
         if (!takes_limits)
           r.fail(key, row.modelled ? "a prohibited row takes no limits"
@@ -311,9 +313,10 @@ void check_overlaps(const std::vector<Row>& rows) {
       if (rows[i].control != rows[j].control) continue;
       for (const auto& z : rows[j].zones)
         if (std::find(rows[i].zones.begin(), rows[i].zones.end(), z) != rows[i].zones.end())
-          throw InputError(fmt::format("{}: [[row]] control '{}' covers zone {} again (already "
-                                       "covered by the row at {})",
-                                       rows[j].origin, rows[j].control, z, rows[i].origin));
+          throw InputError(
+              fmt::format("{}: [[row]] control '{}' covers zone {} again (already "
+                          "covered by the row at {})",
+                          rows[j].origin, rows[j].control, z, rows[i].origin));
     }
 }
 
@@ -374,10 +377,12 @@ Edition read_edition(const toml::table& doc, const std::string& file) {
   e.id = *r.string("id", true);
   for (unsigned char c : e.id)
     if (!(std::islower(c) || std::isdigit(c) || c == '-' || c == '.' || c == '+'))
-      r.fail("id", fmt::format("{} must be lower-case letters, digits, '.', '-' or '+'", echo(e.id)));
+      r.fail("id",
+             fmt::format("{} must be lower-case letters, digits, '.', '-' or '+'", echo(e.id)));
   e.title = *r.string("title", true);
   const std::string system = *r.string("zone_system", true);
-  if (const auto s = value_in(kZoneSystemNames, system)) e.zone_system = *s;
+  if (const auto s = value_in(kZoneSystemNames, system))
+    e.zone_system = *s;
   else
     r.fail("zone_system",
            fmt::format("{} is not {}", echo(system), names_in(kZoneSystemNames, " or ")));
@@ -393,7 +398,8 @@ Edition read_edition(const toml::table& doc, const std::string& file) {
   }
   if (e.zones.empty()) r.fail("zones", "lists no zone");
   const std::string governing = *r.string("governing_units", true);
-  if (const auto s = value_in(units::system_names(), governing)) e.governing_units = *s;
+  if (const auto s = value_in(units::system_names(), governing))
+    e.governing_units = *s;
   else
     r.fail("governing_units",
            fmt::format("{} is not {}", echo(governing), names_in(units::system_names(), " or ")));
@@ -416,12 +422,13 @@ void apply_amendment(const toml::table& doc, const std::string& file,
   TableReader top(doc, file, "file");
   TableReader r(*top.table("amendment", true), file, "[amendment]");
   const std::string id = *r.string("edition", true);
-  auto it = std::find_if(editions.begin(), editions.end(),
-                         [&](const Edition& e) { return e.id == id; });
+  auto it =
+      std::find_if(editions.begin(), editions.end(), [&](const Edition& e) { return e.id == id; });
   if (it == editions.end()) {
     std::vector<std::string> ids;
     for (const auto& e : editions) ids.push_back(e.id);
-    r.fail("edition", fmt::format("{} is not a loaded edition (loaded: {})", echo(id), join(ids, ", ")));
+    r.fail("edition",
+           fmt::format("{} is not a loaded edition (loaded: {})", echo(id), join(ids, ", ")));
   }
   const std::string name = *r.string("name", true);
   r.string("provenance", true);
@@ -459,18 +466,21 @@ void add_document(std::vector<Edition>& editions, const std::string& origin,
   }
   if (doc.contains("amendment")) {
     if (doc.contains("edition"))
-      throw InputError(fmt::format("{}: a file is an [edition] or an [amendment], not both", origin));
+      throw InputError(
+          fmt::format("{}: a file is an [edition] or an [amendment], not both", origin));
     apply_amendment(doc, origin, editions);
     return;
   }
   if (!doc.contains("edition"))
-    throw InputError(fmt::format("{}: no [edition] or [amendment] table: not a code table", origin));
+    throw InputError(
+        fmt::format("{}: no [edition] or [amendment] table: not a code table", origin));
   Edition e = read_edition(doc, origin);
   for (const auto& other : editions)
     if (other.id == e.id)
-      throw InputError(fmt::format("{}: edition {} is already loaded from {}; write an "
-                                   "[amendment] to change it",
-                                   origin, e.id, other.sources.front()));
+      throw InputError(
+          fmt::format("{}: edition {} is already loaded from {}; write an "
+                      "[amendment] to change it",
+                      origin, e.id, other.sources.front()));
   editions.push_back(std::move(e));
 }
 
@@ -559,25 +569,29 @@ std::string normalise_zone(ZoneSystem s, std::string_view text, std::string_view
   if (s == ZoneSystem::california) {
     if (z.starts_with("CZ")) z.erase(0, 2);
     int n = 0;
-    const bool digits = !z.empty() && z.size() <= 2 &&
-                        std::all_of(z.begin(), z.end(), [](unsigned char c) { return std::isdigit(c); });
+    const bool digits =
+        !z.empty() && z.size() <= 2 &&
+        std::all_of(z.begin(), z.end(), [](unsigned char c) { return std::isdigit(c); });
     if (digits) n = std::stoi(z);
     if (!digits || n < 1 || n > 16)
-      throw InputError(fmt::format("{}: {} is not a California climate zone (allowed: 1 to 16, "
-                                   "written 12 or CZ12)",
-                                   origin, echo(text)));
+      throw InputError(
+          fmt::format("{}: {} is not a California climate zone (allowed: 1 to 16, "
+                      "written 12 or CZ12)",
+                      origin, echo(text)));
     return fmt::format("CZ{}", n);
   }
   for (std::string_view known : kAshraeZones)
     if (known == z) return z;
   if (z.size() == 2 && (z[0] == '7' || z[0] == '8'))
-    throw InputError(fmt::format("{}: climate zone {}: ASHRAE 169 zones 7 and 8 have no A/B/C "
-                                 "split; write {}",
-                                 origin, echo(text), z[0]));
+    throw InputError(
+        fmt::format("{}: climate zone {}: ASHRAE 169 zones 7 and 8 have no A/B/C "
+                    "split; write {}",
+                    origin, echo(text), z[0]));
   if (z.size() == 1 && z[0] >= '0' && z[0] <= '6')
-    throw InputError(fmt::format("{}: climate zone {} needs its moisture regime letter (for "
-                                 "example {}A)",
-                                 origin, echo(text), z));
+    throw InputError(
+        fmt::format("{}: climate zone {} needs its moisture regime letter (for "
+                    "example {}A)",
+                    origin, echo(text), z));
   std::vector<std::string> all(std::begin(kAshraeZones), std::end(kAshraeZones));
   throw InputError(fmt::format("{}: {} is not an ASHRAE 169 climate zone (allowed: {})", origin,
                                echo(text), join(all, ", ")));
@@ -619,7 +633,9 @@ CodeTables CodeTables::load(const std::filesystem::path& dir,
   std::error_code ec;
   for (const auto& entry : std::filesystem::directory_iterator(dir, ec))
     if (entry.path().extension() == ".toml") files.push_back(entry.path());
-  if (ec) throw InputError(fmt::format("{}: cannot read the code-table folder: {}", dir.string(), ec.message()));
+  if (ec)
+    throw InputError(
+        fmt::format("{}: cannot read the code-table folder: {}", dir.string(), ec.message()));
   if (files.empty())
     throw InputError(fmt::format("{}: no code tables (*.toml) in this folder", dir.string()));
   std::sort(files.begin(), files.end());
@@ -638,17 +654,19 @@ std::filesystem::path code_table_dir() {
   if (const char* env = std::getenv("LIMITLINE_DATA_DIR"); env && *env) {
     const fs::path dir = fs::path(env) / "codes";
     if (!fs::is_directory(dir))
-      throw InputError(fmt::format("LIMITLINE_DATA_DIR={}: there is no codes folder there "
-                                   "(expected {})",
-                                   env, dir.string()));
+      throw InputError(
+          fmt::format("LIMITLINE_DATA_DIR={}: there is no codes folder there "
+                      "(expected {})",
+                      env, dir.string()));
     return dir;
   }
   for (const fs::path& dir : {fs::path(LIMITLINE_INSTALLED_DATA_DIR) / "codes",
-                             fs::path(LIMITLINE_SOURCE_DATA_DIR) / "codes"})
+                              fs::path(LIMITLINE_SOURCE_DATA_DIR) / "codes"})
     if (fs::is_directory(dir)) return dir;
-  throw InputError(fmt::format("no code tables found: neither {}/codes nor {}/codes exists; set "
-                               "LIMITLINE_DATA_DIR to the folder that holds codes/",
-                               LIMITLINE_INSTALLED_DATA_DIR, LIMITLINE_SOURCE_DATA_DIR));
+  throw InputError(
+      fmt::format("no code tables found: neither {}/codes nor {}/codes exists; set "
+                  "LIMITLINE_DATA_DIR to the folder that holds codes/",
+                  LIMITLINE_INSTALLED_DATA_DIR, LIMITLINE_SOURCE_DATA_DIR));
 }
 
 const Edition* CodeTables::find(std::string_view id) const {
@@ -669,10 +687,10 @@ const Edition& CodeTables::edition(std::string_view id, std::string_view origin)
 
 double site_enthalpy_kj_per_kg(const SiteEnthalpyRule& rule, System compare_in,
                                double pressure_kpa) {
-  const double t = compare_in == System::ip ? units::celsius_from_fahrenheit(rule.dry_bulb_f)
-                                            : rule.dry_bulb_c;
-  const double w = psychro::humidity_ratio_from_relative_humidity(t, rule.relative_humidity,
-                                                                  pressure_kpa);
+  const double t =
+      compare_in == System::ip ? units::celsius_from_fahrenheit(rule.dry_bulb_f) : rule.dry_bulb_c;
+  const double w =
+      psychro::humidity_ratio_from_relative_humidity(t, rule.relative_humidity, pressure_kpa);
   return psychro::enthalpy_kj_per_kg(t, w);
 }
 
@@ -694,15 +712,15 @@ std::optional<highlimit::Strategy> AllowedControl::strategy(
   return highlimit::make_preset(row->control, s);
 }
 
-ZoneRequirements requirements(const Edition& edition, std::string_view zone, const SiteConditions& site,
-                              std::string_view origin) {
+ZoneRequirements requirements(const Edition& edition, std::string_view zone,
+                              const SiteConditions& site, std::string_view origin) {
   const std::string z = normalise_zone(edition.zone_system, zone, origin);
   if (!edition.has_zone(z))
     throw InputError(fmt::format("{}: climate zone {} is not a zone of {} (its zones: {})", origin,
                                  z, edition.id, join(edition.zones, ", ")));
   if (site.pressure_kpa) psychro::check_pressure(*site.pressure_kpa, "site pressure");
-  ZoneRequirements req{&edition, z, site.pressure_kpa,
-                       site.compare_in.value_or(edition.governing_units), {}, {}};
+  ZoneRequirements req{
+      &edition, z, site.pressure_kpa, site.compare_in.value_or(edition.governing_units), {}, {}};
   for (const auto& control : edition.controls()) {
     const Row* row = edition.row(control, z);
     if (!row) continue;  // coverage is checked on load; a preset always has a row
@@ -718,11 +736,12 @@ void check_site_code(std::string_view edition, std::string_view edition_origin,
                      std::string_view zone, std::string_view zone_origin) {
   if (edition.empty() && zone.empty()) return;
   if (edition.empty() || zone.empty())
-    throw InputError(fmt::format("{}: the site names {} but no {}; give both energy_code and "
-                                 "climate_zone in [site], or neither",
-                                 edition.empty() ? zone_origin : edition_origin,
-                                 edition.empty() ? "a climate zone" : "an energy code",
-                                 edition.empty() ? "energy_code" : "climate_zone"));
+    throw InputError(
+        fmt::format("{}: the site names {} but no {}; give both energy_code and "
+                    "climate_zone in [site], or neither",
+                    edition.empty() ? zone_origin : edition_origin,
+                    edition.empty() ? "a climate zone" : "an energy code",
+                    edition.empty() ? "energy_code" : "climate_zone"));
   const CodeTables tables = CodeTables::load_installed();
   requirements(tables.edition(edition, edition_origin), zone, {}, zone_origin);
 }
@@ -785,8 +804,7 @@ double tolerance(Quantity q, System system) {
 
 StrategyCheck check_strategy(const ZoneRequirements& zone, const highlimit::Strategy& strategy) {
   StrategyCheck out;
-  out.matched =
-      match_control(strategy, zone.pressure_kpa.value_or(psychro::kStandardPressureKpa));
+  out.matched = match_control(strategy, zone.pressure_kpa.value_or(psychro::kStandardPressureKpa));
   if (!out.matched) {
     out.verdict = Verdict::not_evaluable;
     out.instead = alternatives(zone, strategy);
@@ -817,29 +835,27 @@ StrategyCheck check_strategy(const ZoneRequirements& zone, const highlimit::Stra
 }
 
 IntegrationCheck check_integration(const Edition& edition, airside::EconomizerType type) {
-  const bool ok =
-      !edition.integration.required || type == airside::EconomizerType::integrated;
+  const bool ok = !edition.integration.required || type == airside::EconomizerType::integrated;
   return {ok, &edition.integration};
 }
 
 std::vector<std::string> compliance_words(const CodeTables& tables, std::string_view edition,
-                                          std::string_view zone,
-                                          std::optional<double> pressure_kpa,
+                                          std::string_view zone, std::optional<double> pressure_kpa,
                                           std::span<const highlimit::Strategy> strategies,
                                           std::string_view edition_origin,
                                           std::string_view zone_origin) {
   const ZoneRequirements req = requirements(tables.edition(edition, edition_origin), zone,
                                             SiteConditions{pressure_kpa, {}}, zone_origin);
   std::vector<std::string> out;
-  for (const auto& s : strategies)
-    out.emplace_back(verdict_word(check_strategy(req, s).verdict));
+  for (const auto& s : strategies) out.emplace_back(verdict_word(check_strategy(req, s).verdict));
   return out;
 }
 
 // --- Text ---------------------------------------------------------------------------------
 
 Kind setting_kind(Quantity q, Reference r) {
-  return r == Reference::fixed ? highlimit::quantity_kind(q) : highlimit::quantity_difference_kind(q);
+  return r == Reference::fixed ? highlimit::quantity_kind(q)
+                               : highlimit::quantity_difference_kind(q);
 }
 
 std::string setting_key(Quantity q, Reference r, System system) {
@@ -850,8 +866,8 @@ std::string setting_text(const Setting& s, System system) {
   const Kind kind = setting_kind(s.quantity, s.reference);
   const std::string_view q = highlimit::quantity_name(s.quantity);
   if (s.reference == Reference::fixed)
-    return fmt::format("outdoor {} > {}", q, units::format(kind, system, s.value,
-                                                          decimals_for(s.quantity)));
+    return fmt::format("outdoor {} > {}", q,
+                       units::format(kind, system, s.value, decimals_for(s.quantity)));
   const double shown = units::to_display(kind, system, s.value);
   const double step = std::pow(10.0, -decimals_for(s.quantity));
   if (std::fabs(shown) < 0.5 * step) return fmt::format("outdoor {} > return {}", q, q);
@@ -880,8 +896,7 @@ std::string deviation_text(const Deviation& d, System system) {
                            : "the economizer would shut off earlier than the code sets");
 }
 
-std::string verdict_text(const StrategyCheck& check, const ZoneRequirements& zone,
-                         System system) {
+std::string verdict_text(const StrategyCheck& check, const ZoneRequirements& zone, System system) {
   const std::string where = fmt::format("zone {} of {}", zone.zone, zone.edition->id);
   std::string read_as;
   if (check.matched) {
@@ -892,12 +907,11 @@ std::string verdict_text(const StrategyCheck& check, const ZoneRequirements& zon
                                     m.conditions, highlimit::quantity_name(m.setting.quantity),
                                     setting_text(m.setting, system)));
       if (m.from_humidity_ratio)
-        notes.push_back(fmt::format("the humidity-ratio limit is read as {} at {}",
-                                    setting_text(m.setting, system),
-                                    units::format(Kind::pressure, system,
-                                                  zone.pressure_kpa.value_or(
-                                                      psychro::kStandardPressureKpa),
-                                                  system == System::ip ? 2 : 1)));
+        notes.push_back(fmt::format(
+            "the humidity-ratio limit is read as {} at {}", setting_text(m.setting, system),
+            units::format(Kind::pressure, system,
+                          zone.pressure_kpa.value_or(psychro::kStandardPressureKpa),
+                          system == System::ip ? 2 : 1)));
     }
     if (!notes.empty()) read_as = " (" + join(notes, "; ") + ")";
   }

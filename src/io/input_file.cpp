@@ -75,7 +75,8 @@ void read_input_pieces(const fs::path& path, std::string_view what, std::uintmax
     if (!ec && size > max_bytes) throw too_large(size, false);
   }
   std::ifstream in(path, std::ios::binary);
-  if (!in) throw InputError(fmt::format("{}: cannot open {} ({})", name, what, std::strerror(errno)));
+  if (!in)
+    throw InputError(fmt::format("{}: cannot open {} ({})", name, what, std::strerror(errno)));
   std::uintmax_t total = 0;
   char buffer[1 << 16];
   // A pipe has no size to check first, and a regular file may grow while read: cap as we go.
@@ -85,7 +86,8 @@ void read_input_pieces(const fs::path& path, std::string_view what, std::uintmax
     if (total > max_bytes) throw too_large(max_bytes, true);
     piece(std::string_view(buffer, n));
   }
-  if (in.bad()) throw InputError(fmt::format("{}: cannot read {} ({})", name, what, std::strerror(errno)));
+  if (in.bad())
+    throw InputError(fmt::format("{}: cannot read {} ({})", name, what, std::strerror(errno)));
 }
 
 std::string read_input_file(const fs::path& path, std::string_view what, std::uintmax_t max_bytes) {

@@ -116,7 +116,9 @@ mode_t new_file_mode() {
 // Bytes gathered and written with write(2), keeping the first error's errno for the message.
 class OutputFile::Buffer : public std::streambuf {
  public:
-  explicit Buffer(int fd) : fd_(fd), data_(1 << 16) { setp(data_.data(), data_.data() + data_.size()); }
+  explicit Buffer(int fd) : fd_(fd), data_(1 << 16) {
+    setp(data_.data(), data_.data() + data_.size());
+  }
   int error() const { return error_; }
 
   bool drain() {
@@ -160,7 +162,8 @@ OutputFile::OutputFile(const fs::path& target, std::string option)
     struct stat st {};
     const bool exists = ::stat(real.c_str(), &st) == 0;
     if (exists && S_ISDIR(st.st_mode))
-      throw InputError(fmt::format("{}: {} is a folder; give a file name", option_, named(target_)));
+      throw InputError(
+          fmt::format("{}: {} is a folder; give a file name", option_, named(target_)));
     const int standard = exists ? standard_descriptor_for(st) : -1;
     if (standard >= 0) {
       std::fflush(standard == STDOUT_FILENO ? stdout : stderr);
@@ -169,17 +172,20 @@ OutputFile::OutputFile(const fs::path& target, std::string option)
       // A device or a pipe: written in place, it cannot be half-replaced.
       fd_ = ::open(real.c_str(), O_WRONLY | O_CLOEXEC);
       if (fd_ < 0)
-        throw InputError(fmt::format("{}: cannot write {}: {}", option_, named(target_), reason(errno)));
+        throw InputError(
+            fmt::format("{}: cannot write {}: {}", option_, named(target_), reason(errno)));
       owns_fd_ = true;
     } else {
       // Renaming would replace a file the user may not write; refuse as opening it would.
       if (exists && ::access(real.c_str(), W_OK) != 0)
-        throw InputError(fmt::format("{}: cannot write {}: {}", option_, named(target_), reason(errno)));
+        throw InputError(
+            fmt::format("{}: cannot write {}: {}", option_, named(target_), reason(errno)));
       const fs::path dir = real.parent_path().empty() ? fs::path(".") : real.parent_path();
       std::string pattern = (dir / ("." + real.filename().string() + ".limitline-XXXXXX")).string();
       fd_ = ::mkostemp(pattern.data(), O_CLOEXEC);
       if (fd_ < 0)
-        throw InputError(fmt::format("{}: cannot write {}: {}", option_, named(target_), reason(errno)));
+        throw InputError(
+            fmt::format("{}: cannot write {}: {}", option_, named(target_), reason(errno)));
       owns_fd_ = true;
       temp_ = pattern;
       slot_ = register_pending(pattern);
@@ -200,7 +206,9 @@ OutputFile::~OutputFile() {
 
 std::ostream& OutputFile::stream() { return *stream_; }
 
-void OutputFile::write(std::string_view text) { stream_->write(text.data(), static_cast<std::streamsize>(text.size())); }
+void OutputFile::write(std::string_view text) {
+  stream_->write(text.data(), static_cast<std::streamsize>(text.size()));
+}
 
 void OutputFile::fail(int error_number) {
   if (owns_fd_) ::close(fd_);
@@ -209,9 +217,9 @@ void OutputFile::fail(int error_number) {
   temp_.clear();
   release_pending(slot_);
   slot_ = -1;
-  const std::string what = fmt::format("cannot write {}: {}",
-                                       target_ == "-" ? std::string("to standard output") : named(target_),
-                                       reason(error_number));
+  const std::string what = fmt::format(
+      "cannot write {}: {}", target_ == "-" ? std::string("to standard output") : named(target_),
+      reason(error_number));
   throw InputError(option_.empty() ? what : fmt::format("{}: {}", option_, what));
 }
 
@@ -250,9 +258,10 @@ void refuse_input_as_output(const fs::path& output, std::string_view option,
   for (const fs::path& in : inputs) {
     std::error_code ec;
     if (!in.empty() && fs::equivalent(output, in, ec) && !ec)
-      throw InputError(fmt::format("{}: {} is also an input ({}); writing it would destroy the "
-                                   "input: give another file name",
-                                   option, named(output), named(in)));
+      throw InputError(
+          fmt::format("{}: {} is also an input ({}); writing it would destroy the "
+                      "input: give another file name",
+                      option, named(output), named(in)));
   }
 }
 

@@ -39,8 +39,8 @@ int parse_clock(std::string_view s, const std::string& origin) {
          (h < 24 || (h == 24 && m == 0));
   }
   if (!ok)
-    throw InputError(fmt::format("{}: '{}' is not a time of day (HH:MM, 00:00 to 24:00)",
-                                 origin, s));
+    throw InputError(
+        fmt::format("{}: '{}' is not a time of day (HH:MM, 00:00 to 24:00)", origin, s));
   return h * 60 + m;
 }
 
@@ -57,9 +57,10 @@ std::vector<Schedule::Period> parse_periods(std::string_view text, const std::st
     const int a = parse_clock(text::trim_spaces(part.substr(0, dash)), origin);
     const int b = parse_clock(text::trim_spaces(part.substr(dash + 1)), origin);
     if (b <= a)
-      throw InputError(fmt::format("{}: period '{}' ends before it starts (periods may not "
-                                   "cross midnight; split them at 24:00)",
-                                   origin, part));
+      throw InputError(
+          fmt::format("{}: period '{}' ends before it starts (periods may not "
+                      "cross midnight; split them at 24:00)",
+                      origin, part));
     out.push_back({a, b});
   }
   std::sort(out.begin(), out.end(), [](auto x, auto y) { return x.start_min < y.start_min; });
@@ -83,9 +84,10 @@ Schedule read_schedule(const RawTable& raw, std::string_view file) {
     if (key == "occupied") {
       const auto v = node.value<std::string>();
       if (!v || *v != "always")
-        throw InputError(fmt::format("{}: must be \"always\" (or give weekly periods with day "
-                                     "keys such as mon-fri = \"06:00-19:00\")",
-                                     origin));
+        throw InputError(
+            fmt::format("{}: must be \"always\" (or give weekly periods with day "
+                        "keys such as mon-fri = \"06:00-19:00\")",
+                        origin));
       always_given = true;
     } else if (key == "first_weekday") {
       const auto v = node.value<std::string>();
@@ -111,8 +113,8 @@ Schedule read_schedule(const RawTable& raw, std::string_view file) {
           ok = ok && calendar::is_date(m, d);  // a holiday has no year: 02-29 is allowed
         }
         if (!ok)
-          throw InputError(fmt::format("{}: '{}' is not a date (\"MM-DD\", e.g. \"12-25\")",
-                                       origin, v ? *v : std::string("?")));
+          throw InputError(fmt::format("{}: '{}' is not a date (\"MM-DD\", e.g. \"12-25\")", origin,
+                                       v ? *v : std::string("?")));
         s.holidays.emplace_back(m, d);
       }
     } else {
@@ -130,8 +132,8 @@ Schedule read_schedule(const RawTable& raw, std::string_view file) {
       const auto periods = parse_periods(*v, origin);
       for (int d = a; d <= b; ++d) {
         if (set[static_cast<std::size_t>(d)])
-          throw InputError(fmt::format("{}: {} is already given by another key", origin,
-                                       weekday_name(d)));
+          throw InputError(
+              fmt::format("{}: {} is already given by another key", origin, weekday_name(d)));
         set[static_cast<std::size_t>(d)] = true;
         s.week[static_cast<std::size_t>(d)] = periods;
       }
@@ -139,13 +141,15 @@ Schedule read_schedule(const RawTable& raw, std::string_view file) {
     }
   }
   if (always_given && (any_day || !s.holidays.empty()))
-    throw InputError(fmt::format("{}: [schedule] occupied = \"always\" cannot be combined with "
-                                 "day periods or holidays",
-                                 file));
+    throw InputError(
+        fmt::format("{}: [schedule] occupied = \"always\" cannot be combined with "
+                    "day periods or holidays",
+                    file));
   if (!always_given && !any_day)
-    throw InputError(fmt::format("{}: [schedule] gives no occupied periods (occupied = "
-                                 "\"always\", or day keys such as mon-fri = \"06:00-19:00\")",
-                                 file));
+    throw InputError(
+        fmt::format("{}: [schedule] gives no occupied periods (occupied = "
+                    "\"always\", or day keys such as mon-fri = \"06:00-19:00\")",
+                    file));
   s.always = always_given;
   return s;
 }

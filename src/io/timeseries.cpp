@@ -176,7 +176,6 @@ bool blank(std::string_view s) {
   return true;
 }
 
-
 // --- 2. Header and layout ------------------------------------------------------------------
 
 // True when `word` is one of the '|'-separated entries of `list`.

@@ -49,10 +49,11 @@ class DepthScan {
 
   void check(int depth) const {
     if (depth > kMaxTomlDepth)
-      throw InputError(fmt::format("{}:{}: TOML nested more than {} levels deep (tables, dotted "
-                                   "keys, inline tables and arrays together); no unit file or "
-                                   "code table needs that many",
-                                   name_, line_, kMaxTomlDepth));
+      throw InputError(
+          fmt::format("{}:{}: TOML nested more than {} levels deep (tables, dotted "
+                      "keys, inline tables and arrays together); no unit file or "
+                      "code table needs that many",
+                      name_, line_, kMaxTomlDepth));
   }
 
   int base() const { return open_.empty() ? header_ : open_.back().depth; }
@@ -156,8 +157,6 @@ class DepthScan {
 
 }  // namespace
 
-void check_toml_depth(std::string_view text, std::string_view name) {
-  DepthScan(text, name).run();
-}
+void check_toml_depth(std::string_view text, std::string_view name) { DepthScan(text, name).run(); }
 
 }  // namespace limitline

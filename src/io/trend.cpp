@@ -41,17 +41,17 @@ Kind channel_kind(Channel c) {
 // Plausible range of each temperature channel, °C: beyond it the reading is not air at that
 // point (or the column's unit is not the one its header names). Common practice.
 struct Plausible {
-  double lo, hi;          // every sample
+  double lo, hi;                // every sample
   double median_lo, median_hi;  // the median of the column (indoor air is held near comfort)
 };
 constexpr Plausible kPlausible[kChannelCount] = {
-    {-60, 60, -60, 60},  // outdoor dry-bulb
-    {0, 0, 0, 0},        {-70, 40, -70, 40},  // outdoor dew point
-    {0, 50, 10, 35},     // return
-    {0, 0, 0, 0},        {-40, 35, -40, 35},  // return dew point
-    {-40, 60, 0, 40},    // mixed air
-    {0, 60, 5, 40},      // supply air
-    {0, 0, 0, 0},        {0, 0, 0, 0},        {0, 0, 0, 0}};
+    {-60, 60, -60, 60},                      // outdoor dry-bulb
+    {0, 0, 0, 0},       {-70, 40, -70, 40},  // outdoor dew point
+    {0, 50, 10, 35},                         // return
+    {0, 0, 0, 0},       {-40, 35, -40, 35},  // return dew point
+    {-40, 60, 0, 40},                        // mixed air
+    {0, 60, 5, 40},                          // supply air
+    {0, 0, 0, 0},       {0, 0, 0, 0},       {0, 0, 0, 0}};
 
 using text::to_lower;
 
@@ -59,8 +59,10 @@ std::vector<std::string> words(std::string_view header) {
   std::vector<std::string> out;
   std::string cur;
   for (char ch : to_lower(header)) {
-    if (std::isalnum(static_cast<unsigned char>(ch))) cur += ch;
-    else if (!cur.empty()) out.push_back(std::exchange(cur, {}));
+    if (std::isalnum(static_cast<unsigned char>(ch)))
+      cur += ch;
+    else if (!cur.empty())
+      out.push_back(std::exchange(cur, {}));
   }
   if (!cur.empty()) out.push_back(cur);
   return out;
@@ -94,31 +96,40 @@ std::optional<Channel> channel_from_header(std::string_view header) {
     for (const auto& a : kAbbrevs)
       if (x == a.word) loc = a.location, qty = a.quantity;
   if (!loc) {
-    if (has_word(w, {"oa", "outdoor", "outside", "osa", "ambient"})) loc = 'o';
-    else if (has_word(w, {"ra", "return"})) loc = 'r';
-    else if (has_word(w, {"ma", "mixed", "mix"})) loc = 'm';
-    else if (has_word(w, {"sa", "supply", "discharge", "da"})) loc = 's';
+    if (has_word(w, {"oa", "outdoor", "outside", "osa", "ambient"}))
+      loc = 'o';
+    else if (has_word(w, {"ra", "return"}))
+      loc = 'r';
+    else if (has_word(w, {"ma", "mixed", "mix"}))
+      loc = 'm';
+    else if (has_word(w, {"sa", "supply", "discharge", "da"}))
+      loc = 's';
   }
   const bool damper = has_word(w, {"damper", "dmpr", "dpr"});
   if (damper) return Channel::damper;
   if (has_word(w, {"fan", "sf"}) && !has_word(w, {"speed", "vfd", "hz"})) return Channel::fan;
-  if (has_word(w, {"cooling", "clg", "compressor", "comp", "dx", "cool"}))
-    return Channel::cooling;
+  if (has_word(w, {"cooling", "clg", "compressor", "comp", "dx", "cool"})) return Channel::cooling;
   if (!qty) {
-    if (has_word(w, {"dew", "dewpoint", "dp"})) qty = 'd';
-    else if (has_word(w, {"rh", "humidity", "hum"})) qty = 'h';
-    else if (has_word(w, {"temp", "temperature", "t", "db", "drybulb", "dry"})) qty = 't';
-    else if (loc == 'm' || loc == 's') qty = 't';  // "Mixed Air", "Supply Air"
+    if (has_word(w, {"dew", "dewpoint", "dp"}))
+      qty = 'd';
+    else if (has_word(w, {"rh", "humidity", "hum"}))
+      qty = 'h';
+    else if (has_word(w, {"temp", "temperature", "t", "db", "drybulb", "dry"}))
+      qty = 't';
+    else if (loc == 'm' || loc == 's')
+      qty = 't';  // "Mixed Air", "Supply Air"
   }
   switch (loc) {
     case 'o':
-      return qty == 'h' ? Channel::outdoor_rh
+      return qty == 'h'   ? Channel::outdoor_rh
              : qty == 'd' ? Channel::outdoor_dew_point
-             : qty == 't' ? std::optional(Channel::outdoor_dry_bulb) : std::nullopt;
+             : qty == 't' ? std::optional(Channel::outdoor_dry_bulb)
+                          : std::nullopt;
     case 'r':
-      return qty == 'h' ? Channel::return_rh
+      return qty == 'h'   ? Channel::return_rh
              : qty == 'd' ? Channel::return_dew_point
-             : qty == 't' ? std::optional(Channel::return_dry_bulb) : std::nullopt;
+             : qty == 't' ? std::optional(Channel::return_dry_bulb)
+                          : std::nullopt;
     case 'm': return qty == 't' ? std::optional(Channel::mixed_air) : std::nullopt;
     case 's': return qty == 't' ? std::optional(Channel::supply_air) : std::nullopt;
     default: return std::nullopt;
@@ -161,8 +172,10 @@ std::string normalise_unit(std::string_view u, std::string_view origin) {
 
 std::optional<bool> parse_status(std::string_view t) {
   const std::string l = to_lower(t);
-  static constexpr std::string_view on[] = {"on", "1", "true", "run", "running", "yes", "active", "start", "occupied"};
-  static constexpr std::string_view off[] = {"off", "0", "false", "stop", "stopped", "no", "inactive", "unoccupied"};
+  static constexpr std::string_view on[] = {"on",  "1",      "true",  "run",     "running",
+                                            "yes", "active", "start", "occupied"};
+  static constexpr std::string_view off[] = {"off",     "0",  "false",    "stop",
+                                             "stopped", "no", "inactive", "unoccupied"};
   for (auto s : on)
     if (l == s) return true;
   for (auto s : off)
@@ -174,7 +187,8 @@ std::optional<bool> parse_status(std::string_view t) {
 bool digits(std::string_view s, std::size_t& i, int max, int& out) {
   std::size_t n = 0;
   out = 0;
-  while (i < s.size() && std::isdigit(static_cast<unsigned char>(s[i])) && n < static_cast<std::size_t>(max))
+  while (i < s.size() && std::isdigit(static_cast<unsigned char>(s[i])) &&
+         n < static_cast<std::size_t>(max))
     out = out * 10 + (s[i++] - '0'), ++n;
   return n > 0;
 }
@@ -343,10 +357,10 @@ struct Where {
 struct Layout {
   int header_line = 0;
   char delimiter = ',';
-  std::vector<std::string> header;  // the fields as split
+  std::vector<std::string> header;                  // the fields as split
   std::array<int, 3> time_role_column{-1, -1, -1};  // first timestamp, date and time column
   ts::TimeColumns time;
-  std::array<int, kChannelCount> column{};  // -1: the log has none
+  std::array<int, kChannelCount> column{};      // -1: the log has none
   std::array<std::string, kChannelCount> unit;  // "F", "C", "%", "fraction"; "" for on/off
   std::vector<ColumnUse> uses;
 };
@@ -380,21 +394,25 @@ void map_channels(Layout& l, const ReadOptions& options, const std::string& wher
     const auto k = static_cast<std::size_t>(*ch);
     if (overridden[k]) continue;
     if (l.column[k] >= 0)
-      throw InputError(fmt::format(
-          "{}: columns {} and {} both look like {}; choose one with --column {}=HEADER",
-          where_header, echo(header[static_cast<std::size_t>(l.column[k])]), echo(header[c]),
-          channel_name(*ch), channel_name(*ch)));
+      throw InputError(
+          fmt::format("{}: columns {} and {} both look like {}; choose one with --column {}=HEADER",
+                      where_header, echo(header[static_cast<std::size_t>(l.column[k])]),
+                      echo(header[c]), channel_name(*ch), channel_name(*ch)));
     l.column[k] = ci;
   }
   if (std::all_of(l.column.begin(), l.column.end(), [](int c) { return c < 0; }))
-    throw InputError(fmt::format("{}: no trend column recognised (e.g. 'OA Temp (°F)', 'RA RH "
-                                 "(%)', 'MAT', 'OA Damper Cmd (%)', 'SF Status'); set them with "
-                                 "--column QUANTITY=HEADER[:UNIT]",
-                                 where_header));
+    throw InputError(
+        fmt::format("{}: no trend column recognised (e.g. 'OA Temp (°F)', 'RA RH "
+                    "(%)', 'MAT', 'OA Damper Cmd (%)', 'SF Status'); set them with "
+                    "--column QUANTITY=HEADER[:UNIT]",
+                    where_header));
   for (std::size_t k = 0; k < kChannelCount; ++k)
     if (l.column[k] >= 0)
-      l.uses.push_back({static_cast<Channel>(k), header[static_cast<std::size_t>(l.column[k])], {},
-                        overridden[k], {}});
+      l.uses.push_back({static_cast<Channel>(k),
+                        header[static_cast<std::size_t>(l.column[k])],
+                        {},
+                        overridden[k],
+                        {}});
 }
 
 // Units: override, else header, else the bare system (temperatures) or % (percent points).
@@ -407,8 +425,9 @@ void choose_units(Layout& l, const ReadOptions& options, const std::string& wher
     switch (channel_kind(ch)) {
       case Kind::temperature:
         if (u == "%" || u == "fraction")
-          throw InputError(fmt::format("{}: column {} ({}) is a temperature; its unit must be F or C",
-                                       where_header, echo(h), channel_name(ch)));
+          throw InputError(
+              fmt::format("{}: column {} ({}) is a temperature; its unit must be F or C",
+                          where_header, echo(h), channel_name(ch)));
         if (u.empty()) {
           u.assign(1, options.bare == units::System::ip ? 'F' : 'C');
           use.note = fmt::format("no unit in the header: read in °{} (--units)", u);
@@ -438,9 +457,10 @@ std::optional<Layout> read_header(std::string_view text, Where at, const ReadOpt
   for (std::size_t c = 0; c < l.header.size(); ++c) {
     const TimeRole role = time_role(l.header[c]);
     if (role == TimeRole::none) continue;
-    int& first = roles[static_cast<std::size_t>(role == TimeRole::timestamp ? ts::TimeRole::timestamp
-                                                : role == TimeRole::date  ? ts::TimeRole::date
-                                                                          : ts::TimeRole::time)];
+    int& first =
+        roles[static_cast<std::size_t>(role == TimeRole::timestamp ? ts::TimeRole::timestamp
+                                       : role == TimeRole::date    ? ts::TimeRole::date
+                                                                   : ts::TimeRole::time)];
     if (first < 0) first = static_cast<int>(c);
   }
   std::copy_n(roles.begin(), 3, l.time_role_column.begin());
@@ -451,7 +471,8 @@ std::optional<Layout> read_header(std::string_view text, Where at, const ReadOpt
   const std::string where_header = at.str();
   // A date alone holds the whole stamp; a time alone does not.
   if (l.time_role_column[0] < 0 && l.time_role_column[1] < 0)
-    throw InputError(fmt::format("{}: a 'Time' column needs a 'Date' column beside it", where_header));
+    throw InputError(
+        fmt::format("{}: a 'Time' column needs a 'Date' column beside it", where_header));
   l.time = ts::resolve_time(roles);
   map_channels(l, options, where_header);
   choose_units(l, options, where_header);
@@ -470,10 +491,11 @@ double reading(const Layout& l, std::size_t k, std::string_view t, Where at) {
     if (auto st = parse_status(t)) return *st ? 1.0 : 0.0;
     if (ts::read_number(t, v) && v >= 0 && v <= 100 && ch == Channel::cooling)
       return v > 0 ? 1.0 : 0.0;  // a valve or compressor signal: on when above zero
-    throw InputError(fmt::format("{}: {} {} in column {} is not a status (allowed: on/off, 1/0, "
-                                 "true/false, run/stop{})",
-                                 at.str(), channel_name(ch), echo(t), echo(h),
-                                 ch == Channel::cooling ? ", or a signal 0–100 %" : ""));
+    throw InputError(
+        fmt::format("{}: {} {} in column {} is not a status (allowed: on/off, 1/0, "
+                    "true/false, run/stop{})",
+                    at.str(), channel_name(ch), echo(t), echo(h),
+                    ch == Channel::cooling ? ", or a signal 0–100 %" : ""));
   }
   if (!ts::read_number(t, v))
     throw InputError(fmt::format("{}: {} {} in column {} is not a number", at.str(),
@@ -492,8 +514,7 @@ double reading(const Layout& l, std::size_t k, std::string_view t, Where at) {
     throw InputError(fmt::format(
         "{}: {} {} in column {} read in °{} is {:.1f} °C, outside the plausible {:.0f} to "
         "{:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
-        at.str(), channel_name(ch), echo(t), echo(h), l.unit[k], c, p.lo, p.hi,
-        channel_name(ch)));
+        at.str(), channel_name(ch), echo(t), echo(h), l.unit[k], c, p.lo, p.hi, channel_name(ch)));
   return c;
 }
 
@@ -508,22 +529,24 @@ RowReading read_row(const Layout& l, std::string_view text, Where at) {
   std::size_t used = cells.size();
   while (used > l.header.size() && cells[used - 1].empty()) --used;
   if (used != l.header.size())
-    throw InputError(fmt::format("{}: the row has {} fields but the header (line {}) has {}; "
-                                 "allowed: one value per header column",
-                                 at.str(), used, l.header_line, l.header.size()));
+    throw InputError(
+        fmt::format("{}: the row has {} fields but the header (line {}) has {}; "
+                    "allowed: one value per header column",
+                    at.str(), used, l.header_line, l.header.size()));
   auto cell = [&](int c) -> std::string_view {
     return c >= 0 ? std::string_view(cells[static_cast<std::size_t>(c)]) : std::string_view();
   };
-  const std::string joined = l.time.stamp >= 0 ? std::string()
-                                               : std::string(cell(l.time.date)) + " " +
-                                                     std::string(cell(l.time.clock));
+  const std::string joined =
+      l.time.stamp >= 0 ? std::string()
+                        : std::string(cell(l.time.date)) + " " + std::string(cell(l.time.clock));
   const std::string_view stamp = l.time.stamp >= 0 ? cell(l.time.stamp) : std::string_view(joined);
   RowReading r;
   const auto read = read_timestamp(stamp);
   r.time_s = read ? *read : parse_timestamp(stamp, fmt::format("{}: time", at.str()));
   r.value.fill(std::nan(""));
   for (std::size_t k = 0; k < kChannelCount; ++k)
-    if (l.column[k] >= 0 && !cell(l.column[k]).empty()) r.value[k] = reading(l, k, cell(l.column[k]), at);
+    if (l.column[k] >= 0 && !cell(l.column[k]).empty())
+      r.value[k] = reading(l, k, cell(l.column[k]), at);
   return r;
 }
 
@@ -544,9 +567,10 @@ void append(TrendLog& log, const Layout& l, const RowReading& r, Where at) {
       for (std::size_t k = 0; k < kChannelCount; ++k) {
         const std::optional<double> before = log.value(static_cast<Channel>(k), last);
         if (!(before ? r.value[k] == *before : std::isnan(r.value[k])))
-          throw InputError(fmt::format("{}: time {} repeats line {} with different readings; "
-                                       "remove one of them",
-                                       at.str(), format_timestamp(r.time_s), log.line.back()));
+          throw InputError(
+              fmt::format("{}: time {} repeats line {} with different readings; "
+                          "remove one of them",
+                          at.str(), format_timestamp(r.time_s), log.line.back()));
       }
       ++log.coverage.duplicate_rows;
       return;
@@ -578,7 +602,8 @@ void check_medians(const TrendLog& log, const Layout& l, const std::string& wher
     if (med < p.median_lo || med > p.median_hi)
       throw InputError(fmt::format(
           "{}: column {} ({}) read in °{} has a median of {:.1f} °C, outside the plausible "
-          "{:.0f} to {:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or :C)",
+          "{:.0f} to {:.0f} °C; is the column's unit right? (set it with --column {}=HEADER:F or "
+          ":C)",
           where_header, echo(l.header[static_cast<std::size_t>(l.column[k])]),
           channel_name(static_cast<Channel>(k)), l.unit[k], med, p.median_lo, p.median_hi,
           channel_name(static_cast<Channel>(k))));
@@ -593,22 +618,24 @@ void measure_coverage(TrendLog& log, const ReadOptions& options) {
   cov.rows = static_cast<int>(n);
   cov.first_s = t.front();
   cov.last_s = t.back();
-  if (n < 2) throw InputError(fmt::format("{}: one sample only; an audit needs a series", log.path));
+  if (n < 2)
+    throw InputError(fmt::format("{}: one sample only; an audit needs a series", log.path));
   {
     std::vector<double> dt(n - 1);
     for (std::size_t i = 1; i < n; ++i) dt[i - 1] = static_cast<double>(t[i] - t[i - 1]);
     cov.median_interval_s = ts::median(dt);
   }
   if (options.max_gap_s && !(*options.max_gap_s > 0 && *options.max_gap_s <= kMaxGapLimitS))
-    throw InputError(fmt::format("--max-gap: {} is outside the allowed more than 0 to {:.0f} min "
-                                 "(a year)",
-                                 std::isfinite(*options.max_gap_s)
-                                     ? fmt::format("{:.6g} min", *options.max_gap_s / 60.0)
-                                     : std::string("a time beyond any bound"),
-                                 kMaxGapLimitS / 60.0));
+    throw InputError(fmt::format(
+        "--max-gap: {} is outside the allowed more than 0 to {:.0f} min "
+        "(a year)",
+        std::isfinite(*options.max_gap_s) ? fmt::format("{:.6g} min", *options.max_gap_s / 60.0)
+                                          : std::string("a time beyond any bound"),
+        kMaxGapLimitS / 60.0));
   cov.max_gap_s = options.max_gap_s ? *options.max_gap_s : 2.0 * cov.median_interval_s;
   for (std::size_t i = 0; i < n; ++i) {
-    if (i + 1 < n && static_cast<double>(t[i + 1] - t[i]) > cov.max_gap_s) cov.gaps.push_back({t[i], t[i + 1]});
+    if (i + 1 < n && static_cast<double>(t[i + 1] - t[i]) > cov.max_gap_s)
+      cov.gaps.push_back({t[i], t[i + 1]});
     cov.covered_s += log.weight_s(i);
   }
   cov.span_s = static_cast<double>(cov.last_s - cov.first_s) + log.weight_s(n - 1);
@@ -636,10 +663,13 @@ class Reader {
 
   TrendLog finish() {
     if (!layout_)
-      throw InputError(fmt::format("{}: no header line with a time column (a header such as "
-                                   "'Timestamp', 'Date/Time', or 'Date' and 'Time')", log_.path));
+      throw InputError(
+          fmt::format("{}: no header line with a time column (a header such as "
+                      "'Timestamp', 'Date/Time', or 'Date' and 'Time')",
+                      log_.path));
     const std::string where_header = Where{log_.path, layout_->header_line}.str();
-    if (log_.time_s.empty()) throw InputError(fmt::format("{}: no samples after the header", where_header));
+    if (log_.time_s.empty())
+      throw InputError(fmt::format("{}: no samples after the header", where_header));
     check_medians(log_, *layout_, where_header);
     measure_coverage(log_, options_);
     return std::move(log_);
@@ -648,7 +678,7 @@ class Reader {
  private:
   const ReadOptions& options_;
   TrendLog log_;
-  int number_ = 0;  // the line being read
+  int number_ = 0;                // the line being read
   std::optional<Layout> layout_;  // once the header is found
 };
 

@@ -34,10 +34,9 @@ constexpr std::string_view kTopKeys[] = {"units",    "site",    "air_handler", "
 constexpr std::string_view kSiteKeys[] = {"name",        "elevation",    "pressure",
                                           "energy_code", "climate_zone", "units"};
 constexpr std::string_view kAirHandlerKeys[] = {
-    "supply_airflow",      "supply_air_temp",     "fan_heat",
-    "fan_position",        "min_outdoor_air",     "min_outdoor_airflow",
-    "max_outdoor_air",     "economizer",          "coil_leaving_rh_max",
-    "return_air_temp",     "return_air_rh",       "return_air_dew_point",
+    "supply_airflow",      "supply_air_temp",          "fan_heat",        "fan_position",
+    "min_outdoor_air",     "min_outdoor_airflow",      "max_outdoor_air", "economizer",
+    "coil_leaving_rh_max", "return_air_temp",          "return_air_rh",   "return_air_dew_point",
     "return_air_wet_bulb", "return_air_humidity_ratio"};
 constexpr std::string_view kEnergyKeys[] = {"cooling_weight", "heating_weight"};
 constexpr std::string_view kConditionKeys[] = {"quantity", "reference", "limit", "offset",
@@ -58,8 +57,7 @@ constexpr PresetKey kPresetKeys[] = {
      &PresetSettings::enthalpy_limit_kj_per_kg},
     {Quantity::enthalpy, Reference::return_air, "enthalpy_offset",
      &PresetSettings::enthalpy_offset_kj_per_kg},
-    {Quantity::dew_point, Reference::fixed, "dew_point_limit",
-     &PresetSettings::dew_point_limit_c},
+    {Quantity::dew_point, Reference::fixed, "dew_point_limit", &PresetSettings::dew_point_limit_c},
 };
 struct DeadbandKey {
   Quantity quantity;
@@ -156,7 +154,9 @@ class Reader {
     fail(table.source(), key, fmt::format("required key is missing ({})", hint));
   }
 
-  std::string show(Kind k, double si) const { return units::format(k, system, si, decimals(k, system)); }
+  std::string show(Kind k, double si) const {
+    return units::format(k, system, si, decimals(k, system));
+  }
 
   void check_keys(const toml::table& t, std::string_view path,
                   std::span<const std::string_view> allowed, std::string_view where) const {
@@ -193,9 +193,8 @@ class Reader {
 
   // A quantity: a string with or without unit, or a bare TOML number in the file's system,
   // weighed against its plausible band (named `band`, else PATH.KEY).
-  std::optional<double> quantity(const toml::table& t, std::string_view key,
-                                 std::string_view path, Kind kind,
-                                 std::string_view band = {}) const {
+  std::optional<double> quantity(const toml::table& t, std::string_view key, std::string_view path,
+                                 Kind kind, std::string_view band = {}) const {
     const toml::node* n = t.get(key);
     if (n == nullptr) return std::nullopt;
     const std::string full = join_path(path, key);
@@ -203,9 +202,7 @@ class Reader {
     const std::string where = origin(n->source(), full);
     const plausible::Band* b = plausible::find(band.empty() ? std::string_view(full) : band);
     if (b == nullptr || b->kind != kind) return units::parse(kind, text, system, where);
-    return plausible::parse(
-        *b, text, system,
-        {where, plausible::in_file(system)}, warnings);
+    return plausible::parse(*b, text, system, {where, plausible::in_file(system)}, warnings);
   }
 
   // A dimensionless number: a TOML number, or a string holding one.
@@ -216,7 +213,8 @@ class Reader {
     const std::string where = origin(n->source(), join_path(path, key));
     if (const auto* i = n->as_integer()) return static_cast<double>(i->get());
     if (const auto* f = n->as_floating_point()) {
-      if (!std::isfinite(f->get())) fail(n->source(), join_path(path, key), "must be a finite number");
+      if (!std::isfinite(f->get()))
+        fail(n->source(), join_path(path, key), "must be a finite number");
       return f->get();
     }
     if (const auto* s = n->as_string()) return units::parse_number(s->get(), where);
@@ -242,9 +240,9 @@ class Reader {
       return;
     }
     fail(t.get(key)->source(), join_path(path, key),
-         fmt::format("{} is outside the allowed range ({})", show(kind, value),
-                     allowed.empty() ? units::format_range(kind, system, lo, hi)
-                                     : std::string(allowed)));
+         fmt::format(
+             "{} is outside the allowed range ({})", show(kind, value),
+             allowed.empty() ? units::format_range(kind, system, lo, hi) : std::string(allowed)));
   }
 
   // The TOML type of a node with its article, for "must be ..., not a boolean".
@@ -333,7 +331,8 @@ double required_quantity(const Reader& r, const toml::table& t, std::string_view
                          std::string_view example) {
   auto v = r.quantity(t, key, "air_handler", kind);
   if (!v)
-    r.missing(t, Reader::join_path("air_handler", key), fmt::format("e.g. {} = \"{}\"", key, example));
+    r.missing(t, Reader::join_path("air_handler", key),
+              fmt::format("e.g. {} = \"{}\"", key, example));
   return *v;
 }
 
@@ -351,14 +350,14 @@ void read_return_air(const Reader& r, const toml::table& t, double pressure_kpa,
     if (n == nullptr) continue;
     if (given)
       r.fail(n->source(), Reader::join_path(P, h.key),
-             fmt::format("give one return-air humidity, not both {} (line {}) and {}",
-                         given->key, line_of(t.get(given->key)->source()), h.key));
+             fmt::format("give one return-air humidity, not both {} (line {}) and {}", given->key,
+                         line_of(t.get(given->key)->source()), h.key));
     given = &h;
     u.return_air.humidity_kind = h.input;
     const Kind kind = humidity_input_kind(h.input);
     u.return_air.humidity_value = *r.quantity(t, h.key, P, kind);
-    if (kind == Kind::fraction && !(u.return_air.humidity_value >= 0.0 &&
-                                    u.return_air.humidity_value <= 1.0))
+    if (kind == Kind::fraction &&
+        !(u.return_air.humidity_value >= 0.0 && u.return_air.humidity_value <= 1.0))
       r.check_range(t, h.key, P, Kind::fraction, u.return_air.humidity_value, 0.0, 1.0,
                     "0% to 100%");
   }
@@ -374,8 +373,8 @@ void read_return_air(const Reader& r, const toml::table& t, double pressure_kpa,
                        r.show(Kind::temperature, u.return_air.dry_bulb_c),
                        line_of(t.get("return_air_temp")->source())));
   // The return state must exist at the site pressure (properties() throws when it does not).
-  (void)u.return_air.properties(pressure_kpa,
-                                r.origin(t.get(given->key)->source(), Reader::join_path(P, given->key)));
+  (void)u.return_air.properties(
+      pressure_kpa, r.origin(t.get(given->key)->source(), Reader::join_path(P, given->key)));
 }
 
 void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa, UnitFile& u) {
@@ -437,18 +436,16 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
   }
   if (auto m = r.quantity(t, "max_outdoor_air", P, Kind::fraction)) {
     if (!(*m > 0.0 && *m <= 1.0))
-      r.check_range(t, "max_outdoor_air", P, Kind::fraction, *m, 0.0, 1.0,
-                    "above 0%, up to 100%");
+      r.check_range(t, "max_outdoor_air", P, Kind::fraction, *m, 0.0, 1.0, "above 0%, up to 100%");
     a.max_oa_fraction = *m;
   }
   if (a.min_oa_fraction > a.max_oa_fraction) {
     const toml::node* max_node = t.get("max_outdoor_air");
     r.fail(t.get(min_key)->source(), Reader::join_path(P, min_key),
-           fmt::format("the minimum {} is above max_outdoor_air {}{}",
-                       r.show(Kind::fraction, a.min_oa_fraction),
-                       r.show(Kind::fraction, a.max_oa_fraction),
-                       max_node ? fmt::format(" (line {})", line_of(max_node->source()))
-                                : std::string()));
+           fmt::format(
+               "the minimum {} is above max_outdoor_air {}{}",
+               r.show(Kind::fraction, a.min_oa_fraction), r.show(Kind::fraction, a.max_oa_fraction),
+               max_node ? fmt::format(" (line {})", line_of(max_node->source())) : std::string()));
   }
   if (auto rh = r.quantity(t, "coil_leaving_rh_max", P, Kind::fraction)) {
     if (!(*rh > 0.0 && *rh <= 1.0))
@@ -479,8 +476,9 @@ airside::EnergyWeights read_energy(const Reader& r, const toml::table* t) {
     }
   }
   if (w.cooling == 0.0 && w.heating == 0.0)
-    r.fail(t->source(), "energy", "cooling_weight and heating_weight are both 0: nothing would "
-                                  "cost energy");
+    r.fail(t->source(), "energy",
+           "cooling_weight and heating_weight are both 0: nothing would "
+           "cost energy");
   return w;
 }
 
@@ -515,8 +513,8 @@ double read_setting(const Reader& r, const toml::table& t, std::string_view key,
 
 std::string quantity_list() {
   std::string out;
-  for (Quantity q : {Quantity::dry_bulb, Quantity::enthalpy, Quantity::dew_point,
-                     Quantity::humidity_ratio})
+  for (Quantity q :
+       {Quantity::dry_bulb, Quantity::enthalpy, Quantity::dew_point, Quantity::humidity_ratio})
     out += (out.empty() ? "" : ", ") + std::string(highlimit::quantity_name(q));
   return out;
 }
@@ -526,8 +524,7 @@ highlimit::Condition read_condition(const Reader& r, const toml::table& c,
   r.check_keys(c, path, kConditionKeys, "a condition");
   const auto qname = r.text(c, "quantity", path);
   if (!qname)
-    r.missing(c, Reader::join_path(path, "quantity"),
-              fmt::format("one of {}", quantity_list()));
+    r.missing(c, Reader::join_path(path, "quantity"), fmt::format("one of {}", quantity_list()));
   const auto q = highlimit::quantity_from_name(text::normalise_name(*qname));
   if (!q)
     r.fail(c.get("quantity")->source(), Reader::join_path(path, "quantity"),
@@ -623,8 +620,7 @@ highlimit::Strategy read_preset_strategy(const Reader& r, const toml::table& t,
         r.fail(both->source(), Reader::join_path(path, dk.key),
                fmt::format("give deadband or {}, not both (deadband is on line {})", dk.key,
                            line_of(n->source())));
-      settings.*dk.member =
-          read_setting(r, t, kSingleDeadbandKey, path, q, Reference::fixed, true);
+      settings.*dk.member = read_setting(r, t, kSingleDeadbandKey, path, q, Reference::fixed, true);
     }
   }
   return highlimit::make_preset(preset, settings, std::move(name));
@@ -725,8 +721,8 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
   try {
     root = toml::parse(text, std::string(name));
   } catch (const toml::parse_error& e) {
-    throw InputError(fmt::format("{}:{}: TOML syntax error: {}", name, e.source().begin.line,
-                                 e.description()));
+    throw InputError(
+        fmt::format("{}:{}: TOML syntax error: {}", name, e.source().begin.line, e.description()));
   }
   Reader r{std::string(name)};
   r.check_keys(root, "", kTopKeys, "the unit file");
@@ -740,9 +736,10 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
 
   const toml::table* ah = r.table(root, "air_handler", "");
   if (ah == nullptr)
-    throw InputError(fmt::format("{}: [air_handler] is missing; it is required (see "
-                                 "the README section 'The unit file')",
-                                 name));
+    throw InputError(
+        fmt::format("{}: [air_handler] is missing; it is required (see "
+                    "the README section 'The unit file')",
+                    name));
   read_air_handler(r, *ah, u.site.design_pressure_kpa(), u);
   u.weights = read_energy(r, r.table(root, "energy", ""));
   u.strategies = read_strategies(r, root);
@@ -750,7 +747,8 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
   u.warnings = std::move(r.warnings);
   for (auto [key, slot] : {std::pair{"weather", &u.weather}, std::pair{"schedule", &u.schedule},
                            std::pair{"sensors", &u.sensors}})
-    if (r.table(root, key, "")) *slot = detail::make_raw_table(std::move(*root.get(key)->as_table()));
+    if (r.table(root, key, ""))
+      *slot = detail::make_raw_table(std::move(*root.get(key)->as_table()));
   return u;
 }
 

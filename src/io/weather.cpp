@@ -317,14 +317,15 @@ void check_overrides(const Context& cx, const Header& h) {
   for (const QuantityInfo& q : kQuantities) {
     const ColumnOverride& o = cx.mapping.column(q.quantity);
     if (o.column && h.match[q.quantity] < 0)
-      throw InputError(fmt::format("{}: column {} given for {} is not in the header of {} (line {}: {})",
-                                   origin_or_mapping(o), echo(*o.column), q.label, cx.source,
-                                   h.line, quoted_list(h.texts())));
+      throw InputError(
+          fmt::format("{}: column {} given for {} is not in the header of {} (line {}: {})",
+                      origin_or_mapping(o), echo(*o.column), q.label, cx.source, h.line,
+                      quoted_list(h.texts())));
     if (o.unit && !q.has_unit)
-      throw InputError(fmt::format(
-          "{}: unit {} given for the {} column; allowed: no unit (a "
-          "time column has none)",
-          origin_or_mapping(o), echo(*o.unit), q.label));
+      throw InputError(
+          fmt::format("{}: unit {} given for the {} column; allowed: no unit (a "
+                      "time column has none)",
+                      origin_or_mapping(o), echo(*o.unit), q.label));
   }
 }
 
@@ -448,8 +449,7 @@ class StampReader {
  public:
   StampReader(const TimeColumns& time, bool day_first) : time_(time), day_first_(day_first) {}
 
-  StampFault read(const std::vector<std::string_view>& f, Stamp& st, Zone& zone,
-                  StampForm& form) {
+  StampFault read(const std::vector<std::string_view>& f, Stamp& st, Zone& zone, StampForm& form) {
     const auto field = [&](int c) {
       return c < static_cast<int>(f.size()) ? f[static_cast<std::size_t>(c)] : std::string_view();
     };
@@ -763,11 +763,10 @@ void check_one_year(const Context& cx, const std::vector<Row>& rows, int step) {
     };
     const long days = static_cast<long>(days_of(hi->stamp) - days_of(lo->stamp) + 1);
     const double years = days / 365.2425;
-    const std::string span =
-        std::fabs(years - std::round(years)) < 0.05 && std::round(years) >= 2
-            ? fmt::format("{:.0f} years", std::round(years))
-        : years < 1.5 ? fmt::format("more than one year ({} days)", days)
-                      : fmt::format("{:.1f} years", years);
+    const std::string span = std::fabs(years - std::round(years)) < 0.05 && std::round(years) >= 2
+                                 ? fmt::format("{:.0f} years", std::round(years))
+                             : years < 1.5 ? fmt::format("more than one year ({} days)", days)
+                                           : fmt::format("{:.1f} years", years);
     const auto date_text = [](const Stamp& st) {
       return fmt::format("{:04}-{:02}-{:02}", st.year, st.month, st.day);
     };
@@ -826,8 +825,8 @@ std::vector<Legend> legends(const std::vector<ts::Line>& lines, std::size_t head
       if (colon == std::string_view::npos || open == std::string_view::npos ||
           close == std::string_view::npos || close < open || open < colon)
         continue;
-      out.push_back({text::trim(l.substr(0, colon)), text::trim(l.substr(open + 1, close - open - 1)),
-                     lines[i].number});
+      out.push_back({text::trim(l.substr(0, colon)),
+                     text::trim(l.substr(open + 1, close - open - 1)), lines[i].number});
     }
   };
   scan(0, header_index);
@@ -838,11 +837,11 @@ std::vector<Legend> legends(const std::vector<ts::Line>& lines, std::size_t head
 [[noreturn]] void unknown_unit(const Context& cx, const ColumnUse& u, std::string_view unit,
                                std::string_view from) {
   const Kind kind = info(u.quantity).kind;
-  throw InputError(fmt::format(
-      "{}: column {} has unit {} ({}), which is not a {} unit (allowed: {}); set it in "
-      "[weather], e.g. {} = {{ unit = \"{}\" }}",
-      cx.source, echo(u.header), echo(unit), from, kind_word(kind), ts::allowed_units(kind),
-      info(u.quantity).key, ts::first_unit(kind)));
+  throw InputError(
+      fmt::format("{}: column {} has unit {} ({}), which is not a {} unit (allowed: {}); set it in "
+                  "[weather], e.g. {} = {{ unit = \"{}\" }}",
+                  cx.source, echo(u.header), echo(unit), from, kind_word(kind),
+                  ts::allowed_units(kind), info(u.quantity).key, ts::first_unit(kind)));
 }
 
 // The unit of a column without one in its header or the mapping: the only candidate that
@@ -969,8 +968,8 @@ double resolution_of(const std::vector<Row>& rows, std::size_t slot) {
 
 std::string_view step_word(double step) {
   constexpr std::pair<double, std::string_view> kWords[] = {
-      {1.0, "whole"}, {0.5, "half"}, {0.1, "tenth"}, {0.05, "twentieth"}, {0.01, "hundredth"},
-      {0.001, "thousandth"}};
+      {1.0, "whole"},      {0.5, "half"},       {0.1, "tenth"},
+      {0.05, "twentieth"}, {0.01, "hundredth"}, {0.001, "thousandth"}};
   for (const auto& [s, w] : kWords)
     if (s == step) return w;
   return "fine";
@@ -1003,8 +1002,8 @@ void find_resolution(const std::vector<Row>& rows, const Layout& layout,
     coarsest = hum->resolution;
   }
   if (coarsest > 0.0 && hk != Kind::humidity_ratio)
-    inf.rounding_words = fmt::format("{}-{}", step_word(coarsest),
-                                     hk == Kind::temperature ? "degree" : "percent");
+    inf.rounding_words =
+        fmt::format("{}-{}", step_word(coarsest), hk == Kind::temperature ? "degree" : "percent");
 }
 
 // --- Stage 4c: labels judged by the columns' statistics ------------------------------------
@@ -1089,9 +1088,10 @@ std::string implausible(const LabelInputs& in, std::size_t slot, const Stats& st
   // cannot stay below their floors through a whole year anywhere an economizer runs.
   if ((q == Quantity::dry_bulb || q == Quantity::relative_humidity) && whole_year(in.rows) &&
       st.max < pl.max_lo) {
-    why.push_back(fmt::format("its highest value of a whole year is {}, below the {} every "
-                              "year reaches",
-                              si_text(kind, st.max), si_text(kind, pl.max_lo)));
+    why.push_back(
+        fmt::format("its highest value of a whole year is {}, below the {} every "
+                    "year reaches",
+                    si_text(kind, st.max), si_text(kind, pl.max_lo)));
     statistical = true;
   }
   std::string out;
@@ -1181,8 +1181,7 @@ struct LabelFindings {
 
 // Judges one group of columns: when the units as read are implausible, the plausible
 // combination that changes fewest units (then leaves fewest impossible rows) is the fix.
-void check_group(const LabelInputs& in, const std::vector<std::size_t>& group,
-                 LabelFindings& out) {
+void check_group(const LabelInputs& in, const std::vector<std::size_t>& group, LabelFindings& out) {
   const std::vector<std::vector<Choice>> combos = combinations(in, group);
   const Judgement as_read = judge(in, combos[0]);
   if (as_read.plausible()) return;
@@ -1193,7 +1192,8 @@ void check_group(const LabelInputs& in, const std::vector<std::size_t>& group,
     if (!j.plausible()) continue;
     const int changes = static_cast<int>(std::count_if(
         combos[k].begin(), combos[k].end(), [](const Choice& c) { return c.unit != nullptr; }));
-    if (!best || changes < best_changes || (changes == best_changes && j.impossible < best_impossible))
+    if (!best || changes < best_changes ||
+        (changes == best_changes && j.impossible < best_impossible))
       best = &combos[k], best_changes = changes, best_impossible = j.impossible;
   }
   if (!best && !as_read.statistical) return;  // a share of bad rows, but no unit explains it
@@ -1215,9 +1215,10 @@ void check_group(const LabelInputs& in, const std::vector<std::size_t>& group,
       out.mapping_fix.push_back(fmt::format("{} = {{ unit = \"{}\" }}", key, h.help));
       out.cli_fix.push_back("--column " + echo(fmt::format("{}={}:{}", key, u->header, h.help)));
     } else if (!best) {
-      text += fmt::format("; no unit reads it plausibly: check that it is the {} (name the "
-                          "right column in [weather], e.g. {} = {{ column = \"...\" }})",
-                          info(q).label, info(q).key);
+      text += fmt::format(
+          "; no unit reads it plausibly: check that it is the {} (name the "
+          "right column in [weather], e.g. {} = {{ column = \"...\" }})",
+          info(q).label, info(q).key);
     }
     out.found.push_back(std::move(text));
   }
@@ -1288,9 +1289,7 @@ class Resolver {
 bool Resolver::value(const Row& r, std::size_t slot, double& v, std::string& why) const {
   const Conversion& c = conv_[slot];
   switch (r.cell[slot]) {
-    case Cell::ok:
-      v = r.raw[slot] * c.scale + c.offset;
-      return true;
+    case Cell::ok: v = r.raw[slot] * c.scale + c.offset; return true;
     case Cell::sentinel: {
       // 99999 Pa is a real pressure: a marker value that is plausible is a value.
       v = r.raw[slot] * c.scale + c.offset;
@@ -1299,12 +1298,8 @@ bool Resolver::value(const Row& r, std::size_t slot, double& v, std::string& why
       why = "is a missing-value marker; allowed: a measured value";
       return false;
     }
-    case Cell::empty:
-      why = "is empty (missing); allowed: a measured value";
-      return false;
-    case Cell::marker:
-      why = "is a missing-value marker; allowed: a measured value";
-      return false;
+    case Cell::empty: why = "is empty (missing); allowed: a measured value"; return false;
+    case Cell::marker: why = "is a missing-value marker; allowed: a measured value"; return false;
     case Cell::not_number:
       why = fmt::format("is not a number; allowed: a number in {}", c.label);
       return false;
@@ -1319,9 +1314,10 @@ std::string Resolver::saturation_words(double tolerance, double fixed, std::stri
   if (tolerance <= fixed + 1e-12 || words.empty())
     return fmt::format("up to {:.{}f} {} above is read as saturation", tolerance * shown_scale,
                        unit == "K" ? 2 : 0, unit);
-  return fmt::format("up to {:.2f} {} above is read as saturation: {:.2f} {} plus the {} "
-                     "rounding of the values",
-                     tolerance * shown_scale, unit, fixed * shown_scale, unit, words);
+  return fmt::format(
+      "up to {:.2f} {} above is read as saturation: {:.2f} {} plus the {} "
+      "rounding of the values",
+      tolerance * shown_scale, unit, fixed * shown_scale, unit, words);
 }
 
 // The humidity ratio of `s` from the humidity reading `h` (SI) of the file's source.
@@ -1362,7 +1358,7 @@ bool Resolver::humidity(double h, State& s, Saturation& sat, std::string& why) c
       }
       if (h > 1.0) {
         sat = h > 1.0 + kRelativeHumidityTolerance + 1e-9 ? Saturation::rounding
-                                                           : Saturation::tolerance;
+                                                          : Saturation::tolerance;
         h = 1.0;
       }
       s.w = psychro::humidity_ratio_from_relative_humidity(s.t, h, s.p);
@@ -1419,11 +1415,11 @@ bool Resolver::resolve(const Row& r, State& s, Saturation& sat, std::size_t& bad
   // Perfectly dry air (RH 0 %, humidity ratio 0) is a failed sensor or a missing reading,
   // and has no dew point for the model to work with.
   if (!(psychro::vapor_pressure_from_humidity_ratio(s.w, s.p) >= min_vapor_pressure_kpa_)) {
-    const std::string reading =
-        inf_.humidity == HumiditySource::relative_humidity
-            ? fmt::format("{:.4g} % relative humidity", h * 100.0)
-        : inf_.humidity == HumiditySource::humidity_ratio ? fmt::format("{:.5g} kg/kg", h)
-                                                          : fmt::format("{:.4g} °C", h);
+    const std::string reading = inf_.humidity == HumiditySource::relative_humidity
+                                    ? fmt::format("{:.4g} % relative humidity", h * 100.0)
+                                : inf_.humidity == HumiditySource::humidity_ratio
+                                    ? fmt::format("{:.5g} kg/kg", h)
+                                    : fmt::format("{:.4g} °C", h);
     why = fmt::format(
         "is {}, air drier than the psychrometric model reaches (a dew point below -100 °C); "
         "allowed: a humidity above 0 (0 is a failed sensor or a missing reading)",
@@ -1448,8 +1444,7 @@ void check_bad_share(const Context& cx, int rows, int bad_count, int first_line,
       "allowed: at most {:g} % ({}); the first is line {}: {}; if these rows are truly "
       "missing readings, allow their share with max_bad_share = \"{:g}%\" in [weather] or "
       "--max-bad-share {:g}%",
-      cx.source, bad_count, rows, pct, skip ? "skipped" : "filled by interpolation",
-      share * 100.0,
+      cx.source, bad_count, rows, pct, skip ? "skipped" : "filled by interpolation", share * 100.0,
       mapping.max_bad_share ? "max_bad_share, set by " + mapping.max_bad_share_origin
                             : std::string("the default; max_bad_share raises it"),
       first_line, first, needed, needed));
@@ -1479,9 +1474,8 @@ int fill(const std::vector<Row>& rows, std::vector<State>& states,
       } else {
         const State& a = states[i - 1];
         const State& b = states[j];
-        const double f =
-            (rows[k].at.position - rows[i - 1].at.position) /
-            (rows[j].at.position - rows[i - 1].at.position);
+        const double f = (rows[k].at.position - rows[i - 1].at.position) /
+                         (rows[j].at.position - rows[i - 1].at.position);
         State s{a.t + f * (b.t - a.t), a.w + f * (b.w - a.w), a.p + f * (b.p - a.p)};
         // Saturation is convex in t, so the chord between two states can pass above it.
         s.w = std::min(s.w, psychro::saturation_humidity_ratio(s.t, s.p));
@@ -1496,8 +1490,8 @@ int fill(const std::vector<Row>& rows, std::vector<State>& states,
 // The series: every row resolved to a state (bad rows refused, skipped or filled by the
 // policy), counted by month, with its day of the year.
 std::vector<WeatherHour> convert(const Context& cx, const std::vector<Row>& rows,
-                                 const Layout& layout,
-                                 const std::array<Conversion, 3>& conv, WeatherInfo& inf) {
+                                 const Layout& layout, const std::array<Conversion, 3>& conv,
+                                 WeatherInfo& inf) {
   const Resolver resolver(cx, layout, conv, inf);
   const BadRowPolicy policy = cx.mapping.on_bad_row;
   const std::size_t n = rows.size();
@@ -1518,8 +1512,8 @@ std::vector<WeatherHour> convert(const Context& cx, const std::vector<Row>& rows
       if (sat == Saturation::rounding) ++mc.rounded;
       continue;
     }
-    const std::string text = fmt::format(
-        "column {} value {} {}", echo(layout.slot_header[slot]), echo(r.text[slot]), why);
+    const std::string text = fmt::format("column {} value {} {}", echo(layout.slot_header[slot]),
+                                         echo(r.text[slot]), why);
     if (policy == BadRowPolicy::error)
       fail_at(cx.source, r.line, text + " (or set on_bad_row to skip or fill)");
     if (bad_count++ == 0) first_bad = text, first_bad_line = r.line;
@@ -1540,7 +1534,8 @@ std::vector<WeatherHour> convert(const Context& cx, const std::vector<Row>& rows
   const std::chrono::year calendar_year{inf.time.leap_day_rows > 0 ? 2000 : 2001};
   int cumulative[13] = {0};
   for (unsigned m = 1; m <= 12; ++m)
-    cumulative[m] = cumulative[m - 1] + calendar::days_in_month(calendar_year, std::chrono::month{m});
+    cumulative[m] =
+        cumulative[m - 1] + calendar::days_in_month(calendar_year, std::chrono::month{m});
   std::vector<WeatherHour> hours;
   hours.reserve(n);
   for (std::size_t i = 0; i < n; ++i) {
@@ -1682,8 +1677,8 @@ TimeConvention parse_time_convention(std::string_view text, std::string_view ori
 double parse_max_bad_share(std::string_view text, std::string_view origin) {
   const double share = units::parse(Kind::fraction, text, units::System::si, origin);
   if (!(share >= 0.0 && share <= 1.0))
-    throw InputError(fmt::format("{}: {} is not a share of rows; allowed: 0 % to 100 %", origin,
-                                 echo(text)));
+    throw InputError(
+        fmt::format("{}: {} is not a share of rows; allowed: 0 % to 100 %", origin, echo(text)));
   return share;
 }
 
@@ -1798,23 +1793,16 @@ std::string found_text(const ColumnUse& c) {
           : std::string("found by header");
   std::string unit;
   switch (c.unit_found) {
-    case UnitFound::none:
-      break;
+    case UnitFound::none: break;
     case UnitFound::header:
       unit = c.found == ColumnFound::header_name ? "" : "unit from header";
       break;
-    case UnitFound::legend:
-      unit = "unit from legend " + c.unit_origin;
-      break;
+    case UnitFound::legend: unit = "unit from legend " + c.unit_origin; break;
     case UnitFound::override:
       unit = "unit set by " + (c.unit_origin.empty() ? std::string("the mapping") : c.unit_origin);
       break;
-    case UnitFound::inferred:
-      unit = "unit inferred: " + c.unit_origin;
-      break;
-    case UnitFound::same_as_dry_bulb:
-      unit = "no unit in the header: same as the dry-bulb";
-      break;
+    case UnitFound::inferred: unit = "unit inferred: " + c.unit_origin; break;
+    case UnitFound::same_as_dry_bulb: unit = "no unit in the header: same as the dry-bulb"; break;
   }
   std::string out = column;
   if (!unit.empty()) out += "; " + unit;
@@ -1871,9 +1859,9 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
       case Quantity::humidity_ratio:
       case Quantity::wet_bulb:
       case Quantity::relative_humidity: {
-        std::string line = fmt::format("humidity: {}, column {}, {} ({}{})",
-                                       quantity_label(c.quantity), echo(c.header), c.unit, found_text(c),
-                                       inf.humidity_overridden ? "; chosen by the mapping" : "");
+        std::string line = fmt::format(
+            "humidity: {}, column {}, {} ({}{})", quantity_label(c.quantity), echo(c.header),
+            c.unit, found_text(c), inf.humidity_overridden ? "; chosen by the mapping" : "");
         if (!inf.unused_humidity.empty()) {
           line += "; not used:";
           for (std::size_t i = 0; i < inf.unused_humidity.size(); ++i)
@@ -1882,8 +1870,7 @@ std::vector<std::string> describe(const WeatherInfo& inf) {
         lines.push_back(line);
         break;
       }
-      default:
-        break;
+      default: break;
     }
   }
   if (!inf.pressure_from_file)

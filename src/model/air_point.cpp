@@ -46,9 +46,9 @@ const InputInfo& input_info(HumidityInput input) {
 // Prefix of each humidity form, lower case; longer prefixes first so "wb" is not read as "w"
 // followed by "b...". The empty prefix is a relative humidity written without one.
 constexpr std::pair<std::string_view, HumidityInput> kForms[] = {
-    {"dp", HumidityInput::dew_point},     {"wb", HumidityInput::wet_bulb},
+    {"dp", HumidityInput::dew_point},         {"wb", HumidityInput::wet_bulb},
     {"rh", HumidityInput::relative_humidity}, {"w", HumidityInput::humidity_ratio},
-    {"h", HumidityInput::enthalpy},       {"", HumidityInput::relative_humidity},
+    {"h", HumidityInput::enthalpy},           {"", HumidityInput::relative_humidity},
 };
 
 // How the parts of a point are read: plainly, or each weighed against its band.
@@ -61,10 +61,7 @@ struct PartReader {
                     const std::string& origin) const {
     const plausible::Band* b = warnings ? plausible::find(band) : nullptr;
     if (b == nullptr) return units::parse(kind, text, bare, origin);
-    return plausible::parse(
-        *b, text, bare,
-        {origin, plausible::on_command_line(bare)},
-        *warnings);
+    return plausible::parse(*b, text, bare, {origin, plausible::on_command_line(bare)}, *warnings);
   }
 };
 
@@ -72,9 +69,10 @@ AirPoint parse_point(std::string_view text, std::string_view origin, const PartR
   const std::string_view t = text::trim(text);
   const std::size_t slash = t.find('/');
   if (slash == std::string_view::npos)
-    throw InputError(fmt::format("{}: {} needs a dry-bulb and a humidity separated by '/' "
-                                 "(allowed: {})",
-                                 origin, echo(text), kAirPointForms));
+    throw InputError(
+        fmt::format("{}: {} needs a dry-bulb and a humidity separated by '/' "
+                    "(allowed: {})",
+                    origin, echo(text), kAirPointForms));
   const bool ret = read.role == AirRole::return_air;
   AirPoint p;
   p.system = read.bare;
@@ -82,8 +80,8 @@ AirPoint parse_point(std::string_view text, std::string_view origin, const PartR
                       fmt::format("{} dry-bulb", origin));
   const std::string_view humidity = text::trim(t.substr(slash + 1));
   if (humidity.empty())
-    throw InputError(fmt::format("{}: {} has nothing after '/' (allowed: {})", origin,
-                                 echo(text), kAirPointForms));
+    throw InputError(fmt::format("{}: {} has nothing after '/' (allowed: {})", origin, echo(text),
+                                 kAirPointForms));
   for (const auto& [prefix, input] : kForms) {
     if (!text::istarts_with(humidity, prefix)) continue;
     // A prefix only counts when a number follows it ("hot" is not an enthalpy).
@@ -150,16 +148,17 @@ psychro::MoistAir AirPoint::state(double pressure_kpa, std::string_view origin) 
     case HumidityInput::enthalpy:
       // Dry air at the dry-bulb has the least enthalpy a state can have (eq. 32 with W = 0).
       if (v < 1.006 * dry_bulb_c)
-        fail(fmt::format("enthalpy {} is below that of dry air at {} ({})",
-                         show(Kind::enthalpy, v), show(Kind::temperature, dry_bulb_c),
+        fail(fmt::format("enthalpy {} is below that of dry air at {} ({})", show(Kind::enthalpy, v),
+                         show(Kind::temperature, dry_bulb_c),
                          show(Kind::enthalpy, 1.006 * dry_bulb_c)));
       break;
   }
   try {
     if (psychro::saturation_pressure_kpa(dry_bulb_c) >= pressure_kpa)
-      fail(fmt::format("dry-bulb {} is at or above the boiling point at {}; moist air cannot be "
-                       "saturated there",
-                       show(Kind::temperature, dry_bulb_c), show(Kind::pressure, pressure_kpa)));
+      fail(
+          fmt::format("dry-bulb {} is at or above the boiling point at {}; moist air cannot be "
+                      "saturated there",
+                      show(Kind::temperature, dry_bulb_c), show(Kind::pressure, pressure_kpa)));
     // Beyond saturation: a humidity ratio or an enthalpy too high for the dry-bulb.
     if (humidity_kind == HumidityInput::humidity_ratio ||
         humidity_kind == HumidityInput::enthalpy) {
@@ -176,10 +175,11 @@ psychro::MoistAir AirPoint::state(double pressure_kpa, std::string_view origin) 
     return psychro::state_from(dry_bulb_c, humidity_kind, humidity_value, pressure_kpa);
   } catch (const RangeError& e) {
     if (humidity_kind == HumidityInput::wet_bulb)
-      fail(fmt::format("wet-bulb {} is too low for dry-bulb {} at {}: the air would need "
-                       "negative humidity",
-                       show(Kind::temperature, v), show(Kind::temperature, dry_bulb_c),
-                       show(Kind::pressure, pressure_kpa)));
+      fail(
+          fmt::format("wet-bulb {} is too low for dry-bulb {} at {}: the air would need "
+                      "negative humidity",
+                      show(Kind::temperature, v), show(Kind::temperature, dry_bulb_c),
+                      show(Kind::pressure, pressure_kpa)));
     fail(e.what());
   }
   return {};
@@ -205,8 +205,7 @@ highlimit::AirValues AirPoint::values(double pressure_kpa) const {
 }
 
 highlimit::AirValues air_values(const psychro::Properties& p) {
-  return highlimit::air_values(p.dry_bulb_c, p.enthalpy_kj_per_kg, p.dew_point_c,
-                               p.humidity_ratio);
+  return highlimit::air_values(p.dry_bulb_c, p.enthalpy_kj_per_kg, p.dew_point_c, p.humidity_ratio);
 }
 
 }  // namespace limitline

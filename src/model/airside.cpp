@@ -55,16 +55,19 @@ void validate(const AirHandler& u) {
   auto fail = [](const char* field, double v, const char* allowed) {
     throw InputError(fmt::format("air handler {} = {:.6g} is not allowed ({})", field, v, allowed));
   };
-  if (!(u.supply_airflow_m3_per_s > 0.0)) fail("supply_airflow (m³/s)", u.supply_airflow_m3_per_s, "more than 0");
+  if (!(u.supply_airflow_m3_per_s > 0.0))
+    fail("supply_airflow (m³/s)", u.supply_airflow_m3_per_s, "more than 0");
   if (!(u.min_oa_fraction >= 0.0 && u.min_oa_fraction <= 1.0))
     fail("min_outdoor_air (fraction)", u.min_oa_fraction, "0 % to 100 %");
   if (!(u.max_oa_fraction > 0.0 && u.max_oa_fraction <= 1.0))
     fail("max_outdoor_air (fraction)", u.max_oa_fraction, "above 0 %, up to 100 %");
   if (u.min_oa_fraction > u.max_oa_fraction)
-    throw InputError(fmt::format("air handler min_outdoor_air {:.4g}% is above max_outdoor_air "
-                                 "{:.4g}%",
-                                 u.min_oa_fraction * 100, u.max_oa_fraction * 100));
-  if (!(u.fan_heat_k >= 0.0 && u.fan_heat_k <= 20.0)) fail("fan_heat (K)", u.fan_heat_k, "0 K to 20 K");
+    throw InputError(
+        fmt::format("air handler min_outdoor_air {:.4g}% is above max_outdoor_air "
+                    "{:.4g}%",
+                    u.min_oa_fraction * 100, u.max_oa_fraction * 100));
+  if (!(u.fan_heat_k >= 0.0 && u.fan_heat_k <= 20.0))
+    fail("fan_heat (K)", u.fan_heat_k, "0 K to 20 K");
   if (!(u.coil_leaving_rh_max > 0.0 && u.coil_leaving_rh_max <= 1.0))
     fail("coil_leaving_rh_max (fraction)", u.coil_leaving_rh_max, "above 0 %, up to 100 %");
   if (!(u.supply_air_temp_c >= -40.0 && u.supply_air_temp_c <= 60.0))
@@ -79,13 +82,12 @@ AirState mix(const AirState& o, const AirState& r, double x) {
   return {psychro::dry_bulb_from_enthalpy_c(h, w), w, h};
 }
 
-bool oa_fraction_for_mixed_temp(const AirState& o, const AirState& r, double target_c,
-                                double& x) {
+bool oa_fraction_for_mixed_temp(const AirState& o, const AirState& r, double target_c, double& x) {
   // t_m = target  ⇔  h_m − W_m·(2501 + 1.86·target) − 1.006·target = 0, linear in x.
   const double k = 2501.0 + 1.86 * target_c;
   const double a = r.enthalpy_kj_per_kg - r.humidity_ratio * k - 1.006 * target_c;
-  const double b = (o.enthalpy_kj_per_kg - r.enthalpy_kj_per_kg) -
-                   (o.humidity_ratio - r.humidity_ratio) * k;
+  const double b =
+      (o.enthalpy_kj_per_kg - r.enthalpy_kj_per_kg) - (o.humidity_ratio - r.humidity_ratio) * k;
   if (std::fabs(b) < 1e-12) return false;
   x = -a / b;
   return std::isfinite(x);
@@ -98,8 +100,7 @@ MixedAirEstimate estimate_mixed_air(const AirState& o, const AirState& r, double
   if (!e.target_reachable) e.fraction_needed = x_min;
   e.within_limits = e.target_reachable && e.fraction_needed >= x_min - kFractionTolerance &&
                     e.fraction_needed <= x_max + kFractionTolerance;
-  e.fraction_applied =
-      e.target_reachable ? std::clamp(e.fraction_needed, x_min, x_max) : x_min;
+  e.fraction_applied = e.target_reachable ? std::clamp(e.fraction_needed, x_min, x_max) : x_min;
   e.mixed = mix(o, r, e.fraction_applied);
   const double diff = e.mixed.dry_bulb_c - target_c;
   e.makeup = diff < -1e-6 ? Makeup::heating : diff > 1e-6 ? Makeup::cooling : Makeup::none;
@@ -158,10 +159,10 @@ Operation operate(const AirHandler& unit, const HourAir& air, bool enabled,
       x = std::clamp(x, unit.min_oa_fraction, unit.max_oa_fraction);
     return operation_at(unit, air, x, w);
   }
-  return operation_at(unit, air,
-                      unit.economizer == EconomizerType::integrated ? unit.max_oa_fraction
-                                                                    : unit.min_oa_fraction,
-                      w);
+  return operation_at(
+      unit, air,
+      unit.economizer == EconomizerType::integrated ? unit.max_oa_fraction : unit.min_oa_fraction,
+      w);
 }
 
 HourChoice choose(const AirHandler& unit, const HourAir& air, const EnergyWeights& w) {

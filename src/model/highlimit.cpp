@@ -37,7 +37,11 @@ constexpr Named<Reference> kReferenceNames[] = {
 
 // Which setting of PresetSettings feeds a preset condition.
 enum class Setting : std::uint8_t {
-  dry_bulb_limit, enthalpy_limit, dew_point_limit, dry_bulb_offset, enthalpy_offset
+  dry_bulb_limit,
+  enthalpy_limit,
+  dew_point_limit,
+  dry_bulb_offset,
+  enthalpy_offset
 };
 
 struct PresetCondition {
@@ -185,7 +189,8 @@ Strategy make_preset(std::string_view preset, const PresetSettings& settings, st
     return s;
   }
   std::string allowed;
-  for (const auto& p : kPresets) allowed += (allowed.empty() ? "" : ", ") + std::string(p.info.name);
+  for (const auto& p : kPresets)
+    allowed += (allowed.empty() ? "" : ", ") + std::string(p.info.name);
   throw InputError(fmt::format("preset '{}' is not known (allowed: {})", preset, allowed));
 }
 
@@ -222,9 +227,8 @@ bool permits(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
   // Every condition is evaluated (not short-circuited) so each one's deadband state stays true.
   for (std::size_t i = 0; i < s.conditions.size(); ++i) {
     const Condition& c = s.conditions[i];
-    const bool off =
-        evaluate(outdoor[c.quantity], c.effective_limit(ret), c.deadband, state.tripped[i] != 0) !=
-        ConditionStatus::clear;
+    const bool off = evaluate(outdoor[c.quantity], c.effective_limit(ret), c.deadband,
+                              state.tripped[i] != 0) != ConditionStatus::clear;
     state.tripped[i] = off;
     enabled = enabled && !off;
   }

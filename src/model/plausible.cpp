@@ -60,8 +60,7 @@ constexpr Band kBands[] = {
      "a humidity-ratio offset from the return air"},
     {"strategy.dry_bulb_deadband", Kind::temperature_difference, 0.0, 5.0, "a dry-bulb deadband"},
     {"strategy.enthalpy_deadband", Kind::enthalpy_difference, 0.0, 10.0, "an enthalpy deadband"},
-    {"strategy.dew_point_deadband", Kind::temperature_difference, 0.0, 5.0,
-     "a dew-point deadband"},
+    {"strategy.dew_point_deadband", Kind::temperature_difference, 0.0, 5.0, "a dew-point deadband"},
     {"strategy.humidity_ratio_deadband", Kind::humidity_ratio, 0.0, 0.005,
      "a humidity-ratio deadband"},
     {"sensors.outdoor_dry_bulb", Kind::temperature_difference, 0.0, 3.0,
@@ -104,15 +103,16 @@ double parse(const Band& band, std::string_view text, units::System bare, const 
   const double v = units::parse(band.kind, text, bare, source.origin);
   if (inside(band, v)) return v;
   // A band is a rule of thumb: its ends are shown to three digits in the file's system.
-  const std::string range = fmt::format(
-      "outside the plausible range of {} ({} to {}, common practice)", band.what,
-      units::format_brief(band.kind, bare, band.lo, 3), units::format_brief(band.kind, bare, band.hi, 3));
+  const std::string range =
+      fmt::format("outside the plausible range of {} ({} to {}, common practice)", band.what,
+                  units::format_brief(band.kind, bare, band.lo, 3),
+                  units::format_brief(band.kind, bare, band.hi, 3));
   const std::string_view written = text::trim_blanks(text);
   if (units::has_unit(written)) {
-    warnings.push_back(fmt::format("{}: {} ({}) is {}; used as written: check the value and its "
-                                   "unit",
-                                   source.origin, echo(written),
-                                   units::format_brief(band.kind, bare, v), range));
+    warnings.push_back(
+        fmt::format("{}: {} ({}) is {}; used as written: check the value and its "
+                    "unit",
+                    source.origin, echo(written), units::format_brief(band.kind, bare, v), range));
     return v;
   }
   // A bare number is a plain number (units::parse read all of it): shown as it is, unless long.

@@ -67,9 +67,10 @@ inline Saturation saturation_at(double t_c) {
 
 [[noreturn]] void out_of_range(const char* what, double value, const char* unit,
                                const char* allowed) {
-  throw RangeError(fmt::format("{} {:.6g} {} is outside the range the psychrometric model "
-                               "supports ({})",
-                               what, value, unit, allowed));
+  throw RangeError(
+      fmt::format("{} {:.6g} {} is outside the range the psychrometric model "
+                  "supports ({})",
+                  what, value, unit, allowed));
 }
 
 void check_non_negative(double w, const char* what) {
@@ -80,18 +81,19 @@ void check_non_negative(double w, const char* what) {
 // W_s from p_ws (eq. 23), refusing temperatures at which water boils at this pressure.
 double saturation_ratio(double pws_kpa, double t_c, double p_kpa) {
   if (!(pws_kpa < p_kpa))
-    throw RangeError(fmt::format("dry-bulb {:.4g} °C is at or above the boiling point at "
-                                 "{:.6g} kPa; moist air cannot be saturated there",
-                                 t_c, p_kpa));
+    throw RangeError(
+        fmt::format("dry-bulb {:.4g} °C is at or above the boiling point at "
+                    "{:.6g} kPa; moist air cannot be saturated there",
+                    t_c, p_kpa));
   return kMolecularMassRatio * pws_kpa / (p_kpa - pws_kpa);
 }
 
 void check_not_supersaturated(double w, double ws, double t_c, double p_kpa, const char* what) {
   // A relative tolerance absorbs rounding of values that were printed and read back.
   if (w > ws * (1.0 + 1e-6) + 1e-12)
-    throw RangeError(fmt::format(
-        "{} {:.6g} kg/kg is above saturation ({:.6g} kg/kg at {:.4g} °C, {:.6g} kPa)", what, w,
-        ws, t_c, p_kpa));
+    throw RangeError(
+        fmt::format("{} {:.6g} kg/kg is above saturation ({:.6g} kg/kg at {:.4g} °C, {:.6g} kPa)",
+                    what, w, ws, t_c, p_kpa));
 }
 
 // Saturation pressure at the two ends of the fits, kPa, computed exactly as
@@ -140,8 +142,8 @@ class InverseBranch {
     const Node& a = nodes_[i];
     const Node& b = nodes_[i + 1];
     const double rise = b.t - a.t;
-    return a.t + u * (a.dt + u * ((3.0 * rise - 2.0 * a.dt - b.dt) +
-                                  u * (a.dt + b.dt - 2.0 * rise)));
+    return a.t +
+           u * (a.dt + u * ((3.0 * rise - 2.0 * a.dt - b.dt) + u * (a.dt + b.dt - 2.0 * rise)));
   }
 
  private:
@@ -204,9 +206,10 @@ double saturation_pressure_log_slope_per_k(double t_c) {
 
 double humidity_ratio_from_vapor_pressure(double pw_kpa, double p_kpa) {
   if (!(pw_kpa >= 0.0 && pw_kpa < p_kpa))
-    throw RangeError(fmt::format("vapour pressure {:.6g} kPa is not allowed at {:.6g} kPa "
-                                 "total pressure (0 or more, below the total pressure)",
-                                 pw_kpa, p_kpa));
+    throw RangeError(
+        fmt::format("vapour pressure {:.6g} kPa is not allowed at {:.6g} kPa "
+                    "total pressure (0 or more, below the total pressure)",
+                    pw_kpa, p_kpa));
   return kMolecularMassRatio * pw_kpa / (p_kpa - pw_kpa);
 }
 
@@ -223,8 +226,8 @@ double saturation_humidity_ratio(double t_c, double p_kpa) {
 
 double humidity_ratio_from_relative_humidity(double t_c, double rh, double p_kpa) {
   if (!(rh >= 0.0 && rh <= 1.0))
-    throw RangeError(fmt::format("relative humidity {:.6g} % is not allowed (0 % to 100 %)",
-                                 rh * 100.0));
+    throw RangeError(
+        fmt::format("relative humidity {:.6g} % is not allowed (0 % to 100 %)", rh * 100.0));
   return humidity_ratio_from_vapor_pressure(rh * saturation_pressure_kpa(t_c), p_kpa);
 }
 
@@ -236,16 +239,17 @@ double dew_point_from_vapor_pressure_c(double pw_kpa) {
   // The margin lets saturated air at either end of the range, whose vapour pressure went
   // through a humidity ratio and back with rounding, keep its dew point.
   if (pw_kpa == 0.0)
-    throw RangeError("perfectly dry air (vapour pressure 0) has no dew point; give a humidity "
-                     "above 0 (a dew point of -100 °C or more)");
+    throw RangeError(
+        "perfectly dry air (vapour pressure 0) has no dew point; give a humidity "
+        "above 0 (a dew point of -100 °C or more)");
   if (!(pw_kpa >= kPwsAtMinKpa * (1.0 - 1e-9) && pw_kpa <= kPwsAtMaxKpa * (1.0 + 1e-9)))
-    throw RangeError(fmt::format("vapour pressure {:.6g} kPa has no dew point between -100 °C "
-                                 "and 200 °C ({:.3g} kPa to {:.4g} kPa)",
-                                 pw_kpa, kPwsAtMinKpa, kPwsAtMaxKpa));
+    throw RangeError(
+        fmt::format("vapour pressure {:.6g} kPa has no dew point between -100 °C "
+                    "and 200 °C ({:.3g} kPa to {:.4g} kPa)",
+                    pw_kpa, kPwsAtMinKpa, kPwsAtMaxKpa));
   const DewPointTables& tables = dew_point_tables();
   const double y = std::log(pw_kpa * 1000.0);
-  if (y >= tables.y_water_bottom)
-    return std::clamp(tables.water.invert(y), 0.0, kMaxTemperatureC);
+  if (y >= tables.y_water_bottom) return std::clamp(tables.water.invert(y), 0.0, kMaxTemperatureC);
   if (y < tables.y_ice_top) return std::clamp(tables.ice.invert(y), kMinTemperatureC, 0.0);
   // The ice fit at 0 °C lies below the water fit: a vapour pressure between the two has its
   // dew point at the junction.
@@ -268,7 +272,7 @@ struct WetBulbLine {
 };
 inline WetBulbLine wet_bulb_line(double t, double ts) {
   if (ts >= 0.0) return {2501.0, -2.326, 2501.0 + 1.86 * t, -4.186};  // eq. 33
-  return {2830.0, -0.24, 2830.0 + 1.86 * t, -2.1};                     // eq. 35
+  return {2830.0, -0.24, 2830.0 + 1.86 * t, -2.1};                    // eq. 35
 }
 
 // Wet-bulb of a validated state, given the saturation at the dry-bulb. Halley's method on
@@ -288,7 +292,10 @@ double solve_wet_bulb(double t_c, double w, double p_kpa, Saturation sat) {
     const double f = kMolecularMassRatio * a * q - r * (p_kpa - q);
     const double df = kMolecularMassRatio * (k.a1 * q + a * dq) - dr * (p_kpa - q) + r * dq;
     const double d2f = kMolecularMassRatio * (2.0 * k.a1 * dq + a * d2q) + 2.0 * dr * dq + r * d2q;
-    if (f > 0.0) hi = ts; else lo = ts;
+    if (f > 0.0)
+      hi = ts;
+    else
+      lo = ts;
     const double step = 2.0 * f * df / (2.0 * df * df - f * d2f);
     const double next = ts - step;
     if (std::fabs(step) < 1e-3) {
@@ -315,9 +322,10 @@ double humidity_ratio_from_wet_bulb(double t_c, double wb_c, double p_kpa) {
   const WetBulbLine k = wet_bulb_line(t_c, wb_c);
   const double w = ((k.a0 + k.a1 * wb_c) * ws - 1.006 * (t_c - wb_c)) / (k.d0 + k.d1 * wb_c);
   if (w < 0.0)
-    throw RangeError(fmt::format("wet-bulb {:.4g} °C is too low for dry-bulb {:.4g} °C at "
-                                 "{:.6g} kPa: the air would need negative humidity",
-                                 wb_c, t_c, p_kpa));
+    throw RangeError(
+        fmt::format("wet-bulb {:.4g} °C is too low for dry-bulb {:.4g} °C at "
+                    "{:.6g} kPa: the air would need negative humidity",
+                    wb_c, t_c, p_kpa));
   return w;
 }
 
@@ -334,9 +342,10 @@ double wet_bulb_from_humidity_ratio_c(double t_c, double w, double p_kpa) {
 double humidity_ratio_from_enthalpy(double t_c, double h) {
   const double w = (h - 1.006 * t_c) / (2501.0 + 1.86 * t_c);
   if (!(w >= 0.0))
-    throw RangeError(fmt::format("enthalpy {:.6g} kJ/kg is below that of dry air at {:.4g} °C "
-                                 "({:.6g} kJ/kg)",
-                                 h, t_c, 1.006 * t_c));
+    throw RangeError(
+        fmt::format("enthalpy {:.6g} kJ/kg is below that of dry air at {:.4g} °C "
+                    "({:.6g} kJ/kg)",
+                    h, t_c, 1.006 * t_c));
   return w;
 }
 
@@ -366,9 +375,10 @@ double elevation_from_standard_pressure_m(double p_kpa) {
   const double p_low = standard_pressure_kpa(kMaxElevationM);
   const double p_high = standard_pressure_kpa(kMinElevationM);
   if (!(p_kpa >= p_low && p_kpa <= p_high))
-    throw RangeError(fmt::format("pressure {:.6g} kPa is outside the standard atmosphere of "
-                                 "eq. 3 ({:.4g} kPa to {:.5g} kPa, 11000 m to -500 m)",
-                                 p_kpa, p_low, p_high));
+    throw RangeError(
+        fmt::format("pressure {:.6g} kPa is outside the standard atmosphere of "
+                    "eq. 3 ({:.4g} kPa to {:.5g} kPa, 11000 m to -500 m)",
+                    p_kpa, p_low, p_high));
   return (1.0 - std::pow(p_kpa / kStandardPressureKpa, 1.0 / 5.2559)) / 2.25577e-5;
 }
 
@@ -405,22 +415,16 @@ MoistAir state_from(double t_c, HumidityInput kind, double value, double p_kpa) 
     case HumidityInput::relative_humidity:
       w = humidity_ratio_from_relative_humidity(t_c, value, p_kpa);
       break;
-    case HumidityInput::wet_bulb:
-      w = humidity_ratio_from_wet_bulb(t_c, value, p_kpa);
-      break;
+    case HumidityInput::wet_bulb: w = humidity_ratio_from_wet_bulb(t_c, value, p_kpa); break;
     case HumidityInput::dew_point:
       check_dry_bulb(value, "dew point");
       if (value > t_c)
-        throw RangeError(fmt::format("dew point {:.4g} °C is above dry-bulb {:.4g} °C", value,
-                                     t_c));
+        throw RangeError(
+            fmt::format("dew point {:.4g} °C is above dry-bulb {:.4g} °C", value, t_c));
       w = humidity_ratio_from_dew_point(value, p_kpa);
       break;
-    case HumidityInput::humidity_ratio:
-      w = value;
-      break;
-    case HumidityInput::enthalpy:
-      w = humidity_ratio_from_enthalpy(t_c, value);
-      break;
+    case HumidityInput::humidity_ratio: w = value; break;
+    case HumidityInput::enthalpy: w = humidity_ratio_from_enthalpy(t_c, value); break;
   }
   check_humidity_ratio(w, t_c, p_kpa);
   return {t_c, w, p_kpa};

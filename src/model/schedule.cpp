@@ -46,15 +46,16 @@ std::string Schedule::describe() const {
   auto periods_text = [](const std::vector<Period>& ps) {
     if (ps.empty()) return std::string("off");
     std::string s;
-    for (const Period& p : ps) s += (s.empty() ? "" : ", ") + clock(p.start_min) + "-" + clock(p.end_min);
+    for (const Period& p : ps)
+      s += (s.empty() ? "" : ", ") + clock(p.start_min) + "-" + clock(p.end_min);
     return s;
   };
   for (std::size_t i = 0; i < 7;) {
     std::size_t j = i;
     while (j + 1 < 7 && periods_text(week[j + 1]) == periods_text(week[i])) ++j;
-    const std::string days = i == j ? std::string(kDayNames[i].substr(0, 3))
-                                    : fmt::format("{}-{}", kDayNames[i].substr(0, 3),
-                                                  kDayNames[j].substr(0, 3));
+    const std::string days =
+        i == j ? std::string(kDayNames[i].substr(0, 3))
+               : fmt::format("{}-{}", kDayNames[i].substr(0, 3), kDayNames[j].substr(0, 3));
     out += (out.empty() ? "" : "; ") + days + " " + periods_text(week[i]);
     i = j + 1;
   }

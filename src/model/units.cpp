@@ -29,7 +29,7 @@ struct KindInfo {
   std::string_view ip_default, si_default;  // spelling used for bare numbers and display
   std::string_view ip_label, si_label;
   std::string_view ip_suffix, si_suffix;
-  std::string_view example;  // what to write, for error messages
+  std::string_view example;                 // what to write, for error messages
   std::string_view ip_written, si_written;  // the unit as a user writes it ("F", "kJ/kg")
   // Absolute bounds (SI): no air-side quantity of this kind lies beyond them, so a value
   // outside is a slip or an attack, refused before it can overflow a calculation.
@@ -40,14 +40,25 @@ constexpr double kFahrenheitScale = 1.0 / 1.8;
 constexpr double kEnthalpyIpScale = 2.326;
 
 constexpr Unit kTemperature[] = {
-    {"c", 1, 0},   {"°c", 1, 0},  {"degc", 1, 0}, {"f", kFahrenheitScale, -32.0 / 1.8},
-    {"°f", kFahrenheitScale, -32.0 / 1.8},         {"degf", kFahrenheitScale, -32.0 / 1.8},
+    {"c", 1, 0},
+    {"°c", 1, 0},
+    {"degc", 1, 0},
+    {"f", kFahrenheitScale, -32.0 / 1.8},
+    {"°f", kFahrenheitScale, -32.0 / 1.8},
+    {"degf", kFahrenheitScale, -32.0 / 1.8},
     {"k", 1, -273.15},
 };
 constexpr Unit kTemperatureDifference[] = {
-    {"k", 1, 0},  {"c", 1, 0},  {"°c", 1, 0}, {"degc", 1, 0}, {"delta-c", 1, 0},
-    {"f", kFahrenheitScale, 0}, {"°f", kFahrenheitScale, 0},  {"degf", kFahrenheitScale, 0},
-    {"delta-f", kFahrenheitScale, 0}, {"r", kFahrenheitScale, 0},
+    {"k", 1, 0},
+    {"c", 1, 0},
+    {"°c", 1, 0},
+    {"degc", 1, 0},
+    {"delta-c", 1, 0},
+    {"f", kFahrenheitScale, 0},
+    {"°f", kFahrenheitScale, 0},
+    {"degf", kFahrenheitScale, 0},
+    {"delta-f", kFahrenheitScale, 0},
+    {"r", kFahrenheitScale, 0},
 };
 constexpr Unit kEnthalpy[] = {
     {"kj/kg", 1, 0},
@@ -56,31 +67,46 @@ constexpr Unit kEnthalpy[] = {
     {"btu/lbm", kEnthalpyIpScale, -7.68 * kEnthalpyIpScale},
 };
 constexpr Unit kEnthalpyDifference[] = {
-    {"kj/kg", 1, 0}, {"j/kg", 1e-3, 0}, {"btu/lb", kEnthalpyIpScale, 0},
+    {"kj/kg", 1, 0},
+    {"j/kg", 1e-3, 0},
+    {"btu/lb", kEnthalpyIpScale, 0},
     {"btu/lbm", kEnthalpyIpScale, 0},
 };
 constexpr Unit kPressure[] = {
-    {"kpa", 1, 0},          {"pa", 1e-3, 0},          {"hpa", 0.1, 0},    {"mbar", 0.1, 0},
-    {"bar", 100, 0},        {"psia", 6.894757293, 0}, {"psi", 6.894757293, 0},
-    {"inhg", 3.386389, 0},  {"atm", 101.325, 0},
+    {"kpa", 1, 0},           {"pa", 1e-3, 0},       {"hpa", 0.1, 0},
+    {"mbar", 0.1, 0},        {"bar", 100, 0},       {"psia", 6.894757293, 0},
+    {"psi", 6.894757293, 0}, {"inhg", 3.386389, 0}, {"atm", 101.325, 0},
 };
 constexpr Unit kLength[] = {{"m", 1, 0}, {"km", 1000, 0}, {"ft", 0.3048, 0}};
 constexpr Unit kFraction[] = {{"%", 0.01, 0}};
 constexpr Unit kHumidityRatio[] = {
-    {"kg/kg", 1, 0}, {"lb/lb", 1, 0}, {"g/kg", 1e-3, 0}, {"gr/lb", 1.0 / 7000.0, 0},
+    {"kg/kg", 1, 0},
+    {"lb/lb", 1, 0},
+    {"g/kg", 1e-3, 0},
+    {"gr/lb", 1.0 / 7000.0, 0},
 };
 constexpr Unit kAirflow[] = {
-    {"m3/s", 1, 0},   {"m³/s", 1, 0},   {"l/s", 1e-3, 0}, {"m3/h", 1.0 / 3600.0, 0},
-    {"m³/h", 1.0 / 3600.0, 0},          {"cfm", 0.3048 * 0.3048 * 0.3048 / 60.0, 0},
+    {"m3/s", 1, 0},
+    {"m³/s", 1, 0},
+    {"l/s", 1e-3, 0},
+    {"m3/h", 1.0 / 3600.0, 0},
+    {"m³/h", 1.0 / 3600.0, 0},
+    {"cfm", 0.3048 * 0.3048 * 0.3048 / 60.0, 0},
     {"ft3/min", 0.3048 * 0.3048 * 0.3048 / 60.0, 0},
 };
 constexpr Unit kEnergy[] = {
-    {"kwh", 1, 0}, {"mwh", 1000, 0}, {"kbtu", 1.0 / 3.412141633, 0},
-    {"btu", 1e-3 / 3.412141633, 0}, {"ton-h", 3.516852842, 0},
+    {"kwh", 1, 0},
+    {"mwh", 1000, 0},
+    {"kbtu", 1.0 / 3.412141633, 0},
+    {"btu", 1e-3 / 3.412141633, 0},
+    {"ton-h", 3.516852842, 0},
 };
 constexpr Unit kPower[] = {
-    {"kw", 1, 0}, {"w", 1e-3, 0}, {"btu/h", 1e-3 / 3.412141633, 0},
-    {"kbtu/h", 1.0 / 3.412141633, 0}, {"ton", 3.516852842, 0},
+    {"kw", 1, 0},
+    {"w", 1e-3, 0},
+    {"btu/h", 1e-3 / 3.412141633, 0},
+    {"kbtu/h", 1.0 / 3.412141633, 0},
+    {"ton", 3.516852842, 0},
 };
 
 constexpr double kCubicFoot = 0.3048 * 0.3048 * 0.3048;
@@ -102,21 +128,21 @@ constexpr double kAbsoluteZeroC = -273.15;
 constexpr KindInfo kKinds[] = {
     {Kind::temperature, "a temperature", kTemperature, "f", "c", "°F", "°C", "f", "c",
      "75F or 23.9C", "F", "C", kAbsoluteZeroC, 1000.0},
-    {Kind::temperature_difference, "a temperature difference", kTemperatureDifference, "f",
-     "k", "°F", "K", "delta_f", "delta_k", "5F or 3K", "F", "K", -1000.0, 1000.0},
-    {Kind::enthalpy, "an enthalpy", kEnthalpy, "btu/lb", "kj/kg", "Btu/lb", "kJ/kg",
-     "btu_per_lb", "kj_per_kg", "28btu/lb or 47kJ/kg", "btu/lb", "kJ/kg", -1000.0, 10000.0},
-    {Kind::enthalpy_difference, "an enthalpy difference", kEnthalpyDifference, "btu/lb",
-     "kj/kg", "Btu/lb", "kJ/kg", "delta_btu_per_lb", "delta_kj_per_kg", "1btu/lb or 2kJ/kg",
-     "btu/lb", "kJ/kg", -10000.0, 10000.0},
+    {Kind::temperature_difference, "a temperature difference", kTemperatureDifference, "f", "k",
+     "°F", "K", "delta_f", "delta_k", "5F or 3K", "F", "K", -1000.0, 1000.0},
+    {Kind::enthalpy, "an enthalpy", kEnthalpy, "btu/lb", "kj/kg", "Btu/lb", "kJ/kg", "btu_per_lb",
+     "kj_per_kg", "28btu/lb or 47kJ/kg", "btu/lb", "kJ/kg", -1000.0, 10000.0},
+    {Kind::enthalpy_difference, "an enthalpy difference", kEnthalpyDifference, "btu/lb", "kj/kg",
+     "Btu/lb", "kJ/kg", "delta_btu_per_lb", "delta_kj_per_kg", "1btu/lb or 2kJ/kg", "btu/lb",
+     "kJ/kg", -10000.0, 10000.0},
     {Kind::pressure, "a pressure", kPressure, "psia", "kpa", "psia", "kPa", "psia", "kpa",
      "14.696psia or 101.325kPa", "psia", "kPa", 0.0, 10000.0},
-    {Kind::length, "a length", kLength, "ft", "m", "ft", "m", "ft", "m", "5000ft or 1524m",
-     "ft", "m", -100000.0, 100000.0},
-    {Kind::fraction, "a percentage", kFraction, "%", "%", "%", "%", "pct", "pct", "50%", "%",
-     "%", -10.0, 10.0},
-    {Kind::humidity_ratio, "a humidity ratio", kHumidityRatio, "lb/lb", "kg/kg", "lb/lb",
-     "kg/kg", "lb_per_lb", "kg_per_kg", "0.0093 or 65gr/lb", "lb/lb", "kg/kg", -10.0, 10.0},
+    {Kind::length, "a length", kLength, "ft", "m", "ft", "m", "ft", "m", "5000ft or 1524m", "ft",
+     "m", -100000.0, 100000.0},
+    {Kind::fraction, "a percentage", kFraction, "%", "%", "%", "%", "pct", "pct", "50%", "%", "%",
+     -10.0, 10.0},
+    {Kind::humidity_ratio, "a humidity ratio", kHumidityRatio, "lb/lb", "kg/kg", "lb/lb", "kg/kg",
+     "lb_per_lb", "kg_per_kg", "0.0093 or 65gr/lb", "lb/lb", "kg/kg", -10.0, 10.0},
     {Kind::airflow, "an airflow", kAirflow, "cfm", "m3/s", "cfm", "m³/s", "cfm", "m3_per_s",
      "12000cfm or 5600L/s", "cfm", "m3/s", -100000.0, 100000.0},
     {Kind::energy, "an energy", kEnergy, "kbtu", "kwh", "kBtu", "kWh", "kbtu", "kwh",
@@ -124,8 +150,7 @@ constexpr KindInfo kKinds[] = {
     {Kind::power, "a power", kPower, "kbtu/h", "kw", "kBtu/h", "kW", "kbtu_per_h", "kw",
      "34kBtu/h or 10kW", "kBtu/h", "kW", -1e9, 1e9},
     {Kind::specific_volume, "a specific volume", kSpecificVolume, "ft3/lb", "m3/kg", "ft³/lb",
-     "m³/kg", "ft3_per_lb", "m3_per_kg", "13.7ft3/lb or 0.85m3/kg", "ft3/lb", "m3/kg", 0.0,
-     1000.0},
+     "m³/kg", "ft3_per_lb", "m3_per_kg", "13.7ft3/lb or 0.85m3/kg", "ft3/lb", "m3/kg", 0.0, 1000.0},
     {Kind::density, "a density", kDensity, "lb/ft3", "kg/m3", "lb/ft³", "kg/m³", "lb_per_ft3",
      "kg_per_m3", "0.075lb/ft3 or 1.2kg/m3", "lb/ft3", "kg/m3", 0.0, 1000.0},
 };
@@ -148,7 +173,7 @@ const Unit& find_unit(const KindInfo& k, std::string_view spelling) {
 struct Number {
   std::size_t length = 0;  // 0: no number
   double value = 0.0;
-  bool too_large = false;  // digits beyond the range of a double ("1e400")
+  bool too_large = false;   // digits beyond the range of a double ("1e400")
   std::string comma_error;  // why the commas do not group digits, when they do not
 };
 
@@ -178,8 +203,9 @@ Number read_number(std::string_view s) {
     }
     ok &= group == 3;
     if (!ok) {
-      n.comma_error = "commas in a number must group its digits by three (20,000); write a "
-                      "decimal with a point (1.5)";
+      n.comma_error =
+          "commas in a number must group its digits by three (20,000); write a "
+          "decimal with a point (1.5)";
       return n;
     }
     plain.assign(s.substr(0, i));
@@ -261,15 +287,16 @@ double parse(Kind kind, std::string_view text, System bare, std::string_view ori
   if (!n.comma_error.empty())
     throw InputError(fmt::format("{}: {}: {}", origin, echo(text), n.comma_error));
   if (n.length == 0)
-    throw InputError(fmt::format("{}: {} is not {} (write a number with a unit, e.g. {})",
-                                 origin, echo(text), k.name, k.example));
+    throw InputError(fmt::format("{}: {} is not {} (write a number with a unit, e.g. {})", origin,
+                                 echo(text), k.name, k.example));
   const std::string suffix = text::lower_without_space(s.substr(n.length));
   const Unit* unit = nullptr;
   if (suffix.empty()) {
     if (kind == Kind::fraction && n.value > 0.0 && n.value < 1.0)
-      throw InputError(fmt::format("{}: {} is ambiguous: write it as a percentage with %, "
-                                   "e.g. {:g}% or {:g}%",
-                                   origin, echo(text), n.value * 100.0, n.value));
+      throw InputError(
+          fmt::format("{}: {} is ambiguous: write it as a percentage with %, "
+                      "e.g. {:g}% or {:g}%",
+                      origin, echo(text), n.value * 100.0, n.value));
     unit = &find_unit(k, bare == System::ip ? k.ip_default : k.si_default);
   } else {
     for (const Unit& u : k.units)

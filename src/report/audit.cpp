@@ -54,13 +54,15 @@ std::vector<std::string> coverage_lines(const audit::Result& r, const trend::Tre
                             trend::format_timestamp(c.first_s), trend::format_timestamp(c.last_s)));
   out.push_back(fmt::format("median interval {:.1f} min; a sample counts for at most {:.1f} min",
                             c.median_interval_s / 60.0, c.max_gap_s / 60.0));
-  out.push_back(fmt::format("covered {:.1f} h of a {:.1f} h span ({}); {} gap(s) longer than the cap",
-                            c.covered_s / 3600.0, c.span_s / 3600.0,
-                            percent(c.span_s > 0 ? c.covered_s / c.span_s : 0.0), c.gaps.size()));
+  out.push_back(
+      fmt::format("covered {:.1f} h of a {:.1f} h span ({}); {} gap(s) longer than the cap",
+                  c.covered_s / 3600.0, c.span_s / 3600.0,
+                  percent(c.span_s > 0 ? c.covered_s / c.span_s : 0.0), c.gaps.size()));
   if (c.duplicate_rows > 0)
     out.push_back(fmt::format("{} exact duplicate row(s) dropped", c.duplicate_rows));
-  out.push_back(fmt::format("fan on {:.1f} h ({} samples); outdoor-air fraction measurable in {} of them",
-                            r.operating_hours, r.operating_intervals, r.fraction_intervals));
+  out.push_back(
+      fmt::format("fan on {:.1f} h ({} samples); outdoor-air fraction measurable in {} of them",
+                  r.operating_hours, r.operating_intervals, r.fraction_intervals));
   return out;
 }
 
@@ -70,13 +72,17 @@ std::vector<std::string> gap_lines(const trend::TrendLog& log) {
   const std::size_t shown = std::min<std::size_t>(g.size(), 10);
   for (std::size_t i = 0; i < shown; ++i)
     out.push_back(fmt::format("{} to {} ({:.1f} h)", trend::format_timestamp(g[i].from_s),
-                              trend::format_timestamp(g[i].to_s), (g[i].to_s - g[i].from_s) / 3600.0));
+                              trend::format_timestamp(g[i].to_s),
+                              (g[i].to_s - g[i].from_s) / 3600.0));
   if (g.size() > shown) out.push_back(fmt::format("and {} more", g.size() - shown));
   return out;
 }
 
 Table mapping_table(const trend::TrendLog& log) {
-  Table t({{"quantity", Align::left}, {"column", Align::left}, {"unit", Align::left}, {"how", Align::left}});
+  Table t({{"quantity", Align::left},
+           {"column", Align::left},
+           {"unit", Align::left},
+           {"how", Align::left}});
   for (const auto& u : log.columns)
     t.add_row({std::string(trend::channel_name(u.channel)), u.header, u.unit,
                u.overridden ? "--column" : (u.note.empty() ? "from the header" : u.note)});
@@ -84,20 +90,29 @@ Table mapping_table(const trend::TrendLog& log) {
 }
 
 Table findings_table(const audit::Result& r, units::System s) {
-  Table t({{"finding", Align::left}, {"hours", Align::right}, {"of fan-on", Align::right},
-           {"first", Align::left}, {"worst", Align::left}, {"worst by", Align::right},
+  Table t({{"finding", Align::left},
+           {"hours", Align::right},
+           {"of fan-on", Align::right},
+           {"first", Align::left},
+           {"worst", Align::left},
+           {"worst by", Align::right},
            {"energy " + std::string(energy_unit(s)), Align::right}});
   for (const auto& f : r.findings)
-    t.add_row({std::string(audit::finding_title(f.kind)), hours(f.hours), percent(f.share_of_operating),
-               trend::format_timestamp(f.first_s), trend::format_timestamp(f.worst_s),
-               worst_text(f, r, s), energy_cell(f, s)});
+    t.add_row({std::string(audit::finding_title(f.kind)), hours(f.hours),
+               percent(f.share_of_operating), trend::format_timestamp(f.first_s),
+               trend::format_timestamp(f.worst_s), worst_text(f, r, s), energy_cell(f, s)});
   return t;
 }
 
 Table switch_table(const audit::Result& r, units::System s) {
-  Table t({{"condition", Align::left}, {"configured", Align::right}, {"deadband", Align::right},
-           {"open up to", Align::right}, {"closed from", Align::right}, {"estimate", Align::right},
-           {"samples open/closed", Align::right}, {"verdict", Align::left}});
+  Table t({{"condition", Align::left},
+           {"configured", Align::right},
+           {"deadband", Align::right},
+           {"open up to", Align::right},
+           {"closed from", Align::right},
+           {"estimate", Align::right},
+           {"samples open/closed", Align::right},
+           {"verdict", Align::left}});
   for (const auto& sp : r.switch_points)
     t.add_row({condition_label(sp), value_text(sp, sp.configured, s),
                format_difference(sp.quantity, sp.deadband, s), value_text(sp, sp.highest_open, s),
@@ -110,25 +125,30 @@ Table switch_table(const audit::Result& r, units::System s) {
 std::vector<std::string> rule_lines(const AuditContext& c) {
   std::vector<std::string> out;
   const auto& a = c.accuracy;
+  out.push_back(
+      fmt::format("sensor accuracy (one standard uncertainty): outdoor {}, return {}, mixed {}",
+                  units::format(units::Kind::temperature_difference, c.units, a.outdoor_k, 2),
+                  units::format(units::Kind::temperature_difference, c.units, a.return_k, 2),
+                  units::format(units::Kind::temperature_difference, c.units, a.mixed_k, 2)));
   out.push_back(fmt::format(
-      "sensor accuracy (one standard uncertainty): outdoor {}, return {}, mixed {}",
-      units::format(units::Kind::temperature_difference, c.units, a.outdoor_k, 2),
-      units::format(units::Kind::temperature_difference, c.units, a.return_k, 2),
-      units::format(units::Kind::temperature_difference, c.units, a.mixed_k, 2)));
-  out.push_back(fmt::format(
-      "measured fraction x = (t_mix − t_ret)/(t_out − t_ret), used where |t_out − t_ret| ≥ {:.0f} × "
-      "√(σ_out² + σ_ret² + σ_mix²) = {}; σ_x² = (σ_mix² + x²σ_out² + (1 − x)²σ_ret²)/(t_out − t_ret)²",
+      "measured fraction x = (t_mix − t_ret)/(t_out − t_ret), used where |t_out − t_ret| ≥ {:.0f} "
+      "× "
+      "√(σ_out² + σ_ret² + σ_mix²) = {}; σ_x² = (σ_mix² + x²σ_out² + (1 − x)²σ_ret²)/(t_out − "
+      "t_ret)²",
       audit::kFractionGateFactor,
-      units::format(units::Kind::temperature_difference, c.units,
-                    audit::kFractionGateFactor * std::sqrt(a.outdoor_k * a.outdoor_k + a.return_k * a.return_k +
-                                                           a.mixed_k * a.mixed_k), 2)));
+      units::format(
+          units::Kind::temperature_difference, c.units,
+          audit::kFractionGateFactor * std::sqrt(a.outdoor_k * a.outdoor_k +
+                                                 a.return_k * a.return_k + a.mixed_k * a.mixed_k),
+          2)));
   for (std::size_t k = 0; k < audit::kFindingKindCount; ++k) {
     const auto kind = static_cast<FindingKind>(k);
     out.push_back(fmt::format("{}: {}", audit::finding_key(kind), audit::finding_rule(kind)));
   }
-  out.push_back("energy: the model's weighted coil energy at the observed fraction minus that of "
-                "the expected operation, at the unit's supply airflow, for each interval (positive: what the "
-                "log shows cost more than what the strategy expects)");
+  out.push_back(
+      "energy: the model's weighted coil energy at the observed fraction minus that of "
+      "the expected operation, at the unit's supply airflow, for each interval (positive: what the "
+      "log shows cost more than what the strategy expects)");
   return out;
 }
 
@@ -136,16 +156,20 @@ std::vector<std::string> rule_lines(const AuditContext& c) {
 
 std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c) {
   std::string out = fmt::format("limitline audit — {} against {}\n\n", log.path, c.unit_path);
-  out += fmt::format("strategy: {} ({}), {}\n", r.strategy_name, c.strategy_source, c.strategy_text);
+  out +=
+      fmt::format("strategy: {} ({}), {}\n", r.strategy_name, c.strategy_source, c.strategy_text);
   for (const auto& l : coverage_lines(r, log)) out += l + "\n";
   if (const auto g = gap_lines(log); !g.empty()) {
     out += "gaps:\n";
     for (const auto& l : g) out += "  " + l + "\n";
   }
   out += "\nColumns used:\n" + mapping_table(log).text();
-  if (r.findings.empty()) out += "\nFindings: none; the log agrees with the strategy and the model.\n";
-  else out += "\nFindings:\n" + findings_table(r, c.units).text();
-  if (!r.switch_points.empty()) out += "\nSwitching points seen in the log:\n" + switch_table(r, c.units).text();
+  if (r.findings.empty())
+    out += "\nFindings: none; the log agrees with the strategy and the model.\n";
+  else
+    out += "\nFindings:\n" + findings_table(r, c.units).text();
+  if (!r.switch_points.empty())
+    out += "\nSwitching points seen in the log:\n" + switch_table(r, c.units).text();
   out += "\nRules:\n";
   for (const auto& l : rule_lines(c)) out += "  - " + l + "\n";
   if (!r.notes.empty()) {
@@ -156,12 +180,13 @@ std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const
   return out;
 }
 
-std::string audit_markdown(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c) {
+std::string audit_markdown(const audit::Result& r, const trend::TrendLog& log,
+                           const AuditContext& c) {
   // Names and lines from the user's files are escaped, so none reads as markup.
   const auto md = markdown_escape;
   std::string out = fmt::format("# Economizer trend audit: {}\n\n", md(log.path));
-  out += fmt::format("Unit file {}; strategy **{}** ({}): {}.\n\n", md(c.unit_path), md(r.strategy_name),
-                     md(c.strategy_source), md(c.strategy_text));
+  out += fmt::format("Unit file {}; strategy **{}** ({}): {}.\n\n", md(c.unit_path),
+                     md(r.strategy_name), md(c.strategy_source), md(c.strategy_text));
   out += "## Coverage\n\n";
   for (const auto& l : coverage_lines(r, log)) out += "- " + md(l) + "\n";
   for (const auto& l : gap_lines(log)) out += "- gap: " + md(l) + "\n";
@@ -188,10 +213,15 @@ std::string audit_json(const audit::Result& r, const trend::TrendLog& log, const
   j.begin_object();
   j.field("unit_file", c.unit_path).field("trend_log", log.path);
   j.field("units", units::system_name(s));
-  j.key("strategy").begin_object().field("name", r.strategy_name).field("source", c.strategy_source)
-      .field("text", c.strategy_text).end_object();
+  j.key("strategy")
+      .begin_object()
+      .field("name", r.strategy_name)
+      .field("source", c.strategy_source)
+      .field("text", c.strategy_text)
+      .end_object();
   const auto& cov = log.coverage;
-  j.key("coverage").begin_object()
+  j.key("coverage")
+      .begin_object()
       .field("first", trend::format_timestamp(cov.first_s))
       .field("last", trend::format_timestamp(cov.last_s))
       .field("samples", cov.rows)
@@ -205,45 +235,65 @@ std::string audit_json(const audit::Result& r, const trend::TrendLog& log, const
       .field("fraction_samples", r.fraction_intervals);
   j.key("gaps").begin_array();
   for (const auto& g : cov.gaps)
-    j.begin_object().field("from", trend::format_timestamp(g.from_s)).field("to", trend::format_timestamp(g.to_s)).end_object();
+    j.begin_object()
+        .field("from", trend::format_timestamp(g.from_s))
+        .field("to", trend::format_timestamp(g.to_s))
+        .end_object();
   j.end_array().end_object();
   j.key("columns").begin_array();
   for (const auto& u : log.columns)
-    j.begin_object().field("quantity", trend::channel_name(u.channel)).field("header", u.header)
-        .field("unit", u.unit).field("overridden", u.overridden).field("note", u.note).end_object();
+    j.begin_object()
+        .field("quantity", trend::channel_name(u.channel))
+        .field("header", u.header)
+        .field("unit", u.unit)
+        .field("overridden", u.overridden)
+        .field("note", u.note)
+        .end_object();
   j.end_array();
   j.key("findings").begin_array();
   for (const auto& f : r.findings) {
-    j.begin_object().field("kind", audit::finding_key(f.kind)).field("title", audit::finding_title(f.kind))
-        .field("intervals", f.intervals).field("hours", f.hours, 6)
+    j.begin_object()
+        .field("kind", audit::finding_key(f.kind))
+        .field("title", audit::finding_title(f.kind))
+        .field("intervals", f.intervals)
+        .field("hours", f.hours, 6)
         .field("share_of_fan_on", f.share_of_operating, 6)
-        .field("first", trend::format_timestamp(f.first_s)).field("first_line", f.first_line)
+        .field("first", trend::format_timestamp(f.first_s))
+        .field("first_line", f.first_line)
         .field("last", trend::format_timestamp(f.last_s))
-        .field("worst", trend::format_timestamp(f.worst_s)).field("worst_line", f.worst_line)
+        .field("worst", trend::format_timestamp(f.worst_s))
+        .field("worst_line", f.worst_line)
         .field("worst_by", worst_text(f, r, s));
     j.key(eu);
-    if (f.energy_kwh) j.value(energy_display(*f.energy_kwh, s), 6);
-    else j.null();
+    if (f.energy_kwh)
+      j.value(energy_display(*f.energy_kwh, s), 6);
+    else
+      j.null();
     j.end_object();
   }
   j.end_array();
   j.key("switching_points").begin_array();
   for (const auto& sp : r.switch_points) {
-    j.begin_object().field("condition", sp.condition + 1)
+    j.begin_object()
+        .field("condition", sp.condition + 1)
         .field("quantity", highlimit::quantity_name(sp.quantity))
         .field("reference", highlimit::reference_name(sp.reference));
     // Numbers with the unit in the key (docs/model.md §Units and datums): values of the
     // quantity for a fixed limit, differences for an offset from the return air.
-    const units::Kind kind = sp.reference == highlimit::Reference::return_air ? difference_kind(sp.quantity)
-                                                                              : value_kind(sp.quantity);
+    const units::Kind kind = sp.reference == highlimit::Reference::return_air
+                                 ? difference_kind(sp.quantity)
+                                 : value_kind(sp.quantity);
     const std::string suffix(units::key_suffix(kind, s));
-    for (auto [name, v] : {std::pair{"configured", sp.configured}, std::pair{"estimate", sp.estimate},
-                           std::pair{"open_up_to", sp.highest_open}, std::pair{"closed_from", sp.lowest_closed}})
+    for (auto [name, v] :
+         {std::pair{"configured", sp.configured}, std::pair{"estimate", sp.estimate},
+          std::pair{"open_up_to", sp.highest_open}, std::pair{"closed_from", sp.lowest_closed}})
       j.field(std::string(name) + "_" + suffix, units::to_display(kind, s, v), 6);
     j.field("deadband_" + std::string(units::key_suffix(difference_kind(sp.quantity), s)),
             units::to_display(difference_kind(sp.quantity), s, sp.deadband), 6)
-        .field("open_samples", sp.open_samples).field("closed_samples", sp.closed_samples)
-        .field("differs", sp.differs).end_object();
+        .field("open_samples", sp.open_samples)
+        .field("closed_samples", sp.closed_samples)
+        .field("differs", sp.differs)
+        .end_object();
   }
   j.end_array();
   j.key("rules").begin_array();

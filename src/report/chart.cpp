@@ -97,10 +97,10 @@ std::string path_d(const std::vector<Px>& pts) {
 // Text with a paper-coloured halo so it reads over lines and cells.
 std::string text(double x, double y, std::string_view s, std::string_view attrs,
                  bool halo = false) {
-  return fmt::format("<text x=\"{}\" y=\"{}\" {}{}>{}</text>\n", num(x), num(y), attrs,
-                     halo ? fmt::format(" stroke=\"{}\" stroke-width=\"3\" paint-order=\"stroke\"", kPaper)
-                          : "",
-                     esc(s));
+  return fmt::format(
+      "<text x=\"{}\" y=\"{}\" {}{}>{}</text>\n", num(x), num(y), attrs,
+      halo ? fmt::format(" stroke=\"{}\" stroke-width=\"3\" paint-order=\"stroke\"", kPaper) : "",
+      esc(s));
 }
 
 std::string svg_open(double height, std::string_view label) {
@@ -161,7 +161,8 @@ struct Psy {
 std::vector<Curve> clip(const Curve& c, const ChartGeometry& g) {
   std::vector<Curve> runs;
   Curve run;
-  const double x0 = g.dry_bulb_min_c(), x1 = g.dry_bulb_max_c(), y0 = 0.0, y1 = g.humidity_ratio_max();
+  const double x0 = g.dry_bulb_min_c(), x1 = g.dry_bulb_max_c(), y0 = 0.0,
+               y1 = g.humidity_ratio_max();
   auto flush = [&] {
     if (run.size() >= 2) runs.push_back(run);
     run.clear();
@@ -180,8 +181,10 @@ std::vector<Curve> clip(const Curve& c, const ChartGeometry& g) {
         if (e[1] < 0.0) inside = false;
       } else {
         const double r = e[1] / e[0];
-        if (e[0] < 0.0) u0 = std::max(u0, r);
-        else u1 = std::min(u1, r);
+        if (e[0] < 0.0)
+          u0 = std::max(u0, r);
+        else
+          u1 = std::min(u1, r);
       }
     }
     if (!inside || u0 > u1) {
@@ -238,7 +241,8 @@ std::optional<std::pair<double, double>> enthalpy_span(const ChartGeometry& g, c
 
 // W on the constant-enthalpy line; at and beyond its dry-air end (W = 0) it is 0.
 double w_at_enthalpy(double t, double h) {
-  return t < psychro::dry_bulb_from_enthalpy_c(h, 0.0) ? psychro::humidity_ratio_from_enthalpy(t, h) : 0.0;
+  return t < psychro::dry_bulb_from_enthalpy_c(h, 0.0) ? psychro::humidity_ratio_from_enthalpy(t, h)
+                                                       : 0.0;
 }
 
 Curve enthalpy_curve(const ChartGeometry& g, const Psy& psy, double h, int n = 24) {
@@ -265,7 +269,8 @@ Curve wet_bulb_curve(const ChartGeometry& g, const Psy& psy, double wb) {
   const double a = std::max(wb, g.dry_bulb_min_c());
   double b = g.dry_bulb_max_c();
   if (a >= b || !w_at_wet_bulb(a, wb, psy.p)) return c;
-  if (!w_at_wet_bulb(b, wb, psy.p)) b = bisect(a, b, [&](double t) { return w_at_wet_bulb(t, wb, psy.p).has_value(); });
+  if (!w_at_wet_bulb(b, wb, psy.p))
+    b = bisect(a, b, [&](double t) { return w_at_wet_bulb(t, wb, psy.p).has_value(); });
   for (int i = 0; i <= 24; ++i) {
     // Held to b: a + (b - a) rounds past b by an ulp, where no wet-bulb line may exist.
     const double t = std::min(b, a + (b - a) * i / 24);
@@ -279,8 +284,9 @@ Curve wet_bulb_curve(const ChartGeometry& g, const Psy& psy, double wb) {
 highlimit::AirValues values_at(const ChartPoint& pt, double p) {
   // A dew point needs some vapour; the bottom edge (W = 0) is read as a trace of it.
   const double w_dp = std::max(pt.humidity_ratio, 1e-7);
-  return highlimit::air_values(pt.dry_bulb_c, psychro::enthalpy_kj_per_kg(pt.dry_bulb_c, pt.humidity_ratio),
-                               psychro::dew_point_from_humidity_ratio_c(w_dp, p), pt.humidity_ratio);
+  return highlimit::air_values(
+      pt.dry_bulb_c, psychro::enthalpy_kj_per_kg(pt.dry_bulb_c, pt.humidity_ratio),
+      psychro::dew_point_from_humidity_ratio_c(w_dp, p), pt.humidity_ratio);
 }
 
 enum class Family { vertical, enthalpy, horizontal };
@@ -369,7 +375,8 @@ std::vector<Boundary> boundaries(const std::vector<highlimit::Strategy>& strateg
           // The crossing between the two samples, found on their chord.
           const ChartPoint a = line[i - 1], z = line[i];
           const bool from_kept = !k;
-          const double u = bisect(0.0, 1.0, [&](double uu) { return keep(between(a, z, uu)) == from_kept; });
+          const double u =
+              bisect(0.0, 1.0, [&](double uu) { return keep(between(a, z, uu)) == from_kept; });
           const ChartPoint edge = between(a, z, u);
           if (from_kept) {
             run.push_back(edge);
@@ -418,7 +425,8 @@ double w_of_display(const Ctx& c, double d) { return d / c.ax.w_per_kgkg; }
 
 void draw_paper(Ctx& c) {
   const auto& a = c.g.area();
-  c.out += fmt::format("<rect x=\"0\" y=\"0\" width=\"{}\" height=\"100%\" fill=\"{}\"/>\n", num(kWidth), kPaper);
+  c.out += fmt::format("<rect x=\"0\" y=\"0\" width=\"{}\" height=\"100%\" fill=\"{}\"/>\n",
+                       num(kWidth), kPaper);
   // The region above saturation is tinted: no air exists there.
   Curve sat = saturation_curve(c.g, c.psy);
   std::vector<Px> poly;
@@ -432,13 +440,15 @@ void draw_paper(Ctx& c) {
       poly.push_back({a.left + a.width, a.top});
       poly.push_back({a.left + a.width, c.g.y(r.back().humidity_ratio)});
     }
-    for (auto it = r.rbegin(); it != r.rend(); ++it) poly.push_back({c.g.x(it->dry_bulb_c), c.g.y(it->humidity_ratio)});
+    for (auto it = r.rbegin(); it != r.rend(); ++it)
+      poly.push_back({c.g.x(it->dry_bulb_c), c.g.y(it->humidity_ratio)});
     poly.push_back({a.left, c.g.y(r.front().humidity_ratio)});
   }
-  c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"#fffdf8\"/>\n", num(a.left),
-                       num(a.top), num(a.width), num(a.height));
+  c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"#fffdf8\"/>\n",
+                       num(a.left), num(a.top), num(a.width), num(a.height));
   if (!poly.empty())
-    c.out += fmt::format("<path class=\"above-saturation\" d=\"{} Z\" fill=\"{}\"/>\n", path_d(poly), kPaperAbove);
+    c.out += fmt::format("<path class=\"above-saturation\" d=\"{} Z\" fill=\"{}\"/>\n",
+                         path_d(poly), kPaperAbove);
 }
 
 void draw_grid(Ctx& c) {
@@ -446,12 +456,14 @@ void draw_grid(Ctx& c) {
   c.out += "<g class=\"grid\" fill=\"none\">\n";
   // Dry-bulb lines up to saturation.
   const double d0 = t_disp(g.dry_bulb_min_c(), c.s), d1 = t_disp(g.dry_bulb_max_c(), c.s);
-  for (double d = std::ceil(d0 / c.ax.t_minor - 1e-9) * c.ax.t_minor; d <= d1 + 1e-9; d += c.ax.t_minor) {
+  for (double d = std::ceil(d0 / c.ax.t_minor - 1e-9) * c.ax.t_minor; d <= d1 + 1e-9;
+       d += c.ax.t_minor) {
     const double t = t_si(d, c.s);
     const bool major = std::fabs(std::remainder(d, c.ax.t_major)) < 1e-6;
     const double top = std::min(c.psy.w_sat(t), g.humidity_ratio_max());
-    c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n", num(g.x(t)), num(g.y(0)),
-                         num(g.x(t)), num(g.y(top)), major ? kGridMajor : kGridMinor, major ? "0.9" : "0.6");
+    c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n",
+                         num(g.x(t)), num(g.y(0)), num(g.x(t)), num(g.y(top)),
+                         major ? kGridMajor : kGridMinor, major ? "0.9" : "0.6");
   }
   // Humidity-ratio lines from the saturation curve to the right edge.
   const double wd1 = g.humidity_ratio_max() * c.ax.w_per_kgkg;
@@ -461,23 +473,27 @@ void draw_grid(Ctx& c) {
     if (t_dew >= g.dry_bulb_max_c()) continue;
     const double a = std::max(t_dew, g.dry_bulb_min_c());
     const bool major = std::fabs(std::remainder(d, c.ax.w_major)) < 1e-6;
-    c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n", num(g.x(a)), num(g.y(w)),
-                         num(g.x(g.dry_bulb_max_c())), num(g.y(w)), major ? kGridMajor : kGridMinor,
-                         major ? "0.9" : "0.6");
+    c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n",
+                         num(g.x(a)), num(g.y(w)), num(g.x(g.dry_bulb_max_c())), num(g.y(w)),
+                         major ? kGridMajor : kGridMinor, major ? "0.9" : "0.6");
   }
   c.out += "</g>\n";
 }
 
 void draw_rh(Ctx& c, const std::vector<double>& verticals) {
-  c.out += fmt::format("<g class=\"relative-humidity\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.8\">\n", kRh);
+  c.out += fmt::format(
+      "<g class=\"relative-humidity\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.8\">\n", kRh);
   // Labels stacked on one dry-bulb: where the 90 % curve is at 85 % of the height, or near
   // the right edge when it stays lower.
   const double span = c.g.dry_bulb_max_c() - c.g.dry_bulb_min_c();
   double t_lab = c.g.dry_bulb_max_c() - 0.05 * span;
   auto below = [&](double t) {
-    return psychro::humidity_ratio_from_relative_humidity(t, 0.9, c.psy.p) < 0.85 * c.g.humidity_ratio_max();
+    return psychro::humidity_ratio_from_relative_humidity(t, 0.9, c.psy.p) <
+           0.85 * c.g.humidity_ratio_max();
   };
-  if (!below(t_lab)) t_lab = below(c.g.dry_bulb_min_c()) ? bisect(c.g.dry_bulb_min_c(), t_lab, below) : c.g.dry_bulb_min_c();
+  if (!below(t_lab))
+    t_lab = below(c.g.dry_bulb_min_c()) ? bisect(c.g.dry_bulb_min_c(), t_lab, below)
+                                        : c.g.dry_bulb_min_c();
   // Off any vertical line (a dry-bulb limit, the mixed-air target) that would hide them.
   for (int tries = 0; tries < 8; ++tries) {
     bool clash = false;
@@ -489,7 +505,8 @@ void draw_rh(Ctx& c, const std::vector<double>& verticals) {
   std::string labels;
   for (int k = 1; k <= 9; ++k) {
     const double rh = k / 10.0;
-    for (const auto& run : clip(rh_curve(c.g, c.psy, rh), c.g)) c.out += fmt::format("<path d=\"{}\"/>\n", path_d(to_px(run, c.g)));
+    for (const auto& run : clip(rh_curve(c.g, c.psy, rh), c.g))
+      c.out += fmt::format("<path d=\"{}\"/>\n", path_d(to_px(run, c.g)));
     const double w_lab = psychro::humidity_ratio_from_relative_humidity(t_lab, rh, c.psy.p);
     if (w_lab < c.g.humidity_ratio_max())
       labels += text(c.g.x(t_lab), c.g.y(w_lab) - 3, fmt::format("{}%", k * 10),
@@ -505,7 +522,10 @@ void draw_enthalpy(Ctx& c) {
   auto h_si = [&](double d) { return ip ? units::enthalpy_si_from_ip(d) : d; };
   const double lo = h_disp(psychro::enthalpy_kj_per_kg(g.dry_bulb_min_c(), 0.0));
   const double hi = h_disp(psychro::enthalpy_kj_per_kg(g.dry_bulb_max_c(), g.humidity_ratio_max()));
-  c.out += fmt::format("<g class=\"enthalpy\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.7\" stroke-opacity=\"0.8\">\n", kEnthalpy);
+  c.out += fmt::format(
+      "<g class=\"enthalpy\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.7\" "
+      "stroke-opacity=\"0.8\">\n",
+      kEnthalpy);
   std::string labels;
   for (double d = std::ceil(lo / c.ax.h_step) * c.ax.h_step; d <= hi; d += c.ax.h_step) {
     const Curve line = enthalpy_curve(g, c.psy, h_si(d));
@@ -515,8 +535,10 @@ void draw_enthalpy(Ctx& c) {
     const bool on_curve = std::fabs(start.humidity_ratio - c.psy.w_sat(start.dry_bulb_c)) < 1e-6;
     const bool on_top = start.humidity_ratio >= g.humidity_ratio_max() - 1e-12;
     if (!on_curve && !on_top) continue;
-    labels += text(g.x(start.dry_bulb_c) - 3, g.y(start.humidity_ratio) - 4, fmt::format("{:.0f}", d),
-                   fmt::format("font-size=\"9.5\" fill=\"{}\" text-anchor=\"end\" font-style=\"italic\"", "#8a5f22"));
+    labels +=
+        text(g.x(start.dry_bulb_c) - 3, g.y(start.humidity_ratio) - 4, fmt::format("{:.0f}", d),
+             fmt::format("font-size=\"9.5\" fill=\"{}\" text-anchor=\"end\" font-style=\"italic\"",
+                         "#8a5f22"));
   }
   c.out += "</g>\n<g class=\"enthalpy-labels\">\n" + labels + "</g>\n";
 }
@@ -525,7 +547,8 @@ void draw_wet_bulb(Ctx& c) {
   const auto& g = c.g;
   const double d0 = t_disp(g.dry_bulb_min_c(), c.s), d1 = t_disp(g.dry_bulb_max_c(), c.s);
   c.out += fmt::format(
-      "<g class=\"wet-bulb\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.9\" stroke-dasharray=\"1.2 2.8\" "
+      "<g class=\"wet-bulb\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.9\" "
+      "stroke-dasharray=\"1.2 2.8\" "
       "stroke-linecap=\"round\">\n",
       kWetBulb);
   std::string labels;
@@ -533,10 +556,13 @@ void draw_wet_bulb(Ctx& c) {
     const double wb = t_si(d, c.s);
     const Curve line = wet_bulb_curve(g, c.psy, wb);
     for (const auto& run : clip(line, g)) {
-      c.out += fmt::format("<path data-wet-bulb=\"{}\" d=\"{}\"/>\n", num(d), path_d(to_px(run, g)));
-      if (std::fabs(run.front().dry_bulb_c - wb) < 1e-9 && run.front().humidity_ratio < g.humidity_ratio_max())
-        labels += text(g.x(wb) + 4, g.y(run.front().humidity_ratio) + 11, fmt::format("wb {:.0f}", d),
-                       fmt::format("font-size=\"8.5\" fill=\"{}\"", "#3f6f61"), true);
+      c.out +=
+          fmt::format("<path data-wet-bulb=\"{}\" d=\"{}\"/>\n", num(d), path_d(to_px(run, g)));
+      if (std::fabs(run.front().dry_bulb_c - wb) < 1e-9 &&
+          run.front().humidity_ratio < g.humidity_ratio_max())
+        labels +=
+            text(g.x(wb) + 4, g.y(run.front().humidity_ratio) + 11, fmt::format("wb {:.0f}", d),
+                 fmt::format("font-size=\"8.5\" fill=\"{}\"", "#3f6f61"), true);
     }
   }
   c.out += "</g>\n<g class=\"wet-bulb-labels\">\n" + labels + "</g>\n";
@@ -612,13 +638,15 @@ OverlaySummary draw_climate(Ctx& c) {
     const double x1 = c.g.x(t_si((k.first + 1) * bin.dry_bulb, c.s));
     const double y0 = c.g.y((k.second + 1) * bin.humidity_ratio / c.ax.w_per_kgkg);
     const double y1 = c.g.y(k.second * bin.humidity_ratio / c.ax.w_per_kgkg);
-    c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"{}\" fill-opacity=\"{:.3f}\"/>\n",
-                         num(x0), num(y0), num(x1 - x0), num(y1 - y0), kOutcomes[dom].colour,
-                         cell_opacity(total, sum.max_cell));
+    c.out += fmt::format(
+        "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"{}\" "
+        "fill-opacity=\"{:.3f}\"/>\n",
+        num(x0), num(y0), num(x1 - x0), num(y1 - y0), kOutcomes[dom].colour,
+        cell_opacity(total, sum.max_cell));
     // A cell where another outcome holds a fifth of the hours or more carries a dot of it.
     if (t.hours[second] >= 0.2 * total)
-      mixed += fmt::format("<circle cx=\"{}\" cy=\"{}\" r=\"1.8\" fill=\"{}\"/>\n", num(0.5 * (x0 + x1)),
-                           num(0.5 * (y0 + y1)), kOutcomes[second].colour);
+      mixed += fmt::format("<circle cx=\"{}\" cy=\"{}\" r=\"1.8\" fill=\"{}\"/>\n",
+                           num(0.5 * (x0 + x1)), num(0.5 * (y0 + y1)), kOutcomes[second].colour);
   }
   c.out += "</g>\n<g class=\"climate-mixed\">\n" + mixed + "</g>\n";
   return sum;
@@ -626,9 +654,10 @@ OverlaySummary draw_climate(Ctx& c) {
 
 void draw_saturation(Ctx& c) {
   for (const auto& run : clip(saturation_curve(c.g, c.psy), c.g))
-    c.out += fmt::format("<path id=\"saturation\" class=\"saturation\" d=\"{}\" fill=\"none\" stroke=\"{}\" "
-                         "stroke-width=\"2.4\" stroke-linejoin=\"round\"/>\n",
-                         path_d(to_px(run, c.g)), kInk);
+    c.out += fmt::format(
+        "<path id=\"saturation\" class=\"saturation\" d=\"{}\" fill=\"none\" stroke=\"{}\" "
+        "stroke-width=\"2.4\" stroke-linejoin=\"round\"/>\n",
+        path_d(to_px(run, c.g)), kInk);
 }
 
 std::string fmt_t(double c, System s) { return units::format(units::Kind::temperature, s, c, 1); }
@@ -638,12 +667,14 @@ void draw_target(Ctx& c) {
   if (t < c.g.dry_bulb_min_c() || t > c.g.dry_bulb_max_c()) return;
   const double top = std::min(c.psy.w_sat(t), c.g.humidity_ratio_max());
   const double x = c.g.x(t);
-  c.out += fmt::format("<path class=\"mixed-air-target\" d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"1.4\" "
-                       "stroke-dasharray=\"6 3 1.5 3\" fill=\"none\"/>\n",
-                       num(x), num(c.g.y(0)), num(x), num(c.g.y(top)), kTarget);
-  c.out += fmt::format("<text transform=\"translate({} {}) rotate(-90)\" font-size=\"10\" fill=\"{}\" stroke=\"{}\" "
-                       "stroke-width=\"3\" paint-order=\"stroke\">mixed-air target {}</text>\n",
-                       num(x - 4), num(c.g.y(0) - 8), kTarget, kPaper, esc(fmt_t(t, c.s)));
+  c.out += fmt::format(
+      "<path class=\"mixed-air-target\" d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"1.4\" "
+      "stroke-dasharray=\"6 3 1.5 3\" fill=\"none\"/>\n",
+      num(x), num(c.g.y(0)), num(x), num(c.g.y(top)), kTarget);
+  c.out += fmt::format(
+      "<text transform=\"translate({} {}) rotate(-90)\" font-size=\"10\" fill=\"{}\" stroke=\"{}\" "
+      "stroke-width=\"3\" paint-order=\"stroke\">mixed-air target {}</text>\n",
+      num(x - 4), num(c.g.y(0) - 8), kTarget, kPaper, esc(fmt_t(t, c.s)));
 }
 
 // Boxes the badges and labels keep clear of, in SVG units.
@@ -671,7 +702,8 @@ Box label_box(double x, double y, double dx, double dy, const std::string& label
 }
 
 std::string state_text(const ChartPoint& p, double pressure, System s) {
-  const double rh = psychro::relative_humidity_from_humidity_ratio(p.dry_bulb_c, p.humidity_ratio, pressure);
+  const double rh =
+      psychro::relative_humidity_from_humidity_ratio(p.dry_bulb_c, p.humidity_ratio, pressure);
   return fmt::format("{}, {:.0f}% RH", fmt_t(p.dry_bulb_c, s), 100.0 * rh);
 }
 
@@ -681,15 +713,21 @@ std::vector<Mark> layout_marks(const Ctx& c, std::vector<Box>& taken) {
   std::vector<Mark> marks;
   if (c.in.check) {
     const auto& k = *c.in.check;
-    marks.push_back({k.outdoor, "circle", "#b03a2e", "outdoor", "outdoor " + state_text(k.outdoor, c.psy.p, c.s)});
-    marks.push_back({k.ret, "diamond", kInk, "return-air", "return " + state_text(k.ret, c.psy.p, c.s)});
+    marks.push_back({k.outdoor, "circle", "#b03a2e", "outdoor",
+                     "outdoor " + state_text(k.outdoor, c.psy.p, c.s)});
+    marks.push_back(
+        {k.ret, "diamond", kInk, "return-air", "return " + state_text(k.ret, c.psy.p, c.s)});
     marks.push_back({k.mixed, "square", "#1d6b52", "mixed-air",
-                     fmt::format("mixed {} ({:.0f}% outdoor air)", fmt_t(k.mixed.dry_bulb_c, c.s), 100.0 * k.oa_fraction)});
+                     fmt::format("mixed {} ({:.0f}% outdoor air)", fmt_t(k.mixed.dry_bulb_c, c.s),
+                                 100.0 * k.oa_fraction)});
   } else {
-    marks.push_back({c.in.return_air, "diamond", kInk, "return-air", "return air " + state_text(c.in.return_air, c.psy.p, c.s)});
+    marks.push_back({c.in.return_air, "diamond", kInk, "return-air",
+                     "return air " + state_text(c.in.return_air, c.psy.p, c.s)});
   }
-  for (const auto& m : marks) taken.push_back(around(c.g.x(m.p.dry_bulb_c), c.g.y(m.p.humidity_ratio), 8));
-  constexpr std::pair<double, double> kPlaces[] = {{10, 18}, {10, -9}, {-10, -9}, {-10, 18}, {10, 32}, {-10, 32}};
+  for (const auto& m : marks)
+    taken.push_back(around(c.g.x(m.p.dry_bulb_c), c.g.y(m.p.humidity_ratio), 8));
+  constexpr std::pair<double, double> kPlaces[] = {{10, 18},  {10, -9}, {-10, -9},
+                                                   {-10, 18}, {10, 32}, {-10, 32}};
   for (auto& m : marks) {
     const double x = c.g.x(m.p.dry_bulb_c), y = c.g.y(m.p.humidity_ratio);
     for (const auto& [dx, dy] : kPlaces) {
@@ -702,7 +740,8 @@ std::vector<Mark> layout_marks(const Ctx& c, std::vector<Box>& taken) {
   return marks;
 }
 
-void draw_boundaries(Ctx& c, const std::vector<Boundary>& bs, std::vector<bool>& drawn, std::vector<Box>& taken) {
+void draw_boundaries(Ctx& c, const std::vector<Boundary>& bs, std::vector<bool>& drawn,
+                     std::vector<Box>& taken) {
   // Lines several strategies share are drawn as interleaved dashes so each stays visible.
   std::map<std::pair<int, long long>, std::vector<std::size_t>> shared;
   auto group_key = [](const Boundary& b) {
@@ -724,22 +763,24 @@ void draw_boundaries(Ctx& c, const std::vector<Boundary>& bs, std::vector<bool>&
     const auto& cond = st.conditions[b.condition];
     const auto& group = shared[group_key(b)];
     const std::size_t k = group.size();
-    const std::size_t pos = static_cast<std::size_t>(std::find(group.begin(), group.end(), b.strategy) - group.begin());
+    const std::size_t pos =
+        static_cast<std::size_t>(std::find(group.begin(), group.end(), b.strategy) - group.begin());
     std::string dash;
     if (k > 1) {
       constexpr double kDash = 9.0;
-      dash = fmt::format(" stroke-dasharray=\"{} {}\" stroke-dashoffset=\"{}\"", num(kDash), num(kDash * (k - 1)),
-                         num(-kDash * pos));
+      dash = fmt::format(" stroke-dasharray=\"{} {}\" stroke-dashoffset=\"{}\"", num(kDash),
+                         num(kDash * (k - 1)), num(-kDash * pos));
     }
     const std::string_view colour = strategy_colour(b.strategy);
     for (const auto& run : b.runs) {
       const auto pts = to_px(simplified(run, b.family), c.g);
       casing += fmt::format("<path d=\"{}\"/>\n", path_d(pts));
       c.out += fmt::format(
-          "<path class=\"boundary\" data-strategy=\"{}\" data-quantity=\"{}\" data-reference=\"{}\" data-line-si=\"{}\" "
+          "<path class=\"boundary\" data-strategy=\"{}\" data-quantity=\"{}\" "
+          "data-reference=\"{}\" data-line-si=\"{}\" "
           "d=\"{}\" stroke=\"{}\"{}/>\n",
-          esc(st.name), quantity_attr(cond.quantity), highlimit::reference_name(cond.reference), fmt::format("{:.8g}", b.key),
-          path_d(pts), colour, dash);
+          esc(st.name), quantity_attr(cond.quantity), highlimit::reference_name(cond.reference),
+          fmt::format("{:.8g}", b.key), path_d(pts), colour, dash);
       // Badge just above the upper end of the run, or the nearest place around it that is
       // clear of the marks, labels and badges already placed.
       const Px top = pts.front().y < pts.back().y ? pts.front() : pts.back();
@@ -747,7 +788,8 @@ void draw_boundaries(Ctx& c, const std::vector<Boundary>& bs, std::vector<bool>&
       for (int ring = 0; ring < 6; ++ring) {
         bool found = false;
         for (double sx : {0.0, -1.0, 1.0}) {
-          const Px cand{top.x + sx * 17.0 * (ring + (sx != 0.0 ? 1 : 0)), std::max(top.y - 12 - 17.0 * ring, c.g.area().top - 6.0)};
+          const Px cand{top.x + sx * 17.0 * (ring + (sx != 0.0 ? 1 : 0)),
+                        std::max(top.y - 12 - 17.0 * ring, c.g.area().top - 6.0)};
           if (clear_of(around(cand.x, cand.y, 8.5), taken)) {
             bd = cand;
             found = true;
@@ -758,7 +800,8 @@ void draw_boundaries(Ctx& c, const std::vector<Boundary>& bs, std::vector<bool>&
       }
       taken.push_back(around(bd.x, bd.y, 8.5));
       badges += fmt::format(
-          "<g class=\"badge\"><circle cx=\"{}\" cy=\"{}\" r=\"7.5\" fill=\"{}\" stroke=\"{}\" stroke-width=\"1.5\"/>"
+          "<g class=\"badge\"><circle cx=\"{}\" cy=\"{}\" r=\"7.5\" fill=\"{}\" stroke=\"{}\" "
+          "stroke-width=\"1.5\"/>"
           "<text x=\"{}\" y=\"{}\" font-size=\"9.5\" font-weight=\"bold\" fill=\"#ffffff\" "
           "text-anchor=\"middle\">{}</text></g>\n",
           num(bd.x), num(bd.y), colour, kPaper, num(bd.x), num(bd.y + 3.4), b.strategy + 1);
@@ -766,9 +809,11 @@ void draw_boundaries(Ctx& c, const std::vector<Boundary>& bs, std::vector<bool>&
   }
   c.out += "</g>\n<g class=\"badges\">\n" + badges + "</g>\n";
   // Paper-coloured casing under every high-limit line, so each reads over the cells.
-  c.out.insert(casing_at, fmt::format("<g class=\"high-limit-casing\" fill=\"none\" stroke=\"{}\" stroke-width=\"5\" "
-                                      "stroke-opacity=\"0.9\">\n{}</g>\n",
-                                      kPaper, casing));
+  c.out.insert(
+      casing_at,
+      fmt::format("<g class=\"high-limit-casing\" fill=\"none\" stroke=\"{}\" stroke-width=\"5\" "
+                  "stroke-opacity=\"0.9\">\n{}</g>\n",
+                  kPaper, casing));
 }
 
 void draw_marks(Ctx& c, const std::vector<Mark>& marks) {
@@ -776,23 +821,32 @@ void draw_marks(Ctx& c, const std::vector<Mark>& marks) {
     const auto& k = *c.in.check;
     const std::vector<Px> mix = {{c.g.x(k.outdoor.dry_bulb_c), c.g.y(k.outdoor.humidity_ratio)},
                                  {c.g.x(k.ret.dry_bulb_c), c.g.y(k.ret.humidity_ratio)}};
-    c.out += fmt::format("<path class=\"mixing-line\" d=\"{}\" stroke=\"{}\" stroke-width=\"1.3\" fill=\"none\"/>\n",
-                         path_d(mix), kInkSoft);
+    c.out += fmt::format(
+        "<path class=\"mixing-line\" d=\"{}\" stroke=\"{}\" stroke-width=\"1.3\" fill=\"none\"/>\n",
+        path_d(mix), kInkSoft);
   }
   for (const auto& m : marks) {
     const double x = c.g.x(m.p.dry_bulb_c), y = c.g.y(m.p.humidity_ratio);
     if (m.shape == "diamond")
-      c.out += fmt::format("<path class=\"{}\" d=\"M{} {} L{} {} L{} {} L{} {} Z\" fill=\"{}\" stroke=\"{}\" stroke-width=\"1.5\"/>\n",
-                           m.cls, num(x), num(y - 7), num(x + 7), num(y), num(x), num(y + 7), num(x - 7), num(y), m.fill, kPaper);
+      c.out += fmt::format(
+          "<path class=\"{}\" d=\"M{} {} L{} {} L{} {} L{} {} Z\" fill=\"{}\" stroke=\"{}\" "
+          "stroke-width=\"1.5\"/>\n",
+          m.cls, num(x), num(y - 7), num(x + 7), num(y), num(x), num(y + 7), num(x - 7), num(y),
+          m.fill, kPaper);
     else if (m.shape == "square")
-      c.out += fmt::format("<rect class=\"{}\" x=\"{}\" y=\"{}\" width=\"11\" height=\"11\" fill=\"{}\" stroke=\"{}\" "
-                           "stroke-width=\"1.5\"/>\n",
-                           m.cls, num(x - 5.5), num(y - 5.5), m.fill, kPaper);
+      c.out += fmt::format(
+          "<rect class=\"{}\" x=\"{}\" y=\"{}\" width=\"11\" height=\"11\" fill=\"{}\" "
+          "stroke=\"{}\" "
+          "stroke-width=\"1.5\"/>\n",
+          m.cls, num(x - 5.5), num(y - 5.5), m.fill, kPaper);
     else
-      c.out += fmt::format("<circle class=\"{}\" cx=\"{}\" cy=\"{}\" r=\"6\" fill=\"{}\" stroke=\"{}\" stroke-width=\"1.5\"/>\n",
-                           m.cls, num(x), num(y), m.fill, kPaper);
+      c.out += fmt::format(
+          "<circle class=\"{}\" cx=\"{}\" cy=\"{}\" r=\"6\" fill=\"{}\" stroke=\"{}\" "
+          "stroke-width=\"1.5\"/>\n",
+          m.cls, num(x), num(y), m.fill, kPaper);
     c.out += text(x + m.dx, y + m.dy, m.label,
-                  fmt::format("font-size=\"10.5\" font-weight=\"bold\" fill=\"{}\"{}", m.fill, m.dx < 0 ? " text-anchor=\"end\"" : ""),
+                  fmt::format("font-size=\"10.5\" font-weight=\"bold\" fill=\"{}\"{}", m.fill,
+                              m.dx < 0 ? " text-anchor=\"end\"" : ""),
                   true);
   }
 }
@@ -806,42 +860,54 @@ void draw_axes(Ctx& c) {
   const auto& a = c.g.area();
   const double bottom = a.top + a.height, right = a.left + a.width;
   c.out += fmt::format("<g class=\"axes\" stroke=\"{}\" stroke-width=\"1\">\n", kInk);
-  c.out += fmt::format("<path d=\"M{} {} L{} {} L{} {}\" fill=\"none\"/>\n", num(a.left), num(bottom), num(right),
-                       num(bottom), num(right), num(a.top));
+  c.out += fmt::format("<path d=\"M{} {} L{} {} L{} {}\" fill=\"none\"/>\n", num(a.left),
+                       num(bottom), num(right), num(bottom), num(right), num(a.top));
   std::string labels;
   const double d0 = t_disp(c.g.dry_bulb_min_c(), c.s), d1 = t_disp(c.g.dry_bulb_max_c(), c.s);
-  for (double d = std::ceil(d0 / c.ax.t_major - 1e-9) * c.ax.t_major; d <= d1 + 1e-9; d += c.ax.t_major) {
+  for (double d = std::ceil(d0 / c.ax.t_major - 1e-9) * c.ax.t_major; d <= d1 + 1e-9;
+       d += c.ax.t_major) {
     const double x = c.g.x(t_si(d, c.s));
-    c.out += fmt::format("<path d=\"M{} {} L{} {}\"/>\n", num(x), num(bottom), num(x), num(bottom + 5));
-    labels += text(x, bottom + 17, tick_label(d), fmt::format("font-size=\"11\" fill=\"{}\" text-anchor=\"middle\"", kInk));
+    c.out +=
+        fmt::format("<path d=\"M{} {} L{} {}\"/>\n", num(x), num(bottom), num(x), num(bottom + 5));
+    labels += text(x, bottom + 17, tick_label(d),
+                   fmt::format("font-size=\"11\" fill=\"{}\" text-anchor=\"middle\"", kInk));
   }
   const double wd1 = c.g.humidity_ratio_max() * c.ax.w_per_kgkg;
   for (double d = 0; d <= wd1 + 1e-9; d += c.ax.w_major) {
     const double y = c.g.y(w_of_display(c, d));
-    c.out += fmt::format("<path d=\"M{} {} L{} {}\"/>\n", num(right), num(y), num(right + 5), num(y));
-    labels += text(right + 8, y + 4, tick_label(d), fmt::format("font-size=\"11\" fill=\"{}\"", kInk));
+    c.out +=
+        fmt::format("<path d=\"M{} {} L{} {}\"/>\n", num(right), num(y), num(right + 5), num(y));
+    labels +=
+        text(right + 8, y + 4, tick_label(d), fmt::format("font-size=\"11\" fill=\"{}\"", kInk));
   }
   c.out += "</g>\n";
   c.out += labels;
-  const std::string axis_attr = fmt::format("font-size=\"10.5\" fill=\"{}\" letter-spacing=\"1.2\"", kInkSoft);
+  const std::string axis_attr =
+      fmt::format("font-size=\"10.5\" fill=\"{}\" letter-spacing=\"1.2\"", kInkSoft);
   c.out += text(a.left + a.width / 2, bottom + 36, fmt::format("DRY-BULB {}", t_unit(c.s)),
                 axis_attr + " text-anchor=\"middle\"");
-  c.out += fmt::format("<text transform=\"translate({} {}) rotate(90)\" {} text-anchor=\"middle\">{}</text>\n",
-                       num(kWidth - 20), num(a.top + a.height / 2), axis_attr,
-                       esc(fmt::format("HUMIDITY RATIO {} DRY AIR", c.s == System::ip ? "GRAINS PER LB" : "G PER KG")));
+  c.out += fmt::format(
+      "<text transform=\"translate({} {}) rotate(90)\" {} text-anchor=\"middle\">{}</text>\n",
+      num(kWidth - 20), num(a.top + a.height / 2), axis_attr,
+      esc(fmt::format("HUMIDITY RATIO {} DRY AIR",
+                      c.s == System::ip ? "GRAINS PER LB" : "G PER KG")));
 }
 
 void draw_title(Ctx& c) {
-  const std::string pressure = units::format(units::Kind::pressure, c.s, c.in.pressure_kpa, c.s == System::ip ? 3 : 2);
+  const std::string pressure =
+      units::format(units::Kind::pressure, c.s, c.in.pressure_kpa, c.s == System::ip ? 3 : 2);
   c.out += text(kPlot.left, 30, fmt::format("Psychrometric chart at {}", pressure),
                 fmt::format("font-size=\"19\" font-weight=\"bold\" fill=\"{}\"", kInk));
   std::string sub = c.in.pressure_basis;
   if (!c.in.title.empty()) sub = c.in.title + (sub.empty() ? "" : " — " + sub);
-  if (!sub.empty()) c.out += text(kPlot.left, 50, sub, fmt::format("font-size=\"12\" fill=\"{}\"", kInkSoft));
+  if (!sub.empty())
+    c.out += text(kPlot.left, 50, sub, fmt::format("font-size=\"12\" fill=\"{}\"", kInkSoft));
   if (!c.in.climate_label.empty())
-    c.out += text(kPlot.left, 66, "Occupied hours: " + c.in.climate_label, fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
+    c.out += text(kPlot.left, 66, "Occupied hours: " + c.in.climate_label,
+                  fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
   else if (c.in.check)
-    c.out += text(kPlot.left, 66, "Checked point — " + c.in.check->note, fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
+    c.out += text(kPlot.left, 66, "Checked point — " + c.in.check->note,
+                  fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
 }
 
 std::string hours_text(double h) { return fmt::format("{:.0f} h", h); }
@@ -849,22 +915,28 @@ std::string hours_text(double h) { return fmt::format("{:.0f} h", h); }
 // The legend under the plot; returns the height used.
 double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const OverlaySummary& ov) {
   const double x = kPlot.left;
-  const std::string head = fmt::format("font-size=\"10\" font-weight=\"bold\" fill=\"{}\" letter-spacing=\"1.1\"", kInkSoft);
+  const std::string head = fmt::format(
+      "font-size=\"10\" font-weight=\"bold\" fill=\"{}\" letter-spacing=\"1.1\"", kInkSoft);
   const std::string body = fmt::format("font-size=\"11\" fill=\"{}\"", kInk);
   const double y0 = y;
   c.out += "<g class=\"legend\">\n";
   if (!c.in.strategies.empty()) {
-    c.out += text(x, y, "HIGH-LIMITS — the economizer may run on the cooler, drier side of each line", head);
+    c.out += text(
+        x, y, "HIGH-LIMITS — the economizer may run on the cooler, drier side of each line", head);
     y += 18;
     for (std::size_t i = 0; i < c.in.strategies.size(); ++i) {
       const auto& st = c.in.strategies[i];
       const std::string_view colour = strategy_colour(i);
-      c.out += fmt::format("<circle cx=\"{}\" cy=\"{}\" r=\"7.5\" fill=\"{}\"/>", num(x + 8), num(y - 4), colour);
-      c.out += text(x + 8, y - 0.6, std::to_string(i + 1), "font-size=\"9.5\" font-weight=\"bold\" fill=\"#ffffff\" text-anchor=\"middle\"");
-      c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"2.2\"/>\n", num(x + 22), num(y - 4),
-                           num(x + 46), num(y - 4), colour);
+      c.out += fmt::format("<circle cx=\"{}\" cy=\"{}\" r=\"7.5\" fill=\"{}\"/>", num(x + 8),
+                           num(y - 4), colour);
+      c.out +=
+          text(x + 8, y - 0.6, std::to_string(i + 1),
+               "font-size=\"9.5\" font-weight=\"bold\" fill=\"#ffffff\" text-anchor=\"middle\"");
+      c.out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"2.2\"/>\n",
+                           num(x + 22), num(y - 4), num(x + 46), num(y - 4), colour);
       std::string line = st.name + " — " +
-                         (st.conditions.empty() ? std::string("no high-limit: always permitted") : describe_strategy(st, c.s));
+                         (st.conditions.empty() ? std::string("no high-limit: always permitted")
+                                                : describe_strategy(st, c.s));
       if (!drawn[i] && !st.conditions.empty()) line += " (its limits lie outside this chart)";
       const auto lines = wrap(line, 118);
       for (std::size_t l = 0; l < lines.size(); ++l) {
@@ -877,13 +949,18 @@ double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const Overl
   }
   if (!c.in.climate.empty()) {
     const double total = ov.hours[0] + ov.hours[1] + ov.hours[2];
-    c.out += text(x, y, fmt::format("OCCUPIED HOURS BY WHAT THE PERFECT CHANGEOVER DOES — {} in all", hours_text(total)), head);
+    c.out += text(x, y,
+                  fmt::format("OCCUPIED HOURS BY WHAT THE PERFECT CHANGEOVER DOES — {} in all",
+                              hours_text(total)),
+                  head);
     y += 20;
     double cx = x;
     for (const auto& o : kOutcomes) {
       const double h = ov.hours[static_cast<std::size_t>(o.outcome)];
-      c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"14\" fill=\"{}\" fill-opacity=\"0.85\"/>\n", num(cx),
-                           num(y - 11), o.colour);
+      c.out += fmt::format(
+          "<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"14\" fill=\"{}\" "
+          "fill-opacity=\"0.85\"/>\n",
+          num(cx), num(y - 11), o.colour);
       const std::string label = fmt::format("{} {}", o.name, hours_text(h));
       c.out += text(cx + 20, y, label, body);
       cx += 34 + 6.6 * static_cast<double>(label.size());
@@ -891,31 +968,40 @@ double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const Overl
     y += 20;
     // Density key: four cells from one hour to the fullest cell.
     const BinSize bin = ov.bin;
-    const std::string cell = fmt::format("one cell = {} {} × {} {}", tick_label(bin.dry_bulb), t_unit(c.s),
-                                         tick_label(bin.humidity_ratio), c.ax.w_unit);
+    const std::string cell = fmt::format("one cell = {} {} × {} {}", tick_label(bin.dry_bulb),
+                                         t_unit(c.s), tick_label(bin.humidity_ratio), c.ax.w_unit);
     const double qs[] = {std::min(1.0, ov.max_cell), ov.max_cell / 4, ov.max_cell / 2, ov.max_cell};
     double kx = x;
     for (double q : qs) {
-      c.out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"14\" fill=\"{}\" fill-opacity=\"{:.3f}\"/>\n", num(kx),
-                           num(y - 11), kOutcomes[0].colour, cell_opacity(q, ov.max_cell));
+      c.out += fmt::format(
+          "<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"14\" fill=\"{}\" "
+          "fill-opacity=\"{:.3f}\"/>\n",
+          num(kx), num(y - 11), kOutcomes[0].colour, cell_opacity(q, ov.max_cell));
       kx += 16;
     }
-    c.out += text(kx + 6, y, fmt::format("{}; shade from 1 h to {} in a cell; a dot marks a cell where another outcome holds a "
-                                         "fifth of the hours or more",
-                                         cell, hours_text(ov.max_cell)),
-                  body);
+    c.out += text(
+        kx + 6, y,
+        fmt::format(
+            "{}; shade from 1 h to {} in a cell; a dot marks a cell where another outcome holds a "
+            "fifth of the hours or more",
+            cell, hours_text(ov.max_cell)),
+        body);
     y += 24;
   }
   c.out += text(x, y, "LINES AND MARKS", head);
   y += 18;
-  const std::string h_unit = c.s == System::ip ? "Btu/lb (0 °F dry-air datum)" : "kJ/kg (0 °C dry-air datum)";
+  const std::string h_unit =
+      c.s == System::ip ? "Btu/lb (0 °F dry-air datum)" : "kJ/kg (0 °C dry-air datum)";
   const std::string lines[] = {
-      fmt::format("relative humidity every 10 %; enthalpy every {} {} labelled above the saturation curve; wet-bulb every {} {} (dotted)",
+      fmt::format("relative humidity every 10 %; enthalpy every {} {} labelled above the "
+                  "saturation curve; wet-bulb every {} {} (dotted)",
                   tick_label(c.ax.h_step), h_unit, tick_label(c.ax.wb_step), t_unit(c.s)),
-      c.in.check ? "outdoor (circle), return (diamond) and mixed air (square) of the checked point, on their mixing line; " +
+      c.in.check ? "outdoor (circle), return (diamond) and mixed air (square) of the checked "
+                   "point, on their mixing line; " +
                        c.in.check->note
                  : "return air (diamond): the state differential high-limits compare with",
-      fmt::format("mixed-air target {} (dash-dot): supply setpoint less fan heat", fmt_t(c.in.mixed_air_target_c, c.s)),
+      fmt::format("mixed-air target {} (dash-dot): supply setpoint less fan heat",
+                  fmt_t(c.in.mixed_air_target_c, c.s)),
   };
   for (const auto& l : lines) {
     c.out += text(x, y, l, body);
@@ -931,27 +1017,38 @@ double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const Overl
 
 ChartGeometry::ChartGeometry(double t0, double t1, double wmax, PlotArea area)
     : t_min_(t0), t_max_(t1), w_max_(wmax), area_(area) {
-  if (!std::isfinite(t0) || !std::isfinite(t1) || !std::isfinite(wmax) || !(t1 > t0) || !(wmax > 0) ||
-      !(area.width > 0) || !(area.height > 0))
+  if (!std::isfinite(t0) || !std::isfinite(t1) || !std::isfinite(wmax) || !(t1 > t0) ||
+      !(wmax > 0) || !(area.width > 0) || !(area.height > 0))
     throw std::invalid_argument("ChartGeometry: empty or non-finite range");
 }
 
-double ChartGeometry::x(double t) const { return area_.left + (t - t_min_) / (t_max_ - t_min_) * area_.width; }
-double ChartGeometry::y(double w) const { return area_.top + area_.height - w / w_max_ * area_.height; }
-double ChartGeometry::dry_bulb_c(double x) const { return t_min_ + (x - area_.left) / area_.width * (t_max_ - t_min_); }
-double ChartGeometry::humidity_ratio(double y) const { return (area_.top + area_.height - y) / area_.height * w_max_; }
+double ChartGeometry::x(double t) const {
+  return area_.left + (t - t_min_) / (t_max_ - t_min_) * area_.width;
+}
+double ChartGeometry::y(double w) const {
+  return area_.top + area_.height - w / w_max_ * area_.height;
+}
+double ChartGeometry::dry_bulb_c(double x) const {
+  return t_min_ + (x - area_.left) / area_.width * (t_max_ - t_min_);
+}
+double ChartGeometry::humidity_ratio(double y) const {
+  return (area_.top + area_.height - y) / area_.height * w_max_;
+}
 
-std::string_view hour_outcome_name(HourOutcome o) { return kOutcomes[static_cast<std::size_t>(o)].name; }
+std::string_view hour_outcome_name(HourOutcome o) {
+  return kOutcomes[static_cast<std::size_t>(o)].name;
+}
 
 std::vector<ClimateHour> climate_hours(const annual::Prepared& prepared) {
   std::vector<ClimateHour> out;
   out.reserve(prepared.intervals.size());
   for (const auto& iv : prepared.intervals) {
     if (!(iv.hours > 0.0)) continue;
-    const HourOutcome o = !iv.cooling_needed ? HourOutcome::no_cooling_needed
+    const HourOutcome o = !iv.cooling_needed   ? HourOutcome::no_cooling_needed
                           : iv.enabling_pays() ? HourOutcome::economize
                                                : HourOutcome::do_not_economize;
-    out.push_back({{iv.outdoor[Quantity::dry_bulb], iv.outdoor[Quantity::humidity_ratio]}, iv.hours, o});
+    out.push_back(
+        {{iv.outdoor[Quantity::dry_bulb], iv.outdoor[Quantity::humidity_ratio]}, iv.hours, o});
   }
   return out;
 }
@@ -959,20 +1056,24 @@ std::vector<ClimateHour> climate_hours(const annual::Prepared& prepared) {
 BinSize overlay_bin_size(std::span<const ClimateHour> climate, System s) {
   const AxisStyle& ax = axis_style(s);
   BinSize bin = ax.bin;
-  for (int k = 0; k < 2 && stripe_share(climate, bin.dry_bulb, [&](const ClimateHour& h) {
-                             return t_disp(h.outdoor.dry_bulb_c, s);
-                           }) > kStripeShare;
+  for (int k = 0; k < 2 && stripe_share(climate, bin.dry_bulb,
+                                        [&](const ClimateHour& h) {
+                                          return t_disp(h.outdoor.dry_bulb_c, s);
+                                        }) > kStripeShare;
        ++k)
     bin.dry_bulb *= 2;
-  for (int k = 0; k < 2 && stripe_share(climate, bin.humidity_ratio, [&](const ClimateHour& h) {
-                             return h.outdoor.humidity_ratio * ax.w_per_kgkg;
-                           }) > kStripeShare;
+  for (int k = 0; k < 2 && stripe_share(climate, bin.humidity_ratio,
+                                        [&](const ClimateHour& h) {
+                                          return h.outdoor.humidity_ratio * ax.w_per_kgkg;
+                                        }) > kStripeShare;
        ++k)
     bin.humidity_ratio *= 2;
   return bin;
 }
 
-std::string_view strategy_colour(std::size_t i) { return kStrategyColours[i % std::size(kStrategyColours)]; }
+std::string_view strategy_colour(std::size_t i) {
+  return kStrategyColours[i % std::size(kStrategyColours)];
+}
 
 ChartGeometry chart_geometry(const ChartInput& in) {
   const AxisStyle& ax = axis_style(in.units);
@@ -1002,7 +1103,8 @@ ChartGeometry chart_geometry(const ChartInput& in) {
       const double lim = c.effective_limit(ret);
       if (c.quantity == Quantity::dry_bulb) take_t(lim);
       if (c.quantity == Quantity::dew_point && lim >= kLimitRangeMinC && lim <= kLimitRangeMaxC)
-        w_hi = std::max(w_hi, psychro::humidity_ratio_from_dew_point(lim, in.pressure_kpa) * ax.w_per_kgkg * 1.02);
+        w_hi = std::max(w_hi, psychro::humidity_ratio_from_dew_point(lim, in.pressure_kpa) *
+                                  ax.w_per_kgkg * 1.02);
     }
   t_lo = std::floor(t_lo / ax.t_major + 1e-9) * ax.t_major;
   t_hi = std::ceil(t_hi / ax.t_major - 1e-9) * ax.t_major;
@@ -1040,7 +1142,8 @@ std::string psychrometric_chart_svg(const ChartInput& in) {
   const double height = legend_top + legend_h + 14;
 
   const std::string pressure = units::format(units::Kind::pressure, in.units, in.pressure_kpa, 3);
-  return svg_open(height, "Psychrometric chart at " + pressure + " with high-limit boundaries") + c.out + "</svg>\n";
+  return svg_open(height, "Psychrometric chart at " + pressure + " with high-limit boundaries") +
+         c.out + "</svg>\n";
 }
 
 std::string monthly_hours_svg(const annual::YearResult& year, std::span<const std::string> order,
@@ -1081,15 +1184,21 @@ std::string monthly_hours_svg(const annual::YearResult& year, std::span<const st
   const double bottom = plot.top + plot.height;
   auto y_of = [&](double h) { return bottom - h / top_value * plot.height; };
   std::string out;
-  out += fmt::format("<rect x=\"0\" y=\"0\" width=\"{}\" height=\"100%\" fill=\"{}\"/>\n", num(kWidth), kPaper);
-  out += text(plot.left, 30, std::string(title), fmt::format("font-size=\"17\" font-weight=\"bold\" fill=\"{}\"", kInk));
-  out += text(plot.left, 48, "Bars: hours each strategy economizes. Dark step: hours the perfect changeover economizes.",
-              fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
+  out += fmt::format("<rect x=\"0\" y=\"0\" width=\"{}\" height=\"100%\" fill=\"{}\"/>\n",
+                     num(kWidth), kPaper);
+  out += text(plot.left, 30, std::string(title),
+              fmt::format("font-size=\"17\" font-weight=\"bold\" fill=\"{}\"", kInk));
+  out += text(
+      plot.left, 48,
+      "Bars: hours each strategy economizes. Dark step: hours the perfect changeover economizes.",
+      fmt::format("font-size=\"11\" fill=\"{}\"", kInkSoft));
   out += "<g class=\"grid\">\n";
   for (double v = 0; v <= top_value + 1e-9; v += step) {
-    out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n", num(plot.left), num(y_of(v)),
-                       num(plot.left + plot.width), num(y_of(v)), v == 0 ? kInk : kGridMajor, v == 0 ? "1" : "0.8");
-    out += text(plot.left - 6, y_of(v) + 4, tick_label(v), fmt::format("font-size=\"10.5\" fill=\"{}\" text-anchor=\"end\"", kInk));
+    out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"{}\"/>\n",
+                       num(plot.left), num(y_of(v)), num(plot.left + plot.width), num(y_of(v)),
+                       v == 0 ? kInk : kGridMajor, v == 0 ? "1" : "0.8");
+    out += text(plot.left - 6, y_of(v) + 4, tick_label(v),
+                fmt::format("font-size=\"10.5\" fill=\"{}\" text-anchor=\"end\"", kInk));
   }
   out += "</g>\n";
   const double group_w = plot.width / 12.0;
@@ -1102,21 +1211,28 @@ std::string monthly_hours_svg(const annual::YearResult& year, std::span<const st
       const auto& [ci, r] = rows[k];
       const double h = r->monthly[m].hours_economizing;
       const double y = y_of(h);
-      out += fmt::format("<rect class=\"bar\" data-strategy=\"{}\" data-month=\"{}\" data-hours=\"{}\" x=\"{}\" y=\"{}\" "
-                         "width=\"{}\" height=\"{}\" fill=\"{}\"><title>{}</title></rect>\n",
-                         esc(r->name), m + 1, num(h), num(gx + bar_w * static_cast<double>(k)), num(y),
-                         num(std::max(bar_w - 1.0, 0.5)), num(bottom - y), strategy_colour(ci),
-                         esc(fmt::format("{} {}: {:.0f} h", kMonths[m], r->name, h)));
+      out += fmt::format(
+          "<rect class=\"bar\" data-strategy=\"{}\" data-month=\"{}\" data-hours=\"{}\" x=\"{}\" "
+          "y=\"{}\" "
+          "width=\"{}\" height=\"{}\" fill=\"{}\"><title>{}</title></rect>\n",
+          esc(r->name), m + 1, num(h), num(gx + bar_w * static_cast<double>(k)), num(y),
+          num(std::max(bar_w - 1.0, 0.5)), num(bottom - y), strategy_colour(ci),
+          esc(fmt::format("{} {}: {:.0f} h", kMonths[m], r->name, h)));
     }
     const double ideal = year.perfect_changeover.monthly[m].hours_economizing;
-    out += fmt::format("<path class=\"ideal\" data-month=\"{}\" d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"2.5\"/>\n",
-                       m + 1, num(gx - 2), num(y_of(ideal)), num(gx + inner + 2), num(y_of(ideal)), kInk);
-    out += text(gx + inner / 2, bottom + 16, kMonths[m], fmt::format("font-size=\"11\" fill=\"{}\" text-anchor=\"middle\"", kInk));
+    out += fmt::format(
+        "<path class=\"ideal\" data-month=\"{}\" d=\"M{} {} L{} {}\" stroke=\"{}\" "
+        "stroke-width=\"2.5\"/>\n",
+        m + 1, num(gx - 2), num(y_of(ideal)), num(gx + inner + 2), num(y_of(ideal)), kInk);
+    out += text(gx + inner / 2, bottom + 16, kMonths[m],
+                fmt::format("font-size=\"11\" fill=\"{}\" text-anchor=\"middle\"", kInk));
   }
   out += "</g>\n";
-  out += fmt::format("<text transform=\"translate(16 {}) rotate(-90)\" font-size=\"10.5\" fill=\"{}\" letter-spacing=\"1.2\" "
-                     "text-anchor=\"middle\">ECONOMIZING HOURS</text>\n",
-                     num(plot.top + plot.height / 2), kInkSoft);
+  out += fmt::format(
+      "<text transform=\"translate(16 {}) rotate(-90)\" font-size=\"10.5\" fill=\"{}\" "
+      "letter-spacing=\"1.2\" "
+      "text-anchor=\"middle\">ECONOMIZING HOURS</text>\n",
+      num(plot.top + plot.height / 2), kInkSoft);
   // Legend in two columns.
   double y = bottom + 42;
   out += "<g class=\"legend\">\n";
@@ -1128,11 +1244,11 @@ std::string monthly_hours_svg(const annual::YearResult& year, std::span<const st
     const double ex = plot.left + (e < per_col ? 0.0 : plot.width / 2);
     const double ey = y + 17.0 * static_cast<double>(e < per_col ? e : e - per_col);
     if (entries[e].second.empty())
-      out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"2.5\"/>\n", num(ex), num(ey - 4), num(ex + 14),
-                         num(ey - 4), kInk);
+      out += fmt::format("<path d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"2.5\"/>\n",
+                         num(ex), num(ey - 4), num(ex + 14), num(ey - 4), kInk);
     else
-      out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"11\" fill=\"{}\"/>\n", num(ex), num(ey - 10),
-                         entries[e].second);
+      out += fmt::format("<rect x=\"{}\" y=\"{}\" width=\"14\" height=\"11\" fill=\"{}\"/>\n",
+                         num(ex), num(ey - 10), entries[e].second);
     out += text(ex + 20, ey, entries[e].first, fmt::format("font-size=\"11\" fill=\"{}\"", kInk));
   }
   out += "</g>\n";

@@ -23,7 +23,6 @@ using units::System;
 // The rendering each public function asks for.
 enum class Format { text, json, md };
 
-
 // --- Pieces shared by the outputs -----------------------------------------------------------
 
 // Footnotes numbered in order of first use.
@@ -52,9 +51,9 @@ std::string cite(const codes::Row& r) {
 
 std::string pressure_text(std::optional<double> p, System s) {
   if (!p) return "sea level (the table's figures as printed)";
-  return fmt::format("{} (standard elevation {})",
-                     units::format(Kind::pressure, s, *p, s == System::ip ? 2 : 1),
-                     units::format(Kind::length, s, psychro::elevation_from_standard_pressure_m(*p), 0));
+  return fmt::format(
+      "{} (standard elevation {})", units::format(Kind::pressure, s, *p, s == System::ip ? 2 : 1),
+      units::format(Kind::length, s, psychro::elevation_from_standard_pressure_m(*p), 0));
 }
 
 // The settings of an allowed type, with the altitude footnote shown where it applied.
@@ -64,8 +63,9 @@ std::string settings_text(const AllowedControl& c, System s) {
   for (const auto& r : c.settings) {
     std::string t = codes::setting_text({r.quantity, r.reference, r.value}, s);
     if (r.site_adjusted)
-      t += fmt::format(" [altitude footnote; table {}]",
-                       units::format(codes::setting_kind(r.quantity, r.reference), s, r.tabulated, 1));
+      t += fmt::format(
+          " [altitude footnote; table {}]",
+          units::format(codes::setting_kind(r.quantity, r.reference), s, r.tabulated, 1));
     parts.push_back(t);
   }
   std::string out;
@@ -78,7 +78,8 @@ std::vector<std::pair<std::string, std::vector<std::string>>> provenance_of(
     const std::vector<const codes::Row*>& rows) {
   std::vector<std::pair<std::string, std::vector<std::string>>> out;
   for (const auto* r : rows) {
-    auto it = std::find_if(out.begin(), out.end(), [&](const auto& p) { return p.first == r->provenance; });
+    auto it = std::find_if(out.begin(), out.end(),
+                           [&](const auto& p) { return p.first == r->provenance; });
     if (it == out.end()) it = out.insert(out.end(), {r->provenance, {}});
     if (std::find(it->second.begin(), it->second.end(), r->control) == it->second.end())
       it->second.push_back(r->control);
@@ -90,9 +91,7 @@ std::string heading(Format f, const std::string& title) {
   return f == Format::md ? "## " + title + "\n\n" : title + "\n";
 }
 
-std::string render(Format f, const Table& t) {
-  return f == Format::md ? t.markdown() : t.text();
-}
+std::string render(Format f, const Table& t) { return f == Format::md ? t.markdown() : t.text(); }
 
 // "label: value" lines of a header block.
 std::string facts(Format f, const std::vector<std::pair<std::string, std::string>>& items) {
@@ -105,8 +104,8 @@ std::string facts(Format f, const std::vector<std::pair<std::string, std::string
   return out;
 }
 
-std::string notes_text(Format f, const Notes& notes,
-                       const std::vector<const codes::Row*>& rows, const codes::Edition& e) {
+std::string notes_text(Format f, const Notes& notes, const std::vector<const codes::Row*>& rows,
+                       const codes::Edition& e) {
   std::string out;
   if (!notes.all().empty()) {
     out += "\n" + heading(f, "Notes");
@@ -189,8 +188,10 @@ void json_integration(Json& j, const codes::Edition& e,
 // Site pressure and the figures compared, common to the JSON of one zone and of a unit.
 void json_site(Json& j, const codes::ZoneRequirements& req, System s) {
   j.key(fmt::format("site_pressure_{}", units::key_suffix(Kind::pressure, s)));
-  if (req.pressure_kpa) j.value(units::to_display(Kind::pressure, s, *req.pressure_kpa), 6);
-  else j.null();
+  if (req.pressure_kpa)
+    j.value(units::to_display(Kind::pressure, s, *req.pressure_kpa), 6);
+  else
+    j.null();
   j.field("compare_in", units::system_name(req.compare_in));
 }
 
@@ -208,8 +209,7 @@ std::string json_close(Json& j, const codes::Edition& e,
 }
 
 std::string integration_text(Format f, const codes::Edition& e,
-                             std::optional<airside::EconomizerType> mode,
-                             std::string_view whose) {
+                             std::optional<airside::EconomizerType> mode, std::string_view whose) {
   const auto& rule = e.integration;
   std::string out = "\n" + heading(f, "Integrated economizer");
   const std::string bullet = f == Format::md ? "- " : "  ";
@@ -217,9 +217,11 @@ std::string integration_text(Format f, const codes::Edition& e,
                      rule.clause, rule.requirement);
   if (mode) {
     const bool ok = codes::check_integration(e, *mode).complies;
-    out += fmt::format("{}{} economizer: {} -> {}\n", bullet, whose, airside::economizer_name(*mode),
-                       ok ? "complies" : "does not comply (the economizer must keep running "
-                                         "together with mechanical cooling)");
+    out +=
+        fmt::format("{}{} economizer: {} -> {}\n", bullet, whose, airside::economizer_name(*mode),
+                    ok ? "complies"
+                       : "does not comply (the economizer must keep running "
+                         "together with mechanical cooling)");
   }
   return out;
 }
@@ -257,21 +259,21 @@ std::string zone_listing(const codes::ZoneRequirements& req, System s, Format f,
     allowed.add_row({c.row->control, settings_text(c, s), cite(*c.row), notes.refs(*c.row)});
     rows.push_back(c.row);
   }
-  Table prohibited({{"control", Align::left},
-                    {"clause", Align::left},
-                    {"notes", Align::left}});
+  Table prohibited({{"control", Align::left}, {"clause", Align::left}, {"notes", Align::left}});
   for (const auto* r : req.prohibited) {
     prohibited.add_row({r->control, cite(*r), notes.refs(*r)});
     rows.push_back(r);
   }
-  std::string out = f == Format::md ? fmt::format("# Economizer high-limit: {}, zone {}\n\n", e.id, req.zone)
-                                    : "limitline code — economizer high-limit requirements\n\n";
+  std::string out = f == Format::md
+                        ? fmt::format("# Economizer high-limit: {}, zone {}\n\n", e.id, req.zone)
+                        : "limitline code — economizer high-limit requirements\n\n";
   out += facts(f, {{"Energy code", fmt::format("{} ({})", e.id, e.title)},
                    {"Climate zone", req.zone},
                    {"Site", pressure_text(req.pressure_kpa, s)},
                    {"Compared in", fmt::format("{} figures{}", compare_name(req.compare_in),
                                                req.compare_in == e.governing_units
-                                                   ? " (the edition's governing units)" : "")}});
+                                                   ? " (the edition's governing units)"
+                                                   : "")}});
   out += "\n" + heading(f, "Allowed high-limit controls") + render(f, allowed);
   if (prohibited.rows())
     out += "\n" + heading(f, "Not allowed in this zone") + render(f, prohibited);
@@ -300,15 +302,15 @@ std::string weather_pressure_text(const CodeVerdicts& u, System s) {
 std::string instead_text(const codes::StrategyCheck& c, System s) {
   std::string out;
   for (const auto& alt : c.instead)
-    out += fmt::format("{}{}: {}", out.empty() ? "" : "; ", alt.row->control, settings_text(alt, s));
+    out +=
+        fmt::format("{}{}: {}", out.empty() ? "" : "; ", alt.row->control, settings_text(alt, s));
   return out;
 }
 
 std::string conditions_text(const highlimit::Strategy& st, System s) {
   std::string out;
   for (const auto& c : st.conditions)
-    out += (out.empty() ? "" : " or ") +
-           codes::setting_text({c.quantity, c.reference, c.limit}, s);
+    out += (out.empty() ? "" : " or ") + codes::setting_text({c.quantity, c.reference, c.limit}, s);
   return out.empty() ? "no conditions" : out;
 }
 
@@ -321,7 +323,8 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
     j.field("unit", u.unit_path).field("edition", e.id).field("edition_from", u.edition_from);
     j.field("climate_zone", req.zone).field("climate_zone_from", u.zone_from);
     json_site(j, req, s);
-    if (const std::string w = weather_pressure_text(u, s); !w.empty()) j.field("weather_pressure", w);
+    if (const std::string w = weather_pressure_text(u, s); !w.empty())
+      j.field("weather_pressure", w);
     j.field("strategies_defaulted", u.defaulted);
     j.key("strategies").begin_array();
     for (std::size_t i = 0; i < u.checks.size(); ++i) {
@@ -330,8 +333,10 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
       j.field("name", u.strategies[i].name);
       j.field("verdict", codes::verdict_word(c.verdict));
       j.key("control");
-      if (c.matched) j.value(c.matched->control);
-      else j.null();
+      if (c.matched)
+        j.value(c.matched->control);
+      else
+        j.null();
       j.field("conditions", conditions_text(u.strategies[i], s));
       j.field("explanation", codes::verdict_text(c, req, s));
       j.key("deviations").begin_array();
@@ -387,7 +392,8 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
     if (!c.instead.empty())
       detail += fmt::format("{}use instead: {}\n", indent, instead_text(c, s));
   }
-  std::string out = f == Format::md ? fmt::format("# Economizer high-limit compliance: {}\n\n", markdown_escape(u.unit_path))
+  std::string out = f == Format::md ? fmt::format("# Economizer high-limit compliance: {}\n\n",
+                                                  markdown_escape(u.unit_path))
                                     : "limitline code — high-limit compliance of a unit\n\n";
   std::vector<std::pair<std::string, std::string>> items{
       {"Unit", u.unit_path},
@@ -399,8 +405,9 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
     items.emplace_back("Weather pressure", w);
   out += facts(f, items);
   if (u.defaulted)
-    out += "\nThe unit file has no [[strategy]]: every preset at its common-practice settings "
-           "is judged.\n";
+    out +=
+        "\nThe unit file has no [[strategy]]: every preset at its common-practice settings "
+        "is judged.\n";
   out += "\n" + heading(f, "Verdicts") + render(f, t);
   out += "\n" + heading(f, "Details") + detail;
   out += integration_text(f, e, u.economizer, "the unit's");
@@ -459,7 +466,8 @@ std::string matrix(const codes::CodeTables& tables, std::optional<double> p,
   // Requirements of every (edition, zone) once.
   std::map<std::pair<const codes::Edition*, std::string>, codes::ZoneRequirements> reqs;
   for (const auto& e : tables.editions())
-    for (const auto& z : e.zones) reqs.emplace(std::pair{&e, z}, codes::requirements(e, z, {p, compare_in}));
+    for (const auto& z : e.zones)
+      reqs.emplace(std::pair{&e, z}, codes::requirements(e, z, {p, compare_in}));
   auto find = [&](const codes::Edition* e, const std::string& z) -> const codes::ZoneRequirements* {
     auto it = reqs.find({e, z});
     return it == reqs.end() ? nullptr : &it->second;
@@ -469,8 +477,10 @@ std::string matrix(const codes::CodeTables& tables, std::optional<double> p,
     Json j;
     j.begin_object();
     j.key(fmt::format("site_pressure_{}", units::key_suffix(Kind::pressure, s)));
-    if (p) j.value(units::to_display(Kind::pressure, s, *p), 6);
-    else j.null();
+    if (p)
+      j.value(units::to_display(Kind::pressure, s, *p), 6);
+    else
+      j.null();
     j.key("groups").begin_array();
     for (const auto& g : groups) {
       j.begin_object().field("zone_system", codes::zone_system_name(g.system));
@@ -491,18 +501,22 @@ std::string matrix(const codes::CodeTables& tables, std::optional<double> p,
               j.null();
               continue;
             }
-            const auto it = std::find_if(req->allowed.begin(), req->allowed.end(),
-                                         [&](const AllowedControl& c) { return c.row->control == control; });
+            const auto it =
+                std::find_if(req->allowed.begin(), req->allowed.end(),
+                             [&](const AllowedControl& c) { return c.row->control == control; });
             if (it == req->allowed.end()) {
               const bool listed = e->row(control, std::string(z)) != nullptr;
-              j.begin_object().field("permission", listed ? "prohibited" : "not-listed").end_object();
+              j.begin_object()
+                  .field("permission", listed ? "prohibited" : "not-listed")
+                  .end_object();
               continue;
             }
             j.begin_object().field("permission", "allowed").field("modelled", it->row->modelled);
             j.key("settings").begin_object();
             for (const auto& r : it->settings)
               j.field(codes::setting_key(r.quantity, r.reference, s),
-                      units::to_display(codes::setting_kind(r.quantity, r.reference), s, r.value), 6);
+                      units::to_display(codes::setting_kind(r.quantity, r.reference), s, r.value),
+                      6);
             j.end_object();
             j.field("site_adjusted", std::any_of(it->settings.begin(), it->settings.end(),
                                                  [](const auto& r) { return r.site_adjusted; }));
@@ -548,7 +562,8 @@ std::string matrix(const codes::CodeTables& tables, std::optional<double> p,
         t.add_row(std::move(r));
       }
     }
-    out += "\n" + heading(f, fmt::format("Zones: {}", codes::zone_system_name(g.system))) + render(f, t);
+    out += "\n" + heading(f, fmt::format("Zones: {}", codes::zone_system_name(g.system))) +
+           render(f, t);
   }
   out += "\n" + heading(f, "Provenance");
   const std::string bullet = f == Format::md ? "- " : "  ";
@@ -577,8 +592,10 @@ std::string editions_list(const codes::CodeTables& tables, Format f) {
     j.end_object();
     return j.str();
   }
-  Table t({{"edition", Align::left}, {"title", Align::left},
-           {"zones", Align::left}, {"tables", Align::left}});
+  Table t({{"edition", Align::left},
+           {"title", Align::left},
+           {"zones", Align::left},
+           {"tables", Align::left}});
   for (const auto& e : tables.editions()) {
     std::string src;
     for (const auto& s : e.sources) src += (src.empty() ? "" : " + ") + s;
@@ -603,15 +620,22 @@ std::string code_zone_json(const codes::ZoneRequirements& req, System s,
   return zone_listing(req, s, Format::json, economizer);
 }
 
-std::string code_unit_text(const CodeVerdicts& v, System s) { return unit_report(v, s, Format::text); }
-std::string code_unit_markdown(const CodeVerdicts& v, System s) { return unit_report(v, s, Format::md); }
-std::string code_unit_json(const CodeVerdicts& v, System s) { return unit_report(v, s, Format::json); }
+std::string code_unit_text(const CodeVerdicts& v, System s) {
+  return unit_report(v, s, Format::text);
+}
+std::string code_unit_markdown(const CodeVerdicts& v, System s) {
+  return unit_report(v, s, Format::md);
+}
+std::string code_unit_json(const CodeVerdicts& v, System s) {
+  return unit_report(v, s, Format::json);
+}
 
 std::string code_matrix_text(const codes::CodeTables& tables, std::optional<double> pressure_kpa,
                              std::optional<System> compare_in, System s) {
   return matrix(tables, pressure_kpa, compare_in, s, Format::text);
 }
-std::string code_matrix_markdown(const codes::CodeTables& tables, std::optional<double> pressure_kpa,
+std::string code_matrix_markdown(const codes::CodeTables& tables,
+                                 std::optional<double> pressure_kpa,
                                  std::optional<System> compare_in, System s) {
   return matrix(tables, pressure_kpa, compare_in, s, Format::md);
 }

@@ -38,11 +38,12 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
 
   const std::string eu = s == units::System::ip ? "kbtu" : "kwh";
   const double per_kwh = s == units::System::ip ? 3.412141633 : 1.0;
-  std::string line = "month,day,hour,minute,fan_on_hours," + key("outdoor_dry_bulb", Kind::temperature, s) +
-                     ",outdoor_humidity_ratio," + key("outdoor_enthalpy", Kind::enthalpy, s) + "," +
-                     key("outdoor_dew_point", Kind::temperature, s) + "," + key("pressure", Kind::pressure, s) +
-                     "," + key("return_dry_bulb", Kind::temperature, s) + "," +
-                     key("return_enthalpy", Kind::enthalpy, s) + ",cooling_needed";
+  std::string line =
+      "month,day,hour,minute,fan_on_hours," + key("outdoor_dry_bulb", Kind::temperature, s) +
+      ",outdoor_humidity_ratio," + key("outdoor_enthalpy", Kind::enthalpy, s) + "," +
+      key("outdoor_dew_point", Kind::temperature, s) + "," + key("pressure", Kind::pressure, s) +
+      "," + key("return_dry_bulb", Kind::temperature, s) + "," +
+      key("return_enthalpy", Kind::enthalpy, s) + ",cooling_needed";
   for (const auto* r : rows) {
     const std::string n = r->name;
     line += fmt::format(",{0}:enabled,{0}:oa_pct,{0}:cooling_{1},{0}:heating_{1},{0}:verdict",
@@ -60,7 +61,8 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
       line += ",0";
       cell(line, units::to_display(Kind::temperature, s, w.dry_bulb_c));
       cell(line, w.humidity_ratio);
-      cell(line, units::to_display(Kind::enthalpy, s, psychro::enthalpy_kj_per_kg(w.dry_bulb_c, w.humidity_ratio)));
+      cell(line, units::to_display(Kind::enthalpy, s,
+                                   psychro::enthalpy_kj_per_kg(w.dry_bulb_c, w.humidity_ratio)));
       line += ",";  // dew point is computed for fan-on intervals only
       cell(line, units::to_display(Kind::pressure, s, w.pressure_kpa));
       line += ",,,";
@@ -73,7 +75,8 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
       cell(line, w.humidity_ratio);
       cell(line, units::to_display(Kind::enthalpy, s, iv.outdoor[highlimit::Quantity::enthalpy]));
       if (prepared.has_dew_point)
-        cell(line, units::to_display(Kind::temperature, s, iv.outdoor[highlimit::Quantity::dew_point]));
+        cell(line,
+             units::to_display(Kind::temperature, s, iv.outdoor[highlimit::Quantity::dew_point]));
       else
         line += ",";
       cell(line, units::to_display(Kind::pressure, s, w.pressure_kpa));
@@ -90,10 +93,14 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
         cell(line, o.cooling_kwh * per_kwh);
         cell(line, o.heating_kwh * per_kwh);
         const char* verdict = "right";
-        if (r->kind == annual::Kind::optimal_damper) verdict = "modulating";
-        else if (!iv.cooling_needed) verdict = "no-cooling-needed";
-        else if (en && iv.enabling_hurts()) verdict = "harmful";
-        else if (!en && iv.enabling_pays()) verdict = "missed";
+        if (r->kind == annual::Kind::optimal_damper)
+          verdict = "modulating";
+        else if (!iv.cooling_needed)
+          verdict = "no-cooling-needed";
+        else if (en && iv.enabling_hurts())
+          verdict = "harmful";
+        else if (!en && iv.enabling_pays())
+          verdict = "missed";
         line += ",";
         line += verdict;
       }

@@ -70,7 +70,8 @@ std::string table_html(const std::vector<std::string_view>& lines) {
     const auto spec = table_cells(lines[1]);
     bool is_spec = !spec.empty();
     for (const auto& s : spec)
-      if (s.find_first_not_of(":-") != std::string::npos || s.find('-') == std::string::npos) is_spec = false;
+      if (s.find_first_not_of(":-") != std::string::npos || s.find('-') == std::string::npos)
+        is_spec = false;
     if (is_spec) {
       first_row = 2;
       for (std::size_t c = 0; c < spec.size() && c < align.size(); ++c)
@@ -78,7 +79,8 @@ std::string table_html(const std::vector<std::string_view>& lines) {
     }
   }
   std::string out = "<div class=\"scroll\"><table>\n<thead><tr>";
-  for (std::size_t c = 0; c < head.size(); ++c) out += fmt::format("<th{}>{}</th>", align[c], inline_html(head[c]));
+  for (std::size_t c = 0; c < head.size(); ++c)
+    out += fmt::format("<th{}>{}</th>", align[c], inline_html(head[c]));
   out += "</tr></thead>\n<tbody>\n";
   for (std::size_t r = first_row; r < lines.size(); ++r) {
     const auto cells = table_cells(lines[r]);
@@ -119,9 +121,12 @@ MdDoc split_markdown(std::string_view md) {
     if (end == std::string_view::npos) end = md.size();
     const std::string_view line = md.substr(pos, end - pos);
     pos = end + 1;
-    if (line.starts_with("# ") && d.title.empty() && d.sections.empty()) d.title = std::string(line.substr(2));
-    else if (line.starts_with("## ")) d.sections.push_back({std::string(line.substr(3)), {}});
-    else (d.sections.empty() ? d.preamble : d.sections.back().body) += std::string(line) + "\n";
+    if (line.starts_with("# ") && d.title.empty() && d.sections.empty())
+      d.title = std::string(line.substr(2));
+    else if (line.starts_with("## "))
+      d.sections.push_back({std::string(line.substr(3)), {}});
+    else
+      (d.sections.empty() ? d.preamble : d.sections.back().body) += std::string(line) + "\n";
   }
   return d;
 }
@@ -140,8 +145,10 @@ struct Block {
 std::string slug(std::string_view s) {
   std::string out;
   for (char c : s) {
-    if (std::isalnum(static_cast<unsigned char>(c))) out += text::to_lower(c);
-    else if (!out.empty() && out.back() != '-') out += '-';
+    if (std::isalnum(static_cast<unsigned char>(c)))
+      out += text::to_lower(c);
+    else if (!out.empty() && out.back() != '-')
+      out += '-';
     if (out.size() >= 40) break;
   }
   while (!out.empty() && out.back() == '-') out.pop_back();
@@ -157,10 +164,12 @@ Block strategies_block(const ReportDocument& doc) {
     const std::string desc = it == doc.context.strategy_descriptions.end() ? "" : it->second;
     b.md += fmt::format("{}. **{}** — {}\n", i + 1, markdown_escape(name), markdown_escape(desc));
     b.html += fmt::format(
-        "<li><span class=\"swatch\" style=\"background:{}\">{}</span><strong>{}</strong> — {}</li>\n",
+        "<li><span class=\"swatch\" style=\"background:{}\">{}</span><strong>{}</strong> — "
+        "{}</li>\n",
         strategy_colour(i), i + 1, html_escape(name), html_escape(desc));
   }
-  b.html += "</ol>\n<p class=\"note\">The numbers and colours are those of the pictures below.</p>\n";
+  b.html +=
+      "</ol>\n<p class=\"note\">The numbers and colours are those of the pictures below.</p>\n";
   b.md += "\nThe numbers are those of the psychrometric chart.\n";
   return b;
 }
@@ -171,7 +180,8 @@ Block unit_block(const MdDoc& y, const ReportDocument& doc) {
   b.md.erase(0, std::min(b.md.find_first_not_of('\n'), b.md.size()));
   while (!b.md.empty() && b.md.back() == '\n') b.md.pop_back();
   b.md += "\n";
-  for (const auto& [k, v] : doc.unit_facts) b.md += fmt::format("- {}: {}\n", markdown_escape(k), markdown_escape(v));
+  for (const auto& [k, v] : doc.unit_facts)
+    b.md += fmt::format("- {}: {}\n", markdown_escape(k), markdown_escape(v));
   return b;
 }
 
@@ -179,9 +189,12 @@ Block chart_block() {
   Block b{"chart", "Where the occupied hours fall", {}, {}, Figure::chart, "chart-section"};
   b.md =
       "Each occupied hour of the weather year sits on the chart at its outdoor state, binned and "
-      "coloured by what the perfect changeover does with it. A high-limit is good for this climate when "
-      "its line separates the green cells (economizing pays) from the terracotta ones (it does not): "
-      "green cells beyond a line are missed free cooling, terracotta cells on the permitted side are "
+      "coloured by what the perfect changeover does with it. A high-limit is good for this climate "
+      "when "
+      "its line separates the green cells (economizing pays) from the terracotta ones (it does "
+      "not): "
+      "green cells beyond a line are missed free cooling, terracotta cells on the permitted side "
+      "are "
       "harmful hours.\n";
   return b;
 }
@@ -199,10 +212,11 @@ Block compliance_block(const ComplianceSection& c) {
   }
   b.html += "<ul class=\"verdicts\">\n";
   for (const auto& l : c.lines) {
-    b.md += fmt::format("| {} | {} | {} |\n", markdown_escape(l.strategy), markdown_escape(l.verdict),
-                        markdown_escape(l.explanation));
-    b.html += fmt::format("<li><span class=\"verdict {}\">{}</span> <strong>{}</strong>: {}</li>\n", slug(l.verdict),
-                          html_escape(l.verdict), html_escape(l.strategy), html_escape(l.explanation));
+    b.md += fmt::format("| {} | {} | {} |\n", markdown_escape(l.strategy),
+                        markdown_escape(l.verdict), markdown_escape(l.explanation));
+    b.html += fmt::format("<li><span class=\"verdict {}\">{}</span> <strong>{}</strong>: {}</li>\n",
+                          slug(l.verdict), html_escape(l.verdict), html_escape(l.strategy),
+                          html_escape(l.explanation));
   }
   b.html += "</ul>\n";
   return b;
@@ -212,7 +226,8 @@ bool heading_is(const std::string& h, std::string_view prefix) { return h.starts
 
 // The study in order: inputs, strategies, the annual report's sections with the pictures
 // after the monthly economizing hours, compliance, cautions last.
-std::vector<Block> blocks(const annual::YearResult& year, const ReportDocument& doc, std::string& intro) {
+std::vector<Block> blocks(const annual::YearResult& year, const ReportDocument& doc,
+                          std::string& intro) {
   const MdDoc y = split_markdown(year_markdown(year, doc.context));
   std::vector<Block> out;
   out.push_back(unit_block(y, doc));
@@ -229,7 +244,8 @@ std::vector<Block> blocks(const annual::YearResult& year, const ReportDocument& 
       add_code();
     }
     std::string body = s.body;
-    body.erase(0, body.find_first_not_of('\n') == std::string::npos ? body.size() : body.find_first_not_of('\n'));
+    body.erase(0, body.find_first_not_of('\n') == std::string::npos ? body.size()
+                                                                    : body.find_first_not_of('\n'));
     Block b{slug(s.heading), s.heading, body, {}, Figure::none, ""};
     if (heading_is(s.heading, "Strategies ranked")) b.css = "ranked";
     if (heading_is(s.heading, "Cautions")) b.css = "cautions";
@@ -244,15 +260,18 @@ std::vector<Block> blocks(const annual::YearResult& year, const ReportDocument& 
   add_code();
   const auto* best = year.best();
   intro = fmt::format(
-      "{} high-limit strategies for this air handler weighed hour by hour over the weather year of {}, each "
-      "scored against the perfect changeover: the ideal high-limit that economizes exactly when it costs "
+      "{} high-limit strategies for this air handler weighed hour by hour over the weather year of "
+      "{}, each "
+      "scored against the perfect changeover: the ideal high-limit that economizes exactly when it "
+      "costs "
       "less than not economizing.{}",
       year.strategies.size(), doc.context.weather_source,
       best ? fmt::format(" Best for this climate: {}.", best->name) : std::string());
   return out;
 }
 
-constexpr std::string_view kCss = R"(:root{--ink:#1f3347;--soft:#55606b;--paper:#fbf8f1;--rule:#d6ccb8;--accent:#bf8a3f;
+constexpr std::string_view kCss =
+    R"(:root{--ink:#1f3347;--soft:#55606b;--paper:#fbf8f1;--rule:#d6ccb8;--accent:#bf8a3f;
 --sans:'DejaVu Sans','Segoe UI','Helvetica Neue',Arial,sans-serif}
 *{box-sizing:border-box}
 html{background:#e9e2d2}
@@ -304,9 +323,11 @@ tbody tr:nth-child(even){background:none}})";
 std::string with_swatches(std::string html, const ReportDocument& doc) {
   for (std::size_t i = 0; i < doc.strategy_order.size(); ++i) {
     const std::string cell = "<td>" + html_escape(doc.strategy_order[i]) + "</td>";
-    const std::string marked = fmt::format("<td><span class=\"swatch small\" style=\"background:{}\">{}</span>{}</td>",
-                                           strategy_colour(i), i + 1, html_escape(doc.strategy_order[i]));
-    for (std::size_t at = html.find(cell); at != std::string::npos; at = html.find(cell, at + marked.size()))
+    const std::string marked =
+        fmt::format("<td><span class=\"swatch small\" style=\"background:{}\">{}</span>{}</td>",
+                    strategy_colour(i), i + 1, html_escape(doc.strategy_order[i]));
+    for (std::size_t at = html.find(cell); at != std::string::npos;
+         at = html.find(cell, at + marked.size()))
       html.replace(at, cell.size(), marked);
   }
   return html;
@@ -322,10 +343,12 @@ std::string figure_html(Figure f, const ReportDocument& doc) {
   };
   if (f == Figure::monthly)
     return "<figure class=\"monthly\">\n" + inline_svg(doc.monthly_svg) +
-           "<figcaption>Economizing hours per month for each strategy, against the perfect changeover.</figcaption>\n</figure>\n";
+           "<figcaption>Economizing hours per month for each strategy, against the perfect "
+           "changeover.</figcaption>\n</figure>\n";
   if (f == Figure::chart)
     return "<figure class=\"psychrometric\">\n" + inline_svg(doc.chart_svg) +
-           "<figcaption>Psychrometric chart at the site pressure with each strategy's high-limit line and the "
+           "<figcaption>Psychrometric chart at the site pressure with each strategy's high-limit "
+           "line and the "
            "occupied hours of the weather year.</figcaption>\n</figure>\n";
   return {};
 }
@@ -420,42 +443,49 @@ std::string markdown_to_html(std::string_view md) {
 std::string report_html(const annual::YearResult& year, const ReportDocument& doc) {
   std::string intro;
   const auto bs = blocks(year, doc, intro);
-  std::string out = "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\"/>\n"
-                    "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\"/>\n";
-  out += fmt::format("<title>Economizer high-limit study — {}</title>\n", html_escape(doc.context.title));
+  std::string out =
+      "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\"/>\n"
+      "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\"/>\n";
+  out += fmt::format("<title>Economizer high-limit study — {}</title>\n",
+                     html_escape(doc.context.title));
   out += "<style>\n" + std::string(kCss) + "\n</style>\n</head>\n<body>\n<main>\n";
   out += fmt::format(
-      "<header class=\"title\">\n<p class=\"kicker\">Economizer high-limit study</p>\n<h1>{}</h1>\n<p class=\"intro\">{}</p>\n"
+      "<header class=\"title\">\n<p class=\"kicker\">Economizer high-limit "
+      "study</p>\n<h1>{}</h1>\n<p class=\"intro\">{}</p>\n"
       "</header>\n",
       html_escape(doc.context.title), html_escape(intro));
   for (const auto& b : bs) {
-    out += fmt::format("<section id=\"{}\"{}>\n<h2>{}</h2>\n", b.id, b.css.empty() ? "" : " class=\"" + b.css + "\"",
-                       html_escape(b.heading));
+    out += fmt::format("<section id=\"{}\"{}>\n<h2>{}</h2>\n", b.id,
+                       b.css.empty() ? "" : " class=\"" + b.css + "\"", html_escape(b.heading));
     out += figure_html(b.figure, doc);
     out += b.html.empty() ? with_swatches(markdown_to_html(b.md), doc) : b.html;
     out += "</section>\n";
   }
   if (!doc.generator.empty())
-    out += fmt::format("<footer>Written by {} from the inputs listed above.</footer>\n", html_escape(doc.generator));
+    out += fmt::format("<footer>Written by {} from the inputs listed above.</footer>\n",
+                       html_escape(doc.generator));
   out += "</main>\n</body>\n</html>\n";
   return out;
 }
 
-std::string report_markdown(const annual::YearResult& year, const ReportDocument& doc, std::string_view chart_file,
-                            std::string_view monthly_file) {
+std::string report_markdown(const annual::YearResult& year, const ReportDocument& doc,
+                            std::string_view chart_file, std::string_view monthly_file) {
   std::string intro;
   const auto bs = blocks(year, doc, intro);
-  std::string out = fmt::format("# Economizer high-limit study — {}\n\n{}\n", markdown_escape(doc.context.title),
-                                markdown_escape(intro));
+  std::string out = fmt::format("# Economizer high-limit study — {}\n\n{}\n",
+                                markdown_escape(doc.context.title), markdown_escape(intro));
   for (const auto& b : bs) {
     out += fmt::format("\n## {}\n\n", b.heading);
-    if (b.figure == Figure::monthly) out += fmt::format("![Economizing hours by month]({})\n\n", monthly_file);
-    if (b.figure == Figure::chart) out += fmt::format("![Psychrometric chart with high-limit lines]({})\n\n", chart_file);
+    if (b.figure == Figure::monthly)
+      out += fmt::format("![Economizing hours by month]({})\n\n", monthly_file);
+    if (b.figure == Figure::chart)
+      out += fmt::format("![Psychrometric chart with high-limit lines]({})\n\n", chart_file);
     std::string body = b.md;
     while (!body.empty() && body.back() == '\n') body.pop_back();
     out += body + "\n";
   }
-  if (!doc.generator.empty()) out += fmt::format("\n---\n\nWritten by {} from the inputs listed above.\n", doc.generator);
+  if (!doc.generator.empty())
+    out += fmt::format("\n---\n\nWritten by {} from the inputs listed above.\n", doc.generator);
   return out;
 }
 

@@ -18,8 +18,10 @@ std::string json_escape(std::string_view s) {
       case '\r': out += "\\r"; break;
       case '\t': out += "\\t"; break;
       default:
-        if (c < 0x20) out += fmt::format("\\u{:04x}", c);
-        else out += static_cast<char>(c);
+        if (c < 0x20)
+          out += fmt::format("\\u{:04x}", c);
+        else
+          out += static_cast<char>(c);
     }
   }
   return out;

@@ -40,7 +40,9 @@ int decimals(Kind k, units::System s) {
 struct View {
   units::System system;
 
-  std::string q(Kind k, double si) const { return units::format(k, system, si, decimals(k, system)); }
+  std::string q(Kind k, double si) const {
+    return units::format(k, system, si, decimals(k, system));
+  }
   // The number alone, for table columns whose title carries the unit.
   std::string n(Kind k, double si) const {
     const int d = decimals(k, system);
@@ -92,7 +94,6 @@ std::string why(const StrategyOutcome& o, const View& view) {
                      view.q(highlimit::quantity_difference_kind(c.quantity), r.excess));
 }
 
-
 // --- text and Markdown ---------------------------------------------------------------
 
 std::string summary_lines(const PointCheckContext& in, const PointCheck& pc, const View& view,
@@ -103,7 +104,8 @@ std::string summary_lines(const PointCheckContext& in, const PointCheck& pc, con
   if (u.site.pressure_kpa)
     pressure += " (site pressure)";
   else if (u.site.elevation_m)
-    pressure += fmt::format(" (standard pressure at {})", view.q(Kind::length, *u.site.elevation_m));
+    pressure +=
+        fmt::format(" (standard pressure at {})", view.q(Kind::length, *u.site.elevation_m));
   else
     pressure += " (sea level: the unit file gives no elevation or pressure)";
   std::string min_oa = view.q(Kind::fraction, a.min_oa_fraction);
@@ -116,8 +118,9 @@ std::string summary_lines(const PointCheckContext& in, const PointCheck& pc, con
        fmt::format("{} supply at {}; fan heat {}, {}; outdoor air {} to {}; {} economizer",
                    view.q(Kind::airflow, a.supply_airflow_m3_per_s),
                    view.q(Kind::temperature, a.supply_air_temp_c),
-                   view.q(Kind::temperature_difference, a.fan_heat_k), airside::fan_position_name(a.fan_position),
-                   min_oa, view.q(Kind::fraction, a.max_oa_fraction),
+                   view.q(Kind::temperature_difference, a.fan_heat_k),
+                   airside::fan_position_name(a.fan_position), min_oa,
+                   view.q(Kind::fraction, a.max_oa_fraction),
                    airside::economizer_name(a.economizer))},
       {"Targets", fmt::format("mixed air {}; coil leaving {} at most {} RH",
                               view.q(Kind::temperature, pc.mixed_air_target_c),
@@ -126,9 +129,11 @@ std::string summary_lines(const PointCheckContext& in, const PointCheck& pc, con
   };
   std::string out;
   for (const auto& [k, v] : lines)
-    out += markdown ? fmt::format("- **{}:** {}\n", k, markdown_escape(v)) : fmt::format("{:<12} {}\n", k, v);
+    out += markdown ? fmt::format("- **{}:** {}\n", k, markdown_escape(v))
+                    : fmt::format("{:<12} {}\n", k, v);
   for (const std::string& w : in.warnings)
-    out += markdown ? fmt::format("- **Warning:** {}\n", markdown_escape(w)) : fmt::format("{:<12} {}\n", "Warning", w);
+    out += markdown ? fmt::format("- **Warning:** {}\n", markdown_escape(w))
+                    : fmt::format("{:<12} {}\n", "Warning", w);
   return out;
 }
 
@@ -160,22 +165,25 @@ std::string hand_calculation(const UnitFile& u, const PointCheck& pc, const View
   std::string out;
   switch (pc.reach) {
     case TargetReach::same_dry_bulb:
-      out += fmt::format("Mixed air of {} is not reachable: outdoor and return air are at the "
-                         "same dry-bulb, so no outdoor-air fraction changes the mixed air.\n",
-                         target);
+      out += fmt::format(
+          "Mixed air of {} is not reachable: outdoor and return air are at the "
+          "same dry-bulb, so no outdoor-air fraction changes the mixed air.\n",
+          target);
       break;
     case TargetReach::beyond_outdoor_air:
-      out += fmt::format("Mixed air of {} is not reachable: would need {} outdoor air (all "
-                         "outdoor air, 100%, gives {}).\n",
-                         target, view.q(Kind::fraction, e.fraction_needed),
-                         view.q(Kind::temperature, pc.outdoor.dry_bulb_c));
+      out += fmt::format(
+          "Mixed air of {} is not reachable: would need {} outdoor air (all "
+          "outdoor air, 100%, gives {}).\n",
+          target, view.q(Kind::fraction, e.fraction_needed),
+          view.q(Kind::temperature, pc.outdoor.dry_bulb_c));
       break;
     case TargetReach::beyond_return_air:
-      out += fmt::format("Mixed air of {} is not reachable: it lies beyond the return air {} "
-                         "on the side away from the outdoor air {}, so outdoor air only moves "
-                         "the mixed air away from it.\n",
-                         target, view.q(Kind::temperature, pc.ret.dry_bulb_c),
-                         view.q(Kind::temperature, pc.outdoor.dry_bulb_c));
+      out += fmt::format(
+          "Mixed air of {} is not reachable: it lies beyond the return air {} "
+          "on the side away from the outdoor air {}, so outdoor air only moves "
+          "the mixed air away from it.\n",
+          target, view.q(Kind::temperature, pc.ret.dry_bulb_c),
+          view.q(Kind::temperature, pc.outdoor.dry_bulb_c));
       break;
     case TargetReach::reachable: {
       const std::string where =
@@ -194,9 +202,7 @@ std::string hand_calculation(const UnitFile& u, const PointCheck& pc, const View
                                      view.q(Kind::fraction, e.fraction_applied),
                                      view.q(Kind::temperature, e.mixed.dry_bulb_c));
   switch (e.makeup) {
-    case airside::Makeup::none:
-      out += at + ": on target, no make-up.\n";
-      break;
+    case airside::Makeup::none: out += at + ": on target, no make-up.\n"; break;
     case airside::Makeup::heating:
       out += fmt::format("{}: heating makes up {} ({}, {}).\n", at,
                          view.q(Kind::temperature_difference, e.makeup_k),
@@ -247,17 +253,17 @@ Table operations_table(const UnitFile& u, const PointCheck& pc, const View& view
 }
 
 std::string per_hour_note(const View& view) {
-  return fmt::format("Loads at the supply airflow; \"above ideal\" is the weighted energy per "
-                     "hour beyond the perfect changeover ({} per hour).\n",
-                     units::unit_label(Kind::energy, view.system));
+  return fmt::format(
+      "Loads at the supply airflow; \"above ideal\" is the weighted energy per "
+      "hour beyond the perfect changeover ({} per hour).\n",
+      units::unit_label(Kind::energy, view.system));
 }
 
 std::string changeover_line(const PointCheck& pc, const View& view) {
   if (!pc.choice.cooling_needed)
     return "Perfect changeover: no cooling is needed at the minimum outdoor air, so the "
            "high-limit decision changes nothing.\n";
-  const double diff =
-      pc.choice.disabled.weighted_kj_per_kg - pc.choice.enabled.weighted_kj_per_kg;
+  const double diff = pc.choice.disabled.weighted_kj_per_kg - pc.choice.enabled.weighted_kj_per_kg;
   const std::string per_hour = view.q(Kind::energy, pc.kw(std::fabs(diff)));
   if (pc.choice.enabling_pays(kVerdictToleranceKjPerKg))
     return fmt::format("Perfect changeover: enable; it saves {} per hour over disabling.\n",
@@ -317,7 +323,8 @@ Table condition_table(const PointCheck& pc, const View& view) {
   return t;
 }
 
-std::string text_report(const PointCheckContext& in, const PointCheck& pc, const View& view, bool md) {
+std::string text_report(const PointCheckContext& in, const PointCheck& pc, const View& view,
+                        bool md) {
   auto table = [md](const Table& t) { return md ? t.markdown() : t.text(); };
   auto heading = [md](std::string_view h) {
     return md ? fmt::format("\n## {}\n\n", h) : fmt::format("\n{}\n", h);
@@ -339,8 +346,7 @@ std::string text_report(const PointCheckContext& in, const PointCheck& pc, const
   out += heading("Conditions");
   out += table(condition_table(pc, view));
   out += "\n";
-  out += md ? cautions_markdown(CautionTopic::design)
-            : cautions_text(CautionTopic::design);
+  out += md ? cautions_markdown(CautionTopic::design) : cautions_text(CautionTopic::design);
   return out;
 }
 
@@ -360,16 +366,14 @@ void json_load(Json& j, const PointCheck& pc, std::string_view stem, double kj_p
   j.field(view.key(stem, Kind::power), view.v(Kind::power, pc.kw(kj_per_kg)));
 }
 
-void json_loads(Json& j, const PointCheck& pc, const airside::CoilLoads& l,
-                const View& view) {
+void json_loads(Json& j, const PointCheck& pc, const airside::CoilLoads& l, const View& view) {
   json_load(j, pc, "cooling", l.cooling_kj_per_kg, view);
   json_load(j, pc, "sensible_cooling", l.sensible_kj_per_kg, view);
   json_load(j, pc, "latent_cooling", l.latent_kj_per_kg, view);
   json_load(j, pc, "heating", l.heating_kj_per_kg, view);
 }
 
-void json_operation(Json& j, const PointCheck& pc, const airside::Operation& op,
-                    const View& view) {
+void json_operation(Json& j, const PointCheck& pc, const airside::Operation& op, const View& view) {
   j.begin_object();
   j.field(view.key("outdoor_air", Kind::fraction), view.v(Kind::fraction, op.oa_fraction));
   j.field("economizing", op.economizing);
@@ -407,9 +411,11 @@ std::string json_report(const PointCheckContext& in, const PointCheck& pc, const
   j.end_array();
   j.field(view.key("pressure", Kind::pressure), view.v(Kind::pressure, pc.pressure_kpa));
   j.key("air_handler").begin_object();
-  j.field(view.key("supply_airflow", Kind::airflow), view.v(Kind::airflow, a.supply_airflow_m3_per_s));
+  j.field(view.key("supply_airflow", Kind::airflow),
+          view.v(Kind::airflow, a.supply_airflow_m3_per_s));
   j.field("dry_air_mass_flow_kg_per_s", pc.dry_air_kg_per_s);
-  j.field(view.key("supply_air_temp", Kind::temperature), view.v(Kind::temperature, a.supply_air_temp_c));
+  j.field(view.key("supply_air_temp", Kind::temperature),
+          view.v(Kind::temperature, a.supply_air_temp_c));
   j.field(view.key("fan_heat", Kind::temperature_difference),
           view.v(Kind::temperature_difference, a.fan_heat_k));
   j.field("fan_position", airside::fan_position_name(a.fan_position));
@@ -440,7 +446,8 @@ std::string json_report(const PointCheckContext& in, const PointCheck& pc, const
   else
     j.null();
   j.field("within_limits", e.within_limits);
-  j.field(view.key("outdoor_air_applied", Kind::fraction), view.v(Kind::fraction, e.fraction_applied));
+  j.field(view.key("outdoor_air_applied", Kind::fraction),
+          view.v(Kind::fraction, e.fraction_applied));
   j.key("mixed_air");
   json_state(j, e.mixed, view);
   j.field("makeup", e.makeup == airside::Makeup::none      ? "none"
@@ -501,7 +508,8 @@ std::string json_report(const PointCheckContext& in, const PointCheck& pc, const
     j.key("operation");
     json_operation(j, pc, o.operation, view);
     j.field("verdict", verdict_key(o.verdict));
-    j.field(view.per_mass_key("excess_energy"), view.v(Kind::enthalpy_difference, o.excess_kj_per_kg));
+    j.field(view.per_mass_key("excess_energy"),
+            view.v(Kind::enthalpy_difference, o.excess_kj_per_kg));
     j.field(view.key("excess_energy_per_hour", Kind::energy),
             view.v(Kind::energy, pc.kw(o.excess_kj_per_kg)));
     j.end_object();

@@ -28,7 +28,8 @@ int decimals(units::Kind k) { return k == units::Kind::enthalpy_difference ? 2 :
 HumidityKind kind_of(const sensors::SensorSet& s) { return s.outdoor_humidity; }
 
 std::string accuracy_key(Sensor x, HumidityKind k, units::System s) {
-  return fmt::format("{}_{}", sensors::sensor_key(x, k), units::key_suffix(sensors::bias_kind(x, k), s));
+  return fmt::format("{}_{}", sensors::sensor_key(x, k),
+                     units::key_suffix(sensors::bias_kind(x, k), s));
 }
 
 void json_energy(Json& j, std::string_view stem, double kwh, units::System s) {
@@ -72,10 +73,13 @@ std::vector<std::string> header(const SensorsReport& r) {
 
 using StatsMember = sensors::Stats sensors::StrategySummary::*;
 
-Table stats_table(const sensors::StudyResult& st, StatsMember member, double exact_of(const sensors::TrialOutcome&),
-                  bool is_energy, units::System s, bool with_error) {
-  std::vector<Column> cols = {{"#", Align::right}, {"strategy", Align::left},
-                              {"exact sensors", Align::right}, {"mean", Align::right}};
+Table stats_table(const sensors::StudyResult& st, StatsMember member,
+                  double exact_of(const sensors::TrialOutcome&), bool is_energy, units::System s,
+                  bool with_error) {
+  std::vector<Column> cols = {{"#", Align::right},
+                              {"strategy", Align::left},
+                              {"exact sensors", Align::right},
+                              {"mean", Align::right}};
   if (with_error) cols.push_back({"± s.e.", Align::right});
   for (const char* t : {"P10", "P50", "P90", "worst"}) cols.push_back({t, Align::right});
   Table t(cols);
@@ -83,7 +87,8 @@ Table stats_table(const sensors::StudyResult& st, StatsMember member, double exa
   int rank = 0;
   for (const auto& x : st.ranked) {
     const sensors::Stats& v = x.*member;
-    std::vector<std::string> row = {std::to_string(++rank), x.name, show(exact_of(x.exact)), show(v.mean)};
+    std::vector<std::string> row = {std::to_string(++rank), x.name, show(exact_of(x.exact)),
+                                    show(v.mean)};
     if (with_error) row.push_back(show(v.std_error));
     for (double q : {v.p10, v.p50, v.p90, v.worst}) row.push_back(show(q));
     t.add_row(std::move(row));
@@ -97,7 +102,8 @@ double exact_missed(const sensors::TrialOutcome& o) { return o.missed_hours; }
 
 Table beats_table(const sensors::StudyResult& st) {
   std::vector<Column> cols = {{"#", Align::right}, {"strategy", Align::left}};
-  for (std::size_t i = 0; i < st.ranked.size(); ++i) cols.push_back({std::to_string(i + 1), Align::right});
+  for (std::size_t i = 0; i < st.ranked.size(); ++i)
+    cols.push_back({std::to_string(i + 1), Align::right});
   Table t(cols);
   for (std::size_t a = 0; a < st.ranked.size(); ++a) {
     std::vector<std::string> row = {std::to_string(a + 1), st.ranked[a].name};
@@ -113,25 +119,34 @@ std::string clamp_line(const SensorsReport& r) {
   if (!r.uses_humidity) return "Humidity readings: no strategy reads a humidity sensor.\n";
   std::uint64_t outdoor = 0, ret = 0;
   for (const auto& c : st.trial_clamps) outdoor += c.outdoor, ret += c.ret;
-  const double n = static_cast<double>(st.readings_per_trial) * static_cast<double>(st.trials_completed());
-  auto share = [&](std::uint64_t k) { return n > 0 ? fmt::format("{:.2f}%", 100.0 * static_cast<double>(k) / n) : "-"; };
+  const double n =
+      static_cast<double>(st.readings_per_trial) * static_cast<double>(st.trials_completed());
+  auto share = [&](std::uint64_t k) {
+    return n > 0 ? fmt::format("{:.2f}%", 100.0 * static_cast<double>(k) / n) : "-";
+  };
   std::string what;
   switch (kind_of(st.sensors)) {
     case HumidityKind::relative_humidity: what = "outdoor RH readings held to 0–100%"; break;
-    case HumidityKind::dew_point: what = "outdoor dew-point readings held to the dry-bulb reading"; break;
-    case HumidityKind::enthalpy: what = "outdoor humidity ratios (from the enthalpy reading) held to 0–saturation"; break;
+    case HumidityKind::dew_point:
+      what = "outdoor dew-point readings held to the dry-bulb reading";
+      break;
+    case HumidityKind::enthalpy:
+      what = "outdoor humidity ratios (from the enthalpy reading) held to 0–saturation";
+      break;
   }
-  return fmt::format("Clamped readings: {} in {} of the trial-intervals; return RH readings held "
-                     "to 0–100% in {}.\n",
-                     what, share(outdoor), share(ret));
+  return fmt::format(
+      "Clamped readings: {} in {} of the trial-intervals; return RH readings held "
+      "to 0–100% in {}.\n",
+      what, share(outdoor), share(ret));
 }
 
 std::string accuracy_pair(const sensors::BreakEvenResult& be, double scale, units::System s) {
   const HumidityKind k = kind_of(be.base);
-  return fmt::format("{} {}, {} {}", sensors::sensor_label(Sensor::outdoor_humidity, k),
-                     format_accuracy(Sensor::outdoor_humidity, k, be.accuracy(Sensor::outdoor_humidity, scale), s),
-                     sensors::sensor_label(Sensor::return_rh, k),
-                     format_accuracy(Sensor::return_rh, k, be.accuracy(Sensor::return_rh, scale), s));
+  return fmt::format(
+      "{} {}, {} {}", sensors::sensor_label(Sensor::outdoor_humidity, k),
+      format_accuracy(Sensor::outdoor_humidity, k, be.accuracy(Sensor::outdoor_humidity, scale), s),
+      sensors::sensor_label(Sensor::return_rh, k),
+      format_accuracy(Sensor::return_rh, k, be.accuracy(Sensor::return_rh, scale), s));
 }
 
 std::string break_even_text(const sensors::BreakEvenResult& be, units::System s) {
@@ -186,12 +201,14 @@ std::string sweep_text(const sensors::SweepResult& sw, HumidityKind study_kind, 
       "Shortfall against the perfect changeover ({}):\n",
       label, energy_unit(s));
   if (spec.outdoor_kind != study_kind)
-    out += fmt::format("(The unit's outdoor humidity sensor is {}; this sweep uses an {} sensor "
-                       "in its place.)\n",
-                       sensors::sensor_label(Sensor::outdoor_humidity, study_kind), label);
+    out += fmt::format(
+        "(The unit's outdoor humidity sensor is {}; this sweep uses an {} sensor "
+        "in its place.)\n",
+        sensors::sensor_label(Sensor::outdoor_humidity, study_kind), label);
   out += "\n";
   std::vector<Column> cols = {{"#", Align::right}, {"strategy", Align::left}};
-  for (double v : spec.biases) cols.push_back({format_bias(spec.sensor, spec.outdoor_kind, v, s), Align::right});
+  for (double v : spec.biases)
+    cols.push_back({format_bias(spec.sensor, spec.outdoor_kind, v, s), Align::right});
   Table t(cols);
   for (std::size_t k = 0; k < sw.names.size(); ++k) {
     std::vector<std::string> row = {std::to_string(k + 1), sw.names[k]};
@@ -207,8 +224,9 @@ std::string sweep_text(const sensors::SweepResult& sw, HumidityKind study_kind, 
   out += t.text();
   if (sw.partial) out += "  (interrupted: '-' marks biases that did not run)\n";
 
-  const bool any_dry = std::any_of(sw.best_dry_bulb_only_kwh.begin(), sw.best_dry_bulb_only_kwh.end(),
-                                   [](const auto& v) { return v.has_value(); });
+  const bool any_dry =
+      std::any_of(sw.best_dry_bulb_only_kwh.begin(), sw.best_dry_bulb_only_kwh.end(),
+                  [](const auto& v) { return v.has_value(); });
   out += "\nWhere each strategy stops paying back, moving away from " +
          format_bias(spec.sensor, spec.outdoor_kind, spec.biases[sw.reference], s) + ":\n";
   for (std::size_t k = 0; k < sw.names.size(); ++k) {
@@ -229,8 +247,8 @@ std::string sweep_text(const sensors::SweepResult& sw, HumidityKind study_kind, 
 
 // --- JSON sections --------------------------------------------------------------------------
 
-void json_stats(Json& j, std::string_view key, const sensors::Stats& v, double exact, bool is_energy,
-                units::System s) {
+void json_stats(Json& j, std::string_view key, const sensors::Stats& v, double exact,
+                bool is_energy, units::System s) {
   auto one = [&](std::string_view k, double scale) {
     j.key(k).begin_object();
     j.field("exact_sensors", exact * scale, 8);
@@ -250,7 +268,8 @@ void json_stats(Json& j, std::string_view key, const sensors::Stats& v, double e
 void json_accuracies(Json& j, const sensors::BreakEvenResult& be, double scale, units::System s) {
   const HumidityKind k = kind_of(be.base);
   for (Sensor x : {Sensor::outdoor_humidity, Sensor::return_rh})
-    j.field(accuracy_key(x, k, s), units::to_display(sensors::bias_kind(x, k), s, be.accuracy(x, scale)), 8);
+    j.field(accuracy_key(x, k, s),
+            units::to_display(sensors::bias_kind(x, k), s, be.accuracy(x, scale)), 8);
 }
 
 void json_break_even(Json& j, const sensors::BreakEvenResult& be, units::System s) {
@@ -289,15 +308,17 @@ void json_break_even(Json& j, const sensors::BreakEvenResult& be, units::System 
   j.end_object();
 }
 
-void json_turn(Json& j, std::string_view key, const sensors::SweepResult& sw, const sensors::SweepTurn& t,
-               units::System s) {
+void json_turn(Json& j, std::string_view key, const sensors::SweepResult& sw,
+               const sensors::SweepTurn& t, units::System s) {
   const units::Kind k = sensors::bias_kind(sw.spec.sensor, sw.spec.outdoor_kind);
   j.key(key).begin_object();
   j.field("at_reference", t.at_reference);
   for (auto [name, v] : {std::pair{"below", t.below}, std::pair{"above", t.above}}) {
     j.key(name);
-    if (v) j.value(units::to_display(k, s, *v), 8);
-    else j.null();
+    if (v)
+      j.value(units::to_display(k, s, *v), 8);
+    else
+      j.null();
   }
   j.end_object();
 }
@@ -313,8 +334,10 @@ void json_sweep(Json& j, const sensors::SweepResult& sw, units::System s) {
   j.end_array();
   j.key("best").begin_array();
   for (std::size_t i = 0; i < spec.biases.size(); ++i)
-    if (sw.completed[i]) j.value(sw.names[sw.best[i]]);
-    else j.null();
+    if (sw.completed[i])
+      j.value(sw.names[sw.best[i]]);
+    else
+      j.null();
   j.end_array();
   j.key("strategies").begin_object();
   for (std::size_t n = 0; n < sw.names.size(); ++n) {
@@ -322,13 +345,16 @@ void json_sweep(Json& j, const sensors::SweepResult& sw, units::System s) {
     auto series = [&](std::string_view key, auto value) {
       j.key(key).begin_array();
       for (std::size_t i = 0; i < spec.biases.size(); ++i)
-        if (sw.completed[i]) j.value(value(sw.outcomes[i][n]), 8);
-        else j.null();
+        if (sw.completed[i])
+          j.value(value(sw.outcomes[i][n]), 8);
+        else
+          j.null();
       j.end_array();
     };
     series("shortfall_kwh", [](const sensors::TrialOutcome& o) { return o.shortfall_kwh; });
     if (s == units::System::ip)
-      series("shortfall_kbtu", [&](const sensors::TrialOutcome& o) { return energy_display(o.shortfall_kwh, s); });
+      series("shortfall_kbtu",
+             [&](const sensors::TrialOutcome& o) { return energy_display(o.shortfall_kwh, s); });
     series("harmful_hours", [](const sensors::TrialOutcome& o) { return o.harmful_hours; });
     series("missed_hours", [](const sensors::TrialOutcome& o) { return o.missed_hours; });
     j.field("uses_humidity", sw.humidity_based[n] != 0);
@@ -369,18 +395,23 @@ std::string sensors_text(const SensorsReport& r) {
       "\nAnnual shortfall against the perfect changeover ({}; weighted coil cooling + heating; "
       "ranked by the mean over the trials):\n\n",
       eu);
-  out += stats_table(st, &sensors::StrategySummary::shortfall_kwh, exact_shortfall, true, s, true).text();
+  out += stats_table(st, &sensors::StrategySummary::shortfall_kwh, exact_shortfall, true, s, true)
+             .text();
   out += "\nHarmful hours (economizing when it costs more than not), over the trials:\n\n";
-  out += stats_table(st, &sensors::StrategySummary::harmful_hours, exact_harmful, false, s, false).text();
+  out += stats_table(st, &sensors::StrategySummary::harmful_hours, exact_harmful, false, s, false)
+             .text();
   out += "\nMissed hours (not economizing when it would save), over the trials:\n\n";
-  out += stats_table(st, &sensors::StrategySummary::missed_hours, exact_missed, false, s, false).text();
-  out += "\nShare of trials in which the row strategy has the smaller shortfall than the column "
-         "strategy (same biases):\n\n";
+  out += stats_table(st, &sensors::StrategySummary::missed_hours, exact_missed, false, s, false)
+             .text();
+  out +=
+      "\nShare of trials in which the row strategy has the smaller shortfall than the column "
+      "strategy (same biases):\n\n";
   out += beats_table(st).text();
   if (!r.context->strategy_descriptions.empty()) {
     out += "\nStrategies:\n";
     for (const auto& x : st.ranked)
-      if (const auto it = r.context->strategy_descriptions.find(x.name); it != r.context->strategy_descriptions.end())
+      if (const auto it = r.context->strategy_descriptions.find(x.name);
+          it != r.context->strategy_descriptions.end())
         out += fmt::format("  {}: {}\n", x.name, it->second);
   }
   out += "\n" + clamp_line(r);
@@ -405,7 +436,8 @@ std::string sensors_json(const SensorsReport& r) {
   j.field("outdoor_humidity_kind", std::string(sensors::humidity_kind_name(k)));
   j.key("accuracy").begin_object();
   for (Sensor x : sensors::kSensors)
-    j.field(accuracy_key(x, k, s), units::to_display(sensors::bias_kind(x, k), s, at(st.sensors.accuracy, x)), 8);
+    j.field(accuracy_key(x, k, s),
+            units::to_display(sensors::bias_kind(x, k), s, at(st.sensors.accuracy, x)), 8);
   j.end_object();
   j.end_object();
 
@@ -459,10 +491,12 @@ void write_trials_csv(std::ostream& out, const sensors::StudyResult& st, units::
   for (Sensor x : sensors::kSensors)
     header.push_back(fmt::format("{}_bias_{}", sensors::sensor_key(x, k),
                                  units::key_suffix(sensors::bias_kind(x, k), s)));
-  for (const char* name : {"outdoor_humidity_clamped", "return_rh_clamped", "strategy", "shortfall_kwh"})
+  for (const char* name :
+       {"outdoor_humidity_clamped", "return_rh_clamped", "strategy", "shortfall_kwh"})
     header.emplace_back(name);
   if (s == units::System::ip) header.emplace_back("shortfall_kbtu");
-  for (const char* name : {"harmful_hours", "harmful_kwh", "missed_hours", "missed_kwh", "enabled_hours", "energy_kwh"})
+  for (const char* name : {"harmful_hours", "harmful_kwh", "missed_hours", "missed_kwh",
+                           "enabled_hours", "energy_kwh"})
     header.emplace_back(name);
   // Rows are written as they are made: a long study never holds its CSV in memory.
   auto line = [&](const std::vector<std::string>& cells) {
@@ -484,7 +518,8 @@ void write_trials_csv(std::ostream& out, const sensors::StudyResult& st, units::
       const sensors::TrialOutcome& o = st.outcome(n, a);
       row.push_back(g(o.shortfall_kwh));
       if (s == units::System::ip) row.push_back(g(energy_display(o.shortfall_kwh, s)));
-      for (double v : {o.harmful_hours, o.harmful_kwh, o.missed_hours, o.missed_kwh, o.enabled_hours, o.energy_kwh})
+      for (double v : {o.harmful_hours, o.harmful_kwh, o.missed_hours, o.missed_kwh,
+                       o.enabled_hours, o.energy_kwh})
         row.push_back(g(v));
       line(row);
     }

@@ -100,9 +100,10 @@ std::optional<std::string> exact_text(Kind k, System s, double si) {
 
 std::string rounded_text(Kind k, System s, double si, int extra_decimals = 0) {
   const Precision& p = precision(k);
-  return with_label(number_text(units::to_display(k, s, si),
-                                (s == System::ip ? p.rounded_ip : p.rounded_si) + extra_decimals, s),
-                    k, s);
+  return with_label(
+      number_text(units::to_display(k, s, si),
+                  (s == System::ip ? p.rounded_ip : p.rounded_si) + extra_decimals, s),
+      k, s);
 }
 
 // The figure a rounded one stands for: exact in the other system if it is, else more digits.
@@ -117,7 +118,8 @@ std::string written(Kind k, System s, double si, Note note = Note::analysed) {
   if (auto e = exact_text(k, s, si)) return *e;
   const std::string r = rounded_text(k, s, si);
   switch (note) {
-    case Note::analysed: return fmt::format("{} (rounded; the analysis used {})", r, origin_text(k, s, si));
+    case Note::analysed:
+      return fmt::format("{} (rounded; the analysis used {})", r, origin_text(k, s, si));
     case Note::source: return fmt::format("{} (rounded from {})", r, origin_text(k, s, si));
     case Note::about: return "about " + r;
   }
@@ -161,9 +163,9 @@ struct FixedFigure {
   std::string_view ip, si;
   std::string_view pick(System s) const { return s == System::ip ? ip : si; }
 };
-constexpr double kLowLimitMarginF = 3.0;        // "a few degrees" below the mixed-air setpoint
+constexpr double kLowLimitMarginF = 3.0;  // "a few degrees" below the mixed-air setpoint
 constexpr double kLowLimitMarginK = 1.5;
-constexpr double kFreezeExampleF = 38.0;        // common practice for low-temperature detection
+constexpr double kFreezeExampleF = 38.0;  // common practice for low-temperature detection
 constexpr FixedFigure kSensorRange{"-40 °F or above 130 °F", "-40 °C or above 55 °C"};
 
 // --- Sensors, as data -------------------------------------------------------------------
@@ -183,44 +185,78 @@ struct SensorRow {
   FixedFigure accuracy;  // when not studied
 };
 constexpr SensorRow kSensors[] = {
-    {Need::always, "Outdoor-air temperature",
+    {Need::always,
+     "Outdoor-air temperature",
      "in the outdoor-air intake ahead of the outdoor damper, in a ventilated sun shield, clear "
      "of relief and exhaust outlets and of heat from the roof",
-     "thermistor or platinum resistance element", true, sensors::Sensor::outdoor_dry_bulb, {}},
-    {Need::outdoor_humidity, "Outdoor-air humidity",
+     "thermistor or platinum resistance element",
+     true,
+     sensors::Sensor::outdoor_dry_bulb,
+     {}},
+    {Need::outdoor_humidity,
+     "Outdoor-air humidity",
      "beside the outdoor-air temperature sensor, in the same shield",
-     "capacitive relative-humidity element", true, sensors::Sensor::outdoor_humidity, {}},
-    {Need::always, "Return-air temperature",
+     "capacitive relative-humidity element",
+     true,
+     sensors::Sensor::outdoor_humidity,
+     {}},
+    {Need::always,
+     "Return-air temperature",
      "in the return duct ahead of the return damper and of any relief or exhaust connection, "
      "where the return air is well mixed",
      "thermistor or platinum resistance element, matched in accuracy to the outdoor sensor "
      "because their errors add when the two are compared",
-     true, sensors::Sensor::return_dry_bulb, {}},
-    {Need::return_humidity, "Return-air humidity", "beside the return-air temperature sensor",
-     "capacitive relative-humidity element of the same make and range as the outdoor one", true,
-     sensors::Sensor::return_rh, {}},
-    {Need::always, "Mixed-air temperature",
+     true,
+     sensors::Sensor::return_dry_bulb,
+     {}},
+    {Need::return_humidity,
+     "Return-air humidity",
+     "beside the return-air temperature sensor",
+     "capacitive relative-humidity element of the same make and range as the outdoor one",
+     true,
+     sensors::Sensor::return_rh,
+     {}},
+    {Need::always,
+     "Mixed-air temperature",
      "after the outdoor and return dampers and ahead of the first coil, strung across the "
      "whole cross-section, because outdoor and return air stratify",
-     "averaging element", false, {}, {"±1 °F as an average", "±0.5 K as an average"}},
-    {Need::always, "Supply-air temperature",
+     "averaging element",
+     false,
+     {},
+     {"±1 °F as an average", "±0.5 K as an average"}},
+    {Need::always,
+     "Supply-air temperature",
      "in the supply duct after the supply fan and the last coil, far enough downstream for "
      "the air to be mixed",
-     "thermistor or platinum resistance element", false, {}, {"±0.5 °F", "±0.3 K"}},
-    {Need::always, "Low-temperature detection",
+     "thermistor or platinum resistance element",
+     false,
+     {},
+     {"±0.5 °F", "±0.3 K"}},
+    {Need::always,
+     "Low-temperature detection",
      "across the full face of the first coil that can freeze, after the mixing section, so "
      "that any short length of element in cold air trips it",
      "averaging capillary thermostat, hard-wired, with manual reset and the setpoint of "
      "paragraph 6.2",
-     false, {}, {}},
-    {Need::always, "Supply-fan status", "on the supply-fan motor circuit, or across the fan",
+     false,
+     {},
+     {}},
+    {Need::always,
+     "Supply-fan status",
+     "on the supply-fan motor circuit, or across the fan",
      "current-sensing relay or differential-pressure switch, set to prove airflow and not "
      "merely power",
-     false, {}, {}},
-    {Need::always, "Outdoor-damper position", "on the outdoor-damper actuator or shaft",
+     false,
+     {},
+     {}},
+    {Need::always,
+     "Outdoor-damper position",
+     "on the outdoor-damper actuator or shaft",
      "actuator position feedback or shaft-mounted position transmitter, so the commanded and "
      "actual positions can be compared",
-     false, {}, {"±5% of stroke", "±5% of stroke"}},
+     false,
+     {},
+     {"±5% of stroke", "±5% of stroke"}},
 };
 
 // What the outdoor humidity sensor is, by the kind the sensor set names.
@@ -332,23 +368,23 @@ void header(const Context& ctx, Document& d) {
 }
 
 void general(const Context& ctx, Section& sec) {
-  add(sec, fmt::format(
-               "This part of the sequence covers the air-side economizer of {}: the outdoor, "
-               "return and relief dampers, the high-limit control, mixed-air control, and the "
-               "mixed-air low-limit and freeze protection that override them. It is generated "
-               "from the unit file {}, and every setpoint in it is the figure the energy "
-               "analysis used; change a setpoint in the unit file and generate the text again, "
-               "so that the written sequence and the analysis stay the same.",
-               ctx.site_title(), ctx.in.unit_label));
+  add(sec,
+      fmt::format("This part of the sequence covers the air-side economizer of {}: the outdoor, "
+                  "return and relief dampers, the high-limit control, mixed-air control, and the "
+                  "mixed-air low-limit and freeze protection that override them. It is generated "
+                  "from the unit file {}, and every setpoint in it is the figure the energy "
+                  "analysis used; change a setpoint in the unit file and generate the text again, "
+                  "so that the written sequence and the analysis stay the same.",
+                  ctx.site_title(), ctx.in.unit_label));
   const bool ip = ctx.s == System::ip;
-  add(sec, fmt::format(
-               "Temperatures are in {}; enthalpy is in {} of dry air, referred to dry air at {} "
-               "(the {} datum). Outdoor-air fractions are shares of the supply airflow. Each "
-               "setpoint states its basis: an energy-code clause, a design choice, or common "
-               "practice. A figure marked \"rounded\" cannot be written exactly in these units; "
-               "the figure the analysis used follows it, and that one governs.",
-               ip ? "°F" : "°C", ip ? "Btu per pound" : "kJ per kilogram", ip ? "0 °F" : "0 °C",
-               ip ? "IP" : "SI"));
+  add(sec,
+      fmt::format("Temperatures are in {}; enthalpy is in {} of dry air, referred to dry air at {} "
+                  "(the {} datum). Outdoor-air fractions are shares of the supply airflow. Each "
+                  "setpoint states its basis: an energy-code clause, a design choice, or common "
+                  "practice. A figure marked \"rounded\" cannot be written exactly in these units; "
+                  "the figure the analysis used follows it, and that one governs.",
+                  ip ? "°F" : "°C", ip ? "Btu per pound" : "kJ per kilogram", ip ? "0 °F" : "0 °C",
+                  ip ? "IP" : "SI"));
 }
 
 void enable(const Context&, Section& sec) {
@@ -376,12 +412,14 @@ std::string annual_support(const Context& ctx) {
   if (!ctx.in.annual) return {};
   const std::size_t n = ctx.in.annual->year->strategies.size();
   if (ctx.rank == 1)
-    return fmt::format(" The annual evaluation of paragraph {} supports it: this strategy "
-                       "ranked first of the {} evaluated.",
-                       ctx.annual_ref, n);
-  return fmt::format(" The annual evaluation of paragraph {} ranks this strategy {} of {}; "
-                     "weigh that before adopting it.",
-                     ctx.annual_ref, ctx.rank, n);
+    return fmt::format(
+        " The annual evaluation of paragraph {} supports it: this strategy "
+        "ranked first of the {} evaluated.",
+        ctx.annual_ref, n);
+  return fmt::format(
+      " The annual evaluation of paragraph {} ranks this strategy {} of {}; "
+      "weigh that before adopting it.",
+      ctx.annual_ref, ctx.rank, n);
 }
 
 // A figure the code requires, as this text writes setpoints.
@@ -432,7 +470,8 @@ std::string code_type_sentence(const Context& ctx) {
   switch (ctx.code.check.verdict) {
     case codes::Verdict::complies:
     case codes::Verdict::set_wrong:
-      out = fmt::format("{} allows this control type in climate zone {}.", ctx.code.cite(*ctx.code.check.row), z.zone);
+      out = fmt::format("{} allows this control type in climate zone {}.",
+                        ctx.code.cite(*ctx.code.check.row), z.zone);
       note(ctx.code.check.row);
       break;
     case codes::Verdict::not_allowed: {
@@ -473,7 +512,8 @@ std::string condition_basis(const Context& ctx, std::size_t i) {
   switch (ctx.code.check.verdict) {
     case codes::Verdict::not_allowed:
       return "design choice; the control type is not allowed in this climate zone (paragraph "
-             "3.1)." + annual_support(ctx);
+             "3.1)." +
+             annual_support(ctx);
     case codes::Verdict::not_evaluable:
       return "design choice; it cannot be checked against the code (paragraph 3.1)." +
              annual_support(ctx);
@@ -499,9 +539,10 @@ std::string condition_basis(const Context& ctx, std::size_t i) {
   const std::string where =
       fmt::format("{}, climate zone {}", ctx.code.cite(*ctx.code.check.row), ctx.code.zone->zone);
   if (std::fabs(m->setting.value - value) > 1e-9)
-    return fmt::format("design choice; condition {} sets the lower limit on the same quantity, "
-                       "and that one is the one {} judges.",
-                       lowest_condition(ctx, q, c.reference) + 1, where) +
+    return fmt::format(
+               "design choice; condition {} sets the lower limit on the same quantity, "
+               "and that one is the one {} judges.",
+               lowest_condition(ctx, q, c.reference) + 1, where) +
            annual_support(ctx);
   const Kind sk = codes::setting_kind(q, c.reference);
   std::string required = required_text(ctx, q, c.reference, req->value);
@@ -510,9 +551,10 @@ std::string condition_basis(const Context& ctx, std::size_t i) {
                             written(sk, ctx.s, req->tabulated, Note::source));
   std::string read_as;
   if (q != c.quantity)
-    read_as = fmt::format(" This humidity-ratio limit is read as a dew point of {} at the site "
-                          "pressure.",
-                          written(Kind::temperature, ctx.s, value, Note::source));
+    read_as = fmt::format(
+        " This humidity-ratio limit is read as a dew point of {} at the site "
+        "pressure.",
+        written(Kind::temperature, ctx.s, value, Note::source));
   for (const auto& d : ctx.code.check.deviations) {
     if (d.quantity != q || d.reference != c.reference) continue;
     const Kind dk = highlimit::quantity_difference_kind(q);
@@ -543,25 +585,29 @@ std::string condition_paragraph(const Context& ctx, std::size_t i) {
       out += fmt::format(" Release this lockout only when it falls below {}, a deadband of {}.",
                          written(vk, ctx.s, c.limit - c.deadband), written(dk, ctx.s, c.deadband));
     else
-      out += fmt::format(" Release it as soon as the {} is back at or below that limit (no "
-                         "deadband).",
-                         w.outdoor);
+      out += fmt::format(
+          " Release it as soon as the {} is back at or below that limit (no "
+          "deadband).",
+          w.outdoor);
   } else {
     out += "the " + std::string(w.ret);
     if (std::fabs(c.limit) > 1e-12)
-      out += fmt::format(" {} {}", c.limit > 0 ? "plus" : "minus", written(dk, ctx.s, std::fabs(c.limit)));
+      out += fmt::format(" {} {}", c.limit > 0 ? "plus" : "minus",
+                         written(dk, ctx.s, std::fabs(c.limit)));
     out += ".";
     if (c.deadband > 0.0)
-      out += fmt::format(" Release this lockout only when it falls more than {} below that "
-                         "value (the deadband).",
-                         written(dk, ctx.s, c.deadband));
+      out += fmt::format(
+          " Release this lockout only when it falls more than {} below that "
+          "value (the deadband).",
+          written(dk, ctx.s, c.deadband));
     else
       out += " Release it as soon as it is back at or below that value (no deadband).";
   }
   out += " Basis: " + condition_basis(ctx, i);
   if (c.deadband > 0.0)
-    out += " The deadband is a design choice that keeps the dampers from cycling at the limit; "
-           "the code tables set none.";
+    out +=
+        " The deadband is a design choice that keeps the dampers from cycling at the limit; "
+        "the code tables set none.";
   return out;
 }
 
@@ -569,7 +615,9 @@ std::string energy(const Context& ctx, double kwh) {
   return fmt::format("{} {}", number_text(report::energy_display(kwh, ctx.s), 0, ctx.s),
                      report::energy_unit(ctx.s));
 }
-std::string hours(const Context& ctx, double h) { return fmt::format("{} h", number_text(h, 0, ctx.s)); }
+std::string hours(const Context& ctx, double h) {
+  return fmt::format("{} h", number_text(h, 0, ctx.s));
+}
 
 std::string annual_paragraph(const Context& ctx) {
   const annual::YearResult& y = *ctx.in.annual->year;
@@ -589,8 +637,9 @@ std::string annual_paragraph(const Context& ctx) {
       hours(ctx, r.annual.hours_integrated), hours(ctx, r.annual.harmful_hours),
       hours(ctx, r.annual.missed_hours));
   if (ctx.rank > 1)
-    out += fmt::format(" The best strategy evaluated, \"{}\", falls {} short.", y.strategies[0].name,
-                       energy(ctx, std::max(0.0, y.strategies[0].shortfall_vs_perfect_kwh)));
+    out +=
+        fmt::format(" The best strategy evaluated, \"{}\", falls {} short.", y.strategies[0].name,
+                    energy(ctx, std::max(0.0, y.strategies[0].shortfall_vs_perfect_kwh)));
   out += " Energy is cooling and heating at the coils, weighted as the unit file sets.";
   return out;
 }
@@ -607,8 +656,9 @@ void high_limit(const Context& ctx, Section& sec) {
       n == 1 ? std::string("It has one condition.")
              : fmt::format("It has {} conditions, joined by OR.", n));
   if (ctx.unit.strategies_defaulted)
-    first += " The unit file names no strategy, so this is the first preset at limitline's "
-             "common-practice settings.";
+    first +=
+        " The unit file names no strategy, so this is the first preset at limitline's "
+        "common-practice settings.";
   if (ctx.code.zone) first += " " + code_type_sentence(ctx);
   add(sec, first);
   for (std::size_t i = 0; i < n; ++i) add(sec, condition_paragraph(ctx, i));
@@ -625,40 +675,48 @@ void high_limit(const Context& ctx, Section& sec) {
 std::string integration_paragraph(const Context& ctx) {
   std::string out;
   if (ctx.integrated())
-    out = "Integrated operation: when the outdoor damper is at the limit of paragraph 4.2 and "
-          "the mixed air is still above the setpoint of paragraph 4.1, the outdoor damper shall "
-          "stay at that limit and mechanical cooling shall make up the rest of the load to the "
-          "supply-air setpoint. Running mechanical cooling shall neither lock out the "
-          "economizer nor move the outdoor damper; only the high-limit of section 3, the "
-          "protections of section 6 and the modes of section 2 take it off economizer "
-          "operation.";
+    out =
+        "Integrated operation: when the outdoor damper is at the limit of paragraph 4.2 and "
+        "the mixed air is still above the setpoint of paragraph 4.1, the outdoor damper shall "
+        "stay at that limit and mechanical cooling shall make up the rest of the load to the "
+        "supply-air setpoint. Running mechanical cooling shall neither lock out the "
+        "economizer nor move the outdoor damper; only the high-limit of section 3, the "
+        "protections of section 6 and the modes of section 2 take it off economizer "
+        "operation.";
   else
-    out = "Non-integrated operation: this unit does not run the economizer and mechanical "
-          "cooling together. When the outdoor damper is at the limit of paragraph 4.2 and the "
-          "mixed air is still above the setpoint of paragraph 4.1, the economizer shall be "
-          "locked out, the outdoor damper shall return to the ventilation minimum of paragraph "
-          "5.1, and mechanical cooling shall carry the whole load. The economizer shall be "
-          "enabled again only when the outdoor-air dry-bulb temperature has fallen below the "
-          "mixed-air setpoint of paragraph 4.1, after any minimum run time the compressor "
-          "manufacturer sets.";
+    out =
+        "Non-integrated operation: this unit does not run the economizer and mechanical "
+        "cooling together. When the outdoor damper is at the limit of paragraph 4.2 and the "
+        "mixed air is still above the setpoint of paragraph 4.1, the economizer shall be "
+        "locked out, the outdoor damper shall return to the ventilation minimum of paragraph "
+        "5.1, and mechanical cooling shall carry the whole load. The economizer shall be "
+        "enabled again only when the outdoor-air dry-bulb temperature has fallen below the "
+        "mixed-air setpoint of paragraph 4.1, after any minimum run time the compressor "
+        "manufacturer sets.";
   if (!ctx.code.zone) {
     out += " Basis: design choice; no energy code is named to check it against.";
   } else {
-    const auto ic = codes::check_integration(*ctx.code.zone->edition, ctx.unit.air_handler.economizer);
+    const auto ic =
+        codes::check_integration(*ctx.code.zone->edition, ctx.unit.air_handler.economizer);
     if (!ic.rule->required)
-      out += fmt::format(" Basis: design choice; limitline's tables for {} set no integration "
-                         "requirement.",
-                         ctx.code.edition_title());
+      out += fmt::format(
+          " Basis: design choice; limitline's tables for {} set no integration "
+          "requirement.",
+          ctx.code.edition_title());
     else if (ic.complies)
-      out += fmt::format(" Basis: {}, {}, which requires an integrated economizer; this unit "
-                         "meets it.",
-                         ctx.code.edition_title(), ic.rule->clause);
+      out += fmt::format(
+          " Basis: {}, {}, which requires an integrated economizer; this unit "
+          "meets it.",
+          ctx.code.edition_title(), ic.rule->clause);
     else
-      out += fmt::format(" Basis: design choice. {}, {}, requires an integrated economizer, so "
-                         "this operation does not meet that code as written.",
-                         ctx.code.edition_title(), ic.rule->clause);
+      out += fmt::format(
+          " Basis: design choice. {}, {}, requires an integrated economizer, so "
+          "this operation does not meet that code as written.",
+          ctx.code.edition_title(), ic.rule->clause);
   }
-  if (ctx.in.annual) out += fmt::format(" The annual evaluation of paragraph {} used this operation.", ctx.annual_ref);
+  if (ctx.in.annual)
+    out +=
+        fmt::format(" The annual evaluation of paragraph {} used this operation.", ctx.annual_ref);
   return out;
 }
 
@@ -669,25 +727,26 @@ void modulation(const Context& ctx, Section& sec) {
       "opposition to hold the mixed-air temperature at {}: ",
       ctx.t(a.mixed_air_target_c()));
   if (a.fan_heat_k > 0.0)
-    out += fmt::format("the supply-air setpoint of {} less {} for the heat of the {} supply "
-                       "fan{}.",
-                       ctx.t(a.supply_air_temp_c), ctx.dt(a.fan_heat_k),
-                       airside::fan_position_name(a.fan_position),
-                       a.fan_position == airside::FanPosition::draw_through
-                           ? ", which adds it after the cooling coil"
-                           : ", which adds it ahead of the cooling coil");
+    out += fmt::format(
+        "the supply-air setpoint of {} less {} for the heat of the {} supply "
+        "fan{}.",
+        ctx.t(a.supply_air_temp_c), ctx.dt(a.fan_heat_k),
+        airside::fan_position_name(a.fan_position),
+        a.fan_position == airside::FanPosition::draw_through
+            ? ", which adds it after the cooling coil"
+            : ", which adds it ahead of the cooling coil");
   else
     out += fmt::format("the supply-air setpoint of {}, with no supply-fan heat allowed for.",
                        ctx.t(a.supply_air_temp_c));
-  out += " Basis: design choice; the supply-air setpoint and fan heat are the unit's, as the "
-         "analysis used them.";
+  out +=
+      " Basis: design choice; the supply-air setpoint and fan heat are the unit's, as the "
+      "analysis used them.";
   add(sec, out);
-  add(sec,
-      fmt::format("The outdoor damper shall open no further than {} outdoor air{}. Basis: "
-                  "design choice, set by the damper and relief capacity; the analysis used "
-                  "this limit.",
-                  written(Kind::fraction, ctx.s, a.max_oa_fraction),
-                  a.max_oa_fraction >= 1.0 ? " (fully open)" : ""));
+  add(sec, fmt::format("The outdoor damper shall open no further than {} outdoor air{}. Basis: "
+                       "design choice, set by the damper and relief capacity; the analysis used "
+                       "this limit.",
+                       written(Kind::fraction, ctx.s, a.max_oa_fraction),
+                       a.max_oa_fraction >= 1.0 ? " (fully open)" : ""));
   add(sec, integration_paragraph(ctx));
   add(sec,
       "As the outdoor damper opens, relief dampers or a return or relief fan shall keep the "
@@ -706,62 +765,61 @@ void minimum(const Context& ctx, Section& sec) {
                          written(Kind::fraction, ctx.s, a.min_oa_fraction, Note::about),
                          written(Kind::airflow, ctx.s, a.supply_airflow_m3_per_s));
   else
-    amount = fmt::format("{} outdoor air ({} at the design supply airflow of {})",
-                         written(Kind::fraction, ctx.s, a.min_oa_fraction),
-                         written(Kind::airflow, ctx.s, a.min_oa_fraction * a.supply_airflow_m3_per_s,
-                                 Note::about),
-                         written(Kind::airflow, ctx.s, a.supply_airflow_m3_per_s));
-  add(sec,
-      fmt::format(
-          "Whenever the supply fan runs in occupied mode, the outdoor damper shall admit at "
-          "least the ventilation minimum of {}, whatever the economizer and the mixed-air "
-          "low-limit call for; only the freeze protection of paragraph 6.2 may close it "
-          "further. Where the supply airflow varies, the minimum position shall be reset, or "
-          "the outdoor airflow measured, so that the airflow rather than the damper position "
-          "is held. Basis: the ventilation minimum is the designer's responsibility, from the "
-          "ventilation calculation the adopted mechanical code requires; this is the figure "
-          "the analysis used.",
-          amount));
+    amount = fmt::format(
+        "{} outdoor air ({} at the design supply airflow of {})",
+        written(Kind::fraction, ctx.s, a.min_oa_fraction),
+        written(Kind::airflow, ctx.s, a.min_oa_fraction * a.supply_airflow_m3_per_s, Note::about),
+        written(Kind::airflow, ctx.s, a.supply_airflow_m3_per_s));
+  add(sec, fmt::format(
+               "Whenever the supply fan runs in occupied mode, the outdoor damper shall admit at "
+               "least the ventilation minimum of {}, whatever the economizer and the mixed-air "
+               "low-limit call for; only the freeze protection of paragraph 6.2 may close it "
+               "further. Where the supply airflow varies, the minimum position shall be reset, or "
+               "the outdoor airflow measured, so that the airflow rather than the damper position "
+               "is held. Basis: the ventilation minimum is the designer's responsibility, from the "
+               "ventilation calculation the adopted mechanical code requires; this is the figure "
+               "the analysis used.",
+               amount));
 }
 
 // --- Section 6 ---
 
 void protection(const Context& ctx, Section& sec) {
   const double target = ctx.ah().mixed_air_target_c();
-  const double margin = units::from_display(
-      Kind::temperature_difference, ctx.s, ctx.s == System::ip ? kLowLimitMarginF : kLowLimitMarginK);
+  const double margin =
+      units::from_display(Kind::temperature_difference, ctx.s,
+                          ctx.s == System::ip ? kLowLimitMarginF : kLowLimitMarginK);
   const double low = design_value(Kind::temperature, ctx.s, target - margin, true);
   const double freeze = design_value(Kind::temperature, ctx.s,
                                      units::celsius_from_fahrenheit(kFreezeExampleF), false);
   const std::string clash =
       low <= freeze + 1e-9
-          ? fmt::format(" At this supply-air setpoint the low-limit is not above the {} "
-                        "common-practice figure of paragraph 6.2; the designer must set the "
-                        "two apart.",
-                        ctx.t(freeze))
+          ? fmt::format(
+                " At this supply-air setpoint the low-limit is not above the {} "
+                "common-practice figure of paragraph 6.2; the designer must set the "
+                "two apart.",
+                ctx.t(freeze))
           : std::string();
-  add(sec,
-      fmt::format(
-          "Mixed-air low-limit: if the mixed-air temperature falls below {}, a low-limit loop "
-          "shall override the mixed-air control of paragraph 4.1 and move the outdoor damper "
-          "towards the ventilation minimum of paragraph 5.1, never below it; heating, where "
-          "fitted, then makes up the supply-air setpoint. Basis: design choice, {} below the "
-          "mixed-air setpoint ({} below it is common practice); it guards the coils against "
-          "stratified cold air and is not part of the annual evaluation. Keep it above the "
-          "low-temperature detection setpoint of paragraph 6.2.{}",
-          ctx.t(low), written(Kind::temperature_difference, ctx.s, target - low, Note::about),
-          ctx.dt(margin), clash));
+  add(sec, fmt::format(
+               "Mixed-air low-limit: if the mixed-air temperature falls below {}, a low-limit loop "
+               "shall override the mixed-air control of paragraph 4.1 and move the outdoor damper "
+               "towards the ventilation minimum of paragraph 5.1, never below it; heating, where "
+               "fitted, then makes up the supply-air setpoint. Basis: design choice, {} below the "
+               "mixed-air setpoint ({} below it is common practice); it guards the coils against "
+               "stratified cold air and is not part of the annual evaluation. Keep it above the "
+               "low-temperature detection setpoint of paragraph 6.2.{}",
+               ctx.t(low), written(Kind::temperature_difference, ctx.s, target - low, Note::about),
+               ctx.dt(margin), clash));
 
-  add(sec,
-      fmt::format(
-          "Freeze protection: when the low-temperature detection of section 7 senses air "
-          "below its setpoint along any part of its element, the outdoor damper shall close "
-          "fully, overriding the ventilation minimum, the return damper shall open, and an "
-          "alarm shall be raised (paragraph 8.6); fan and heating-valve actions follow the "
-          "unit's freeze-protection design. The device shall act without the controller and "
-          "reset only by hand. The setpoint is the designer's responsibility; {} is common "
-          "practice.",
-          ctx.t(freeze)));
+  add(sec, fmt::format(
+               "Freeze protection: when the low-temperature detection of section 7 senses air "
+               "below its setpoint along any part of its element, the outdoor damper shall close "
+               "fully, overriding the ventilation minimum, the return damper shall open, and an "
+               "alarm shall be raised (paragraph 8.6); fan and heating-valve actions follow the "
+               "unit's freeze-protection design. The device shall act without the controller and "
+               "reset only by hand. The setpoint is the designer's responsibility; {} is common "
+               "practice.",
+               ctx.t(freeze)));
 }
 
 // --- Section 7 ---
@@ -782,15 +840,15 @@ void sensor_list(const Context& ctx, Section& sec) {
       }
       if (row.sensor == sensors::Sensor::return_rh) suffix = " RH";
       const double a = sensors::at(set.accuracy, row.sensor);
-      const std::string figure = written(sensors::bias_kind(row.sensor, kind), ctx.s, a, Note::source);
-      accuracy = fmt::format(
-          "{} or better, the figure the sensor-error study assumes ({})",
-          set.distribution == sensors::BiasDistribution::normal
-              ? fmt::format("{}{} as one standard deviation", figure, suffix)
-              : fmt::format("±{}{}", figure, suffix),
-          set.given[static_cast<std::size_t>(row.sensor)]
-              ? "from the unit file's [sensors] table"
-              : "a typical commercial figure, common practice");
+      const std::string figure =
+          written(sensors::bias_kind(row.sensor, kind), ctx.s, a, Note::source);
+      accuracy = fmt::format("{} or better, the figure the sensor-error study assumes ({})",
+                             set.distribution == sensors::BiasDistribution::normal
+                                 ? fmt::format("{}{} as one standard deviation", figure, suffix)
+                                 : fmt::format("±{}{}", figure, suffix),
+                             set.given[static_cast<std::size_t>(row.sensor)]
+                                 ? "from the unit file's [sensors] table"
+                                 : "a typical commercial figure, common practice");
       if (row.sensor == sensors::Sensor::outdoor_humidity ||
           row.sensor == sensors::Sensor::return_rh)
         accuracy += "; check or replace it yearly, because humidity elements drift";
@@ -872,9 +930,9 @@ Document build(const Context& ctx) {
 // --- Rendering ------------------------------------------------------------------------------
 
 // Unit labels stay on the line of their number when text is wrapped.
-constexpr std::string_view kUnitWords[] = {"°F", "°C", "K", "Btu/lb", "kJ/kg", "cfm", "m³/s",
-                                           "psia", "kPa", "lb/lb", "kg/kg", "h", "kBtu", "kWh",
-                                           "RH", "ft", "m"};
+constexpr std::string_view kUnitWords[] = {"°F",   "°C",   "K",   "Btu/lb", "kJ/kg", "cfm",
+                                           "m³/s", "psia", "kPa", "lb/lb",  "kg/kg", "h",
+                                           "kBtu", "kWh",  "RH",  "ft",     "m"};
 bool is_unit_word(std::string_view w) {
   while (!w.empty() && std::string_view(".,;:)").find(w.back()) != std::string_view::npos)
     w.remove_suffix(1);
@@ -903,8 +961,9 @@ std::string wrap(std::string_view first_prefix, std::string_view text, std::size
     const std::size_t w = display_width(word);
     // A number and its unit move to the next line together.
     const std::size_t next = std::min(text.find(' ', pos), text.size());
-    const std::size_t glued =
-        pos < text.size() && is_unit_word(text.substr(pos, next - pos)) ? 1 + display_width(text.substr(pos, next - pos)) : 0;
+    const std::size_t glued = pos < text.size() && is_unit_word(text.substr(pos, next - pos))
+                                  ? 1 + display_width(text.substr(pos, next - pos))
+                                  : 0;
     if (!line_empty && col + 1 + w + glued > width) {
       out += "\n" + std::string(indent, ' ');
       col = indent;
@@ -940,9 +999,10 @@ Document compose(const Inputs& in, units::System units) {
   if (in.unit == nullptr || in.strategy == nullptr)
     throw std::logic_error("sequence::compose: unit and strategy are required");
   if (in.strategy->conditions.empty())
-    throw InputError(fmt::format("{}: strategy '{}' has no conditions; a high-limit needs at "
-                                 "least one",
-                                 in.unit_label, in.strategy->name));
+    throw InputError(
+        fmt::format("{}: strategy '{}' has no conditions; a high-limit needs at "
+                    "least one",
+                    in.unit_label, in.strategy->name));
   if (in.annual && in.annual->year == nullptr)
     throw std::logic_error("sequence::compose: annual support without results");
   return build(make_context(in, units));
@@ -978,14 +1038,16 @@ std::optional<codes::ZoneRequirements> site_requirements(const UnitFile& unit,
   const Site& site = unit.site;
   if (site.energy_code.empty() && site.climate_zone.empty()) return std::nullopt;
   if (site.climate_zone.empty())
-    throw InputError(fmt::format("{}: an energy code is named but no climate_zone; the sequence "
-                                 "cites both or neither (add climate_zone = \"4A\" to [site])",
-                                 site.energy_code_origin));
+    throw InputError(
+        fmt::format("{}: an energy code is named but no climate_zone; the sequence "
+                    "cites both or neither (add climate_zone = \"4A\" to [site])",
+                    site.energy_code_origin));
   if (site.energy_code.empty())
-    throw InputError(fmt::format("{}: a climate zone is named but no energy_code; the sequence "
-                                 "cites both or neither (add energy_code = \"ashrae-90.1-2019\" "
-                                 "to [site])",
-                                 site.climate_zone_origin));
+    throw InputError(
+        fmt::format("{}: a climate zone is named but no energy_code; the sequence "
+                    "cites both or neither (add energy_code = \"ashrae-90.1-2019\" "
+                    "to [site])",
+                    site.climate_zone_origin));
   std::optional<double> pressure;
   if (site.pressure_kpa || site.elevation_m) pressure = site.design_pressure_kpa();
   const codes::Edition& e = tables.edition(site.energy_code, site.energy_code_origin);

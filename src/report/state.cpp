@@ -22,8 +22,7 @@ const PropertyField kFields[] = {
     {"Pressure", "pressure", Kind::pressure, 3, 3, &P::pressure_kpa},
     {"Saturation humidity ratio", "saturation_humidity_ratio", std::nullopt, 5, 5,
      &P::saturation_humidity_ratio},
-    {"Degree of saturation", "degree_of_saturation", std::nullopt, 4, 4,
-     &P::degree_of_saturation},
+    {"Degree of saturation", "degree_of_saturation", std::nullopt, 4, 4, &P::degree_of_saturation},
 };
 
 }  // namespace
@@ -35,8 +34,7 @@ std::string property_key(const PropertyField& f, units::System system) {
   return fmt::format("{}_{}", f.key_stem, units::key_suffix(*f.kind, system));
 }
 
-double property_value(const PropertyField& f, const psychro::Properties& p,
-                      units::System system) {
+double property_value(const PropertyField& f, const psychro::Properties& p, units::System system) {
   const double si = p.*f.member;
   return f.kind ? units::to_display(*f.kind, system, si) : si;
 }

@@ -58,8 +58,10 @@ void json_energy(Json& j, std::string_view stem, double kwh, units::System s) {
 
 void json_totals(Json& j, const annual::Totals& t, units::System s) {
   for (const auto& f : kTotalsFields) {
-    if (f.is_energy) json_energy(j, f.key, t.*f.member, s);
-    else j.field(f.key, t.*f.member, 8);
+    if (f.is_energy)
+      json_energy(j, f.key, t.*f.member, s);
+    else
+      j.field(f.key, t.*f.member, 8);
   }
 }
 
@@ -105,10 +107,18 @@ Table ranked_table(const annual::YearResult& y, const YearContext& c) {
         r->kind == annual::Kind::strategy ? std::to_string(++rank) : "ref",
         r->name,
         energy(r->shortfall_vs_perfect_kwh, s),
-        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer ? num(a.harmful_hours) : "-",
-        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer ? energy(a.harmful_kwh, s) : "-",
-        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer ? num(a.missed_hours) : "-",
-        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer ? energy(a.missed_kwh, s) : "-",
+        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer
+            ? num(a.harmful_hours)
+            : "-",
+        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer
+            ? energy(a.harmful_kwh, s)
+            : "-",
+        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer
+            ? num(a.missed_hours)
+            : "-",
+        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer
+            ? energy(a.missed_kwh, s)
+            : "-",
         num(a.hours_economizing),
         num(a.hours_free_cooling),
         num(cooling),
@@ -162,9 +172,9 @@ std::vector<std::string> findings(const annual::YearResult& y, const YearContext
         num(r.annual.missed_hours), energy(r.annual.missed_kwh, c.units), eu));
   }
   if (y.optimal_damper.shortfall_vs_perfect_kwh < -1e-9)
-    out.push_back(fmt::format(
-        "An ideally modulated damper would save a further {} {} beyond any changeover.",
-        energy(-y.optimal_damper.shortfall_vs_perfect_kwh, c.units), eu));
+    out.push_back(
+        fmt::format("An ideally modulated damper would save a further {} {} beyond any changeover.",
+                    energy(-y.optimal_damper.shortfall_vs_perfect_kwh, c.units), eu));
   return out;
 }
 
@@ -238,9 +248,12 @@ std::string year_text(const annual::YearResult& y, const YearContext& c) {
 
 std::string year_markdown(const annual::YearResult& y, const YearContext& c) {
   // Every line below carries names from the user's files: escaped, so none reads as markup.
-  std::string out = fmt::format("# Annual economizer high-limit evaluation — {}\n\n", markdown_escape(c.title));
+  std::string out =
+      fmt::format("# Annual economizer high-limit evaluation — {}\n\n", markdown_escape(c.title));
   for (const auto& l : header_lines(y, c))
-    out += (l.starts_with("  ") ? "  - " + markdown_escape(l.substr(2)) : "- " + markdown_escape(l)) + "\n";
+    out +=
+        (l.starts_with("  ") ? "  - " + markdown_escape(l.substr(2)) : "- " + markdown_escape(l)) +
+        "\n";
   out += fmt::format("\n## Strategies ranked by shortfall against the perfect changeover ({})\n\n",
                      energy_unit(c.units));
   out += ranked_table(y, c).markdown();
@@ -260,7 +273,10 @@ std::string year_csv(const annual::YearResult& y, const YearContext& c) {
   std::vector<Column> cols = {{"strategy", Align::left}, {"kind", Align::left}};
   std::vector<std::string> keys;
   for (const auto& f : kTotalsFields) {
-    if (!f.is_energy) { keys.emplace_back(f.key); continue; }
+    if (!f.is_energy) {
+      keys.emplace_back(f.key);
+      continue;
+    }
     keys.push_back(fmt::format("{}_kwh", f.key));
     if (c.units == units::System::ip) {
       keys.push_back(fmt::format("{}_kbtu", f.key));
@@ -274,7 +290,8 @@ std::string year_csv(const annual::YearResult& y, const YearContext& c) {
   for (const auto& k : keys) cols.push_back({k, Align::right});
   Table t(cols);
   for (const auto* r : all_rows(y)) {
-    std::vector<std::string> row = {r->name, r->kind == annual::Kind::strategy ? "strategy" : "reference"};
+    std::vector<std::string> row = {r->name,
+                                    r->kind == annual::Kind::strategy ? "strategy" : "reference"};
     auto put = [&](double v) { row.push_back(fmt::format("{:.8g}", v == 0.0 ? 0.0 : v)); };
     for (const auto& f : kTotalsFields) {
       const double v = r->annual.*f.member;
@@ -303,8 +320,10 @@ std::string year_json(const annual::YearResult& y, const YearContext& c) {
   j.key("ranking").begin_array();
   for (const auto& r : y.strategies) j.value(r.name);
   j.end_array();
-  if (const auto* b = y.best()) j.field("best", b->name);
-  else j.key("best").null();
+  if (const auto* b = y.best())
+    j.field("best", b->name);
+  else
+    j.key("best").null();
   j.key("results").begin_object();
   for (const auto* r : all_rows(y)) {
     j.key(r->name).begin_object();

@@ -19,7 +19,6 @@ using namespace limitline;
 
 const std::string kUnit = test::office_with_schedule();
 
-
 std::string read(const std::string& path) {
   std::ifstream f(path, std::ios::binary);
   std::stringstream ss;

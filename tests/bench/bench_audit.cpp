@@ -28,7 +28,8 @@ namespace {
 using namespace limitline;
 
 // The example unit, beside tests/data in the source tree.
-const std::string kUnitPath = std::string(LIMITLINE_TEST_DATA_DIR) + "/../../examples/audit-office.toml";
+const std::string kUnitPath =
+    std::string(LIMITLINE_TEST_DATA_DIR) + "/../../examples/audit-office.toml";
 
 struct Setup {
   UnitFile unit = load_unit_file(kUnitPath);

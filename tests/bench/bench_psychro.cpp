@@ -115,11 +115,11 @@ void BM_WetBulbFromHumidityRatio(benchmark::State& state) {
   for (const State& st : s) {
     const double tw = psy::wet_bulb_from_humidity_ratio_c(st.t, st.w, st.p);
     // Eq. 33/35 jump at t* = 0 °C; keep the bracket on the answer's side of it.
-    worst = std::max(worst, distance_to_root(tw, [&](double x) {
-                       if ((x < 0.0) != (tw < 0.0)) x = tw < 0.0 ? -1e-12 : 0.0;
-                       return psy::humidity_ratio_from_wet_bulb(st.t, std::min(x, st.t), st.p) -
-                              st.w;
-                     }));
+    worst =
+        std::max(worst, distance_to_root(tw, [&](double x) {
+                   if ((x < 0.0) != (tw < 0.0)) x = tw < 0.0 ? -1e-12 : 0.0;
+                   return psy::humidity_ratio_from_wet_bulb(st.t, std::min(x, st.t), st.p) - st.w;
+                 }));
   }
   state.counters["max_error_K"] = worst;
   if (worst > 1e-3) {

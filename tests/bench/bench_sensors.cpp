@@ -19,16 +19,16 @@ using namespace limitline;
 
 const std::string kUnit = test::kOfficeUnit;
 
-
 struct Setup {
   UnitFile unit = parse_unit_file(kUnit, "bench.toml");
-  std::vector<highlimit::Strategy> strategies = highlimit::all_presets(highlimit::preset_defaults());
+  std::vector<highlimit::Strategy> strategies =
+      highlimit::all_presets(highlimit::preset_defaults());
   annual::Prepared prepared;
   Setup() {
-    const auto w = weather::read_file(test::greensboro_path(),
-                                      weather::Mapping{}, unit.site.design_pressure_kpa());
-    prepared = annual::prepare(unit.air_handler, unit.return_air, outdoor_intervals(w),
-                               Schedule{}, {});
+    const auto w = weather::read_file(test::greensboro_path(), weather::Mapping{},
+                                      unit.site.design_pressure_kpa());
+    prepared =
+        annual::prepare(unit.air_handler, unit.return_air, outdoor_intervals(w), Schedule{}, {});
   }
 };
 
@@ -57,8 +57,8 @@ void BM_Study1000Trials(benchmark::State& state) {
     benchmark::DoNotOptimize(r);
   }
   counters(state, engine, opt.trials);
-  state.counters["threads"] = static_cast<double>(
-      control.threads ? control.threads : std::thread::hardware_concurrency());
+  state.counters["threads"] =
+      static_cast<double>(control.threads ? control.threads : std::thread::hardware_concurrency());
 }
 BENCHMARK(BM_Study1000Trials)->Arg(0)->Arg(1)->Unit(benchmark::kMillisecond)->UseRealTime();
 

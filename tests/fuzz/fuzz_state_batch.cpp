@@ -25,8 +25,9 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
     std::size_t start = 0;
     for (std::size_t i = 0; i <= text.size(); ++i)
       if (i == text.size() || text[i] == ',' || text[i] == '\n') {
-        limitline::fuzz::require(!limitline::fuzz::non_finite_word(std::string_view(text).substr(start, i - start)),
-                                 "an output cell is NaN or infinite");
+        limitline::fuzz::require(
+            !limitline::fuzz::non_finite_word(std::string_view(text).substr(start, i - start)),
+            "an output cell is NaN or infinite");
         start = i + 1;
       }
   }

@@ -48,7 +48,8 @@ void check_log(const trend::TrendLog& log) {
   for (std::size_t i = 0; i < log.size(); ++i) {
     require(i == 0 || log.time_s[i] > log.time_s[i - 1], "times not strictly increasing");
     for (std::size_t k = 0; k < trend::kChannelCount; ++k)
-      if (auto v = log.value(static_cast<trend::Channel>(k), i)) require_finite(*v, "a reading not finite");
+      if (auto v = log.value(static_cast<trend::Channel>(k), i))
+        require_finite(*v, "a reading not finite");
     const double w = log.weight_s(i);
     require(std::isfinite(w) && w >= 0, "a weight not finite or negative");
   }
@@ -78,7 +79,8 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
   const auto text = limitline::fuzz::text(data, size);
   trend::ReadOptions options;
   // The last byte chooses the system of temperature columns without a unit.
-  options.bare = size > 0 && data[size - 1] % 2 ? limitline::units::System::si : limitline::units::System::ip;
+  options.bare =
+      size > 0 && data[size - 1] % 2 ? limitline::units::System::si : limitline::units::System::ip;
   trend::TrendLog log;
   try {
     log = trend::parse_trend(text, "fuzz.csv", options);

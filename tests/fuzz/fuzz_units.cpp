@@ -8,11 +8,13 @@
 namespace u = limitline::units;
 
 // Every Kind of units.hpp, in its order.
-constexpr u::Kind kKinds[] = {
-    u::Kind::temperature, u::Kind::temperature_difference, u::Kind::enthalpy,
-    u::Kind::enthalpy_difference, u::Kind::pressure, u::Kind::length, u::Kind::fraction,
-    u::Kind::humidity_ratio, u::Kind::airflow, u::Kind::energy, u::Kind::power,
-    u::Kind::specific_volume, u::Kind::density};
+constexpr u::Kind kKinds[] = {u::Kind::temperature, u::Kind::temperature_difference,
+                              u::Kind::enthalpy,    u::Kind::enthalpy_difference,
+                              u::Kind::pressure,    u::Kind::length,
+                              u::Kind::fraction,    u::Kind::humidity_ratio,
+                              u::Kind::airflow,     u::Kind::energy,
+                              u::Kind::power,       u::Kind::specific_volume,
+                              u::Kind::density};
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
   const auto text = limitline::fuzz::text(data, size);

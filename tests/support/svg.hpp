@@ -27,10 +27,12 @@ inline std::vector<Xy> path_points(const std::string& d) {
 }
 
 // Every element opening tag that carries all the attribute fragments, e.g. class="boundary".
-inline std::vector<std::string> tags_with(const std::string& svg, const std::vector<std::string>& fragments) {
+inline std::vector<std::string> tags_with(const std::string& svg,
+                                          const std::vector<std::string>& fragments) {
   static const std::regex tag(R"(<[a-z]+\s[^>]*>)");
   std::vector<std::string> out;
-  for (auto it = std::sregex_iterator(svg.begin(), svg.end(), tag); it != std::sregex_iterator(); ++it) {
+  for (auto it = std::sregex_iterator(svg.begin(), svg.end(), tag); it != std::sregex_iterator();
+       ++it) {
     const std::string t = it->str();
     bool all = true;
     for (const auto& f : fragments) all = all && contains(t, f);
@@ -51,13 +53,18 @@ inline int sh(const std::string& cmd) {
 }
 
 // Parses with xmllint, renders with rsvg-convert and checks the picture is not blank.
-inline void check_svg_renders(const std::string& svg, const std::string& suite, const std::string& name) {
+inline void check_svg_renders(const std::string& svg, const std::string& suite,
+                              const std::string& name) {
   const auto dir = scratch_dir(suite);
-  const auto file = dir / (name + ".svg"), png = dir / (name + ".png"), stats = dir / (name + ".json");
+  const auto file = dir / (name + ".svg"), png = dir / (name + ".png"),
+             stats = dir / (name + ".json");
   std::ofstream(file, std::ios::binary) << svg;
   CHECK_MESSAGE(sh("xmllint --noout " + shell_quote(file.string()) + " 2>/dev/null") == 0, name);
-  REQUIRE_MESSAGE(sh("rsvg-convert " + shell_quote(file.string()) + " -o " + shell_quote(png.string())) == 0, name);
-  REQUIRE(sh("node " + shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/tests/tools/png_stats.js") + " " +
+  REQUIRE_MESSAGE(
+      sh("rsvg-convert " + shell_quote(file.string()) + " -o " + shell_quote(png.string())) == 0,
+      name);
+  REQUIRE(sh("node " +
+             shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/tests/tools/png_stats.js") + " " +
              shell_quote(png.string()) + " > " + shell_quote(stats.string())) == 0);
   const std::string s = slurp(stats);
   std::smatch m;

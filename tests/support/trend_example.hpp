@@ -23,11 +23,11 @@ namespace limitline::test {
 
 enum class FaultKind {
   stuck_damper_at_minimum,
-  high_limit_raised,       // amount: K added to every limit
-  outdoor_sensor_offset,   // amount: K added to the outdoor reading
-  damper_stuck_at,         // amount: the fraction the damper gives whatever its command
-  economizer_locked_out,   // the controller never enables
-  minimum_set_to,          // amount: the fraction the damper gives at its minimum command
+  high_limit_raised,      // amount: K added to every limit
+  outdoor_sensor_offset,  // amount: K added to the outdoor reading
+  damper_stuck_at,        // amount: the fraction the damper gives whatever its command
+  economizer_locked_out,  // the controller never enables
+  minimum_set_to,         // amount: the fraction the damper gives at its minimum command
 };
 
 struct Fault {
@@ -40,10 +40,10 @@ struct Fault {
 struct GeneratedRow {
   std::int64_t time_s;
   bool fan;
-  bool configured_enabled;  // the unit file's strategy on the logged readings
-  double x_command;         // fraction the controller commands
-  double x_true;            // fraction the damper really gives
-  double x_enabled;         // fraction the model gives with the economizer enabled
+  bool configured_enabled;                 // the unit file's strategy on the logged readings
+  double x_command;                        // fraction the controller commands
+  double x_true;                           // fraction the damper really gives
+  double x_enabled;                        // fraction the model gives with the economizer enabled
   double t_out_log, t_ret_log, t_mix_log;  // °C, as the log reads back
   bool in_fault;
 };
@@ -100,7 +100,8 @@ inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& 
     const bool weekday = day % 7 < 5;
     const bool fan = weekday && hour >= 6.0 && hour < 19.0;
 
-    const double t_out_true = day_mean + 6.5 * std::sin(2.0 * 3.14159265358979 * (hour - 9.0) / 24.0);
+    const double t_out_true =
+        day_mean + 6.5 * std::sin(2.0 * 3.14159265358979 * (hour - 9.0) / 24.0);
     const double dew_true = std::min(day_dew, t_out_true - 0.5);
     const double t_ret_true = 23.3 + 0.4 * std::sin(2.0 * 3.14159265358979 * (hour - 11.0) / 24.0);
     double offset = 0.0;
@@ -113,14 +114,19 @@ inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& 
     // What the controller logs (and decides on): readings rounded as a BAS trends them.
     const double oat_f = round_to(units::fahrenheit_from_celsius(t_out_true + offset), 0.1);
     const double w_true = psychro::humidity_ratio_from_dew_point(dew_true, p);
-    const double rh_o = round_to(100.0 * psychro::relative_humidity_from_humidity_ratio(t_out_true + offset, w_true, p), 0.1);
+    const double rh_o = round_to(
+        100.0 * psychro::relative_humidity_from_humidity_ratio(t_out_true + offset, w_true, p),
+        0.1);
     const double rat_f = round_to(units::fahrenheit_from_celsius(t_ret_true), 0.1);
     const double rh_r = 45.0;
-    const double t_o = units::celsius_from_fahrenheit(oat_f), t_r = units::celsius_from_fahrenheit(rat_f);
-    const double w_o = std::min(psychro::humidity_ratio_from_relative_humidity(t_o, rh_o / 100.0, p),
-                                psychro::saturation_humidity_ratio(t_o, p));
-    const double w_r = std::min(psychro::humidity_ratio_from_relative_humidity(t_r, rh_r / 100.0, p),
-                                psychro::saturation_humidity_ratio(t_r, p));
+    const double t_o = units::celsius_from_fahrenheit(oat_f),
+                 t_r = units::celsius_from_fahrenheit(rat_f);
+    const double w_o =
+        std::min(psychro::humidity_ratio_from_relative_humidity(t_o, rh_o / 100.0, p),
+                 psychro::saturation_humidity_ratio(t_o, p));
+    const double w_r =
+        std::min(psychro::humidity_ratio_from_relative_humidity(t_r, rh_r / 100.0, p),
+                 psychro::saturation_humidity_ratio(t_r, p));
     const auto out = airside::air_state(t_o, w_o), ret = airside::air_state(t_r, w_r);
     auto values = [&](const airside::AirState& a) {
       return highlimit::air_values(a.dry_bulb_c, a.enthalpy_kj_per_kg,
@@ -143,12 +149,15 @@ inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& 
       row.x_command = op.oa_fraction;
       row.x_enabled = choice.enabled.oa_fraction;
       row.x_true = op.oa_fraction;
-      if (active && active->kind == FaultKind::stuck_damper_at_minimum) row.x_true = ah.min_oa_fraction;
+      if (active && active->kind == FaultKind::stuck_damper_at_minimum)
+        row.x_true = ah.min_oa_fraction;
       if (active && active->kind == FaultKind::damper_stuck_at) row.x_true = active->amount;
-      if (active && active->kind == FaultKind::minimum_set_to && op.oa_fraction <= ah.min_oa_fraction)
+      if (active && active->kind == FaultKind::minimum_set_to &&
+          op.oa_fraction <= ah.min_oa_fraction)
         row.x_true = active->amount;
       // The real mixed air comes from the real outdoor air.
-      const auto out_true = airside::air_state(t_out_true, std::min(w_true, psychro::saturation_humidity_ratio(t_out_true, p)));
+      const auto out_true = airside::air_state(
+          t_out_true, std::min(w_true, psychro::saturation_humidity_ratio(t_out_true, p)));
       const auto mixed = airside::mix(out_true, ret, row.x_true);
       const double mat_f = round_to(units::fahrenheit_from_celsius(mixed.dry_bulb_c), 0.1);
       row.t_mix_log = units::celsius_from_fahrenheit(mat_f);
@@ -164,8 +173,8 @@ inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& 
     // The BAS writes MM/DD/YYYY HH:MM:SS.
     g.csv += fmt::format("{}/{}/{} {}:{:02},{:.1f},{:.1f},{:.1f},{:.1f},{},{},{},{},{}\n",
                          stamp.substr(5, 2), stamp.substr(8, 2), stamp.substr(0, 4),
-                         stamp.substr(11, 5), static_cast<int>(t % 60), oat_f, rh_o, rat_f, rh_r, mat,
-                         sat, damper, fan ? "On" : "Off", clg);
+                         stamp.substr(11, 5), static_cast<int>(t % 60), oat_f, rh_o, rat_f, rh_r,
+                         mat, sat, damper, fan ? "On" : "Off", clg);
     g.rows.push_back(row);
   }
   return g;

@@ -48,7 +48,7 @@ struct PreparedInterval {
   std::uint32_t source_index;  // index into the weather series
   std::uint8_t month;          // 1–12
   bool cooling_needed;
-  double hours;  // occupied hours in the interval (occupied share × length)
+  double hours;         // occupied hours in the interval (occupied share × length)
   double pressure_kpa;  // this interval's pressure (outdoor and return air alike)
   highlimit::AirValues outdoor, ret;
   Outcome disabled, enabled, optimal;
@@ -63,8 +63,8 @@ struct PreparedInterval {
 
 struct Prepared {
   std::vector<PreparedInterval> intervals;  // fan-on intervals only
-  double total_hours = 0;      // hours in the weather series
-  double operating_hours = 0;  // fan-on hours
+  double total_hours = 0;                   // hours in the weather series
+  double operating_hours = 0;               // fan-on hours
   std::array<double, 12> operating_hours_by_month{};
   bool has_dew_point = false;  // outdoor/return dew points were computed
 };
@@ -77,8 +77,8 @@ struct PrepareOptions {
 // `ret` is the return air as the unit file gives it: its humidity ratio follows each
 // interval's pressure.
 [[nodiscard]] Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret,
-                 std::span<const OutdoorInterval> weather, const Schedule& schedule,
-                 const PrepareOptions& options);
+                               std::span<const OutdoorInterval> weather, const Schedule& schedule,
+                               const PrepareOptions& options);
 
 // Accumulated results. Hours are occupied (fan-on) hours.
 struct Totals {
@@ -122,9 +122,9 @@ struct RunOptions {
 // One strategy over the prepared year (deadband state starts clear and carries between
 // fan-on intervals; the high-limit is not evaluated while the fan is off).
 [[nodiscard]] StrategyResult run(const highlimit::Strategy& strategy, const Prepared& prepared,
-                   const RunOptions& options = {});
+                                 const RunOptions& options = {});
 [[nodiscard]] StrategyResult run_reference(Kind reference, const Prepared& prepared,
-                             const RunOptions& options = {});
+                                           const RunOptions& options = {});
 
 struct YearResult {
   std::vector<StrategyResult> strategies;  // ranked: smallest shortfall first
@@ -132,11 +132,13 @@ struct YearResult {
   double total_hours = 0;
   double operating_hours = 0;
   // The best strategy (first of `strategies`); empty when there are none.
-  [[nodiscard]] const StrategyResult* best() const { return strategies.empty() ? nullptr : &strategies[0]; }
+  [[nodiscard]] const StrategyResult* best() const {
+    return strategies.empty() ? nullptr : &strategies[0];
+  }
 };
 
 // Runs every strategy and the references, fills savings and shortfall, and ranks.
-[[nodiscard]] YearResult evaluate(std::span<const highlimit::Strategy> strategies, const Prepared& prepared,
-                    const RunOptions& options = {});
+[[nodiscard]] YearResult evaluate(std::span<const highlimit::Strategy> strategies,
+                                  const Prepared& prepared, const RunOptions& options = {});
 
 }  // namespace limitline::annual

@@ -25,12 +25,12 @@
 
 namespace limitline::audit {
 
-inline constexpr double kDamperMarginFraction = 0.05;    // 5 % points above the minimum
+inline constexpr double kDamperMarginFraction = 0.05;  // 5 % points above the minimum
 inline constexpr double kFractionGateFactor = 4.0;
-inline constexpr double kCoverageFactor = 3.0;           // standard uncertainties
-inline constexpr double kDamperTrackingMargin = 0.15;    // measured vs commanded fraction
-inline constexpr double kVentilationMargin = 0.05;       // fraction above/below the minimum
-inline constexpr double kShouldOpenMargin = 0.10;        // model opens the damper by at least
+inline constexpr double kCoverageFactor = 3.0;         // standard uncertainties
+inline constexpr double kDamperTrackingMargin = 0.15;  // measured vs commanded fraction
+inline constexpr double kVentilationMargin = 0.05;     // fraction above/below the minimum
+inline constexpr double kShouldOpenMargin = 0.10;      // model opens the damper by at least
 // The switching point found in the log differs from the configured limit when it lies beyond
 // the configured band [limit − deadband, limit] by more than this (common practice: about
 // 2 °F, 1 Btu/lb).
@@ -53,16 +53,16 @@ struct MeasuredFraction {
 // The measured fraction and its first-order uncertainty, or none when |t_o − t_r| is below the
 // gate. Temperatures °C.
 [[nodiscard]] std::optional<MeasuredFraction> measured_fraction(double t_outdoor, double t_return,
-                                                  double t_mixed, const Accuracy& a);
+                                                                double t_mixed, const Accuracy& a);
 
 enum class FindingKind : std::uint8_t {
-  economizing_when_disabled,    // strategy says off, damper open
-  not_economizing_when_enabled, // strategy says on and the model opens, damper at minimum
-  damper_not_following,         // measured fraction far from the commanded one
-  excess_outdoor_air,           // economizer off, measured fraction above the minimum
-  below_minimum,                // measured fraction below the ventilation minimum
-  mixed_air_out_of_range,       // mixed air outside [min(t_o, t_r), max(t_o, t_r)]
-  high_limit_elsewhere,         // switching point in the log ≠ the configured limit
+  economizing_when_disabled,     // strategy says off, damper open
+  not_economizing_when_enabled,  // strategy says on and the model opens, damper at minimum
+  damper_not_following,          // measured fraction far from the commanded one
+  excess_outdoor_air,            // economizer off, measured fraction above the minimum
+  below_minimum,                 // measured fraction below the ventilation minimum
+  mixed_air_out_of_range,        // mixed air outside [min(t_o, t_r), max(t_o, t_r)]
+  high_limit_elsewhere,          // switching point in the log ≠ the configured limit
 };
 inline constexpr std::size_t kFindingKindCount = 7;
 [[nodiscard]] std::string_view finding_key(FindingKind k);    // "economizing-when-disabled", ...
@@ -75,7 +75,7 @@ struct Finding {
   double hours = 0;
   double share_of_operating = 0;  // hours / fan-on hours
   std::int64_t first_s = 0, last_s = 0, worst_s = 0;
-  double worst_excess = 0;        // how far beyond the rule at the worst interval (rule's units)
+  double worst_excess = 0;  // how far beyond the rule at the worst interval (rule's units)
   int first_line = 0, worst_line = 0;
   // Σ (E at the observed fraction − E of the expected operation)·ṁ·Δt, kWh; none where the
   // model cannot say (a mixed-air reading that is itself suspect).
@@ -84,14 +84,14 @@ struct Finding {
 
 // The switching point of one fixed or differential condition, from the log.
 struct SwitchPoint {
-  int condition;                // index in the strategy
+  int condition;  // index in the strategy
   highlimit::Quantity quantity;
   highlimit::Reference reference;
-  double configured;            // limit (fixed) or offset (return), SI
+  double configured;  // limit (fixed) or offset (return), SI
   double deadband;
-  double estimate;              // SI: the split that misclassifies the fewest samples
-  double highest_open;          // highest value with the damper open
-  double lowest_closed;         // lowest value with the damper at minimum
+  double estimate;       // SI: the split that misclassifies the fewest samples
+  double highest_open;   // highest value with the damper open
+  double lowest_closed;  // lowest value with the damper at minimum
   int open_samples, closed_samples, misclassified;
   // At least kSwitchMinimumSamples open above limit + tolerance, or closed below
   // limit − deadband − tolerance.
@@ -105,13 +105,14 @@ struct Options {
 
 struct Result {
   std::string strategy_name;
-  double operating_hours = 0;   // fan-on weight
+  double operating_hours = 0;  // fan-on weight
   double covered_hours = 0;
   int operating_intervals = 0;
-  int fraction_intervals = 0;   // where the measured fraction passed the gate
+  int fraction_intervals = 0;     // where the measured fraction passed the gate
   std::vector<Finding> findings;  // kinds with at least one interval, in FindingKind order
   std::vector<SwitchPoint> switch_points;
-  std::vector<std::string> notes;  // assumptions taken (no fan column, return air from the unit file)
+  std::vector<std::string>
+      notes;  // assumptions taken (no fan column, return air from the unit file)
   [[nodiscard]] const Finding* find(FindingKind k) const;
 };
 
@@ -129,16 +130,16 @@ struct SampleContext {
   const UnitFile* unit = nullptr;
   const trend::TrendLog* log = nullptr;
   const Options* options = nullptr;
-  double pressure_kpa = 0;       // the site's design pressure
-  double dry_air_kg_per_s = 0;   // at the supply airflow
+  double pressure_kpa = 0;      // the site's design pressure
+  double dry_air_kg_per_s = 0;  // at the supply airflow
   airside::CoilLimits coil{};
-  airside::AirState design_return{};  // the unit file's return air, where the log has none
-  bool outdoor_humidity = false;      // the log has an outdoor RH or dew point
+  airside::AirState design_return{};    // the unit file's return air, where the log has none
+  bool outdoor_humidity = false;        // the log has an outdoor RH or dew point
   bool needs_outdoor_humidity = false;  // the strategy reads one
 };
 // Throws InputError as run() does when the log cannot be audited against the strategy.
 [[nodiscard]] SampleContext sample_context(const UnitFile& unit, const trend::TrendLog& log,
-                             const Options& options);
+                                           const Options& options);
 
 // How a sample counts: without the readings a decision needs it is left out (and said so);
 // with the fan off it is judged by nothing.
@@ -161,7 +162,7 @@ struct SampleVerdict {
   // Evidence of where the switching points lie: set, to whether the damper was open, when
   // cooling is needed, the model would open the damper and the damper's state is known.
   std::optional<bool> switch_open;
-  double energy_kwh = 0;  // what happened against the expected operation, kWh
+  double energy_kwh = 0;                  // what happened against the expected operation, kWh
   highlimit::AirValues outdoor{}, ret{};  // the values the strategy judged
   const std::optional<SampleFinding>& operator[](FindingKind k) const {
     return findings[static_cast<std::size_t>(k)];
@@ -172,7 +173,8 @@ struct SampleVerdict {
 // the deadband `state`, which carries from one sample to the next as in the controller), the
 // measured fraction, and every rule of the header comment. Throws InputError naming
 // FILE:LINE for a reading the psychrometrics refuse.
-[[nodiscard]] SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::StrategyState& state);
+[[nodiscard]] SampleVerdict judge_sample(const SampleContext& c, std::size_t i,
+                                         highlimit::StrategyState& state);
 
 // The findings of a log, built up one verdict at a time in the log's order.
 class FindingsTally {
@@ -202,9 +204,9 @@ class FindingsTally {
   void record(FindingKind k, std::size_t i, double excess, std::optional<double> energy_kwh);
   // The switching point of condition `index` from its evidence (none when there is too
   // little), adding the samples beyond it when it differs from the configured one.
-  [[nodiscard]] static std::optional<SwitchPoint> switch_point(const highlimit::Condition& cond, int index,
-                                                 std::vector<Point> points,
-                                                 std::vector<Beyond>& beyond);
+  [[nodiscard]] static std::optional<SwitchPoint> switch_point(const highlimit::Condition& cond,
+                                                               int index, std::vector<Point> points,
+                                                               std::vector<Beyond>& beyond);
 
   const SampleContext* c_;
   std::array<Finding, kFindingKindCount> findings_{};

@@ -30,18 +30,19 @@ enum class Verdict : std::uint8_t {
 
 // The verdict on one decision given the hour's two possible operations.
 [[nodiscard]] Verdict judge(const airside::HourChoice& choice, bool economizer_enabled,
-              double tolerance_kj_per_kg = kVerdictToleranceKjPerKg);
+                            double tolerance_kj_per_kg = kVerdictToleranceKjPerKg);
 
 // Whether mixing outdoor and return air can reach the mixed-air target at all: the fraction
 // it needs must lie within 0–100 %. Beyond 100 % the target lies past the outdoor air;
 // below 0 % past the return air, on the side away from the outdoor air.
 enum class TargetReach : std::uint8_t {
   reachable,
-  same_dry_bulb,           // outdoor and return air at one dry-bulb: no fraction changes it
-  beyond_outdoor_air,      // would need more than 100 % outdoor air
-  beyond_return_air,       // would need less than 0 %: outdoor air moves the mix away
+  same_dry_bulb,       // outdoor and return air at one dry-bulb: no fraction changes it
+  beyond_outdoor_air,  // would need more than 100 % outdoor air
+  beyond_return_air,   // would need less than 0 %: outdoor air moves the mix away
 };
-[[nodiscard]] std::string_view target_reach_key(TargetReach r);  // "reachable", "same_dry_bulb", ...
+[[nodiscard]] std::string_view target_reach_key(
+    TargetReach r);  // "reachable", "same_dry_bulb", ...
 [[nodiscard]] TargetReach target_reach(const airside::MixedAirEstimate& estimate);
 
 struct StrategyOutcome {
@@ -65,10 +66,10 @@ struct PointCheck {
   TargetReach reach;                  // whether any damper position reaches the target
   airside::CoilLoads estimate_loads;  // the make-up heating or cooling at that mixed air
 
-  airside::HourChoice choice;           // the operation disabled and enabled
-  bool changeover_enables;              // the perfect changeover's choice
-  double changeover_kj_per_kg;          // its weighted energy: min(disabled, enabled)
-  airside::Operation optimal;           // best damper position in [x_min, x_max]
+  airside::HourChoice choice;             // the operation disabled and enabled
+  bool changeover_enables;                // the perfect changeover's choice
+  double changeover_kj_per_kg;            // its weighted energy: min(disabled, enabled)
+  airside::Operation optimal;             // best damper position in [x_min, x_max]
   std::vector<StrategyOutcome> outcomes;  // one per strategy, in the order given
 
   // A per-kg rate at the supply airflow, kW (kJ/kg × kg/s); per hour it is kWh.
@@ -77,8 +78,10 @@ struct PointCheck {
 
 // Evaluates every strategy at one point, each from a fresh (untripped) deadband state.
 // Outdoor and return air must be at the same pressure (std::invalid_argument otherwise).
-[[nodiscard]] PointCheck check_point(const airside::AirHandler& unit, const airside::EnergyWeights& weights,
-                       std::span<const highlimit::Strategy> strategies,
-                       const psychro::MoistAir& outdoor, const psychro::MoistAir& ret);
+[[nodiscard]] PointCheck check_point(const airside::AirHandler& unit,
+                                     const airside::EnergyWeights& weights,
+                                     std::span<const highlimit::Strategy> strategies,
+                                     const psychro::MoistAir& outdoor,
+                                     const psychro::MoistAir& ret);
 
 }  // namespace limitline

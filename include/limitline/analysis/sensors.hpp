@@ -33,8 +33,7 @@ namespace limitline::sensors {
 enum class Sensor : std::uint8_t { outdoor_dry_bulb, outdoor_humidity, return_dry_bulb, return_rh };
 inline constexpr std::size_t kSensorCount = 4;
 inline constexpr std::array<Sensor, kSensorCount> kSensors = {
-    Sensor::outdoor_dry_bulb, Sensor::outdoor_humidity, Sensor::return_dry_bulb,
-    Sensor::return_rh};
+    Sensor::outdoor_dry_bulb, Sensor::outdoor_humidity, Sensor::return_dry_bulb, Sensor::return_rh};
 
 // What the outdoor humidity sensor measures.
 enum class HumidityKind : std::uint8_t { relative_humidity, dew_point, enthalpy };
@@ -63,9 +62,9 @@ inline double& at(Biases& b, Sensor s) { return b[static_cast<std::size_t>(s)]; 
 struct SensorSet {
   HumidityKind outdoor_humidity = HumidityKind::relative_humidity;
   BiasDistribution distribution = BiasDistribution::uniform;
-  Biases accuracy{};                        // uniform: half-width; normal: σ
-  std::array<bool, kSensorCount> given{};   // accuracy written in the unit file
-  bool from_file = false;                   // the unit file has a [sensors] table
+  Biases accuracy{};                       // uniform: half-width; normal: σ
+  std::array<bool, kSensorCount> given{};  // accuracy written in the unit file
+  bool from_file = false;                  // the unit file has a [sensors] table
   // Accuracies outside their plausible band, used as written ("FILE:LINE: sensors.KEY: ...").
   std::vector<std::string> warnings;
 };
@@ -73,7 +72,8 @@ struct SensorSet {
 // Typical commercial figures (common practice): dry-bulb ±1 °F, RH ±5 % (an RH transmitter a
 // few years into service; new ones are about ±2–3 %), dew point ±2 °F, enthalpy ±1 Btu/lb.
 [[nodiscard]] double typical_accuracy(Sensor s, HumidityKind outdoor_kind);
-[[nodiscard]] SensorSet typical_sensors(HumidityKind outdoor_kind = HumidityKind::relative_humidity);
+[[nodiscard]] SensorSet typical_sensors(
+    HumidityKind outdoor_kind = HumidityKind::relative_humidity);
 
 // The largest accuracy (and bias) accepted for a sensor: beyond it the device is broken, not
 // inaccurate (10 K, 30 %, 10 K dew point, 20 kJ/kg).
@@ -84,7 +84,8 @@ struct SensorSet {
 // outdoor_dew_point / outdoor_enthalpy (it also sets the kind), return_dry_bulb, return_rh,
 // distribution = "uniform" | "normal". Bare numbers are in `bare` units. Errors are
 // InputErrors "FILE:LINE: sensors.KEY: ...".
-[[nodiscard]] SensorSet read_sensors(const RawTable* table, std::string_view file_name, units::System bare);
+[[nodiscard]] SensorSet read_sensors(const RawTable* table, std::string_view file_name,
+                                     units::System bare);
 
 // --- Random draws -------------------------------------------------------------------------
 
@@ -109,7 +110,7 @@ struct Reading {
 // fraction, dew point °C, enthalpy kJ/kg) at the true pressure. Dew point only when
 // `with_dew_point` (it costs a root solve); otherwise it is left 0.
 [[nodiscard]] Reading derive_reading(double dry_bulb_c, HumidityKind kind, double humidity_reading,
-                       double pressure_kpa, bool with_dew_point);
+                                     double pressure_kpa, bool with_dew_point);
 
 // --- The engine: one trial over the prepared year ----------------------------------------
 
@@ -144,7 +145,9 @@ class Engine {
   [[nodiscard]] std::size_t intervals() const;
   [[nodiscard]] double perfect_energy_kwh() const;        // the perfect changeover, true state
   [[nodiscard]] double no_economizer_energy_kwh() const;  // always at the minimum
-  [[nodiscard]] bool uses_humidity() const { return need_.outdoor_humidity || need_.return_humidity; }
+  [[nodiscard]] bool uses_humidity() const {
+    return need_.outdoor_humidity || need_.return_humidity;
+  }
 
   // Per-thread scratch (deadband state and monthly sums): made once, reused every trial, so
   // the hour loop never allocates.
@@ -213,9 +216,9 @@ struct StudyResult {
   SensorSet sensors;
   std::uint64_t seed = 0;
   std::size_t trials_requested = 0;
-  bool partial = false;  // stopped before every trial finished
-  std::vector<std::string> names;          // in the engine's order
-  std::vector<StrategySummary> ranked;     // by mean shortfall, smallest first
+  bool partial = false;                 // stopped before every trial finished
+  std::vector<std::string> names;       // in the engine's order
+  std::vector<StrategySummary> ranked;  // by mean shortfall, smallest first
   // beats[a][b]: share of trials in which strategy a (engine order) has a smaller shortfall
   // than strategy b in the same trial.
   std::vector<std::vector<double>> beats;
@@ -231,15 +234,15 @@ struct StudyResult {
   }
 };
 
-[[nodiscard]] StudyResult run_study(const Engine& engine, const SensorSet& sensors, const StudyOptions& options,
-                      const RunControl& control = {});
+[[nodiscard]] StudyResult run_study(const Engine& engine, const SensorSet& sensors,
+                                    const StudyOptions& options, const RunControl& control = {});
 
 // --- Bias sweep ---------------------------------------------------------------------------
 
 struct SweepSpec {
   Sensor sensor = Sensor::outdoor_humidity;
   HumidityKind outdoor_kind = HumidityKind::relative_humidity;  // for outdoor_humidity
-  std::vector<double> biases;  // SI
+  std::vector<double> biases;                                   // SI
 };
 
 // The sweep of one sensor (key such as "outdoor_rh" or "return_dry_bulb") over the biases
@@ -261,13 +264,13 @@ struct SweepTurn {
 struct SweepResult {
   SweepSpec spec;
   std::vector<std::string> names;
-  std::vector<std::uint8_t> humidity_based;          // per strategy: reads a humidity sensor
+  std::vector<std::uint8_t> humidity_based;         // per strategy: reads a humidity sensor
   std::vector<std::vector<TrialOutcome>> outcomes;  // [bias][strategy]
-  std::vector<Clamps> clamps;                        // per bias
-  std::vector<std::uint8_t> completed;               // per bias: 1 when it ran
+  std::vector<Clamps> clamps;                       // per bias
+  std::vector<std::uint8_t> completed;              // per bias: 1 when it ran
   double no_economizer_kwh = 0;
   double perfect_kwh = 0;
-  bool partial = false;  // interrupted before every bias ran
+  bool partial = false;       // interrupted before every bias ran
   std::size_t reference = 0;  // index of the bias nearest zero
   // Per bias: the smallest shortfall of the strategies that read dry-bulb only (none when the
   // set has no such strategy), and the best strategy (index).
@@ -282,8 +285,8 @@ struct SweepResult {
 // One deterministic run per bias: the swept sensor reads truth + bias, every other sensor
 // reads the truth.
 [[nodiscard]] SweepResult run_sweep(const annual::Prepared& prepared,
-                      std::span<const highlimit::Strategy> strategies, const SweepSpec& spec,
-                      const RunControl& control = {});
+                                    std::span<const highlimit::Strategy> strategies,
+                                    const SweepSpec& spec, const RunControl& control = {});
 
 // --- Break-even humidity-sensor accuracy -------------------------------------------------
 
@@ -299,11 +302,11 @@ struct BreakEvenPair {
   std::size_t humid = 0, dry = 0;  // engine indices
   std::string humid_name, dry_name;
   Verdict verdict = Verdict::not_run;
-  double scale = 0;                  // break-even multiple of the base accuracies
+  double scale = 0;                      // break-even multiple of the base accuracies
   double scale_low = 0, scale_high = 0;  // final bisection bracket: beats at low, not at high
-  double dry_mean_kwh = 0;           // mean shortfall of the dry-bulb strategy
-  double humid_mean_at_zero_kwh = 0;  // mean shortfall with exact humidity sensors
-  double humid_mean_at_max_kwh = 0;   // at the largest accuracy searched
+  double dry_mean_kwh = 0;               // mean shortfall of the dry-bulb strategy
+  double humid_mean_at_zero_kwh = 0;     // mean shortfall with exact humidity sensors
+  double humid_mean_at_max_kwh = 0;      // at the largest accuracy searched
 };
 
 struct BreakEvenOptions {
@@ -313,13 +316,15 @@ struct BreakEvenOptions {
 };
 
 struct BreakEvenResult {
-  SensorSet base;          // the humidity accuracies a scale multiplies
-  double max_scale = 0;    // the search runs over [0, max_scale]
+  SensorSet base;        // the humidity accuracies a scale multiplies
+  double max_scale = 0;  // the search runs over [0, max_scale]
   std::size_t trials = 0;
   bool partial = false;
   std::vector<BreakEvenPair> pairs;
   // Accuracy of a humidity sensor (outdoor_humidity or return_rh) at a scale, SI.
-  [[nodiscard]] double accuracy(Sensor s, double scale) const { return at(base.accuracy, s) * scale; }
+  [[nodiscard]] double accuracy(Sensor s, double scale) const {
+    return at(base.accuracy, s) * scale;
+  }
 };
 
 // For every pair (a strategy that uses a humidity reading, one that uses dry-bulb only): the
@@ -327,6 +332,7 @@ struct BreakEvenResult {
 // dry-bulb sensors as given) at which the first stops beating the second in mean shortfall,
 // by bisection over [0, max], with common random numbers at every accuracy.
 [[nodiscard]] BreakEvenResult break_even(const Engine& engine, const SensorSet& sensors,
-                           const BreakEvenOptions& options, const RunControl& control = {});
+                                         const BreakEvenOptions& options,
+                                         const RunControl& control = {});
 
 }  // namespace limitline::sensors

@@ -25,7 +25,8 @@ std::string pressure_basis(const Site& site, units::System s);
 // name is an InputError naming `origin` and listing the strategies there are.
 std::vector<highlimit::Strategy> select_strategies(std::span<const highlimit::Strategy> all,
                                                    std::span<const std::string> names,
-                                                   std::string_view origin, std::string_view unit_label);
+                                                   std::string_view origin,
+                                                   std::string_view unit_label);
 
 // The chart of a unit at its design pressure: its strategies, return air and mixed-air target.
 report::ChartInput chart_input(const UnitFile& unit, std::vector<highlimit::Strategy> strategies,
@@ -36,7 +37,8 @@ void add_climate(report::ChartInput& chart, const annual::Prepared& prepared, st
 
 // One operating point at the design pressure: outdoor, return and the mixed air of the perfect
 // changeover's choice for that hour. Impossible states are InputErrors starting with their origin.
-report::CheckMarks check_marks(const UnitFile& unit, std::span<const highlimit::Strategy> strategies,
+report::CheckMarks check_marks(const UnitFile& unit,
+                               std::span<const highlimit::Strategy> strategies,
                                const AirPoint& outdoor, std::string_view outdoor_origin,
                                const AirPoint& ret, std::string_view return_origin);
 

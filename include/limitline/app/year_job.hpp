@@ -17,7 +17,7 @@ namespace limitline {
 
 // Where the unit file came from: a path, or the name of an embedded demo unit.
 struct UnitSource {
-  std::string path;        // file path, or the embedded name
+  std::string path;  // file path, or the embedded name
   bool embedded = false;
 };
 
@@ -37,8 +37,8 @@ struct WeatherOverrides {
     std::string origin;
   };
   std::vector<Column> columns;
-  std::optional<std::string> humidity;       // --humidity
-  std::optional<std::string> on_bad_row;     // --on-bad-row
+  std::optional<std::string> humidity;         // --humidity
+  std::optional<std::string> on_bad_row;       // --on-bad-row
   std::optional<std::string> time_convention;  // --time-convention
   std::optional<std::string> max_bad_share;    // --max-bad-share, e.g. "5%"
 };

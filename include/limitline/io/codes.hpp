@@ -3,8 +3,9 @@
 //
 // The code tables are data: one TOML file per edition, loaded at run time, plus any number of
 // extra files (a new edition, or an [amendment] whose rows replace an edition's rows for the
-// zones they name). the README section 'Energy-code tables' describes the format. Every shipped value is recalled
-// from memory and says so in its `provenance`; the tables must be verified before use.
+// zones they name). the README section 'Energy-code tables' describes the format. Every shipped
+// value is recalled from memory and says so in its `provenance`; the tables must be verified before
+// use.
 //
 // Compliance is judged per control type: a strategy's conditions are matched to a strategy
 // preset, the edition's row for that preset in the zone says whether it is allowed and with
@@ -38,7 +39,8 @@ inline constexpr double kStoredAgreementKjPerKg = 0.5;
 
 // The altitude footnote of fixed enthalpy ("at altitudes substantially different from sea
 // level") is applied when the site enthalpy of the footnote's state differs from its sea-level
-// value by more than this (about 1,300 ft, 400 m, at 75 °F and 50 % RH by eqs. 3 and 6): half the table's whole-Btu/lb rounding.
+// value by more than this (about 1,300 ft, 400 m, at 75 °F and 50 % RH by eqs. 3 and 6): half the
+// table's whole-Btu/lb rounding.
 inline constexpr double kAltitudeFootnoteThresholdBtuPerLb = 0.5;
 
 // --- Climate zones ----------------------------------------------------------------------
@@ -129,8 +131,7 @@ class CodeTables {
   // The same from the code-table folder of code_table_dir().
   static CodeTables load_installed(std::span<const std::filesystem::path> extra = {});
   // From TOML documents in memory: (origin name, text) pairs, in order. For tests and tools.
-  static CodeTables from_documents(
-      std::span<const std::pair<std::string, std::string>> documents);
+  static CodeTables from_documents(std::span<const std::pair<std::string, std::string>> documents);
 
   std::span<const Edition> editions() const { return editions_; }
   // InputError naming `origin` and listing the loaded editions when the id is unknown.
@@ -166,9 +167,9 @@ struct Setting {
 struct RequiredSetting {
   highlimit::Quantity quantity;
   highlimit::Reference reference;
-  double value;            // SI, from the compared figure, after the altitude footnote
-  double tabulated;        // SI, the compared figure before the altitude footnote
-  bool site_adjusted;      // the altitude footnote set `value`
+  double value;                 // SI, from the compared figure, after the altitude footnote
+  double tabulated;             // SI, the compared figure before the altitude footnote
+  bool site_adjusted;           // the altitude footnote set `value`
   double stored_ip, stored_si;  // the row's two figures
 };
 
@@ -178,8 +179,8 @@ struct AllowedControl {
   std::vector<RequiredSetting> settings;  // empty when the type is not modelled
   // The preset with the required settings (and the given deadbands); rows that are not
   // modelled have none.
-  std::optional<highlimit::Strategy> strategy(const highlimit::PresetSettings& base =
-                                                  highlimit::preset_defaults()) const;
+  std::optional<highlimit::Strategy> strategy(
+      const highlimit::PresetSettings& base = highlimit::preset_defaults()) const;
 };
 
 struct ZoneRequirements {
@@ -193,8 +194,8 @@ struct ZoneRequirements {
 
 // InputError when the zone is not one of the edition's (naming `origin`). `zone` may be in
 // any spelling normalise_zone() accepts.
-ZoneRequirements requirements(const Edition& edition, std::string_view zone, const SiteConditions& site,
-                              std::string_view origin = "--zone");
+ZoneRequirements requirements(const Edition& edition, std::string_view zone,
+                              const SiteConditions& site, std::string_view origin = "--zone");
 
 // A unit's [site] energy_code and climate_zone checked against the installed tables, for the
 // commands that do not otherwise look them up: both or neither, a loaded edition, a zone of
@@ -211,12 +212,12 @@ double site_enthalpy_kj_per_kg(const SiteEnthalpyRule& rule, units::System compa
 
 struct MatchedSetting {
   Setting setting;
-  int conditions = 1;               // how many of the strategy's conditions it stands for
+  int conditions = 1;                // how many of the strategy's conditions it stands for
   bool from_humidity_ratio = false;  // a fixed humidity-ratio limit read as a dew point
 };
 
 struct MatchedControl {
-  std::string control;  // preset name
+  std::string control;                   // preset name
   std::vector<MatchedSetting> settings;  // in the preset's condition order
 };
 
@@ -236,8 +237,8 @@ std::string_view verdict_word(Verdict v);
 struct Deviation {
   highlimit::Quantity quantity;
   highlimit::Reference reference;
-  double actual;    // SI
-  double required;  // SI
+  double actual;                                           // SI
+  double required;                                         // SI
   double difference() const { return actual - required; }  // > 0: above the requirement
 };
 
@@ -265,8 +266,7 @@ IntegrationCheck check_integration(const Edition& edition, airside::EconomizerTy
 // One word per strategy for the annual report's compliance column (verdict_word of each).
 // An unknown edition or zone is an InputError starting with the matching origin.
 std::vector<std::string> compliance_words(const CodeTables& tables, std::string_view edition,
-                                          std::string_view zone,
-                                          std::optional<double> pressure_kpa,
+                                          std::string_view zone, std::optional<double> pressure_kpa,
                                           std::span<const highlimit::Strategy> strategies,
                                           std::string_view edition_origin = "energy_code",
                                           std::string_view zone_origin = "climate_zone");

@@ -7,7 +7,7 @@
 namespace limitline::embedded {
 
 struct File {
-  std::string_view name;     // file name inside data/demo, e.g. "demo-unit.toml"
+  std::string_view name;  // file name inside data/demo, e.g. "demo-unit.toml"
   std::string_view contents;
 };
 

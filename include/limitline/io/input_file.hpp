@@ -20,7 +20,8 @@ namespace limitline {
 // The same content, checks and cap, handed to `piece` in order as it is read, for a reader that
 // keeps less than the whole text (the trend log).
 void read_input_pieces(const std::filesystem::path& path, std::string_view what,
-                       std::uintmax_t max_bytes, const std::function<void(std::string_view)>& piece);
+                       std::uintmax_t max_bytes,
+                       const std::function<void(std::string_view)>& piece);
 
 // The same checks without reading, for a reader that streams (`state --batch`).
 void check_input_file(const std::filesystem::path& path, std::string_view what);

@@ -19,8 +19,8 @@ namespace limitline {
 
 class OutputFile {
  public:
-  // `option` names the output in messages ("--hourly"; may be empty); "-" is standard output. A folder,
-  // or a place where no file can be created, is an InputError with the system's reason.
+  // `option` names the output in messages ("--hourly"; may be empty); "-" is standard output. A
+  // folder, or a place where no file can be created, is an InputError with the system's reason.
   OutputFile(const std::filesystem::path& target, std::string option);
   // Without commit() the temporary file is removed and the target stays as it was.
   ~OutputFile();

@@ -88,12 +88,12 @@ struct Gap {
 struct Coverage {
   std::int64_t first_s = 0, last_s = 0;  // first and last stamp
   double median_interval_s = 0;
-  double max_gap_s = 0;      // cap on a sample's weight
-  double span_s = 0;         // last − first + the last sample's weight
-  double covered_s = 0;      // Σ weights
-  std::vector<Gap> gaps;     // intervals longer than max_gap_s
-  int duplicate_rows = 0;    // exact repeats dropped
-  int rows = 0;              // samples kept
+  double max_gap_s = 0;    // cap on a sample's weight
+  double span_s = 0;       // last − first + the last sample's weight
+  double covered_s = 0;    // Σ weights
+  std::vector<Gap> gaps;   // intervals longer than max_gap_s
+  int duplicate_rows = 0;  // exact repeats dropped
+  int rows = 0;            // samples kept
 };
 
 // The samples are held column by column, 8 bytes a reading and 1 byte an on/off state, so that

@@ -50,8 +50,8 @@ struct UnitFile {
   std::optional<double> min_outdoor_airflow_m3_per_s;
   ReturnAir return_air;
   airside::EnergyWeights weights;
-  std::vector<highlimit::Strategy> strategies;  // as written; empty when none are given
-  bool strategies_defaulted = true;             // no [[strategy]] in the file
+  std::vector<highlimit::Strategy> strategies;         // as written; empty when none are given
+  bool strategies_defaulted = true;                    // no [[strategy]] in the file
   std::optional<RawTable> weather, schedule, sensors;  // raw, validated by their layers
   units::System units = units::System::ip;  // the system bare numbers in the file are read in
   // Values that are physically valid but implausible for an air handler, one line each

@@ -186,7 +186,7 @@ struct WeatherInfo {
   HumiditySource humidity = HumiditySource::dew_point;
   bool humidity_overridden = false;
   bool pressure_from_file = false;
-  double site_pressure_kpa = 0.0;  // used for every row when !pressure_from_file
+  double site_pressure_kpa = 0.0;             // used for every row when !pressure_from_file
   std::optional<double> median_pressure_kpa;  // of the rows read, when pressure_from_file
   TimeInfo time;
   BadRowPolicy policy = BadRowPolicy::error;
@@ -197,7 +197,7 @@ struct WeatherInfo {
   double temperature_tolerance_k = 0.0;
   double relative_humidity_tolerance = 0.0;  // fraction above 1
   std::string rounding_words;  // "whole-degree", "tenth-percent"; empty without rounding
-  int fill_longest_run = 0;  // most consecutive rows filled
+  int fill_longest_run = 0;    // most consecutive rows filled
 
   int skipped() const;
   int filled() const;

@@ -25,7 +25,8 @@ struct AirPoint {
   // point or wet-bulb above the dry-bulb, beyond saturation), with values in `system`; when
   // `origin` is not empty the message starts with it.
   [[nodiscard]] psychro::MoistAir state(double pressure_kpa, std::string_view origin = {}) const;
-  [[nodiscard]] psychro::Properties properties(double pressure_kpa, std::string_view origin = {}) const;
+  [[nodiscard]] psychro::Properties properties(double pressure_kpa,
+                                               std::string_view origin = {}) const;
   [[nodiscard]] airside::AirState at(double pressure_kpa) const;
   [[nodiscard]] highlimit::AirValues values(double pressure_kpa) const;
 };
@@ -35,7 +36,8 @@ struct AirPoint {
 // enthalpy ("h28btu/lb"). Bare numbers take the units of `bare`. Errors start with `origin`
 // and say which forms are allowed. Only the syntax and units are checked here; the state
 // itself is checked by AirPoint::state.
-[[nodiscard]] AirPoint parse_air_point(std::string_view text, units::System bare, std::string_view origin);
+[[nodiscard]] AirPoint parse_air_point(std::string_view text, units::System bare,
+                                       std::string_view origin);
 
 // Which air a point is, for its plausible bands (plausible.hpp): outdoor air, or return air
 // (the bands of the unit file's return_air_* keys).
@@ -43,8 +45,9 @@ enum class AirRole { outdoor, return_air };
 // parse_air_point, with the dry-bulb and the humidity each weighed against the band of that
 // air: a bare number that is plausible only in the other unit system is refused with both
 // readings; any other implausible value is kept and described in `warnings`.
-[[nodiscard]] AirPoint parse_air_point(std::string_view text, units::System bare, std::string_view origin,
-                         AirRole role, std::vector<std::string>& warnings);
+[[nodiscard]] AirPoint parse_air_point(std::string_view text, units::System bare,
+                                       std::string_view origin, AirRole role,
+                                       std::vector<std::string>& warnings);
 
 // The forms parse_air_point accepts, for help texts and error messages.
 inline constexpr std::string_view kAirPointForms =

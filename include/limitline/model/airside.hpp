@@ -71,12 +71,13 @@ struct AirState {
 // The fraction x* at which the mixed air is at `target_c`, in closed form (h_m and W_m are
 // linear in x, so t_m(x) = target is linear in x once eq. 32 is rearranged). Returns false
 // when no finite x exists (outdoor and return air give the same mixed temperature for all x).
-[[nodiscard]] bool oa_fraction_for_mixed_temp(const AirState& outdoor, const AirState& ret, double target_c,
-                                double& oa_fraction);
+[[nodiscard]] bool oa_fraction_for_mixed_temp(const AirState& outdoor, const AirState& ret,
+                                              double target_c, double& oa_fraction);
 
 // The mixing estimate practitioners make by hand: t_m ≈ x·t_o + (1 − x)·t_r.
-[[nodiscard]] constexpr double mixed_temp_by_temperature_weighting(double t_outdoor_c, double t_return_c,
-                                                     double oa_fraction) {
+[[nodiscard]] constexpr double mixed_temp_by_temperature_weighting(double t_outdoor_c,
+                                                                   double t_return_c,
+                                                                   double oa_fraction) {
   return oa_fraction * t_outdoor_c + (1.0 - oa_fraction) * t_return_c;
 }
 
@@ -96,7 +97,8 @@ struct MixedAirEstimate {
   double makeup_k;          // |t_m − target|
 };
 [[nodiscard]] MixedAirEstimate estimate_mixed_air(const AirState& outdoor, const AirState& ret,
-                                    double target_c, double min_fraction, double max_fraction);
+                                                  double target_c, double min_fraction,
+                                                  double max_fraction);
 
 // Per-pressure coil boundary: leaving dry-bulb and the leaving humidity-ratio cap
 // W(t_cl, φ_max) at that pressure.
@@ -118,7 +120,8 @@ struct CoilLoads {
 
 // Cooling coil with leaving dry-bulb t_cl and W_cl = min(W_ce, W_cap):
 // q_c = h_ce − h_cl − (W_ce − W_cl)·4.186·t_cl when t_ce > t_cl; heating when t_ce < t_cl.
-[[nodiscard]] CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& limits, const AirState& mixed);
+[[nodiscard]] CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& limits,
+                                   const AirState& mixed);
 
 // How cooling and heating energy are weighed against each other when choosing (E = w_c·q_c +
 // w_h·q_h): defaults count a kWh of either as equal.
@@ -135,8 +138,8 @@ inline constexpr double kDecisionToleranceKjPerKg = 0.01;
 // One hour's operation of the air handler.
 struct Operation {
   double oa_fraction;
-  bool economizing;          // damper above the minimum
-  bool mechanical_cooling;   // coil cooling load > 0
+  bool economizing;         // damper above the minimum
+  bool mechanical_cooling;  // coil cooling load > 0
   AirState mixed;
   CoilLoads loads;
   double weighted_kj_per_kg;  // E
@@ -151,7 +154,7 @@ struct HourAir {
 
 // The operation the damper rule gives (docs/model.md §Damper rule, steps 1–2).
 [[nodiscard]] Operation operate(const AirHandler& unit, const HourAir& air, bool economizer_enabled,
-                  const EnergyWeights& weights);
+                                const EnergyWeights& weights);
 
 // Everything a high-limit can cause in one hour: the operation with the economizer disabled,
 // the one with it enabled, and whether cooling is needed at all.
@@ -167,13 +170,14 @@ struct HourChoice {
     return enabled.weighted_kj_per_kg > disabled.weighted_kj_per_kg + tolerance_kj_per_kg;
   }
 };
-[[nodiscard]] HourChoice choose(const AirHandler& unit, const HourAir& air, const EnergyWeights& weights);
+[[nodiscard]] HourChoice choose(const AirHandler& unit, const HourAir& air,
+                                const EnergyWeights& weights);
 
 // The damper position in [x_min, x_max] that minimises E. E is piecewise linear in x (coil
 // entering enthalpy and humidity are linear in x; the breakpoints are x* and the fraction at
 // which the entering humidity reaches the coil's leaving cap), so its minimum is at one of
 // those points or an end.
 [[nodiscard]] Operation optimal_damper(const AirHandler& unit, const HourAir& air,
-                         const EnergyWeights& weights);
+                                       const EnergyWeights& weights);
 
 }  // namespace limitline::airside

@@ -23,7 +23,8 @@ inline constexpr std::size_t kQuantityCount = 4;
 
 enum class Reference : std::uint8_t { fixed, return_air };
 
-[[nodiscard]] std::string_view quantity_name(Quantity q);  // "dry-bulb", "enthalpy", "dew-point", ...
+[[nodiscard]] std::string_view quantity_name(
+    Quantity q);  // "dry-bulb", "enthalpy", "dew-point", ...
 [[nodiscard]] std::optional<Quantity> quantity_from_name(std::string_view name);
 [[nodiscard]] std::string_view reference_name(Reference r);  // "fixed", "return"
 [[nodiscard]] std::optional<Reference> reference_from_name(std::string_view name);
@@ -41,7 +42,7 @@ struct AirValues {
   double& operator[](Quantity q) { return value[static_cast<std::size_t>(q)]; }
 };
 [[nodiscard]] AirValues air_values(double dry_bulb_c, double enthalpy_kj_per_kg, double dew_point_c,
-                     double humidity_ratio);
+                                   double humidity_ratio);
 
 struct Condition {
   Quantity quantity = Quantity::dry_bulb;
@@ -58,7 +59,8 @@ struct Strategy {
   std::string name;
   std::string preset;  // the preset it came from, empty for custom conditions
   std::vector<Condition> conditions;
-  [[nodiscard]] bool needs(Quantity q) const;  // any condition uses q (outdoor, or return when differential)
+  [[nodiscard]] bool needs(
+      Quantity q) const;  // any condition uses q (outdoor, or return when differential)
 };
 
 // --- Presets ---------------------------------------------------------------------------
@@ -68,8 +70,8 @@ struct PresetSettings {
   double dry_bulb_limit_c;
   double enthalpy_limit_kj_per_kg;
   double dew_point_limit_c;
-  double dry_bulb_offset_k;            // differential dry-bulb: off when t_o > t_r + offset
-  double enthalpy_offset_kj_per_kg;    // differential enthalpy: off when h_o > h_r + offset
+  double dry_bulb_offset_k;          // differential dry-bulb: off when t_o > t_r + offset
+  double enthalpy_offset_kj_per_kg;  // differential enthalpy: off when h_o > h_r + offset
   double dry_bulb_deadband_k;
   double enthalpy_deadband_kj_per_kg;
   double dew_point_deadband_k;
@@ -87,7 +89,7 @@ struct PresetInfo {
 
 // Builds the strategy of a preset; throws InputError naming the preset when it is unknown.
 [[nodiscard]] Strategy make_preset(std::string_view preset, const PresetSettings& settings,
-                     std::string name = {});
+                                   std::string name = {});
 // Every preset with the given settings, in the order of presets().
 [[nodiscard]] std::vector<Strategy> all_presets(const PresetSettings& settings);
 
@@ -101,21 +103,21 @@ struct StrategyState {
 };
 
 enum class ConditionStatus : std::uint8_t {
-  clear,        // at or below the limit (and below limit − deadband if it was tripped)
-  tripped,      // above the limit
-  held,         // within the deadband after a trip: still tripped
+  clear,    // at or below the limit (and below limit − deadband if it was tripped)
+  tripped,  // above the limit
+  held,     // within the deadband after a trip: still tripped
 };
 
 struct ConditionResult {
-  double outdoor;         // the outdoor value compared
-  double limit;           // effective limit (return value + offset for differential types)
-  double excess;          // outdoor − limit (> 0 above the limit)
+  double outdoor;  // the outdoor value compared
+  double limit;    // effective limit (return value + offset for differential types)
+  double excess;   // outdoor − limit (> 0 above the limit)
   ConditionStatus status;
   [[nodiscard]] bool disables() const { return status != ConditionStatus::clear; }
 };
 
 struct Decision {
-  bool enabled;                         // no condition trips
+  bool enabled;                          // no condition trips
   std::vector<ConditionResult> results;  // one per condition
   // The first condition (in the order written) that disables; -1 when enabled. Every
   // condition's own result is in `results`.
@@ -124,10 +126,10 @@ struct Decision {
 
 // Evaluates the strategy and updates its state (the full account, for reports).
 [[nodiscard]] Decision decide(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
-                StrategyState& state);
+                              StrategyState& state);
 
 // The same decision without the account, for annual loops: returns enabled.
 [[nodiscard]] bool permits(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
-             StrategyState& state);
+                           StrategyState& state);
 
 }  // namespace limitline::highlimit

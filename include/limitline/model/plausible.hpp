@@ -46,7 +46,7 @@ struct Source {
 // reading in the other system is inside: InputError naming both readings and the spelling to
 // write ("75 in an SI file is 75 °C, ...; if you meant 75 °F write \"75F\""). Otherwise the
 // value, with one warning appended to `warnings` (values shown in the `bare` system).
-[[nodiscard]] double parse(const Band& band, std::string_view text, units::System bare, const Source& source,
-             std::vector<std::string>& warnings);
+[[nodiscard]] double parse(const Band& band, std::string_view text, units::System bare,
+                           const Source& source, std::vector<std::string>& warnings);
 
 }  // namespace limitline::plausible

@@ -38,16 +38,18 @@ inline constexpr double kMaxElevationM = 11000.0;
 // --- Humidity ratio and vapour pressure ------------------------------------------------
 
 // W = 0.621945·p_w/(p − p_w)  (eq. 20 with eq. 22).
-[[nodiscard]] double humidity_ratio_from_vapor_pressure(double vapor_pressure_kpa, double pressure_kpa);
+[[nodiscard]] double humidity_ratio_from_vapor_pressure(double vapor_pressure_kpa,
+                                                        double pressure_kpa);
 
 // p_w = p·W/(0.621945 + W)  (eq. 20 solved for p_w).
 [[nodiscard]] double vapor_pressure_from_humidity_ratio(double humidity_ratio, double pressure_kpa);
 
 // From relative humidity φ = p_w/p_ws (eq. 24).
-[[nodiscard]] double humidity_ratio_from_relative_humidity(double dry_bulb_c, double relative_humidity,
-                                             double pressure_kpa);
+[[nodiscard]] double humidity_ratio_from_relative_humidity(double dry_bulb_c,
+                                                           double relative_humidity,
+                                                           double pressure_kpa);
 [[nodiscard]] double relative_humidity_from_humidity_ratio(double dry_bulb_c, double humidity_ratio,
-                                             double pressure_kpa);
+                                                           double pressure_kpa);
 
 // Dew point: saturation pressure at the dew point equals the vapour pressure (eq. 38),
 // solved as the exact inverse of eq. 5/6 (not the eq. 39/40 fits).
@@ -56,9 +58,10 @@ inline constexpr double kMaxElevationM = 11000.0;
 [[nodiscard]] double humidity_ratio_from_dew_point(double dew_point_c, double pressure_kpa);
 
 // Wet-bulb (thermodynamic): eq. 33 when t* ≥ 0 °C, eq. 35 below.
-[[nodiscard]] double humidity_ratio_from_wet_bulb(double dry_bulb_c, double wet_bulb_c, double pressure_kpa);
+[[nodiscard]] double humidity_ratio_from_wet_bulb(double dry_bulb_c, double wet_bulb_c,
+                                                  double pressure_kpa);
 [[nodiscard]] double wet_bulb_from_humidity_ratio_c(double dry_bulb_c, double humidity_ratio,
-                                      double pressure_kpa);
+                                                    double pressure_kpa);
 
 // --- Enthalpy, volume, density --------------------------------------------------------
 
@@ -67,19 +70,23 @@ inline constexpr double kMaxElevationM = 11000.0;
   return 1.006 * dry_bulb_c + humidity_ratio * (2501.0 + 1.86 * dry_bulb_c);
 }
 // Eq. 32 solved for t.
-[[nodiscard]] constexpr double dry_bulb_from_enthalpy_c(double enthalpy_kj_per_kg, double humidity_ratio) {
+[[nodiscard]] constexpr double dry_bulb_from_enthalpy_c(double enthalpy_kj_per_kg,
+                                                        double humidity_ratio) {
   return (enthalpy_kj_per_kg - 2501.0 * humidity_ratio) / (1.006 + 1.86 * humidity_ratio);
 }
 // Eq. 32 solved for W; throws when the result would be negative.
 [[nodiscard]] double humidity_ratio_from_enthalpy(double dry_bulb_c, double enthalpy_kj_per_kg);
 
 // v = 0.287042·(t + 273.15)·(1 + 1.607858·W)/p  (eq. 26), m³ per kg dry air.
-[[nodiscard]] double specific_volume_m3_per_kg(double dry_bulb_c, double humidity_ratio, double pressure_kpa);
+[[nodiscard]] double specific_volume_m3_per_kg(double dry_bulb_c, double humidity_ratio,
+                                               double pressure_kpa);
 // Moist-air density (1 + W)/v  (eq. 11), kg moist air per m³.
-[[nodiscard]] double density_kg_per_m3(double dry_bulb_c, double humidity_ratio, double pressure_kpa);
+[[nodiscard]] double density_kg_per_m3(double dry_bulb_c, double humidity_ratio,
+                                       double pressure_kpa);
 
 // Degree of saturation μ = W/W_s  (eq. 12).
-[[nodiscard]] double degree_of_saturation(double dry_bulb_c, double humidity_ratio, double pressure_kpa);
+[[nodiscard]] double degree_of_saturation(double dry_bulb_c, double humidity_ratio,
+                                          double pressure_kpa);
 
 // --- Pressure and elevation -----------------------------------------------------------
 
@@ -128,6 +135,7 @@ enum class HumidityInput { relative_humidity, wet_bulb, dew_point, humidity_rati
 // Resolves dry-bulb + one humidity input to a state; throws InputError for impossible states
 // (RH above 100 %, dew point or wet-bulb above dry-bulb, negative humidity ratio).
 // `value` is SI: fraction, °C, kg/kg or kJ/kg.
-[[nodiscard]] MoistAir state_from(double dry_bulb_c, HumidityInput kind, double value, double pressure_kpa);
+[[nodiscard]] MoistAir state_from(double dry_bulb_c, HumidityInput kind, double value,
+                                  double pressure_kpa);
 
 }  // namespace limitline::psychro

@@ -16,7 +16,7 @@ struct Schedule {
     int end_min;    // exclusive; 1440 for midnight at the end of the day
   };
   bool always = true;
-  std::array<std::vector<Period>, 7> week;  // Monday = 0 … Sunday = 6
+  std::array<std::vector<Period>, 7> week;    // Monday = 0 … Sunday = 6
   std::vector<std::pair<int, int>> holidays;  // (month, day), fan off all day
   int first_weekday = 0;                      // weekday of 1 January, Monday = 0
 
@@ -24,7 +24,7 @@ struct Schedule {
   [[nodiscard]] int weekday(int day_of_year) const { return (first_weekday + day_of_year) % 7; }
   // Share of [start_min, start_min + length_min) of that day during which the fan runs, 0–1.
   [[nodiscard]] double occupied_share(int day_of_year, int month, int day, int start_min,
-                        int length_min) const;
+                                      int length_min) const;
   // Occupied hours in a week (for the report).
   [[nodiscard]] double weekly_hours() const;
   // One line for the report: "always occupied" or "Mon–Fri 06:00–19:00, Sat 08:00–13:00; …".

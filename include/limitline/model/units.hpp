@@ -73,7 +73,8 @@ enum class Kind {
 
 // A value for a message, converted to `system` with up to `significant` digits ("75 °C",
 // "20000 cfm", "23.8889 °C").
-[[nodiscard]] std::string format_brief(Kind kind, System system, double value_si, int significant = 6);
+[[nodiscard]] std::string format_brief(Kind kind, System system, double value_si,
+                                       int significant = 6);
 // A range for a message ("10 °C to 40 °C"), each end rounded toward the inside at 4 decimals
 // so that an end written as shown is accepted.
 [[nodiscard]] std::string format_range(Kind kind, System system, double lo_si, double hi_si);
@@ -88,8 +89,12 @@ enum class Kind {
 [[nodiscard]] std::string_view key_suffix(Kind kind, System system);
 
 // Enthalpy datum shift (docs/model.md §Units and datums), exposed for tests and the chart.
-[[nodiscard]] constexpr double enthalpy_ip_from_si(double h_kj_per_kg) { return h_kj_per_kg / 2.326 + 7.68; }
-[[nodiscard]] constexpr double enthalpy_si_from_ip(double h_btu_per_lb) { return (h_btu_per_lb - 7.68) * 2.326; }
+[[nodiscard]] constexpr double enthalpy_ip_from_si(double h_kj_per_kg) {
+  return h_kj_per_kg / 2.326 + 7.68;
+}
+[[nodiscard]] constexpr double enthalpy_si_from_ip(double h_btu_per_lb) {
+  return (h_btu_per_lb - 7.68) * 2.326;
+}
 
 [[nodiscard]] constexpr double fahrenheit_from_celsius(double c) { return c * 1.8 + 32.0; }
 [[nodiscard]] constexpr double celsius_from_fahrenheit(double f) { return (f - 32.0) / 1.8; }

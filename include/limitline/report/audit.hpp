@@ -19,7 +19,8 @@ struct AuditContext {
 };
 
 std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c);
-std::string audit_markdown(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c);
+std::string audit_markdown(const audit::Result& r, const trend::TrendLog& log,
+                           const AuditContext& c);
 std::string audit_json(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c);
 
 }  // namespace limitline::report

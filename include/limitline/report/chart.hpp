@@ -124,7 +124,7 @@ std::string_view strategy_colour(std::size_t index);
 // Economizing hours by month: one bar per strategy and month, coloured by the strategy's
 // position in `order` (the unit file's order, as on the psychrometric chart), with the
 // perfect changeover's hours as a reference step over each month.
-std::string monthly_hours_svg(const annual::YearResult& year,
-                              std::span<const std::string> order, std::string_view title);
+std::string monthly_hours_svg(const annual::YearResult& year, std::span<const std::string> order,
+                              std::string_view title);
 
 }  // namespace limitline::report

@@ -44,7 +44,7 @@ struct CodeVerdicts {
   std::vector<codes::StrategyCheck> checks;  // one per strategy, in the same order
   bool defaulted = false;                    // the strategies are the presets at defaults
   airside::EconomizerType economizer = airside::EconomizerType::integrated;
-  std::string edition_from, zone_from;  // where the edition and zone were named
+  std::string edition_from, zone_from;     // where the edition and zone were named
   std::optional<WeatherPressure> weather;  // when the unit names a weather file
 };
 
@@ -56,7 +56,8 @@ std::string code_unit_json(const CodeVerdicts& v, units::System s);
 // pressure when one is given (else the tables' sea-level figures).
 std::string code_matrix_text(const codes::CodeTables& tables, std::optional<double> pressure_kpa,
                              std::optional<units::System> compare_in, units::System s);
-std::string code_matrix_markdown(const codes::CodeTables& tables, std::optional<double> pressure_kpa,
+std::string code_matrix_markdown(const codes::CodeTables& tables,
+                                 std::optional<double> pressure_kpa,
                                  std::optional<units::System> compare_in, units::System s);
 std::string code_matrix_json(const codes::CodeTables& tables, std::optional<double> pressure_kpa,
                              std::optional<units::System> compare_in, units::System s);

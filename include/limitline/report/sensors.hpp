@@ -15,8 +15,8 @@ struct SensorsReport {
   const sensors::StudyResult* study = nullptr;
   const sensors::BreakEvenResult* break_even = nullptr;  // may be null (not asked for)
   const sensors::SweepResult* sweep = nullptr;           // may be null
-  bool uses_humidity = false;  // some strategy reads a humidity sensor
-  std::string interrupted_note;  // non-empty when Ctrl-C stopped the work
+  bool uses_humidity = false;                            // some strategy reads a humidity sensor
+  std::string interrupted_note;                          // non-empty when Ctrl-C stopped the work
 };
 
 std::string sensors_text(const SensorsReport& r);

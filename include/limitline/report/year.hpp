@@ -11,10 +11,10 @@
 namespace limitline::report {
 
 struct YearContext {
-  std::string title;           // unit or site name
-  std::string unit_source;     // unit file path, or "embedded demo"
-  std::string site;            // one line: site name and pressure basis
-  std::string weather_source;  // weather file path, or embedded demo climate name
+  std::string title;                       // unit or site name
+  std::string unit_source;                 // unit file path, or "embedded demo"
+  std::string site;                        // one line: site name and pressure basis
+  std::string weather_source;              // weather file path, or embedded demo climate name
   std::vector<std::string> weather_notes;  // column mapping, calendar notes, bad-row counts
   std::string schedule;                    // Schedule::describe()
   units::System units = units::System::ip;
