@@ -9,6 +9,8 @@
 #include <limitline/model/air_point.hpp>
 #include <limitline/model/airside.hpp>
 #include <limitline/model/highlimit.hpp>
+#include <limitline/model/part_load.hpp>
+#include <limitline/model/plant.hpp>
 #include <limitline/model/units.hpp>
 #include <limitline/text.hpp>
 #include <limitline/io/raw_table.hpp>
@@ -49,7 +51,24 @@ struct UnitFile {
   // in air_handler is derived from it), so reports can show what was written.
   std::optional<double> min_outdoor_airflow_m3_per_s;
   ReturnAir return_air;
-  airside::EnergyWeights weights;
+  // How airflow and supply temperature follow the hour (the part-load keys of [air_handler]:
+  // airflow_control, min_airflow, airflow_basis, supply_air_reset; min_outdoor_airflow).
+  part_load::Control control;
+  // [loads]: the space the unit serves. Absent: the design model (design airflow and return
+  // air every occupied hour).
+  std::optional<part_load::Space> space;
+  // [loads] file = ...: hourly loads from a load-calculation program, read by the app layer
+  // and matched to the weather (space->coefficients is then absent).
+  struct LoadsFile {
+    std::string path;    // as written, resolved against the unit file's folder
+    std::string origin;  // "FILE:LINE: loads.file"
+    std::string sensible_column, sensible_unit;  // unit: a power unit ("kW", "Btu/h")
+    std::string latent_column, latent_unit;      // empty column: no latent loads in the file
+  };
+  std::optional<LoadsFile> loads_file;
+  // [plant]: prices the energy; the references and the ranking then choose by cost.
+  std::optional<Plant> plant;
+  airside::EnergyWeights weights;                      // [energy], or the plant's cost weights
   std::vector<highlimit::Strategy> strategies;         // as written; empty when none are given
   bool strategies_defaulted = true;                    // no [[strategy]] in the file
   std::optional<RawTable> weather, schedule, sensors;  // raw, validated by their layers
