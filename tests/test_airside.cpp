@@ -56,7 +56,7 @@ air::AirHandler rooftop(air::FanPosition fan = air::FanPosition::draw_through,
 
 air::HourAir hour(const air::AirHandler& u, const air::AirState& o, const air::AirState& r,
                   double p = kSea) {
-  return {o, r, air::coil_limits(u, p)};
+  return {o, r, air::coil_limits(u, p), std::nullopt, std::nullopt};
 }
 
 }  // namespace

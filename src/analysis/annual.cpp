@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <cmath>
 
 namespace limitline::annual {
 namespace {
@@ -41,6 +42,7 @@ inline void accumulate(Totals& t, const PreparedInterval& iv, const Outcome& o, 
   t.sensible_kwh += o.sensible_kwh;
   t.latent_kwh += o.latent_kwh;
   t.heating_kwh += o.heating_kwh;
+  t.zone_heating_kwh += iv.zone_heating_kwh;
   t.energy_kwh += o.energy_kwh;
 }
 
@@ -73,6 +75,7 @@ void Totals::add(const Totals& o) {
   sensible_kwh += o.sensible_kwh;
   latent_kwh += o.latent_kwh;
   heating_kwh += o.heating_kwh;
+  zone_heating_kwh += o.zone_heating_kwh;
   energy_kwh += o.energy_kwh;
   harmful_hours += o.harmful_hours;
   harmful_kwh += o.harmful_kwh;
@@ -90,23 +93,128 @@ std::string_view reference_name(Kind k) {
   return "strategy";
 }
 
+namespace {
+
+// The design return air at pressure p (the unit file's return_air_* keys).
+double design_return_humidity_ratio(const AirPoint& spec, double pws_return, double pws_dew,
+                                    double p) {
+  switch (spec.humidity_kind) {
+    case psychro::HumidityInput::relative_humidity:
+      return psychro::humidity_ratio_from_vapor_pressure(spec.humidity_value * pws_return, p);
+    case psychro::HumidityInput::dew_point:
+      return psychro::humidity_ratio_from_vapor_pressure(pws_dew, p);
+    case psychro::HumidityInput::humidity_ratio: return spec.humidity_value;
+    case psychro::HumidityInput::wet_bulb:
+      return psychro::humidity_ratio_from_wet_bulb(spec.dry_bulb_c, spec.humidity_value, p);
+    case psychro::HumidityInput::enthalpy:
+      return psychro::humidity_ratio_from_enthalpy(spec.dry_bulb_c, spec.humidity_value);
+  }
+  return spec.humidity_value;
+}
+
+// Humid heat of the supply air, kJ/(kg dry air·K): dry air plus its vapour (eq. 32).
+double humid_heat(double w) { return 1.006 + 1.86 * w; }
+
+// The part of an hour that the space sets: airflow, ventilation fraction, return air and zone
+// heating (docs/model.md §Part load).
+struct SpaceHour {
+  double mass_flow;  // kg/s dry air
+  double zone_heating_kw;
+  bool beyond_design;
+  bool at_floor;
+};
+
+// Dry-air mass flow at which the no-economizer operation meets q_s with the hour's supply
+// air, held to [floor, design]. The supply humidity enters through its humid heat, and it
+// depends on the airflow (the space's moisture pick-up is q_l/ṁ): a fixed point that settles
+// in two or three steps.
+SpaceHour solve_space_hour(airside::AirHandler& u, airside::HourAir& air,
+                           const part_load::Control& control, const part_load::Space& space,
+                           const part_load::SpaceLoads& loads, double design_flow, double rho,
+                           double fallback_w) {
+  const double dt = space.space_temp_c - u.supply_air_temp_c;  // > 0 (validated)
+  const double floor = control.airflow == part_load::AirflowControl::variable
+                           ? design_flow * control.min_airflow_fraction
+                           : design_flow;
+  const double h_g = part_load::vapor_enthalpy_kj_per_kg(space.return_temp_c());
+  const double x_max = u.max_oa_fraction;
+  auto set_flow = [&](double m) {
+    if (control.min_outdoor_airflow_m3_per_s)
+      u.min_oa_fraction = std::min(*control.min_outdoor_airflow_m3_per_s * rho / m, x_max);
+    air.space = airside::SpaceReturn{space.return_temp_c(), loads.latent_kw / (m * h_g),
+                                     fallback_w};
+    air.ret = airside::return_air_at(u, air, u.min_oa_fraction);
+  };
+  auto supply_w = [&]() {
+    const airside::AirState mixed = airside::mix(air.outdoor, air.ret, u.min_oa_fraction);
+    return airside::coil_loads(u, air.coil, mixed).leaving.humidity_ratio;
+  };
+  auto wanted = [&](double cp) { return std::clamp(loads.sensible_kw / (cp * dt), floor, design_flow); };
+
+  double m = wanted(humid_heat(air.coil.leaving_humidity_ratio_cap));
+  set_flow(m);
+  double cp = humid_heat(supply_w());
+  if (floor < design_flow) {
+    for (int i = 0; i < 6; ++i) {
+      const double next = wanted(cp);
+      if (std::fabs(next - m) <= 1e-12 * design_flow) break;
+      m = next;
+      set_flow(m);
+      cp = humid_heat(supply_w());
+    }
+  }
+  SpaceHour h{};
+  h.mass_flow = m;
+  const double carried = m * cp * dt;  // kW the supply air takes from the space at setpoint
+  h.zone_heating_kw = std::max(0.0, carried - loads.sensible_kw);
+  h.beyond_design = loads.sensible_kw > carried * (1.0 + 1e-9);
+  h.at_floor = floor < design_flow && m <= floor * (1.0 + 1e-12);
+  return h;
+}
+
+Outcome priced(const airside::Operation& op, double kg, const airside::EnergyWeights& w,
+               double zone_heating_kwh) {
+  Outcome o = outcome(op, kg, w);
+  o.energy_kwh += w.heating * zone_heating_kwh;
+  o.return_humidity_ratio = op.ret.humidity_ratio;
+  o.supply_humidity_ratio = op.loads.leaving.humidity_ratio;
+  return o;
+}
+
+}  // namespace
+
 Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
                  std::span<const OutdoorInterval> weather, const Schedule& schedule,
                  const PrepareOptions& opt) {
   airside::validate(unit);
+  const part_load::Control& control = opt.control;
+  part_load::validate(control, unit);
+  const part_load::Space* space = opt.space ? &*opt.space : nullptr;
+  if (space) {
+    part_load::validate(*space, unit, control);
+    if (!space->coefficients && opt.hourly_loads.size() != weather.size())
+      throw std::logic_error("annual::prepare: hourly loads do not match the weather");
+  } else if (control.airflow == part_load::AirflowControl::variable) {
+    throw InputError(
+        "air_handler.airflow_control: variable airflow follows the space load; give [loads]");
+  }
   Prepared p;
   p.has_dew_point = opt.compute_dew_point;
   p.intervals.reserve(weather.size());
-  const double mass_flow = unit.dry_air_mass_flow_kg_per_s();
+  p.model.part_load = space != nullptr;
+  p.model.hourly_loads = space != nullptr && !space->coefficients;
+  p.model.airflow = control.airflow;
+  p.model.supply_reset = control.reset.has_value();
+  const double max_weight = std::max(opt.weights.cooling, opt.weights.heating);
   // Saturation pressures that do not change through the year, computed once.
   const double pws_return = psychro::saturation_pressure_kpa(ret_spec.dry_bulb_c);
   const double pws_return_dew = ret_spec.humidity_kind == psychro::HumidityInput::dew_point
                                     ? psychro::saturation_pressure_kpa(ret_spec.humidity_value)
                                     : 0.0;
-  const double pws_coil = psychro::saturation_pressure_kpa(unit.coil_leaving_temp_c());
-  double last_pressure = -1.0;
+  double last_pressure = -1.0, last_coil_t = NAN, pws_coil = 0.0, w_design_ret = 0.0;
   airside::HourAir air{};
   highlimit::AirValues ret_values{};
+  airside::AirHandler u = unit;
 
   for (std::size_t i = 0; i < weather.size(); ++i) {
     const OutdoorInterval& w = weather[i];
@@ -122,51 +230,86 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
     p.operating_hours += hours;
     p.operating_hours_by_month[static_cast<std::size_t>(w.month - 1)] += hours;
 
-    // Return air and coil limit at this interval's pressure (recomputed only when it changes).
-    if (w.pressure_kpa != last_pressure) {
+    // The hour's supply air, and the coil limit at its leaving temperature and pressure
+    // (recomputed only when either changes).
+    u.supply_air_temp_c =
+        control.reset ? control.reset->supply_temp_c(w.dry_bulb_c) : unit.supply_air_temp_c;
+    u.min_oa_fraction = unit.min_oa_fraction;
+    const double t_cl = u.coil_leaving_temp_c();
+    const bool pressure_changed = w.pressure_kpa != last_pressure;
+    if (t_cl != last_coil_t) {
+      last_coil_t = t_cl;
+      pws_coil = psychro::saturation_pressure_kpa(t_cl);
+    }
+    if (pressure_changed || air.coil.leaving_temp_c != t_cl)
+      air.coil = {t_cl, psychro::humidity_ratio_from_vapor_pressure(
+                            unit.coil_leaving_rh_max * pws_coil, w.pressure_kpa)};
+    if (pressure_changed) {
       last_pressure = w.pressure_kpa;
-      const double pr = w.pressure_kpa;
-      double w_ret = 0.0;
-      switch (ret_spec.humidity_kind) {
-        case psychro::HumidityInput::relative_humidity:
-          w_ret =
-              psychro::humidity_ratio_from_vapor_pressure(ret_spec.humidity_value * pws_return, pr);
-          break;
-        case psychro::HumidityInput::dew_point:
-          w_ret = psychro::humidity_ratio_from_vapor_pressure(pws_return_dew, pr);
-          break;
-        case psychro::HumidityInput::humidity_ratio: w_ret = ret_spec.humidity_value; break;
-        case psychro::HumidityInput::wet_bulb:
-          w_ret = psychro::humidity_ratio_from_wet_bulb(ret_spec.dry_bulb_c,
-                                                        ret_spec.humidity_value, pr);
-          break;
-        case psychro::HumidityInput::enthalpy:
-          w_ret =
-              psychro::humidity_ratio_from_enthalpy(ret_spec.dry_bulb_c, ret_spec.humidity_value);
-          break;
+      w_design_ret =
+          design_return_humidity_ratio(ret_spec, pws_return, pws_return_dew, w.pressure_kpa);
+      psychro::check_humidity_ratio(w_design_ret, ret_spec.dry_bulb_c, w.pressure_kpa,
+                                    "return-air humidity ratio");
+      if (!space) {
+        air.ret = airside::air_state(ret_spec.dry_bulb_c, w_design_ret);
+        ret_values = highlimit::air_values(
+            air.ret.dry_bulb_c, air.ret.enthalpy_kj_per_kg,
+            opt.compute_dew_point
+                ? psychro::dew_point_from_humidity_ratio_c(w_design_ret, w.pressure_kpa)
+                : 0.0,
+            w_design_ret);
       }
-      psychro::check_humidity_ratio(w_ret, ret_spec.dry_bulb_c, pr, "return-air humidity ratio");
-      air.ret = airside::air_state(ret_spec.dry_bulb_c, w_ret);
-      air.coil = {unit.coil_leaving_temp_c(), psychro::humidity_ratio_from_vapor_pressure(
-                                                  unit.coil_leaving_rh_max * pws_coil, pr)};
-      ret_values = highlimit::air_values(
-          air.ret.dry_bulb_c, air.ret.enthalpy_kj_per_kg,
-          opt.compute_dew_point ? psychro::dew_point_from_humidity_ratio_c(w_ret, pr) : 0.0, w_ret);
     }
     air.outdoor = airside::air_state(w.dry_bulb_c, w.humidity_ratio);
 
+    const double rho = part_load::air_density_kg_per_m3(control.basis, w.pressure_kpa);
+    const double design_flow = unit.supply_airflow_m3_per_s * rho;
+    double mass_flow = design_flow;
     PreparedInterval iv{};
+    if (space) {
+      const part_load::SpaceLoads loads = space->coefficients
+                                              ? space->coefficients->at(w.dry_bulb_c,
+                                                                        space->space_temp_c)
+                                              : opt.hourly_loads[i];
+      const SpaceHour sh =
+          solve_space_hour(u, air, control, *space, loads, design_flow, rho, w_design_ret);
+      mass_flow = sh.mass_flow;
+      air.light_load = airside::LightLoad{loads.sensible_kw, design_flow, space->space_temp_c};
+      iv.zone_heating_kwh = sh.zone_heating_kw * hours;
+      iv.sensible_kwh = loads.sensible_kw * hours;
+      iv.latent_kwh = loads.latent_kw * hours;
+      if (sh.beyond_design) p.model.hours_beyond_design += hours;
+      if (sh.at_floor) p.model.min_airflow_hours += hours;
+      ret_values = highlimit::air_values(
+          air.ret.dry_bulb_c, air.ret.enthalpy_kj_per_kg,
+          opt.compute_dew_point
+              ? psychro::dew_point_from_humidity_ratio_c(air.ret.humidity_ratio, w.pressure_kpa)
+              : 0.0,
+          air.ret.humidity_ratio);
+    } else if (control.min_outdoor_airflow_m3_per_s) {
+      u.min_oa_fraction =
+          std::min(*control.min_outdoor_airflow_m3_per_s * rho / mass_flow, u.max_oa_fraction);
+    }
+    if (control.min_outdoor_airflow_m3_per_s &&
+        *control.min_outdoor_airflow_m3_per_s * rho / mass_flow > u.max_oa_fraction * (1 + 1e-12))
+      p.model.hours_ventilation_held += hours;
+
     iv.source_index = static_cast<std::uint32_t>(i);
     iv.month = static_cast<std::uint8_t>(w.month);
     iv.hours = hours;
     iv.pressure_kpa = w.pressure_kpa;
+    iv.supply_temp_c = u.supply_air_temp_c;
+    iv.mass_flow_kg_per_s = mass_flow;
+    iv.airflow_m3_per_s = mass_flow / rho;
+    iv.min_oa_fraction = u.min_oa_fraction;
     const double kg = mass_flow * hours * 3600.0;
-    iv.tolerance_kwh = airside::kDecisionToleranceKjPerKg * kg / 3600.0;
-    const airside::HourChoice choice = airside::choose(unit, air, opt.weights);
+    iv.tolerance_kwh = airside::kDecisionToleranceKjPerKg * kg / 3600.0 * max_weight;
+    const airside::HourChoice choice = airside::choose(u, air, opt.weights);
     iv.cooling_needed = choice.cooling_needed;
-    iv.disabled = outcome(choice.disabled, kg, opt.weights);
-    iv.enabled = outcome(choice.enabled, kg, opt.weights);
-    iv.optimal = outcome(airside::optimal_damper(unit, air, opt.weights), kg, opt.weights);
+    iv.disabled = priced(choice.disabled, kg, opt.weights, iv.zone_heating_kwh);
+    iv.enabled = priced(choice.enabled, kg, opt.weights, iv.zone_heating_kwh);
+    iv.optimal =
+        priced(airside::optimal_damper(u, air, opt.weights), kg, opt.weights, iv.zone_heating_kwh);
     iv.outdoor = highlimit::air_values(
         w.dry_bulb_c, air.outdoor.enthalpy_kj_per_kg,
         opt.compute_dew_point
@@ -174,6 +317,9 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
             : 0.0,
         w.humidity_ratio);
     iv.ret = ret_values;
+    p.model.space_sensible_kwh += iv.sensible_kwh;
+    p.model.space_latent_kwh += iv.latent_kwh;
+    p.model.zone_heating_kwh += iv.zone_heating_kwh;
     p.intervals.push_back(iv);
   }
   return p;

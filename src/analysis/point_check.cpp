@@ -76,7 +76,8 @@ PointCheck check_point(const airside::AirHandler& unit, const airside::EnergyWei
 
   const airside::HourAir air{airside::air_state(outdoor.dry_bulb_c, outdoor.humidity_ratio),
                              airside::air_state(ret.dry_bulb_c, ret.humidity_ratio),
-                             airside::coil_limits(unit, pc.pressure_kpa)};
+                             airside::coil_limits(unit, pc.pressure_kpa), std::nullopt,
+                             std::nullopt};
   pc.estimate = airside::estimate_mixed_air(air.outdoor, air.ret, pc.mixed_air_target_c,
                                             unit.min_oa_fraction, unit.max_oa_fraction);
   pc.reach = target_reach(pc.estimate);

@@ -1,6 +1,7 @@
 #include <limitline/model/airside.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/model/part_load.hpp>
 
 #include <fmt/format.h>
 
@@ -24,16 +25,65 @@ constexpr Named<EconomizerType> kEconomizerNames[] = {
 constexpr double kTargetToleranceK = 1e-9;
 constexpr double kFractionTolerance = 1e-12;
 
+// The coil cools entering air that is above its leaving temperature (beyond rounding).
+bool coil_cools(const AirHandler& unit, const CoilLimits& lim, const AirState& mixed) {
+  const double t_ce =
+      mixed.dry_bulb_c + (unit.fan_position == FanPosition::blow_through ? unit.fan_heat_k : 0.0);
+  return t_ce > lim.leaving_temp_c + kTargetToleranceK;
+}
+
 Operation operation_at(const AirHandler& unit, const HourAir& air, double x,
                        const EnergyWeights& w) {
   Operation op;
   op.oa_fraction = x;
   op.economizing = x > unit.min_oa_fraction + kFractionTolerance;
-  op.mixed = mix(air.outdoor, air.ret, x);
+  op.ret = return_air_at(unit, air, x);
+  op.mixed = mix(air.outdoor, op.ret, x);
   op.loads = coil_loads(unit, air.coil, op.mixed);
   op.mechanical_cooling = op.loads.cooling_kj_per_kg > 0.0;
   op.weighted_kj_per_kg =
       w.cooling * op.loads.cooling_kj_per_kg + w.heating * op.loads.heating_kj_per_kg;
+  return op;
+}
+
+// x* with the return air that x* itself makes: the mixed temperature depends on the return
+// humidity only through the vapour's heat capacity (1.86·W), so the iteration contracts by
+// about 1e-2 a step and reaches rounding in a few.
+bool fraction_for_target(const AirHandler& unit, const HourAir& air, double target_c, double& x) {
+  if (!oa_fraction_for_mixed_temp(air.outdoor, air.ret, target_c, x)) return false;
+  if (!air.space) return true;
+  for (int i = 0; i < 12; ++i) {
+    const double held = std::clamp(x, unit.min_oa_fraction, unit.max_oa_fraction);
+    double next = x;
+    if (!oa_fraction_for_mixed_temp(air.outdoor, return_air_at(unit, air, held), target_c, next))
+      return true;
+    const bool settled = std::fabs(next - x) <= 1e-14;
+    x = next;
+    if (settled) break;
+  }
+  return true;
+}
+
+// A non-integrated economizer whose outdoor air cannot reach the mixed-air target still
+// carries a light load alone when the fan can move enough of the warmer supply air: the coil
+// stays off and the supply floats (fan energy for the extra airflow is not counted).
+std::optional<Operation> outdoor_air_alone(const AirHandler& unit, const HourAir& air,
+                                           const AirState& at_max) {
+  if (unit.economizer != EconomizerType::non_integrated || !air.light_load) return std::nullopt;
+  const LightLoad& l = *air.light_load;
+  const double t_supply = at_max.dry_bulb_c + unit.fan_heat_k;
+  if (!(l.sensible_kw > 0.0) || !(t_supply < l.space_temp_c)) return std::nullopt;
+  const double cp = 1.006 + 1.86 * at_max.humidity_ratio;  // eq. 32's dry air + vapour
+  if (l.sensible_kw / (cp * (l.space_temp_c - t_supply)) > l.max_mass_flow_kg_per_s)
+    return std::nullopt;
+  Operation op{};
+  op.oa_fraction = unit.max_oa_fraction;
+  op.economizing = unit.max_oa_fraction > unit.min_oa_fraction + kFractionTolerance;
+  op.coil_off = true;
+  op.ret = return_air_at(unit, air, unit.max_oa_fraction);
+  op.mixed = at_max;
+  op.loads.entering = at_max;
+  op.loads.leaving = at_max;
   return op;
 }
 
@@ -108,6 +158,23 @@ MixedAirEstimate estimate_mixed_air(const AirState& o, const AirState& r, double
   return e;
 }
 
+AirState return_air_at(const AirHandler& unit, const HourAir& air, double x) {
+  if (!air.space) return air.ret;
+  const SpaceReturn& sp = *air.space;
+  auto at = [&](bool dehumidifies) {
+    return air_state(sp.return_temp_c,
+                     part_load::return_humidity_ratio(air.outdoor.humidity_ratio, sp.moisture, x,
+                                                      dehumidifies,
+                                                      air.coil.leaving_humidity_ratio_cap,
+                                                      sp.fallback_w));
+  };
+  // The regime without coil cooling is tried first: on the mixed-air target itself (x*) it is
+  // the consistent one, and the coil then does nothing, as coil_loads() says.
+  const AirState dry = at(false);
+  if (!coil_cools(unit, air.coil, mix(air.outdoor, dry, x))) return dry;
+  return at(true);
+}
+
 CoilLimits coil_limits(const AirHandler& unit, double pressure_kpa) {
   const double t_cl = unit.coil_leaving_temp_c();
   return {t_cl, psychro::humidity_ratio_from_relative_humidity(t_cl, unit.coil_leaving_rh_max,
@@ -146,23 +213,23 @@ CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& lim, const AirSta
 Operation operate(const AirHandler& unit, const HourAir& air, bool enabled,
                   const EnergyWeights& w) {
   const double target = unit.mixed_air_target_c();
-  const AirState at_min = mix(air.outdoor, air.ret, unit.min_oa_fraction);
+  const double x_min = unit.min_oa_fraction, x_max = unit.max_oa_fraction;
+  const AirState at_min = mix(air.outdoor, return_air_at(unit, air, x_min), x_min);
   // Step 1: no cooling needed at the minimum; the damper stays there (heating if below).
   if (at_min.dry_bulb_c <= target + kTargetToleranceK || !enabled)
-    return operation_at(unit, air, unit.min_oa_fraction, w);
+    return operation_at(unit, air, x_min, w);
   // Step 2, enabled: free cooling when full outdoor air reaches the target, else integrated
-  // operation at the damper limit, or back to the minimum for a non-integrated economizer.
-  const AirState at_max = mix(air.outdoor, air.ret, unit.max_oa_fraction);
+  // operation at the damper limit, or back to the minimum for a non-integrated economizer
+  // (unless outdoor air alone carries a light load).
+  const AirState at_max = mix(air.outdoor, return_air_at(unit, air, x_max), x_max);
   if (at_max.dry_bulb_c <= target + kTargetToleranceK) {
-    double x = unit.max_oa_fraction;
-    if (oa_fraction_for_mixed_temp(air.outdoor, air.ret, target, x))
-      x = std::clamp(x, unit.min_oa_fraction, unit.max_oa_fraction);
+    double x = x_max;
+    if (fraction_for_target(unit, air, target, x)) x = std::clamp(x, x_min, x_max);
     return operation_at(unit, air, x, w);
   }
-  return operation_at(
-      unit, air,
-      unit.economizer == EconomizerType::integrated ? unit.max_oa_fraction : unit.min_oa_fraction,
-      w);
+  if (unit.economizer == EconomizerType::integrated) return operation_at(unit, air, x_max, w);
+  if (auto alone = outdoor_air_alone(unit, air, at_max)) return *alone;
+  return operation_at(unit, air, x_min, w);
 }
 
 HourChoice choose(const AirHandler& unit, const HourAir& air, const EnergyWeights& w) {
@@ -177,12 +244,19 @@ Operation optimal_damper(const AirHandler& unit, const HourAir& air, const Energ
   const double lo = unit.min_oa_fraction, hi = unit.max_oa_fraction;
   std::array<double, 4> candidates{lo, hi, lo, lo};
   double x = 0.0;
-  if (oa_fraction_for_mixed_temp(air.outdoor, air.ret, unit.mixed_air_target_c(), x))
+  if (fraction_for_target(unit, air, unit.mixed_air_target_c(), x))
     candidates[2] = std::clamp(x, lo, hi);
-  const double dw = air.outdoor.humidity_ratio - air.ret.humidity_ratio;
-  if (std::fabs(dw) > 1e-15) {
-    const double x_wet = (air.coil.leaving_humidity_ratio_cap - air.ret.humidity_ratio) / dw;
-    if (std::isfinite(x_wet)) candidates[3] = std::clamp(x_wet, lo, hi);
+  const double w_o = air.outdoor.humidity_ratio, w_cap = air.coil.leaving_humidity_ratio_cap;
+  if (air.space) {
+    // The coil starts to condense where W_o + m/x = W_cap + m (part_load::return_humidity_ratio).
+    const double m = air.space->moisture, room = w_cap + m - w_o;
+    if (m > 0.0 && room > 1e-15) candidates[3] = std::clamp(m / room, lo, hi);
+  } else {
+    const double dw = w_o - air.ret.humidity_ratio;
+    if (std::fabs(dw) > 1e-15) {
+      const double x_wet = (w_cap - air.ret.humidity_ratio) / dw;
+      if (std::isfinite(x_wet)) candidates[3] = std::clamp(x_wet, lo, hi);
+    }
   }
   std::sort(candidates.begin(), candidates.end());
   Operation best = operation_at(unit, air, candidates[0], w);
@@ -190,6 +264,14 @@ Operation optimal_damper(const AirHandler& unit, const HourAir& air, const Energ
     if (candidates[i] == candidates[i - 1]) continue;
     Operation op = operation_at(unit, air, candidates[i], w);
     if (op.weighted_kj_per_kg < best.weighted_kj_per_kg - 1e-12) best = op;
+  }
+  // A non-integrated economizer's light-load operation is a damper position too.
+  if (unit.economizer == EconomizerType::non_integrated) {
+    const AirState at_max = mix(air.outdoor, return_air_at(unit, air, hi), hi);
+    if (at_max.dry_bulb_c > unit.mixed_air_target_c() + kTargetToleranceK)
+      if (auto alone = outdoor_air_alone(unit, air, at_max);
+          alone && alone->weighted_kj_per_kg < best.weighted_kj_per_kg - 1e-12)
+        best = *alone;
   }
   return best;
 }

@@ -1,5 +1,5 @@
 // One site-year: all presets and the three references (issue target ≤ 5 ms with the CSV parse,
-// ≤ 2 ms without). Weather: the real Greensboro TMY3 year in tests/data (NREL NSRDB, via pvlib).
+// ≤ 2 ms without; under the part-load model ≤ 2 ms without the parse). Weather: the real Greensboro TMY3 year in tests/data (NREL NSRDB, via pvlib).
 #include <limitline/io/schedule_file.hpp>
 #include <limitline/analysis/annual.hpp>
 #include <limitline/io/unit_file.hpp>
@@ -60,6 +60,37 @@ void BM_YearWithoutParse(benchmark::State& state) {
   }
 }
 BENCHMARK(BM_YearWithoutParse)->Unit(benchmark::kMillisecond);
+
+// The part-load model (variable airflow with a 30 % floor, space loads in coefficient form,
+// return air from the space, supply-air reset): the same year, everything but the parse.
+annual::PrepareOptions part_load_options() {
+  annual::PrepareOptions opt;
+  part_load::Space space;
+  space.space_temp_c = 23.9;
+  space.return_air_rise_k = 0.6;
+  space.coefficients = part_load::LoadCoefficients{40.0, 0.8, 8.0};  // invented office loads
+  opt.space = space;
+  opt.control.airflow = part_load::AirflowControl::variable;
+  opt.control.min_airflow_fraction = 0.3;
+  opt.control.reset = part_load::SupplyAirReset{10.0, 15.6, 18.3, 12.8};
+  return opt;
+}
+
+void BM_PartLoadYearWithoutParse(benchmark::State& state) {
+  const UnitFile unit = parse_unit_file(kUnit, "bench.toml");
+  const Schedule schedule = read_schedule(*unit.schedule, unit.path);
+  const auto strategies = strategies_or_presets(unit);
+  const auto w = weather::read_text(weather_text(), "greensboro", weather::Mapping{},
+                                    unit.site.design_pressure_kpa());
+  const auto iv = outdoor_intervals(w);
+  const annual::PrepareOptions opt = part_load_options();
+  for (auto _ : state) {
+    const auto p = annual::prepare(unit.air_handler, unit.return_air, iv, schedule, opt);
+    auto y = annual::evaluate(strategies, p);
+    benchmark::DoNotOptimize(y);
+  }
+}
+BENCHMARK(BM_PartLoadYearWithoutParse)->Unit(benchmark::kMillisecond);
 
 // The strategy loop alone: what each extra strategy (or sensor trial) costs.
 void BM_StrategiesOnPreparedYear(benchmark::State& state) {

@@ -9,11 +9,13 @@
 #include <limitline/model/air_point.hpp>
 #include <limitline/model/airside.hpp>
 #include <limitline/model/highlimit.hpp>
+#include <limitline/model/part_load.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/model/schedule.hpp>
 
 #include <array>
 #include <cstdint>
+#include <optional>
 #include <span>
 #include <string>
 #include <vector>
@@ -41,7 +43,9 @@ struct Outcome {
   double sensible_kwh = 0;
   double latent_kwh = 0;
   double heating_kwh = 0;
-  double energy_kwh = 0;  // weighted E = w_c·cooling + w_h·heating
+  double energy_kwh = 0;  // weighted E = w_c·cooling + w_h·(heating + the hour's zone heating)
+  double return_humidity_ratio = 0;  // the return air of this operation
+  double supply_humidity_ratio = 0;  // coil-leaving (and supply) air
 };
 
 struct PreparedInterval {
@@ -50,15 +54,36 @@ struct PreparedInterval {
   bool cooling_needed;
   double hours;         // occupied hours in the interval (occupied share × length)
   double pressure_kpa;  // this interval's pressure (outdoor and return air alike)
-  highlimit::AirValues outdoor, ret;
+  highlimit::AirValues outdoor, ret;  // ret: what the high-limit reads (at the minimum)
   Outcome disabled, enabled, optimal;
+  // The hour's air handler (docs/model.md §Part load): equal to the design in the design model.
+  double supply_temp_c;
+  double mass_flow_kg_per_s;  // dry air
+  double airflow_m3_per_s;    // the same at the airflow basis
+  double min_oa_fraction;
+  double zone_heating_kwh;  // heat that holds the space at setpoint when the supply overcools it
+  double sensible_kwh;      // space loads of the interval (0 in the design model)
+  double latent_kwh;
   [[nodiscard]] bool enabling_pays() const {
     return enabled.energy_kwh < disabled.energy_kwh - tolerance_kwh;
   }
   [[nodiscard]] bool enabling_hurts() const {
     return enabled.energy_kwh > disabled.energy_kwh + tolerance_kwh;
   }
-  double tolerance_kwh;  // kDecisionToleranceKjPerKg at this interval's mass flow and length
+  double tolerance_kwh;  // kDecisionToleranceKjPerKg at this interval's mass flow, length and
+                        // largest weight
+};
+
+// Which model priced the hours, for the report's context block.
+struct ModelSummary {
+  bool part_load = false;  // a space ([loads]) drove airflow and return air
+  bool hourly_loads = false;  // the loads came from a file, hour by hour
+  part_load::AirflowControl airflow = part_load::AirflowControl::constant;
+  bool supply_reset = false;
+  double hours_beyond_design = 0;  // sensible load more than design airflow carries
+  double hours_ventilation_held = 0;  // fixed outdoor airflow above the damper limit's share
+  double space_sensible_kwh = 0, space_latent_kwh = 0, zone_heating_kwh = 0;
+  double min_airflow_hours = 0;  // variable control at its floor
 };
 
 struct Prepared {
@@ -67,15 +92,23 @@ struct Prepared {
   double operating_hours = 0;               // fan-on hours
   std::array<double, 12> operating_hours_by_month{};
   bool has_dew_point = false;  // outdoor/return dew points were computed
+  ModelSummary model;
 };
 
 struct PrepareOptions {
   airside::EnergyWeights weights;
   bool compute_dew_point = true;  // needed by dew-point conditions and hourly output
+  part_load::Control control;
+  // The space ([loads]); absent: the design model, with `ret` as the return air every hour.
+  std::optional<part_load::Space> space;
+  // One entry per weather interval when the space's loads come from a file (space without
+  // coefficients); ignored otherwise.
+  std::span<const part_load::SpaceLoads> hourly_loads;
 };
 
 // `ret` is the return air as the unit file gives it: its humidity ratio follows each
-// interval's pressure.
+// interval's pressure. With a space it is only the fallback of an hour without a steady
+// humidity; the return air then comes from the space (docs/model.md §Return air).
 [[nodiscard]] Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret,
                                std::span<const OutdoorInterval> weather, const Schedule& schedule,
                                const PrepareOptions& options);
@@ -92,6 +125,7 @@ struct Totals {
   double sensible_kwh = 0;
   double latent_kwh = 0;
   double heating_kwh = 0;
+  double zone_heating_kwh = 0;  // the same in every strategy: set by airflow, not by the damper
   double energy_kwh = 0;  // weighted, what the perfect changeover minimises
   double harmful_hours = 0;
   double harmful_kwh = 0;  // extra weighted energy of the harmful enables

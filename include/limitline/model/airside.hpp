@@ -140,17 +140,41 @@ struct Operation {
   double oa_fraction;
   bool economizing;         // damper above the minimum
   bool mechanical_cooling;  // coil cooling load > 0
+  bool coil_off = false;    // outdoor air alone carries a light load: supply floats above t_s
+  AirState ret;             // the return air of this operation
   AirState mixed;
   CoilLoads loads;
   double weighted_kj_per_kg;  // E
 };
 
+// The space behind the return air, when the unit serves one (docs/model.md §Return air): the
+// return dry-bulb is the space's plus its rise, and its humidity follows the operation.
+struct SpaceReturn {
+  double return_temp_c;
+  double moisture;    // W_r − W_s the space adds, q_l/(ṁ·h_g)
+  double fallback_w;  // humidity ratio used where the space has no steady one (x = 0, dry coil)
+};
+
+// What a non-integrated economizer needs to know to run on outdoor air alone at part load: the
+// hour's space sensible load, the most dry air the fan can move and the space temperature.
+struct LightLoad {
+  double sensible_kw;
+  double max_mass_flow_kg_per_s;
+  double space_temp_c;
+};
+
 // The outdoor and return air of an hour, with the coil limits at that hour's pressure.
 struct HourAir {
   AirState outdoor;
-  AirState ret;
+  AirState ret;  // the return air; with a space, the one at the ventilation minimum
   CoilLimits coil;
+  std::optional<SpaceReturn> space;  // absent: `ret` whatever the damper does
+  std::optional<LightLoad> light_load;
 };
+
+// The return air when the damper is at x: `air.ret`, or with a space the steady state of
+// part_load::return_humidity_ratio, in the regime (coil cooling or not) that x gives.
+[[nodiscard]] AirState return_air_at(const AirHandler& unit, const HourAir& air, double x);
 
 // The operation the damper rule gives (docs/model.md §Damper rule, steps 1–2).
 [[nodiscard]] Operation operate(const AirHandler& unit, const HourAir& air, bool economizer_enabled,
