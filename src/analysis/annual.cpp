@@ -141,15 +141,17 @@ SpaceHour solve_space_hour(airside::AirHandler& u, airside::HourAir& air,
   auto set_flow = [&](double m) {
     if (control.min_outdoor_airflow_m3_per_s)
       u.min_oa_fraction = std::min(*control.min_outdoor_airflow_m3_per_s * rho / m, x_max);
-    air.space = airside::SpaceReturn{space.return_temp_c(), loads.latent_kw / (m * h_g),
-                                     fallback_w};
+    air.space =
+        airside::SpaceReturn{space.return_temp_c(), loads.latent_kw / (m * h_g), fallback_w};
     air.ret = airside::return_air_at(u, air, u.min_oa_fraction);
   };
   auto supply_w = [&]() {
     const airside::AirState mixed = airside::mix(air.outdoor, air.ret, u.min_oa_fraction);
     return airside::coil_loads(u, air.coil, mixed).leaving.humidity_ratio;
   };
-  auto wanted = [&](double cp) { return std::clamp(loads.sensible_kw / (cp * dt), floor, design_flow); };
+  auto wanted = [&](double cp) {
+    return std::clamp(loads.sensible_kw / (cp * dt), floor, design_flow);
+  };
 
   double m = wanted(humid_heat(air.coil.leaving_humidity_ratio_cap));
   set_flow(m);
@@ -267,10 +269,9 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
     double mass_flow = design_flow;
     PreparedInterval iv{};
     if (space) {
-      const part_load::SpaceLoads loads = space->coefficients
-                                              ? space->coefficients->at(w.dry_bulb_c,
-                                                                        space->space_temp_c)
-                                              : opt.hourly_loads[i];
+      const part_load::SpaceLoads loads =
+          space->coefficients ? space->coefficients->at(w.dry_bulb_c, space->space_temp_c)
+                              : opt.hourly_loads[i];
       const SpaceHour sh =
           solve_space_hour(u, air, control, *space, loads, design_flow, rho, w_design_ret);
       mass_flow = sh.mass_flow;
@@ -381,6 +382,7 @@ YearResult evaluate(std::span<const highlimit::Strategy> strategies, const Prepa
   YearResult y;
   y.total_hours = p.total_hours;
   y.operating_hours = p.operating_hours;
+  y.model = p.model;
   y.no_economizer = run_reference(Kind::no_economizer, p, opt);
   y.perfect_changeover = run_reference(Kind::perfect_changeover, p, opt);
   y.optimal_damper = run_reference(Kind::optimal_damper, p, opt);

@@ -179,11 +179,14 @@ std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSer
   return out;
 }
 
-annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point) {
+annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point, bool priced) {
   const auto intervals = outdoor_intervals(in.weather);
   annual::PrepareOptions opt;
-  opt.weights = in.unit.weights;
+  // With a plant the references and the ranking choose by cost (docs/model.md §Plant).
+  opt.weights = in.unit.plant && priced ? in.unit.plant->cost_weights() : in.unit.weights;
   opt.compute_dew_point = compute_dew_point;
+  opt.control = in.unit.control;
+  opt.space = in.unit.space;
   return annual::prepare(in.unit.air_handler, in.unit.return_air, intervals, in.schedule, opt);
 }
 
@@ -209,6 +212,9 @@ report::YearContext year_context(const YearInputs& in, units::System s) {
   c.weather_notes = weather::describe(in.weather.info);
   c.schedule = in.schedule.describe();
   c.warnings = in.warnings;
+  c.model = report::describe_model(in.unit.control, in.unit.space,
+                                   in.unit.loads_file ? in.unit.loads_file->path : "", s);
+  c.plant = in.unit.plant;
   for (const auto& st : in.strategies)
     c.strategy_descriptions[st.name] = report::describe_strategy(st, s);
   return c;

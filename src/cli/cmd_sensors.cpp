@@ -131,7 +131,8 @@ int run_sensors(const std::vector<std::string>& args) {
   if (vm.count("sweep"))
     sweep_spec = sweep_option(vm["sweep"].as<std::string>(), set.outdoor_humidity, system);
 
-  const annual::Prepared prepared = prepare_year(in, true);
+  // The study weighs sensor error in coil energy; a [plant]'s prices apply in year and report.
+  const annual::Prepared prepared = prepare_year(in, true, false);
   const sensors::Engine engine(prepared, in.strategies, set.outdoor_humidity);
 
   const InterruptGuard guard;
@@ -168,6 +169,7 @@ int run_sensors(const std::vector<std::string>& args) {
   }
 
   report::YearContext ctx = year_context(in, system);
+  ctx.plant.reset();
   // The [sensors] table's own warnings belong to the study's inputs too.
   ctx.warnings.insert(ctx.warnings.end(), set.warnings.begin(), set.warnings.end());
   report::SensorsReport rep;

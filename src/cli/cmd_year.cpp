@@ -65,7 +65,8 @@ std::string partial_note(const std::vector<BatchSite>& sites) {
       BatchTally(sites).run, sites.size());
 }
 
-std::string batch_json(const std::vector<BatchSite>& sites, units::System s, bool interrupted) {
+std::string batch_json(const std::vector<BatchSite>& sites, const report::Measure& m,
+                       units::System s, bool interrupted) {
   report::Json j;
   j.begin_object();
   j.field("units", units::system_name(s));
@@ -81,14 +82,17 @@ std::string batch_json(const std::vector<BatchSite>& sites, units::System s, boo
       j.field("operating_hours", site.operating_hours, 8);
       if (b) {
         j.field("best", b->name);
-        j.field("shortfall_vs_perfect_kwh", b->shortfall_vs_perfect_kwh, 8);
+        for (const auto& [k, v] : m.fields("shortfall_vs_perfect", b->shortfall_vs_perfect_kwh))
+          j.field(k, v, 8);
         j.field("harmful_hours", b->annual.harmful_hours, 8);
         j.field("missed_hours", b->annual.missed_hours, 8);
       } else {
         j.key("best").null();
       }
-      j.field("perfect_savings_vs_no_economizer_kwh",
-              site.result.perfect_changeover.savings_vs_no_economizer_kwh, 8);
+      for (const auto& [k, v] :
+           m.fields("perfect_savings_vs_no_economizer",
+                    site.result.perfect_changeover.savings_vs_no_economizer_kwh))
+        j.field(k, v, 8);
     }
     j.end_object();
   }
@@ -100,16 +104,15 @@ std::string batch_json(const std::vector<BatchSite>& sites, units::System s, boo
   return j.str();
 }
 
-std::string batch_table(const std::vector<BatchSite>& sites, units::System s, Format f,
+std::string batch_table(const std::vector<BatchSite>& sites, const report::Measure& m, Format f,
                         bool interrupted) {
-  std::vector<report::Column> cols = {
-      {"weather file", report::Align::left},
-      {"fan-on h", report::Align::right},
-      {"best strategy", report::Align::left},
-      {std::string("shortfall ") + std::string(report::energy_unit(s)), report::Align::right},
-      {std::string("perfect savings ") + std::string(report::energy_unit(s)), report::Align::right},
-      {"harmful h", report::Align::right},
-      {"missed h", report::Align::right}};
+  std::vector<report::Column> cols = {{"weather file", report::Align::left},
+                                      {"fan-on h", report::Align::right},
+                                      {"best strategy", report::Align::left},
+                                      {"shortfall " + m.unit(), report::Align::right},
+                                      {"perfect savings " + m.unit(), report::Align::right},
+                                      {"harmful h", report::Align::right},
+                                      {"missed h", report::Align::right}};
   report::Table t(cols);
   std::string errors;
   for (const auto& site : sites) {
@@ -120,7 +123,7 @@ std::string batch_table(const std::vector<BatchSite>& sites, units::System s, Fo
       continue;
     }
     const auto* b = site.result.best();
-    auto e = [&](double kwh) { return fmt::format("{:.0f}", report::energy_display(kwh, s)); };
+    auto e = [&](double v) { return m.format(v); };
     t.add_row({site.weather_path, fmt::format("{:.0f}", site.operating_hours), b ? b->name : "-",
                b ? e(b->shortfall_vs_perfect_kwh) : "-",
                e(site.result.perfect_changeover.savings_vs_no_economizer_kwh),
@@ -161,8 +164,10 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
                      tty ? show_progress : nullptr, &InterruptGuard::flag());
   const bool interrupted = guard.interrupted();
   const BatchTally tally(sites);
-  write_out(common.format == Format::json ? batch_json(sites, system, interrupted)
-                                          : batch_table(sites, system, common.format, interrupted));
+  const report::Measure measure(system, unit.plant);
+  write_out(common.format == Format::json
+                ? batch_json(sites, measure, system, interrupted)
+                : batch_table(sites, measure, common.format, interrupted));
   std::fflush(stdout);
   if (common.format == Format::csv) {
     for (const auto& s : sites)

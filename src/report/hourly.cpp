@@ -43,11 +43,15 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
       ",outdoor_humidity_ratio," + key("outdoor_enthalpy", Kind::enthalpy, s) + "," +
       key("outdoor_dew_point", Kind::temperature, s) + "," + key("pressure", Kind::pressure, s) +
       "," + key("return_dry_bulb", Kind::temperature, s) + "," +
-      key("return_enthalpy", Kind::enthalpy, s) + ",cooling_needed";
+      key("return_enthalpy", Kind::enthalpy, s) + ",return_humidity_ratio," +
+      key("supply_airflow", Kind::airflow, s) + "," + key("supply_temp", Kind::temperature, s) +
+      ",min_oa_pct," + key("zone_heating", Kind::energy, s) + ",cooling_needed";
   for (const auto* r : rows) {
     const std::string n = r->name;
-    line += fmt::format(",{0}:enabled,{0}:oa_pct,{0}:cooling_{1},{0}:heating_{1},{0}:verdict",
-                        csv_field(n), eu);
+    line += fmt::format(
+        ",{0}:enabled,{0}:oa_pct,{0}:cooling_{1},{0}:heating_{1},{0}:return_humidity_ratio,"
+        "{0}:verdict",
+        csv_field(n), eu);
   }
   line += '\n';
 
@@ -65,8 +69,8 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
                                    psychro::enthalpy_kj_per_kg(w.dry_bulb_c, w.humidity_ratio)));
       line += ",";  // dew point is computed for fan-on intervals only
       cell(line, units::to_display(Kind::pressure, s, w.pressure_kpa));
-      line += ",,,";
-      for (std::size_t k = 0; k < rows.size(); ++k) line += ",,,,,";
+      line += ",,,,,,,,";
+      for (std::size_t k = 0; k < rows.size(); ++k) line += ",,,,,,";
       line += '\n';
     } else {
       const auto& iv = prepared.intervals[next];
@@ -82,6 +86,11 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
       cell(line, units::to_display(Kind::pressure, s, w.pressure_kpa));
       cell(line, units::to_display(Kind::temperature, s, iv.ret[highlimit::Quantity::dry_bulb]));
       cell(line, units::to_display(Kind::enthalpy, s, iv.ret[highlimit::Quantity::enthalpy]));
+      cell(line, iv.ret[highlimit::Quantity::humidity_ratio]);
+      cell(line, units::to_display(Kind::airflow, s, iv.airflow_m3_per_s));
+      cell(line, units::to_display(Kind::temperature, s, iv.supply_temp_c));
+      cell(line, iv.min_oa_fraction * 100.0, 5);
+      cell(line, iv.zone_heating_kwh * per_kwh);
       line += iv.cooling_needed ? ",1" : ",0";
       for (const auto* r : rows) {
         const bool en = r->enabled_by_interval[next] != 0;
@@ -92,6 +101,7 @@ void write_hourly_csv(std::ostream& out, std::span<const annual::OutdoorInterval
         cell(line, o.oa_fraction * 100.0, 5);
         cell(line, o.cooling_kwh * per_kwh);
         cell(line, o.heating_kwh * per_kwh);
+        cell(line, o.return_humidity_ratio);
         const char* verdict = "right";
         if (r->kind == annual::Kind::optimal_damper)
           verdict = "modulating";

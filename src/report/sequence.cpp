@@ -611,9 +611,9 @@ std::string condition_paragraph(const Context& ctx, std::size_t i) {
   return out;
 }
 
-std::string energy(const Context& ctx, double kwh) {
-  return fmt::format("{} {}", number_text(report::energy_display(kwh, ctx.s), 0, ctx.s),
-                     report::energy_unit(ctx.s));
+std::string energy(const Context& ctx, double v) {
+  const report::Measure m(ctx.s, ctx.unit.plant);
+  return fmt::format("{} {}", number_text(m.display(v), m.is_cost() ? 2 : 0, ctx.s), m.unit());
 }
 std::string hours(const Context& ctx, double h) {
   return fmt::format("{} h", number_text(h, 0, ctx.s));
@@ -640,7 +640,14 @@ std::string annual_paragraph(const Context& ctx) {
     out +=
         fmt::format(" The best strategy evaluated, \"{}\", falls {} short.", y.strategies[0].name,
                     energy(ctx, std::max(0.0, y.strategies[0].shortfall_vs_perfect_kwh)));
-  out += " Energy is cooling and heating at the coils, weighted as the unit file sets.";
+  out += ctx.unit.plant
+             ? " Figures are the cost of electricity for cooling and fuel for heating, at the "
+               "plant efficiencies and prices of the unit file."
+             : " Energy is cooling and heating at the coils, weighted as the unit file sets.";
+  out += fmt::format(
+      " The air handler was modelled at {}.",
+      report::describe_model(ctx.unit.control, ctx.unit.space,
+                             ctx.unit.loads_file ? ctx.unit.loads_file->path : "", ctx.s));
   return out;
 }
 

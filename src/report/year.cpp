@@ -7,6 +7,8 @@
 #include <fmt/format.h>
 
 #include <cmath>
+#include <initializer_list>
+#include <utility>
 
 namespace limitline::report {
 namespace {
@@ -29,6 +31,7 @@ struct TotalsField {
   std::string_view key;
   double annual::Totals::*member;
   bool is_energy;
+  bool is_score = false;  // in the ranking's measure: energy, or cost with a plant
 };
 constexpr TotalsField kTotalsFields[] = {
     {"hours_operating", &annual::Totals::hours_operating, false},
@@ -41,28 +44,48 @@ constexpr TotalsField kTotalsFields[] = {
     {"sensible", &annual::Totals::sensible_kwh, true},
     {"latent", &annual::Totals::latent_kwh, true},
     {"heating", &annual::Totals::heating_kwh, true},
-    {"energy", &annual::Totals::energy_kwh, true},
+    {"zone_heating", &annual::Totals::zone_heating_kwh, true},
+    {"energy", &annual::Totals::energy_kwh, true, true},
     {"harmful_hours", &annual::Totals::harmful_hours, false},
-    {"harmful", &annual::Totals::harmful_kwh, true},
+    {"harmful", &annual::Totals::harmful_kwh, true, true},
     {"missed_hours", &annual::Totals::missed_hours, false},
-    {"missed", &annual::Totals::missed_kwh, true},
+    {"missed", &annual::Totals::missed_kwh, true, true},
 };
 
-void json_energy(Json& j, std::string_view stem, double kwh, units::System s) {
-  j.field(fmt::format("{}_kwh", stem), kwh, 8);
-  if (s == units::System::ip) {
-    j.field(fmt::format("{}_kbtu", stem), kwh * kKbtuPerKwh, 8);
-    if (stem == "cooling") j.field("cooling_ton_hours", kwh * kTonHoursPerKwh, 8);
+// The fields of one Totals row: hours, energies (kWh, and kBtu and ton-hours in IP), the
+// ranking's figures in its measure, and with a plant the electricity and fuel behind them.
+std::vector<std::pair<std::string, double>> totals_fields(const annual::Totals& t,
+                                                          const YearContext& c) {
+  std::vector<std::pair<std::string, double>> out;
+  const Measure m(c);
+  for (const auto& f : kTotalsFields) {
+    const double v = t.*f.member;
+    if (f.is_score && m.is_cost()) {
+      for (auto& kv : m.fields(f.key, v)) out.push_back(std::move(kv));
+    } else if (f.is_energy) {
+      out.emplace_back(fmt::format("{}_kwh", f.key), v);
+      if (c.units == units::System::ip) {
+        out.emplace_back(fmt::format("{}_kbtu", f.key), v * kKbtuPerKwh);
+        if (f.key == "cooling") out.emplace_back("cooling_ton_hours", v * kTonHoursPerKwh);
+      }
+    } else {
+      out.emplace_back(std::string(f.key), v);
+    }
   }
+  if (c.plant) {
+    out.emplace_back("cooling_electric_kwh", c.plant->cooling_electric_kwh(t.cooling_kwh));
+    out.emplace_back("heating_fuel_kwh",
+                     c.plant->heating_fuel_kwh(t.heating_kwh + t.zone_heating_kwh));
+  }
+  return out;
 }
 
-void json_totals(Json& j, const annual::Totals& t, units::System s) {
-  for (const auto& f : kTotalsFields) {
-    if (f.is_energy)
-      json_energy(j, f.key, t.*f.member, s);
-    else
-      j.field(f.key, t.*f.member, 8);
-  }
+void json_totals(Json& j, const annual::Totals& t, const YearContext& c) {
+  for (const auto& [k, v] : totals_fields(t, c)) j.field(k, v, 8);
+}
+
+void json_score(Json& j, std::string_view stem, double v, const YearContext& c) {
+  for (const auto& [k, x] : Measure(c).fields(stem, v)) j.field(k, x, 8);
 }
 
 std::vector<const annual::StrategyResult*> all_rows(const annual::YearResult& y) {
@@ -76,21 +99,23 @@ std::vector<const annual::StrategyResult*> all_rows(const annual::YearResult& y)
 
 Table ranked_table(const annual::YearResult& y, const YearContext& c) {
   const auto s = c.units;
+  const Measure m(c);
+  const std::string mu = m.unit();
   const std::string eu(energy_unit(s));
   const std::string cu = s == units::System::ip ? "ton-h" : "kWh";
   std::vector<Column> cols = {
       {"#", Align::right},
       {"strategy", Align::left},
-      {"shortfall " + eu, Align::right},
+      {"shortfall " + mu, Align::right},
       {"harmful h", Align::right},
-      {"harmful " + eu, Align::right},
+      {"harmful " + mu, Align::right},
       {"missed h", Align::right},
-      {"missed " + eu, Align::right},
+      {"missed " + mu, Align::right},
       {"economizing h", Align::right},
       {"free-cooling h", Align::right},
       {"cooling " + cu, Align::right},
       {"heating " + eu, Align::right},
-      {"savings " + eu, Align::right},
+      {"savings " + mu, Align::right},
   };
   const bool with_code = !c.compliance.empty();
   if (with_code) cols.push_back({"code", Align::left});
@@ -103,27 +128,20 @@ Table ranked_table(const annual::YearResult& y, const YearContext& c) {
     }
     const auto& a = r->annual;
     const double cooling = s == units::System::ip ? a.cooling_kwh * kTonHoursPerKwh : a.cooling_kwh;
+    const bool scored = r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer;
     std::vector<std::string> row = {
         r->kind == annual::Kind::strategy ? std::to_string(++rank) : "ref",
         r->name,
-        energy(r->shortfall_vs_perfect_kwh, s),
-        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer
-            ? num(a.harmful_hours)
-            : "-",
-        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer
-            ? energy(a.harmful_kwh, s)
-            : "-",
-        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer
-            ? num(a.missed_hours)
-            : "-",
-        r->kind == annual::Kind::strategy || r->kind == annual::Kind::no_economizer
-            ? energy(a.missed_kwh, s)
-            : "-",
+        m.format(r->shortfall_vs_perfect_kwh),
+        scored ? num(a.harmful_hours) : "-",
+        scored ? m.format(a.harmful_kwh) : "-",
+        scored ? num(a.missed_hours) : "-",
+        scored ? m.format(a.missed_kwh) : "-",
         num(a.hours_economizing),
         num(a.hours_free_cooling),
         num(cooling),
         energy(a.heating_kwh, s),
-        energy(r->savings_vs_no_economizer_kwh, s),
+        m.format(r->savings_vs_no_economizer_kwh),
     };
     if (with_code) {
       const auto it = c.compliance.find(r->name);
@@ -153,12 +171,13 @@ Table monthly_table(const annual::YearResult& y, double annual::Totals::*member,
 // The findings in sentences: the best strategy and what each wrong decision costs.
 std::vector<std::string> findings(const annual::YearResult& y, const YearContext& c) {
   std::vector<std::string> out;
-  const std::string eu(energy_unit(c.units));
+  const Measure m(c);
+  const std::string eu = m.unit();
   const double possible = y.perfect_changeover.savings_vs_no_economizer_kwh;
   if (const auto* best = y.best()) {
     std::string line = fmt::format(
         "Best high-limit for this climate and unit: {} — {} {} short of the perfect changeover",
-        best->name, energy(best->shortfall_vs_perfect_kwh, c.units), eu);
+        best->name, m.format(best->shortfall_vs_perfect_kwh), eu);
     if (possible > 1e-9)
       line += fmt::format(" ({:.0f}% of the savings a perfect changeover would get)",
                           100.0 * best->savings_vs_no_economizer_kwh / possible);
@@ -168,13 +187,46 @@ std::vector<std::string> findings(const annual::YearResult& y, const YearContext
     out.push_back(fmt::format(
         "{}: {} harmful hours (economizing when it should not) cost {} {}; {} missed hours "
         "(not economizing when it should) cost {} {}.",
-        r.name, num(r.annual.harmful_hours), energy(r.annual.harmful_kwh, c.units), eu,
-        num(r.annual.missed_hours), energy(r.annual.missed_kwh, c.units), eu));
+        r.name, num(r.annual.harmful_hours), m.format(r.annual.harmful_kwh), eu,
+        num(r.annual.missed_hours), m.format(r.annual.missed_kwh), eu));
   }
   if (y.optimal_damper.shortfall_vs_perfect_kwh < -1e-9)
     out.push_back(
         fmt::format("An ideally modulated damper would save a further {} {} beyond any changeover.",
-                    energy(-y.optimal_damper.shortfall_vs_perfect_kwh, c.units), eu));
+                    m.format(-y.optimal_damper.shortfall_vs_perfect_kwh), eu));
+  return out;
+}
+
+// What the model did beyond the description: hours it could not hold, and the caution of the
+// design model.
+std::vector<std::string> model_notes(const annual::ModelSummary& m, const YearContext& c) {
+  std::vector<std::string> out;
+  if (m.part_load) {
+    const std::string eu(energy_unit(c.units));
+    out.push_back(fmt::format(
+        "  space loads over the fan-on hours: sensible {} {}, latent {} {}; zone heating {} {}",
+        energy(m.space_sensible_kwh, c.units), eu, energy(m.space_latent_kwh, c.units), eu,
+        energy(m.zone_heating_kwh, c.units), eu));
+    if (m.hours_beyond_design > 0.0)
+      out.push_back(fmt::format(
+          "  in {} h the space sensible load was more than the design airflow carries at the "
+          "supply temperature: the space ran warm, and those hours are priced at design "
+          "airflow",
+          num(m.hours_beyond_design)));
+    if (m.min_airflow_hours > 0.0)
+      out.push_back(
+          fmt::format("  variable airflow at its floor in {} h", num(m.min_airflow_hours)));
+  } else {
+    out.push_back(
+        "  Caution: without [loads] the unit runs at design airflow with the design return air "
+        "every fan-on hour; absolute savings are an upper bound of a unit at design load, and "
+        "only the ranking carries over to part load");
+  }
+  if (m.hours_ventilation_held > 0.0)
+    out.push_back(fmt::format(
+        "  in {} h the fixed outdoor airflow was more than max_outdoor_air of the supply "
+        "airflow: the damper limit held it",
+        num(m.hours_ventilation_held)));
   return out;
 }
 
@@ -182,6 +234,7 @@ std::vector<std::string> header_lines(const annual::YearResult& y, const YearCon
   std::vector<std::string> out = context_lines(c);
   out.push_back(fmt::format("Fan-on hours: {} of {} in the weather year", num(y.operating_hours),
                             num(y.total_hours)));
+  for (const auto& l : model_notes(y.model, c)) out.push_back(l);
   if (!c.code_label.empty()) out.push_back(fmt::format("Energy code: {}", c.code_label));
   return out;
 }
@@ -198,6 +251,7 @@ void json_context(Json& j, const YearContext& c) {
   j.end_array();
   j.field("schedule", c.schedule);
   j.field("units", std::string(units::system_name(c.units)));
+  j.field("air_handler_model", c.model);
   j.key("warnings").begin_array();
   for (const auto& w : c.warnings) j.value(w);
   j.end_array();
@@ -210,6 +264,7 @@ std::vector<std::string> context_lines(const YearContext& c) {
   out.push_back(fmt::format("Weather: {}", c.weather_source));
   for (const auto& n : c.weather_notes) out.push_back("  " + n);
   out.push_back(fmt::format("Schedule: {}", c.schedule));
+  if (!c.model.empty()) out.push_back(fmt::format("Air handler: {}", c.model));
   for (const auto& w : c.warnings) out.push_back("Warning: " + w);
   return out;
 }
@@ -219,13 +274,72 @@ double energy_display(double kwh, units::System s) {
 }
 std::string_view energy_unit(units::System s) { return s == units::System::ip ? "kBtu" : "kWh"; }
 
+double Measure::display(double v) const { return is_cost() ? v : energy_display(v, s_); }
+std::string Measure::format(double v) const { return num(display(v), is_cost() ? 2 : 0); }
+std::string Measure::unit() const { return is_cost() ? currency_ : std::string(energy_unit(s_)); }
+std::string Measure::basis() const {
+  return is_cost()
+             ? fmt::format("cost of electricity for cooling and fuel for heating, {}", currency_)
+             : fmt::format("weighted coil cooling + heating, {}", energy_unit(s_));
+}
+std::vector<std::pair<std::string, double>> Measure::fields(std::string_view stem, double v) const {
+  if (is_cost())
+    return {{stem == "energy" ? std::string("cost") : fmt::format("{}_cost", stem), v}};
+  std::vector<std::pair<std::string, double>> out = {{fmt::format("{}_kwh", stem), v}};
+  if (s_ == units::System::ip) out.emplace_back(fmt::format("{}_kbtu", stem), v * kKbtuPerKwh);
+  return out;
+}
+
+std::string describe_model(const part_load::Control& control,
+                           const std::optional<part_load::Space>& space,
+                           std::string_view loads_source, units::System s) {
+  using units::Kind;
+  auto t = [&](double c) { return units::format(Kind::temperature, s, c, 0); };
+  std::string out;
+  if (space) {
+    out = "part load: ";
+    if (control.airflow == part_load::AirflowControl::variable)
+      out += fmt::format("variable airflow (floor {}) following the space sensible load",
+                         units::format(Kind::fraction, s, control.min_airflow_fraction, 0));
+    else
+      out += "constant airflow with zone heating where the supply air over-cools the space";
+    out += fmt::format(
+        "; space {}, return air {} above it, its humidity from the space's latent "
+        "balance; loads ",
+        t(space->space_temp_c),
+        units::format(Kind::temperature_difference, s, space->return_air_rise_k, 1));
+    if (space->coefficients) {
+      const auto& k = *space->coefficients;
+      const bool ip = s == units::System::ip;
+      out += fmt::format("{} internal sensible + {} per {} outdoor above the space, {} latent",
+                         units::format(Kind::power, s, k.internal_sensible_kw, 0),
+                         units::format(Kind::power, s,
+                                       k.envelope_ua_kw_per_k * (ip ? 1.0 / 1.8 : 1.0), ip ? 2 : 1),
+                         ip ? "°F" : "K", units::format(Kind::power, s, k.latent_kw, 0));
+    } else {
+      out += fmt::format("hour by hour from {}", loads_source);
+    }
+  } else {
+    out = "design load: design airflow and the design return air every fan-on hour";
+  }
+  if (control.reset)
+    out += fmt::format("; supply air reset from {} at {} outdoor to {} at {}",
+                       t(control.reset->supply_at_low_c), t(control.reset->outdoor_low_c),
+                       t(control.reset->supply_at_high_c), t(control.reset->outdoor_high_c));
+  if (control.min_outdoor_airflow_m3_per_s)
+    out += fmt::format("; ventilation a fixed {} of outdoor air",
+                       units::format(Kind::airflow, s, *control.min_outdoor_airflow_m3_per_s,
+                                     s == units::System::ip ? 0 : 2));
+  if (control.basis == part_load::AirflowBasis::actual)
+    out += "; airflow at the site's air density";
+  return out;
+}
+
 std::string year_text(const annual::YearResult& y, const YearContext& c) {
   std::string out = fmt::format("limitline year — {}\n\n", c.title);
   for (const auto& l : header_lines(y, c)) out += l + "\n";
-  out += fmt::format(
-      "\nStrategies ranked by energy shortfall against the perfect changeover (weighted coil "
-      "cooling + heating, {}):\n\n",
-      energy_unit(c.units));
+  out += fmt::format("\nStrategies ranked by shortfall against the perfect changeover ({}):\n\n",
+                     Measure(c).basis());
   out += ranked_table(y, c).text();
   if (!c.strategy_descriptions.empty()) {
     out += "\nStrategies:\n";
@@ -255,7 +369,7 @@ std::string year_markdown(const annual::YearResult& y, const YearContext& c) {
         (l.starts_with("  ") ? "  - " + markdown_escape(l.substr(2)) : "- " + markdown_escape(l)) +
         "\n";
   out += fmt::format("\n## Strategies ranked by shortfall against the perfect changeover ({})\n\n",
-                     energy_unit(c.units));
+                     markdown_escape(Measure(c).basis()));
   out += ranked_table(y, c).markdown();
   out += "\n## Findings\n\n";
   for (const auto& f : findings(y, c)) out += "- " + markdown_escape(f) + "\n";
@@ -270,41 +384,24 @@ std::string year_markdown(const annual::YearResult& y, const YearContext& c) {
 }
 
 std::string year_csv(const annual::YearResult& y, const YearContext& c) {
+  // One row per strategy and reference; the columns are the JSON result's fields, in order.
+  auto fields = [&](const annual::StrategyResult& r) {
+    auto f = totals_fields(r.annual, c);
+    const Measure m(c);
+    for (auto& kv : m.fields("savings_vs_no_economizer", r.savings_vs_no_economizer_kwh))
+      f.push_back(std::move(kv));
+    for (auto& kv : m.fields("shortfall_vs_perfect", r.shortfall_vs_perfect_kwh))
+      f.push_back(std::move(kv));
+    return f;
+  };
+  const auto rows = all_rows(y);
   std::vector<Column> cols = {{"strategy", Align::left}, {"kind", Align::left}};
-  std::vector<std::string> keys;
-  for (const auto& f : kTotalsFields) {
-    if (!f.is_energy) {
-      keys.emplace_back(f.key);
-      continue;
-    }
-    keys.push_back(fmt::format("{}_kwh", f.key));
-    if (c.units == units::System::ip) {
-      keys.push_back(fmt::format("{}_kbtu", f.key));
-      if (f.key == "cooling") keys.emplace_back("cooling_ton_hours");
-    }
-  }
-  for (const char* k : {"savings_vs_no_economizer", "shortfall_vs_perfect"}) {
-    keys.push_back(fmt::format("{}_kwh", k));
-    if (c.units == units::System::ip) keys.push_back(fmt::format("{}_kbtu", k));
-  }
-  for (const auto& k : keys) cols.push_back({k, Align::right});
+  for (const auto& [k, v] : fields(*rows.front())) cols.push_back({k, Align::right});
   Table t(cols);
-  for (const auto* r : all_rows(y)) {
+  for (const auto* r : rows) {
     std::vector<std::string> row = {r->name,
                                     r->kind == annual::Kind::strategy ? "strategy" : "reference"};
-    auto put = [&](double v) { row.push_back(fmt::format("{:.8g}", v == 0.0 ? 0.0 : v)); };
-    for (const auto& f : kTotalsFields) {
-      const double v = r->annual.*f.member;
-      put(v);
-      if (f.is_energy && c.units == units::System::ip) {
-        put(v * kKbtuPerKwh);
-        if (f.key == "cooling") put(v * kTonHoursPerKwh);
-      }
-    }
-    for (double v : {r->savings_vs_no_economizer_kwh, r->shortfall_vs_perfect_kwh}) {
-      put(v);
-      if (c.units == units::System::ip) put(v * kKbtuPerKwh);
-    }
+    for (const auto& [k, v] : fields(*r)) row.push_back(fmt::format("{:.8g}", v == 0.0 ? 0.0 : v));
     t.add_row(std::move(row));
   }
   return t.csv();
@@ -316,6 +413,24 @@ std::string year_json(const annual::YearResult& y, const YearContext& c) {
   json_context(j, c);
   j.field("total_hours", y.total_hours, 8);
   j.field("operating_hours", y.operating_hours, 8);
+  j.key("model").begin_object();
+  j.field("description", c.model);
+  j.field("part_load", y.model.part_load);
+  j.field("hourly_loads", y.model.hourly_loads);
+  j.field("airflow_control", std::string(part_load::airflow_control_name(y.model.airflow)));
+  j.field("hours_beyond_design", y.model.hours_beyond_design, 8);
+  j.field("hours_at_min_airflow", y.model.min_airflow_hours, 8);
+  j.field("hours_ventilation_held", y.model.hours_ventilation_held, 8);
+  for (const auto& [k, v] : std::initializer_list<std::pair<const char*, double>>{
+           {"space_sensible", y.model.space_sensible_kwh},
+           {"space_latent", y.model.space_latent_kwh},
+           {"zone_heating", y.model.zone_heating_kwh}}) {
+    j.field(fmt::format("{}_kwh", k), v, 8);
+    if (c.units == units::System::ip) j.field(fmt::format("{}_kbtu", k), v * kKbtuPerKwh, 8);
+  }
+  j.end_object();
+  j.field("ranking_basis", Measure(c).is_cost() ? "cost" : "weighted-energy");
+  if (c.plant) j.field("currency", c.plant->currency);
   if (!c.code_label.empty()) j.field("energy_code", c.code_label);
   j.key("ranking").begin_array();
   for (const auto& r : y.strategies) j.value(r.name);
@@ -332,14 +447,14 @@ std::string year_json(const annual::YearResult& y, const YearContext& c) {
       j.field("description", it->second);
     if (const auto it = c.compliance.find(r->name); it != c.compliance.end())
       j.field("compliance", it->second);
-    json_totals(j, r->annual, c.units);
-    json_energy(j, "savings_vs_no_economizer", r->savings_vs_no_economizer_kwh, c.units);
-    json_energy(j, "shortfall_vs_perfect", r->shortfall_vs_perfect_kwh, c.units);
+    json_totals(j, r->annual, c);
+    json_score(j, "savings_vs_no_economizer", r->savings_vs_no_economizer_kwh, c);
+    json_score(j, "shortfall_vs_perfect", r->shortfall_vs_perfect_kwh, c);
     j.key("monthly").begin_array();
     for (std::size_t m = 0; m < 12; ++m) {
       j.begin_object();
       j.field("month", static_cast<int>(m + 1));
-      json_totals(j, r->monthly[m], c.units);
+      json_totals(j, r->monthly[m], c);
       j.end_object();
     }
     j.end_array();

@@ -52,8 +52,8 @@ struct PreparedInterval {
   std::uint32_t source_index;  // index into the weather series
   std::uint8_t month;          // 1–12
   bool cooling_needed;
-  double hours;         // occupied hours in the interval (occupied share × length)
-  double pressure_kpa;  // this interval's pressure (outdoor and return air alike)
+  double hours;                       // occupied hours in the interval (occupied share × length)
+  double pressure_kpa;                // this interval's pressure (outdoor and return air alike)
   highlimit::AirValues outdoor, ret;  // ret: what the high-limit reads (at the minimum)
   Outcome disabled, enabled, optimal;
   // The hour's air handler (docs/model.md §Part load): equal to the design in the design model.
@@ -71,16 +71,16 @@ struct PreparedInterval {
     return enabled.energy_kwh > disabled.energy_kwh + tolerance_kwh;
   }
   double tolerance_kwh;  // kDecisionToleranceKjPerKg at this interval's mass flow, length and
-                        // largest weight
+                         // largest weight
 };
 
 // Which model priced the hours, for the report's context block.
 struct ModelSummary {
-  bool part_load = false;  // a space ([loads]) drove airflow and return air
+  bool part_load = false;     // a space ([loads]) drove airflow and return air
   bool hourly_loads = false;  // the loads came from a file, hour by hour
   part_load::AirflowControl airflow = part_load::AirflowControl::constant;
   bool supply_reset = false;
-  double hours_beyond_design = 0;  // sensible load more than design airflow carries
+  double hours_beyond_design = 0;     // sensible load more than design airflow carries
   double hours_ventilation_held = 0;  // fixed outdoor airflow above the damper limit's share
   double space_sensible_kwh = 0, space_latent_kwh = 0, zone_heating_kwh = 0;
   double min_airflow_hours = 0;  // variable control at its floor
@@ -126,7 +126,7 @@ struct Totals {
   double latent_kwh = 0;
   double heating_kwh = 0;
   double zone_heating_kwh = 0;  // the same in every strategy: set by airflow, not by the damper
-  double energy_kwh = 0;  // weighted, what the perfect changeover minimises
+  double energy_kwh = 0;        // weighted, what the perfect changeover minimises
   double harmful_hours = 0;
   double harmful_kwh = 0;  // extra weighted energy of the harmful enables
   double missed_hours = 0;
@@ -165,6 +165,7 @@ struct YearResult {
   StrategyResult no_economizer, perfect_changeover, optimal_damper;
   double total_hours = 0;
   double operating_hours = 0;
+  ModelSummary model;  // which model priced the hours (copied from the prepared year)
   // The best strategy (first of `strategies`); empty when there are none.
   [[nodiscard]] const StrategyResult* best() const {
     return strategies.empty() ? nullptr : &strategies[0];

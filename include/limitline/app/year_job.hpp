@@ -78,7 +78,10 @@ YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
 // The weather series as the annual engine's intervals.
 std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w);
 
-annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point = true);
+// With `priced` and a [plant], the hours are weighed by cost (the references and the ranking
+// choose by cost); otherwise by the [energy] weights.
+annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point = true,
+                              bool priced = true);
 
 // The report's header lines and strategy descriptions.
 report::YearContext year_context(const YearInputs& in, units::System units);

@@ -2,7 +2,11 @@
 // The annual report: ranked strategies, wrong decisions, monthly hours, in text, Markdown,
 // CSV and JSON. Formatting only: every number comes from annual::YearResult.
 #include <limitline/analysis/annual.hpp>
+#include <limitline/model/part_load.hpp>
+#include <limitline/model/plant.hpp>
 #include <limitline/model/units.hpp>
+
+#include <optional>
 
 #include <map>
 #include <string>
@@ -25,6 +29,39 @@ struct YearContext {
   std::map<std::string, std::string> compliance;
   // Implausible inputs and disagreements between inputs, one line each (YearInputs::warnings).
   std::vector<std::string> warnings;
+  // The model that priced the hours, in words (describe_model).
+  std::string model;
+  // With a [plant], the figures the ranking is in are a cost in its currency.
+  std::optional<Plant> plant;
+};
+
+// "part load: variable airflow (floor 30 %), supply air reset from 60 °F at 50 °F outdoor to
+// 55 °F at 65 °F; space 75 °F, return 1 °F above it; loads: 150 kBtu/h internal, ...", or the
+// design model's one line.
+std::string describe_model(const part_load::Control& control,
+                           const std::optional<part_load::Space>& space,
+                           std::string_view loads_source, units::System s);
+
+// The figures a ranking is in: the weighted coil energy (kBtu in IP, kWh in SI), or with a
+// plant, its cost. `key` names a JSON or CSV field: "shortfall" → "shortfall_kwh" (and the
+// kBtu twin in IP), or "shortfall_cost".
+class Measure {
+ public:
+  Measure(units::System s, const std::optional<Plant>& plant)
+      : s_(s), currency_(plant ? plant->currency : std::string()) {}
+  explicit Measure(const YearContext& c) : Measure(c.units, c.plant) {}
+  [[nodiscard]] bool is_cost() const { return !currency_.empty(); }
+  [[nodiscard]] double display(double v) const;
+  [[nodiscard]] std::string format(double v) const;  // rounded for a table
+  [[nodiscard]] std::string unit() const;            // "kBtu", "kWh" or the currency
+  [[nodiscard]] std::string basis() const;           // "weighted coil cooling + heating, kBtu"
+  // The JSON fields of one figure: (key, value) pairs.
+  [[nodiscard]] std::vector<std::pair<std::string, double>> fields(std::string_view stem,
+                                                                   double v) const;
+
+ private:
+  units::System s_;
+  std::string currency_;
 };
 
 class Json;
