@@ -233,3 +233,48 @@ TEST_CASE("the part-load year is believable: less coil energy and smaller saving
   CHECK(part.perfect_changeover.annual.energy_kwh <= part.no_economizer.annual.energy_kwh);
   CHECK(part.optimal_damper.annual.energy_kwh <= part.perfect_changeover.annual.energy_kwh + 1e-6);
 }
+
+TEST_CASE("a non-integrated economizer carries a light load on outdoor air alone") {
+  // Common practice: a non-integrated economizer that cannot reach the mixed-air target locks
+  // out to the minimum and runs the compressor, unless the space's thermostat is satisfied by
+  // outdoor air alone: the warmer supply air (here 60 °F outdoor + 1.5 °F fan heat against a
+  // 75 °F space) then carries a light load within design airflow.
+  Setup s;
+  s.unit.air_handler.economizer = airside::EconomizerType::non_integrated;
+  const Schedule always;
+  const double t_o = units::celsius_from_fahrenheit(60.0);
+  annual::OutdoorInterval hour{5, 15, 134, 10 * 60, 1.0, t_o, 0.006, 101.325};
+  auto at = [&](double sensible_kw) {
+    s.options.space->coefficients = part_load::LoadCoefficients{sensible_kw, 0.0, 5.0};
+    return annual::prepare(s.unit.air_handler, s.unit.return_air, std::span(&hour, 1), always,
+                           s.options)
+        .intervals.at(0);
+  };
+  // The most the design airflow carries with 61.5 °F supply air: ṁ_d·c·(75 − 61.5) °F.
+  const double m_d = s.unit.air_handler.supply_airflow_m3_per_s * 1.204;
+  const double capacity = m_d * (1.006 + 1.86 * 0.006) * (13.5 / 1.8);
+  const auto light = at(0.5 * capacity);
+  CHECK(light.cooling_needed);
+  CHECK(light.enabled.oa_fraction == 1.0);
+  CHECK(light.enabled.cooling_kwh == 0.0);
+  CHECK(light.disabled.cooling_kwh > 0.0);
+  CHECK(light.enabling_pays());
+  const auto heavy = at(1.05 * capacity);
+  CHECK(heavy.enabled.oa_fraction == doctest::Approx(s.unit.air_handler.min_oa_fraction));
+  CHECK(heavy.enabled.cooling_kwh == heavy.disabled.cooling_kwh);
+}
+
+TEST_CASE("the references still bracket every strategy under part load") {
+  // docs/model.md §Reference operations: no economizer ≥ perfect changeover ≥ optimal damper,
+  // and every changeover lies between the perfect one and the worst of each hour.
+  Setup s;
+  s.options.control.reset = part_load::SupplyAirReset{10.0, 15.6, 18.3, 12.8};
+  const auto y = annual::evaluate(strategies_or_presets(s.unit), s.prepare());
+  for (const auto& r : y.strategies) {
+    CHECK(r.annual.energy_kwh >= y.perfect_changeover.annual.energy_kwh - 1e-6);
+    CHECK(r.shortfall_vs_perfect_kwh ==
+          doctest::Approx(r.annual.harmful_kwh + r.annual.missed_kwh).epsilon(1e-9));
+  }
+  CHECK(y.optimal_damper.annual.energy_kwh <= y.perfect_changeover.annual.energy_kwh + 1e-6);
+  CHECK(y.perfect_changeover.annual.energy_kwh <= y.no_economizer.annual.energy_kwh);
+}
