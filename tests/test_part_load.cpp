@@ -59,8 +59,9 @@ struct Setup {
 
 }  // namespace
 
-TEST_CASE("over a year, the no-economizer coil energy balances the space, the fan and the "
-          "outdoor air hour by hour") {
+TEST_CASE(
+    "over a year, the no-economizer coil energy balances the space, the fan and the "
+    "outdoor air hour by hour") {
   // Balance of one hour at steady state (dry-air mass flow ṁ, outdoor fraction x):
   //   coil cooling − coil heating = q_s + q_zone + q_l + ṁ·c_s·(rise + fan heat)
   //                                 + ṁ·x·(h_o − h_r) − ṁ·(W_ce − W_cl)·4.186·t_cl
@@ -164,8 +165,8 @@ TEST_CASE("return humidity from the space's latent balance, by hand") {
         .intervals.at(0);
   };
   // Humid outdoor air: the coil condenses, W_s = W_cap, so W_r = W_cap + q_l/(ṁ·h_g).
-  const double w_cap =
-      w_from_pw(u.coil_leaving_rh_max * psychro::saturation_pressure_kpa(u.coil_leaving_temp_c()), p);
+  const double w_cap = w_from_pw(
+      u.coil_leaving_rh_max * psychro::saturation_pressure_kpa(u.coil_leaving_temp_c()), p);
   const auto humid = hour_at(30.0, 0.018, 10.0);
   CHECK(humid.disabled.supply_humidity_ratio == doctest::Approx(w_cap).epsilon(1e-12));
   CHECK(humid.disabled.return_humidity_ratio ==
@@ -216,8 +217,9 @@ TEST_CASE("the actual airflow basis scales the mass flow with pressure") {
   CHECK(part_load::air_density_kg_per_m3(part_load::AirflowBasis::standard, 84.0) == 1.204);
 }
 
-TEST_CASE("the part-load year is believable: less coil energy and smaller savings than at "
-          "design load") {
+TEST_CASE(
+    "the part-load year is believable: less coil energy and smaller savings than at "
+    "design load") {
   // Common practice: a unit at part load, with its return air following the space, needs less
   // coil energy than one held at design airflow all year, and its economizer has less to save.
   Setup s;
@@ -277,4 +279,27 @@ TEST_CASE("the references still bracket every strategy under part load") {
   }
   CHECK(y.optimal_damper.annual.energy_kwh <= y.perfect_changeover.annual.energy_kwh + 1e-6);
   CHECK(y.perfect_changeover.annual.energy_kwh <= y.no_economizer.annual.energy_kwh);
+}
+
+TEST_CASE("on the mixed-air target the coil does nothing, with the return air x* itself makes") {
+  // x* solves t_m(x) = target with W_r = W_o + m/x (docs/model.md §Return air). Were it off by
+  // more than the 1e-9 K on-target tolerance, the coil would cool or heat a little: every
+  // modulating free-cooling hour must carry exactly no coil load.
+  Setup s;
+  s.options.space->coefficients = part_load::LoadCoefficients{40.0, 0.8, 20.0};
+  const annual::Prepared p = s.prepare();
+  std::size_t modulating = 0;
+  for (const auto& iv : p.intervals) {
+    const auto& e = iv.enabled;
+    if (!(e.oa_fraction > iv.min_oa_fraction + 1e-9 && e.oa_fraction < 1.0 - 1e-9)) continue;
+    ++modulating;
+    CHECK(e.cooling_kwh == 0.0);
+    CHECK(e.heating_kwh == 0.0);
+    // The mixed air's humidity is the mixing of outdoor air and the steady return.
+    const double w_o = s.weather[iv.source_index].humidity_ratio;
+    CHECK(e.supply_humidity_ratio ==
+          doctest::Approx(e.oa_fraction * w_o + (1.0 - e.oa_fraction) * e.return_humidity_ratio)
+              .epsilon(1e-12));
+  }
+  CHECK(modulating > 500);
 }

@@ -143,7 +143,7 @@ SpaceHour solve_space_hour(airside::AirHandler& u, airside::HourAir& air,
       u.min_oa_fraction = std::min(*control.min_outdoor_airflow_m3_per_s * rho / m, x_max);
     air.space =
         airside::SpaceReturn{space.return_temp_c(), loads.latent_kw / (m * h_g), fallback_w};
-    air.ret = airside::return_air_at(u, air, u.min_oa_fraction);
+    air.ret = airside::steady_return_air(u, air, u.min_oa_fraction);
   };
   auto supply_w = [&]() {
     const airside::AirState mixed = airside::mix(air.outdoor, air.ret, u.min_oa_fraction);

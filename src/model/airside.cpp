@@ -46,21 +46,48 @@ Operation operation_at(const AirHandler& unit, const HourAir& air, double x,
   return op;
 }
 
-// x* with the return air that x* itself makes: the mixed temperature depends on the return
-// humidity only through the vapour's heat capacity (1.86·W), so the iteration contracts by
-// about 1e-2 a step and reaches rounding in a few.
-bool fraction_for_target(const AirHandler& unit, const HourAir& air, double target_c, double& x) {
-  if (!oa_fraction_for_mixed_temp(air.outdoor, air.ret, target_c, x)) return false;
-  if (!air.space) return true;
-  for (int i = 0; i < 12; ++i) {
-    const double held = std::clamp(x, unit.min_oa_fraction, unit.max_oa_fraction);
-    double next = x;
-    if (!oa_fraction_for_mixed_temp(air.outdoor, return_air_at(unit, air, held), target_c, next))
-      return true;
-    const bool settled = std::fabs(next - x) <= 1e-14;
-    x = next;
-    if (settled) break;
+// x* with the return air that x* itself makes. On the target the coil does nothing, so the
+// return humidity is W_r = W_o + m/x (part_load::return_humidity_ratio without a coil) and the
+// mixed air W_m = W_o + m/x − m. Putting both into t_m(x) = target (eq. 32 rearranged, as in
+// oa_fraction_for_mixed_temp) and multiplying by x gives a quadratic A·x² + B·x + C = 0 with
+// h_r0 = h(t_r, W_o), k = 2501 + 1.86·target:
+//   A = h_o − h_r0,  B = h_r0 − m·b_r − (W_o − m)·k − 1.006·target,  C = m·(b_r − k),
+// b_r = 2501 + 1.86·t_r. With m = 0 it is the linear case times x.
+bool fraction_for_target(const AirHandler& /*unit*/, const HourAir& air, double target_c,
+                         double& x) {
+  double estimate = 0.0;  // with the return air at the minimum: close, and on the right side
+  if (!oa_fraction_for_mixed_temp(air.outdoor, air.ret, target_c, estimate)) estimate = NAN;
+  if (!air.space) {
+    x = estimate;
+    return std::isfinite(x);
   }
+  const SpaceReturn& sp = *air.space;
+  const double m = std::max(0.0, sp.moisture), w_o = air.outdoor.humidity_ratio;
+  const double b_r = 2501.0 + 1.86 * sp.return_temp_c, k = 2501.0 + 1.86 * target_c;
+  const double h_r0 = 1.006 * sp.return_temp_c + w_o * b_r;
+  const double a = air.outdoor.enthalpy_kj_per_kg - h_r0;
+  const double b = h_r0 - m * b_r - (w_o - m) * k - 1.006 * target_c;
+  const double c = m * (b_r - k);
+  double root = NAN;
+  if (std::fabs(a) < 1e-12) {
+    if (std::fabs(b) > 1e-15) root = -c / b;
+  } else if (c == 0.0) {
+    root = -b / a;  // no moisture: the linear case
+  } else {
+    const double disc = b * b - 4.0 * a * c;
+    if (disc < 0.0) return false;
+    // The stable pair of roots: q/a and c/q (never the difference of two near-equal numbers).
+    const double q = -0.5 * (b + std::copysign(std::sqrt(disc), b));
+    const double r1 = q / a, r2 = q != 0.0 ? c / q : NAN;
+    // The positive root nearer the estimate (with A < 0, the usual case, only one is positive).
+    const double near = std::isfinite(estimate) ? estimate : 0.5;
+    auto distance = [&](double r) {
+      return std::isfinite(r) && r > 0.0 ? std::fabs(r - near) : INFINITY;
+    };
+    root = distance(r1) <= distance(r2) ? r1 : r2;
+  }
+  if (!std::isfinite(root) || !(root > 0.0)) return false;
+  x = root;
   return true;
 }
 
@@ -159,14 +186,18 @@ MixedAirEstimate estimate_mixed_air(const AirState& o, const AirState& r, double
 }
 
 AirState return_air_at(const AirHandler& unit, const HourAir& air, double x) {
+  // `ret` is the return at the minimum already (HourAir's contract): the common case.
+  if (!air.space || x == unit.min_oa_fraction) return air.ret;
+  return steady_return_air(unit, air, x);
+}
+
+AirState steady_return_air(const AirHandler& unit, const HourAir& air, double x) {
   if (!air.space) return air.ret;
   const SpaceReturn& sp = *air.space;
   auto at = [&](bool dehumidifies) {
-    return air_state(sp.return_temp_c,
-                     part_load::return_humidity_ratio(air.outdoor.humidity_ratio, sp.moisture, x,
-                                                      dehumidifies,
-                                                      air.coil.leaving_humidity_ratio_cap,
-                                                      sp.fallback_w));
+    return air_state(sp.return_temp_c, part_load::return_humidity_ratio(
+                                           air.outdoor.humidity_ratio, sp.moisture, x, dehumidifies,
+                                           air.coil.leaving_humidity_ratio_cap, sp.fallback_w));
   };
   // The regime without coil cooling is tried first: on the mixed-air target itself (x*) it is
   // the consistent one, and the coil then does nothing, as coil_loads() says.

@@ -175,6 +175,8 @@ struct HourAir {
 // The return air when the damper is at x: `air.ret`, or with a space the steady state of
 // part_load::return_humidity_ratio, in the regime (coil cooling or not) that x gives.
 [[nodiscard]] AirState return_air_at(const AirHandler& unit, const HourAir& air, double x);
+// The same, computed even at the minimum: what fills `ret` of a part-load hour.
+[[nodiscard]] AirState steady_return_air(const AirHandler& unit, const HourAir& air, double x);
 
 // The operation the damper rule gives (docs/model.md §Damper rule, steps 1–2).
 [[nodiscard]] Operation operate(const AirHandler& unit, const HourAir& air, bool economizer_enabled,
