@@ -128,7 +128,14 @@ std::string summary_lines(const PointCheckContext& in, const PointCheck& pc, con
                               view.q(Kind::fraction, a.coil_leaving_rh_max))},
   };
   std::string out;
-  for (const auto& [k, v] : lines)
+  std::vector<std::pair<std::string, std::string>> all = lines;
+  // The point is checked at the design state whatever the annual model: say so when the
+  // unit's annual figures come from a part-load model, so the two are not confused.
+  if (u.space || u.control.reset)
+    all.emplace_back("Basis",
+                     "the design point (design airflow, supply setpoint and return air); the "
+                     "annual commands price each hour with the unit's part-load model");
+  for (const auto& [k, v] : all)
     out += markdown ? fmt::format("- **{}:** {}\n", k, markdown_escape(v))
                     : fmt::format("{:<12} {}\n", k, v);
   for (const std::string& w : in.warnings)
