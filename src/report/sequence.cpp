@@ -745,9 +745,16 @@ void modulation(const Context& ctx, Section& sec) {
   else
     out += fmt::format("the supply-air setpoint of {}, with no supply-fan heat allowed for.",
                        ctx.t(a.supply_air_temp_c));
+  if (const auto& r = ctx.unit.control.reset)
+    out += fmt::format(
+        " The supply-air setpoint shall be reset on outdoor dry-bulb: {} at or below {} "
+        "outdoor, {} at or above {}, in a straight line between; the mixed-air setpoint "
+        "follows it, less the fan heat.",
+        ctx.t(r->supply_at_low_c), ctx.t(r->outdoor_low_c), ctx.t(r->supply_at_high_c),
+        ctx.t(r->outdoor_high_c));
   out +=
-      " Basis: design choice; the supply-air setpoint and fan heat are the unit's, as the "
-      "analysis used them.";
+      " Basis: design choice; the supply-air setpoint, its reset and the fan heat are the "
+      "unit's, as the analysis used them.";
   add(sec, out);
   add(sec, fmt::format("The outdoor damper shall open no further than {} outdoor air{}. Basis: "
                        "design choice, set by the damper and relief capacity; the analysis used "
