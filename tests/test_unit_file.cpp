@@ -13,6 +13,7 @@
 #include <fmt/format.h>
 
 #include <cmath>
+#include <fstream>
 #include <string>
 
 using limitline::InputError;
@@ -1003,4 +1004,28 @@ heating_price = 0
   CHECK(has(w, "unit.toml:31: plant.heating_price: 0 is outside", "a price per kWh (0.01 to 1"));
   // Inside their bands: no word (the first test's file has none either).
   CHECK(parse_unit_file(kPartLoad, "unit.toml").warnings.empty());
+}
+
+TEST_CASE("the README's unit file example reads, part-load tables and all, without a warning") {
+  std::ifstream in(std::string(LIMITLINE_SOURCE_DIR) + "/README.md");
+  std::string line, example;
+  bool section = false, inside = false;
+  while (std::getline(in, line)) {
+    if (line == "## The unit file") section = true;
+    if (!section) continue;
+    if (!inside && line == "```toml") {
+      inside = true;
+      continue;
+    }
+    if (inside && line == "```") break;
+    if (inside) example += line + "\n";
+  }
+  REQUIRE_FALSE(example.empty());
+  const UnitFile u = parse_unit_file(example, "README.md");
+  CHECK(u.warnings.empty());
+  CHECK(u.control.airflow == limitline::part_load::AirflowControl::variable);
+  REQUIRE(u.space);
+  CHECK(u.space->coefficients);
+  CHECK(u.plant);
+  CHECK(u.strategies.size() == 2);
 }
