@@ -6,6 +6,7 @@
 #include <doctest/doctest.h>
 
 #include <algorithm>
+#include <array>
 #include <fstream>
 #include <sstream>
 #include <string>
@@ -204,6 +205,47 @@ TEST_CASE("stamps: the date and clock forms of weather files, read once and cach
   ts::Stamp again;
   REQUIRE(ts::parse_date("2019-07-01", false, again, f, c));
   CHECK(again.day == 1);
+}
+
+TEST_CASE("interval starts: an hour-ending stamp moved back a step, across days and years") {
+  const auto earlier = [](ts::Stamp s, int minutes) {
+    return ts::stamp_text(ts::minutes_earlier(s, minutes));
+  };
+  CHECK(earlier({2019, 7, 1, 13 * 60}, 60) == "2019-07-01 12:00");
+  CHECK(earlier({2019, 7, 1, 1440}, 60) == "2019-07-01 23:00");  // 24:00 ends its own day
+  CHECK(earlier({2019, 7, 1, 0}, 15) == "2019-06-30 23:45");
+  CHECK(earlier({2019, 1, 1, 0}, 60) == "2018-12-31 23:00");
+  // The day before 1 March is 29 February in a leap year only (Gregorian rule, ISO 8601); a
+  // stamp without its year may name 29 February.
+  CHECK(earlier({2020, 3, 1, 0}, 60) == "2020-02-29 23:00");
+  CHECK(earlier({2019, 3, 1, 0}, 60) == "2019-02-28 23:00");
+  CHECK(earlier({0, 3, 1, 0}, 60) == "02-29 23:00");
+  CHECK(earlier({0, 1, 1, 0}, 60) == "12-31 23:00");
+}
+
+TEST_CASE("stamp reader: the time columns of a row, or the column at fault and what it holds") {
+  std::array<int, ts::kTimeRoleCount> roles;
+  roles.fill(-1);
+  roles[static_cast<std::size_t>(ts::TimeRole::month)] = 0;
+  roles[static_cast<std::size_t>(ts::TimeRole::day)] = 1;
+  roles[static_cast<std::size_t>(ts::TimeRole::hour)] = 2;
+  ts::StampReader reader(ts::resolve_time(roles), false);
+  ts::Stamp st;
+  ts::Zone zone;
+  ts::StampForm form;
+  std::vector<std::string_view> fields = {"2", "29", "24", "7.5"};
+  CHECK(reader.read(fields, st, zone, form).column < 0);
+  CHECK(ts::stamp_text(st) == "02-29 24:00");
+  CHECK(reader.format_text(form, zone) == "month, day columns + hour column");
+  fields = {"2", "30", "1"};
+  const ts::StampFault fault = reader.read(fields, st, zone, form);
+  CHECK(fault.column == 1);
+  CHECK(fault.allowed == "a day of the month, 1 to its length");
+  // The names of time columns are shared by the readers.
+  CHECK(ts::in_list(ts::kTimeRoleAliases[static_cast<std::size_t>(ts::TimeRole::timestamp)],
+                    ts::name_key("Date/Time")));
+  CHECK(ts::in_list(ts::kTimeRoleAliases[static_cast<std::size_t>(ts::TimeRole::hour)],
+                    ts::name_key("HR")));
 }
 
 // --- 4. Columns with units -----------------------------------------------------------------

@@ -13,6 +13,7 @@
 #include <fmt/format.h>
 
 #include <cmath>
+#include <fstream>
 #include <string>
 
 using limitline::InputError;
@@ -614,4 +615,417 @@ TEST_CASE("TOML nested beyond 64 levels is refused before the parser sees it") {
   } catch (const InputError& e) {
     CHECK(std::string(e.what()).find("[air_handler] is missing") != std::string::npos);
   }
+}
+
+// --- The part-load inputs: [loads], the part-load keys of [air_handler], [plant] ----------
+
+namespace {
+
+namespace pl = limitline::part_load;
+
+// 1 W = 3.412141633 Btu/h (international-table Btu, NIST SP 811 B.8; from memory).
+constexpr double kKwPerKbtuh = 1.0 / 3.412141633;
+
+// kBase with variable airflow and the smallest [loads]: line 18 onwards.
+const std::string kPartLoad = kBase + R"(airflow_control = "variable"
+[loads]
+space_temp = "75F"
+internal_sensible = "150kBtu/h"
+)";
+
+bool has(const std::vector<std::string>& warnings, const std::string& start,
+         const std::string& part) {
+  for (const std::string& w : warnings)
+    if (w.rfind(start, 0) == 0 && w.find(part) != std::string::npos) return true;
+  INFO("no warning starting '", start, "' with '", part, "' among ", warnings.size());
+  return false;
+}
+
+}  // namespace
+
+TEST_CASE("part-load keys, [loads] coefficients and [plant] read into SI") {
+  const std::string text = kBase + R"(airflow_control = "variable"
+min_airflow = "40%"
+airflow_basis = "actual"
+supply_air_reset = { outdoor_low = "50F", supply_at_low = "60F", outdoor_high = "65F", supply_at_high = "55F" }
+[loads]
+space_temp = "75F"
+return_air_rise = "1F"
+internal_sensible = "150kBtu/h"
+envelope_ua = "3kBtu/h/F"
+latent = "40kBtu/h"
+[plant]
+cooling_cop = 3.5
+heating_efficiency = 0.9
+electricity_price = 0.12
+heating_price = 0.04
+currency = "EUR"
+)";
+  const UnitFile u = parse_unit_file(text, "unit.toml");
+  CHECK(u.warnings.empty());
+  CHECK(u.control.airflow == pl::AirflowControl::variable);
+  CHECK(u.control.min_airflow_fraction == doctest::Approx(0.4));
+  CHECK(u.control.basis == pl::AirflowBasis::actual);
+  CHECK_FALSE(u.control.min_outdoor_airflow_m3_per_s);  // a percentage minimum
+  REQUIRE(u.control.reset);
+  // °C = (°F − 32)/1.8 (NIST SP 811, exact).
+  CHECK(u.control.reset->outdoor_low_c == doctest::Approx(10.0));
+  CHECK(u.control.reset->supply_at_low_c == doctest::Approx((60.0 - 32.0) / 1.8));
+  CHECK(u.control.reset->outdoor_high_c == doctest::Approx((65.0 - 32.0) / 1.8));
+  CHECK(u.control.reset->supply_at_high_c == doctest::Approx((55.0 - 32.0) / 1.8));
+  REQUIRE(u.space);
+  CHECK(u.space->space_temp_c == doctest::Approx((75.0 - 32.0) / 1.8));
+  CHECK(u.space->return_air_rise_k == doctest::Approx(1.0 / 1.8));
+  REQUIRE(u.space->coefficients);
+  const pl::LoadCoefficients& k = *u.space->coefficients;
+  CHECK(k.internal_sensible_kw == doctest::Approx(150.0 * kKwPerKbtuh));
+  // 1 Btu/h·°F = 1.8/3.412141633 W/K (the two factors above; 1 K = 1.8 °F).
+  CHECK(k.envelope_ua_kw_per_k == doctest::Approx(3.0 * 1.8 * kKwPerKbtuh));
+  CHECK(k.latent_kw == doctest::Approx(40.0 * kKwPerKbtuh));
+  CHECK_FALSE(u.loads_file);
+  REQUIRE(u.plant);
+  CHECK(u.plant->cooling_cop == 3.5);
+  CHECK(u.plant->heating_efficiency == 0.9);
+  CHECK(u.plant->electricity_price == 0.12);
+  CHECK(u.plant->heating_price == 0.04);
+  CHECK(u.plant->currency == "EUR");
+  // A kWh of coil cooling costs the price of the electricity that makes it, 0.12/3.5; a kWh
+  // of heating the fuel's, 0.04/0.9 (hand calculation from the definitions of COP and
+  // efficiency, common practice).
+  CHECK(u.weights.cooling == doctest::Approx(0.12 / 3.5));
+  CHECK(u.weights.heating == doctest::Approx(0.04 / 0.9));
+}
+
+TEST_CASE("an SI file: a loads file, a fixed ventilation airflow, kW per ton and a percentage") {
+  const std::string text = R"toml(units = "si"
+[air_handler]
+supply_airflow = 6.0
+supply_air_temp = 13
+min_outdoor_airflow = 1.5
+return_air_temp = 24
+return_air_dew_point = 8
+airflow_control = "variable"
+[loads]
+space_temp = 24
+file = "loads/hourly.csv"
+sensible = { column = "Sensible (kW)" }
+latent = { column = " Latent ", unit = "kBtu/h" }
+time_convention = "hour-ending"
+[plant]
+cooling_kw_per_ton = 1.0
+heating_efficiency = "90%"
+electricity_price = 0.2
+heating_price = "0.08"
+)toml";
+  const UnitFile u = parse_unit_file(text, "si.toml");
+  CHECK(u.warnings.empty());
+  CHECK(u.air_handler.min_oa_fraction == doctest::Approx(0.25));
+  REQUIRE(u.min_outdoor_airflow_m3_per_s);
+  CHECK(*u.min_outdoor_airflow_m3_per_s == 1.5);
+  REQUIRE(u.control.min_outdoor_airflow_m3_per_s);
+  CHECK(*u.control.min_outdoor_airflow_m3_per_s == 1.5);
+  CHECK(u.control.min_airflow_fraction == doctest::Approx(0.3));  // the default
+  CHECK(u.control.basis == pl::AirflowBasis::standard);
+  REQUIRE(u.space);
+  CHECK(u.space->space_temp_c == 24.0);
+  CHECK(u.space->return_air_rise_k == 0.0);
+  CHECK_FALSE(u.space->coefficients);
+  REQUIRE(u.loads_file);
+  const UnitFile::LoadsFile& f = *u.loads_file;
+  CHECK(f.path == "loads/hourly.csv");  // as written; the app layer resolves it
+  CHECK(f.origin == "si.toml:11: loads.file");
+  CHECK(f.sensible_column == "Sensible (kW)");
+  CHECK(f.sensible_unit.empty());  // from the header
+  CHECK(f.sensible_origin == "si.toml:12: loads.sensible");
+  CHECK(f.latent_column == "Latent");
+  CHECK(f.latent_unit == "kBtu/h");
+  CHECK(f.latent_origin == "si.toml:13: loads.latent");
+  CHECK(f.time_convention == limitline::weather::TimeConvention::hour_ending);
+  REQUIRE(u.plant);
+  // A ton is 12,000 Btu/h = 3.516852842 kW (common practice; 1 W = 3.412141633 Btu/h).
+  CHECK(u.plant->cooling_cop == doctest::Approx(12.0 * kKwPerKbtuh));
+  CHECK(u.plant->heating_efficiency == doctest::Approx(0.9));
+  CHECK(u.plant->heating_price == 0.08);
+  CHECK(u.plant->currency == "USD");
+}
+
+TEST_CASE("without the part-load tables nothing changes: design airflow, [energy] weights") {
+  const UnitFile u = parse_unit_file(kBase + "[energy]\nheating_weight = 0.5\n", "unit.toml");
+  CHECK(u.control.airflow == pl::AirflowControl::constant);
+  CHECK(u.control.basis == pl::AirflowBasis::standard);
+  CHECK_FALSE(u.control.reset);
+  CHECK_FALSE(u.control.min_outdoor_airflow_m3_per_s);
+  CHECK_FALSE(u.space);
+  CHECK_FALSE(u.loads_file);
+  CHECK_FALSE(u.plant);
+  CHECK(u.weights.cooling == 1.0);
+  CHECK(u.weights.heating == 0.5);
+  // Constant airflow with a space is the design airflow with the space's return air.
+  const UnitFile c = parse_unit_file(
+      kBase + "[loads]\nspace_temp = \"24C\"\ninternal_sensible = \"40kW\"\n", "unit.toml");
+  REQUIRE(c.space);
+  CHECK(c.control.airflow == pl::AirflowControl::constant);
+}
+
+TEST_CASE("part-load keys of [air_handler]: every error names its line and key") {
+  refuses(kBase + "min_airflow = \"30%\"\n", 18, "air_handler.min_airflow",
+          "is the floor of variable airflow; with constant airflow control");
+  refuses(kBase + "airflow_control = \"constant\"\nmin_airflow = \"30%\"\n", 19,
+          "air_handler.min_airflow", "set airflow_control = \"variable\"");
+  refuses(replace(kPartLoad, "[loads]", "min_airflow = \"0%\"\n[loads]"), 19,
+          "air_handler.min_airflow", "0.0% is not allowed (above 0%, up to 100%)");
+  refuses(replace(kPartLoad, "[loads]", "min_airflow = \"120%\"\n[loads]"), 19,
+          "air_handler.min_airflow", "120.0% is outside the allowed range (above 0%, up to 100%)");
+  refuses(replace(kPartLoad, "[loads]", "min_airflow = \"30F\"\n[loads]"), 19,
+          "air_handler.min_airflow", "which is not a percentage");
+  refuses(kBase + "airflow_control = \"variable\"\n", 18, "air_handler.airflow_control",
+          "\"variable\" needs a [loads] table: the airflow follows the space load");
+  refuses(kBase + "airflow_control = \"ramp\"\n", 18, "air_handler.airflow_control",
+          "'ramp' is not allowed (allowed: constant, variable)");
+  refuses(kBase + "airflow_basis = \"normal\"\n", 18, "air_handler.airflow_basis",
+          "allowed: standard, actual");
+  refuses(kBase + "airflow_basis = 1\n", 18, "air_handler.airflow_basis", "must be a string");
+}
+
+TEST_CASE("supply_air_reset: four temperatures, a line rising with the outdoor air") {
+  const auto reset = [](const std::string& points) {
+    return kBase + "supply_air_reset = { " + points + " }\n";
+  };
+  const UnitFile u = parse_unit_file(reset("outdoor_low = \"10C\", supply_at_low = \"16C\", "
+                                           "outdoor_high = \"18C\", supply_at_high = \"13C\""),
+                                     "unit.toml");
+  REQUIRE(u.control.reset);
+  CHECK(u.control.reset->supply_at_low_c == 16.0);
+  CHECK(u.control.airflow == pl::AirflowControl::constant);  // a reset needs no variable airflow
+  refuses(reset("outdoor_low = \"50F\", supply_at_low = \"60F\", outdoor_high = \"65F\""), 18,
+          "air_handler.supply_air_reset.supply_at_high", "all four points of the reset");
+  refuses(reset("outdoor_low = \"50F\", supply_at_low = \"60F\", outdoor_high = \"65F\", "
+                "supply_at_high = \"55F\", at_mid = \"57F\""),
+          18, "air_handler.supply_air_reset.at_mid",
+          "unknown key in supply_air_reset (allowed: outdoor_low, supply_at_low, outdoor_high, "
+          "supply_at_high)");
+  refuses(reset("outdoor_low = \"65F\", supply_at_low = \"60F\", outdoor_high = \"65F\", "
+                "supply_at_high = \"55F\""),
+          18, "air_handler.supply_air_reset.outdoor_high",
+          "65.0 °F is not above outdoor_low 65.0 °F");
+  refuses(reset("outdoor_low = \"50F\", supply_at_low = \"28btu/lb\", outdoor_high = \"65F\", "
+                "supply_at_high = \"55F\""),
+          18, "air_handler.supply_air_reset.supply_at_low", "not a temperature");
+  refuses(reset("outdoor_low = \"50F\", supply_at_low = \"150F\", outdoor_high = \"65F\", "
+                "supply_at_high = \"55F\""),
+          18, "air_handler.supply_air_reset.supply_at_low",
+          "outside the allowed range (-40 °F to 140 °F)");
+  refuses(kBase + "supply_air_reset = \"55F\"\n", 18, "air_handler.supply_air_reset",
+          "must be a table");
+}
+
+TEST_CASE("[loads]: the space, and its loads as coefficients or from a file, not both") {
+  refuses(kBase + "[loads]\ninternal_sensible = \"150kBtu/h\"\n", 18, "loads.space_temp",
+          "required key is missing (the space cooling setpoint, e.g. space_temp = \"75F\")");
+  refuses(kBase + "[loads]\nspace_temp = \"75F\"\n", 18, "loads.internal_sensible",
+          "or file = \"loads.csv\"");
+  // Both forms: the error is at the coefficient and names the file's line.
+  refuses(kPartLoad + "file = \"loads.csv\"\nsensible = { column = \"S\" }\n", 21,
+          "loads.internal_sensible",
+          "give the load coefficients or an hourly file, not both (file is on line 22)");
+  refuses(kBase + "[loads]\nspace_temp = \"75F\"\nenvelope_ua = \"3kBtu/h/F\"\nfile = \"l.csv\"\n",
+          20, "loads.envelope_ua", "not both (file is on line 21)");
+  refuses(kBase + "[loads]\nspace_temp = \"75F\"\nfile = \"l.csv\"\n", 18, "loads.sensible",
+          "required key is missing (the file's sensible-load column");
+  refuses(kBase +
+              "[loads]\nspace_temp = \"75F\"\nfile = \"l.csv\"\nsensible = { column = \"S\" "
+              "}\nlatent = \"40kBtu/h\"\n",
+          22, "loads.latent", "with file, latent names a column of the file");
+  refuses(kPartLoad + "sensible = { column = \"S\" }\n", 22, "loads.sensible",
+          "belongs to an hourly loads file");
+  refuses(kPartLoad + "time_convention = \"hour-ending\"\n", 22, "loads.time_convention",
+          "belongs to an hourly loads file");
+  refuses(kPartLoad + "latent = { column = \"L\" }\n", 22, "loads.latent",
+          "a column table belongs to an hourly loads file");
+  refuses(kPartLoad + "colour = \"blue\"\n", 22, "loads.colour", "unknown key in [loads]");
+  refuses(kBase + "loads = 3\n", 18, "air_handler.loads", "unknown key in [air_handler]");
+  refuses("loads = 3\n" + kBase, 1, "loads", "must be a table ([loads])");
+}
+
+TEST_CASE("[loads] file form: the column tables and the time convention") {
+  const std::string file = kBase + "[loads]\nspace_temp = \"75F\"\nfile = \"l.csv\"\n";  // 18–20
+  refuses(file + "sensible = { column = \"S\", units = \"kW\" }\n", 21, "loads.sensible.units",
+          "unknown key in a loads column (allowed: column, unit)");
+  refuses(file + "sensible = { unit = \"kW\" }\n", 21, "loads.sensible.column",
+          "required key is missing");
+  refuses(file + "sensible = { column = \"  \" }\n", 21, "loads.sensible.column",
+          "must not be empty");
+  refuses(file + "sensible = { column = \"S\", unit = \"kWh\" }\n", 21, "loads.sensible.unit",
+          "'kWh' is not a unit of power (allowed: kw, w, btu/h, kbtu/h, ton)");
+  refuses(file + "sensible = \"S\"\n", 21, "loads.sensible", "must be a table");
+  refuses(file + "sensible = { column = \"S\" }\nlatent = { column = 3 }\n", 22,
+          "loads.latent.column", "must be a string");
+  refuses(file + "sensible = { column = \"S\" }\ntime_convention = \"midday\"\n", 22,
+          "loads.time_convention",
+          "'midday' is not a time convention (allowed: automatic, hour-beginning, hour-ending)");
+  refuses(replace(file, "file = \"l.csv\"", "file = \" \""), 20, "loads.file", "must not be empty");
+  refuses(replace(file, "file = \"l.csv\"", "file = 7"), 20, "loads.file", "must be a string");
+}
+
+TEST_CASE("[loads] values: ranges, kinds, and the supply air that must carry the space's heat") {
+  refuses(replace(kPartLoad, "space_temp = \"75F\"", "space_temp = \"55F\""), 20,
+          "loads.space_temp",
+          "55.0 °F is not above the warmest supply air 55.0 °F (air_handler.supply_air_temp, "
+          "line 9); the supply air could not carry the space's heat");
+  // With a reset the warmest supply air is the reset's.
+  refuses(replace(kPartLoad, "[loads]",
+                  "supply_air_reset = { outdoor_low = \"50F\", supply_at_low = \"76F\", "
+                  "outdoor_high = \"65F\", supply_at_high = \"55F\" }\n[loads]"),
+          21, "loads.space_temp",
+          "75.0 °F is not above the warmest supply air 76.0 °F (air_handler.supply_air_reset, "
+          "line 19)");
+  refuses(replace(kPartLoad, "space_temp = \"75F\"", "space_temp = \"150F\""), 20,
+          "loads.space_temp", "outside the allowed range (41 °F to 113 °F)");
+  refuses(replace(kPartLoad, "space_temp = \"75F\"", "space_temp = \"28btu/lb\""), 20,
+          "loads.space_temp", "not a temperature");
+  refuses(kPartLoad + "return_air_rise = \"-1F\"\n", 22, "loads.return_air_rise",
+          "outside the allowed range (0 °F to 18 °F)");
+  refuses(kPartLoad + "envelope_ua = \"3kBtu/h\"\n", 22, "loads.envelope_ua",
+          "which is not a conductance");
+  refuses(kPartLoad + "envelope_ua = \"-1kW/K\"\n", 22, "loads.envelope_ua",
+          "beyond any physical conductance");
+  refuses(kPartLoad + "latent = \"-5kW\"\n", 22, "loads.latent", "outside the allowed range");
+  refuses(replace(kPartLoad, "internal_sensible = \"150kBtu/h\"", "internal_sensible = \"150F\""),
+          21, "loads.internal_sensible", "which is not a power");
+  refuses(replace(kPartLoad, "internal_sensible = \"150kBtu/h\"", "internal_sensible = \"1e6kW\""),
+          21, "loads.internal_sensible", "outside the allowed range");
+  // A bare number plausible only in the other system: 500 kW/K is no space, 500 kBtu/h·°F is.
+  refuses("units = \"si\"\n" + kPartLoad + "envelope_ua = 500\n", 23, "loads.envelope_ua",
+          "500 in an SI file is 500 kW/K, outside the plausible range of the envelope "
+          "conductance of one space (0 kW/K to 300 kW/K, common practice); if you meant "
+          "500 kBtu/h·°F write \"500kBtu/h/F\"");
+}
+
+TEST_CASE("a latent gain needs outdoor air to leave by") {
+  const std::string no_oa =
+      replace(kPartLoad, "min_outdoor_air = \"25%\"", "min_outdoor_air = \"0%\"");
+  refuses(no_oa + "latent = \"40kBtu/h\"\n", 22, "loads.latent",
+          "a latent gain with no outdoor air (min_outdoor_air = 0%, line 12): the space's "
+          "moisture would have no way out but the coil");
+  refuses(replace(no_oa, "min_outdoor_air = \"0%\"", "min_outdoor_airflow = \"0cfm\"") +
+              "latent = \"40kBtu/h\"\n",
+          22, "loads.latent", "(min_outdoor_airflow = 0, line 12)");
+  refuses(kBase.substr(0, kBase.find("min_outdoor_air")) + "min_outdoor_air = \"0%\"" +
+              kBase.substr(kBase.find("\nmax_outdoor_air")) +
+              "[loads]\nspace_temp = \"75F\"\nfile = \"l.csv\"\nsensible = { column = \"S\" }\n"
+              "latent = { column = \"L\" }\n",
+          22, "loads.latent", "a latent gain with no outdoor air");
+  // No latent gain, or a ventilation minimum: accepted.
+  CHECK_NOTHROW(parse_unit_file(no_oa + "latent = \"0kW\"\n", "unit.toml"));
+  CHECK_NOTHROW(parse_unit_file(no_oa, "unit.toml"));
+  CHECK_NOTHROW(parse_unit_file(kPartLoad + "latent = \"40kBtu/h\"\n", "unit.toml"));
+}
+
+TEST_CASE("[plant]: one cooling efficiency, both prices, and not with [energy]") {
+  const std::string plant = kBase + "[plant]\n";  // line 18
+  const std::string prices = "electricity_price = 0.12\nheating_price = 0.04\n";
+  refuses(plant + "cooling_cop = 3.5\ncooling_kw_per_ton = 1.0\n" + prices, 20,
+          "plant.cooling_kw_per_ton",
+          "give cooling_cop or cooling_kw_per_ton, not both "
+          "(cooling_cop is on line 19)");
+  refuses(plant + prices, 18, "plant.cooling_cop",
+          "required key is missing (the cooling plant's efficiency: cooling_cop = 3.5 or "
+          "cooling_kw_per_ton = 1.0)");
+  refuses(plant + "cooling_cop = 3.5\nelectricity_price = 0.12\n", 18, "plant.heating_price",
+          "required key is missing");
+  refuses(plant + "cooling_cop = 25\n" + prices, 19, "plant.cooling_cop",
+          "25 is outside the allowed range (0.05 to 20)");
+  refuses(plant + "cooling_kw_per_ton = 0.1\n" + prices, 19, "plant.cooling_kw_per_ton",
+          "outside the allowed range (0.18 to 70 kW per ton");
+  refuses(plant + "cooling_cop = \"high\"\n" + prices, 19, "plant.cooling_cop",
+          "'high' is not a number");
+  refuses(plant + "cooling_cop = 3.5\nheating_efficiency = 0\n" + prices, 20,
+          "plant.heating_efficiency", "outside the allowed range (above 0, up to 6)");
+  refuses(plant + "cooling_cop = 3.5\nheating_efficiency = \"700%\"\n" + prices, 20,
+          "plant.heating_efficiency", "700.0% is outside the allowed range (above 0, up to 600%)");
+  refuses(plant + "cooling_cop = 3.5\nelectricity_price = -0.1\nheating_price = 0.04\n", 20,
+          "plant.electricity_price", "-0.1 is outside the allowed range (0 to 100 per kWh)");
+  refuses(plant + "cooling_cop = 3.5\n" + prices + "fuel = \"gas\"\n", 22, "plant.fuel",
+          "unknown key in [plant]");
+  // The plant's own validation, raised at the line of the field it names.
+  refuses(plant + "cooling_cop = 3.5\n" + prices + "currency = \"U$D\"\n", 22, "plant.currency",
+          "'U$D' is not allowed (1 to 8 letters, e.g. USD)");
+  refuses(plant + "cooling_cop = 3.5\nelectricity_price = 0\nheating_price = 0\n", 18, "plant",
+          "electricity_price and heating_price are both 0");
+  refuses(kBase + "[energy]\ncooling_weight = 1\n[plant]\ncooling_cop = 3.5\n" + prices, 20,
+          "plant", "give [plant] (cost) or [energy] (weights), not both ([energy] is on line 18)");
+}
+
+TEST_CASE("implausible part-load values are used, each with a warning naming file, line, key") {
+  const std::string text = kBase + R"(airflow_control = "variable"
+min_airflow = "5%"
+supply_air_reset = { outdoor_low = "50F", supply_at_low = "30F", outdoor_high = "65F", supply_at_high = "55F" }
+[loads]
+space_temp = "88F"
+return_air_rise = "8F"
+internal_sensible = "20000kBtu/h"
+envelope_ua = "1000kBtu/h/F"
+latent = "6000kBtu/h"
+[plant]
+cooling_cop = 12
+heating_efficiency = 3.2
+electricity_price = 2
+heating_price = 0
+)";
+  const UnitFile u = parse_unit_file(text, "unit.toml");
+  // Each is inside its allowed range and used as written.
+  CHECK(u.control.min_airflow_fraction == doctest::Approx(0.05));
+  CHECK(u.plant->heating_efficiency == 3.2);
+  CHECK(u.space->space_temp_c == doctest::Approx((88.0 - 32.0) / 1.8));
+  // The bands are common practice (src/model/plausible.cpp).
+  const auto& w = u.warnings;
+  CHECK(w.size() == 11);
+  CHECK(has(w, "unit.toml:19: air_handler.min_airflow: '5%'", "a variable-airflow minimum"));
+  CHECK(has(w, "unit.toml:20: air_handler.supply_air_reset.supply_at_low: '30F'",
+            "a supply-air setpoint (41 °F to 77 °F"));
+  CHECK(has(w, "unit.toml:22: loads.space_temp: '88F'",
+            "a space cooling setpoint (64.4 °F to 86 °F"));
+  CHECK(has(w, "unit.toml:23: loads.return_air_rise: '8F'", "a return-air rise above the space"));
+  CHECK(has(w, "unit.toml:24: loads.internal_sensible: '20000kBtu/h'",
+            "the sensible gains of one unit's space"));
+  CHECK(has(w, "unit.toml:25: loads.envelope_ua: '1000kBtu/h/F'",
+            "the envelope conductance of one space"));
+  CHECK(has(w, "unit.toml:26: loads.latent: '6000kBtu/h'", "the latent gains of one unit's space"));
+  CHECK(has(w,
+            "unit.toml:28: plant.cooling_cop: 12 is outside the plausible range of a cooling "
+            "COP (1.5 to 10, common practice); used as written",
+            ""));
+  CHECK(has(w,
+            "unit.toml:29: plant.heating_efficiency: 3.2 is outside the plausible range of a "
+            "heating efficiency (0.5 to 1, common practice); a heat pump's COP? (heating_price "
+            "is then per kWh of electricity); used as written",
+            ""));
+  CHECK(has(w, "unit.toml:30: plant.electricity_price: 2 is outside", "a price per kWh"));
+  CHECK(has(w, "unit.toml:31: plant.heating_price: 0 is outside", "a price per kWh (0.01 to 1"));
+  // Inside their bands: no word (the first test's file has none either).
+  CHECK(parse_unit_file(kPartLoad, "unit.toml").warnings.empty());
+}
+
+TEST_CASE("the README's unit file example reads, part-load tables and all, without a warning") {
+  std::ifstream in(std::string(LIMITLINE_SOURCE_DIR) + "/README.md");
+  std::string line, example;
+  bool section = false, inside = false;
+  while (std::getline(in, line)) {
+    if (line == "## The unit file") section = true;
+    if (!section) continue;
+    if (!inside && line == "```toml") {
+      inside = true;
+      continue;
+    }
+    if (inside && line == "```") break;
+    if (inside) example += line + "\n";
+  }
+  REQUIRE_FALSE(example.empty());
+  const UnitFile u = parse_unit_file(example, "README.md");
+  CHECK(u.warnings.empty());
+  CHECK(u.control.airflow == limitline::part_load::AirflowControl::variable);
+  REQUIRE(u.space);
+  CHECK(u.space->coefficients);
+  CHECK(u.plant);
+  CHECK(u.strategies.size() == 2);
 }

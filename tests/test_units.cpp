@@ -163,6 +163,55 @@ TEST_CASE("airflows: cfm, L/s, m³/h") {
   check_near(ip(Kind::airflow, "0.5m3/s"), 0.5, 1e-12);
 }
 
+TEST_CASE("powers and conductances: kBtu/h, tons, kBtu/h·°F") {
+  // 1 W = 3.412141633 Btu/h (the international-table Btu, NIST SP 811 B.8; from memory) and a
+  // ton of refrigeration is 12,000 Btu/h (common practice).
+  check_near(si(Kind::power, "150kBtu/h"), 150.0 / 3.412141633, 1e-12);
+  check_near(si(Kind::power, "12000 Btu/h"), 12.0 / 3.412141633, 1e-12);
+  check_near(si(Kind::power, "1ton"), 12.0 / 3.412141633, 1e-9);
+  check_near(ip(Kind::power, "44kW"), 44.0, 1e-12);
+  check_near(ip(Kind::power, "150"), 150.0 / 3.412141633, 1e-12);  // bare: kBtu/h in IP
+  check_near(si(Kind::power, "150"), 150.0, 0.0);                  // bare: kW in SI
+  // A conductance per degree: 1 Btu/h·°F = (1/3.412141633 W)/(1/1.8 K) = 1.8/3.412141633 W/K
+  // = 0.52753 W/K (from the two factors above; 1 K = 1.8 °F, NIST SP 811, exact).
+  const double btu_h_f = 1.8e-3 / 3.412141633;  // kW/K
+  check_near(btu_h_f * 1000.0, 0.5275, 5e-5);
+  for (const char* t : {"3kBtu/h/F", "3 kBtu/h-F", "3kBtu/h·°F", "3 KBTU/H/°F", "3kbtu/h-°f"})
+    check_near(si(Kind::conductance, t), 3000.0 * btu_h_f, 1e-12, t);
+  for (const char* t : {"3000Btu/h/F", "3000 Btu/h-F", "3000Btu/h·°F", "3000btu/h·f"})
+    check_near(si(Kind::conductance, t), 3000.0 * btu_h_f, 1e-12, t);
+  check_near(ip(Kind::conductance, "1.6kW/K"), 1.6, 1e-12);
+  check_near(ip(Kind::conductance, "1600 W/K"), 1.6, 1e-12);
+  check_near(ip(Kind::conductance, "1.6kW/°C"), 1.6, 1e-12);
+  check_near(ip(Kind::conductance, "3"), 3000.0 * btu_h_f, 1e-12);  // bare: kBtu/h·°F in IP
+  check_near(si(Kind::conductance, "3"), 3.0, 0.0);                 // bare: kW/K in SI
+  CHECK(units::unit_label(Kind::conductance, System::ip) == "kBtu/h·°F");
+  CHECK(units::unit_label(Kind::conductance, System::si) == "kW/K");
+  CHECK(units::key_suffix(Kind::conductance, System::ip) == "kbtu_per_h_f");
+  CHECK(units::key_suffix(Kind::conductance, System::si) == "kw_per_k");
+  // A conductance is not negative, and a power per degree is not a power.
+  CHECK(contains(parse_error(Kind::conductance, "-1kW/K"), "beyond any physical conductance"));
+  CHECK(contains(parse_error(Kind::conductance, "3kBtu/h"), "which is not a conductance"));
+}
+
+TEST_CASE("unit_scale: one unit written apart from its value") {
+  check_near(units::unit_scale(Kind::power, "kBtu/h", "x"), 1.0 / 3.412141633, 1e-15);
+  check_near(units::unit_scale(Kind::power, " Btu/h ", "x"), 1e-3 / 3.412141633, 1e-18);
+  check_near(units::unit_scale(Kind::power, "W", "x"), 1e-3, 0.0);
+  check_near(units::unit_scale(Kind::power, "ton", "x"), 12.0 / 3.412141633, 1e-9);
+  const std::string e = [] {
+    try {
+      (void)units::unit_scale(Kind::power, "kJ", "loads.csv: column 'Q'");
+    } catch (const InputError& err) {
+      return std::string(err.what());
+    }
+    return std::string();
+  }();
+  CHECK(e ==
+        "loads.csv: column 'Q': 'kJ' is not a unit of power (allowed: kw, w, btu/h, kbtu/h, "
+        "ton)");
+}
+
 TEST_CASE("temperature differences are not shifted") {
   check_near(ip(Kind::temperature_difference, "10F"), 10.0 / 1.8, 1e-12);
   check_near(ip(Kind::temperature_difference, "10"), 10.0 / 1.8, 1e-12);
@@ -241,7 +290,7 @@ TEST_CASE("display conversion round trips for every kind in both systems") {
                         Kind::fraction,    Kind::humidity_ratio,
                         Kind::airflow,     Kind::energy,
                         Kind::power,       Kind::specific_volume,
-                        Kind::density};
+                        Kind::density,     Kind::conductance};
   for (Kind k : kinds)
     for (System s : {System::ip, System::si})
       for (double v : {-40.0, 0.0, 0.0093, 1.0, 47.3, 101.325, 1524.0}) {
@@ -319,7 +368,7 @@ TEST_CASE("magnitudes beyond any physical bound are refused for every kind") {
     for (Kind k : {Kind::temperature, Kind::temperature_difference, Kind::enthalpy,
                    Kind::enthalpy_difference, Kind::pressure, Kind::length, Kind::fraction,
                    Kind::humidity_ratio, Kind::airflow, Kind::energy, Kind::power,
-                   Kind::specific_volume, Kind::density}) {
+                   Kind::specific_volume, Kind::density, Kind::conductance}) {
       INFO(units::kind_name(k));
       CHECK(contains(parse_error(k, "1e300", System::si), "beyond any physical"));
       CHECK(contains(parse_error(k, "-1e300", System::ip), "beyond any physical"));

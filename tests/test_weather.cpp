@@ -6,6 +6,7 @@
 #include <doctest/doctest.h>
 
 #include "support/derived_weather.hpp"
+#include "support/input_error.hpp"
 
 #include <limitline/model/psychro.hpp>
 #include <limitline/io/weather.hpp>
@@ -71,15 +72,7 @@ wx::Mapping policy(wx::BadRowPolicy p, double max_bad_share = 1.0) {
   return m;
 }
 
-// The message of the InputError `f` throws ("" when it throws none).
-std::string error_of(const std::function<void()>& f) {
-  try {
-    f();
-  } catch (const InputError& e) {
-    return e.what();
-  }
-  return "";
-}
+using limitline::test::error_of;
 
 std::string read_error(const std::string& csv, const wx::Mapping& m = {}, double site = 101.325) {
   return error_of([&] { read(csv, m, site); });

@@ -2,6 +2,7 @@
 
 #include <limitline/io/codes.hpp>
 #include <limitline/io/embedded.hpp>
+#include <limitline/io/input_file.hpp>
 #include <limitline/error.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/parallel.hpp>
@@ -71,14 +72,37 @@ weather::WeatherSeries read_weather(const UnitFile& unit, bool embedded_unit,
     label = fmt::format("{} (embedded invented demo climate)", *m.file);
     return weather::read_text(*text, *m.file, m, site_p);
   }
-  // A relative path in the unit file is relative to the unit file's folder.
-  fs::path p(*m.file);
-  if (p.is_relative()) p = fs::path(unit.path).parent_path() / p;
+  const fs::path p = path_beside(unit.path, *m.file);
   label = p.string();
   return weather::read_file(p, m, site_p);
 }
 
+// The loads of each weather interval, from the unit's loads file as read once.
+void match_loads(YearInputs& in) {
+  if (!in.loads_table) return;
+  loads::Matched m = loads::match(*in.loads_table, in.weather);
+  in.hourly_loads = std::move(m.hours);
+  in.warnings.insert(in.warnings.end(), m.warnings.begin(), m.warnings.end());
+}
+
 }  // namespace
+
+std::shared_ptr<const loads::LoadsTable> read_unit_loads(const UnitFile& unit, bool embedded_unit,
+                                                         std::string& label) {
+  if (!unit.loads_file) return nullptr;
+  const UnitFile::LoadsFile& f = *unit.loads_file;
+  if (embedded_unit) {
+    const auto text = embedded::find(f.path);
+    if (!text)
+      throw InputError(fmt::format("{}: embedded demo loads {} are missing from this build",
+                                   f.origin, echo(f.path)));
+    label = fmt::format("{} (embedded invented demo loads)", f.path);
+    return std::make_shared<const loads::LoadsTable>(loads::read_text(*text, f.path, f));
+  }
+  const fs::path p = path_beside(unit.path, f.path);
+  label = p.string();
+  return std::make_shared<const loads::LoadsTable>(loads::read_file(p, f));
+}
 
 std::vector<std::string> demo_names() {
   std::vector<std::string> out;
@@ -113,6 +137,8 @@ YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& ov
   in.strategies = strategies_or_presets(in.unit);
   in.warnings = in.unit.warnings;
   if (auto w = site_pressure_warning(in.unit, in.weather.info)) in.warnings.push_back(*w);
+  in.loads_table = read_unit_loads(in.unit, source.embedded, in.loads_label);
+  match_loads(in);
   return in;
 }
 
@@ -129,6 +155,11 @@ YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
   in.weather =
       read_weather(in.unit, false, mapping_for(in.unit, true, o), o.file, in.weather_label);
   if (auto w = site_pressure_warning(in.unit, in.weather.info)) in.warnings.push_back(*w);
+  // The loads file is read once for all sites, unless the caller assembled `base` without it.
+  in.loads_table = base.loads_table;
+  in.loads_label = base.loads_label;
+  if (!in.loads_table) in.loads_table = read_unit_loads(in.unit, false, in.loads_label);
+  match_loads(in);
   return in;
 }
 

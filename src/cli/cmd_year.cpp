@@ -157,6 +157,8 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
   base.unit_label = source.path;
   if (unit.schedule) base.schedule = read_schedule(*unit.schedule, unit.path);
   base.strategies = strategies_or_presets(unit);
+  // Read once, matched to each site's weather.
+  base.loads_table = read_unit_loads(unit, false, base.loads_label);
   const bool tty = isatty(fileno(stderr));
   const InterruptGuard guard;
   const auto sites =

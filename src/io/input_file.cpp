@@ -56,6 +56,10 @@ fs::file_status checked_status(const fs::path& path, std::string_view what) {
 
 }  // namespace
 
+fs::path path_beside(const fs::path& file, const fs::path& written) {
+  return written.is_relative() ? file.parent_path() / written : written;
+}
+
 void check_input_file(const fs::path& path, std::string_view what) {
   (void)checked_status(path, what);
 }

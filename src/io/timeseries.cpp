@@ -431,6 +431,75 @@ bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone, Stam
          parse_clock(text::trim(rest), st.minute, form.clock);
 }
 
+Stamp minutes_earlier(Stamp s, int minutes) {
+  s.minute -= minutes;
+  if (s.minute >= 0) return s;
+  s.minute += 1440;
+  if (--s.day < 1) {
+    if (--s.month < 1) s.month = 12, s.year = s.year > 0 ? s.year - 1 : 0;
+    // Year 0 (a stamp without its year) is a leap year of the proleptic calendar.
+    s.day = calendar::days_in_month(std::chrono::year{s.year},
+                                    std::chrono::month{static_cast<unsigned>(s.month)});
+  }
+  return s;
+}
+
+StampFault StampReader::read(const std::vector<std::string_view>& f, Stamp& st, Zone& zone,
+                             StampForm& form) {
+  const auto field = [&](int c) {
+    return c < static_cast<int>(f.size()) ? f[static_cast<std::size_t>(c)] : std::string_view();
+  };
+  if (time_.stamp >= 0) {
+    if (!parse_stamp(field(time_.stamp), day_first_, st, zone, form, cache_))
+      return {time_.stamp,
+              "a date and time such as 2019-07-01T13:00, 2019-07-01 13:00:00Z, "
+              "07/01/2019 13:00 or 20190701:1300"};
+    return {};
+  }
+  zone = {};
+  if (time_.date >= 0) {
+    if (!parse_date(field(time_.date), day_first_, st, form.date, cache_))
+      return {time_.date,
+              "a date as YYYY-MM-DD, YYYY/MM/DD, MM/DD/YYYY (DD/MM/YYYY when the header "
+              "says so), DD.MM.YYYY or YYYYMMDD"};
+  } else {
+    st.year = 0;
+    if (time_.year >= 0 && !read_uint(field(time_.year), st.year))
+      return {time_.year, "a year such as 2019"};
+    if (!read_uint(field(time_.month), st.month, 2) || st.month < 1 || st.month > 12)
+      return {time_.month, "a month 1 to 12"};
+    if (!read_uint(field(time_.day), st.day, 2) || !valid_date(st))
+      return {time_.day, "a day of the month, 1 to its length"};
+  }
+  if (time_.clock >= 0) {
+    if (!parse_clock(field(time_.clock), st.minute, form.clock))
+      return {time_.clock, "a time of day as HH:MM, HH:MM:SS or HHMM, 00:00 to 24:00"};
+  } else {
+    int h = 0, m = 0;
+    if (!read_uint(field(time_.hour), h, 2) || h > 24) return {time_.hour, "an hour 0 to 24"};
+    if (time_.minute >= 0 &&
+        (!read_uint(field(time_.minute), m, 2) || m > 59 || (h == 24 && m != 0)))
+      return {time_.minute, "a minute 0 to 59 (0 with hour 24)"};
+    st.minute = h * 60 + m;
+  }
+  return {};
+}
+
+std::string StampReader::format_text(const StampForm& f, const Zone& z) const {
+  std::string zone = z.clock == Clock::utc ? "Z" : z.clock == Clock::offset ? "±hh:mm" : "";
+  if (time_.stamp >= 0)
+    return fmt::format("{}{}{}{}", date_form_text(f.date),
+                       f.separator == ' ' ? std::string(" ") : std::string(1, f.separator),
+                       clock_form_text(f.clock), zone);
+  const std::string date =
+      time_.date >= 0 ? std::string(date_form_text(f.date))
+                      : (time_.year >= 0 ? "year, month, day columns" : "month, day columns");
+  const std::string clock = time_.clock >= 0
+                                ? std::string(clock_form_text(f.clock))
+                                : (time_.minute >= 0 ? "hour, minute columns" : "hour column");
+  return date + " + " + clock;
+}
+
 // --- 4. Columns with units -----------------------------------------------------------------
 
 std::span<const UnitSpelling> unit_spellings() { return kUnits; }

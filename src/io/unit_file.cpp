@@ -29,15 +29,28 @@ using highlimit::Quantity;
 using highlimit::Reference;
 using units::Kind;
 
-constexpr std::string_view kTopKeys[] = {"units",    "site",    "air_handler", "energy",
-                                         "strategy", "weather", "schedule",    "sensors"};
+constexpr std::string_view kTopKeys[] = {"units",    "site",   "air_handler", "loads",
+                                         "plant",    "energy", "strategy",    "weather",
+                                         "schedule", "sensors"};
 constexpr std::string_view kSiteKeys[] = {"name",        "elevation",    "pressure",
                                           "energy_code", "climate_zone", "units"};
 constexpr std::string_view kAirHandlerKeys[] = {
-    "supply_airflow",      "supply_air_temp",          "fan_heat",        "fan_position",
-    "min_outdoor_air",     "min_outdoor_airflow",      "max_outdoor_air", "economizer",
-    "coil_leaving_rh_max", "return_air_temp",          "return_air_rh",   "return_air_dew_point",
-    "return_air_wet_bulb", "return_air_humidity_ratio"};
+    "supply_airflow",      "supply_air_temp",           "fan_heat",        "fan_position",
+    "min_outdoor_air",     "min_outdoor_airflow",       "max_outdoor_air", "economizer",
+    "coil_leaving_rh_max", "return_air_temp",           "return_air_rh",   "return_air_dew_point",
+    "return_air_wet_bulb", "return_air_humidity_ratio", "airflow_control", "min_airflow",
+    "airflow_basis",       "supply_air_reset"};
+constexpr std::string_view kResetKeys[] = {"outdoor_low", "supply_at_low", "outdoor_high",
+                                           "supply_at_high"};
+constexpr std::string_view kLoadsKeys[] = {"space_temp",  "return_air_rise", "internal_sensible",
+                                           "envelope_ua", "latent",          "file",
+                                           "sensible",    "time_convention"};
+constexpr std::string_view kLoadsCoefficientKeys[] = {"internal_sensible", "envelope_ua"};
+constexpr std::string_view kLoadsFileOnlyKeys[] = {"sensible", "time_convention"};
+constexpr std::string_view kLoadsColumnKeys[] = {"column", "unit"};
+constexpr std::string_view kPlantKeys[] = {"cooling_cop",        "cooling_kw_per_ton",
+                                           "heating_efficiency", "electricity_price",
+                                           "heating_price",      "currency"};
 constexpr std::string_view kEnergyKeys[] = {"cooling_weight", "heating_weight"};
 constexpr std::string_view kConditionKeys[] = {"quantity", "reference", "limit", "offset",
                                                "deadband"};
@@ -122,6 +135,8 @@ int decimals(Kind k, units::System s) {
     case Kind::enthalpy_difference: return 2;
     case Kind::pressure: return 3;
     case Kind::humidity_ratio: return 5;
+    case Kind::power:
+    case Kind::conductance: return 2;
     case Kind::airflow: return s == units::System::ip ? 0 : 3;
     case Kind::length: return s == units::System::ip ? 0 : 1;
     default: return 3;
@@ -136,6 +151,7 @@ class Reader {
   explicit Reader(std::string file) : file_(std::move(file)) {}
 
   units::System system = units::System::ip;
+  const toml::table* document = nullptr;  // the whole file, for validated()
   // Implausible values used as written (UnitFile::warnings).
   mutable std::vector<std::string> warnings;
 
@@ -146,6 +162,27 @@ class Reader {
   [[noreturn]] void fail(const toml::source_region& where, std::string_view key,
                          std::string_view message) const {
     throw InputError(fmt::format("{}: {}", origin(where, key), message));
+  }
+
+  // A model's validation message ("FIELD: ..." or "FIELD = ..."), raised again at the line of
+  // FIELD in this file ("air_handler.min_airflow"), or of its table when the key is absent.
+  template <class Check>
+  void validated(Check&& check) const {
+    try {
+      check();
+    } catch (const InputError& e) {
+      const std::string m = e.what();
+      const std::string field = m.substr(0, m.find_first_of(": "));
+      std::string_view path = field;
+      const toml::node* n = nullptr;
+      while (!path.empty() && n == nullptr) {
+        n = document->at_path(path).node();
+        const std::size_t dot = path.rfind('.');
+        path = dot == std::string_view::npos ? std::string_view() : path.substr(0, dot);
+      }
+      throw InputError(
+          fmt::format("{}:{}: {}", file_, line_of(n ? n->source() : document->source()), m));
+    }
   }
 
   // A required key is missing from `table` (reported at the table's own line).
@@ -377,6 +414,72 @@ void read_return_air(const Reader& r, const toml::table& t, double pressure_kpa,
       pressure_kpa, r.origin(t.get(given->key)->source(), Reader::join_path(P, given->key)));
 }
 
+// supply_air_reset = { outdoor_low, supply_at_low, outdoor_high, supply_at_high }: all four,
+// supply temperatures in the range of the supply setpoint, a line rising in outdoor air.
+part_load::SupplyAirReset read_reset(const Reader& r, const toml::table& t) {
+  constexpr std::string_view P = "air_handler.supply_air_reset";
+  r.check_keys(t, P, kResetKeys, "supply_air_reset");
+  const bool is_ip = r.system == units::System::ip;
+  struct Point {
+    std::string_view key, band;
+    double lo, hi;
+    std::string_view example_ip, example_si;
+    double part_load::SupplyAirReset::*member;
+  };
+  using R = part_load::SupplyAirReset;
+  constexpr Point kPoints[] = {
+      {"outdoor_low", "outdoor.dry_bulb", -60.0, 60.0, "50F", "10C", &R::outdoor_low_c},
+      {"supply_at_low", "air_handler.supply_air_temp", -40.0, 60.0, "60F", "15.5C",
+       &R::supply_at_low_c},
+      {"outdoor_high", "outdoor.dry_bulb", -60.0, 60.0, "65F", "18C", &R::outdoor_high_c},
+      {"supply_at_high", "air_handler.supply_air_temp", -40.0, 60.0, "55F", "13C",
+       &R::supply_at_high_c},
+  };
+  R reset;
+  for (const Point& p : kPoints) {
+    auto v = r.quantity(t, p.key, P, Kind::temperature, p.band);
+    if (!v)
+      r.missing(t, Reader::join_path(P, p.key),
+                fmt::format("all four points of the reset are required, e.g. {} = \"{}\"", p.key,
+                            is_ip ? p.example_ip : p.example_si));
+    r.check_range(t, p.key, P, Kind::temperature, *v, p.lo, p.hi);
+    reset.*p.member = *v;
+  }
+  if (!(reset.outdoor_high_c > reset.outdoor_low_c))
+    r.fail(t.get("outdoor_high")->source(), Reader::join_path(P, "outdoor_high"),
+           fmt::format("{} is not above outdoor_low {}; the reset runs from a lower to a higher "
+                       "outdoor dry-bulb",
+                       r.show(Kind::temperature, reset.outdoor_high_c),
+                       r.show(Kind::temperature, reset.outdoor_low_c)));
+  return reset;
+}
+
+// The part-load keys of [air_handler]: how the airflow and the supply temperature follow the
+// hour.
+void read_control(const Reader& r, const toml::table& t, UnitFile& u) {
+  constexpr std::string_view P = "air_handler";
+  part_load::Control& c = u.control;
+  if (auto v = r.choice(t, "airflow_control", P, part_load::airflow_control_names()))
+    c.airflow = *v;
+  if (auto b = r.choice(t, "airflow_basis", P, part_load::airflow_basis_names())) c.basis = *b;
+  if (const toml::node* n = t.get("min_airflow")) {
+    if (c.airflow != part_load::AirflowControl::variable)
+      r.fail(n->source(), "air_handler.min_airflow",
+             "is the floor of variable airflow; with constant airflow control the unit always "
+             "runs at supply_airflow (set airflow_control = \"variable\", or remove "
+             "min_airflow)");
+    double m = *r.quantity(t, "min_airflow", P, Kind::fraction);
+    if (!(m > 0.0))
+      r.fail(n->source(), "air_handler.min_airflow",
+             fmt::format("{} is not allowed (above 0%, up to 100%)", r.show(Kind::fraction, m)));
+    r.check_range(t, "min_airflow", P, Kind::fraction, m, 0.0, 1.0, "above 0%, up to 100%");
+    c.min_airflow_fraction = m;
+  }
+  if (const toml::table* reset = r.table(t, "supply_air_reset", P)) c.reset = read_reset(r, *reset);
+  const airside::AirHandler& design = u.air_handler;
+  r.validated([&] { part_load::validate(c, design); });
+}
+
 void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa, UnitFile& u) {
   constexpr std::string_view P = "air_handler";
   r.check_keys(t, P, kAirHandlerKeys, "[air_handler]");
@@ -428,6 +531,7 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
                          r.show(Kind::airflow, flow),
                          r.show(Kind::airflow, a.supply_airflow_m3_per_s)));
     u.min_outdoor_airflow_m3_per_s = flow;
+    u.control.min_outdoor_airflow_m3_per_s = flow;
     a.min_oa_fraction = flow / a.supply_airflow_m3_per_s;
   } else {
     r.missing(t, "air_handler.min_outdoor_air",
@@ -460,6 +564,7 @@ void read_air_handler(const Reader& r, const toml::table& t, double pressure_kpa
   } catch (const InputError& e) {
     r.fail(t.source(), "air_handler", e.what());
   }
+  read_control(r, t, u);
 }
 
 airside::EnergyWeights read_energy(const Reader& r, const toml::table* t) {
@@ -480,6 +585,230 @@ airside::EnergyWeights read_energy(const Reader& r, const toml::table* t) {
            "cooling_weight and heating_weight are both 0: nothing would "
            "cost energy");
   return w;
+}
+
+// A column of the hourly loads file: { column = "...", unit = "kW" }; the unit may be left to
+// the column's header.
+void read_loads_column(const Reader& r, const toml::table& t, std::string_view key,
+                       std::string& column, std::string& unit, std::string& origin) {
+  const std::string path = Reader::join_path("loads", key);
+  const toml::table* c = r.table(t, key, "loads");
+  r.check_keys(*c, path, kLoadsColumnKeys, "a loads column");
+  const auto name = r.text(*c, "column", path);
+  if (!name)
+    r.missing(*c, Reader::join_path(path, "column"),
+              "the header of the column in the loads file, e.g. column = \"Sensible (kW)\"");
+  if (text::trim(*name).empty())
+    r.fail(c->get("column")->source(), Reader::join_path(path, "column"), "must not be empty");
+  column = std::string(text::trim(*name));
+  if (auto u = r.text(*c, "unit", path)) {
+    const std::string unit_path = Reader::join_path(path, "unit");
+    (void)units::unit_scale(Kind::power, *u, r.origin(c->get("unit")->source(), unit_path));
+    unit = *u;
+  }
+  origin = r.origin(c->source(), path);
+}
+
+// [loads] in its file form: the hourly loads come from a CSV the app layer reads.
+UnitFile::LoadsFile read_loads_file(const Reader& r, const toml::table& t) {
+  for (std::string_view key : kLoadsCoefficientKeys)
+    if (const toml::node* n = t.get(key))
+      r.fail(n->source(), Reader::join_path("loads", key),
+             fmt::format("give the load coefficients or an hourly file, not both (file is on "
+                         "line {})",
+                         line_of(t.get("file")->source())));
+  UnitFile::LoadsFile f;
+  const toml::node* file = t.get("file");
+  f.path = *r.text(t, "file", "loads");
+  if (text::trim(f.path).empty()) r.fail(file->source(), "loads.file", "must not be empty");
+  f.origin = r.origin(file->source(), "loads.file");
+  if (!t.get("sensible"))
+    r.missing(t, "loads.sensible",
+              "the file's sensible-load column, e.g. sensible = { column = \"Sensible (kW)\" }");
+  read_loads_column(r, t, "sensible", f.sensible_column, f.sensible_unit, f.sensible_origin);
+  if (const toml::node* l = t.get("latent")) {
+    if (!l->is_table())
+      r.fail(l->source(), "loads.latent",
+             fmt::format("with file, latent names a column of the file, e.g. latent = {{ "
+                         "column = \"Latent (kW)\" }}, not {} (a latent power belongs to the "
+                         "coefficient form, without file)",
+                         Reader::type_name(*l)));
+    read_loads_column(r, t, "latent", f.latent_column, f.latent_unit, f.latent_origin);
+  }
+  if (auto c = r.text(t, "time_convention", "loads"))
+    f.time_convention = weather::parse_time_convention(
+        *c, r.origin(t.get("time_convention")->source(), "loads.time_convention"));
+  return f;
+}
+
+// [loads] in its coefficient form: q_s = internal_sensible + UA·(t_out − t_space), q_l = latent.
+part_load::LoadCoefficients read_load_coefficients(const Reader& r, const toml::table& t) {
+  constexpr std::string_view P = "loads";
+  for (std::string_view key : kLoadsFileOnlyKeys)
+    if (const toml::node* n = t.get(key))
+      r.fail(n->source(), Reader::join_path(P, key),
+             "belongs to an hourly loads file: give file = \"loads.csv\" with it, or the "
+             "load coefficients without it");
+  if (!t.get("internal_sensible"))
+    r.missing(t, "loads.internal_sensible",
+              r.system == units::System::ip
+                  ? "the space loads: internal_sensible = \"150kBtu/h\" (with envelope_ua and "
+                    "latent), or file = \"loads.csv\" with sensible = { column = \"...\" }"
+                  : "the space loads: internal_sensible = \"44kW\" (with envelope_ua and "
+                    "latent), or file = \"loads.csv\" with sensible = { column = \"...\" }");
+  if (const toml::node* l = t.get("latent"); l && l->is_table())
+    r.fail(l->source(), "loads.latent",
+           "a column table belongs to an hourly loads file (file = \"...\"); without file, "
+           "latent is a power, e.g. latent = \"40kBtu/h\"");
+  part_load::LoadCoefficients k;
+  // Wide bounds that catch a slip of units or digits; part_load::validate holds the same.
+  k.internal_sensible_kw = *r.quantity(t, "internal_sensible", P, Kind::power);
+  r.check_range(t, "internal_sensible", P, Kind::power, k.internal_sensible_kw, -1e5, 1e5);
+  if (auto ua = r.quantity(t, "envelope_ua", P, Kind::conductance)) {
+    r.check_range(t, "envelope_ua", P, Kind::conductance, *ua, 0.0, 1e4);
+    k.envelope_ua_kw_per_k = *ua;
+  }
+  if (auto l = r.quantity(t, "latent", P, Kind::power)) {
+    r.check_range(t, "latent", P, Kind::power, *l, 0.0, 1e5);
+    k.latent_kw = *l;
+  }
+  return k;
+}
+
+// [loads]: the space the unit serves, with its loads as coefficients or from a file.
+void read_loads(const Reader& r, const toml::table* t, const toml::table& ah, UnitFile& u) {
+  if (t == nullptr) return;
+  constexpr std::string_view P = "loads";
+  r.check_keys(*t, P, kLoadsKeys, "[loads]");
+  part_load::Space s;
+  const auto space = r.quantity(*t, "space_temp", P, Kind::temperature);
+  if (!space)
+    r.missing(*t, "loads.space_temp",
+              r.system == units::System::ip ? "the space cooling setpoint, e.g. space_temp = "
+                                              "\"75F\""
+                                            : "the space cooling setpoint, e.g. space_temp = "
+                                              "\"24C\"");
+  s.space_temp_c = *space;
+  r.check_range(*t, "space_temp", P, Kind::temperature, s.space_temp_c, 5.0, 45.0);
+  if (auto rise = r.quantity(*t, "return_air_rise", P, Kind::temperature_difference)) {
+    r.check_range(*t, "return_air_rise", P, Kind::temperature_difference, *rise, 0.0, 10.0);
+    s.return_air_rise_k = *rise;
+  }
+  // The supply air must carry the space's heat at every hour's supply temperature.
+  const part_load::Control& c = u.control;
+  double warmest = u.air_handler.supply_air_temp_c;
+  std::string_view warmest_key = "supply_air_temp";
+  if (c.reset) {
+    warmest = std::max(c.reset->supply_at_low_c, c.reset->supply_at_high_c);
+    warmest_key = "supply_air_reset";
+  }
+  if (!(warmest < s.space_temp_c))
+    r.fail(
+        t->get("space_temp")->source(), "loads.space_temp",
+        fmt::format("{} is not above the warmest supply air {} (air_handler.{}, line {}); the "
+                    "supply air could not carry the space's heat",
+                    r.show(Kind::temperature, s.space_temp_c), r.show(Kind::temperature, warmest),
+                    warmest_key, line_of(ah.get(warmest_key)->source())));
+  if (t->get("file"))
+    u.loads_file = read_loads_file(r, *t);
+  else
+    s.coefficients = read_load_coefficients(r, *t);
+  r.validated([&] { part_load::validate(s, u.air_handler, c); });
+  u.space = s;
+}
+
+// The unit file's part-load settings that only make sense together.
+void check_part_load(const Reader& r, const toml::table& ah, const toml::table* loads,
+                     const UnitFile& u) {
+  if (u.control.airflow == part_load::AirflowControl::variable && !u.space)
+    r.fail(ah.get("airflow_control")->source(), "air_handler.airflow_control",
+           "\"variable\" needs a [loads] table: the airflow follows the space load (give "
+           "[loads], or airflow_control = \"constant\")");
+  if (!u.space) return;
+  const bool latent = (u.space->coefficients && u.space->coefficients->latent_kw > 0.0) ||
+                      (u.loads_file && !u.loads_file->latent_column.empty());
+  if (!latent || u.air_handler.min_oa_fraction > 0.0) return;
+  const toml::node* min =
+      ah.get("min_outdoor_air") ? ah.get("min_outdoor_air") : ah.get("min_outdoor_airflow");
+  r.fail(loads->get("latent")->source(), "loads.latent",
+         fmt::format(
+             "a latent gain with no outdoor air ({}, line {}): the space's moisture "
+             "would have no way out but the coil, and no steady return humidity "
+             "exists in the hours the coil is dry (allowed: a ventilation minimum "
+             "above 0, or no latent gain)",
+             min == ah.get("min_outdoor_air") ? "min_outdoor_air = 0%" : "min_outdoor_airflow = 0",
+             line_of(min->source())));
+}
+
+// A plain number of [plant] within [lo, hi] (`allowed` says so), weighed against its
+// plausible band.
+double plant_number(const Reader& r, const toml::table& t, std::string_view key, double lo,
+                    double hi, std::string_view allowed) {
+  double v = *r.number(t, key, "plant");
+  const std::string path = Reader::join_path("plant", key);
+  const toml::node* n = t.get(key);
+  if (!(v >= lo && v <= hi))
+    r.fail(n->source(), path, fmt::format("{:g} is outside the allowed range ({})", v, allowed));
+  if (const plausible::NumberBand* b = plausible::find_number(path))
+    plausible::weigh(*b, v, r.origin(n->source(), path), r.warnings);
+  return v;
+}
+
+// [plant]: what a kWh of coil energy costs. With it, [energy] has no place.
+std::optional<Plant> read_plant(const Reader& r, const toml::table* t, const toml::table* energy) {
+  if (t == nullptr) return std::nullopt;
+  if (energy)
+    r.fail(t->source(), "plant",
+           fmt::format("give [plant] (cost) or [energy] (weights), not both ([energy] is on "
+                       "line {}); with a plant each kWh is weighed by its price",
+                       line_of(energy->source())));
+  constexpr std::string_view P = "plant";
+  r.check_keys(*t, P, kPlantKeys, "[plant]");
+  Plant p;
+  const toml::node* cop = t->get("cooling_cop");
+  const toml::node* kw = t->get("cooling_kw_per_ton");
+  if (cop && kw)
+    r.fail(kw->source(), "plant.cooling_kw_per_ton",
+           fmt::format("give cooling_cop or cooling_kw_per_ton, not both (cooling_cop is on "
+                       "line {})",
+                       line_of(cop->source())));
+  if (cop)
+    p.cooling_cop = plant_number(r, *t, "cooling_cop", 0.05, 20.0, "0.05 to 20");
+  else if (kw)
+    p.cooling_cop = Plant::cop_from_kw_per_ton(plant_number(
+        r, *t, "cooling_kw_per_ton", 0.18, 70.0, "0.18 to 70 kW per ton: a COP of 19.5 to 0.05"));
+  else
+    r.missing(*t, "plant.cooling_cop",
+              "the cooling plant's efficiency: cooling_cop = 3.5 or cooling_kw_per_ton = 1.0");
+  if (const toml::node* e = t->get("heating_efficiency")) {
+    // A number (0.9), or a percentage written with its sign ("90%").
+    const auto* s = e->as_string();
+    if (s && text::trim(s->get()).ends_with('%')) {
+      const std::string path = "plant.heating_efficiency";
+      p.heating_efficiency =
+          units::parse(Kind::fraction, s->get(), r.system, r.origin(e->source(), path));
+      if (!(p.heating_efficiency > 0.0 && p.heating_efficiency <= 6.0))
+        r.fail(e->source(), path,
+               fmt::format("{} is outside the allowed range (above 0, up to 600%)",
+                           r.show(Kind::fraction, p.heating_efficiency)));
+      plausible::weigh(*plausible::find_number(path), p.heating_efficiency,
+                       r.origin(e->source(), path), r.warnings);
+    } else {
+      p.heating_efficiency =
+          plant_number(r, *t, "heating_efficiency", 1e-3, 6.0, "above 0, up to 6");
+    }
+  }
+  for (auto [key, member] : {std::pair{"electricity_price", &Plant::electricity_price},
+                             std::pair{"heating_price", &Plant::heating_price}}) {
+    if (!t->get(key))
+      r.missing(*t, Reader::join_path(P, key),
+                fmt::format("the price of a kWh, e.g. {} = {}", key,
+                            member == &Plant::electricity_price ? "0.12" : "0.04"));
+    p.*member = plant_number(r, *t, key, 0.0, 100.0, "0 to 100 per kWh");
+  }
+  if (auto c = r.text(*t, "currency", P)) p.currency = std::string(text::trim(*c));
+  r.validated([&] { validate(p); });
+  return p;
 }
 
 // The plausible band of a setting: "strategy.dew_point_limit" for a dew-point limit.
@@ -725,6 +1054,7 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
         fmt::format("{}:{}: TOML syntax error: {}", name, e.source().begin.line, e.description()));
   }
   Reader r{std::string(name)};
+  r.document = &root;
   r.check_keys(root, "", kTopKeys, "the unit file");
 
   UnitFile u;
@@ -741,7 +1071,13 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
                     "the README section 'The unit file')",
                     name));
   read_air_handler(r, *ah, u.site.design_pressure_kpa(), u);
-  u.weights = read_energy(r, r.table(root, "energy", ""));
+  const toml::table* loads = r.table(root, "loads", "");
+  read_loads(r, loads, *ah, u);
+  check_part_load(r, *ah, loads, u);
+  const toml::table* energy = r.table(root, "energy", "");
+  u.weights = read_energy(r, energy);
+  u.plant = read_plant(r, r.table(root, "plant", ""), energy);
+  if (u.plant) u.weights = u.plant->cost_weights();
   u.strategies = read_strategies(r, root);
   u.strategies_defaulted = u.strategies.empty();
   u.warnings = std::move(r.warnings);

@@ -29,12 +29,16 @@ using ts::Conversion;
 using ts::HeaderField;
 using ts::Stamp;
 using ts::StampForm;
+using ts::StampReader;
 using ts::TimeColumns;
 using ts::UnitSpelling;
 using ts::Zone;
 using units::Kind;
 
 constexpr std::size_t idx(Quantity q) { return static_cast<std::size_t>(q); }
+constexpr std::string_view time_aliases(ts::TimeRole r) {
+  return ts::kTimeRoleAliases[static_cast<std::size_t>(r)];
+}
 
 // --- Tables -------------------------------------------------------------------------------
 
@@ -67,16 +71,17 @@ constexpr QuantityInfo kQuantities[] = {
      "pressure|stationpressure|sp|surfacepressure|atmosphericpressure|barometricpressure|"
      "airpressure|ps|pres|stnpres|p",
      true, Kind::pressure},
-    {Quantity::timestamp, "timestamp", "timestamp", "timestamp|datetime|dateandtime|datetimeutc",
-     false, Kind::temperature},
-    {Quantity::date, "date", "date", "date|localdate", false, Kind::temperature},
-    {Quantity::time, "time", "time", "time|timeutc|localtime|clocktime|timeofday", false,
+    {Quantity::timestamp, "timestamp", "timestamp", time_aliases(ts::TimeRole::timestamp), false,
      Kind::temperature},
-    {Quantity::year, "year", "year", "year|yr", false, Kind::temperature},
-    {Quantity::month, "month", "month", "month|mo", false, Kind::temperature},
-    {Quantity::day, "day", "day", "day|dy|dayofmonth", false, Kind::temperature},
-    {Quantity::hour, "hour", "hour", "hour|hr|hourofday", false, Kind::temperature},
-    {Quantity::minute, "minute", "minute", "minute|min", false, Kind::temperature},
+    {Quantity::date, "date", "date", time_aliases(ts::TimeRole::date), false, Kind::temperature},
+    {Quantity::time, "time", "time", time_aliases(ts::TimeRole::time), false, Kind::temperature},
+    {Quantity::year, "year", "year", time_aliases(ts::TimeRole::year), false, Kind::temperature},
+    {Quantity::month, "month", "month", time_aliases(ts::TimeRole::month), false,
+     Kind::temperature},
+    {Quantity::day, "day", "day", time_aliases(ts::TimeRole::day), false, Kind::temperature},
+    {Quantity::hour, "hour", "hour", time_aliases(ts::TimeRole::hour), false, Kind::temperature},
+    {Quantity::minute, "minute", "minute", time_aliases(ts::TimeRole::minute), false,
+     Kind::temperature},
 };
 static_assert(std::size(kQuantities) == kQuantityCount);
 
@@ -439,78 +444,6 @@ struct Row {
   Interval at{};  // set by the time axis
 };
 
-// Reads the stamp of a data row; on failure names the field at fault and what is allowed.
-struct StampFault {
-  int column = -1;
-  std::string_view allowed;
-};
-
-class StampReader {
- public:
-  StampReader(const TimeColumns& time, bool day_first) : time_(time), day_first_(day_first) {}
-
-  StampFault read(const std::vector<std::string_view>& f, Stamp& st, Zone& zone, StampForm& form) {
-    const auto field = [&](int c) {
-      return c < static_cast<int>(f.size()) ? f[static_cast<std::size_t>(c)] : std::string_view();
-    };
-    if (time_.stamp >= 0) {
-      if (!ts::parse_stamp(field(time_.stamp), day_first_, st, zone, form, cache_))
-        return {time_.stamp,
-                "a date and time such as 2019-07-01T13:00, 2019-07-01 13:00:00Z, "
-                "07/01/2019 13:00 or 20190701:1300"};
-      return {};
-    }
-    zone = {};
-    if (time_.date >= 0) {
-      if (!ts::parse_date(field(time_.date), day_first_, st, form.date, cache_))
-        return {time_.date,
-                "a date as YYYY-MM-DD, YYYY/MM/DD, MM/DD/YYYY (DD/MM/YYYY when the header "
-                "says so), DD.MM.YYYY or YYYYMMDD"};
-    } else {
-      st.year = 0;
-      if (time_.year >= 0 && !ts::read_uint(field(time_.year), st.year))
-        return {time_.year, "a year such as 2019"};
-      if (!ts::read_uint(field(time_.month), st.month, 2) || st.month < 1 || st.month > 12)
-        return {time_.month, "a month 1 to 12"};
-      if (!ts::read_uint(field(time_.day), st.day, 2) || !ts::valid_date(st))
-        return {time_.day, "a day of the month, 1 to its length"};
-    }
-    if (time_.clock >= 0) {
-      if (!ts::parse_clock(field(time_.clock), st.minute, form.clock))
-        return {time_.clock, "a time of day as HH:MM, HH:MM:SS or HHMM, 00:00 to 24:00"};
-    } else {
-      int h = 0, m = 0;
-      if (!ts::read_uint(field(time_.hour), h, 2) || h > 24) return {time_.hour, "an hour 0 to 24"};
-      if (time_.minute >= 0 &&
-          (!ts::read_uint(field(time_.minute), m, 2) || m > 59 || (h == 24 && m != 0)))
-        return {time_.minute, "a minute 0 to 59 (0 with hour 24)"};
-      st.minute = h * 60 + m;
-    }
-    return {};
-  }
-
-  // "MM/DD/YYYY HH:MM", "YYYYMMDD:HHMM", "month, day columns + hour column", ...
-  std::string format_text(const StampForm& f, const Zone& z) const {
-    std::string zone = z.clock == Clock::utc ? "Z" : z.clock == Clock::offset ? "±hh:mm" : "";
-    if (time_.stamp >= 0)
-      return fmt::format("{}{}{}{}", ts::date_form_text(f.date),
-                         f.separator == ' ' ? std::string(" ") : std::string(1, f.separator),
-                         ts::clock_form_text(f.clock), zone);
-    const std::string date =
-        time_.date >= 0 ? std::string(ts::date_form_text(f.date))
-                        : (time_.year >= 0 ? "year, month, day columns" : "month, day columns");
-    const std::string clock = time_.clock >= 0
-                                  ? std::string(ts::clock_form_text(f.clock))
-                                  : (time_.minute >= 0 ? "hour, minute columns" : "hour column");
-    return date + " + " + clock;
-  }
-
- private:
-  TimeColumns time_;
-  bool day_first_;
-  ts::DateCache cache_;
-};
-
 struct Table {
   std::vector<Row> rows;
   std::size_t end = 0;  // index of the first line after the table
@@ -549,7 +482,7 @@ Table read_rows(const Context& cx, const std::vector<ts::Line>& lines, const Hea
     r.line = l.number;
     Zone zone;
     StampForm form{};
-    const StampFault fault = stamps.read(f, r.stamp, zone, form);
+    const ts::StampFault fault = stamps.read(f, r.stamp, zone, form);
     if (fault.column >= 0)
       fail_at(cx.source, l.number,
               fmt::format("column {} value {} is not readable as a time; allowed: {}",
@@ -703,17 +636,7 @@ void place_rows(const Context& cx, std::vector<Row>& rows, TimeInfo& ti) {
     Interval& iv = r.at;
     iv.position = position;
     // The interval's start: hour-ending stamps move back one step, maybe to the day before.
-    Stamp s = r.stamp;
-    s.minute -= ti.hour_ending ? step : 0;
-    if (s.minute < 0) {
-      s.minute += 1440;
-      if (--s.day < 1) {
-        if (--s.month < 1) s.month = 12, s.year = s.year > 0 ? s.year - 1 : 0;
-        // Year 0 (a stamp without its year) is a leap year of the proleptic calendar.
-        s.day = calendar::days_in_month(std::chrono::year{s.year},
-                                        std::chrono::month{static_cast<unsigned>(s.month)});
-      }
-    }
+    const Stamp s = ti.hour_ending ? ts::minutes_earlier(r.stamp, step) : r.stamp;
     iv.month = s.month;
     iv.day = s.day;
     iv.hour = s.minute / 60;

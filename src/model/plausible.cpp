@@ -39,6 +39,17 @@ constexpr Band kBands[] = {
     {"air_handler.return_air_humidity_ratio", Kind::humidity_ratio, 0.001, 0.02,
      "a return-air humidity ratio"},
     {"air_handler.return_air_enthalpy", Kind::enthalpy, 15.0, 90.0, "a return-air enthalpy"},
+    // Below 10 % a terminal cannot hold its airflow steady (common practice: VAV minimums of
+    // 20–40 % of design).
+    {"air_handler.min_airflow", Kind::fraction, 0.1, 1.0, "a variable-airflow minimum"},
+    // Comfort cooling setpoints, and the rise of a return plenum with lights and a return fan.
+    {"loads.space_temp", Kind::temperature, 18.0, 30.0, "a space cooling setpoint"},
+    {"loads.return_air_rise", Kind::temperature_difference, 0.0, 3.0,
+     "a return-air rise above the space"},
+    // The loads one air handler (0.05–200 m³/s) can carry at a 10–12 K supply difference.
+    {"loads.internal_sensible", Kind::power, 0.1, 3000.0, "the sensible gains of one unit's space"},
+    {"loads.envelope_ua", Kind::conductance, 0.0, 300.0, "the envelope conductance of one space"},
+    {"loads.latent", Kind::power, 0.0, 1500.0, "the latent gains of one unit's space"},
     {"outdoor.dry_bulb", Kind::temperature, -50.0, 55.0, "an outdoor dry-bulb"},
     {"outdoor.rh", Kind::fraction, 0.0, 1.0, "an outdoor relative humidity"},
     {"outdoor.dew_point", Kind::temperature, -60.0, 35.0, "an outdoor dew point"},
@@ -73,6 +84,19 @@ constexpr Band kBands[] = {
      "a dew-point sensor accuracy"},
     {"sensors.outdoor_enthalpy", Kind::enthalpy_difference, 0.0, 10.0,
      "an enthalpy sensor accuracy"},
+};
+
+// Plain numbers of the plant (common practice): chillers and packaged units run at a COP of
+// about 2 to 7 with their auxiliaries, boilers and furnaces at 80–98 %; energy prices lie
+// between a cent and a unit of currency per kWh.
+constexpr NumberBand kNumberBands[] = {
+    {"plant.cooling_cop", 1.5, 10.0, "a cooling COP", ""},
+    // The same band as kW per ton: 3.516852842/10 to 3.516852842/1.5.
+    {"plant.cooling_kw_per_ton", 0.35, 2.35, "a cooling plant's kW per ton", ""},
+    {"plant.heating_efficiency", 0.5, 1.0, "a heating efficiency",
+     "a heat pump's COP? (heating_price is then per kWh of electricity)"},
+    {"plant.electricity_price", 0.01, 1.0, "a price per kWh", ""},
+    {"plant.heating_price", 0.01, 1.0, "a price per kWh", ""},
 };
 
 units::System other(units::System s) {
@@ -132,6 +156,26 @@ double parse(const Band& band, std::string_view text, units::System bare, const 
                                  units::written_unit(band.kind, other(bare))));
   warnings.push_back(fmt::format("{}: {}; used as written", source.origin, reading));
   return v;
+}
+
+std::span<const NumberBand> number_bands() { return kNumberBands; }
+
+const NumberBand* find_number(std::string_view name) {
+  for (const NumberBand& b : kNumberBands)
+    if (b.name == name) return &b;
+  return nullptr;
+}
+
+void weigh(const NumberBand& band, double value, std::string_view origin,
+           std::vector<std::string>& warnings) {
+  if (units::within(value, band.lo, band.hi)) return;
+  const bool above = value > band.hi;
+  warnings.push_back(fmt::format(
+      "{}: {:g} is outside the plausible range of {} ({:g} to {:g}, common practice); {}{}used "
+      "as written",
+      origin, value, band.what, band.lo, band.hi,
+      above && !band.above_hint.empty() ? band.above_hint : "",
+      above && !band.above_hint.empty() ? "; " : ""));
 }
 
 }  // namespace limitline::plausible

@@ -109,6 +109,29 @@ constexpr Unit kPower[] = {
     {"ton", 3.516852842, 0},
 };
 
+// A conductance in Btu/h per °F: 1 W = 3.412141633 Btu/h and 1 K = 1.8 °F, so
+// 1 Btu/h·°F = 1.8/3.412141633 W/K = 0.5275 W/K. The spellings are those of the power units
+// with a degree written after '/', '-' or '·' (and their labels: what is printed, is read).
+constexpr double kBtuPerHourFahrenheit = 1.8e-3 / 3.412141633;  // kW/K
+constexpr Unit kConductance[] = {
+    {"kw/k", 1, 0},
+    {"w/k", 1e-3, 0},
+    {"kw/°c", 1, 0},
+    {"w/°c", 1e-3, 0},
+    {"kbtu/h/f", 1e3 * kBtuPerHourFahrenheit, 0},
+    {"kbtu/h-f", 1e3 * kBtuPerHourFahrenheit, 0},
+    {"kbtu/h·f", 1e3 * kBtuPerHourFahrenheit, 0},
+    {"kbtu/h/°f", 1e3 * kBtuPerHourFahrenheit, 0},
+    {"kbtu/h-°f", 1e3 * kBtuPerHourFahrenheit, 0},
+    {"kbtu/h·°f", 1e3 * kBtuPerHourFahrenheit, 0},
+    {"btu/h/f", kBtuPerHourFahrenheit, 0},
+    {"btu/h-f", kBtuPerHourFahrenheit, 0},
+    {"btu/h·f", kBtuPerHourFahrenheit, 0},
+    {"btu/h/°f", kBtuPerHourFahrenheit, 0},
+    {"btu/h-°f", kBtuPerHourFahrenheit, 0},
+    {"btu/h·°f", kBtuPerHourFahrenheit, 0},
+};
+
 constexpr double kCubicFoot = 0.3048 * 0.3048 * 0.3048;
 constexpr double kPound = 0.45359237;
 // The display labels (m³/kg, lb/ft³) are spellings too: what the tool prints, it reads back.
@@ -153,6 +176,9 @@ constexpr KindInfo kKinds[] = {
      "m³/kg", "ft3_per_lb", "m3_per_kg", "13.7ft3/lb or 0.85m3/kg", "ft3/lb", "m3/kg", 0.0, 1000.0},
     {Kind::density, "a density", kDensity, "lb/ft3", "kg/m3", "lb/ft³", "kg/m³", "lb_per_ft3",
      "kg_per_m3", "0.075lb/ft3 or 1.2kg/m3", "lb/ft3", "kg/m3", 0.0, 1000.0},
+    // The envelope of the largest building one air handler serves is below 1,000 kW/K.
+    {Kind::conductance, "a conductance", kConductance, "kbtu/h/f", "kw/k", "kBtu/h·°F", "kW/K",
+     "kbtu_per_h_f", "kw_per_k", "3kBtu/h/F or 1.6kW/K", "kBtu/h/F", "kW/K", 0.0, 1e6},
 };
 
 const KindInfo& info(Kind k) {
@@ -258,6 +284,18 @@ std::string_view system_name(System s) { return name_in(kSystemNames, s); }
 std::span<const Named<System>> system_names() { return kSystemNames; }
 
 std::string_view kind_name(Kind k) { return info(k).name; }
+
+double unit_scale(Kind kind, std::string_view unit, std::string_view origin) {
+  const KindInfo& k = info(kind);
+  const std::string spelling = text::lower_without_space(unit);
+  for (const Unit& u : k.units) {
+    if (u.spelling != spelling) continue;
+    if (u.offset != 0.0) throw std::logic_error("units: unit_scale of a unit with a datum");
+    return u.scale;
+  }
+  throw InputError(fmt::format("{}: {} is not a unit of {} (allowed: {})", origin, echo(unit),
+                               k.name.substr(k.name.find(' ') + 1), allowed_spellings(k)));
+}
 
 double parse_number(std::string_view text, std::string_view origin) {
   std::string_view s = text::trim(text);

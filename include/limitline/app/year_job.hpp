@@ -4,11 +4,13 @@
 // strategies, the prepared year and the context lines of the report.
 #include <limitline/analysis/annual.hpp>
 #include <limitline/report/year.hpp>
+#include <limitline/io/loads_file.hpp>
 #include <limitline/io/schedule_file.hpp>
 #include <limitline/io/unit_file.hpp>
 #include <limitline/io/weather.hpp>
 
 #include <atomic>
+#include <memory>
 #include <optional>
 #include <string>
 #include <vector>
@@ -64,14 +66,28 @@ struct YearInputs {
   std::string weather_label;
   Schedule schedule;
   std::vector<highlimit::Strategy> strategies;
-  // The unit file's warnings, then the weather's and the site's (see UnitFile::warnings).
+  // The unit file's warnings, then the weather's and the site's, then the loads file's (see
+  // UnitFile::warnings).
   std::vector<std::string> warnings;
+  // [loads] file = ...: the file as read (once, shared by the sites of a batch run), the path
+  // it was read from, and its loads matched to `weather`, one per weather.hours entry. All
+  // empty without a loads file.
+  std::shared_ptr<const loads::LoadsTable> loads_table;
+  std::string loads_label;
+  std::vector<part_load::SpaceLoads> hourly_loads;
 };
 
-// Loads the unit file (or embedded demo), reads its weather, schedule and strategies.
-// `weather_file` replaces the weather file named by the unit (used by batch runs).
+// The unit's hourly loads file, read (from the embedded demo data for an embedded unit), its
+// path in `label`; nullptr when the unit names none. InputError when it cannot be read.
+std::shared_ptr<const loads::LoadsTable> read_unit_loads(const UnitFile& unit, bool embedded_unit,
+                                                         std::string& label);
+
+// Loads the unit file (or embedded demo), reads its weather, schedule, strategies and hourly
+// loads (matched to the weather). `weather_file` replaces the weather file named by the unit
+// (used by batch runs).
 YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& overrides);
-// The same unit with another weather file (batch mode): reuses the parsed unit.
+// The same unit with another weather file (batch mode): reuses the parsed unit and its loads
+// file as read (read here when `base` has none), matched to the new weather.
 YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
                         const WeatherOverrides& overrides);
 

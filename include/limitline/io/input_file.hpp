@@ -10,6 +10,11 @@
 
 namespace limitline {
 
+// A path written in a file the user named (a unit file's weather or loads file): relative to
+// that file's folder, as a reader of the file expects; an absolute path as written.
+[[nodiscard]] std::filesystem::path path_beside(const std::filesystem::path& file,
+                                                const std::filesystem::path& written);
+
 // The whole content of `path`. `what` names the file in messages ("the weather file"); a
 // regular file larger than `max_bytes`, or a pipe delivering more, is an InputError that says
 // so. Pipes and standard input ("/dev/stdin", process substitution) are read up to the cap;

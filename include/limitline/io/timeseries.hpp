@@ -142,6 +142,18 @@ void split_fields(std::string_view line, char delimiter, std::vector<std::string
 enum class TimeRole { timestamp, date, time, year, month, day, hour, minute };
 inline constexpr std::size_t kTimeRoleCount = 8;
 
+// Header names (name_key form) that mean each role, '|'-separated, in TimeRole order.
+inline constexpr std::array<std::string_view, kTimeRoleCount> kTimeRoleAliases = {
+    "timestamp|datetime|dateandtime|datetimeutc",
+    "date|localdate",
+    "time|timeutc|localtime|clocktime|timeofday",
+    "year|yr",
+    "month|mo",
+    "day|dy|dayofmonth",
+    "hour|hr|hourofday",
+    "minute|min",
+};
+
 // Where a row's date and clock time come from (-1: no such column).
 struct TimeColumns {
   int stamp = -1;                                  // date and clock in one field
@@ -217,6 +229,30 @@ struct DateCache {
 // ("20190701:1300") or a date and a time separated by a space.
 [[nodiscard]] bool parse_stamp(std::string_view s, bool day_first, Stamp& st, Zone& zone,
                                StampForm& form, DateCache& cache);
+
+// The stamp `minutes` (at most a day) earlier: the start of the interval a stamp ends, which
+// may lie in the day, month or year before. Year 0 (not given) stays 0.
+[[nodiscard]] Stamp minutes_earlier(Stamp s, int minutes);
+
+// Reads the stamp of a data row from the time columns of its header. On failure it names the
+// column at fault and what that column may hold.
+struct StampFault {
+  int column = -1;  // -1: the stamp was read
+  std::string_view allowed;
+};
+class StampReader {
+ public:
+  StampReader(const TimeColumns& time, bool day_first) : time_(time), day_first_(day_first) {}
+  StampFault read(const std::vector<std::string_view>& fields, Stamp& st, Zone& zone,
+                  StampForm& form);
+  // "MM/DD/YYYY HH:MM", "YYYYMMDD:HHMM", "month, day columns + hour column", ...
+  [[nodiscard]] std::string format_text(const StampForm& f, const Zone& z) const;
+
+ private:
+  TimeColumns time_;
+  bool day_first_;
+  DateCache cache_;
+};
 
 // --- 4. Columns with units -----------------------------------------------------------------
 

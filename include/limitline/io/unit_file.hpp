@@ -14,6 +14,7 @@
 #include <limitline/model/units.hpp>
 #include <limitline/text.hpp>
 #include <limitline/io/raw_table.hpp>
+#include <limitline/io/weather.hpp>
 
 #include <optional>
 #include <string>
@@ -62,8 +63,14 @@ struct UnitFile {
   struct LoadsFile {
     std::string path;    // as written, resolved against the unit file's folder
     std::string origin;  // "FILE:LINE: loads.file"
-    std::string sensible_column, sensible_unit;  // unit: a power unit ("kW", "Btu/h")
-    std::string latent_column, latent_unit;      // empty column: no latent loads in the file
+    // unit: a power unit ("kW", "Btu/h"); empty: the unit the column's header gives.
+    std::string sensible_column, sensible_unit;
+    std::string latent_column, latent_unit;  // empty column: no latent loads in the file
+    // "FILE:LINE: loads.sensible" (and latent), for the messages of the loads reader.
+    std::string sensible_origin, latent_origin;
+    // Whether the file's stamps mark the start or the end of their interval (automatic:
+    // hour-ending when a stamp reads 24:00, as for the weather).
+    weather::TimeConvention time_convention = weather::TimeConvention::automatic;
   };
   std::optional<LoadsFile> loads_file;
   // [plant]: prices the energy; the references and the ranking then choose by cost.

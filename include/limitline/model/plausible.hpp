@@ -49,4 +49,20 @@ struct Source {
 [[nodiscard]] double parse(const Band& band, std::string_view text, units::System bare,
                            const Source& source, std::vector<std::string>& warnings);
 
+// The band of a plain number (a COP, an efficiency, a price): without a unit there is no
+// other reading, so a value outside is always used, with a warning.
+struct NumberBand {
+  std::string_view name;  // the unit-file key it weighs ("plant.cooling_cop")
+  double lo, hi;
+  std::string_view what;        // "a cooling COP", for messages
+  std::string_view above_hint;  // what a value above the band most likely is; may be empty
+};
+[[nodiscard]] std::span<const NumberBand> number_bands();
+[[nodiscard]] const NumberBand* find_number(std::string_view name);
+// Appends one warning to `warnings` when `value` lies outside the band ("ORIGIN: 12 is
+// outside the plausible range of a cooling COP (1.5 to 10, common practice); used as
+// written"); `origin` is "FILE:LINE: KEY".
+void weigh(const NumberBand& band, double value, std::string_view origin,
+           std::vector<std::string>& warnings);
+
 }  // namespace limitline::plausible

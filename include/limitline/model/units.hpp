@@ -37,6 +37,7 @@ enum class Kind {
   power,                   // kW
   specific_volume,         // m³/kg dry air
   density,                 // kg/m³
+  conductance,             // kW/K (a heat flow per degree: envelope UA)
 };
 
 // Human name of the kind ("a temperature", "an enthalpy") for error messages.
@@ -51,6 +52,12 @@ enum class Kind {
 // the text came from (an option, or file:line key) and starts every error message. Throws
 // InputError.
 [[nodiscard]] double parse(Kind kind, std::string_view text, System bare, std::string_view origin);
+
+// The SI value of one `unit` of `kind` ("kBtu/h" → 0.29307 kW), for values whose unit is
+// written apart from them (a CSV column's unit). Only for kinds without a datum offset
+// (not temperatures or enthalpies). An unknown spelling is an InputError naming `origin`
+// and the spellings allowed.
+[[nodiscard]] double unit_scale(Kind kind, std::string_view unit, std::string_view origin);
 
 // Parses a plain number (no unit) or throws InputError naming `origin`.
 [[nodiscard]] double parse_number(std::string_view text, std::string_view origin);
