@@ -692,8 +692,11 @@ currency = "EUR"
   // A kWh of coil cooling costs the price of the electricity that makes it, 0.12/3.5; a kWh
   // of heating the fuel's, 0.04/0.9 (hand calculation from the definitions of COP and
   // efficiency, common practice).
-  CHECK(u.weights.cooling == doctest::Approx(0.12 / 3.5));
-  CHECK(u.weights.heating == doctest::Approx(0.04 / 0.9));
+  // The cost weights are the plant's (currency per kWh of coil load); the energy weights stay.
+  CHECK(u.plant->cost_weights().cooling == doctest::Approx(0.12 / 3.5));
+  CHECK(u.plant->cost_weights().heating == doctest::Approx(0.04 / 0.9));
+  CHECK(u.weights.cooling == 1.0);
+  CHECK(u.weights.heating == 1.0);
 }
 
 TEST_CASE("an SI file: a loads file, a fixed ventilation airflow, kW per ton and a percentage") {

@@ -218,6 +218,7 @@ annual::Prepared prepare_year(const YearInputs& in, bool compute_dew_point, bool
   opt.compute_dew_point = compute_dew_point;
   opt.control = in.unit.control;
   opt.space = in.unit.space;
+  opt.hourly_loads = in.hourly_loads;
   return annual::prepare(in.unit.air_handler, in.unit.return_air, intervals, in.schedule, opt);
 }
 
@@ -244,7 +245,10 @@ report::YearContext year_context(const YearInputs& in, units::System s) {
   c.schedule = in.schedule.describe();
   c.warnings = in.warnings;
   c.model = report::describe_model(in.unit.control, in.unit.space,
-                                   in.unit.loads_file ? in.unit.loads_file->path : "", s);
+                                   in.loads_table ? fmt::format("{}: {}", in.loads_label,
+                                                                loads::describe(*in.loads_table))
+                                                  : "",
+                                   s);
   c.plant = in.unit.plant;
   for (const auto& st : in.strategies)
     c.strategy_descriptions[st.name] = report::describe_strategy(st, s);

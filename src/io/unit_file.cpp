@@ -1077,7 +1077,6 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
   const toml::table* energy = r.table(root, "energy", "");
   u.weights = read_energy(r, energy);
   u.plant = read_plant(r, r.table(root, "plant", ""), energy);
-  if (u.plant) u.weights = u.plant->cost_weights();
   u.strategies = read_strategies(r, root);
   u.strategies_defaulted = u.strategies.empty();
   u.warnings = std::move(r.warnings);
