@@ -169,7 +169,10 @@ int run_sensors(const std::vector<std::string>& args) {
   }
 
   report::YearContext ctx = year_context(in, system);
-  ctx.plant.reset();
+  if (ctx.plant) {
+    ctx.plant.reset();
+    ctx.model += "; this study weighs coil energy ([plant] prices apply in year and report)";
+  }
   // The [sensors] table's own warnings belong to the study's inputs too.
   ctx.warnings.insert(ctx.warnings.end(), set.warnings.begin(), set.warnings.end());
   report::SensorsReport rep;
