@@ -170,7 +170,8 @@ void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_
     v.findings[static_cast<std::size_t>(k)] = SampleFinding{excess, energy_kwh};
   };
 
-  const airside::HourChoice choice = airside::choose(ah, {out, ret, c.coil, std::nullopt, std::nullopt}, c.unit->weights);
+  const airside::HourChoice choice =
+      airside::choose(ah, {out, ret, c.coil, std::nullopt, std::nullopt}, c.unit->weights);
   const airside::Operation& expected = enabled ? choice.enabled : choice.disabled;
   const double x_min = ah.min_oa_fraction;
 

@@ -244,11 +244,10 @@ report::YearContext year_context(const YearInputs& in, units::System s) {
   c.weather_notes = weather::describe(in.weather.info);
   c.schedule = in.schedule.describe();
   c.warnings = in.warnings;
-  c.model = report::describe_model(in.unit.control, in.unit.space,
-                                   in.loads_table ? fmt::format("{}: {}", in.loads_label,
-                                                                loads::describe(*in.loads_table))
-                                                  : "",
-                                   s);
+  c.model = report::describe_model(
+      in.unit.control, in.unit.space,
+      in.loads_table ? fmt::format("{}: {}", in.loads_label, loads::describe(*in.loads_table)) : "",
+      s);
   c.plant = in.unit.plant;
   for (const auto& st : in.strategies)
     c.strategy_descriptions[st.name] = report::describe_strategy(st, s);

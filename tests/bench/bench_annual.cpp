@@ -1,5 +1,6 @@
 // One site-year: all presets and the three references (issue target ≤ 5 ms with the CSV parse,
-// ≤ 2 ms without; under the part-load model ≤ 2 ms without the parse). Weather: the real Greensboro TMY3 year in tests/data (NREL NSRDB, via pvlib).
+// ≤ 2 ms without; under the part-load model ≤ 2 ms without the parse). Weather: the real Greensboro
+// TMY3 year in tests/data (NREL NSRDB, via pvlib).
 #include <limitline/io/schedule_file.hpp>
 #include <limitline/analysis/annual.hpp>
 #include <limitline/io/unit_file.hpp>

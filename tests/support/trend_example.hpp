@@ -144,7 +144,8 @@ inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& 
     GeneratedRow row{t, fan, cfg_enabled, 0.0, 0.0, 0.0, t_o, t_r, t_r, in_fault};
     std::string mat = fmt::format("{:.1f}", rat_f), sat = "", damper = "0.0", clg = "Off";
     if (fan) {
-      const auto choice = airside::choose(ah, {out, ret, coil, std::nullopt, std::nullopt}, unit.weights);
+      const auto choice =
+          airside::choose(ah, {out, ret, coil, std::nullopt, std::nullopt}, unit.weights);
       const auto& op = ctrl_enabled ? choice.enabled : choice.disabled;
       row.x_command = op.oa_fraction;
       row.x_enabled = choice.enabled.oa_fraction;
