@@ -68,7 +68,7 @@ TEST_CASE("with no unit file every weather command reads a user's file by its ow
     CHECK(year.rc == 0);
     CHECK(contains(year.out, "embedded invented demo unit"));
     CHECK(contains(year.out, "dry-bulb: column " + dry));
-    CHECK(contains(year.out, "Best high-limit for this climate and unit"));
+    CHECK(contains(year.out, "Recommended, the best the code allows"));
     CHECK_FALSE(contains(year.err, "error"));
     const auto chart = run_cli({"chart", "--weather", w, "-o", svg.string()}, kSuite);
     CHECK(chart.rc == 0);

@@ -44,7 +44,7 @@ TEST_CASE("with no arguments year runs the embedded demo and ends with the cauti
   CHECK(r.rc == 0);
   CHECK(contains(r.out, "embedded invented demo"));
   CHECK(contains(r.out, "perfect-changeover"));
-  CHECK(contains(r.out, "Best high-limit for this climate and unit"));
+  CHECK(contains(r.out, "Recommended, the best the code allows"));
   CHECK(contains(r.out, "authority having jurisdiction"));
 }
 

@@ -331,6 +331,7 @@ void add_compliance(report::YearContext& c, const YearInputs& in, const CodeSele
   for (std::size_t i = 0; i < in.strategies.size() && i < words.size(); ++i)
     c.compliance[in.strategies[i].name] = words[i];
   const codes::Edition& e = tables.edition(edition, edition_origin);
+  c.code_name = fmt::format("{}, climate zone {}", e.title, zone);
   c.code_label = fmt::format(
       "{}, climate zone {} (tables from memory; verify against the "
       "adopted edition — see limitline code)",

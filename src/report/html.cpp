@@ -258,7 +258,7 @@ std::vector<Block> blocks(const annual::YearResult& year, const ReportDocument& 
   }
   if (!chart_done) out.push_back(chart_block());
   add_code();
-  const auto* best = year.best();
+  const auto rec = recommendation_lines(year, doc.context);
   intro = fmt::format(
       "{} high-limit strategies for this air handler weighed hour by hour over the weather year of "
       "{}, each "
@@ -266,7 +266,7 @@ std::vector<Block> blocks(const annual::YearResult& year, const ReportDocument& 
       "costs "
       "less than not economizing.{}",
       year.strategies.size(), doc.context.weather_source,
-      best ? fmt::format(" Best for this climate: {}.", best->name) : std::string());
+      rec.empty() ? std::string() : " " + rec.front());
   return out;
 }
 

@@ -1,5 +1,6 @@
 #include <limitline/report/year.hpp>
 
+#include <limitline/analysis/decision.hpp>
 #include <limitline/report/cautions.hpp>
 #include <limitline/report/json.hpp>
 #include <limitline/report/table.hpp>
@@ -168,21 +169,107 @@ Table monthly_table(const annual::YearResult& y, double annual::Totals::*member,
   return t;
 }
 
-// The findings in sentences: the best strategy and what each wrong decision costs.
-std::vector<std::string> findings(const annual::YearResult& y, const YearContext& c) {
+// The candidates of the recommendation: the ranked strategies with their code words.
+std::vector<decision::Candidate> candidates(const annual::YearResult& y, const YearContext& c) {
+  std::vector<decision::Candidate> out;
+  for (const auto& r : y.strategies) {
+    const auto it = c.compliance.find(r.name);
+    out.push_back({r.name, r.shortfall_vs_perfect_kwh,
+                   it == c.compliance.end() ? std::string() : it->second});
+  }
+  return out;
+}
+
+std::string names_of(const std::vector<decision::Candidate>& c, std::span<const std::size_t> idx) {
+  std::string out;
+  for (std::size_t k = 0; k < idx.size(); ++k)
+    out += (k == 0 ? "" : k + 1 == idx.size() ? " and " : ", ") + c[idx[k]].name;
+  return out;
+}
+
+// Why the code turns a strategy down, from its compliance word.
+std::string refusal(std::string_view word) {
+  if (word == "not-allowed") return "the code does not allow this control type in this zone";
+  if (word == "set-wrong") return "its setting is not the value the code requires in this zone";
+  if (word == "not-evaluable") return "the code tables cannot judge it";
+  return std::string(word);
+}
+
+}  // namespace
+
+std::vector<std::string> recommendation_lines(const annual::YearResult& y, const YearContext& c) {
   std::vector<std::string> out;
   const Measure m(c);
   const std::string eu = m.unit();
   const double possible = y.perfect_changeover.savings_vs_no_economizer_kwh;
-  if (const auto* best = y.best()) {
-    std::string line = fmt::format(
-        "Best high-limit for this climate and unit: {} — {} {} short of the perfect changeover",
-        best->name, m.format(best->shortfall_vs_perfect_kwh), eu);
-    if (possible > 1e-9)
-      line += fmt::format(" ({:.0f}% of the savings a perfect changeover would get)",
-                          100.0 * best->savings_vs_no_economizer_kwh / possible);
-    out.push_back(line + ".");
+  const auto cands = candidates(y, c);
+  const decision::Recommendation rec =
+      decision::recommend(cands, decision::tie_tolerance(possible, m.is_cost()));
+  if (rec.best.empty()) return out;
+  const std::string tol = fmt::format(
+      "{} {}: 0.5% of the perfect changeover's savings, at least {}", m.format(rec.tolerance), eu,
+      m.is_cost() ? fmt::format("0.01 {}", eu) : fmt::format("1 {}", energy_unit(c.units)));
+  auto share = [&](const annual::StrategyResult& r) {
+    return possible > 1e-9
+               ? fmt::format(" ({} of the savings a perfect changeover would get)",
+                             decision::share_text(r.savings_vs_no_economizer_kwh / possible))
+               : std::string();
+  };
+  auto pick = [&](std::string_view lead, const std::vector<std::size_t>& group) {
+    const auto& r = y.strategies[group.front()];
+    std::string line = fmt::format("{}: {} — {} {} short of the perfect changeover{}", lead, r.name,
+                                   m.format(r.shortfall_vs_perfect_kwh), eu, share(r));
+    if (group.size() > 1)
+      line += fmt::format("; tied with {} (within {})",
+                          names_of(cands, std::span(group).subspan(1)), tol);
+    return line + ".";
+  };
+  if (rec.all_tied) {
+    out.push_back(fmt::format(
+        "Every strategy evaluated gives the same result within {}: the high-limit never acts "
+        "where it matters for this climate and unit, so choose it on sensors, cost and the "
+        "code.",
+        tol));
+    return out;
   }
+  if (!rec.code_known) {
+    out.push_back(pick("Best high-limit for this climate and unit", rec.best));
+    return out;
+  }
+  if (!rec.best_compliant.empty())
+    out.push_back(pick(fmt::format("Recommended, the best the code allows ({})", c.code_name),
+                       rec.best_compliant));
+  // Strategies as good as the recommendation that the code turns down, named so the
+  // recommendation is not read as the best outright.
+  if (!rec.best_compliant.empty() && !rec.best_not_allowed()) {
+    std::string refused;
+    for (std::size_t i : rec.best)
+      if (cands[i].compliance != "complies")
+        refused += fmt::format("{}{} ({})", refused.empty() ? "" : ", ", cands[i].name,
+                               cands[i].compliance);
+    if (!refused.empty())
+      out.push_back(fmt::format("Tied with it but turned down by the code: {}.", refused));
+  } else
+    out.push_back(
+        "None of the strategies evaluated complies with the code: `limitline code` with the "
+        "unit file lists the settings it requires.");
+  if (rec.best_not_allowed()) {
+    const auto& r = y.strategies[rec.best.front()];
+    out.push_back(fmt::format("The best overall, {} ({} {} short), is {}: {}.", r.name,
+                              m.format(r.shortfall_vs_perfect_kwh), eu,
+                              cands[rec.best.front()].compliance,
+                              refusal(cands[rec.best.front()].compliance)));
+  }
+  return out;
+}
+
+namespace {
+
+// The findings in sentences: the recommendation and what each wrong decision costs.
+std::vector<std::string> findings(const annual::YearResult& y, const YearContext& c) {
+  const Measure m(c);
+  const std::string eu = m.unit();
+  std::vector<std::string> out = recommendation_lines(y, c);
   for (const auto& r : y.strategies) {
     out.push_back(fmt::format(
         "{}: {} harmful hours (economizing when it should not) cost {} {}; {} missed hours "
@@ -439,6 +526,35 @@ std::string year_json(const annual::YearResult& y, const YearContext& c) {
     j.field("best", b->name);
   else
     j.key("best").null();
+  {
+    const Measure m(c);
+    const auto cands = candidates(y, c);
+    const auto rec = decision::recommend(
+        cands,
+        decision::tie_tolerance(y.perfect_changeover.savings_vs_no_economizer_kwh, m.is_cost()));
+    auto names = [&](const std::vector<std::size_t>& g) {
+      j.begin_array();
+      for (std::size_t i : g) j.value(cands[i].name);
+      j.end_array();
+    };
+    j.key("recommendation").begin_object();
+    for (const auto& [k, v] : m.fields("tie_tolerance", rec.tolerance)) j.field(k, v, 8);
+    j.field("all_tied", rec.all_tied);
+    j.key("best_group");
+    names(rec.best);
+    j.field("code_known", rec.code_known);
+    if (rec.best_compliant.empty())
+      j.key("best_compliant").null();
+    else
+      j.field("best_compliant", cands[rec.best_compliant.front()].name);
+    j.key("best_compliant_group");
+    names(rec.best_compliant);
+    j.field("best_not_allowed", rec.best_not_allowed());
+    j.key("lines").begin_array();
+    for (const auto& l : recommendation_lines(y, c)) j.value(l);
+    j.end_array();
+    j.end_object();
+  }
   j.key("results").begin_object();
   for (const auto* r : all_rows(y)) {
     j.key(r->name).begin_object();

@@ -25,7 +25,8 @@ struct YearContext {
   // One line per strategy name: its conditions in words.
   std::map<std::string, std::string> strategy_descriptions;
   // Energy-code compliance per strategy name, when the site names an edition and zone.
-  std::string code_label;  // "ASHRAE 90.1-2019, climate zone 4A"
+  std::string code_label;  // "ASHRAE 90.1-2019, climate zone 4A (tables from memory; ...)"
+  std::string code_name;   // the same without the note: "ASHRAE 90.1-2019, climate zone 4A"
   std::map<std::string, std::string> compliance;
   // Implausible inputs and disagreements between inputs, one line each (YearInputs::warnings).
   std::vector<std::string> warnings;
@@ -70,6 +71,10 @@ class Json;
 // mapping, schedule, units (JSON fields, and the human lines).
 void json_context(Json& j, const YearContext& c);
 std::vector<std::string> context_lines(const YearContext& c);
+
+// The recommendation in sentences (docs/model.md §Recommendation): the best strategy the
+// code allows, the best overall when the code turns it down, ties and the all-tied case.
+std::vector<std::string> recommendation_lines(const annual::YearResult& y, const YearContext& c);
 
 std::string year_text(const annual::YearResult& y, const YearContext& c);
 std::string year_markdown(const annual::YearResult& y, const YearContext& c);
