@@ -2,6 +2,7 @@
 
 #include <limitline/error.hpp>
 #include <limitline/io/codes.hpp>
+#include <limitline/parallel.hpp>
 
 #include <fmt/format.h>
 
@@ -99,6 +100,36 @@ TuneResult run_tune(const YearInputs& in, const annual::Prepared& p, const TuneO
     result.strategies.push_back(std::move(t));
   }
   return result;
+}
+
+std::vector<TuneSite> run_tune_batch(const YearInputs& base, const std::string& dir,
+                                     const WeatherOverrides& overrides, const TuneOptions& options,
+                                     unsigned threads) {
+  const std::vector<std::string> files = batch_weather_files(dir);
+  std::vector<TuneSite> sites(files.size());
+  TuneOptions one = options;
+  one.threads = 1;  // the sites are the parallel items
+  const ParallelRun run{threads, options.cancel, nullptr};
+  (void)parallel_for(files.size(), run, [&]() -> ParallelWork {
+    return [&](std::size_t i) {
+      TuneSite& s = sites[i];
+      s.weather_path = files[i];
+      s.run = true;
+      try {
+        const YearInputs in = with_weather(base, files[i], overrides);
+        const annual::Prepared p = prepare_year(in);
+        s.result = run_tune(in, p, one);
+        const tuning::Baseline b = tuning::baseline_of(p);
+        s.perfect_savings = b.none_kwh - b.perfect_kwh;
+        s.ok = !s.result.partial;
+        if (!s.ok) s.error = "interrupted";
+      } catch (const std::exception& e) {
+        s.error = e.what();  // a failing site never stops the others
+      }
+    };
+  });
+  for (std::size_t i = 0; i < files.size(); ++i) sites[i].weather_path = files[i];
+  return sites;
 }
 
 }  // namespace limitline

@@ -261,10 +261,7 @@ report::YearContext year_context(const YearInputs& in, units::System s) {
 
 namespace limitline {
 
-std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string& dir,
-                                      const WeatherOverrides& overrides, unsigned threads,
-                                      void (*progress)(std::size_t, std::size_t),
-                                      const std::atomic<bool>* cancel) {
+std::vector<std::string> batch_weather_files(const std::string& dir) {
   std::error_code ec;
   if (!fs::is_directory(dir, ec))
     throw InputError(fmt::format("--batch: {} is not a folder", echo(dir)));
@@ -279,7 +276,14 @@ std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string&
   if (ec) throw InputError(fmt::format("--batch: cannot list {}: {}", echo(dir), ec.message()));
   std::sort(files.begin(), files.end());
   if (files.empty()) throw InputError(fmt::format("--batch: no .csv files in {}", echo(dir)));
+  return files;
+}
 
+std::vector<BatchSite> run_year_batch(const YearInputs& base, const std::string& dir,
+                                      const WeatherOverrides& overrides, unsigned threads,
+                                      void (*progress)(std::size_t, std::size_t),
+                                      const std::atomic<bool>* cancel) {
+  const std::vector<std::string> files = batch_weather_files(dir);
   std::vector<BatchSite> sites(files.size());
   for (std::size_t i = 0; i < files.size(); ++i) sites[i].weather_path = files[i];
   const ParallelRun run{threads, cancel, progress};

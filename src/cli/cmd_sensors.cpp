@@ -54,15 +54,6 @@ struct ProgressLine {
   }
 };
 
-template <class T>
-T bounded(const po::variables_map& vm, const char* name, T lo, T hi) {
-  const T v = vm[name].as<T>();
-  if (v < lo || v > hi)
-    throw InputError(
-        fmt::format("--{}: {} is outside the allowed range ({} to {})", name, v, lo, hi));
-  return v;
-}
-
 // --sweep SENSOR=FROM:TO:STEP: the syntax is the command line's, the meaning the library's.
 sensors::SweepSpec sweep_option(const std::string& text, sensors::HumidityKind configured,
                                 units::System bare) {

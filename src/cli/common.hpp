@@ -6,6 +6,7 @@
 #include <limitline/model/units.hpp>
 
 #include <boost/program_options.hpp>
+#include <fmt/format.h>
 
 #include <atomic>
 #include <csignal>
@@ -63,6 +64,7 @@ int run_code(const std::vector<std::string>& args);
 int run_chart(const std::vector<std::string>& args);
 int run_report(const std::vector<std::string>& args);
 int run_sensors(const std::vector<std::string>& args);
+int run_tune(const std::vector<std::string>& args);
 int run_audit(const std::vector<std::string>& args);
 
 // Parses `args` against `options` (and positionals). When --help is present it prints
@@ -98,6 +100,16 @@ struct Common {
   bool strict = false;  // --strict: warnings are errors
 };
 Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed);
+
+// A whole-number option held to [lo, hi]; InputError naming the option outside it.
+template <class T>
+T bounded(const po::variables_map& vm, const char* name, T lo, T hi) {
+  const T v = vm[name].as<T>();
+  if (v < lo || v > hi)
+    throw InputError(
+        fmt::format("--{}: {} is outside the allowed range ({} to {})", name, v, lo, hi));
+  return v;
+}
 
 // Reads option `name` as a quantity of `kind`, in `system` for bare numbers.
 double quantity(const po::variables_map& vm, const char* name, units::Kind kind,

@@ -28,6 +28,8 @@ const Command kCommands[] = {
      limitline::cli::run_chart},
     {"report", "the study as one self-contained HTML page (or Markdown) for a client",
      limitline::cli::run_report},
+    {"tune", "the best setpoint of each high-limit strategy, and the band of settings near it",
+     limitline::cli::run_tune},
     {"sensors", "how each high-limit fares with biased sensors: trials, sweep, break-even accuracy",
      limitline::cli::run_sensors},
     {"audit", "a trend log checked against the unit's high-limit: findings for an inspector",

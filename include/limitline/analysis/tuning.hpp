@@ -111,4 +111,31 @@ struct Baseline {
 // The band of points within `share` of the best's savings (exposed for tests).
 [[nodiscard]] Band band_of(const Curve& c, double share);
 
+// --- A unit's tuning, as the tune job assembles it ----------------------------------------
+
+struct StrategyTuning {
+  highlimit::Strategy strategy;  // as the unit file (or the preset defaults) gives it
+  tuning::Curve curve;
+  // What the code says of this control type in the unit's zone, one sentence; empty without a
+  // code.
+  std::string code_note;
+  // The compliance word of the best setting, and of each extra (same order); empty without
+  // a code.
+  std::string best_verdict;
+  std::vector<std::string> extra_verdicts;
+  bool code_allows = false;               // the control type is allowed in the zone
+  std::optional<std::size_t> code_extra;  // index of the "code" extra, when there is one
+};
+
+struct TuneResult {
+  std::vector<StrategyTuning> strategies;  // in the unit file's order
+  std::string code_label;                  // "ANSI/ASHRAE/IES Standard 90.1-2019, climate zone 4A"
+  bool partial = false;                    // interrupted: the strategies that finished
+};
+
+// Labels of the extras, as reports print them.
+inline constexpr std::string_view kUnitSetting = "unit file";
+inline constexpr std::string_view kDefaultSetting = "common practice";
+inline constexpr std::string_view kCodeSetting = "code";
+
 }  // namespace limitline::tuning

@@ -20,32 +20,29 @@ struct TuneOptions {
   const std::atomic<bool>* cancel = nullptr;
 };
 
-struct StrategyTuning {
-  highlimit::Strategy strategy;  // as the unit file (or the preset defaults) gives it
-  tuning::Curve curve;
-  // What the code says of this control type in the unit's zone, one sentence; empty without a
-  // code.
-  std::string code_note;
-  // The compliance word of the best setting, and of each extra (same order); empty without
-  // a code.
-  std::string best_verdict;
-  std::vector<std::string> extra_verdicts;
-  bool code_allows = false;               // the control type is allowed in the zone
-  std::optional<std::size_t> code_extra;  // index of the "code" extra, when there is one
-};
-
-struct TuneResult {
-  std::vector<StrategyTuning> strategies;  // in the unit file's order
-  std::string code_label;                  // "ANSI/ASHRAE/IES Standard 90.1-2019, climate zone 4A"
-  bool partial = false;                    // interrupted: the strategies that finished
-};
-
-// Labels of the extras, as reports print them.
-inline constexpr std::string_view kUnitSetting = "unit file";
-inline constexpr std::string_view kDefaultSetting = "common practice";
-inline constexpr std::string_view kCodeSetting = "code";
+using tuning::kCodeSetting;
+using tuning::kDefaultSetting;
+using tuning::kUnitSetting;
+using tuning::StrategyTuning;
+using tuning::TuneResult;
 
 TuneResult run_tune(const YearInputs& in, const annual::Prepared& prepared,
                     const TuneOptions& options);
+
+// One site of `tune --batch`: its tuning, or the one-line error that stopped it.
+struct TuneSite {
+  std::string weather_path;
+  bool run = false;  // false: cancelled before it started
+  bool ok = false;
+  std::string error;
+  TuneResult result;
+  double perfect_savings = 0;  // the site's perfect changeover savings (tie tolerance)
+};
+
+// Every *.csv weather file of `dir` tuned with the unit of `base`, sites in parallel on
+// `threads` threads (each site's points on one). Results in file order.
+std::vector<TuneSite> run_tune_batch(const YearInputs& base, const std::string& dir,
+                                     const WeatherOverrides& overrides, const TuneOptions& options,
+                                     unsigned threads);
 
 }  // namespace limitline

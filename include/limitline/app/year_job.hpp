@@ -120,6 +120,10 @@ void add_compliance(report::YearContext& context, const YearInputs& in, const Co
 
 namespace limitline {
 
+// Every *.csv entry of `dir`, sorted by name: the sites of a batch run. InputError when `dir`
+// is no folder, cannot be listed or holds none.
+std::vector<std::string> batch_weather_files(const std::string& dir);
+
 // One site of a batch run: its result, or the one-line error that stopped it.
 struct BatchSite {
   std::string weather_path;
