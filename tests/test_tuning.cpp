@@ -71,7 +71,7 @@ TEST_CASE("the sweep's best equals an independent loop over the same setpoints")
     CAPTURE(name);
     const highlimit::Strategy s = preset(name);
     const auto axes = tuning::default_axes(s, units::System::ip);
-    const auto curve = tuning::tune(s, axes, {}, y.prepared, y.baseline, 2);
+    const auto curve = tuning::tune(s, axes, {}, y.baseline, 2);
     REQUIRE(curve);
     // The loop: every combination, each strategy built by hand from its conditions.
     double best = INFINITY;
@@ -115,8 +115,7 @@ TEST_CASE("on the humid Greensboro year the best fixed dry-bulb limit lies betwe
   // high lets in humid air, one set low forgoes dry cool hours.
   const Year& y = year();
   const highlimit::Strategy s = preset("fixed-dry-bulb");
-  const auto curve =
-      tuning::tune(s, tuning::default_axes(s, units::System::ip), {}, y.prepared, y.baseline);
+  const auto curve = tuning::tune(s, tuning::default_axes(s, units::System::ip), {}, y.baseline);
   REQUIRE(curve);
   const double best_f = units::fahrenheit_from_celsius(curve->best_point().values[0]);
   CHECK(best_f > 60.0);
@@ -124,8 +123,7 @@ TEST_CASE("on the humid Greensboro year the best fixed dry-bulb limit lies betwe
   // The common-practice 75 °F and the code's 65 °F evaluated beside the grid lose against it.
   const tuning::Extra extras[] = {{"default", {units::celsius_from_fahrenheit(75.0)}},
                                   {"code", {units::celsius_from_fahrenheit(65.0)}}};
-  const auto with =
-      tuning::tune(s, tuning::default_axes(s, units::System::ip), extras, y.prepared, y.baseline);
+  const auto with = tuning::tune(s, tuning::default_axes(s, units::System::ip), extras, y.baseline);
   REQUIRE(with);
   REQUIRE(with->extras.size() == 2);
   CHECK(with->loss(with->extras[0]) > 0.0);
@@ -141,7 +139,7 @@ TEST_CASE("an extra setting better than every grid point becomes the best") {
   auto axes = tuning::default_axes(s, units::System::ip);
   axes[0].values = {units::celsius_from_fahrenheit(79.0), units::celsius_from_fahrenheit(80.0)};
   const tuning::Extra extras[] = {{"mine", {units::celsius_from_fahrenheit(66.0)}}};
-  const auto c = tuning::tune(s, axes, extras, y.prepared, y.baseline);
+  const auto c = tuning::tune(s, axes, extras, y.baseline);
   REQUIRE(c);
   CHECK(c->best_is_extra);
   CHECK(c->loss(c->grid[0]) > 0.0);
@@ -151,8 +149,8 @@ TEST_CASE("results do not depend on the thread count") {
   const Year& y = year();
   const highlimit::Strategy s = preset("differential-enthalpy+dry-bulb");
   const auto axes = tuning::default_axes(s, units::System::si);
-  const auto one = tuning::tune(s, axes, {}, y.prepared, y.baseline, 1);
-  const auto two = tuning::tune(s, axes, {}, y.prepared, y.baseline, 2);
+  const auto one = tuning::tune(s, axes, {}, y.baseline, 1);
+  const auto two = tuning::tune(s, axes, {}, y.baseline, 2);
   REQUIRE(one);
   REQUIRE(two);
   REQUIRE(one->grid.size() == two->grid.size());

@@ -3,6 +3,7 @@
 #include <limitline/parallel.hpp>
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <stdexcept>
 
@@ -50,14 +51,26 @@ units::Kind kind_of(Quantity q, Reference r) {
                                : highlimit::quantity_difference_kind(q);
 }
 
-Point point_of(const annual::StrategyResult& r, std::vector<double> values, const Baseline& ref) {
+// One strategy over the packed year: the decisions and sums of annual::run, in the same order
+// (monthly sums, then the months in turn), so every figure equals annual::run's exactly.
+Point run_packed(const highlimit::Strategy& s, std::vector<double> values, const Baseline& ref) {
+  std::array<double, 12> energy{}, harmful{}, missed{};
+  highlimit::StrategyState state(s);
+  for (const Baseline::Hour& h : ref.hours) {
+    const bool enabled = highlimit::permits(s, h.outdoor, h.ret, state);
+    energy[h.month] += enabled ? h.enabled_kwh : h.disabled_kwh;
+    if (enabled ? h.harmful_if_enabled : h.missed_if_disabled)
+      (enabled ? harmful : missed)[h.month] += h.hours;
+  }
   Point p;
   p.values = std::move(values);
-  p.energy_kwh = r.annual.energy_kwh;
-  p.shortfall_kwh = r.annual.energy_kwh - ref.perfect_kwh;
-  p.savings_kwh = ref.none_kwh - r.annual.energy_kwh;
-  p.harmful_hours = r.annual.harmful_hours;
-  p.missed_hours = r.annual.missed_hours;
+  for (std::size_t m = 0; m < 12; ++m) {
+    p.energy_kwh += energy[m];
+    p.harmful_hours += harmful[m];
+    p.missed_hours += missed[m];
+  }
+  p.shortfall_kwh = p.energy_kwh - ref.perfect_kwh;
+  p.savings_kwh = ref.none_kwh - p.energy_kwh;
   return p;
 }
 
@@ -134,6 +147,11 @@ Baseline baseline_of(const annual::Prepared& p) {
   Baseline r;
   r.perfect_kwh = annual::run_reference(annual::Kind::perfect_changeover, p).annual.energy_kwh;
   r.none_kwh = annual::run_reference(annual::Kind::no_economizer, p).annual.energy_kwh;
+  r.hours.reserve(p.intervals.size());
+  for (const annual::PreparedInterval& iv : p.intervals)
+    r.hours.push_back({iv.outdoor, iv.ret, iv.disabled.energy_kwh, iv.enabled.energy_kwh, iv.hours,
+                       static_cast<std::uint8_t>(iv.month - 1),
+                       iv.cooling_needed && iv.enabling_hurts(), iv.enabling_pays()});
   return r;
 }
 
@@ -168,8 +186,8 @@ Band band_of(const Curve& c, double share) {
 }
 
 std::optional<Curve> tune(const highlimit::Strategy& s, std::vector<Axis> axes,
-                          std::span<const Extra> extras, const annual::Prepared& p,
-                          const Baseline& ref, unsigned threads, const std::atomic<bool>* cancel) {
+                          std::span<const Extra> extras, const Baseline& ref, unsigned threads,
+                          const std::atomic<bool>* cancel) {
   Curve c;
   c.strategy = s.name;
   c.axes = std::move(axes);
@@ -200,7 +218,7 @@ std::optional<Curve> tune(const highlimit::Strategy& s, std::vector<Axis> axes,
   const auto done = parallel_for(total, run, [&]() -> ParallelWork {
     return [&](std::size_t i) {
       const highlimit::Strategy trial = at_setting(s, c.axes, settings[i]);
-      points[i] = point_of(annual::run(trial, p), settings[i], ref);
+      points[i] = run_packed(trial, settings[i], ref);
     };
   });
   if (std::find(done.begin(), done.end(), 0) != done.end()) return std::nullopt;

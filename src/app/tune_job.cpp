@@ -69,7 +69,7 @@ TuneResult run_tune(const YearInputs& in, const annual::Prepared& p, const TuneO
         extras.push_back({std::string(kCodeSetting), std::move(v)});
       }
     }
-    auto curve = tuning::tune(s, std::move(axes), extras, p, base, o.threads, o.cancel);
+    auto curve = tuning::tune(s, std::move(axes), extras, base, o.threads, o.cancel);
     if (!curve) {
       result.partial = true;
       break;

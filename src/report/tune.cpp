@@ -414,8 +414,8 @@ std::string tune_plot_svg(const tuning::StrategyTuning& t, const YearContext& c)
   const Measure m(c);
   constexpr double W = 640, H = 320, L = 70, R = 24, T = 40, B = 52;
   std::string out = fmt::format(
-      "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{0}\" height=\"{1}\" viewBox=\"0 0 {0} "
-      "{1}\" font-family=\"DejaVu Sans, Arial, sans-serif\" font-size=\"11\">\n"
+      "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 {0} {1}\" width=\"{0}\" "
+      "height=\"{1}\" font-family=\"DejaVu Sans, Arial, sans-serif\" font-size=\"11\">\n"
       "<rect width=\"{0}\" height=\"{1}\" fill=\"#fbf8f1\"/>\n",
       W, H);
   const std::string title = html_escape(t.strategy.name);

@@ -3,6 +3,7 @@
 // TMY3 year in tests/data (NREL NSRDB, via pvlib).
 #include <limitline/io/schedule_file.hpp>
 #include <limitline/analysis/annual.hpp>
+#include <limitline/analysis/tuning.hpp>
 #include <limitline/io/unit_file.hpp>
 #include <limitline/io/weather.hpp>
 #include <limitline/app/year_job.hpp>
@@ -92,6 +93,34 @@ void BM_PartLoadYearWithoutParse(benchmark::State& state) {
   }
 }
 BENCHMARK(BM_PartLoadYearWithoutParse)->Unit(benchmark::kMillisecond);
+
+// Setpoint tuning: all seven presets over their grids (41 settings, or 21 x 11 for the
+// combined presets: 857 runs) on one prepared year of 8,760 fan-on hours, on one core (issue
+// target ≤ 100 ms, about 13 ns per hour-run).
+void BM_TuneAllPresetsOneCore(benchmark::State& state) {
+  const UnitFile unit = parse_unit_file(kUnit, "bench.toml");
+  const Schedule schedule;  // always occupied
+  const auto strategies = strategies_or_presets(unit);
+  const auto w = weather::read_text(weather_text(), "greensboro", weather::Mapping{},
+                                    unit.site.design_pressure_kpa());
+  const auto p =
+      annual::prepare(unit.air_handler, unit.return_air, outdoor_intervals(w), schedule, {});
+  const tuning::Baseline base = tuning::baseline_of(p);
+  std::size_t runs = 0;
+  for (auto _ : state) {
+    runs = 0;
+    for (const auto& s : strategies) {
+      auto c = tuning::tune(s, tuning::default_axes(s, units::System::ip), {}, base, 1);
+      runs += c->grid.size();
+      benchmark::DoNotOptimize(c);
+    }
+  }
+  state.counters["runs"] = static_cast<double>(runs);
+  state.counters["ns_per_hour_run"] = benchmark::Counter(
+      static_cast<double>(runs * p.intervals.size()),
+      benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert);
+}
+BENCHMARK(BM_TuneAllPresetsOneCore)->Unit(benchmark::kMillisecond)->UseRealTime();
 
 // The strategy loop alone: what each extra strategy (or sensor trial) costs.
 void BM_StrategiesOnPreparedYear(benchmark::State& state) {

@@ -14,6 +14,7 @@
 
 #include <atomic>
 #include <cstddef>
+#include <cstdint>
 #include <optional>
 #include <span>
 #include <string>
@@ -97,6 +98,15 @@ struct Curve {
 struct Baseline {
   double perfect_kwh = 0;
   double none_kwh = 0;
+  // What a run reads of each prepared interval, packed: the sweep's inner loop touches two
+  // cache lines an hour instead of the whole PreparedInterval.
+  struct Hour {
+    highlimit::AirValues outdoor, ret;
+    double disabled_kwh, enabled_kwh, hours;
+    std::uint8_t month;  // 0–11
+    bool harmful_if_enabled, missed_if_disabled;
+  };
+  std::vector<Hour> hours;
 };
 [[nodiscard]] Baseline baseline_of(const annual::Prepared& p);
 
@@ -104,8 +114,8 @@ struct Baseline {
 // on the thread count). When `*cancel` turns true, no further point starts and the curve is
 // marked partial by returning std::nullopt.
 [[nodiscard]] std::optional<Curve> tune(const highlimit::Strategy& s, std::vector<Axis> axes,
-                                        std::span<const Extra> extras, const annual::Prepared& p,
-                                        const Baseline& ref, unsigned threads = 1,
+                                        std::span<const Extra> extras, const Baseline& ref,
+                                        unsigned threads = 1,
                                         const std::atomic<bool>* cancel = nullptr);
 
 // The band of points within `share` of the best's savings (exposed for tests).
