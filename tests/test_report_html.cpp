@@ -122,12 +122,16 @@ TEST_CASE("the demo report is one well-formed page with every section, nothing f
     CHECK(contains(page, "<strong>" + report::html_escape(s.name) + "</strong>"));
     CHECK(contains(page, "</span>" + report::html_escape(s.name) + "</td>"));
   }
-  // Both pictures are inline, and each parses and renders on its own.
+  // The pictures are inline, and each parses and renders on its own: the monthly hours, the
+  // chart, then one setpoint-tuning plot per strategy after the compliance section.
   const auto svgs = inline_svgs(page);
-  REQUIRE(svgs.size() == 2);
+  REQUIRE(svgs.size() == 2 + unit.strategies.size());
   check_svg_renders(svgs[0], kSuite, "inline-monthly");
   check_svg_renders(svgs[1], kSuite, "inline-chart");
   CHECK(contains(svgs[1], "Psychrometric chart at 14.678 psia"));
+  for (std::size_t i = 2; i < svgs.size(); ++i) CHECK(contains(svgs[i], "within 1%"));
+  CHECK(page.find("id=\"code\"") < page.find("id=\"tuning\""));
+  CHECK(page.find("id=\"tuning\"") < page.find("id=\"cautions\""));
 }
 
 TEST_CASE(

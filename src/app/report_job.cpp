@@ -1,5 +1,8 @@
 #include <limitline/app/report_job.hpp>
 
+#include <limitline/app/tune_job.hpp>
+#include <limitline/report/tune.hpp>
+
 #include <limitline/io/codes.hpp>
 #include <limitline/io/embedded.hpp>
 #include <limitline/error.hpp>
@@ -173,6 +176,7 @@ report::ReportDocument report_document(const YearInputs& in, const annual::Prepa
   d.compliance = compliance(in.unit, in.strategies, s);
   if (d.compliance) {
     d.context.code_label = d.compliance->label;
+    d.context.code_name = d.compliance->label;
     for (const auto& l : d.compliance->lines) d.context.compliance[l.strategy] = l.verdict;
   }
   d.unit_facts = unit_facts(in.unit, s);
@@ -181,6 +185,20 @@ report::ReportDocument report_document(const YearInputs& in, const annual::Prepa
   add_climate(chart, prepared, in.weather_label);
   d.chart_svg = report::psychrometric_chart_svg(chart);
   d.monthly_svg = report::monthly_hours_svg(year, d.strategy_order, "Economizing hours by month");
+  // The setpoint tuning of every strategy: tens of milliseconds on the prepared year.
+  TuneOptions topt;
+  topt.units = s;
+  const TuneResult tuned = run_tune(in, prepared, topt);
+  report::YearContext tc = d.context;
+  tc.code_label = tuned.code_label;
+  const tuning::Baseline base = tuning::baseline_of(prepared);
+  const report::TuneReport rep{&tuned, &tc, prepared.operating_hours,
+                               base.none_kwh - base.perfect_kwh};
+  report::TuningSection ts;
+  ts.markdown = report::tune_summary_markdown(rep);
+  for (const auto& t : tuned.strategies)
+    ts.plots.emplace_back(t.strategy.name, report::tune_plot_svg(t, tc));
+  d.tuning = std::move(ts);
   return d;
 }
 

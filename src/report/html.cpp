@@ -222,6 +222,24 @@ Block compliance_block(const ComplianceSection& c) {
   return b;
 }
 
+Block tuning_block(const TuningSection& t) {
+  Block b{"tuning", "Setpoint tuning", t.markdown, {}, Figure::none, "tuning"};
+  b.html = markdown_to_html(t.markdown);
+  auto inline_svg = [](std::string svg) {
+    const std::string ns = " xmlns=\"http://www.w3.org/2000/svg\"";
+    if (const auto at = svg.find(ns); at != std::string::npos) svg.erase(at, ns.size());
+    return svg;
+  };
+  for (const auto& [name, svg] : t.plots)
+    b.html += "<figure class=\"tuning\">\n" + inline_svg(svg) +
+              fmt::format(
+                  "<figcaption>{}: annual cost of each setting against the best, along "
+                  "its swept setting; the shaded band is within 1% of the best "
+                  "savings.</figcaption>\n</figure>\n",
+                  html_escape(name));
+  return b;
+}
+
 bool heading_is(const std::string& h, std::string_view prefix) { return h.starts_with(prefix); }
 
 // The study in order: inputs, strategies, the annual report's sections with the pictures
@@ -235,6 +253,7 @@ std::vector<Block> blocks(const annual::YearResult& year, const ReportDocument& 
   bool chart_done = false, code_done = false;
   auto add_code = [&] {
     if (doc.compliance && !code_done) out.push_back(compliance_block(*doc.compliance));
+    if (doc.tuning && !code_done) out.push_back(tuning_block(*doc.tuning));
     code_done = true;
   };
   for (const auto& s : y.sections) {

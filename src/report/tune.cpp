@@ -264,6 +264,20 @@ std::string tune_markdown(const TuneReport& r) {
   return out;
 }
 
+std::string tune_summary_markdown(const TuneReport& r) {
+  std::string out = markdown_escape(basis_line(r)) + "\n\n";
+  for (const auto& t : r.tune->strategies) {
+    const StrategyLines s = strategy_lines(t, *r.context);
+    out += "- **" + markdown_escape(t.strategy.name) + "**\n";
+    for (const auto& l : s.lines)
+      if (!l.starts_with("swept") && !l.starts_with("code:"))
+        out += "  - " + markdown_escape(l) + "\n";
+  }
+  out += "\n";
+  for (const auto& l : tune_recommendation(r)) out += markdown_escape(l) + "\n\n";
+  return out;
+}
+
 std::string tune_csv(const TuneReport& r) {
   const units::System s = r.context->units;
   const Measure m(*r.context);

@@ -29,6 +29,12 @@ struct ComplianceSection {
   std::vector<ComplianceLine> lines;
 };
 
+// The setpoint tuning of each strategy (limitline tune), in short, with its plots.
+struct TuningSection {
+  std::string markdown;  // the summary: one item per strategy, then the recommendation
+  std::vector<std::pair<std::string, std::string>> plots;  // (strategy, standalone SVG)
+};
+
 struct ReportDocument {
   YearContext context;  // the annual report's context (its compliance column filled when known)
   // Facts of the air handler, in order: ("Supply air", "8000 cfm at 55.0 °F"), ...
@@ -38,6 +44,7 @@ struct ReportDocument {
   std::string chart_svg;    // psychrometric_chart_svg()
   std::string monthly_svg;  // monthly_hours_svg()
   std::optional<ComplianceSection> compliance;
+  std::optional<TuningSection> tuning;
   std::string generator;  // "limitline 0.1.0"
 };
 

@@ -29,6 +29,10 @@ std::string tune_json(const TuneReport& r);
 // overall, with ties, in sentences.
 std::vector<std::string> tune_recommendation(const TuneReport& r);
 
+// The per-strategy summary as Markdown list items (the report's tuning section), then the
+// recommendation.
+std::string tune_summary_markdown(const TuneReport& r);
+
 // Loss against the best setting, along the primary swept setting (with a second setting held
 // at its best), the 1 % band shaded and the named settings marked. Standalone SVG.
 std::string tune_plot_svg(const tuning::StrategyTuning& t, const YearContext& c);
