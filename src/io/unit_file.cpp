@@ -1152,10 +1152,10 @@ CoolingCapacity cooling_capacity(const UnitFile& unit) {
   const double p = unit.site.design_pressure_kpa();
   const double kw = airside::return_air_coil_load_kw(unit.air_handler, unit.return_air.at(p), p);
   return {kw, true,
-          "estimated from the supply airflow (standard air, 1.204 kg/m³) × (return-air "
+          "estimated from the supply airflow at standard air, 1.204 kg/m³, × (return-air "
           "enthalpy − coil-leaving enthalpy) at the design return air; no outdoor design state "
-          "is known, so the outdoor-air load is left out (give air_handler."
-          "design_cooling_capacity for the rated figure)"};
+          "is known, so the outdoor-air load is left out; give air_handler."
+          "design_cooling_capacity for the rated figure"};
 }
 
 }  // namespace limitline
