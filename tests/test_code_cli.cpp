@@ -260,3 +260,128 @@ TEST_CASE("help describes every mode and option") {
         "the README section 'Energy-code tables'", "from memory"})
     CHECK(has(r.out, s));
 }
+
+namespace {
+
+// The 4A fixture with its [[strategy]] tables replaced by `tail` and `extra` lines added to
+// [air_handler], written beside the other outputs of these tests.
+std::string fixture_variant(const std::string& name, const std::string& extra,
+                            const std::string& tail, const std::string& zone = "4A") {
+  std::string text = slurp(std::filesystem::path(LIMITLINE_TEST_DATA_DIR) / "codes-unit-4a.toml");
+  text = text.substr(0, text.find("[[strategy]]"));
+  text.replace(text.find("climate_zone = \"4A\""), 19, "climate_zone = \"" + zone + "\"");
+  const std::string anchor = "return_air_rh = \"50%\"\n";
+  text.replace(text.find(anchor), anchor.size(), anchor + extra);
+  const auto path = std::filesystem::path(LIMITLINE_BINARY_DIR) / "test_code_cli" / name;
+  std::ofstream(path) << text << tail;
+  return path.string();
+}
+
+}  // namespace
+
+TEST_CASE("one zone says whether an economizer is required, and from which capacity") {
+  // 90.1-2019 6.5.1, Table 6.5.1-1 (from memory): 54,000 Btu/h and up in 2A–8, none in 1A.
+  const Run r = run({"--edition", "ashrae-90.1-2019", "--zone", "4A"});
+  INFO(r.out);
+  REQUIRE(r.rc == 0);
+  CHECK(has(r.out, "Economizer requirement\n"));
+  CHECK(has(r.out, "4A: an air economizer is required on cooling systems of at least 54.0 kBtu/h"));
+  CHECK(has(r.out, "exceptions limitline does not weigh"));
+  CHECK(has(r.out, "water economizer"));
+  const Run humid = run({"--edition", "ashrae-90.1-2019", "--zone", "1A"});
+  CHECK(has(humid.out, "1A: no economizer is required in this zone"));
+  // Title 24 §140.4(e) (from memory): over 54,000 Btu/h, in every zone.
+  const Run t24 = run({"--edition", "title24-2022", "--zone", "12"});
+  CHECK(has(t24.out,
+            "CZ12: an air economizer is required on cooling systems of more than 54.0 "
+            "kBtu/h"));
+  const Run j = run({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--format", "json"});
+  REQUIRE(j.rc == 0);
+  CHECK(has(j.out, "\"economizer_requirement\": {"));
+  CHECK(has(j.out, "\"required_in_zone\": true"));
+  CHECK(json_number(j.out, "threshold_kbtu_per_h") == doctest::Approx(54));
+  CHECK(has(j.out, "\"at_threshold_required\": true"));
+  // 54,000 Btu/h is 15.83 kW (1 W = 3.412141633 Btu/h).
+  const Run si =
+      run({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--format", "json", "--units", "si"});
+  CHECK(json_number(si.out, "threshold_kw") == doctest::Approx(54 / 3.412141633));
+  const Run jh = run({"--edition", "ashrae-90.1-2019", "--zone", "1A", "--format", "json"});
+  CHECK(has(jh.out, "\"required_in_zone\": false"));
+  CHECK(has(jh.out, "\"threshold_kbtu_per_h\": null"));
+  const Run md = run({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--format", "md"});
+  CHECK(has(md.out, "## Economizer requirement"));
+  CHECK(has(md.out, "## Selectable setpoints"));
+}
+
+TEST_CASE("a unit: the economizer requirement on its written or estimated capacity") {
+  // Without design_cooling_capacity the capacity is an estimate, labelled as one. The fixture
+  // (4000 cfm, 55 °F supply, 75 °F / 50 % return) comes to about 98 kBtu/h.
+  const Run est = run({"tests/data/codes-unit-4a.toml"});
+  INFO(est.out);
+  REQUIRE(est.rc == 0);
+  CHECK(has(est.out, "Economizer requirement for this unit"));
+  CHECK(has(est.out, "cooling capacity of the unit: "));
+  CHECK(has(est.out, "estimated from the supply airflow"));
+  CHECK(has(est.out, "an air economizer is required for this unit, on its estimated capacity"));
+  const Run est_json = run({"tests/data/codes-unit-4a.toml", "--format", "json"});
+  CHECK(has(est_json.out, "\"capacity_estimated\": true"));
+  CHECK(has(est_json.out, "\"required\": true"));
+
+  // Given below the 54,000 Btu/h threshold (90.1-2019, from memory): not required.
+  const auto small = fixture_variant("small.toml", "design_cooling_capacity = \"48kBtu/h\"\n", "");
+  const Run given = run({small});
+  INFO(given.out);
+  REQUIRE(given.rc == 0);
+  CHECK(has(given.out, "cooling capacity of the unit: 48.0 kBtu/h (from "));
+  CHECK(has(given.out, "small.toml:15: air_handler.design_cooling_capacity"));
+  CHECK(has(given.out, "no economizer is required for this unit, on its capacity"));
+  CHECK_FALSE(has(given.out, "estimated from"));
+  const Run given_json = run({small, "--format", "json"});
+  CHECK(has(given_json.out, "\"capacity_estimated\": false"));
+  CHECK(has(given_json.out, "\"required\": false"));
+  CHECK(json_number(given_json.out, "capacity_kbtu_per_h") == doctest::Approx(48));
+  // In an exempt zone the capacity does not matter.
+  const Run exempt = run({small, "--zone", "1A"});
+  CHECK(has(exempt.out, "no economizer is required for this unit: the zone is exempt"));
+}
+
+TEST_CASE("a unit: a selectable-setpoint verdict, and an ordinary set-wrong") {
+  // 90.1-2019, zone 5B (from memory): fixed dry-bulb 75 °F, with the footnote allowing a device
+  // with selectable setpoints to be within 2 °F of it.
+  const auto unit =
+      fixture_variant("selectable.toml", "",
+                      "[[strategy]]\nname = \"step 74\"\npreset = \"fixed-dry-bulb\"\n"
+                      "dry_bulb_limit = \"74F\"\n\n"
+                      "[[strategy]]\nname = \"step 72\"\npreset = \"fixed-dry-bulb\"\n"
+                      "dry_bulb_limit = \"72F\"\n",
+                      "5B");
+  const Run r = run({unit});
+  INFO(r.out, r.err);
+  REQUIRE(r.rc == 0);
+  CHECK(has(line_of(r.out, "step 74 "), "complies-if-selectable"));
+  CHECK(has(line_of(r.out, "step 72 "), "set-wrong"));
+  CHECK(has(r.out, "dry-bulb limit 74.0 °F is 1.0 °F below the required 75.0 °F"));
+  CHECK(has(r.out,
+            "within the 2.0 °F the edition allows a device whose setpoints are "
+            "selectable"));
+  CHECK(has(r.out, "Selectable setpoints"));
+  CHECK(has(r.out, "from memory (a footnote of the high-limit table"));
+  const Run j = run({unit, "--format", "json"});
+  CHECK(has(j.out, "\"verdict\": \"complies-if-selectable\""));
+  CHECK(has(j.out, "\"selectable_setpoints\": {"));
+}
+
+TEST_CASE("a unit without [[strategy]] is judged at the [site] code's settings") {
+  // 90.1-2019, zone 4A (from memory): the fixed dry-bulb default becomes 65 °F, so it complies
+  // where the common-practice 75 °F would be set wrong.
+  const auto unit = fixture_variant("defaulted.toml", "", "");
+  const Run r = run({unit});
+  INFO(r.out);
+  REQUIRE(r.rc == 0);
+  CHECK(has(r.out, "at the settings of the [site]'s code where it allows the preset"));
+  CHECK(has(r.out, "ANSI/ASHRAE/IES Standard 90.1-2019 zone 4A"));
+  CHECK(has(line_of(r.out, "fixed-dry-bulb "), "complies"));
+  CHECK(has(line_of(r.out, "differential-dry-bulb "), "not-allowed"));
+  const Run j = run({unit, "--format", "json"});
+  CHECK(has(j.out, "\"settings_from_code\": \"ANSI/ASHRAE/IES Standard 90.1-2019 zone 4A"));
+}

@@ -324,7 +324,9 @@ TEST_CASE("changing one value changes exactly the paragraph that states it") {
         "elevation = \"300ft\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"5A\"");
     const auto a = build(coded, System::ip).doc;
     const auto b2 =
-        build(replace_once(coded, "dry_bulb_limit = \"72F\"", "dry_bulb_limit = \"76F\""),
+        // 79 °F keeps the verdict set-wrong (4 °F over 75 °F, beyond the 2 °F allowance of
+        // the selectable-setpoint footnote, from memory), so only the condition's text moves.
+        build(replace_once(coded, "dry_bulb_limit = \"72F\"", "dry_bulb_limit = \"79F\""),
               System::ip)
             .doc;
     CHECK(changed(a, b2) == std::set<std::string>{"3.3"});
@@ -680,4 +682,46 @@ TEST_CASE("the command: errors") {
     CHECK(contains(bad.err, "bad.toml:"));
     CHECK(contains(bad.err, "min_outdoor_air"));
   }
+}
+
+TEST_CASE("a preset setting left to the [site] code is the code's, and the text says so") {
+  // 90.1-2019 Table 6.5.1.1.3, zone 4A (from memory): fixed dry-bulb 65 °F.
+  const std::string coded =
+      replace_once(replace_once(kUnit, "elevation = \"300ft\"",
+                                "elevation = \"300ft\"\nenergy_code = \"ashrae-90.1-2019\"\n"
+                                "climate_zone = \"4A\""),
+                   "dry_bulb_limit = \"68F\"\n", "");
+  const auto b = build(coded, System::ip, "plain dry-bulb");
+  const auto all = paragraphs(b.doc);
+  std::string text;
+  for (const auto& [n, t] : all) text += t + "\n";
+  INFO(text);
+  CHECK(contains(text, "65 °F"));
+  CHECK(contains(text, "The unit file leaves this setting out, so it is that code's figure."));
+  // The same strategy with its limit written keeps it, and no such sentence appears.
+  const auto written = build(replace_once(coded, "name = \"plain dry-bulb\"\n",
+                                          "name = \"plain dry-bulb\"\ndry_bulb_limit = \"65F\"\n"),
+                             System::ip, "plain dry-bulb");
+  std::string wtext;
+  for (const auto& [n, t] : paragraphs(written.doc)) wtext += t + "\n";
+  CHECK_FALSE(contains(wtext, "leaves this setting out"));
+}
+
+TEST_CASE("a unit without [[strategy]] names the code whose settings its first preset has") {
+  std::string bare = kUnit.substr(0, kUnit.find("[[strategy]]"));
+  bare = replace_once(bare, "elevation = \"300ft\"",
+                      "elevation = \"300ft\"\nenergy_code = \"ashrae-90.1-2019\"\n"
+                      "climate_zone = \"4A\"");
+  const auto b = build(bare, System::ip);
+  std::string text;
+  for (const auto& [n, t] : paragraphs(b.doc)) text += t + "\n";
+  INFO(text);
+  CHECK(contains(text, "with the settings of ANSI/ASHRAE/IES Standard 90.1-2019 zone 4A"));
+  CHECK(contains(text, "65 °F"));
+  // Without a code: limitline's common-practice settings, 75 °F.
+  const auto plain = build(kUnit.substr(0, kUnit.find("[[strategy]]")), System::ip);
+  std::string ptext;
+  for (const auto& [n, t] : paragraphs(plain.doc)) ptext += t + "\n";
+  CHECK(contains(ptext, "common-practice settings"));
+  CHECK(contains(ptext, "75 °F"));
 }

@@ -1032,3 +1032,108 @@ TEST_CASE("the README's unit file example reads, part-load tables and all, witho
   CHECK(u.plant);
   CHECK(u.strategies.size() == 2);
 }
+
+// --- Cooling capacity and the energy code's defaults ----------------------------------------
+
+TEST_CASE("design_cooling_capacity: a power, bare numbers in the file's system, plausible band") {
+  const auto with = [](const std::string& line) {
+    return replace(kBase, "return_air_rh = \"50%\"\n", "return_air_rh = \"50%\"\n" + line + "\n");
+  };
+  // 1 W = 3.412141633 Btu/h (NIST SP 811); a bare number in an IP file is kBtu/h.
+  const UnitFile a = parse_unit_file(with("design_cooling_capacity = \"60kBtu/h\""), "unit.toml");
+  REQUIRE(a.design_cooling_capacity_kw);
+  CHECK(*a.design_cooling_capacity_kw == doctest::Approx(60.0 / 3.412141633));
+  CHECK(a.design_cooling_capacity_origin == "unit.toml:18: air_handler.design_cooling_capacity");
+  CHECK(a.warnings.empty());
+  const UnitFile b = parse_unit_file(with("design_cooling_capacity = 60"), "unit.toml");
+  CHECK(*b.design_cooling_capacity_kw == doctest::Approx(60.0 / 3.412141633));
+  const UnitFile t = parse_unit_file(with("design_cooling_capacity = \"5ton\""), "unit.toml");
+  CHECK(*t.design_cooling_capacity_kw == doctest::Approx(5 * 3.516852842));  // 12,000 Btu/h
+  // Outside 3–3000 kW (common practice for one unit): used, with a warning naming the key.
+  const UnitFile small = parse_unit_file(with("design_cooling_capacity = \"1kW\""), "unit.toml");
+  REQUIRE(small.warnings.size() == 1);
+  CHECK(small.warnings[0].find("unit.toml:18: air_handler.design_cooling_capacity") == 0);
+  refuses(with("design_cooling_capacity = \"0kW\""), 18, "air_handler.design_cooling_capacity",
+          "more than 0");
+  refuses(with("design_cooling_capacity = \"-5kW\""), 18, "air_handler.design_cooling_capacity",
+          "outside the allowed range");
+  refuses(with("design_cooling_capacity = \"60F\""), 18, "air_handler.design_cooling_capacity", "");
+  const UnitFile none = parse_unit_file(kBase, "unit.toml");
+  CHECK_FALSE(none.design_cooling_capacity_kw);
+}
+
+TEST_CASE("the cooling capacity is the key's, else an estimate from airflow and return air") {
+  // Invented SI unit: 5 m³/s, coil leaving 13 °C, return air 24 °C with W = 0.008.
+  const std::string text = R"(units = "si"
+[air_handler]
+supply_airflow = 5
+supply_air_temp = 13
+min_outdoor_air = "20%"
+return_air_temp = 24
+return_air_humidity_ratio = 0.008
+)";
+  const UnitFile u = parse_unit_file(text, "si.toml");
+  const auto c = limitline::cooling_capacity(u);
+  CHECK(c.estimated);
+  CHECK(c.basis.find("estimated from the supply airflow") == 0);
+  // Hand calculation, ASHRAE Fundamentals ch. 1 eq. 32: h = 1.006 t + W (2501 + 1.86 t). The
+  // return air's dew point (about 10.7 °C, eqs. 20 and 38) is below 13 °C, so the coil is dry
+  // and W is unchanged: Δh = (1.006 + 1.86 W)(24 − 13). Mass flow at standard air, 1.204 kg/m³
+  // (common practice): ṁ = 5 × 1.204 kg/s.
+  const double dh = (1.006 + 1.86 * 0.008) * (24.0 - 13.0);
+  CHECK(c.kw == doctest::Approx(5 * 1.204 * dh).epsilon(1e-6));
+  const UnitFile g = parse_unit_file(text + "design_cooling_capacity = 80\n", "si.toml");
+  const auto given = limitline::cooling_capacity(g);
+  CHECK_FALSE(given.estimated);
+  CHECK(given.kw == 80.0);
+  CHECK(given.basis == "si.toml:8: air_handler.design_cooling_capacity");
+}
+
+TEST_CASE("presets left unset take the [site] code's values; without a code, common practice") {
+  // kBase names ANSI/ASHRAE/IES 90.1-2019, zone 4A: its fixed dry-bulb limit is 65 °F (Table
+  // 6.5.1.1.3, from memory) where common practice is 75 °F.
+  const UnitFile coded = parse_unit_file(kBase, "unit.toml");
+  const auto with_code = limitline::strategies_or_presets(coded);
+  REQUIRE(with_code.size() == hl::presets().size());
+  const auto& fdb = with_code[0];
+  REQUIRE(fdb.preset == "fixed-dry-bulb");
+  CHECK(fdb.conditions[0].limit == doctest::Approx((65 - 32) / 1.8));
+  CHECK(fdb.source(0) == hl::SettingSource::code);
+  CHECK(fdb.code_source.find("ANSI/ASHRAE/IES Standard 90.1-2019 zone 4A") == 0);
+
+  const std::string no_code = replace(replace(kBase, "energy_code = \"ashrae-90.1-2019\"\n", ""),
+                                      "climate_zone = \"4A\"\n", "");
+  const auto plain = limitline::strategies_or_presets(parse_unit_file(no_code, "unit.toml"));
+  CHECK(plain[0].conditions[0].limit == doctest::Approx((75 - 32) / 1.8));
+  CHECK(plain[0].source(0) == hl::SettingSource::common_practice);
+  CHECK(plain[0].code_source.empty());
+
+  // A [[strategy]] preset keeps what it writes, and takes the code's value for what it omits.
+  const std::string blocks = kBase + R"(
+[[strategy]]
+name = "written"
+preset = "fixed-dry-bulb"
+dry_bulb_limit = "72F"
+
+[[strategy]]
+name = "left out"
+preset = "fixed-dry-bulb"
+deadband = "1F"
+)";
+  const auto s = limitline::strategies_or_presets(parse_unit_file(blocks, "unit.toml"));
+  REQUIRE(s.size() == 2);
+  CHECK(s[0].conditions[0].limit == doctest::Approx((72 - 32) / 1.8));
+  CHECK(s[0].source(0) == hl::SettingSource::written);
+  CHECK(s[1].conditions[0].limit == doctest::Approx((65 - 32) / 1.8));
+  CHECK(s[1].conditions[0].deadband == doctest::Approx(1 / 1.8));
+  CHECK(s[1].source(0) == hl::SettingSource::code);
+
+  // A site naming an edition that is not loaded is refused with the key's line.
+  const std::string bad = replace(kBase, "ashrae-90.1-2019", "ashrae-90.1-2099");
+  try {
+    (void)limitline::strategies_or_presets(parse_unit_file(bad, "unit.toml"));
+    FAIL("no InputError");
+  } catch (const InputError& e) {
+    CHECK(std::string(e.what()).find("unit.toml:4: site.energy_code") == 0);
+  }
+}

@@ -253,3 +253,46 @@ TEST_CASE("--batch on Ctrl-C reports the finished sites marked partial (exit 130
   CHECK(contains(messages, "b-pipe.csv"));
   CHECK(contains(messages, "interrupted; partial results written"));
 }
+
+TEST_CASE("presets left unset take the [site] code's values, and the description says so") {
+  // ANSI/ASHRAE/IES 90.1-2019 Table 6.5.1.1.3, zone 4A (from memory): fixed dry-bulb 65 °F;
+  // limitline's common-practice default is 75 °F.
+  const std::string site_code =
+      "[site]\nname = \"coded\"\nenergy_code = \"ashrae-90.1-2019\"\nclimate_zone = \"4A\"\n";
+  const std::string handler = R"([air_handler]
+supply_airflow = "6000cfm"
+supply_air_temp = "55F"
+min_outdoor_air = "30%"
+return_air_temp = "75F"
+return_air_rh = "50%"
+)";
+  const auto write = [](const std::string& name, const std::string& text) {
+    const auto p = scratch_dir("year_cli") / name;
+    std::ofstream(p) << text;
+    return p.string();
+  };
+  const auto coded = write("coded.toml", site_code + handler);
+  const auto r = run_cli({"year", coded, "--weather", data("greensboro-nc-tmy3.csv")}, "year_cli");
+  INFO(r.out, r.err);
+  REQUIRE(r.rc == 0);
+  CHECK(contains(r.out,
+                 "fixed-dry-bulb: off when outdoor dry-bulb above 65.0 °F (65.0 °F from "
+                 "ANSI/ASHRAE/IES Standard 90.1-2019 zone 4A, Table 6.5.1.1.3, from memory)"));
+  // A preset the zone prohibits keeps common practice; its compliance word says so.
+  CHECK(contains(r.out,
+                 "differential-dry-bulb: off when outdoor dry-bulb above return-air "
+                 "dry-bulb\n"));
+
+  const auto plain = write("plain.toml", "[site]\nname = \"plain\"\n" + handler);
+  const auto p = run_cli({"year", plain, "--weather", data("greensboro-nc-tmy3.csv")}, "year_cli");
+  REQUIRE(p.rc == 0);
+  CHECK(contains(p.out, "fixed-dry-bulb: off when outdoor dry-bulb above 75.0 °F\n"));
+
+  const auto written = write("written.toml", site_code + handler +
+                                                 "[[strategy]]\npreset = \"fixed-dry-bulb\"\n"
+                                                 "dry_bulb_limit = \"70F\"\n");
+  const auto w =
+      run_cli({"year", written, "--weather", data("greensboro-nc-tmy3.csv")}, "year_cli");
+  REQUIRE(w.rc == 0);
+  CHECK(contains(w.out, "fixed-dry-bulb: off when outdoor dry-bulb above 70.0 °F\n"));
+}

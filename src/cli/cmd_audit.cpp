@@ -72,9 +72,11 @@ highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map&
   }
   const auto all = strategies_or_presets(unit);
   if (!vm.count("strategy")) {
-    source = unit.strategies_defaulted
+    source = !unit.strategies_defaulted ? "first strategy of the unit file"
+             : all.front().code_source.empty()
                  ? "no strategy in the unit file: first preset at common-practice settings"
-                 : "first strategy of the unit file";
+                 : "no strategy in the unit file: first preset, with the settings of " +
+                       all.front().code_source;
     return all.front();
   }
   const std::string want = text::normalise_name(vm["strategy"].as<std::string>());

@@ -22,19 +22,27 @@ std::string details() {
       "judges the strategies of a unit file against it.\n\n"
       "  limitline code --edition ashrae-90.1-2019 --zone 4A\n"
       "      the allowed high-limit control types in the zone with their required settings,\n"
-      "      clause, footnotes and provenance; the prohibited types; the integrated-\n"
-      "      economizer requirement (checked when --economizer is given).\n"
+      "      clause, footnotes and provenance; the prohibited types; whether the zone\n"
+      "      requires an economizer and from which cooling capacity; the integrated-\n"
+      "      economizer requirement (checked when --economizer is given); the selectable-\n"
+      "      setpoint footnote where the edition has one.\n"
       "  limitline code UNIT.toml\n"
       "      a verdict for every [[strategy]] of the unit file (every preset at its default\n"
       "      settings when it has none), edition and zone from its [site] energy_code and\n"
       "      climate_zone (--edition and --zone override them):\n"
       "        complies       an allowed type, set as the table requires\n"
+      "        complies-if-selectable\n"
+      "                       off the listed fixed limit, but within the edition's allowance\n"
+      "                       for devices whose setpoints are selectable in steps\n"
       "        not-allowed    the type is prohibited, or not listed, in this zone\n"
       "        set-wrong      an allowed type with a setting off by more than the tolerance\n"
       "                       (says by how much and which way)\n"
       "        not-evaluable  the conditions are equivalent to no control type\n"
-      "      with the compliant settings to use instead, and the unit's economizer against\n"
-      "      the integrated-economizer requirement.\n"
+      "      with the compliant settings to use instead, the unit's economizer against\n"
+      "      the integrated-economizer requirement, and whether an economizer is required\n"
+      "      for this unit: its air_handler.design_cooling_capacity, or when absent an\n"
+      "      estimate from the supply airflow and the design return air (labelled so).\n"
+      "      Preset settings the unit file leaves out take the [site] code's values.\n"
       "  limitline code --all-editions    one matrix, zone x edition, of what is allowed\n"
       "  limitline code --list-editions   the loaded editions and the files they came from\n\n"
       "Editions: ashrae-90.1-2010, -2013, -2016, -2019, -2022; iecc-2015, -2018, -2021,\n"
@@ -224,6 +232,11 @@ int run_code(const std::vector<std::string>& args) {
   u.defaulted = file.strategies_defaulted;
   u.economizer = economizer.value_or(file.air_handler.economizer);
   for (const auto& st : u.strategies) u.checks.push_back(codes::check_strategy(req, st));
+  const CoolingCapacity capacity = cooling_capacity(file);
+  u.capacity_kw = capacity.kw;
+  u.capacity_estimated = capacity.estimated;
+  u.capacity_basis = capacity.basis;
+  u.need = codes::economizer_need(req, capacity.kw);
   write_out(formatted(common.format, report::code_unit_text, report::code_unit_markdown,
                       report::code_unit_json, u, s));
   return 0;

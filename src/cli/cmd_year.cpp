@@ -19,8 +19,9 @@ namespace limitline::cli {
 namespace {
 
 constexpr std::string_view kDetails =
-    "Runs every strategy of the unit file (all presets at common-practice settings when it\n"
-    "gives none) and three references over a year of weather: no economizer, the perfect\n"
+    "Runs every strategy of the unit file (all presets when it gives none; preset settings\n"
+    "left out take the [site] code's values for its climate zone, else common practice) and\n"
+    "three references over a year of weather: no economizer, the perfect\n"
     "changeover (each hour enabled or not, whichever costs less) and the optimal damper (each\n"
     "hour the damper position that costs least). Strategies are ranked by their energy\n"
     "shortfall against the perfect changeover; harmful hours are hours economizing when it\n"

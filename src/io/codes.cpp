@@ -39,10 +39,12 @@ constexpr Named<ZoneSystem> kZoneSystemNames[] = {{"ashrae-169", ZoneSystem::ash
                                                   {"california", ZoneSystem::california}};
 constexpr Named<Permission> kPermissionNames[] = {{"allowed", Permission::allowed},
                                                   {"prohibited", Permission::prohibited}};
-constexpr Named<Verdict> kVerdictWords[] = {{"complies", Verdict::complies},
-                                            {"not-allowed", Verdict::not_allowed},
-                                            {"set-wrong", Verdict::set_wrong},
-                                            {"not-evaluable", Verdict::not_evaluable}};
+constexpr Named<Verdict> kVerdictWords[] = {
+    {"complies", Verdict::complies},
+    {"complies-if-selectable", Verdict::complies_if_selectable},
+    {"not-allowed", Verdict::not_allowed},
+    {"set-wrong", Verdict::set_wrong},
+    {"not-evaluable", Verdict::not_evaluable}};
 
 constexpr Quantity kQuantities[] = {Quantity::dry_bulb, Quantity::enthalpy, Quantity::dew_point,
                                     Quantity::humidity_ratio};
@@ -358,6 +360,130 @@ IntegrationRule read_integration(const toml::table& t, const std::string& file) 
   return rule;
 }
 
+constexpr std::string_view kGroupKeys =
+    "zones, required, capacity_kbtu_per_h, capacity_kw, inclusive, note, provenance";
+
+RequirementGroup read_group(const toml::table& t, const std::string& file, const Edition& e,
+                            const std::string& table_provenance) {
+  TableReader r(t, file, "[[economizer_requirement.group]]");
+  RequirementGroup g;
+  g.origin = fmt::format("{}:{}", file, r.line());
+  g.zones = read_zones(r, "zones", e);
+  g.required = *r.boolean("required", true);
+  const std::string ip_key = fmt::format("capacity_{}", units::key_suffix(Kind::power, System::ip));
+  const std::string si_key = fmt::format("capacity_{}", units::key_suffix(Kind::power, System::si));
+  if (g.required) {
+    g.capacity_ip = *r.number(ip_key, true);
+    g.capacity_si = *r.number(si_key, true);
+    for (const auto& [key, v] :
+         {std::pair{ip_key, g.capacity_ip}, std::pair{si_key, g.capacity_si}})
+      if (!(v >= 0.0)) r.fail(key, "must not be negative");
+    const double from_ip = units::from_display(Kind::power, System::ip, g.capacity_ip);
+    const double larger = std::max(from_ip, g.capacity_si);
+    if (std::fabs(from_ip - g.capacity_si) > kCapacityAgreementShare * larger + 1e-9)
+      r.fail(si_key, fmt::format("{} disagrees with {} = {}, which is {:.1f} kW (allowed "
+                                 "difference {:g} % of the threshold)",
+                                 g.capacity_si, ip_key, g.capacity_ip, from_ip,
+                                 100.0 * kCapacityAgreementShare));
+    g.inclusive = *r.boolean("inclusive", true);
+  } else {
+    for (const std::string& key : {ip_key, si_key, std::string("inclusive")})
+      if (r.has(key)) r.fail(key, "a group where no economizer is required takes no threshold");
+  }
+  g.note = r.string("note", false).value_or("");
+  g.provenance = r.string("provenance", false).value_or(table_provenance);
+  r.finish(kGroupKeys);
+  return g;
+}
+
+// Every zone of the edition in exactly one group.
+void check_group_coverage(const EconomizerRequirement& req, const Edition& e) {
+  std::vector<std::string> missing;
+  for (const auto& z : e.zones) {
+    const RequirementGroup* first = nullptr;
+    for (const auto& g : req.groups) {
+      if (std::find(g.zones.begin(), g.zones.end(), z) == g.zones.end()) continue;
+      if (first)
+        throw InputError(fmt::format(
+            "{}: [[economizer_requirement.group]] covers zone {} again (already covered by "
+            "the group at {})",
+            g.origin, z, first->origin));
+      first = &g;
+    }
+    if (!first) missing.push_back(z);
+  }
+  if (!missing.empty())
+    throw InputError(fmt::format(
+        "{}: [economizer_requirement]: no group for zone{} {}; every zone of {} is in exactly "
+        "one group (required = false for an exempt zone)",
+        req.origin, missing.size() > 1 ? "s" : "", join(missing, ", "), e.id));
+}
+
+EconomizerRequirement read_requirement(const toml::table& t, const std::string& file,
+                                       const Edition& e) {
+  TableReader r(t, file, "[economizer_requirement]");
+  EconomizerRequirement req;
+  req.origin = fmt::format("{}:{}", file, r.line());
+  req.clause = *r.string("clause", true);
+  req.table = r.string("table", false).value_or("");
+  req.requirement = *r.string("requirement", true);
+  req.exceptions = r.strings("exceptions", false);
+  req.provenance = *r.string("provenance", true);
+  const toml::node* n = r.node("group");
+  if (!n) r.fail_table("no [[economizer_requirement.group]] tables");
+  const toml::array* a = n->as_array();
+  if (!a || !a->is_array_of_tables() || a->empty())
+    r.fail("group", "must be written as [[economizer_requirement.group]] tables");
+  for (const auto& g : *a) req.groups.push_back(read_group(*g.as_table(), file, e, req.provenance));
+  r.finish("clause, table, requirement, exceptions, provenance, group");
+  check_group_coverage(req, e);
+  return req;
+}
+
+constexpr Quantity kSelectableQuantities[] = {Quantity::dry_bulb, Quantity::enthalpy,
+                                              Quantity::dew_point};
+
+std::string allowance_key(Quantity q, System s) {
+  return fmt::format("{}_{}", setting_stem(q, Reference::fixed),
+                     units::key_suffix(highlimit::quantity_difference_kind(q), s));
+}
+
+SelectableSetpoints read_selectable(const toml::table& t, const std::string& file) {
+  TableReader r(t, file, "[selectable_setpoints]");
+  SelectableSetpoints f;
+  f.origin = fmt::format("{}:{}", file, r.line());
+  f.clause = *r.string("clause", true);
+  f.table = r.string("table", false).value_or("");
+  f.note = *r.string("note", true);
+  std::string keys = "clause, table, note, provenance";
+  for (Quantity q : kSelectableQuantities) {
+    const std::string ip = allowance_key(q, System::ip), si = allowance_key(q, System::si);
+    keys += ", " + ip + ", " + si;
+    if (!r.has(ip) && !r.has(si)) continue;
+    SelectableAllowance a{q, *r.number(ip, true), *r.number(si, true)};
+    for (const auto& [key, v] : {std::pair{ip, a.ip}, std::pair{si, a.si}})
+      if (!(v > 0.0)) r.fail(key, "must be above 0");
+    const Kind kind = highlimit::quantity_difference_kind(q);
+    const double from_ip = units::from_display(kind, System::ip, a.ip);
+    const double from_si = units::from_display(kind, System::si, a.si);
+    const double agree = q == Quantity::enthalpy ? kStoredAgreementKjPerKg : kStoredAgreementK;
+    if (std::fabs(from_ip - from_si) > agree + 1e-9)
+      r.fail(si, fmt::format("{} disagrees with {} = {}, which is {:.2f} {} (allowed difference "
+                             "{} {})",
+                             a.si, ip, a.ip, units::to_display(kind, System::si, from_ip),
+                             units::unit_label(kind, System::si), agree,
+                             units::unit_label(kind, System::si)));
+    f.allowances.push_back(a);
+  }
+  if (f.allowances.empty())
+    r.fail_table(fmt::format("gives no allowance (give at least one pair of {}, {})",
+                             allowance_key(Quantity::dry_bulb, System::ip),
+                             allowance_key(Quantity::dry_bulb, System::si)));
+  f.provenance = *r.string("provenance", true);
+  r.finish(keys);
+  return f;
+}
+
 std::vector<Row> read_rows(TableReader& top, const Edition& e) {
   const toml::node* n = top.node("row");
   if (!n) top.fail_table("no [[row]] tables");
@@ -408,8 +534,12 @@ Edition read_edition(const toml::table& doc, const std::string& file) {
   r.finish("id, title, zone_system, zones, governing_units, si_note, provenance");
 
   e.integration = read_integration(*top.table("integration", true), file);
+  if (const toml::table* req = top.table("economizer_requirement", false))
+    e.economizer_requirement = read_requirement(*req, file, e);
+  if (const toml::table* sel = top.table("selectable_setpoints", false))
+    e.selectable = read_selectable(*sel, file);
   e.rows = read_rows(top, e);
-  top.finish("edition, integration, row");
+  top.finish("edition, integration, economizer_requirement, selectable_setpoints, row");
   e.sources.push_back(file);
   check_coverage(e, file);
   return e;
@@ -434,12 +564,20 @@ void apply_amendment(const toml::table& doc, const std::string& file,
   r.string("provenance", true);
   r.finish("edition, name, provenance");
   Edition& e = *it;
-  if (!top.has("integration") && !top.has("row"))
-    r.fail_table("changes nothing: give [[row]] tables or an [integration] table");
+  if (!top.has("integration") && !top.has("row") && !top.has("economizer_requirement") &&
+      !top.has("selectable_setpoints"))
+    r.fail_table(
+        "changes nothing: give [[row]] tables, an [integration], [economizer_requirement] or "
+        "[selectable_setpoints] table");
   if (const toml::table* integ = top.table("integration", false))
     e.integration = read_integration(*integ, file);
+  // Either table replaces the edition's whole table: its groups cover every zone again.
+  if (const toml::table* req = top.table("economizer_requirement", false))
+    e.economizer_requirement = read_requirement(*req, file, e);
+  if (const toml::table* sel = top.table("selectable_setpoints", false))
+    e.selectable = read_selectable(*sel, file);
   const std::vector<Row> rows = top.has("row") ? read_rows(top, e) : std::vector<Row>{};
-  top.finish("amendment, integration, row");
+  top.finish("amendment, integration, economizer_requirement, selectable_setpoints, row");
   for (const Row& amended : rows) {
     for (Row& old : e.rows) {
       if (old.control != amended.control) continue;
@@ -746,6 +884,104 @@ void check_site_code(std::string_view edition, std::string_view edition_origin,
   requirements(tables.edition(edition, edition_origin), zone, {}, zone_origin);
 }
 
+// --- Economizer requirement ----------------------------------------------------------------
+
+double RequirementGroup::threshold_kw(System compare_in) const {
+  return compare_in == System::ip ? units::from_display(Kind::power, System::ip, capacity_ip)
+                                  : capacity_si;
+}
+
+const RequirementGroup* EconomizerRequirement::group(std::string_view zone) const {
+  for (const auto& g : groups)
+    if (std::find(g.zones.begin(), g.zones.end(), zone) != g.zones.end()) return &g;
+  return nullptr;
+}
+
+std::optional<double> SelectableSetpoints::allowance(Quantity quantity, System compare_in) const {
+  for (const auto& a : allowances)
+    if (a.quantity == quantity)
+      return units::from_display(highlimit::quantity_difference_kind(quantity), compare_in,
+                                 compare_in == System::ip ? a.ip : a.si);
+  return std::nullopt;
+}
+
+std::string_view need_text(Need n) {
+  switch (n) {
+    case Need::required: return "required";
+    case Need::below_threshold: return "not required (below the threshold)";
+    case Need::exempt_zone: return "not required in this zone";
+    case Need::no_table: break;
+  }
+  return "not stated (the edition's file has no requirement table)";
+}
+
+NeedCheck economizer_need(const ZoneRequirements& zone, std::optional<double> capacity_kw) {
+  NeedCheck out;
+  if (!zone.edition->economizer_requirement) return out;
+  out.table = &*zone.edition->economizer_requirement;
+  out.group = out.table->group(zone.zone);
+  if (!out.group) return out;  // coverage is checked on load
+  if (!out.group->required) {
+    out.need = Need::exempt_zone;
+    return out;
+  }
+  out.threshold_kw = out.group->threshold_kw(zone.compare_in);
+  out.need = Need::required;
+  if (capacity_kw) {
+    // Compared in the figure's own units, to the digit the table states it.
+    const double shown = units::to_display(Kind::power, zone.compare_in, *capacity_kw);
+    const double limit = units::to_display(Kind::power, zone.compare_in, out.threshold_kw);
+    const bool reaches = out.group->inclusive ? shown >= limit - 1e-9 : shown > limit + 1e-9;
+    if (!reaches) out.need = Need::below_threshold;
+  }
+  return out;
+}
+
+std::string threshold_text(const NeedCheck& n, System system) {
+  if (!n.group) return std::string(need_text(n.need));
+  if (!n.group->required)
+    return fmt::format("no economizer is required in this zone ({})",
+                       n.table->table.empty() ? n.table->clause : n.table->table);
+  return fmt::format(
+      "an air economizer is required on cooling systems of {} {} of cooling "
+      "capacity ({})",
+      n.group->inclusive ? "at least" : "more than",
+      units::format(Kind::power, system, n.threshold_kw, 1),
+      n.table->table.empty() ? n.table->clause : n.table->table);
+}
+
+// --- Preset settings from the code ----------------------------------------------------------
+
+std::string code_source_text(const ZoneRequirements& zone, const Row& row) {
+  const std::string& prov = row.provenance;
+  const std::string first = prov.substr(0, prov.find(';'));
+  return fmt::format("{} zone {}, {}{}{}", zone.edition->title, zone.zone,
+                     row.table.empty() ? row.clause : row.table, first.empty() ? "" : ", ", first);
+}
+
+void apply_code_defaults(std::vector<highlimit::Strategy>& strategies,
+                         const ZoneRequirements& zone) {
+  for (auto& st : strategies) {
+    if (st.preset.empty()) continue;
+    const auto allowed = std::find_if(
+        zone.allowed.begin(), zone.allowed.end(),
+        [&](const AllowedControl& c) { return c.row->modelled && c.row->control == st.preset; });
+    if (allowed == zone.allowed.end()) continue;  // prohibited: common practice, not-allowed
+    bool any = false;
+    for (std::size_t i = 0; i < st.conditions.size(); ++i) {
+      if (st.source(i) != highlimit::SettingSource::common_practice) continue;
+      highlimit::Condition& c = st.conditions[i];
+      for (const auto& req : allowed->settings) {
+        if (req.quantity != c.quantity || req.reference != c.reference) continue;
+        c.limit = req.value;
+        st.sources[i] = highlimit::SettingSource::code;
+        any = true;
+      }
+    }
+    if (any) st.code_source = code_source_text(zone, *allowed->row);
+  }
+}
+
 // --- Matching -----------------------------------------------------------------------------
 
 std::optional<MatchedControl> match_control(const highlimit::Strategy& strategy,
@@ -802,6 +1038,18 @@ double tolerance(Quantity q, System system) {
   return 0.0;
 }
 
+// Every deviation is of a fixed limit the edition's selectable-setpoint footnote covers, and
+// within its allowance (compared as the tolerance is, in the figures of the verdict).
+bool within_selectable(const ZoneRequirements& zone, const std::vector<Deviation>& deviations) {
+  if (!zone.edition->selectable) return false;
+  for (const auto& d : deviations) {
+    if (d.reference != Reference::fixed) return false;
+    const auto allowance = zone.edition->selectable->allowance(d.quantity, zone.compare_in);
+    if (!allowance || std::fabs(d.difference()) > *allowance + 1e-9) return false;
+  }
+  return !deviations.empty();
+}
+
 StrategyCheck check_strategy(const ZoneRequirements& zone, const highlimit::Strategy& strategy) {
   StrategyCheck out;
   out.matched = match_control(strategy, zone.pressure_kpa.value_or(psychro::kStandardPressureKpa));
@@ -830,7 +1078,11 @@ StrategyCheck check_strategy(const ZoneRequirements& zone, const highlimit::Stra
     }
   }
   out.verdict = out.deviations.empty() ? Verdict::complies : Verdict::set_wrong;
-  if (out.verdict == Verdict::set_wrong) out.instead = {*allowed};
+  if (out.verdict == Verdict::set_wrong && within_selectable(zone, out.deviations)) {
+    out.verdict = Verdict::complies_if_selectable;
+    out.selectable = &*zone.edition->selectable;
+  }
+  if (out.verdict != Verdict::complies) out.instead = {*allowed};
   return out;
 }
 
@@ -930,6 +1182,24 @@ std::string verdict_text(const StrategyCheck& check, const ZoneRequirements& zon
       for (const auto& d : check.deviations) parts.push_back(deviation_text(d, system));
       return fmt::format("{} is allowed in {} ({}), but {}{}", check.matched->control, where,
                          cite(*check.row), join(parts, "; "), read_as);
+    }
+    case Verdict::complies_if_selectable: {
+      const SelectableSetpoints& f = *check.selectable;
+      std::vector<std::string> parts, allowances;
+      for (const auto& d : check.deviations) {
+        parts.push_back(deviation_text(d, system));
+        const Kind kind = highlimit::quantity_difference_kind(d.quantity);
+        const std::string a =
+            units::format(kind, system, *f.allowance(d.quantity, zone.compare_in), 1);
+        if (std::find(allowances.begin(), allowances.end(), a) == allowances.end())
+          allowances.push_back(a);
+      }
+      return fmt::format(
+          "{} is allowed in {} ({}); {}; that is within the {} the edition allows a device "
+          "whose setpoints are selectable in steps rather than adjustable ({}; {}), so it "
+          "complies only on such a device with no step nearer the listed setting{}",
+          check.matched->control, where, cite(*check.row), join(parts, "; "),
+          join(allowances, " and "), f.table.empty() ? f.clause : f.table, f.provenance, read_as);
     }
     case Verdict::not_evaluable: break;
   }

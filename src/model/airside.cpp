@@ -241,6 +241,11 @@ CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& lim, const AirSta
   return c;
 }
 
+double return_air_coil_load_kw(const AirHandler& unit, const AirState& ret, double pressure_kpa) {
+  const CoilLoads c = coil_loads(unit, coil_limits(unit, pressure_kpa), ret);
+  return unit.dry_air_mass_flow_kg_per_s() * c.cooling_kj_per_kg;
+}
+
 Operation operate(const AirHandler& unit, const HourAir& air, bool enabled,
                   const EnergyWeights& w) {
   const double target = unit.mixed_air_target_c();

@@ -185,6 +185,7 @@ Strategy make_preset(std::string_view preset, const PresetSettings& settings, st
       s.conditions.push_back(Condition{c->quantity, c->reference,
                                        setting_value(settings, c->setting),
                                        deadband_for(settings, c->quantity)});
+      s.sources.push_back(SettingSource::common_practice);
     }
     return s;
   }

@@ -26,6 +26,9 @@ constexpr Band kBands[] = {
     {"air_handler.min_outdoor_airflow", Kind::airflow, 0.0, 200.0,
      "the outdoor airflow of one unit"},
     {"air_handler.supply_air_temp", Kind::temperature, 5.0, 25.0, "a supply-air setpoint"},
+    // From a small packaged unit (about a ton) to the largest built-up air handlers.
+    {"air_handler.design_cooling_capacity", Kind::power, 3.0, 3000.0,
+     "the cooling capacity of one unit"},
     {"air_handler.fan_heat", Kind::temperature_difference, 0.0, 5.0, "a supply-fan heat rise"},
     // Above 80 % minimum outdoor air an economizer has almost nothing left to decide.
     {"air_handler.min_outdoor_air", Kind::fraction, 0.0, 0.8, "a ventilation minimum"},

@@ -226,6 +226,146 @@ std::string integration_text(Format f, const codes::Edition& e,
   return out;
 }
 
+// --- Economizer requirement and selectable setpoints ----------------------------------------
+
+std::string table_cite(const std::string& clause, const std::string& table) {
+  return table.empty() ? clause : fmt::format("{}, {}", clause, table);
+}
+
+// The requirement of the zone, and for a unit its capacity and the answer.
+std::string requirement_text(Format f, const codes::ZoneRequirements& req, const CodeVerdicts* u,
+                             System s) {
+  const codes::NeedCheck zone_need = codes::economizer_need(req);
+  const std::string bullet = f == Format::md ? "- " : "  ";
+  const std::string sub = f == Format::md ? "  - " : "      - ";
+  std::string out =
+      "\n" + heading(f, u ? "Economizer requirement for this unit" : "Economizer requirement");
+  if (!zone_need.table) {
+    out += fmt::format("{}{}\n", bullet, codes::need_text(zone_need.need));
+    return out;
+  }
+  const codes::EconomizerRequirement& t = *zone_need.table;
+  out += fmt::format("{}{}: {}\n", bullet, req.zone, codes::threshold_text(zone_need, s));
+  if (!zone_need.group->note.empty())
+    out += fmt::format("{}note: {}\n", bullet, zone_need.group->note);
+  out += fmt::format("{}the requirement ({}): {}\n", bullet, table_cite(t.clause, t.table),
+                     t.requirement);
+  if (u) {
+    out += fmt::format("{}cooling capacity of the unit: {} ({}{})\n", bullet,
+                       units::format(Kind::power, s, u->capacity_kw, 1),
+                       u->capacity_estimated ? "" : "from ", u->capacity_basis);
+    const std::string on = u->capacity_estimated ? "on its estimated capacity" : "on its capacity";
+    std::string answer;
+    switch (u->need.need) {
+      case codes::Need::required:
+        answer = fmt::format(
+            "an air economizer is required for this unit, {}; a water economizer, which "
+            "limitline does not model, may stand in",
+            on);
+        break;
+      case codes::Need::below_threshold:
+        answer = fmt::format(
+            "no economizer is required for this unit, {}: it is below the "
+            "threshold",
+            on);
+        break;
+      case codes::Need::exempt_zone:
+        answer = "no economizer is required for this unit: the zone is exempt";
+        break;
+      case codes::Need::no_table: answer = std::string(codes::need_text(u->need.need)); break;
+    }
+    out += fmt::format("{}-> {}\n", bullet, answer);
+  }
+  if (!t.exceptions.empty()) {
+    out += fmt::format("{}exceptions limitline does not weigh (check them by hand):\n", bullet);
+    for (const auto& e : t.exceptions) out += fmt::format("{}{}\n", sub, e);
+  }
+  out += fmt::format("{}provenance: {}\n", bullet, zone_need.group->provenance);
+  return out;
+}
+
+std::string selectable_text(Format f, const codes::Edition& e, System compare_in, System s) {
+  if (!e.selectable) return {};
+  const codes::SelectableSetpoints& sel = *e.selectable;
+  const std::string bullet = f == Format::md ? "- " : "  ";
+  std::string list;
+  for (const auto& a : sel.allowances)
+    list += fmt::format("{}{} {}", list.empty() ? "" : ", ", highlimit::quantity_name(a.quantity),
+                        units::format(highlimit::quantity_difference_kind(a.quantity), s,
+                                      *sel.allowance(a.quantity, compare_in), 1));
+  return "\n" + heading(f, "Selectable setpoints") +
+         fmt::format(
+             "{}{}: {}\n{}allowance: within {} of a listed fixed limit; a setting off "
+             "the listed figure but within its allowance is judged "
+             "complies-if-selectable\n{}provenance: {}\n",
+             bullet, table_cite(sel.clause, sel.table), sel.note, bullet, list, bullet,
+             sel.provenance);
+}
+
+void json_requirement(Json& j, const codes::ZoneRequirements& req, const CodeVerdicts* u,
+                      System s) {
+  const codes::NeedCheck zone_need = codes::economizer_need(req);
+  const std::string power_key = fmt::format("_{}", units::key_suffix(Kind::power, s));
+  j.key("economizer_requirement").begin_object();
+  j.field("stated", zone_need.table != nullptr);
+  if (zone_need.table) {
+    const codes::EconomizerRequirement& t = *zone_need.table;
+    const codes::RequirementGroup& g = *zone_need.group;
+    j.field("required_in_zone", g.required);
+    j.key("threshold" + power_key);
+    if (g.required)
+      j.value(units::to_display(Kind::power, s, zone_need.threshold_kw), 6);
+    else
+      j.null();
+    j.key("at_threshold_required");
+    if (g.required)
+      j.value(g.inclusive);
+    else
+      j.null();
+    j.field("summary", codes::threshold_text(zone_need, s));
+    j.field("note", g.note).field("clause", t.clause).field("table", t.table);
+    j.field("requirement", t.requirement);
+    j.key("exceptions_not_modelled").begin_array();
+    for (const auto& e : t.exceptions) j.value(e);
+    j.end_array();
+    j.field("provenance", g.provenance).field("source", g.origin);
+  }
+  if (u) {
+    j.key("unit").begin_object();
+    j.field("capacity" + power_key, units::to_display(Kind::power, s, u->capacity_kw), 6);
+    j.field("capacity_estimated", u->capacity_estimated);
+    j.field("capacity_basis", u->capacity_basis);
+    j.key("required");
+    if (u->need.need == codes::Need::no_table)
+      j.null();
+    else
+      j.value(u->need.need == codes::Need::required);
+    j.field("answer", codes::need_text(u->need.need));
+    j.end_object();
+  }
+  j.end_object();
+}
+
+void json_selectable(Json& j, const codes::Edition& e, System compare_in, System s) {
+  j.key("selectable_setpoints");
+  if (!e.selectable) {
+    j.null();
+    return;
+  }
+  const codes::SelectableSetpoints& sel = *e.selectable;
+  j.begin_object().field("note", sel.note).field("clause", sel.clause).field("table", sel.table);
+  j.key("allowances").begin_array();
+  for (const auto& a : sel.allowances) {
+    const Kind kind = highlimit::quantity_difference_kind(a.quantity);
+    j.begin_object().field("quantity", highlimit::quantity_name(a.quantity));
+    j.field(fmt::format("allowance_{}", units::key_suffix(kind, s)),
+            units::to_display(kind, s, *sel.allowance(a.quantity, compare_in)), 6);
+    j.end_object();
+  }
+  j.end_array();
+  j.field("provenance", sel.provenance).field("source", sel.origin).end_object();
+}
+
 // --- Listing one zone ----------------------------------------------------------------------
 
 std::string zone_listing(const codes::ZoneRequirements& req, System s, Format f,
@@ -246,6 +386,8 @@ std::string zone_listing(const codes::ZoneRequirements& req, System s, Format f,
       j.end_object();
     }
     j.end_array();
+    json_requirement(j, req, nullptr, s);
+    json_selectable(j, e, req.compare_in, s);
     return json_close(j, e, mode);
   }
 
@@ -277,7 +419,9 @@ std::string zone_listing(const codes::ZoneRequirements& req, System s, Format f,
   out += "\n" + heading(f, "Allowed high-limit controls") + render(f, allowed);
   if (prohibited.rows())
     out += "\n" + heading(f, "Not allowed in this zone") + render(f, prohibited);
+  out += requirement_text(f, req, nullptr, s);
   out += integration_text(f, e, mode, "the given");
+  out += selectable_text(f, e, req.compare_in, s);
   out += notes_text(f, notes, rows, e);
   return out + cautions(f);
 }
@@ -314,6 +458,21 @@ std::string conditions_text(const highlimit::Strategy& st, System s) {
   return out.empty() ? "no conditions" : out;
 }
 
+// What the presets of a unit without [[strategy]] are set to: common practice, or the code's
+// values where the [site]'s code gave them.
+std::string defaulted_text(const CodeVerdicts& u) {
+  std::string source;
+  for (const auto& st : u.strategies)
+    if (!st.code_source.empty()) source = st.code_source;
+  if (source.empty())
+    return "\nThe unit file has no [[strategy]]: every preset at its common-practice settings "
+           "is judged.\n";
+  return fmt::format(
+      "\nThe unit file has no [[strategy]]: every preset is judged, at the settings of the "
+      "[site]'s code where it allows the preset ({}), else at common-practice settings.\n",
+      source);
+}
+
 std::string unit_report(const CodeVerdicts& u, System s, Format f) {
   const codes::ZoneRequirements& req = *u.req;
   const codes::Edition& e = *req.edition;
@@ -338,6 +497,11 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
       else
         j.null();
       j.field("conditions", conditions_text(u.strategies[i], s));
+      j.key("settings_from_code");
+      if (u.strategies[i].code_source.empty())
+        j.null();
+      else
+        j.value(u.strategies[i].code_source);
       j.field("explanation", codes::verdict_text(c, req, s));
       j.key("deviations").begin_array();
       for (const auto& d : c.deviations) {
@@ -365,6 +529,8 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
       j.end_object();
     }
     j.end_array();
+    json_requirement(j, req, &u, s);
+    json_selectable(j, e, req.compare_in, s);
     return json_close(j, e, u.economizer);
   }
 
@@ -404,13 +570,15 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
   if (const std::string w = weather_pressure_text(u, s); !w.empty())
     items.emplace_back("Weather pressure", w);
   out += facts(f, items);
-  if (u.defaulted)
-    out +=
-        "\nThe unit file has no [[strategy]]: every preset at its common-practice settings "
-        "is judged.\n";
+  if (u.defaulted) out += defaulted_text(u);
   out += "\n" + heading(f, "Verdicts") + render(f, t);
   out += "\n" + heading(f, "Details") + detail;
+  out += requirement_text(f, req, &u, s);
   out += integration_text(f, e, u.economizer, "the unit's");
+  if (std::any_of(u.checks.begin(), u.checks.end(), [](const codes::StrategyCheck& c) {
+        return c.verdict == Verdict::complies_if_selectable;
+      }))
+    out += selectable_text(f, e, req.compare_in, s);
   out += notes_text(f, notes, rows, e);
   return out + cautions(f);
 }

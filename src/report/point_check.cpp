@@ -346,7 +346,8 @@ std::string text_report(const PointCheckContext& in, const PointCheck& pc, const
   out += table(operations_table(*in.unit, pc, view));
   out += (md ? "\n" : "") + changeover_line(pc, view);
   out += heading(in.unit->strategies_defaulted
-                     ? "Strategies (every preset at its defaults: the unit file gives none)"
+                     ? "Strategies (every preset at its defaults, the [site] code's where it "
+                       "gives them: the unit file gives none)"
                      : "Strategies");
   out += table(strategy_table(pc, view));
   out += (md ? "\n" : "") + per_hour_note(view);

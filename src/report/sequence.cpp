@@ -469,6 +469,7 @@ std::string code_type_sentence(const Context& ctx) {
   std::string out;
   switch (ctx.code.check.verdict) {
     case codes::Verdict::complies:
+    case codes::Verdict::complies_if_selectable:
     case codes::Verdict::set_wrong:
       out = fmt::format("{} allows this control type in climate zone {}.",
                         ctx.code.cite(*ctx.code.check.row), z.zone);
@@ -518,6 +519,7 @@ std::string condition_basis(const Context& ctx, std::size_t i) {
       return "design choice; it cannot be checked against the code (paragraph 3.1)." +
              annual_support(ctx);
     case codes::Verdict::complies:
+    case codes::Verdict::complies_if_selectable:
     case codes::Verdict::set_wrong: break;
   }
   // The setting this condition stands for in the code's terms: a fixed humidity ratio is
@@ -559,6 +561,19 @@ std::string condition_basis(const Context& ctx, std::size_t i) {
     if (d.quantity != q || d.reference != c.reference) continue;
     const Kind dk = highlimit::quantity_difference_kind(q);
     const bool above = d.difference() > 0;
+    if (ctx.code.check.verdict == codes::Verdict::complies_if_selectable) {
+      const codes::SelectableSetpoints& sel = *ctx.code.check.selectable;
+      return fmt::format(
+                 "{} requires, for this control type, {}; this setpoint is {} {} it, within "
+                 "the {} that code allows a device whose setpoints are selectable in steps "
+                 "({}; {}). It meets that code only if the controller offers no step nearer "
+                 "the listed setting; on an adjustable controller, set the listed figure.{}",
+                 where, required, written(dk, ctx.s, std::fabs(d.difference()), Note::source),
+                 above ? "above" : "below",
+                 written(dk, ctx.s, *sel.allowance(q, ctx.code.zone->compare_in), Note::source),
+                 sel.table.empty() ? sel.clause : sel.table, sel.provenance, read_as) +
+             annual_support(ctx);
+    }
     return fmt::format(
                "design choice. {} requires, for this control type, {}; this setpoint is {} "
                "{} it, so the economizer would {}, and it does not meet that code as written.{}",
@@ -568,7 +583,12 @@ std::string condition_basis(const Context& ctx, std::size_t i) {
                read_as) +
            annual_support(ctx);
   }
-  return fmt::format("{}, which requires {}; this setpoint meets it.{}", where, required, read_as) +
+  const std::string from_code =
+      ctx.st.source(i) == highlimit::SettingSource::code
+          ? " The unit file leaves this setting out, so it is that code's figure."
+          : "";
+  return fmt::format("{}, which requires {}; this setpoint meets it.{}{}", where, required, read_as,
+                     from_code) +
          annual_support(ctx);
 }
 
@@ -663,9 +683,13 @@ void high_limit(const Context& ctx, Section& sec) {
       n == 1 ? std::string("It has one condition.")
              : fmt::format("It has {} conditions, joined by OR.", n));
   if (ctx.unit.strategies_defaulted)
-    first +=
-        " The unit file names no strategy, so this is the first preset at limitline's "
-        "common-practice settings.";
+    first += ctx.st.code_source.empty()
+                 ? " The unit file names no strategy, so this is the first preset at "
+                   "limitline's common-practice settings."
+                 : fmt::format(
+                       " The unit file names no strategy, so this is the first preset, "
+                       "with the settings of {} (the code its site names).",
+                       ctx.st.code_source);
   if (ctx.code.zone) first += " " + code_type_sentence(ctx);
   add(sec, first);
   for (std::size_t i = 0; i < n; ++i) add(sec, condition_paragraph(ctx, i));

@@ -52,7 +52,29 @@ std::string describe_strategy(const highlimit::Strategy& st, units::System s) {
   std::string out = "off when ";
   for (std::size_t i = 0; i < st.conditions.size(); ++i)
     out += (i ? " or " : "") + describe_condition(st.conditions[i], s);
+  if (const std::string from = describe_code_settings(st, s); !from.empty())
+    out += " (" + from + ")";
   return out;
+}
+
+std::string describe_code_settings(const highlimit::Strategy& st, units::System s) {
+  std::string figures;
+  for (std::size_t i = 0; i < st.conditions.size(); ++i) {
+    if (st.source(i) != highlimit::SettingSource::code) continue;
+    const highlimit::Condition& c = st.conditions[i];
+    std::string figure;
+    if (c.reference == highlimit::Reference::fixed)
+      figure = format_value(c.quantity, c.limit, s);
+    else if (std::fabs(c.limit) > 1e-12)
+      figure = fmt::format("return {} {} {}", highlimit::quantity_name(c.quantity),
+                           c.limit < 0 ? "-" : "+",
+                           format_difference(c.quantity, std::fabs(c.limit), s));
+    else
+      figure = fmt::format("return {}", highlimit::quantity_name(c.quantity));
+    figures += (figures.empty() ? "" : " and ") + figure;
+  }
+  if (figures.empty()) return {};
+  return fmt::format("{} from {}", figures, st.code_source);
 }
 
 }  // namespace limitline::report

@@ -102,6 +102,62 @@ struct IntegrationRule {
   std::string origin;
 };
 
+// --- Whether an economizer is required ------------------------------------------------------
+
+// The agreement the IP and SI capacity thresholds of a requirement must show (the SI edition
+// of 90.1 prints 54,000 Btu/h, 15.8 kW, as a rounded figure): a twentieth of the threshold.
+inline constexpr double kCapacityAgreementShare = 0.05;
+
+// One group of zones of an edition's economizer requirement: exempt, or required from a
+// cooling capacity on.
+struct RequirementGroup {
+  std::vector<std::string> zones;
+  bool required = false;
+  double capacity_ip = 0.0;  // kBtu/h, as stored (required groups)
+  double capacity_si = 0.0;  // kW, as stored
+  bool inclusive = true;     // required at the threshold itself ("at or above"), not only over it
+  std::string note;
+  std::string provenance;
+  std::string origin;  // "file:line" of the group
+  // The threshold in kW from the figure of `compare_in`.
+  double threshold_kw(units::System compare_in) const;
+};
+
+// When an edition requires an air economizer on a cooling system: the groups cover every
+// zone exactly once; the exceptions limitline cannot weigh (a water economizer instead, an
+// efficiency trade-off, process humidification ...) are kept as text.
+struct EconomizerRequirement {
+  std::string clause;
+  std::string table;
+  std::string requirement;  // in our words
+  std::vector<std::string> exceptions;
+  std::string provenance;
+  std::string origin;
+  std::vector<RequirementGroup> groups;
+  const RequirementGroup* group(std::string_view zone) const;
+};
+
+// The footnote of editions that let a device whose setpoints are selectable in steps, rather
+// than adjustable, be set to the available setting nearest the listed one, within an
+// allowance per quantity (fixed limits only: an offset from the return air has no listed
+// setting to step around).
+struct SelectableAllowance {
+  highlimit::Quantity quantity;
+  double ip;  // °F or Btu/lb of difference, as stored
+  double si;  // K or kJ/kg of difference
+};
+struct SelectableSetpoints {
+  std::string clause;
+  std::string table;
+  std::string note;  // in our words
+  std::vector<SelectableAllowance> allowances;
+  std::string provenance;
+  std::string origin;
+  // The allowance of a fixed limit of `quantity` (SI difference) from the figure of
+  // `compare_in`, or none when the footnote does not cover the quantity.
+  std::optional<double> allowance(highlimit::Quantity quantity, units::System compare_in) const;
+};
+
 struct Edition {
   std::string id;  // "ashrae-90.1-2019"
   std::string title;
@@ -111,6 +167,8 @@ struct Edition {
   std::string si_note;
   std::string provenance;
   IntegrationRule integration;
+  std::optional<EconomizerRequirement> economizer_requirement;  // none: the file gives none
+  std::optional<SelectableSetpoints> selectable;                // none: no such footnote
   std::vector<Row> rows;
   std::vector<std::string> sources;  // the edition's file, then each amendment applied
 
@@ -230,8 +288,11 @@ std::optional<MatchedControl> match_control(const highlimit::Strategy& strategy,
 
 // --- Verdicts ---------------------------------------------------------------------------
 
-enum class Verdict { complies, not_allowed, set_wrong, not_evaluable };
-// One word each: "complies", "not-allowed", "set-wrong", "not-evaluable".
+enum class Verdict { complies, complies_if_selectable, not_allowed, set_wrong, not_evaluable };
+// One word each: "complies", "complies-if-selectable", "not-allowed", "set-wrong",
+// "not-evaluable". complies-if-selectable: off the listed setting by more than the tolerance
+// but within the edition's selectable-setpoint allowance, so it complies only on a device
+// whose setpoints come in steps and offers none nearer the listed one.
 std::string_view verdict_word(Verdict v);
 
 struct Deviation {
@@ -246,7 +307,10 @@ struct StrategyCheck {
   Verdict verdict = Verdict::not_evaluable;
   std::optional<MatchedControl> matched;
   const Row* row = nullptr;  // the deciding row (allowed or prohibited); null when no match
-  std::vector<Deviation> deviations;  // set_wrong: every setting off by more than the tolerance
+  // set_wrong, complies_if_selectable: every setting off by more than the tolerance
+  std::vector<Deviation> deviations;
+  // complies_if_selectable: the footnote that allows it
+  const SelectableSetpoints* selectable = nullptr;
   // Settings to use instead: the same type with the required settings when it is allowed,
   // otherwise every allowed type, those sharing the strategy's quantities first.
   std::vector<AllowedControl> instead;
@@ -270,6 +334,41 @@ std::vector<std::string> compliance_words(const CodeTables& tables, std::string_
                                           std::span<const highlimit::Strategy> strategies,
                                           std::string_view edition_origin = "energy_code",
                                           std::string_view zone_origin = "climate_zone");
+
+// --- Economizer requirement of a unit ----------------------------------------------------
+
+enum class Need { required, below_threshold, exempt_zone, no_table };
+// "required", "not required (below the threshold)", "not required in this zone", "not
+// stated (the edition's file has no requirement table)".
+std::string_view need_text(Need n);
+
+struct NeedCheck {
+  Need need = Need::no_table;
+  const EconomizerRequirement* table = nullptr;
+  const RequirementGroup* group = nullptr;  // the zone's group (null with no_table)
+  double threshold_kw = 0.0;                // required groups: in the compared figure
+};
+// The zone's answer alone (a required group gives `required`), or for a unit with its
+// cooling capacity (kW): required when the capacity reaches the threshold.
+NeedCheck economizer_need(const ZoneRequirements& zone,
+                          std::optional<double> capacity_kw = std::nullopt);
+
+// "an air economizer is required from 54.0 kBtu/h (at or above) of cooling capacity".
+std::string threshold_text(const NeedCheck& n, units::System system);
+
+// --- Preset settings from the code --------------------------------------------------------
+
+// The settings each strategy left to its preset's default (SettingSource::common_practice)
+// take the code's required value where the zone's row for that preset allows it; those
+// settings become SettingSource::code and the strategy's code_source names the edition and
+// zone. A preset the zone prohibits keeps its common-practice settings (its verdict says
+// not-allowed). Custom conditions and written settings are never changed.
+void apply_code_defaults(std::vector<highlimit::Strategy>& strategies,
+                         const ZoneRequirements& zone);
+
+// The code in words for SettingSource::code: "ANSI/ASHRAE/IES Standard 90.1-2019 zone 4A,
+// Table 6.5.1.1.3, from memory" (the row's provenance up to its first ';').
+std::string code_source_text(const ZoneRequirements& zone, const Row& row);
 
 // --- Text -------------------------------------------------------------------------------
 

@@ -51,6 +51,11 @@ struct UnitFile {
   // air_handler.min_outdoor_airflow when the minimum was given as an airflow (the fraction
   // in air_handler is derived from it), so reports can show what was written.
   std::optional<double> min_outdoor_airflow_m3_per_s;
+  // air_handler.design_cooling_capacity (kW) and "FILE:LINE: air_handler.design_cooling_capacity":
+  // the capacity the energy code's economizer requirement is weighed on; absent, it is
+  // estimated (cooling_capacity()).
+  std::optional<double> design_cooling_capacity_kw;
+  std::string design_cooling_capacity_origin;
   ReturnAir return_air;
   // How airflow and supply temperature follow the hour (the part-load keys of [air_handler]:
   // airflow_control, min_airflow, airflow_basis, supply_air_reset; min_outdoor_airflow).
@@ -92,7 +97,21 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name);
 UnitFile load_unit_file(const std::string& path);
 
 // The file's strategies, or every preset at its common-practice defaults when it gives none.
+// When [site] names both energy_code and climate_zone, the preset settings the file leaves
+// out take that code's required values for the zone (codes::apply_code_defaults, from the
+// installed tables, at the site pressure when the site gives one), so every command sees the
+// same strategies; an unknown edition or zone is an InputError naming the [site] key.
 [[nodiscard]] std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit);
+
+// The cooling capacity the economizer requirement is weighed on: design_cooling_capacity as
+// written, or an estimate from the airflow (airside::return_air_coil_load_kw at the design
+// return air and site pressure).
+struct CoolingCapacity {
+  double kw;
+  bool estimated;
+  std::string basis;  // the key's origin, or how the estimate was made
+};
+[[nodiscard]] CoolingCapacity cooling_capacity(const UnitFile& unit);
 
 // A name as the unit file compares it: no case, no spaces, '_' the same as '-' ("Dew_Point"
 // → "dew-point"), for every layer that reads names from its tables.

@@ -123,6 +123,14 @@ struct CoilLoads {
 [[nodiscard]] CoilLoads coil_loads(const AirHandler& unit, const CoilLimits& limits,
                                    const AirState& mixed);
 
+// A cooling capacity estimated from the airflow alone, kW: the dry-air mass flow of the supply
+// airflow at standard air times the coil load (coil_loads) of the design return air cooled
+// to the coil-leaving state. No outdoor design state is known, so the coil sees the return
+// air (mixed air at x_min with outdoor air at the return state): the outdoor-air share of a
+// true design load is left out, and the figure is an estimate, not a rating.
+[[nodiscard]] double return_air_coil_load_kw(const AirHandler& unit, const AirState& ret,
+                                             double pressure_kpa);
+
 // How cooling and heating energy are weighed against each other when choosing (E = w_c·q_c +
 // w_h·q_h): defaults count a kWh of either as equal.
 struct EnergyWeights {

@@ -55,10 +55,27 @@ struct Condition {
   }
 };
 
+// Where the setting (limit or offset) of a condition came from, so that descriptions and
+// sequences can say whether a figure is the designer's, common practice or an energy code's.
+enum class SettingSource : std::uint8_t {
+  written,          // given in the unit file (custom conditions, or a preset key)
+  common_practice,  // a preset's default (preset_defaults())
+  code,             // the required value of the energy code the unit's site names
+};
+
 struct Strategy {
   std::string name;
   std::string preset;  // the preset it came from, empty for custom conditions
   std::vector<Condition> conditions;
+  // One per condition for presets (make_preset: common_practice); empty means every setting
+  // was written.
+  std::vector<SettingSource> sources;
+  // When any source is `code`: the code in words, "ANSI/ASHRAE/IES Standard 90.1-2019 zone 4A,
+  // Table 6.5.1.1.3, from memory".
+  std::string code_source;
+  [[nodiscard]] SettingSource source(std::size_t condition) const {
+    return condition < sources.size() ? sources[condition] : SettingSource::written;
+  }
   [[nodiscard]] bool needs(
       Quantity q) const;  // any condition uses q (outdoor, or return when differential)
 };

@@ -14,8 +14,10 @@
 
 namespace limitline::report {
 
-// The allowed and prohibited controls of one zone, with the integrated-economizer rule, and
-// the economizer checked against it when one is given.
+// The allowed and prohibited controls of one zone, with the integrated-economizer rule (the
+// economizer checked against it when one is given), whether the zone requires an economizer
+// and from which cooling capacity, and the selectable-setpoint footnote where the edition has
+// one.
 std::string code_zone_text(const codes::ZoneRequirements& req, units::System s,
                            std::optional<airside::EconomizerType> economizer);
 std::string code_zone_markdown(const codes::ZoneRequirements& req, units::System s,
@@ -46,6 +48,12 @@ struct CodeVerdicts {
   airside::EconomizerType economizer = airside::EconomizerType::integrated;
   std::string edition_from, zone_from;     // where the edition and zone were named
   std::optional<WeatherPressure> weather;  // when the unit names a weather file
+  // Whether the code requires an economizer on this unit: its cooling capacity (kW), where
+  // that figure came from (the key's FILE:LINE, or how it was estimated), and the answer.
+  double capacity_kw = 0.0;
+  bool capacity_estimated = false;
+  std::string capacity_basis;
+  codes::NeedCheck need;
 };
 
 std::string code_unit_text(const CodeVerdicts& v, units::System s);
