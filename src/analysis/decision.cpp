@@ -30,7 +30,8 @@ Recommendation recommend(std::span<const Candidate> c, double tolerance) {
   std::vector<std::size_t> all(c.size()), compliant;
   for (std::size_t i = 0; i < c.size(); ++i) {
     all[i] = i;
-    if (c[i].compliance == "complies") compliant.push_back(i);
+    if (c[i].compliance == "complies" || c[i].compliance == "complies-if-selectable")
+      compliant.push_back(i);
   }
   r.best = group(all);
   if (!compliant.empty()) r.best_compliant = group(compliant);
