@@ -46,11 +46,6 @@ std::size_t points_of(Role role) {
   return 41;
 }
 
-units::Kind kind_of(Quantity q, Reference r) {
-  return r == Reference::fixed ? highlimit::quantity_kind(q)
-                               : highlimit::quantity_difference_kind(q);
-}
-
 // One strategy over the packed year: the decisions and sums of annual::run, in the same order
 // (monthly sums, then the months in turn), so every figure equals annual::run's exactly.
 Point run_packed(const highlimit::Strategy& s, std::vector<double> values, const Baseline& ref) {
@@ -95,7 +90,7 @@ Axis make_axis(std::size_t condition, Quantity q, Reference r, const Range& rang
   a.condition = condition;
   a.quantity = q;
   a.reference = r;
-  const units::Kind k = kind_of(q, r);
+  const units::Kind k = a.kind();
   a.values.reserve(range.points);
   for (std::size_t i = 0; i < range.points; ++i) {
     // Each value from its index, so the grid carries no accumulated rounding.

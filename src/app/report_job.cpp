@@ -191,9 +191,7 @@ report::ReportDocument report_document(const YearInputs& in, const annual::Prepa
   const TuneResult tuned = run_tune(in, prepared, topt);
   report::YearContext tc = d.context;
   tc.code_label = tuned.code_label;
-  const tuning::Baseline base = tuning::baseline_of(prepared);
-  const report::TuneReport rep{&tuned, &tc, prepared.operating_hours,
-                               base.none_kwh - base.perfect_kwh};
+  const report::TuneReport rep{&tuned, &tc, prepared.operating_hours, tuned.perfect_savings};
   report::TuningSection ts;
   ts.markdown = report::tune_summary_markdown(rep);
   for (const auto& t : tuned.strategies)

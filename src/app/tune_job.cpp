@@ -23,6 +23,7 @@ std::vector<double> values_of(const highlimit::Strategy& s, std::span<const tuni
 TuneResult run_tune(const YearInputs& in, const annual::Prepared& p, const TuneOptions& o) {
   TuneResult result;
   const tuning::Baseline base = tuning::baseline_of(p);
+  result.perfect_savings = base.none_kwh - base.perfect_kwh;
 
   // The zone's requirements, when the site (or the options) name an edition and a zone; the
   // same selection and errors as the compliance column of `year`.
@@ -119,8 +120,7 @@ std::vector<TuneSite> run_tune_batch(const YearInputs& base, const std::string& 
         const YearInputs in = with_weather(base, files[i], overrides);
         const annual::Prepared p = prepare_year(in);
         s.result = run_tune(in, p, one);
-        const tuning::Baseline b = tuning::baseline_of(p);
-        s.perfect_savings = b.none_kwh - b.perfect_kwh;
+        s.perfect_savings = s.result.perfect_savings;
         s.ok = !s.result.partial;
         if (!s.ok) s.error = "interrupted";
       } catch (const std::exception& e) {

@@ -42,9 +42,7 @@ std::string best_text(const tuning::StrategyTuning& t, units::System s) {
   const auto& b = c.best_point();
   for (std::size_t a = 0; a < c.axes.size(); ++a) {
     const auto& ax = c.axes[a];
-    const units::Kind k = ax.reference == highlimit::Reference::fixed
-                              ? highlimit::quantity_kind(ax.quantity)
-                              : highlimit::quantity_difference_kind(ax.quantity);
+    const units::Kind k = ax.kind();
     out += (a ? " / " : "") + units::format(k, s, b.values[a], 1);
   }
   return out;
@@ -56,9 +54,7 @@ std::string band_text(const tuning::StrategyTuning& t, units::System s) {
   std::string out;
   for (std::size_t a = 0; a < c.axes.size(); ++a) {
     const auto& ax = c.axes[a];
-    const units::Kind k = ax.reference == highlimit::Reference::fixed
-                              ? highlimit::quantity_kind(ax.quantity)
-                              : highlimit::quantity_difference_kind(ax.quantity);
+    const units::Kind k = ax.kind();
     out += (a ? " / " : "") + units::format(k, s, b.lo[a], 1) + " to " +
            units::format(k, s, b.hi[a], 1);
   }
@@ -205,8 +201,7 @@ int run_tune(const std::vector<std::string>& args) {
   const TuneResult tuned = limitline::run_tune(in, prepared, topt);
   report::YearContext ctx = year_context(in, topt.units);
   ctx.code_label = tuned.code_label;
-  const tuning::Baseline base = tuning::baseline_of(prepared);
-  report::TuneReport rep{&tuned, &ctx, prepared.operating_hours, base.none_kwh - base.perfect_kwh};
+  report::TuneReport rep{&tuned, &ctx, prepared.operating_hours, tuned.perfect_savings};
 
   if (!plots.empty())
     for (std::size_t i = 0; i < tuned.strategies.size(); ++i)

@@ -69,32 +69,21 @@ std::string verdict_of(const std::vector<std::string>& verdicts, std::size_t i) 
 
 // The candidates of the recommendation: each strategy's best setting and, when the code sets
 // one, the strategy at the code's setting.
-struct TunedCandidate {
-  const StrategyTuning* tuning;
-  const Point* point;
-  std::string label;  // "fixed-dry-bulb at 68.5 °F"
-};
-
-std::vector<TunedCandidate> tuned_candidates(const TuneReport& r,
-                                             std::vector<decision::Candidate>& out) {
-  std::vector<TunedCandidate> meta;
+std::vector<decision::Candidate> tuned_candidates(const TuneReport& r) {
+  std::vector<decision::Candidate> out;
   const units::System s = r.context->units;
   for (const auto& t : r.tune->strategies) {
     const Point& best = t.curve.best_point();
-    meta.push_back(
-        {&t, &best,
-         fmt::format("{} at {}", t.strategy.name, setting_text(t.curve, best.values, s))});
-    out.push_back({meta.back().label, best.shortfall_kwh, t.best_verdict});
-    if (t.code_extra && t.curve.best_point().values != t.curve.extras[*t.code_extra].values) {
+    out.push_back({fmt::format("{} at {}", t.strategy.name, setting_text(t.curve, best.values, s)),
+                   best.shortfall_kwh, t.best_verdict});
+    if (t.code_extra && best.values != t.curve.extras[*t.code_extra].values) {
       const Point& code = t.curve.extras[*t.code_extra];
-      meta.push_back({&t, &code,
-                      fmt::format("{} at {} (the code's setting)", t.strategy.name,
-                                  setting_text(t.curve, code.values, s))});
-      out.push_back(
-          {meta.back().label, code.shortfall_kwh, verdict_of(t.extra_verdicts, *t.code_extra)});
+      out.push_back({fmt::format("{} at {} (the code's setting)", t.strategy.name,
+                                 setting_text(t.curve, code.values, s)),
+                     code.shortfall_kwh, verdict_of(t.extra_verdicts, *t.code_extra)});
     }
   }
-  return meta;
+  return out;
 }
 
 struct StrategyLines {
@@ -163,9 +152,7 @@ void json_setting(Json& j, const tuning::Curve& c, const std::vector<double>& v,
   j.key("setting").begin_object();
   for (std::size_t a = 0; a < c.axes.size(); ++a) {
     const Axis& ax = c.axes[a];
-    const units::Kind k = ax.reference == Reference::fixed
-                              ? highlimit::quantity_kind(ax.quantity)
-                              : highlimit::quantity_difference_kind(ax.quantity);
+    const units::Kind k = ax.kind();
     std::string stem(highlimit::quantity_name(ax.quantity));
     std::replace(stem.begin(), stem.end(), '-', '_');
     j.field(fmt::format("{}_{}_{}", stem, ax.reference == Reference::fixed ? "limit" : "offset",
@@ -191,8 +178,7 @@ std::vector<std::string> tune_recommendation(const TuneReport& r) {
   std::vector<std::string> out;
   if (r.tune->strategies.empty()) return out;
   const Measure m(*r.context);
-  std::vector<decision::Candidate> cands;
-  const auto meta = tuned_candidates(r, cands);
+  const std::vector<decision::Candidate> cands = tuned_candidates(r);
   const decision::Recommendation rec =
       decision::recommend(cands, decision::tie_tolerance(r.perfect_savings, m.is_cost()));
   const std::string eu = m.unit();
@@ -227,7 +213,6 @@ std::vector<std::string> tune_recommendation(const TuneReport& r) {
     out.push_back(fmt::format("Best: {} — {} {} short of the perfect changeover{}.", best.name,
                               m.format(best.shortfall), eu, tied(rec.best)));
   }
-  (void)meta;
   return out;
 }
 
@@ -299,9 +284,7 @@ std::string tune_csv(const TuneReport& r) {
       for (std::size_t a = 0; a < 2; ++a) {
         if (a < c.axes.size()) {
           const Axis& ax = c.axes[a];
-          const units::Kind k = ax.reference == Reference::fixed
-                                    ? highlimit::quantity_kind(ax.quantity)
-                                    : highlimit::quantity_difference_kind(ax.quantity);
+          const units::Kind k = ax.kind();
           cells.push_back(axis_name(ax));
           cells.push_back(g(units::to_display(k, s, p.values[a])));
           cells.emplace_back(units::unit_label(k, s));
@@ -438,9 +421,7 @@ std::string tune_plot_svg(const tuning::StrategyTuning& t, const YearContext& c)
       L, title);
   if (cv.axes.empty() || cv.grid.empty()) return out + "</svg>\n";
   const Axis& ax = cv.axes[0];
-  const units::Kind k = ax.reference == Reference::fixed
-                            ? highlimit::quantity_kind(ax.quantity)
-                            : highlimit::quantity_difference_kind(ax.quantity);
+  const units::Kind k = ax.kind();
   // The slice along the primary setting, the others held at the best's values.
   const Point& best = cv.best_point();
   std::vector<const Point*> slice;

@@ -29,6 +29,11 @@ struct Axis {
   highlimit::Quantity quantity = highlimit::Quantity::dry_bulb;
   highlimit::Reference reference = highlimit::Reference::fixed;
   std::vector<double> values;
+  // The unit kind of its values: a quantity's for a limit, its difference's for an offset.
+  [[nodiscard]] units::Kind kind() const {
+    return reference == highlimit::Reference::fixed ? highlimit::quantity_kind(quantity)
+                                                    : highlimit::quantity_difference_kind(quantity);
+  }
 };
 
 // The practical range of a setting in the display system (round numbers there): `points`
@@ -139,8 +144,9 @@ struct StrategyTuning {
 
 struct TuneResult {
   std::vector<StrategyTuning> strategies;  // in the unit file's order
-  std::string code_label;                  // "ANSI/ASHRAE/IES Standard 90.1-2019, climate zone 4A"
-  bool partial = false;                    // interrupted: the strategies that finished
+  double perfect_savings = 0;  // the perfect changeover's savings (the tie tolerance's scale)
+  std::string code_label;      // "ANSI/ASHRAE/IES Standard 90.1-2019, climate zone 4A"
+  bool partial = false;        // interrupted: the strategies that finished
 };
 
 // Labels of the extras, as reports print them.
