@@ -1,4 +1,4 @@
-// The psychrometric chart and the monthly bar chart (report/chart.hpp) and `limitline chart`.
+// The psychrometric chart (report/chart.hpp) and `limitline chart`.
 //
 // Every SVG is parsed by libxml2's xmllint and rendered by librsvg's rsvg-convert (Debian
 // packages libxml2-utils and librsvg2-bin, installed by .ci/setup); the rendered PNG is read
@@ -339,48 +339,6 @@ TEST_CASE("charts parse as XML, are standalone and render to a picture that is n
     CHECK(contains(svg, s == units::System::ip
                             ? "14.678 psia"
                             : "101.20 kPa"));  // standard pressure at 33 ft, eq. 3
-  }
-  const Demo& d = harbourside();
-  const auto year = annual::evaluate(d.in.strategies, d.prepared);
-  std::vector<std::string> order;
-  for (const auto& st : d.in.strategies) order.push_back(st.name);
-  const std::string bars = report::monthly_hours_svg(year, order, "Economizing hours by month");
-  check_standalone(bars);
-  check_svg_renders(bars, "chart", "monthly");
-}
-
-TEST_CASE("the monthly bars carry each strategy's economizing hours and the ideal as a step") {
-  const Demo& d = harbourside();
-  const auto year = annual::evaluate(d.in.strategies, d.prepared);
-  std::vector<std::string> order;
-  for (const auto& st : d.in.strategies) order.push_back(st.name);
-  const std::string svg = report::monthly_hours_svg(year, order, "hours");
-  const auto bars = tags_with(svg, {"class=\"bar\""});
-  CHECK(bars.size() == 12 * year.strategies.size());
-  double bottom = 0, scale = 0;
-  for (const auto& r : year.strategies)
-    for (int m = 1; m <= 12; ++m) {
-      const auto t = tags_with(svg, {"class=\"bar\"", "data-strategy=\"" + r.name + "\"",
-                                     "data-month=\"" + std::to_string(m) + "\""});
-      REQUIRE(t.size() == 1);
-      const double hours = r.monthly[static_cast<std::size_t>(m - 1)].hours_economizing;
-      CHECK(std::stod(attr(t[0], "data-hours")) == doctest::Approx(hours).epsilon(1e-3));
-      const double y = std::stod(attr(t[0], "y")), h = std::stod(attr(t[0], "height"));
-      bottom = y + h;
-      if (hours > 0) scale = h / hours;
-    }
-  REQUIRE(scale > 0);
-  // Colour follows the unit file's order (the chart's numbering), not the ranking.
-  for (std::size_t i = 0; i < order.size(); ++i)
-    CHECK(contains(tags_with(svg, {"data-strategy=\"" + order[i] + "\"", "data-month=\"1\""}).at(0),
-                   std::string(report::strategy_colour(i))));
-  for (int m = 1; m <= 12; ++m) {
-    const auto t = tags_with(svg, {"class=\"ideal\"", "data-month=\"" + std::to_string(m) + "\""});
-    REQUIRE(t.size() == 1);
-    const double ideal =
-        year.perfect_changeover.monthly[static_cast<std::size_t>(m - 1)].hours_economizing;
-    CHECK(path_points(attr(t[0], "d"))[0].y ==
-          doctest::Approx(bottom - ideal * scale).epsilon(1e-3));
   }
 }
 

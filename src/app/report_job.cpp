@@ -1,6 +1,7 @@
 #include <limitline/app/report_job.hpp>
 
 #include <limitline/app/tune_job.hpp>
+#include <limitline/report/monthly.hpp>
 #include <limitline/report/tune.hpp>
 
 #include <limitline/io/codes.hpp>
@@ -184,7 +185,8 @@ report::ReportDocument report_document(const YearInputs& in, const annual::Prepa
   report::ChartInput chart = chart_input(in.unit, in.strategies, s);
   add_climate(chart, prepared, in.weather_label);
   d.chart_svg = report::psychrometric_chart_svg(chart);
-  d.monthly_svg = report::monthly_hours_svg(year, d.strategy_order, "Economizing hours by month");
+  d.monthly_svg = report::monthly_hours_svg(year, d.strategy_order,
+                                            "Month by month against the perfect changeover");
   // The setpoint tuning of every strategy: tens of milliseconds on the prepared year.
   TuneOptions topt;
   topt.units = s;

@@ -362,8 +362,9 @@ std::string figure_html(Figure f, const ReportDocument& doc) {
   };
   if (f == Figure::monthly)
     return "<figure class=\"monthly\">\n" + inline_svg(doc.monthly_svg) +
-           "<figcaption>Economizing hours per month for each strategy, against the perfect "
-           "changeover.</figcaption>\n</figure>\n";
+           "<figcaption>Each strategy month by month on one scale: the hours it economizes "
+           "inside the outline of the perfect changeover's, and under the baseline the hours it "
+           "decides wrongly.</figcaption>\n</figure>\n";
   if (f == Figure::chart)
     return "<figure class=\"psychrometric\">\n" + inline_svg(doc.chart_svg) +
            "<figcaption>Psychrometric chart at the site pressure with each strategy's high-limit "

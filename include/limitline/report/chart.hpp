@@ -5,7 +5,6 @@
 //   (the edge of the region where it lets the economizer run), the return air, the mixed-air
 //   target, a climate's occupied hours binned and coloured by what the perfect changeover
 //   does with them, and optionally one checked operating point;
-// - the monthly bar chart of economizing hours per strategy against the perfect changeover.
 //
 // Everything is computed in SI and shown in the chosen unit system. The chart maps dry-bulb
 // linearly to x and humidity ratio linearly to y; ChartGeometry is that map, exposed so that
@@ -120,11 +119,5 @@ std::string psychrometric_chart_svg(const ChartInput& in);
 
 // Colour of the i-th strategy (cycles), shared by every picture and the HTML legend.
 std::string_view strategy_colour(std::size_t index);
-
-// Economizing hours by month: one bar per strategy and month, coloured by the strategy's
-// position in `order` (the unit file's order, as on the psychrometric chart), with the
-// perfect changeover's hours as a reference step over each month.
-std::string monthly_hours_svg(const annual::YearResult& year, std::span<const std::string> order,
-                              std::string_view title);
 
 }  // namespace limitline::report
