@@ -385,3 +385,36 @@ TEST_CASE("a unit without [[strategy]] is judged at the [site] code's settings")
   const Run j = run({unit, "--format", "json"});
   CHECK(has(j.out, "\"settings_from_code\": \"ANSI/ASHRAE/IES Standard 90.1-2019 zone 4A"));
 }
+
+TEST_CASE("one zone and a unit list the edition's economizer fault-detection requirement") {
+  // 90.1-2019 6.4.3.12 (from memory): sensors, ±2 °F, the controller's status, five faults.
+  const Run r = run({"--edition", "ashrae-90.1-2019", "--zone", "4A"});
+  INFO(r.out);
+  REQUIRE(r.rc == 0);
+  CHECK(has(r.out, "Economizer fault detection\n"));
+  CHECK(has(r.out, "ashrae-90.1-2019 6.4.3.12: "));
+  CHECK(has(r.out, "temperature sensor accuracy: ±2.0 °F over 40 °F to 80 °F"));
+  CHECK(has(r.out, "\"excess outdoor air\" [outdoor-air-above-minimum]"));
+  const Run si = run({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--units", "si"});
+  CHECK(has(si.out, "temperature sensor accuracy: ±1.1 K"));  // 2 °F = 1.11 K
+  const Run j = run({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--format", "json"});
+  CHECK(has(j.out, "\"fault_detection\": {"));
+  CHECK(has(j.out, "\"code_term\": \"damper not modulating\""));
+  CHECK(has(j.out, "\"capacity_threshold_kbtu_per_h\": null"));
+  // 90.1-2010 has no such clause (from memory).
+  const Run old = run({"--edition", "ashrae-90.1-2010", "--zone", "4A"});
+  CHECK(has(old.out, "ashrae-90.1-2010 has no economizer fault-detection clause"));
+  const Run old_j = run({"--edition", "ashrae-90.1-2010", "--zone", "4A", "--format", "json"});
+  CHECK(has(old_j.out, "\"fault_detection\": null"));
+  // Title 24 §120.2(i) (from memory) applies from 54,000 Btu/h: a 48 kBtu/h unit is below it.
+  const auto small =
+      fixture_variant("small-t24.toml", "design_cooling_capacity = \"48kBtu/h\"\n", "");
+  const Run unit = run({small, "--edition", "title24-2022", "--zone", "12"});
+  INFO(unit.out);
+  REQUIRE(unit.rc == 0);
+  CHECK(has(unit.out,
+            "not required for this unit: its capacity 48.0 kBtu/h is below the "
+            "threshold"));
+  const Run big = run({"tests/data/codes-unit-4a.toml"});
+  CHECK(has(big.out, "required for this unit if it is of the type the clause covers"));
+}

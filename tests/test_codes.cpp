@@ -1035,6 +1035,97 @@ TEST_CASE("an amendment may replace the requirement table, and is checked like o
               {"amend.toml:5:", "economizer_requirement.group"});
 }
 
+// --- Economizer fault detection ---------------------------------------------------------------
+
+TEST_CASE("fault-detection requirements per edition (from memory): which editions, which faults") {
+  const auto t = codes::CodeTables::load(kShipped);
+  // From memory: the clause entered 90.1 with the 2013 edition, the IECC with 2015 and Title 24
+  // with 2013; Title 24 applies it from 54,000 Btu/h (4.5 tons), the others to any unit the
+  // clause's equipment types cover.
+  const std::pair<std::string_view, std::string_view> clauses[] = {
+      {"ashrae-90.1-2013", "6.4.3.12"}, {"ashrae-90.1-2016", "6.4.3.12"},
+      {"ashrae-90.1-2019", "6.4.3.12"}, {"ashrae-90.1-2022", "6.4.3.12"},
+      {"iecc-2015", "C403.2.4.7"},      {"iecc-2018", "C403.5.5"},
+      {"iecc-2021", "C403.5.5"},        {"iecc-2024", "C403.5.5"},
+      {"title24-2013", "§120.2(i)"},    {"title24-2016", "§120.2(i)"},
+      {"title24-2019", "§120.2(i)"},    {"title24-2022", "§120.2(i)"}};
+  for (const auto& [id, clause] : clauses) {
+    CAPTURE(id);
+    const auto& e = t.edition(id);
+    REQUIRE(e.fault_detection);
+    const auto& d = *e.fault_detection;
+    CHECK(d.clause == clause);
+    CHECK(d.faults.size() == codes::kFaultCount);  // every fault limitline names
+    CHECK(d.find(codes::Fault::outdoor_air_above_minimum) != nullptr);
+    CHECK(d.sensor_accuracy_ip.value_or(0) == 2.0);  // ±2 °F, from memory
+    CHECK(d.provenance.find("from memory") != std::string::npos);
+    const bool california = id.starts_with("title24");
+    CHECK(d.capacity_ip.has_value() == california);
+    // 53 kW is under 54,000 Btu/h (15.8 kW); 16 kW over it.
+    CHECK(d.covers_capacity(16.0, units::System::ip));
+    CHECK(d.covers_capacity(10.0, units::System::ip) == !california);
+  }
+  CHECK_FALSE(t.edition("ashrae-90.1-2010").fault_detection);
+}
+
+TEST_CASE("each malformation of a fault-detection table names its line and key") {
+  const std::string base = read(kTestData / "codes-minimal.toml");
+  const std::string head = base.substr(0, base.find("[[row]]"));
+  const std::string rows = base.substr(base.find("[[row]]"));
+  REQUIRE(std::count(head.begin(), head.end(), '\n') == 16);  // the table starts on line 17
+  const std::string fdd =
+      "[fault_detection]\n"                     // 17
+      "clause = \"T.7\"\n"                      // 18
+      "applies_to = \"test units\"\n"           // 19
+      "capacity_kbtu_per_h = 54\n"              // 20
+      "capacity_kw = 15.8\n"                    // 21
+      "sensors = [\"outdoor\", \"supply\"]\n"   // 22
+      "sensor_accuracy_delta_f = 2\n"           // 23
+      "sensor_accuracy_delta_k = 1.1\n"         // 24
+      "reporting = \"locally\"\n"               // 25
+      "provenance = \"test fixture\"\n"         // 26
+      "[[fault_detection.fault]]\n"             // 27
+      "fault = \"damper-not-modulating\"\n"     // 28
+      "code_term = \"the damper is stuck\"\n";  // 29
+  const auto with = [&](const std::string& from, const std::string& to) {
+    std::string t = fdd;
+    const auto at = t.find(from);
+    REQUIRE(at != std::string::npos);
+    return head + t.replace(at, from.size(), to) + rows;
+  };
+  const auto fails = [&](const std::string& text, std::initializer_list<std::string> needles) {
+    check_error([&] { (void)from_text(text); }, needles);
+  };
+  const auto ok = from_text(head + fdd + rows);
+  const auto& d = *ok.edition("test-minimal").fault_detection;
+  CHECK(d.origin == "mem.toml:17");
+  REQUIRE(d.faults.size() == 1);
+  CHECK(d.faults[0].fault == codes::Fault::damper_not_modulating);
+  CHECK(d.faults[0].code_term == "the damper is stuck");
+
+  fails(with("capacity_kw = 15.8", "capacity_kw = 30"),
+        {"mem.toml:21:", "'capacity_kw'", "disagrees"});
+  fails(with("sensor_accuracy_delta_k = 1.1", "sensor_accuracy_delta_k = 2"),
+        {"mem.toml:24:", "'sensor_accuracy_delta_k'", "disagrees"});
+  fails(with("sensor_accuracy_delta_k = 1.1\n", ""),
+        {"mem.toml:17:", "'sensor_accuracy_delta_k'", "missing"});
+  fails(with("\"damper-not-modulating\"", "\"stuck-damper\""),
+        {"mem.toml:28:", "'fault'", "stuck-damper", "sensor-fault"});
+  fails(with("code_term = \"the damper is stuck\"\n",
+             "code_term = \"a\"\n[[fault_detection.fault]]\nfault = \"damper-not-modulating\"\n"
+             "code_term = \"b\"\n"),
+        {"mem.toml:31:", "'fault'", "listed twice"});
+  fails(with("sensors = [\"outdoor\", \"supply\"]", "sensors = []"),
+        {"mem.toml:22:", "'sensors'", "no sensor"});
+  fails(with("reporting = \"locally\"\n", ""), {"mem.toml:17:", "'reporting'", "missing"});
+  fails(with("[[fault_detection.fault]]\nfault = \"damper-not-modulating\"\n"
+             "code_term = \"the damper is stuck\"\n",
+             ""),
+        {"mem.toml:17:", "fault_detection.fault"});
+  fails(with("provenance = \"test fixture\"", "provenance = \"t\"\ninterval = 5"),
+        {"mem.toml:27:", "'interval'", "not known"});
+}
+
 // --- The selectable-setpoint footnote ---------------------------------------------------------
 
 TEST_CASE("selectable setpoints: 74 °F against a listed 75 °F, and where the footnote is absent") {

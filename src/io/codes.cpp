@@ -363,6 +363,25 @@ IntegrationRule read_integration(const toml::table& t, const std::string& file) 
 constexpr std::string_view kGroupKeys =
     "zones, required, capacity_kbtu_per_h, capacity_kw, inclusive, note, provenance";
 
+std::string capacity_key(System s) {
+  return fmt::format("capacity_{}", units::key_suffix(Kind::power, s));
+}
+
+// A cooling-capacity threshold stored in both systems (kBtu/h, kW), which must agree.
+std::pair<double, double> read_capacity(TableReader& r) {
+  const std::string ip_key = capacity_key(System::ip), si_key = capacity_key(System::si);
+  const double ip = *r.number(ip_key, true), si = *r.number(si_key, true);
+  for (const auto& [key, v] : {std::pair{ip_key, ip}, std::pair{si_key, si}})
+    if (!(v >= 0.0)) r.fail(key, "must not be negative");
+  const double from_ip = units::from_display(Kind::power, System::ip, ip);
+  const double larger = std::max(from_ip, si);
+  if (std::fabs(from_ip - si) > kCapacityAgreementShare * larger + 1e-9)
+    r.fail(si_key, fmt::format("{} disagrees with {} = {}, which is {:.1f} kW (allowed "
+                               "difference {:g} % of the threshold)",
+                               si, ip_key, ip, from_ip, 100.0 * kCapacityAgreementShare));
+  return {ip, si};
+}
+
 RequirementGroup read_group(const toml::table& t, const std::string& file, const Edition& e,
                             const std::string& table_provenance) {
   TableReader r(t, file, "[[economizer_requirement.group]]");
@@ -370,21 +389,9 @@ RequirementGroup read_group(const toml::table& t, const std::string& file, const
   g.origin = fmt::format("{}:{}", file, r.line());
   g.zones = read_zones(r, "zones", e);
   g.required = *r.boolean("required", true);
-  const std::string ip_key = fmt::format("capacity_{}", units::key_suffix(Kind::power, System::ip));
-  const std::string si_key = fmt::format("capacity_{}", units::key_suffix(Kind::power, System::si));
+  const std::string ip_key = capacity_key(System::ip), si_key = capacity_key(System::si);
   if (g.required) {
-    g.capacity_ip = *r.number(ip_key, true);
-    g.capacity_si = *r.number(si_key, true);
-    for (const auto& [key, v] :
-         {std::pair{ip_key, g.capacity_ip}, std::pair{si_key, g.capacity_si}})
-      if (!(v >= 0.0)) r.fail(key, "must not be negative");
-    const double from_ip = units::from_display(Kind::power, System::ip, g.capacity_ip);
-    const double larger = std::max(from_ip, g.capacity_si);
-    if (std::fabs(from_ip - g.capacity_si) > kCapacityAgreementShare * larger + 1e-9)
-      r.fail(si_key, fmt::format("{} disagrees with {} = {}, which is {:.1f} kW (allowed "
-                                 "difference {:g} % of the threshold)",
-                                 g.capacity_si, ip_key, g.capacity_ip, from_ip,
-                                 100.0 * kCapacityAgreementShare));
+    std::tie(g.capacity_ip, g.capacity_si) = read_capacity(r);
     g.inclusive = *r.boolean("inclusive", true);
   } else {
     for (const std::string& key : {ip_key, si_key, std::string("inclusive")})
@@ -440,6 +447,55 @@ EconomizerRequirement read_requirement(const toml::table& t, const std::string& 
   return req;
 }
 
+// --- Economizer fault detection ------------------------------------------------------------
+
+struct FaultInfo {
+  std::string_view name;
+  Fault value;
+  std::string_view description;
+};
+constexpr FaultInfo kFaults[] = {
+    {"sensor-fault", Fault::sensor_fault,
+     "an air-temperature sensor has failed or reads outside what the other readings allow"},
+    {"not-economizing-when-allowed", Fault::not_economizing_when_allowed,
+     "the high-limit allows outdoor air and cooling is called for, but the damper stays at its "
+     "minimum"},
+    {"economizing-when-locked-out", Fault::economizing_when_locked_out,
+     "the high-limit locks outdoor air out, but the damper is open beyond its minimum"},
+    {"damper-not-modulating", Fault::damper_not_modulating,
+     "the outdoor-air damper does not move as it is commanded"},
+    {"outdoor-air-above-minimum", Fault::outdoor_air_above_minimum,
+     "more outdoor air than the ventilation minimum while the unit is not economizing"},
+};
+static_assert(std::size(kFaults) == kFaultCount);
+
+}  // namespace
+
+std::string_view fault_name(Fault f) { return name_in(kFaults, f); }
+std::string_view fault_description(Fault f) {
+  for (const auto& i : kFaults)
+    if (i.value == f) return i.description;
+  return {};
+}
+std::optional<Fault> fault_from_name(std::string_view name) { return value_in(kFaults, name); }
+std::string fault_names() { return names_in(kFaults); }
+
+const RequiredFault* FaultDetection::find(Fault f) const {
+  for (const auto& r : faults)
+    if (r.fault == f) return &r;
+  return nullptr;
+}
+
+bool FaultDetection::covers_capacity(double capacity_kw, System compare_in) const {
+  if (!capacity_ip) return true;
+  const double threshold = compare_in == System::ip
+                               ? units::from_display(Kind::power, System::ip, *capacity_ip)
+                               : *capacity_si;
+  return capacity_kw >= threshold;
+}
+
+namespace {
+
 constexpr Quantity kSelectableQuantities[] = {Quantity::dry_bulb, Quantity::enthalpy,
                                               Quantity::dew_point};
 
@@ -481,6 +537,54 @@ SelectableSetpoints read_selectable(const toml::table& t, const std::string& fil
                              allowance_key(Quantity::dry_bulb, System::si)));
   f.provenance = *r.string("provenance", true);
   r.finish(keys);
+  return f;
+}
+
+FaultDetection read_fault_detection(const toml::table& t, const std::string& file) {
+  TableReader r(t, file, "[fault_detection]");
+  FaultDetection f;
+  f.origin = fmt::format("{}:{}", file, r.line());
+  f.clause = *r.string("clause", true);
+  f.applies_to = *r.string("applies_to", true);
+  if (r.has(capacity_key(System::ip)) || r.has(capacity_key(System::si)))
+    std::tie(f.capacity_ip, f.capacity_si) = read_capacity(r);
+  f.sensors = r.strings("sensors", true);
+  if (f.sensors.empty()) r.fail("sensors", "lists no sensor");
+  if (r.has("sensor_accuracy_delta_f") || r.has("sensor_accuracy_delta_k")) {
+    f.sensor_accuracy_ip = *r.number("sensor_accuracy_delta_f", true);
+    f.sensor_accuracy_si = *r.number("sensor_accuracy_delta_k", true);
+    if (!(*f.sensor_accuracy_ip > 0)) r.fail("sensor_accuracy_delta_f", "must be above 0");
+    if (!(*f.sensor_accuracy_si > 0)) r.fail("sensor_accuracy_delta_k", "must be above 0");
+    const Kind kind = highlimit::quantity_difference_kind(Quantity::dry_bulb);
+    const double from_ip = units::from_display(kind, System::ip, *f.sensor_accuracy_ip);
+    const double from_si = units::from_display(kind, System::si, *f.sensor_accuracy_si);
+    if (std::fabs(from_ip - from_si) > 0.1 + 1e-9)
+      r.fail("sensor_accuracy_delta_k",
+             fmt::format("{} disagrees with sensor_accuracy_delta_f = {}, which is {:.2f} K "
+                         "(allowed difference 0.1 K)",
+                         *f.sensor_accuracy_si, *f.sensor_accuracy_ip, from_ip));
+  }
+  f.accuracy_range = r.string("accuracy_range", false).value_or("");
+  f.status = r.strings("status", false);
+  f.reporting = *r.string("reporting", true);
+  f.provenance = *r.string("provenance", true);
+  const toml::node* n = r.node("fault");
+  if (!n) r.fail_table("no [[fault_detection.fault]] tables");
+  const toml::array* a = n->as_array();
+  if (!a || !a->is_array_of_tables() || a->empty())
+    r.fail("fault", "must be written as [[fault_detection.fault]] tables");
+  for (const auto& node : *a) {
+    TableReader fr(*node.as_table(), file, "[[fault_detection.fault]]");
+    const std::string name = *fr.string("fault", true);
+    const auto fault = fault_from_name(name);
+    if (!fault) fr.fail("fault", fmt::format("{} is not one of {}", echo(name), fault_names()));
+    if (f.find(*fault)) fr.fail("fault", fmt::format("{} is listed twice", echo(name)));
+    f.faults.push_back({*fault, *fr.string("code_term", true)});
+    fr.finish("fault, code_term");
+  }
+  r.finish(
+      "clause, applies_to, capacity_kbtu_per_h, capacity_kw, sensors, sensor_accuracy_delta_f, "
+      "sensor_accuracy_delta_k, accuracy_range, status, reporting, provenance, fault");
   return f;
 }
 
@@ -538,8 +642,11 @@ Edition read_edition(const toml::table& doc, const std::string& file) {
     e.economizer_requirement = read_requirement(*req, file, e);
   if (const toml::table* sel = top.table("selectable_setpoints", false))
     e.selectable = read_selectable(*sel, file);
+  if (const toml::table* fdd = top.table("fault_detection", false))
+    e.fault_detection = read_fault_detection(*fdd, file);
   e.rows = read_rows(top, e);
-  top.finish("edition, integration, economizer_requirement, selectable_setpoints, row");
+  top.finish(
+      "edition, integration, economizer_requirement, selectable_setpoints, fault_detection, row");
   e.sources.push_back(file);
   check_coverage(e, file);
   return e;
@@ -565,10 +672,10 @@ void apply_amendment(const toml::table& doc, const std::string& file,
   r.finish("edition, name, provenance");
   Edition& e = *it;
   if (!top.has("integration") && !top.has("row") && !top.has("economizer_requirement") &&
-      !top.has("selectable_setpoints"))
+      !top.has("selectable_setpoints") && !top.has("fault_detection"))
     r.fail_table(
-        "changes nothing: give [[row]] tables, an [integration], [economizer_requirement] or "
-        "[selectable_setpoints] table");
+        "changes nothing: give [[row]] tables, an [integration], [economizer_requirement], "
+        "[selectable_setpoints] or [fault_detection] table");
   if (const toml::table* integ = top.table("integration", false))
     e.integration = read_integration(*integ, file);
   // Either table replaces the edition's whole table: its groups cover every zone again.
@@ -576,8 +683,12 @@ void apply_amendment(const toml::table& doc, const std::string& file,
     e.economizer_requirement = read_requirement(*req, file, e);
   if (const toml::table* sel = top.table("selectable_setpoints", false))
     e.selectable = read_selectable(*sel, file);
+  if (const toml::table* fdd = top.table("fault_detection", false))
+    e.fault_detection = read_fault_detection(*fdd, file);
   const std::vector<Row> rows = top.has("row") ? read_rows(top, e) : std::vector<Row>{};
-  top.finish("amendment, integration, economizer_requirement, selectable_setpoints, row");
+  top.finish(
+      "amendment, integration, economizer_requirement, selectable_setpoints, fault_detection, "
+      "row");
   for (const Row& amended : rows) {
     for (Row& old : e.rows) {
       if (old.control != amended.control) continue;

@@ -302,6 +302,119 @@ std::string selectable_text(Format f, const codes::Edition& e, System compare_in
              sel.provenance);
 }
 
+// What the edition requires of economizer fault detection, and for a unit whether its
+// capacity brings it under the clause.
+std::string fault_detection_text(Format f, const codes::Edition& e, System compare_in,
+                                 const CodeVerdicts* u, System s) {
+  const std::string bullet = f == Format::md ? "- " : "  ";
+  const std::string sub = f == Format::md ? "  - " : "      - ";
+  std::string out = "\n" + heading(f, "Economizer fault detection");
+  if (!e.fault_detection) {
+    out += fmt::format(
+        "{}{} has no economizer fault-detection clause in limitline's tables (from memory); "
+        "a fault-detection system is still common practice\n",
+        bullet, e.id);
+    return out;
+  }
+  const codes::FaultDetection& d = *e.fault_detection;
+  out += fmt::format("{}{} {}: {}\n", bullet, e.id, d.clause, d.applies_to);
+  if (d.capacity_ip) {
+    const double kw = compare_in == System::ip
+                          ? units::from_display(Kind::power, System::ip, *d.capacity_ip)
+                          : *d.capacity_si;
+    out += fmt::format("{}from a cooling capacity of {}\n", bullet,
+                       units::format(Kind::power, s, kw, 1));
+  }
+  if (u) {
+    const bool covered = d.covers_capacity(u->capacity_kw, compare_in);
+    out += fmt::format(
+        "{}-> {}\n", bullet,
+        covered ? fmt::format("required for this unit if it is of the type the clause covers "
+                              "(capacity {}{})",
+                              units::format(Kind::power, s, u->capacity_kw, 1),
+                              u->capacity_estimated ? ", estimated" : "")
+                : fmt::format("not required for this unit: its capacity {} is below the "
+                              "threshold",
+                              units::format(Kind::power, s, u->capacity_kw, 1)));
+  }
+  out += fmt::format("{}sensors to install permanently:\n", bullet);
+  for (const auto& x : d.sensors) out += fmt::format("{}{}\n", sub, x);
+  if (d.sensor_accuracy_ip) {
+    const double acc =
+        compare_in == System::ip
+            ? units::from_display(Kind::temperature_difference, System::ip, *d.sensor_accuracy_ip)
+            : *d.sensor_accuracy_si;
+    out += fmt::format("{}temperature sensor accuracy: ±{}{}\n", bullet,
+                       units::format(Kind::temperature_difference, s, acc, 1),
+                       d.accuracy_range.empty() ? "" : " over " + d.accuracy_range);
+  }
+  if (!d.status.empty()) {
+    out += fmt::format("{}the unit controller shows:\n", bullet);
+    for (const auto& x : d.status) out += fmt::format("{}{}\n", sub, x);
+  }
+  out += fmt::format(
+      "{}faults it must detect (the code's terms in quotes, limitline's name in "
+      "brackets):\n",
+      bullet);
+  for (const auto& r : d.faults)
+    out += fmt::format("{}\"{}\" [{}]\n", sub, r.code_term, codes::fault_name(r.fault));
+  out += fmt::format("{}reporting: {}\n", bullet, d.reporting);
+  out += fmt::format("{}provenance: {}\n", bullet, d.provenance);
+  return out;
+}
+
+void json_fault_detection(Json& j, const codes::Edition& e, System compare_in,
+                          const CodeVerdicts* u, System s) {
+  j.key("fault_detection");
+  if (!e.fault_detection) {
+    j.null();
+    return;
+  }
+  const codes::FaultDetection& d = *e.fault_detection;
+  const std::string power_key = fmt::format("_{}", units::key_suffix(Kind::power, s));
+  j.begin_object();
+  j.field("clause", d.clause).field("applies_to", d.applies_to);
+  j.key("capacity_threshold" + power_key);
+  if (d.capacity_ip) {
+    const double kw = compare_in == System::ip
+                          ? units::from_display(Kind::power, System::ip, *d.capacity_ip)
+                          : *d.capacity_si;
+    j.value(units::to_display(Kind::power, s, kw), 3);
+  } else {
+    j.null();
+  }
+  if (u) j.field("covers_unit_capacity", d.covers_capacity(u->capacity_kw, compare_in));
+  j.key("sensors").begin_array();
+  for (const auto& x : d.sensors) j.value(x);
+  j.end_array();
+  const std::string acc_key =
+      fmt::format("sensor_accuracy_{}", units::key_suffix(Kind::temperature_difference, s));
+  j.key(acc_key);
+  if (d.sensor_accuracy_ip)
+    j.value(units::to_display(Kind::temperature_difference, s,
+                              compare_in == System::ip
+                                  ? units::from_display(Kind::temperature_difference, System::ip,
+                                                        *d.sensor_accuracy_ip)
+                                  : *d.sensor_accuracy_si),
+            3);
+  else
+    j.null();
+  j.field("accuracy_range", d.accuracy_range);
+  j.key("status").begin_array();
+  for (const auto& x : d.status) j.value(x);
+  j.end_array();
+  j.key("faults").begin_array();
+  for (const auto& r : d.faults)
+    j.begin_object()
+        .field("fault", codes::fault_name(r.fault))
+        .field("code_term", r.code_term)
+        .field("description", codes::fault_description(r.fault))
+        .end_object();
+  j.end_array();
+  j.field("reporting", d.reporting).field("provenance", d.provenance);
+  j.end_object();
+}
+
 void json_requirement(Json& j, const codes::ZoneRequirements& req, const CodeVerdicts* u,
                       System s) {
   const codes::NeedCheck zone_need = codes::economizer_need(req);
@@ -388,6 +501,7 @@ std::string zone_listing(const codes::ZoneRequirements& req, System s, Format f,
     j.end_array();
     json_requirement(j, req, nullptr, s);
     json_selectable(j, e, req.compare_in, s);
+    json_fault_detection(j, e, req.compare_in, nullptr, s);
     return json_close(j, e, mode);
   }
 
@@ -422,6 +536,7 @@ std::string zone_listing(const codes::ZoneRequirements& req, System s, Format f,
   out += requirement_text(f, req, nullptr, s);
   out += integration_text(f, e, mode, "the given");
   out += selectable_text(f, e, req.compare_in, s);
+  out += fault_detection_text(f, e, req.compare_in, nullptr, s);
   out += notes_text(f, notes, rows, e);
   return out + cautions(f);
 }
@@ -531,6 +646,7 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
     j.end_array();
     json_requirement(j, req, &u, s);
     json_selectable(j, e, req.compare_in, s);
+    json_fault_detection(j, e, req.compare_in, &u, s);
     return json_close(j, e, u.economizer);
   }
 
@@ -579,6 +695,7 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
         return c.verdict == Verdict::complies_if_selectable;
       }))
     out += selectable_text(f, e, req.compare_in, s);
+  out += fault_detection_text(f, e, req.compare_in, &u, s);
   out += notes_text(f, notes, rows, e);
   return out + cautions(f);
 }

@@ -14,6 +14,7 @@
 #include <limitline/model/highlimit.hpp>
 #include <limitline/model/units.hpp>
 
+#include <cstdint>
 #include <filesystem>
 #include <optional>
 #include <span>
@@ -158,6 +159,51 @@ struct SelectableSetpoints {
   std::optional<double> allowance(highlimit::Quantity quantity, units::System compare_in) const;
 };
 
+// --- Economizer fault detection --------------------------------------------------------------
+// The faults an economizer fault-detection requirement asks a unit to find, in limitline's own
+// names; an edition's table quotes each in the code's own words beside it.
+enum class Fault : std::uint8_t {
+  sensor_fault,                  // an air-temperature sensor failed or reads wrong
+  not_economizing_when_allowed,  // the high-limit allows outdoor air, the damper stays shut
+  economizing_when_locked_out,   // the high-limit locks outdoor air out, the damper is open
+  damper_not_modulating,         // the damper does not move as commanded
+  outdoor_air_above_minimum,     // more outdoor air than the minimum while not economizing
+};
+inline constexpr std::size_t kFaultCount = 5;
+std::string_view fault_name(Fault f);         // "sensor-fault", ... (the tables' spelling)
+std::string_view fault_description(Fault f);  // one line, our words
+std::optional<Fault> fault_from_name(std::string_view name);
+std::string fault_names();  // for messages: "sensor-fault, not-economizing-when-allowed, ..."
+
+struct RequiredFault {
+  Fault fault;
+  std::string code_term;  // the code's own words for it, quoted with the clause
+};
+
+// What an edition requires of economizer fault detection and diagnostics: which units, which
+// sensors at what accuracy, what the controller shows, which faults it finds, how it reports.
+struct FaultDetection {
+  std::string clause;
+  std::string applies_to;  // in our words
+  // The cooling capacity from which it applies (kBtu/h and kW as stored); none: any size the
+  // clause covers.
+  std::optional<double> capacity_ip, capacity_si;
+  std::vector<std::string> sensors;  // to be installed permanently
+  // Accuracy of the air-temperature sensors (°F and K of difference); none: not stated.
+  std::optional<double> sensor_accuracy_ip, sensor_accuracy_si;
+  std::string accuracy_range;       // over which the accuracy holds, as text ("40–80 °F")
+  std::vector<std::string> status;  // what the unit controller displays
+  std::string reporting;            // where faults are reported
+  std::vector<RequiredFault> faults;
+  std::string provenance;
+  std::string origin;  // "file:line"
+  [[nodiscard]] const RequiredFault* find(Fault f) const;
+  // Whether a unit of this cooling capacity (kW) is large enough for the clause, compared
+  // with the stored figure of `compare_in`; true when the clause has no threshold. Whether
+  // the unit is of the type the clause covers (`applies_to`) is for the reader to judge.
+  [[nodiscard]] bool covers_capacity(double capacity_kw, units::System compare_in) const;
+};
+
 struct Edition {
   std::string id;  // "ashrae-90.1-2019"
   std::string title;
@@ -169,6 +215,7 @@ struct Edition {
   IntegrationRule integration;
   std::optional<EconomizerRequirement> economizer_requirement;  // none: the file gives none
   std::optional<SelectableSetpoints> selectable;                // none: no such footnote
+  std::optional<FaultDetection> fault_detection;                // none: the edition requires none
   std::vector<Row> rows;
   std::vector<std::string> sources;  // the edition's file, then each amendment applied
 
