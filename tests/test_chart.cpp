@@ -24,6 +24,7 @@
 #include <algorithm>
 #include <fstream>
 #include <regex>
+#include <set>
 #include <sstream>
 
 using namespace limitline;
@@ -548,19 +549,55 @@ TEST_CASE(
   for (int t = -5; t <= 35; ++t)
     for (double w : {0.004, 0.006, 0.008})
       whole_c.push_back({{static_cast<double>(t), w}, 1.0, report::HourOutcome::economize});
+  // (1 °C = 1.8 °F exactly, by definition of the scales): columns one reading wide, centred.
   ip = report::overlay_bin_size(whole_c, units::System::ip);
-  CHECK(ip.dry_bulb == 2.0);
-  // Whole °F readings are 0.56 °C apart: 0.5 °C columns leave every ninth one empty.
+  CHECK(ip.dry_bulb == doctest::Approx(1.8));
+  CHECK(ip.dry_bulb_origin == doctest::Approx(31.1));  // −0.5 °C
+  // Whole °F readings are 0.56 °C apart: 0.5 °C columns would leave every ninth one empty.
   std::vector<report::ClimateHour> whole_f;
   for (int f = 20; f <= 100; ++f)
     whole_f.push_back(
         {{units::celsius_from_fahrenheit(f), 0.006}, 1.0, report::HourOutcome::economize});
   si = report::overlay_bin_size(whole_f, units::System::si);
-  CHECK(si.dry_bulb == 1.0);
+  CHECK(si.dry_bulb == doctest::Approx(5.0 / 9.0));
+  CHECK(si.dry_bulb_origin == doctest::Approx(units::celsius_from_fahrenheit(-0.5)));
   // The chart says which cell it used.
   report::ChartInput c = chart_input(harbourside().in.unit, {}, units::System::ip);
   c.climate = whole_c;
-  CHECK(contains(report::psychrometric_chart_svg(c), "one cell = 2 °F × 5 gr/lb"));
+  CHECK(contains(report::psychrometric_chart_svg(c), "one cell = 1.8 °F × 5 gr/lb"));
+}
+
+TEST_CASE("a TMY3 year (whole °F kept as tenths of °C) bins without empty columns") {
+  // NREL TMY3 Greensboro NC (tests/data/SOURCES.md): dry-bulbs such as 6.1, 6.7, 7.2 °C are
+  // 43, 44, 45 °F rounded to a tenth of °C.
+  WeatherOverrides w;
+  w.file = greensboro();
+  const YearInputs in = load_year_inputs({greensboro_unit("gso-bins.toml", "").string(), false}, w);
+  const auto climate = report::climate_hours(prepare_year(in));
+  REQUIRE(climate.size() > 1000);
+  // Interior columns with no hours, for columns `step` wide starting at `origin`.
+  auto gaps = [&](double step, double origin, units::System s) {
+    std::set<long> filled;
+    for (const auto& h : climate)
+      filled.insert(static_cast<long>(std::floor(
+          (units::to_display(units::Kind::temperature, s, h.outdoor.dry_bulb_c) - origin) / step)));
+    long empty = 0;
+    for (long k = *filled.begin(); k <= *filled.rbegin(); ++k) empty += filled.count(k) ? 0 : 1;
+    return empty;
+  };
+  const auto ip = report::overlay_bin_size(climate, units::System::ip);
+  CHECK(ip.dry_bulb == doctest::Approx(1.0));
+  CHECK(ip.dry_bulb_origin == doctest::Approx(-0.5));
+  CHECK(gaps(ip.dry_bulb, ip.dry_bulb_origin, units::System::ip) == 0);
+  // Columns from whole °F split the readings that rounding put just under a whole degree.
+  CHECK(gaps(1.0, 0.0, units::System::ip) > 5);
+  const auto si = report::overlay_bin_size(climate, units::System::si);
+  CHECK(si.dry_bulb == doctest::Approx(5.0 / 9.0));
+  CHECK(gaps(si.dry_bulb, si.dry_bulb_origin, units::System::si) == 0);
+  CHECK(gaps(0.5, 0.0, units::System::si) > 5);
+  // The embedded demo climate, in tenths of °C, keeps the finest fixed cells.
+  CHECK(report::overlay_bin_size(report::climate_hours(harbourside().prepared), units::System::ip)
+            .dry_bulb_origin == 0.0);
 }
 
 TEST_CASE("charts parse as XML, are standalone and render to a picture that is not blank") {

@@ -895,6 +895,22 @@ double stripe_share(std::span<const ClimateHour> climate, double step, auto&& co
 // More than this share of stripes is the recording's resolution showing, not the climate.
 constexpr double kStripeShare = 0.05;
 
+// Whether nearly every occupied hour's dry-bulb is a whole degree of `recorded`, give or take
+// the 0.05 °C of a file that stores the reading in tenths of the other unit (TMY3 keeps whole
+// °F readings as tenths of °C).
+bool on_whole_degrees(std::span<const ClimateHour> climate, System recorded) {
+  constexpr double kToleranceC = 0.06;
+  constexpr double kShare = 0.95;
+  double on = 0.0, all = 0.0;
+  for (const auto& h : climate) {
+    const double d = t_disp(h.outdoor.dry_bulb_c, recorded);
+    const double off_c = std::fabs(t_si(d, recorded) - t_si(std::round(d), recorded));
+    if (off_c <= kToleranceC) on += h.hours;
+    all += h.hours;
+  }
+  return all > 0.0 && on >= kShare * all;
+}
+
 OverlaySummary draw_climate(Ctx& c) {
   OverlaySummary sum;
   if (c.in.climate.empty()) return sum;
@@ -904,7 +920,8 @@ OverlaySummary draw_climate(Ctx& c) {
   for (const auto& h : c.in.climate) {
     const double td = t_disp(h.outdoor.dry_bulb_c, c.s);
     const double wd = h.outdoor.humidity_ratio * c.ax.w_per_kgkg;
-    const auto key = std::make_pair(bin_of(td, bin.dry_bulb), bin_of(wd, bin.humidity_ratio));
+    const auto key = std::make_pair(bin_of(td - bin.dry_bulb_origin, bin.dry_bulb),
+                                    bin_of(wd, bin.humidity_ratio));
     cells[key].hours[static_cast<std::size_t>(h.outcome)] += h.hours;
     sum.hours[static_cast<std::size_t>(h.outcome)] += h.hours;
   }
@@ -922,8 +939,8 @@ OverlaySummary draw_climate(Ctx& c) {
     second = dom == 0 ? 1 : 0;
     for (std::size_t i = 0; i < kHourOutcomeCount; ++i)
       if (i != dom && t.hours[i] > t.hours[second]) second = i;
-    const double x0 = c.g.x(t_si(k.first * bin.dry_bulb, c.s));
-    const double x1 = c.g.x(t_si((k.first + 1) * bin.dry_bulb, c.s));
+    const double x0 = c.g.x(t_si(bin.dry_bulb_origin + k.first * bin.dry_bulb, c.s));
+    const double x1 = c.g.x(t_si(bin.dry_bulb_origin + (k.first + 1) * bin.dry_bulb, c.s));
     const double y0 = c.g.y((k.second + 1) * bin.humidity_ratio / c.ax.w_per_kgkg);
     const double y1 = c.g.y(k.second * bin.humidity_ratio / c.ax.w_per_kgkg);
     c.out += fmt::format(
@@ -1259,8 +1276,8 @@ void draw_title(Ctx& c) {
 std::string hours_text(double h) { return fmt::format("{:.0f} h", h); }
 
 // The legend under the plot; returns the height used.
-double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, bool shared,
-                   const OverlaySummary& ov) {
+double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn,
+                   const std::vector<std::size_t>& shared, const OverlaySummary& ov) {
   const double x = kPlot.left;
   const std::string head = fmt::format(
       "font-size=\"10\" font-weight=\"bold\" fill=\"{}\" letter-spacing=\"1.1\"", kInkSoft);
@@ -1292,19 +1309,19 @@ double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, bool shared
       }
       y += 2;
     }
-    if (shared) {
-      // A sample of a shared line with a two-number badge group, as the plot draws them.
-      const std::vector<Px> rail = {{x + 2, y - 4}, {x + 46, y - 4}};
+    if (!shared.empty()) {
+      // A sample of a shared line with the badge group of one on this chart.
+      const double hw = badge_half_width(shared.size());
+      const double cx = x + std::max(24.0, hw + 2);
+      const std::vector<Px> rail = {{cx - hw - 6, y - 4}, {cx + hw + 6, y - 4}};
       c.out += fmt::format(
           "<path d=\"{0}\" stroke=\"{1}\" stroke-width=\"3.8\"/><path d=\"{0}\" "
           "stroke=\"{2}\" stroke-width=\"1.2\"/>\n",
           path_d(rail), kSharedLine, kPaper);
-      const std::vector<std::size_t> pair = {0, 1};
-      c.out += badge_svg(pair, {x + 24, y - 4},
-                         around(x + 24, y - 4, badge_half_width(2), kBadgeHalfHeight), false);
-      c.out += text(x + 54, y,
-                    "a hollow graphite line is shared by several strategies: it is drawn once and "
-                    "its badge group lists their numbers",
+      c.out += badge_svg(shared, {cx, y - 4}, around(cx, y - 4, hw, kBadgeHalfHeight), false);
+      c.out += text(std::max(x + 54, cx + hw + 14), y,
+                    "hollow graphite line: shared by the strategies whose numbers its badge "
+                    "group carries, drawn once",
                     body);
       y += 17;
     }
@@ -1331,8 +1348,8 @@ double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, bool shared
     y += 20;
     // Density key: four cells from one hour to the fullest cell.
     const BinSize bin = ov.bin;
-    const std::string cell = fmt::format("one cell = {} {} × {} {}", tick_label(bin.dry_bulb),
-                                         t_unit(c.s), tick_label(bin.humidity_ratio), c.ax.w_unit);
+    const std::string cell = fmt::format("one cell = {:.3g} {} × {:.3g} {}", bin.dry_bulb,
+                                         t_unit(c.s), bin.humidity_ratio, c.ax.w_unit);
     const double qs[] = {std::min(1.0, ov.max_cell), ov.max_cell / 4, ov.max_cell / 2, ov.max_cell};
     double kx = x;
     for (double q : qs) {
@@ -1419,11 +1436,18 @@ std::vector<ClimateHour> climate_hours(const annual::Prepared& prepared) {
 BinSize overlay_bin_size(std::span<const ClimateHour> climate, System s) {
   const AxisStyle& ax = axis_style(s);
   BinSize bin = ax.bin;
-  for (int k = 0; k < 2 && stripe_share(climate, bin.dry_bulb,
-                                        [&](const ClimateHour& h) {
-                                          return t_disp(h.outdoor.dry_bulb_c, s);
-                                        }) > kStripeShare;
-       ++k)
+  // Readings in whole degrees of either system: one column per reading step, centred on the
+  // readings, so every column holds the same readings and none is empty between full ones.
+  for (const System recorded : {System::ip, System::si}) {
+    if (!on_whole_degrees(climate, recorded)) continue;
+    bin.dry_bulb = t_disp(t_si(1.0, recorded), s) - t_disp(t_si(0.0, recorded), s);
+    bin.dry_bulb_origin = t_disp(t_si(-0.5, recorded), s);
+    break;
+  }
+  auto dry_bulb = [&](const ClimateHour& h) {
+    return t_disp(h.outdoor.dry_bulb_c, s) - bin.dry_bulb_origin;
+  };
+  for (int k = 0; k < 2 && stripe_share(climate, bin.dry_bulb, dry_bulb) > kStripeShare; ++k)
     bin.dry_bulb *= 2;
   for (int k = 0; k < 2 && stripe_share(climate, bin.humidity_ratio,
                                         [&](const ClimateHour& h) {
@@ -1507,8 +1531,11 @@ std::string psychrometric_chart_svg(const ChartInput& in) {
   draw_axes(c);
   draw_title(c);
   const double legend_top = g.area().top + g.area().height + 66;
-  const bool shared = std::any_of(segs.begin(), segs.end(),
-                                  [](const Segment& seg) { return seg.members.size() > 1; });
+  // The legend explains shared lines with the smallest group on the chart.
+  std::vector<std::size_t> shared;
+  for (const auto& seg : segs)
+    if (seg.members.size() > 1 && (shared.empty() || seg.members.size() < shared.size()))
+      shared = seg.members;
   const double legend_h = draw_legend(c, legend_top, drawn, shared, ov);
   const double height = legend_top + legend_h + 14;
 
