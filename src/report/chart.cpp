@@ -1035,22 +1035,22 @@ std::vector<Mark> layout_marks(const Ctx& c, Layout& lay) {
 // Where the marks' labels go: the first place around each mark that is clear of what is
 // placed before it and of the lines, else clear of the boxes alone, else the first place.
 void place_mark_labels(const Ctx& c, std::vector<Mark>& marks, Layout& lay) {
-  // Below right, above right, above left, below left of the mark, then further up and down.
+  // Below right, above right, above left, below left of the mark, then further down and up.
   std::vector<std::pair<double, double>> places = {{10, 18}, {10, -9}, {-10, -9}, {-10, 18}};
   for (double step = 14; step <= 84; step += 14)
     for (const double dx : {10.0, -10.0})
       for (const double dy : {18 + step, -9 - step}) places.push_back({dx, dy});
   for (auto& m : marks) {
     const double x = c.g.x(m.p.dry_bulb_c), y = c.g.y(m.p.humidity_ratio);
+    // A label next to its mark may cross a line; one far from it reads as no one's.
+    constexpr std::size_t kNear = 6;
     bool placed = false;
-    for (const bool of_lines : {true, false}) {
-      for (const auto& [dx, dy] : places) {
-        m.dx = dx;
-        m.dy = dy;
-        if (lay.clear(mark_label_box(x, y, m), of_lines)) {
-          placed = true;
-          break;
-        }
+    for (const auto& [reach, of_lines] :
+         {std::pair{kNear, true}, std::pair{kNear, false}, std::pair{places.size(), true},
+          std::pair{places.size(), false}}) {
+      for (std::size_t i = 0; i < reach && !placed; ++i) {
+        std::tie(m.dx, m.dy) = places[i];
+        placed = lay.clear(mark_label_box(x, y, m), of_lines);
       }
       if (placed) break;
     }
