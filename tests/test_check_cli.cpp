@@ -162,7 +162,7 @@ TEST_CASE("check: verdicts against the perfect changeover") {
   SUBCASE("humid outdoor air below the return dry-bulb: a dry-bulb limit enables wrongly") {
     // Common practice: 72 °F / 90 % RH is cooler than 75 °F / 50 % return air but carries more
     // enthalpy, so bringing it in costs more; a dry-bulb high-limit still enables.
-    const Run r = run("check '" + unit + "' --outdoor 72F/90%");
+    const Run r = run("check --wide '" + unit + "' --outdoor 72F/90%");
     REQUIRE(r.code == 0);
     no_nan(r.out);
     const std::string db = row_of(r.out, "db75");
@@ -175,7 +175,7 @@ TEST_CASE("check: verdicts against the perfect changeover") {
     CHECK(r.out.find("Perfect changeover: disable") != std::string::npos);
   }
   SUBCASE("dry mild air: enabling pays; a far too low enthalpy limit misses it") {
-    const Run r = run("check '" + unit + "' --outdoor 65F/30%");
+    const Run r = run("check --wide '" + unit + "' --outdoor 65F/30%");
     REQUIRE(r.code == 0);
     CHECK(row_of(r.out, "db75").find("right decision") != std::string::npos);
     CHECK(row_of(r.out, "diff-h").find("right decision") != std::string::npos);
@@ -184,7 +184,7 @@ TEST_CASE("check: verdicts against the perfect changeover") {
   }
   SUBCASE("very cold air: no cooling needed, the high-limit does not matter") {
     // 20 % of −40 °F air with 75 °F return mixes near 52 °F, below the 53.5 °F target.
-    const Run r = run("check '" + unit + "' --outdoor -40F/50%");
+    const Run r = run("check --wide '" + unit + "' --outdoor -40F/50%");
     REQUIRE(r.code == 0);
     for (const char* s : {"db75", "diff-h", "h15"})
       CHECK(row_of(r.out, s).find("no cooling needed") != std::string::npos);

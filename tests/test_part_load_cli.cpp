@@ -101,7 +101,7 @@ electricity_price = 0.13
 heating_price = 0.035
 currency = "EUR"
 )");
-  const auto text = year(write("plant.toml", unit));
+  const auto text = year(write("plant.toml", unit), {"--wide"});
   REQUIRE(text.rc == 0);
   CHECK(contains(text.out, "shortfall EUR"));
   CHECK(contains(text.out, "cost of electricity for cooling and fuel for heating, EUR"));

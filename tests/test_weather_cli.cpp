@@ -192,7 +192,7 @@ TEST_CASE("site and weather pressure: Greensboro under a unit at 20 ft warns, at
   std::filesystem::copy_file(w, scratch_dir(kSuite) / "site.csv",
                              std::filesystem::copy_options::overwrite_existing);
   const auto coded = write_unit("code20.toml", "20ft", "[weather]\nfile = \"site.csv\"\n");
-  const auto code = run_cli({"code", coded.string()}, kSuite);
+  const auto code = run_cli({"code", coded.string(), "--wide"}, kSuite);  // sentences read whole
   CHECK(code.rc == 0);
   CHECK(contains(code.out, "Weather pressure"));
   CHECK(contains(code.out, "the altitude footnote used 14.69 psia (from the unit's [site])"));

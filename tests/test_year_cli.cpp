@@ -272,7 +272,8 @@ return_air_rh = "50%"
     return p.string();
   };
   const auto coded = write("coded.toml", site_code + handler);
-  const auto r = run_cli({"year", coded, "--weather", data("greensboro-nc-tmy3.csv")}, "year_cli");
+  const auto r =
+      run_cli({"year", coded, "--weather", data("greensboro-nc-tmy3.csv"), "--wide"}, "year_cli");
   INFO(r.out, r.err);
   REQUIRE(r.rc == 0);
   CHECK(contains(r.out,

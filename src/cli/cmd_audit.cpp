@@ -163,8 +163,9 @@ int run_audit(const std::vector<std::string>& args) {
   const trend::TrendLog log = trend::load_trend(vm["trend"].as<std::string>(), read);
   const audit::Result r = audit::run(unit, log, opt);
 
-  report::AuditContext ctx{unit.path, report::describe_strategy(opt.strategy, system), source,
-                           opt.accuracy, system};
+  report::AuditContext ctx{unit.path, report::describe_strategy(opt.strategy, system),
+                           source,    opt.accuracy,
+                           system,    common.text_width()};
   const std::string output = vm["output"].as<std::string>();
   switch (common.format) {
     case Format::json: write_file(output, report::audit_json(r, log, ctx), "--output"); break;
@@ -175,7 +176,9 @@ int run_audit(const std::vector<std::string>& args) {
                                            "limitline " LIMITLINE_CLI_VERSION),
                  "--output");
       break;
-    default: write_file(output, report::audit_text(r, log, ctx), "--output"); break;
+    default:
+      write_file(output, terminal_text(common, report::audit_text(r, log, ctx)), "--output");
+      break;
   }
   return 0;
 }

@@ -80,11 +80,12 @@ int run_check(const std::vector<std::string>& args) {
 
   const std::vector<highlimit::Strategy> strategies = strategies_or_presets(unit);
   const PointCheck pc = check_point(unit.air_handler, unit.weights, strategies, outdoor, ret);
-  const report::PointCheckContext context{&unit, "--outdoor", return_source, warnings, system};
+  const report::PointCheckContext context{&unit,    "--outdoor", return_source,
+                                          warnings, system,      common.text_width()};
   switch (common.format) {
     case Format::json: write_out(report::point_check_json(pc, context)); break;
     case Format::md: write_out(report::point_check_markdown(pc, context)); break;
-    default: write_out(report::point_check_text(pc, context)); break;
+    default: write_out(terminal_text(common, report::point_check_text(pc, context))); break;
   }
   return 0;
 }

@@ -80,10 +80,14 @@ airside::EconomizerType parse_economizer(const std::string& text) {
                                names_in(airside::economizer_names(), " or ")));
 }
 
-// A report in the chosen format: its text, Markdown and JSON renderings take the same inputs.
-template <typename Render, typename... Args>
-std::string formatted(Format f, Render text, Render markdown, Render json, const Args&... args) {
-  return (f == Format::json ? json : f == Format::md ? markdown : text)(args...);
+// A report in the chosen format: its text, Markdown and JSON renderings take the same inputs,
+// the text one then the width its tables fit, and the text goes through terminal_text().
+template <typename Text, typename Render, typename... Args>
+std::string formatted(const Common& common, Text text, Render markdown, Render json,
+                      const Args&... args) {
+  if (common.format == Format::json) return json(args...);
+  if (common.format == Format::md) return markdown(args...);
+  return terminal_text(common, text(args..., common.text_width()));
 }
 
 // The unit's own weather file, when it has a pressure column: which pressure the altitude
@@ -182,12 +186,12 @@ int run_code(const std::vector<std::string>& args) {
   report_warnings(warnings, common.strict);
 
   if (list) {
-    write_out(formatted(common.format, report::code_editions_text, report::code_editions_markdown,
+    write_out(formatted(common, report::code_editions_text, report::code_editions_markdown,
                         report::code_editions_json, tables));
     return 0;
   }
   if (all) {
-    write_out(formatted(common.format, report::code_matrix_text, report::code_matrix_markdown,
+    write_out(formatted(common, report::code_matrix_text, report::code_matrix_markdown,
                         report::code_matrix_json, tables, pressure, compare_in, s));
     return 0;
   }
@@ -195,7 +199,7 @@ int run_code(const std::vector<std::string>& args) {
     const auto& e = tables.edition(vm["edition"].as<std::string>(), "--edition");
     const auto req =
         codes::requirements(e, vm["zone"].as<std::string>(), {pressure, compare_in}, "--zone");
-    write_out(formatted(common.format, report::code_zone_text, report::code_zone_markdown,
+    write_out(formatted(common, report::code_zone_text, report::code_zone_markdown,
                         report::code_zone_json, req, s, economizer));
     return 0;
   }
@@ -237,7 +241,7 @@ int run_code(const std::vector<std::string>& args) {
   u.capacity_estimated = capacity.estimated;
   u.capacity_basis = capacity.basis;
   u.need = codes::economizer_need(req, capacity.kw);
-  write_out(formatted(common.format, report::code_unit_text, report::code_unit_markdown,
+  write_out(formatted(common, report::code_unit_text, report::code_unit_markdown,
                       report::code_unit_json, u, s));
   return 0;
 }

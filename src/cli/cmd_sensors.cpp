@@ -160,6 +160,7 @@ int run_sensors(const std::vector<std::string>& args) {
   }
 
   report::YearContext ctx = year_context(in, system);
+  ctx.text_width = common.text_width();
   if (ctx.plant) {
     ctx.plant.reset();
     ctx.model += "; this study weighs coil energy ([plant] prices apply in year and report)";
@@ -178,7 +179,8 @@ int run_sensors(const std::vector<std::string>& args) {
     report::write_trials_csv(csv->stream(), study, system);
     csv->commit();
   }
-  write_out(common.format == Format::json ? report::sensors_json(rep) : report::sensors_text(rep));
+  write_out(common.format == Format::json ? report::sensors_json(rep)
+                                          : terminal_text(common, report::sensors_text(rep)));
   if (interrupted)
     std::fprintf(stderr, "limitline sensors: interrupted; partial results written\n");
   return interrupted ? kInterruptedExit : 0;

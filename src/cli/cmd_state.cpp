@@ -143,7 +143,7 @@ int run_state(const std::vector<std::string>& args) {
     report::Table table({{"property", report::Align::left}, {"value", report::Align::right}});
     for (const auto& f : fields)
       table.add_row({std::string(f.label), report::property_text(f, props, system)});
-    write_out(table.text());
+    write_out(table.text(common.text_width()));
   }
   return 0;
 }

@@ -118,7 +118,7 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
     j.end_object();
     write_out(j.str());
   } else {
-    report::Table t({{"weather file", report::Align::left},
+    report::Table t({{"weather file", report::Align::left, true},
                      {"strategy", report::Align::left},
                      {"best", report::Align::left},
                      {"within 1%", report::Align::left},
@@ -139,11 +139,12 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
       write_out(t.csv());
       if (!errors.empty()) std::fprintf(stderr, "limitline tune: errors:\n%s", errors.c_str());
     } else {
-      std::string out = common.format == Format::md
-                            ? "# Setpoint tuning, per site\n\n" + t.markdown()
-                            : "limitline tune — best setting per site\n\n" + t.text();
+      std::string out =
+          common.format == Format::md
+              ? "# Setpoint tuning, per site\n\n" + t.markdown()
+              : "limitline tune — best setting per site\n\n" + t.text(common.text_width());
       if (!errors.empty()) out += "\nSites that could not be tuned:\n" + errors;
-      write_out(out);
+      write_out(common.format == Format::md ? out : terminal_text(common, out));
     }
   }
   if (guard.interrupted()) {
@@ -213,7 +214,7 @@ int run_tune(const std::vector<std::string>& args) {
     case Format::md: write_out(report::tune_markdown(rep)); break;
     case Format::text:
     case Format::html:  // not among this command's formats: read_common refuses it
-      write_out(report::tune_text(rep));
+      write_out(terminal_text(common, report::tune_text(rep)));
       break;
   }
   if (guard.interrupted()) {

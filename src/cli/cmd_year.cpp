@@ -106,8 +106,8 @@ std::string batch_json(const std::vector<BatchSite>& sites, const report::Measur
 }
 
 std::string batch_table(const std::vector<BatchSite>& sites, const report::Measure& m, Format f,
-                        bool interrupted) {
-  std::vector<report::Column> cols = {{"weather file", report::Align::left},
+                        bool interrupted, std::size_t width) {
+  std::vector<report::Column> cols = {{"weather file", report::Align::left, true},
                                       {"fan-on h", report::Align::right},
                                       {"best strategy", report::Align::left},
                                       {"shortfall " + m.unit(), report::Align::right},
@@ -134,7 +134,7 @@ std::string batch_table(const std::vector<BatchSite>& sites, const report::Measu
   // CSV is data only: errors and the partial note go to standard error (see run_year).
   if (f == Format::csv) return t.csv();
   std::string out = f == Format::md ? "# Annual high-limit evaluation, per site\n\n" + t.markdown()
-                                    : "limitline year — per-site summary\n\n" + t.text();
+                                    : "limitline year — per-site summary\n\n" + t.text(width);
   if (interrupted) out += "\n" + partial_note(sites) + "\n";
   if (!errors.empty()) out += "\nSites that could not be evaluated:\n" + errors;
   out += '\n';
@@ -170,7 +170,8 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
   const report::Measure measure(system, unit.plant);
   write_out(common.format == Format::json
                 ? batch_json(sites, measure, system, interrupted)
-                : batch_table(sites, measure, common.format, interrupted));
+                : terminal_text(common, batch_table(sites, measure, common.format, interrupted,
+                                                    common.text_width())));
   std::fflush(stdout);
   if (common.format == Format::csv) {
     for (const auto& s : sites)
@@ -231,6 +232,7 @@ int run_year(const std::vector<std::string>& args) {
   run.keep_decisions = hourly != nullptr;
   const annual::YearResult y = annual::evaluate(in.strategies, prepared, run);
   report::YearContext ctx = year_context(in, system);
+  ctx.text_width = common.text_width();
   CodeSelection code;
   if (vm.count("edition")) code.edition = vm["edition"].as<std::string>();
   if (vm.count("zone")) code.zone = vm["zone"].as<std::string>();
@@ -247,7 +249,7 @@ int run_year(const std::vector<std::string>& args) {
     case Format::md: write_out(report::year_markdown(y, ctx)); break;
     case Format::text:
     case Format::html:  // not among this command's formats: read_common refuses it
-      write_out(report::year_text(y, ctx));
+      write_out(terminal_text(common, report::year_text(y, ctx)));
       break;
   }
   return 0;

@@ -1,5 +1,7 @@
 #include "common.hpp"
 
+#include <limitline/report/table.hpp>
+
 #include <limitline/io/output_file.hpp>
 #include <limitline/model/plausible.hpp>
 #include <limitline/model/psychro.hpp>
@@ -72,7 +74,10 @@ void add_common_options(po::options_description& options, std::string_view forma
   options.add_options()("strict",
                         "treat warnings (implausible values, inputs that disagree) as errors")(
       "format", po::value<std::string>()->default_value("text"),
-      fmt::format("output format: {}", formats).c_str())("help,h", "show this help");
+      fmt::format("output format: {}", formats).c_str())(
+      "wide",
+      "text output at full width (default: tables stacked and lines wrapped to fit 100 "
+      "columns)")("help,h", "show this help");
 }
 
 bool parse_options(const std::vector<std::string>& args, const po::options_description& options,
@@ -100,9 +105,17 @@ bool parse_options(const std::vector<std::string>& args, const po::options_descr
   return true;
 }
 
+std::size_t Common::text_width() const {
+  return wide ? report::kUnlimitedWidth : report::kTextWidth;
+}
+
+std::string terminal_text(const Common& common, const std::string& text) {
+  return common.wide ? text : report::fit_lines(text, common.text_width());
+}
+
 Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed) {
   return {UnitsChoice(vm), parse_format(vm["format"].as<std::string>(), allowed),
-          vm.count("strict") > 0};
+          vm.count("strict") > 0, vm.count("wide") > 0};
 }
 
 double quantity(const po::variables_map& vm, const char* name, units::Kind kind,

@@ -98,7 +98,13 @@ struct Common {
   UnitsChoice units;
   Format format;
   bool strict = false;  // --strict: warnings are errors
+  bool wide = false;    // --wide: text tables and lines at full width
+  // The width text output fits: report::kTextWidth, or no limit with --wide.
+  std::size_t text_width() const;
 };
+// Text output as the terminal gets it: long prose lines wrapped to text_width() (tables are
+// already laid out to it by their formatters).
+std::string terminal_text(const Common& common, const std::string& text);
 Common read_common(const po::variables_map& vm, std::initializer_list<Format> allowed);
 
 // A whole-number option held to [lo, hi]; InputError naming the option outside it.

@@ -163,13 +163,13 @@ std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const
     out += "gaps:\n";
     for (const auto& l : g) out += "  " + l + "\n";
   }
-  out += "\nColumns used:\n" + mapping_table(log).text();
+  out += "\nColumns used:\n" + mapping_table(log).text(c.text_width);
   if (r.findings.empty())
     out += "\nFindings: none; the log agrees with the strategy and the model.\n";
   else
-    out += "\nFindings:\n" + findings_table(r, c.units).text();
+    out += "\nFindings:\n" + findings_table(r, c.units).text(c.text_width);
   if (!r.switch_points.empty())
-    out += "\nSwitching points seen in the log:\n" + switch_table(r, c.units).text();
+    out += "\nSwitching points seen in the log:\n" + switch_table(r, c.units).text(c.text_width);
   out += "\nRules:\n";
   for (const auto& l : rule_lines(c)) out += "  - " + l + "\n";
   if (!r.notes.empty()) {

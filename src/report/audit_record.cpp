@@ -298,7 +298,8 @@ std::string section_id(std::string_view heading) {
 }
 
 constexpr std::string_view kRecordCss =
-    R"(table.signoff{width:100%;margin:.6rem 0 0;font-size:.9rem}
+    R"(main table th{white-space:normal}main table td:not(.r){white-space:normal}
+table.signoff{width:100%;margin:.6rem 0 0;font-size:.9rem}
 table.signoff th{width:14rem;border-bottom:1px solid var(--rule);vertical-align:top;padding:.9rem .5rem .3rem}
 table.signoff td{border-bottom:1px solid var(--ink);height:2.4rem;white-space:normal}
 table.signoff tr:nth-child(even){background:none}

@@ -91,7 +91,9 @@ std::string heading(Format f, const std::string& title) {
   return f == Format::md ? "## " + title + "\n\n" : title + "\n";
 }
 
-std::string render(Format f, const Table& t) { return f == Format::md ? t.markdown() : t.text(); }
+std::string render(Format f, const Table& t, std::size_t width = kTextWidth) {
+  return f == Format::md ? t.markdown() : t.text(width);
+}
 
 // "label: value" lines of a header block.
 std::string facts(Format f, const std::vector<std::pair<std::string, std::string>>& items) {
@@ -483,7 +485,8 @@ void json_selectable(Json& j, const codes::Edition& e, System compare_in, System
 // --- Listing one zone ----------------------------------------------------------------------
 
 std::string zone_listing(const codes::ZoneRequirements& req, System s, Format f,
-                         std::optional<airside::EconomizerType> mode) {
+                         std::optional<airside::EconomizerType> mode,
+                         std::size_t width = kTextWidth) {
   const codes::Edition& e = *req.edition;
   if (f == Format::json) {
     Json j;
@@ -531,9 +534,9 @@ std::string zone_listing(const codes::ZoneRequirements& req, System s, Format f,
                                                req.compare_in == e.governing_units
                                                    ? " (the edition's governing units)"
                                                    : "")}});
-  out += "\n" + heading(f, "Allowed high-limit controls") + render(f, allowed);
+  out += "\n" + heading(f, "Allowed high-limit controls") + render(f, allowed, width);
   if (prohibited.rows())
-    out += "\n" + heading(f, "Not allowed in this zone") + render(f, prohibited);
+    out += "\n" + heading(f, "Not allowed in this zone") + render(f, prohibited, width);
   out += requirement_text(f, req, nullptr, s);
   out += integration_text(f, e, mode, "the given");
   out += selectable_text(f, e, req.compare_in, s);
@@ -589,7 +592,7 @@ std::string defaulted_text(const CodeVerdicts& u) {
       source);
 }
 
-std::string unit_report(const CodeVerdicts& u, System s, Format f) {
+std::string unit_report(const CodeVerdicts& u, System s, Format f, std::size_t width = kTextWidth) {
   const codes::ZoneRequirements& req = *u.req;
   const codes::Edition& e = *req.edition;
   if (f == Format::json) {
@@ -688,7 +691,7 @@ std::string unit_report(const CodeVerdicts& u, System s, Format f) {
     items.emplace_back("Weather pressure", w);
   out += facts(f, items);
   if (u.defaulted) out += defaulted_text(u);
-  out += "\n" + heading(f, "Verdicts") + render(f, t);
+  out += "\n" + heading(f, "Verdicts") + render(f, t, width);
   out += "\n" + heading(f, "Details") + detail;
   out += requirement_text(f, req, &u, s);
   out += integration_text(f, e, u.economizer, "the unit's");
@@ -733,7 +736,8 @@ std::string cell(const codes::Edition& e, const codes::ZoneRequirements* req,
 }
 
 std::string matrix(const codes::CodeTables& tables, std::optional<double> p,
-                   std::optional<System> compare_in, System s, Format f) {
+                   std::optional<System> compare_in, System s, Format f,
+                   std::size_t width = kTextWidth) {
   struct Group {
     codes::ZoneSystem system;
     std::vector<const codes::Edition*> editions;
@@ -849,7 +853,7 @@ std::string matrix(const codes::CodeTables& tables, std::optional<double> p,
       }
     }
     out += "\n" + heading(f, fmt::format("Zones: {}", codes::zone_system_name(g.system))) +
-           render(f, t);
+           render(f, t, width);
   }
   out += "\n" + heading(f, "Provenance");
   const std::string bullet = f == Format::md ? "- " : "  ";
@@ -858,7 +862,8 @@ std::string matrix(const codes::CodeTables& tables, std::optional<double> p,
   return out + cautions(f);
 }
 
-std::string editions_list(const codes::CodeTables& tables, Format f) {
+std::string editions_list(const codes::CodeTables& tables, Format f,
+                          std::size_t width = kTextWidth) {
   if (f == Format::json) {
     Json j;
     j.begin_object().key("editions").begin_array();
@@ -888,14 +893,14 @@ std::string editions_list(const codes::CodeTables& tables, Format f) {
     t.add_row({e.id, e.title,
                fmt::format("{} ({} to {})", e.zones.size(), e.zones.front(), e.zones.back()), src});
   }
-  return heading(f, "Code editions loaded") + render(f, t) + cautions(f);
+  return heading(f, "Code editions loaded") + render(f, t, width) + cautions(f);
 }
 
 }  // namespace
 
 std::string code_zone_text(const codes::ZoneRequirements& req, System s,
-                           std::optional<airside::EconomizerType> economizer) {
-  return zone_listing(req, s, Format::text, economizer);
+                           std::optional<airside::EconomizerType> economizer, std::size_t width) {
+  return zone_listing(req, s, Format::text, economizer, width);
 }
 std::string code_zone_markdown(const codes::ZoneRequirements& req, System s,
                                std::optional<airside::EconomizerType> economizer) {
@@ -906,8 +911,8 @@ std::string code_zone_json(const codes::ZoneRequirements& req, System s,
   return zone_listing(req, s, Format::json, economizer);
 }
 
-std::string code_unit_text(const CodeVerdicts& v, System s) {
-  return unit_report(v, s, Format::text);
+std::string code_unit_text(const CodeVerdicts& v, System s, std::size_t width) {
+  return unit_report(v, s, Format::text, width);
 }
 std::string code_unit_markdown(const CodeVerdicts& v, System s) {
   return unit_report(v, s, Format::md);
@@ -917,8 +922,8 @@ std::string code_unit_json(const CodeVerdicts& v, System s) {
 }
 
 std::string code_matrix_text(const codes::CodeTables& tables, std::optional<double> pressure_kpa,
-                             std::optional<System> compare_in, System s) {
-  return matrix(tables, pressure_kpa, compare_in, s, Format::text);
+                             std::optional<System> compare_in, System s, std::size_t width) {
+  return matrix(tables, pressure_kpa, compare_in, s, Format::text, width);
 }
 std::string code_matrix_markdown(const codes::CodeTables& tables,
                                  std::optional<double> pressure_kpa,
@@ -930,8 +935,8 @@ std::string code_matrix_json(const codes::CodeTables& tables, std::optional<doub
   return matrix(tables, pressure_kpa, compare_in, s, Format::json);
 }
 
-std::string code_editions_text(const codes::CodeTables& tables) {
-  return editions_list(tables, Format::text);
+std::string code_editions_text(const codes::CodeTables& tables, std::size_t width) {
+  return editions_list(tables, Format::text, width);
 }
 std::string code_editions_markdown(const codes::CodeTables& tables) {
   return editions_list(tables, Format::md);

@@ -332,7 +332,7 @@ Table condition_table(const PointCheck& pc, const View& view) {
 
 std::string text_report(const PointCheckContext& in, const PointCheck& pc, const View& view,
                         bool md) {
-  auto table = [md](const Table& t) { return md ? t.markdown() : t.text(); };
+  auto table = [md, &in](const Table& t) { return md ? t.markdown() : t.text(in.text_width); };
   auto heading = [md](std::string_view h) {
     return md ? fmt::format("\n## {}\n\n", h) : fmt::format("\n{}\n", h);
   };

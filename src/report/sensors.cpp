@@ -149,7 +149,8 @@ std::string accuracy_pair(const sensors::BreakEvenResult& be, double scale, unit
       format_accuracy(Sensor::return_rh, k, be.accuracy(Sensor::return_rh, scale), s));
 }
 
-std::string break_even_text(const sensors::BreakEvenResult& be, units::System s) {
+std::string break_even_text(const sensors::BreakEvenResult& be, units::System s,
+                            std::size_t width) {
   if (be.pairs.empty())
     return "\nBreak-even humidity-sensor accuracy: no pair to compare; it needs a strategy that "
            "reads a humidity sensor and one that reads dry-bulb only.\n";
@@ -177,7 +178,7 @@ std::string break_even_text(const sensors::BreakEvenResult& be, units::System s)
     t.add_row({p.humid_name, p.dry_name, verdict, ran ? energy(p.humid_mean_at_zero_kwh, s) : "-",
                ran ? energy(p.dry_mean_kwh, s) : "-"});
   }
-  return out + t.text();
+  return out + t.text(width);
 }
 
 std::string turn_text(const sensors::SweepResult& sw, const sensors::SweepTurn& t, units::System s,
@@ -193,7 +194,8 @@ std::string turn_text(const sensors::SweepResult& sw, const sensors::SweepTurn& 
   return fmt::format("{} {}", holds, where);
 }
 
-std::string sweep_text(const sensors::SweepResult& sw, HumidityKind study_kind, units::System s) {
+std::string sweep_text(const sensors::SweepResult& sw, HumidityKind study_kind, units::System s,
+                       std::size_t width) {
   const auto& spec = sw.spec;
   const std::string label(sensors::sensor_label(spec.sensor, spec.outdoor_kind));
   std::string out = fmt::format(
@@ -221,7 +223,7 @@ std::string sweep_text(const sensors::SweepResult& sw, HumidityKind study_kind, 
   for (std::size_t i = 0; i < spec.biases.size(); ++i)
     best.push_back(sw.completed[i] ? std::to_string(sw.best[i] + 1) : "-");
   t.add_row(std::move(best));
-  out += t.text();
+  out += t.text(width);
   if (sw.partial) out += "  (interrupted: '-' marks biases that did not run)\n";
 
   const bool any_dry =
@@ -396,17 +398,17 @@ std::string sensors_text(const SensorsReport& r) {
       "ranked by the mean over the trials):\n\n",
       eu);
   out += stats_table(st, &sensors::StrategySummary::shortfall_kwh, exact_shortfall, true, s, true)
-             .text();
+             .text(r.context->text_width);
   out += "\nHarmful hours (economizing when it costs more than not), over the trials:\n\n";
   out += stats_table(st, &sensors::StrategySummary::harmful_hours, exact_harmful, false, s, false)
-             .text();
+             .text(r.context->text_width);
   out += "\nMissed hours (not economizing when it would save), over the trials:\n\n";
   out += stats_table(st, &sensors::StrategySummary::missed_hours, exact_missed, false, s, false)
-             .text();
+             .text(r.context->text_width);
   out +=
       "\nShare of trials in which the row strategy has the smaller shortfall than the column "
       "strategy (same biases):\n\n";
-  out += beats_table(st).text();
+  out += beats_table(st).text(r.context->text_width);
   if (!r.context->strategy_descriptions.empty()) {
     out += "\nStrategies:\n";
     for (const auto& x : st.ranked)
@@ -415,8 +417,8 @@ std::string sensors_text(const SensorsReport& r) {
         out += fmt::format("  {}: {}\n", x.name, it->second);
   }
   out += "\n" + clamp_line(r);
-  if (r.break_even) out += break_even_text(*r.break_even, s);
-  if (r.sweep) out += sweep_text(*r.sweep, kind_of(st.sensors), s);
+  if (r.break_even) out += break_even_text(*r.break_even, s, r.context->text_width);
+  if (r.sweep) out += sweep_text(*r.sweep, kind_of(st.sensors), s, r.context->text_width);
   return out + "\n" + cautions_text(CautionTopic::design);
 }
 

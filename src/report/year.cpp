@@ -98,6 +98,8 @@ std::vector<const annual::StrategyResult*> all_rows(const annual::YearResult& y)
   return rows;
 }
 
+}  // namespace
+
 Table ranked_table(const annual::YearResult& y, const YearContext& c) {
   const auto s = c.units;
   const Measure m(c);
@@ -105,17 +107,17 @@ Table ranked_table(const annual::YearResult& y, const YearContext& c) {
   const std::string eu(energy_unit(s));
   const std::string cu = s == units::System::ip ? "ton-h" : "kWh";
   std::vector<Column> cols = {
-      {"#", Align::right},
-      {"strategy", Align::left},
+      {"#", Align::right, true},
+      {"strategy", Align::left, true},
       {"shortfall " + mu, Align::right},
       {"harmful h", Align::right},
-      {"harmful " + mu, Align::right},
+      {"harmful " + mu, Align::right, false, 1},
       {"missed h", Align::right},
-      {"missed " + mu, Align::right},
-      {"economizing h", Align::right},
-      {"free-cooling h", Align::right},
-      {"cooling " + cu, Align::right},
-      {"heating " + eu, Align::right},
+      {"missed " + mu, Align::right, false, 1},
+      {"economizing h", Align::right, false, 1},
+      {"free-cooling h", Align::right, false, 1},
+      {"cooling " + cu, Align::right, false, 1},
+      {"heating " + eu, Align::right, false, 1},
       {"savings " + mu, Align::right},
   };
   const bool with_code = !c.compliance.empty();
@@ -153,9 +155,11 @@ Table ranked_table(const annual::YearResult& y, const YearContext& c) {
   return t;
 }
 
+namespace {
+
 Table monthly_table(const annual::YearResult& y, double annual::Totals::*member, bool energy_kind,
                     units::System s) {
-  std::vector<Column> cols = {{"strategy", Align::left}};
+  std::vector<Column> cols = {{"strategy", Align::left, true}};
   for (auto m : kMonths) cols.push_back({std::string(m), Align::right});
   cols.push_back({"year", Align::right});
   Table t(cols);
@@ -427,7 +431,7 @@ std::string year_text(const annual::YearResult& y, const YearContext& c) {
   for (const auto& l : header_lines(y, c)) out += l + "\n";
   out += fmt::format("\nStrategies ranked by shortfall against the perfect changeover ({}):\n\n",
                      Measure(c).basis());
-  out += ranked_table(y, c).text();
+  out += ranked_table(y, c).text(c.text_width);
   if (!c.strategy_descriptions.empty()) {
     out += "\nStrategies:\n";
     for (const auto& r : y.strategies) {
@@ -438,11 +442,11 @@ std::string year_text(const annual::YearResult& y, const YearContext& c) {
   out += "\nFindings:\n";
   for (const auto& f : findings(y, c)) out += "  - " + f + "\n";
   out += "\nEconomizing hours by month:\n\n";
-  out += monthly_table(y, &annual::Totals::hours_economizing, false, c.units).text();
+  out += monthly_table(y, &annual::Totals::hours_economizing, false, c.units).text(c.text_width);
   out += "\nHarmful hours by month:\n\n";
-  out += monthly_table(y, &annual::Totals::harmful_hours, false, c.units).text();
+  out += monthly_table(y, &annual::Totals::harmful_hours, false, c.units).text(c.text_width);
   out += "\nMissed hours by month:\n\n";
-  out += monthly_table(y, &annual::Totals::missed_hours, false, c.units).text();
+  out += monthly_table(y, &annual::Totals::missed_hours, false, c.units).text(c.text_width);
   out += "\n" + cautions_text(CautionTopic::design);
   return out;
 }

@@ -5,6 +5,7 @@
 #include <limitline/analysis/audit.hpp>
 #include <limitline/io/trend.hpp>
 #include <limitline/model/units.hpp>
+#include <limitline/report/table.hpp>
 
 #include <string>
 
@@ -16,6 +17,7 @@ struct AuditContext {
   std::string strategy_source;  // "first strategy of the unit file", "--strategy", "code ..."
   audit::Accuracy accuracy;
   units::System units = units::System::ip;
+  std::size_t text_width = kTextWidth;  // the width the text's tables fit (report/table.hpp)
 };
 
 std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c);

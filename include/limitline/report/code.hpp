@@ -7,6 +7,7 @@
 #include <limitline/model/airside.hpp>
 #include <limitline/model/highlimit.hpp>
 #include <limitline/model/units.hpp>
+#include <limitline/report/table.hpp>
 
 #include <optional>
 #include <string>
@@ -18,8 +19,10 @@ namespace limitline::report {
 // economizer checked against it when one is given), whether the zone requires an economizer
 // and from which cooling capacity, and the selectable-setpoint footnote where the edition has
 // one.
+// The text forms lay their tables out to `width` columns (report/table.hpp).
 std::string code_zone_text(const codes::ZoneRequirements& req, units::System s,
-                           std::optional<airside::EconomizerType> economizer);
+                           std::optional<airside::EconomizerType> economizer,
+                           std::size_t width = kTextWidth);
 std::string code_zone_markdown(const codes::ZoneRequirements& req, units::System s,
                                std::optional<airside::EconomizerType> economizer);
 std::string code_zone_json(const codes::ZoneRequirements& req, units::System s,
@@ -56,14 +59,15 @@ struct CodeVerdicts {
   codes::NeedCheck need;
 };
 
-std::string code_unit_text(const CodeVerdicts& v, units::System s);
+std::string code_unit_text(const CodeVerdicts& v, units::System s, std::size_t width = kTextWidth);
 std::string code_unit_markdown(const CodeVerdicts& v, units::System s);
 std::string code_unit_json(const CodeVerdicts& v, units::System s);
 
 // Every loaded edition side by side, zone by zone: the settings each allows, at the site
 // pressure when one is given (else the tables' sea-level figures).
 std::string code_matrix_text(const codes::CodeTables& tables, std::optional<double> pressure_kpa,
-                             std::optional<units::System> compare_in, units::System s);
+                             std::optional<units::System> compare_in, units::System s,
+                             std::size_t width = kTextWidth);
 std::string code_matrix_markdown(const codes::CodeTables& tables,
                                  std::optional<double> pressure_kpa,
                                  std::optional<units::System> compare_in, units::System s);
@@ -71,7 +75,7 @@ std::string code_matrix_json(const codes::CodeTables& tables, std::optional<doub
                              std::optional<units::System> compare_in, units::System s);
 
 // The loaded editions, their zones and the files they came from.
-std::string code_editions_text(const codes::CodeTables& tables);
+std::string code_editions_text(const codes::CodeTables& tables, std::size_t width = kTextWidth);
 std::string code_editions_markdown(const codes::CodeTables& tables);
 std::string code_editions_json(const codes::CodeTables& tables);
 

@@ -6,6 +6,7 @@
 #include <limitline/analysis/point_check.hpp>
 #include <limitline/io/unit_file.hpp>
 #include <limitline/model/units.hpp>
+#include <limitline/report/table.hpp>
 
 #include <string>
 #include <vector>
@@ -18,6 +19,7 @@ struct PointCheckContext {
   std::string return_source;          // "unit file", "--return"
   std::vector<std::string> warnings;  // the unit file's and the options'
   units::System units = units::System::ip;
+  std::size_t text_width = kTextWidth;  // the width the text's tables fit (report/table.hpp)
 };
 
 std::string point_check_text(const PointCheck& pc, const PointCheckContext& c);

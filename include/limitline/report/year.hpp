@@ -2,6 +2,7 @@
 // The annual report: ranked strategies, wrong decisions, monthly hours, in text, Markdown,
 // CSV and JSON. Formatting only: every number comes from annual::YearResult.
 #include <limitline/analysis/annual.hpp>
+#include <limitline/report/table.hpp>
 #include <limitline/model/part_load.hpp>
 #include <limitline/model/plant.hpp>
 #include <limitline/model/units.hpp>
@@ -34,7 +35,13 @@ struct YearContext {
   std::string model;
   // With a [plant], the figures the ranking is in are a cost in its currency.
   std::optional<Plant> plant;
+  // The width text tables fit (report::kTextWidth; kUnlimitedWidth for --wide).
+  std::size_t text_width = kTextWidth;
 };
+
+// The ranked table: rank and strategy as keys, the decision figures (shortfall, wrong hours,
+// savings, code verdict) in group 0, the hours and energies behind them in group 1.
+Table ranked_table(const annual::YearResult& y, const YearContext& c);
 
 // "part load: variable airflow (floor 30 %), supply air reset from 60 °F at 50 °F outdoor to
 // 55 °F at 65 °F; space 75 °F, return 1 °F above it; loads: 150 kBtu/h internal, ...", or the
