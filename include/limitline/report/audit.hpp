@@ -16,6 +16,10 @@ struct AuditContext {
   std::string strategy_source;  // "first strategy of the unit file", "--strategy", "code ..."
   audit::Accuracy accuracy;
   units::System units = units::System::ip;
+  audit::Significance significance;
+  double supply_tolerance_k = audit::kSupplyToleranceK;
+  // The log's clock as the user stated it ("UTC−05:00"); empty when not stated.
+  std::string log_clock;
 };
 
 std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c);
