@@ -4,6 +4,7 @@
 #include <limitline/io/trend.hpp>
 #include <limitline/io/unit_file.hpp>
 #include <limitline/error.hpp>
+#include <limitline/report/audit.hpp>
 
 #include "support/cli.hpp"
 #include "support/trend_example.hpp"
@@ -555,6 +556,13 @@ TEST_CASE("a switching point 0.2 °F above the limit with ±0.5 K sensors is con
   CHECK(sp.tolerance == doctest::Approx(1.5));
   CHECK(sp.highest_open > units::celsius_from_fahrenheit(70.0));
   CHECK(sp.highest_open <= units::celsius_from_fahrenheit(70.2) + 1e-9);
+  // The report says so in words.
+  const report::AuditContext ctx{
+      "unit.toml", "off above 70 °F",        "test", {}, units::System::ip,
+      {},          audit::kSupplyToleranceK, ""};
+  const std::string text = report::audit_text(a.result, a.log, ctx);
+  CHECK(contains(text, "consistent with the configured limit"));
+  CHECK_FALSE(contains(text, "differs from the configured limit"));
 }
 
 // --- The [audit] table --------------------------------------------------------------------
