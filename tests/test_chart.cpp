@@ -8,6 +8,7 @@
 // Weather: tests/data/greensboro-nc-tmy3.csv (NREL TMY3, open data; tests/data/SOURCES.md) and
 // the embedded invented demo climates. Unit files are invented scenarios of the test.
 // The library before the test support: <sys/wait.h> brings a `si_value` macro from <signal.h>.
+#include <limitline/model/air_point.hpp>
 #include <limitline/model/psychro.hpp>
 #include <limitline/report/chart.hpp>
 #include <limitline/app/report_job.hpp>
@@ -20,8 +21,11 @@
 #include <fmt/format.h>
 
 #include <cmath>
+#include <algorithm>
 #include <fstream>
 #include <regex>
+#include <set>
+#include <sstream>
 
 using namespace limitline;
 using limitline::test::contains;
@@ -74,6 +78,151 @@ std::string greensboro() {
   return std::string(LIMITLINE_TEST_DATA_DIR) + "/greensboro-nc-tmy3.csv";
 }
 
+// The demo's six strategies and a seventh, the demo's 28 Btu/lb enthalpy limit alone, which
+// shares the enthalpy line of "fixed enthalpy + dry-bulb" up to the 75 °F cut.
+std::vector<highlimit::Strategy> seven_strategies(std::vector<highlimit::Strategy> six) {
+  highlimit::Strategy alone;
+  for (const auto& st : six)
+    if (st.name == "fixed enthalpy + dry-bulb")
+      for (std::size_t i = 0; i < st.conditions.size(); ++i)
+        if (st.conditions[i].quantity == highlimit::Quantity::enthalpy) {
+          alone.conditions.push_back(st.conditions[i]);
+          alone.sources.push_back(st.source(i));
+        }
+  alone.name = "fixed enthalpy alone";
+  six.push_back(alone);
+  return six;
+}
+
+// What the chart wrote: each boundary segment with its strategy numbers, each badge group,
+// and every box (badges, line labels, mark labels, the mixed-air target label).
+struct Written {
+  struct Line {
+    std::vector<int> members;
+    std::string quantity;
+    double key_si;
+    std::vector<Xy> pts;
+  };
+  struct Badge {
+    std::vector<int> members;
+    Xy centre;
+  };
+  struct Box {
+    double x0, y0, x1, y1;
+    std::string tag;
+  };
+  std::vector<Line> lines;
+  std::vector<Badge> badges;
+  std::vector<Box> boxes;
+};
+
+std::vector<int> numbers(const std::string& s) {
+  std::vector<int> out;
+  std::istringstream in(s);
+  for (int n; in >> n;) out.push_back(n);
+  return out;
+}
+
+Written read_back(const std::string& svg) {
+  Written w;
+  for (const auto& t : tags_with(svg, {"class=\"boundary\""}))
+    w.lines.push_back({numbers(attr(t, "data-strategies")), attr(t, "data-quantity"),
+                       std::stod(attr(t, "data-line-si")), path_points(attr(t, "d"))});
+  for (const auto& t : tags_with(svg, {"class=\"badge\""}))
+    w.badges.push_back({numbers(attr(t, "data-strategies")),
+                        {std::stod(attr(t, "data-cx")), std::stod(attr(t, "data-cy"))}});
+  for (const auto& t : tags_with(svg, {"data-box=\""})) {
+    std::istringstream in(attr(t, "data-box"));
+    Written::Box b{0, 0, 0, 0, t};
+    in >> b.x0 >> b.y0 >> b.x1 >> b.y1;
+    w.boxes.push_back(b);
+  }
+  return w;
+}
+
+double distance_to_path(const Xy& p, const std::vector<Xy>& pts) {
+  double best = 1e9;
+  for (std::size_t i = 0; i + 1 < pts.size(); ++i) {
+    const double dx = pts[i + 1].x - pts[i].x, dy = pts[i + 1].y - pts[i].y;
+    const double len2 = dx * dx + dy * dy;
+    const double u =
+        len2 > 0 ? std::clamp(((p.x - pts[i].x) * dx + (p.y - pts[i].y) * dy) / len2, 0.0, 1.0)
+                 : 0.0;
+    best = std::min(best, std::hypot(p.x - pts[i].x - u * dx, p.y - pts[i].y - u * dy));
+  }
+  return best;
+}
+
+// The placement rules every chart keeps: each badge on a line of exactly its strategies,
+// inside the plot and under the saturation curve; every strategy with a line named by a
+// badge; no two written boxes overlapping.
+void check_placement(const report::ChartInput& c, const std::string& svg) {
+  const auto g = report::chart_geometry(c);
+  const Written w = read_back(svg);
+  REQUIRE(!w.lines.empty());
+  REQUIRE(!w.badges.empty());
+  constexpr double kOnLinePx = 3.0;
+  for (const auto& b : w.badges) {
+    CAPTURE(b.centre.x);
+    CAPTURE(b.centre.y);
+    double nearest = 1e9;
+    for (const auto& l : w.lines)
+      if (l.members == b.members) nearest = std::min(nearest, distance_to_path(b.centre, l.pts));
+    CHECK(nearest < kOnLinePx);
+    CHECK(b.centre.x > g.area().left);
+    CHECK(b.centre.x < g.area().left + g.area().width);
+    CHECK(b.centre.y > g.area().top);
+    CHECK(b.centre.y < g.area().top + g.area().height);
+    // Saturation from the model's own property equations (ASHRAE Fundamentals ch. 1, eq. 23).
+    const double t = g.dry_bulb_c(b.centre.x);
+    CHECK(g.humidity_ratio(b.centre.y) <=
+          psychro::saturation_humidity_ratio(t, c.pressure_kpa) + 1e-9);
+  }
+  for (const auto& l : w.lines)
+    for (const int m : l.members) {
+      CAPTURE(m);
+      CHECK(std::any_of(w.badges.begin(), w.badges.end(), [&](const Written::Badge& b) {
+        return std::find(b.members.begin(), b.members.end(), m) != b.members.end();
+      }));
+    }
+  REQUIRE(w.boxes.size() > w.badges.size());
+  for (std::size_t i = 0; i < w.boxes.size(); ++i)
+    for (std::size_t j = i + 1; j < w.boxes.size(); ++j) {
+      const auto &a = w.boxes[i], &b = w.boxes[j];
+      const bool overlap =
+          a.x0 < b.x1 - 0.01 && b.x0 < a.x1 - 0.01 && a.y0 < b.y1 - 0.01 && b.y0 < a.y1 - 0.01;
+      if (overlap) FAIL_CHECK("overlapping boxes:\n  " << a.tag << "\n  " << b.tag);
+    }
+}
+
+// The points of every segment that bounds strategy number `m` on lines of `quantity`.
+std::vector<Xy> line_of(const std::string& svg, int m, const std::string& quantity) {
+  std::vector<Xy> out;
+  for (const auto& l : read_back(svg).lines)
+    if (l.quantity == quantity &&
+        std::find(l.members.begin(), l.members.end(), m) != l.members.end())
+      out.insert(out.end(), l.pts.begin(), l.pts.end());
+  return out;
+}
+
+double min_y(const std::vector<Xy>& pts) {
+  double y = 1e9;
+  for (const auto& p : pts) y = std::min(y, p.y);
+  return y;
+}
+double max_y(const std::vector<Xy>& pts) {
+  double y = -1e9;
+  for (const auto& p : pts) y = std::max(y, p.y);
+  return y;
+}
+
+report::CheckMarks demo_point(const report::ChartInput& c, const std::string& outdoor) {
+  const Demo& d = harbourside();
+  std::vector<std::string> warnings;
+  const AirPoint o =
+      parse_air_point(outdoor, units::System::ip, "outdoor", AirRole::outdoor, warnings);
+  return check_marks(d.in.unit, c.strategies, o, "outdoor", d.in.unit.return_air, "return air");
+}
 }  // namespace
 
 TEST_CASE("chart geometry maps dry-bulb and humidity ratio linearly and back") {
@@ -181,28 +330,27 @@ TEST_CASE("each high-limit line sits where its limit is") {
   const double p = c.pressure_kpa;
 
   SUBCASE("a fixed dry-bulb limit is a vertical line at its dry-bulb, up to saturation") {
-    // The demo unit file sets 65 °F and 75 °F.
-    for (const auto& [name, limit_f] :
-         {std::pair{"fixed dry-bulb 65F", 65.0}, std::pair{"fixed dry-bulb 75F", 75.0}}) {
-      const auto tags =
-          tags_with(svg, {"class=\"boundary\"", std::string("data-strategy=\"") + name + "\"",
-                          "data-quantity=\"dry-bulb\""});
-      REQUIRE(tags.size() == 1);
-      const auto pts = path_points(attr(tags[0], "d"));
-      REQUIRE(pts.size() == 2);
+    // The demo unit file sets 65 °F (strategy 1) and 75 °F (strategy 2); the 75 °F line is
+    // shared with others and drawn in pieces, which together reach from W = 0 to saturation.
+    for (const auto& [number, limit_f] : {std::pair{1, 65.0}, std::pair{2, 75.0}}) {
+      const auto pts = line_of(svg, number, "dry-bulb");
+      REQUIRE(pts.size() >= 2);
       const double t = units::celsius_from_fahrenheit(limit_f);
       for (const auto& pt : pts) CHECK(std::fabs(pt.x - g.x(t)) < kHalfPixel);
-      CHECK(std::fabs(std::max(pts[0].y, pts[1].y) - g.y(0.0)) < kHalfPixel);
+      CHECK(std::fabs(max_y(pts) - g.y(0.0)) < kHalfPixel);
       const double top = std::min(psychro::saturation_humidity_ratio(t, p), g.humidity_ratio_max());
-      CHECK(std::fabs(std::min(pts[0].y, pts[1].y) - g.y(top)) < kHalfPixel);
+      CHECK(std::fabs(min_y(pts) - g.y(top)) < kHalfPixel);
     }
+    CHECK(tags_with(svg, {"class=\"boundary\"", "data-strategy=\"fixed dry-bulb 65F\""}).size() ==
+          1);
   }
   SUBCASE("a differential dry-bulb line stands at the return-air dry-bulb") {
-    const auto tags =
-        tags_with(svg, {"data-strategy=\"differential dry-bulb\"", "data-reference=\"return\""});
-    REQUIRE(tags.size() == 1);
-    for (const auto& pt : path_points(attr(tags[0], "d")))
-      CHECK(std::fabs(pt.x - g.x(c.return_air.dry_bulb_c)) < kHalfPixel);
+    const auto pts = line_of(svg, 3, "dry-bulb");
+    REQUIRE(pts.size() >= 2);
+    for (const auto& pt : pts) CHECK(std::fabs(pt.x - g.x(c.return_air.dry_bulb_c)) < kHalfPixel);
+    CHECK(!tags_with(svg, {"class=\"boundary\"", "data-strategies=\"2 3 4 5 6\"",
+                           "data-reference=\"fixed return\""})
+               .empty());
   }
   SUBCASE(
       "a fixed enthalpy limit follows its constant-enthalpy line, and the dry-bulb limit ends on "
@@ -223,12 +371,9 @@ TEST_CASE("each high-limit line sits where its limit is") {
     const double t_start = g.dry_bulb_c(pts.front().x);
     CHECK(std::fabs(g.y(psychro::saturation_humidity_ratio(t_start, p)) - pts.front().y) <
           kHalfPixel);
-    const auto d = tags_with(
-        svg, {"data-strategy=\"fixed enthalpy + dry-bulb\"", "data-quantity=\"dry-bulb\""});
-    REQUIRE(d.size() == 1);
-    const auto dp = path_points(attr(d[0], "d"));
-    CHECK(std::fabs(std::min(dp[0].y, dp[1].y) -
-                    g.y(psychro::humidity_ratio_from_enthalpy(t75, h))) < kHalfPixel);
+    const auto dp = line_of(svg, 4, "dry-bulb");
+    REQUIRE(dp.size() >= 2);
+    CHECK(std::fabs(min_y(dp) - g.y(psychro::humidity_ratio_from_enthalpy(t75, h))) < kHalfPixel);
   }
   SUBCASE("a dew-point limit is a horizontal line at its humidity ratio") {
     const double w =
@@ -255,6 +400,97 @@ TEST_CASE("each high-limit line sits where its limit is") {
     CHECK(std::fabs(path_points(attr(m[0], "d"))[0].x - g.x(units::celsius_from_fahrenheit(53.5))) <
           kHalfPixel);
     CHECK(contains(svg, "mixed-air target 53.5 °F"));
+  }
+}
+
+TEST_CASE("strategies sharing a line draw it once, with one badge group naming them") {
+  SUBCASE("two strategies with the same 65 °F limit") {
+    const Demo& d = harbourside();
+    auto twins = std::vector<highlimit::Strategy>{d.in.strategies.at(0), d.in.strategies.at(0)};
+    twins[1].name = "the same limit again";
+    report::ChartInput c = chart_input(d.in.unit, twins, units::System::ip);
+    const std::string svg = report::psychrometric_chart_svg(c);
+    const Written w = read_back(svg);
+    REQUIRE(w.lines.size() == 1);
+    CHECK(w.lines[0].members == std::vector<int>{1, 2});
+    REQUIRE(w.badges.size() == 1);
+    CHECK(w.badges[0].members == std::vector<int>{1, 2});
+    // Both names stay in the legend.
+    CHECK(contains(svg, "the same limit again"));
+    check_placement(c, svg);
+  }
+  SUBCASE("the demo's 75 °F vertical, shared by five strategies") {
+    auto c = demo_chart(units::System::ip);
+    const std::string svg = report::psychrometric_chart_svg(c);
+    const auto g = report::chart_geometry(c);
+    const double x75 = g.x(units::celsius_from_fahrenheit(75.0));
+    std::vector<Written::Line> on75;
+    for (const auto& l : read_back(svg).lines)
+      if (l.quantity == "dry-bulb" && std::fabs(l.pts.front().x - x75) < kHalfPixel)
+        on75.push_back(l);
+    REQUIRE(on75.size() >= 2);
+    // The pieces tile the line: no height of it is drawn twice.
+    std::vector<std::pair<double, double>> spans;
+    for (const auto& l : on75) spans.push_back({min_y(l.pts), max_y(l.pts)});
+    std::sort(spans.begin(), spans.end());
+    for (std::size_t i = 0; i + 1 < spans.size(); ++i)
+      CHECK(spans[i].second <= spans[i + 1].first + 1e-6);
+    // From W = 0 up to the dew-point line all five share it (strategy 1 is the 65 °F line).
+    const auto bottom =
+        std::max_element(on75.begin(), on75.end(),
+                         [](const auto& a, const auto& b) { return max_y(a.pts) < max_y(b.pts); });
+    CHECK(bottom->members == std::vector<int>{2, 3, 4, 5, 6});
+    const Written w = read_back(svg);
+    CHECK(std::count_if(w.badges.begin(), w.badges.end(), [](const Written::Badge& b) {
+            return b.members == std::vector<int>{2, 3, 4, 5, 6};
+          }) == 1);
+  }
+}
+
+TEST_CASE("badges sit on their own lines under saturation, and nothing written overlaps") {
+  const Demo& d = harbourside();
+  SUBCASE("the demo year with seven strategies") {
+    auto c = demo_chart(units::System::ip);
+    c.strategies = seven_strategies(c.strategies);
+    const std::string svg = report::psychrometric_chart_svg(c);
+    check_placement(c, svg);
+    check_svg_renders(svg, "chart", "placement-demo");
+    // The seventh shares the 28 Btu/lb line with strategy 4.
+    bool shared = false;
+    for (const auto& l : read_back(svg).lines)
+      shared = shared || (l.quantity == "enthalpy" && l.members == std::vector<int>{4, 7});
+    CHECK(shared);
+  }
+  SUBCASE("the demo in SI with seven strategies") {
+    auto c = demo_chart(units::System::si);
+    c.strategies = seven_strategies(c.strategies);
+    check_placement(c, report::psychrometric_chart_svg(c));
+  }
+  for (const std::string outdoor : {"68F/80%", "90F/40%", "55F/95%", "75F/50%"}) {
+    SUBCASE(("one checked point, outdoor " + outdoor).c_str()) {
+      report::ChartInput c =
+          chart_input(d.in.unit, seven_strategies(d.in.strategies), units::System::ip);
+      c.check = demo_point(c, outdoor);
+      c.return_air = c.check->ret;
+      check_placement(c, report::psychrometric_chart_svg(c));
+    }
+  }
+  SUBCASE("the high-altitude demo in SI") {
+    const YearInputs in = load_year_inputs(demo_unit("mesa-alta"), {});
+    report::ChartInput c = chart_input(in.unit, seven_strategies(in.strategies), units::System::si);
+    add_climate(c, prepare_year(in), in.weather_label);
+    check_placement(c, report::psychrometric_chart_svg(c));
+  }
+  for (const units::System s : {units::System::ip, units::System::si}) {
+    SUBCASE(("a real TMY3 year (Greensboro NC), " + std::string(units::system_name(s))).c_str()) {
+      WeatherOverrides w;
+      w.file = greensboro();
+      const YearInputs in =
+          load_year_inputs({greensboro_unit("gso-seven.toml", "").string(), false}, w);
+      report::ChartInput c = chart_input(in.unit, seven_strategies(d.in.strategies), s);
+      add_climate(c, prepare_year(in), in.weather_label);
+      check_placement(c, report::psychrometric_chart_svg(c));
+    }
   }
 }
 
@@ -313,19 +549,55 @@ TEST_CASE(
   for (int t = -5; t <= 35; ++t)
     for (double w : {0.004, 0.006, 0.008})
       whole_c.push_back({{static_cast<double>(t), w}, 1.0, report::HourOutcome::economize});
+  // (1 °C = 1.8 °F exactly, by definition of the scales): columns one reading wide, centred.
   ip = report::overlay_bin_size(whole_c, units::System::ip);
-  CHECK(ip.dry_bulb == 2.0);
-  // Whole °F readings are 0.56 °C apart: 0.5 °C columns leave every ninth one empty.
+  CHECK(ip.dry_bulb == doctest::Approx(1.8));
+  CHECK(ip.dry_bulb_origin == doctest::Approx(31.1));  // −0.5 °C
+  // Whole °F readings are 0.56 °C apart: 0.5 °C columns would leave every ninth one empty.
   std::vector<report::ClimateHour> whole_f;
   for (int f = 20; f <= 100; ++f)
     whole_f.push_back(
         {{units::celsius_from_fahrenheit(f), 0.006}, 1.0, report::HourOutcome::economize});
   si = report::overlay_bin_size(whole_f, units::System::si);
-  CHECK(si.dry_bulb == 1.0);
+  CHECK(si.dry_bulb == doctest::Approx(5.0 / 9.0));
+  CHECK(si.dry_bulb_origin == doctest::Approx(units::celsius_from_fahrenheit(-0.5)));
   // The chart says which cell it used.
   report::ChartInput c = chart_input(harbourside().in.unit, {}, units::System::ip);
   c.climate = whole_c;
-  CHECK(contains(report::psychrometric_chart_svg(c), "one cell = 2 °F × 5 gr/lb"));
+  CHECK(contains(report::psychrometric_chart_svg(c), "one cell = 1.8 °F × 5 gr/lb"));
+}
+
+TEST_CASE("a TMY3 year (whole °F kept as tenths of °C) bins without empty columns") {
+  // NREL TMY3 Greensboro NC (tests/data/SOURCES.md): dry-bulbs such as 6.1, 6.7, 7.2 °C are
+  // 43, 44, 45 °F rounded to a tenth of °C.
+  WeatherOverrides w;
+  w.file = greensboro();
+  const YearInputs in = load_year_inputs({greensboro_unit("gso-bins.toml", "").string(), false}, w);
+  const auto climate = report::climate_hours(prepare_year(in));
+  REQUIRE(climate.size() > 1000);
+  // Interior columns with no hours, for columns `step` wide starting at `origin`.
+  auto gaps = [&](double step, double origin, units::System s) {
+    std::set<long> filled;
+    for (const auto& h : climate)
+      filled.insert(static_cast<long>(std::floor(
+          (units::to_display(units::Kind::temperature, s, h.outdoor.dry_bulb_c) - origin) / step)));
+    long empty = 0;
+    for (long k = *filled.begin(); k <= *filled.rbegin(); ++k) empty += filled.count(k) ? 0 : 1;
+    return empty;
+  };
+  const auto ip = report::overlay_bin_size(climate, units::System::ip);
+  CHECK(ip.dry_bulb == doctest::Approx(1.0));
+  CHECK(ip.dry_bulb_origin == doctest::Approx(-0.5));
+  CHECK(gaps(ip.dry_bulb, ip.dry_bulb_origin, units::System::ip) == 0);
+  // Columns from whole °F split the readings that rounding put just under a whole degree.
+  CHECK(gaps(1.0, 0.0, units::System::ip) > 5);
+  const auto si = report::overlay_bin_size(climate, units::System::si);
+  CHECK(si.dry_bulb == doctest::Approx(5.0 / 9.0));
+  CHECK(gaps(si.dry_bulb, si.dry_bulb_origin, units::System::si) == 0);
+  CHECK(gaps(0.5, 0.0, units::System::si) > 5);
+  // The embedded demo climate, in tenths of °C, keeps the finest fixed cells.
+  CHECK(report::overlay_bin_size(report::climate_hours(harbourside().prepared), units::System::ip)
+            .dry_bulb_origin == 0.0);
 }
 
 TEST_CASE("charts parse as XML, are standalone and render to a picture that is not blank") {
@@ -350,8 +622,8 @@ TEST_CASE("limitline chart writes the demo chart and one checked point") {
   std::string svg = slurp(out);
   check_standalone(svg);
   CHECK(contains(svg, "class=\"climate\""));
-  for (const auto& st : harbourside().in.strategies)
-    CHECK(contains(svg, "data-strategy=\"" + st.name + "\""));
+  for (std::size_t i = 0; i < harbourside().in.strategies.size(); ++i)
+    CHECK(!line_of(svg, static_cast<int>(i) + 1, "dry-bulb").empty());
 
   // One point: outdoor, return and the mixed air on the line between them.
   const auto pt = (dir / "cli-point.svg").string();

@@ -530,7 +530,8 @@ TEST_CASE("the eight sections come in a fixed order, each numbered from 1") {
                                            "Minimum outdoor air",
                                            "Mixed-air low-limit and freeze protection",
                                            "Sensors",
-                                           "Alarms"};
+                                           "Alarms",
+                                           "Fault detection and diagnostics"};
   REQUIRE(d.sections.size() == titles.size());
   for (std::size_t i = 0; i < titles.size(); ++i) {
     CAPTURE(i);
@@ -606,7 +607,7 @@ TEST_CASE("text and Markdown say the same paragraphs; the cautions close both") 
   CHECK(d.cautions == cautions);
   CHECK(contains(md, "## Cautions\n\n- " + cautions.front()));
   CHECK(md.size() > md.find("## Cautions") + 1);
-  CHECK(text.find("Cautions") > text.find("8.6"));
+  CHECK(text.find("Cautions") > text.find("9.1"));
 }
 
 TEST_CASE("the command: deterministic output, formats, strategies") {
@@ -724,4 +725,52 @@ TEST_CASE("a unit without [[strategy]] names the code whose settings its first p
   for (const auto& [n, t] : paragraphs(plain.doc)) ptext += t + "\n";
   CHECK(contains(ptext, "common-practice settings"));
   CHECK(contains(ptext, "75 °F"));
+}
+
+TEST_CASE("section 9 writes the code's fault-detection clause and points each fault at its alarm") {
+  const auto with_code = [](const std::string& edition, const std::string& zone) {
+    return replace_once(kUnit, "elevation = \"300ft\"",
+                        "elevation = \"300ft\"\nenergy_code = \"" + edition +
+                            "\"\nclimate_zone = \"" + zone + "\"");
+  };
+  // 90.1-2019 6.4.3.12 (from memory): five faults, ±2 °F sensors.
+  const auto d = build(with_code("ashrae-90.1-2019", "5A"), System::ip).doc;
+  REQUIRE(d.sections.size() == 9);
+  const auto& nine = d.sections[8];
+  CHECK(contains(text_of(d, "9.1"), "6.4.3.12"));
+  CHECK(contains(text_of(d, "9.1"), "recalled from memory"));
+  CHECK(contains(text_of(d, "9.1"),
+                 fmt::format("paragraphs 9.2 to 9.{} apply", nine.paragraphs.size())));
+  CHECK(contains(text_of(d, "9.2"), "within 2 °F"));
+  std::string faults;
+  for (const auto& p : nine.paragraphs)
+    if (p.text.starts_with("Faults:")) faults = p.text;
+  REQUIRE(!faults.empty());
+  // Each fault names the alarm that finds it, and that alarm is the one its words describe.
+  const std::pair<std::string, std::string> cited[] = {
+      {"\"excess outdoor air\", the alarm of paragraph 8.", "Outdoor air above the minimum"},
+      {"\"damper not modulating\", the alarm of paragraph 8.", "Damper not following command"},
+      {"\"air temperature sensor failure/fault\", the alarm of paragraph 8.",
+       "Sensor out of range"},
+      {"\"economizing when the unit should not be economizing\", the alarm of paragraph 8.",
+       "Damper open while locked out"},
+      {"\"not economizing when the unit should be economizing\", the alarm of paragraph 8.",
+       "Damper shut while enabled"}};
+  for (const auto& [term, alarm] : cited) {
+    CAPTURE(term);
+    const auto at = faults.find(term);
+    REQUIRE(at != std::string::npos);
+    const std::string paragraph = "8." + faults.substr(at + term.size(), 1);
+    CHECK(text_of(d, paragraph).starts_with(alarm));
+  }
+  // Title 24 §120.2(i) (from memory) states its 54,000 Btu/h threshold.
+  const auto t24 = build(with_code("title24-2022", "12"), System::ip).doc;
+  CHECK(contains(text_of(t24, "9.1"), "from a cooling capacity of 54"));
+  // No clause in 90.1-2010 (from memory), and none without a code: said so, one paragraph.
+  const auto old = build(with_code("ashrae-90.1-2010", "5A"), System::ip).doc;
+  REQUIRE(old.sections.size() == 9);
+  CHECK(old.sections[8].paragraphs.size() == 1);
+  CHECK(contains(text_of(old, "9.1"), "has no economizer fault-detection clause"));
+  const auto none = build(kUnit, System::ip).doc;
+  CHECK(contains(text_of(none, "9.1"), "names no energy code"));
 }

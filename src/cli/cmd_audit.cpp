@@ -4,6 +4,7 @@
 #include <limitline/analysis/audit.hpp>
 #include <limitline/io/codes.hpp>
 #include <limitline/report/audit.hpp>
+#include <limitline/report/audit_record.hpp>
 #include <limitline/report/strategy.hpp>
 #include <limitline/io/trend.hpp>
 #include <limitline/io/unit_file.hpp>
@@ -128,15 +129,17 @@ int run_audit(const std::vector<std::string>& args) {
       "a finding needs more samples than this (default 2)")(
       "min-hours", po::value<std::string>(), "a finding needs more hours than this (default 0.5)")(
       "utc-offset", po::value<std::string>(),
-      "the log's clock, e.g. -05:00 (recorded in the report)");
-  add_common_options(options, "text, md, json");
+      "the log's clock, e.g. -05:00 (recorded in the report)")(
+      "output,o", po::value<std::string>()->default_value("-"),
+      "file to write, whole or not at all (default -: standard output)");
+  add_common_options(options, "text, md, json, html (the record to sign)");
   po::positional_options_description pos;
   pos.add("unit", 1).add("trend", 1);
   po::variables_map vm;
   if (!parse_options(args, options, pos, "limitline audit UNIT.toml TREND.csv [options]", kDetails,
                      vm))
     return 0;
-  const Common common = read_common(vm, {Format::text, Format::md, Format::json});
+  const Common common = read_common(vm, {Format::text, Format::md, Format::json, Format::html});
   if (!vm.count("unit") || !vm.count("trend")) throw UsageError("give a unit file and a trend log");
 
   const UnitFile unit = load_unit_file(vm["unit"].as<std::string>());
@@ -219,10 +222,17 @@ int run_audit(const std::vector<std::string>& args) {
                            opt.significance,
                            opt.supply_tolerance_k,
                            offset ? trend::format_utc_offset(*offset) : std::string()};
+  const std::string output = vm["output"].as<std::string>();
   switch (common.format) {
-    case Format::json: write_out(report::audit_json(r, log, ctx)); break;
-    case Format::md: write_out(report::audit_markdown(r, log, ctx)); break;
-    default: write_out(report::audit_text(r, log, ctx)); break;
+    case Format::json: write_file(output, report::audit_json(r, log, ctx), "--output"); break;
+    case Format::md: write_file(output, report::audit_markdown(r, log, ctx), "--output"); break;
+    case Format::html:
+      write_file(output,
+                 report::audit_record_html(r, log, ctx, audit::timeline(unit, log, opt),
+                                           "limitline " LIMITLINE_CLI_VERSION),
+                 "--output");
+      break;
+    default: write_file(output, report::audit_text(r, log, ctx), "--output"); break;
   }
   return 0;
 }

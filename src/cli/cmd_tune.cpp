@@ -211,7 +211,10 @@ int run_tune(const std::vector<std::string>& args) {
     case Format::json: write_out(report::tune_json(rep)); break;
     case Format::csv: write_out(report::tune_csv(rep)); break;
     case Format::md: write_out(report::tune_markdown(rep)); break;
-    case Format::text: write_out(report::tune_text(rep)); break;
+    case Format::text:
+    case Format::html:  // not among this command's formats: read_common refuses it
+      write_out(report::tune_text(rep));
+      break;
   }
   if (guard.interrupted()) {
     std::fprintf(stderr, "limitline tune: interrupted; partial results written\n");

@@ -245,7 +245,10 @@ int run_year(const std::vector<std::string>& args) {
     case Format::json: write_out(report::year_json(y, ctx)); break;
     case Format::csv: write_out(report::year_csv(y, ctx)); break;
     case Format::md: write_out(report::year_markdown(y, ctx)); break;
-    case Format::text: write_out(report::year_text(y, ctx)); break;
+    case Format::text:
+    case Format::html:  // not among this command's formats: read_common refuses it
+      write_out(report::year_text(y, ctx));
+      break;
   }
   return 0;
 }

@@ -20,8 +20,11 @@
 namespace limitline::cli {
 
 namespace {
-constexpr std::pair<Format, std::string_view> kFormats[] = {
-    {Format::text, "text"}, {Format::json, "json"}, {Format::csv, "csv"}, {Format::md, "md"}};
+constexpr std::pair<Format, std::string_view> kFormats[] = {{Format::text, "text"},
+                                                            {Format::json, "json"},
+                                                            {Format::csv, "csv"},
+                                                            {Format::md, "md"},
+                                                            {Format::html, "html"}};
 }
 
 std::string_view format_name(Format f) {

@@ -43,7 +43,7 @@ units::System system_option(const std::string& text, std::string_view option);
 
 namespace po = boost::program_options;
 
-enum class Format { text, json, csv, md };
+enum class Format { text, json, csv, md, html };
 
 Format parse_format(std::string_view text, std::initializer_list<Format> allowed);
 std::string_view format_name(Format f);

@@ -566,6 +566,7 @@ FaultDetection read_fault_detection(const toml::table& t, const std::string& fil
   }
   f.accuracy_range = r.string("accuracy_range", false).value_or("");
   f.status = r.strings("status", false);
+  f.testing = r.string("testing", false).value_or("");
   f.reporting = *r.string("reporting", true);
   f.provenance = *r.string("provenance", true);
   const toml::node* n = r.node("fault");
@@ -584,7 +585,7 @@ FaultDetection read_fault_detection(const toml::table& t, const std::string& fil
   }
   r.finish(
       "clause, applies_to, capacity_kbtu_per_h, capacity_kw, sensors, sensor_accuracy_delta_f, "
-      "sensor_accuracy_delta_k, accuracy_range, status, reporting, provenance, fault");
+      "sensor_accuracy_delta_k, accuracy_range, status, testing, reporting, provenance, fault");
   return f;
 }
 

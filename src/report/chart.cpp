@@ -99,7 +99,10 @@ std::string text(double x, double y, std::string_view s, std::string_view attrs,
                  bool halo = false) {
   return fmt::format(
       "<text x=\"{}\" y=\"{}\" {}{}>{}</text>\n", num(x), num(y), attrs,
-      halo ? fmt::format(" stroke=\"{}\" stroke-width=\"3\" paint-order=\"stroke\"", kPaper) : "",
+      halo ? fmt::format(" stroke=\"{}\" stroke-width=\"3\" stroke-linejoin=\"round\" "
+                         "paint-order=\"stroke\"",
+                         kPaper)
+           : "",
       esc(s));
 }
 
@@ -410,6 +413,276 @@ std::vector<Px> to_px(const Curve& c, const ChartGeometry& g) {
 
 std::string_view quantity_attr(Quantity q) { return highlimit::quantity_name(q); }
 
+// --- Shared high-limit lines -------------------------------------------------------------
+// Strategies often share a line (four of them stop at the same 75 °F dry-bulb). Each line of
+// the chart (a quantity and its constant) is cut where a strategy's part of it begins or
+// ends; every piece is drawn once and carries the numbers of the strategies it bounds.
+
+struct Segment {
+  Quantity quantity;
+  Family family;
+  double key;
+  std::vector<std::size_t> members;  // strategy indices, ascending
+  std::string references;            // "fixed", "return" or both, as the members have them
+  std::vector<Px> pts;
+};
+
+// Position along a line: humidity ratio up a vertical, dry-bulb along the others.
+double along_line(const ChartPoint& p, Family f) {
+  return f == Family::vertical ? p.humidity_ratio : p.dry_bulb_c;
+}
+
+Curve line_between(Family f, double key, double a, double b, double w_max) {
+  if (f == Family::vertical) return {{key, a}, {key, b}};
+  if (f == Family::horizontal) return {{a, key}, {b, key}};
+  Curve c;
+  constexpr int kSamples = 60;
+  for (int i = 0; i <= kSamples; ++i) {
+    const double t = std::min(b, a + (b - a) * i / kSamples);
+    c.push_back({t, std::min(w_at_enthalpy(t, key), w_max)});
+  }
+  return c;
+}
+
+std::vector<Segment> shared_segments(const std::vector<Boundary>& bs,
+                                     const std::vector<highlimit::Strategy>& strategies,
+                                     const ChartGeometry& g) {
+  struct Part {
+    std::size_t strategy;
+    Reference reference;
+    double a, b;
+  };
+  struct Line {
+    Quantity quantity;
+    Family family;
+    double key;
+    std::vector<Part> parts;
+  };
+  std::map<std::pair<int, long long>, Line> lines;
+  for (const auto& b : bs) {
+    const auto& cond = strategies[b.strategy].conditions[b.condition];
+    const double scale = b.family == Family::horizontal ? 1e7 : 1e4;
+    auto& line = lines[{static_cast<int>(cond.quantity), std::llround(b.key * scale)}];
+    line.quantity = cond.quantity;
+    line.family = b.family;
+    line.key = b.key;
+    for (const auto& run : b.runs) {
+      const double u = along_line(run.front(), b.family), v = along_line(run.back(), b.family);
+      line.parts.push_back({b.strategy, cond.reference, std::min(u, v), std::max(u, v)});
+    }
+  }
+  std::vector<Segment> out;
+  for (auto& [k, line] : lines) {
+    // Ends closer than a quarter pixel are one end: the same edge found by two bisections.
+    const double px_per_unit = line.family == Family::vertical
+                                   ? g.area().height / g.humidity_ratio_max()
+                                   : g.area().width / (g.dry_bulb_max_c() - g.dry_bulb_min_c());
+    std::vector<double> cuts;
+    for (const auto& p : line.parts) cuts.insert(cuts.end(), {p.a, p.b});
+    std::sort(cuts.begin(), cuts.end());
+    std::vector<double> ends;
+    for (const double x : cuts)
+      if (ends.empty() || (x - ends.back()) * px_per_unit > 0.25) ends.push_back(x);
+    auto snap = [&](double x) {
+      return *std::min_element(ends.begin(), ends.end(), [&](double l, double r) {
+        return std::fabs(l - x) < std::fabs(r - x);
+      });
+    };
+    Segment cur{line.quantity, line.family, line.key, {}, {}, {}};
+    double cur_a = 0.0, cur_b = 0.0;
+    auto flush = [&] {
+      if (cur.members.empty()) return;
+      Segment s = cur;
+      s.pts = to_px(
+          simplified(line_between(line.family, line.key, cur_a, cur_b, g.humidity_ratio_max()),
+                     line.family),
+          g);
+      out.push_back(std::move(s));
+    };
+    for (std::size_t i = 0; i + 1 < ends.size(); ++i) {
+      std::vector<std::size_t> members;
+      std::string refs;
+      for (const auto& p : line.parts) {
+        if (!(snap(p.a) <= ends[i] && snap(p.b) >= ends[i + 1])) continue;
+        if (std::find(members.begin(), members.end(), p.strategy) == members.end())
+          members.push_back(p.strategy);
+        const std::string_view r = highlimit::reference_name(p.reference);
+        if (refs.find(r) == std::string::npos) refs += (refs.empty() ? "" : " ") + std::string(r);
+      }
+      std::sort(members.begin(), members.end());
+      if (members == cur.members && refs == cur.references && !members.empty()) {
+        cur_b = ends[i + 1];
+        continue;
+      }
+      flush();
+      cur.members = members;
+      cur.references = refs;
+      cur_a = ends[i];
+      cur_b = ends[i + 1];
+    }
+    flush();
+  }
+  return out;
+}
+
+std::string members_attr(const std::vector<std::size_t>& members) {
+  std::string s;
+  for (const std::size_t m : members) s += (s.empty() ? "" : " ") + std::to_string(m + 1);
+  return s;
+}
+
+// --- Placement of badges and labels ------------------------------------------------------
+// Everything written inside the plot takes a box. Pieces are placed in order of importance
+// (the marks and their labels, the mixed-air target's label, the strategy badges, then the
+// RH, wet-bulb and enthalpy labels): each tries its candidate places, best first, and takes
+// the first whose box is clear of every box before it; a line label with no clear place is
+// left out rather than written over something else. Each written box is kept in the SVG as
+// data-box="x0 y0 x1 y1" so a test can check the result.
+
+struct Box {
+  double x0, y0, x1, y1;
+  bool hits(const Box& o) const { return x0 < o.x1 && o.x0 < x1 && y0 < o.y1 && o.y0 < y1; }
+};
+Box around(double x, double y, double rx, double ry) { return {x - rx, y - ry, x + rx, y + ry}; }
+
+std::string box_attr(const Box& b) {
+  return fmt::format(" data-box=\"{} {} {} {}\"", num(b.x0), num(b.y0), num(b.x1), num(b.y1));
+}
+
+// Advance width of text in DejaVu Sans (the first font asked for), in em: digits 0.636,
+// space and point 0.318, per cent 0.95; letters taken at a generous 0.62 (capitals 0.72) so a
+// fallback font is covered too. Counted per UTF-8 code point.
+double text_width(std::string_view s, double size, bool bold) {
+  double em = 0.0;
+  for (const unsigned char ch : s) {
+    if ((ch & 0xC0) == 0x80) continue;
+    em += ch == ' ' || ch == '.' || ch == ',' ? 0.318
+          : ch == '%'                         ? 0.95
+          : ch >= '0' && ch <= '9'            ? 0.636
+          : ch >= 'A' && ch <= 'Z'            ? 0.72
+                                              : 0.62;
+  }
+  return em * size * (bold ? 1.1 : 1.0);
+}
+
+enum class Anchor { start, middle, end };
+
+struct TextStyle {
+  double size;
+  bool bold;
+  Anchor anchor;
+  std::string attrs;  // fill, style; font-size and anchor are added from the fields
+};
+
+// Box of text set at (x, y) on its baseline, with its 1.5 px halo.
+Box text_box(double x, double y, std::string_view s, const TextStyle& st) {
+  const double w = text_width(s, st.size, st.bold);
+  const double x0 = st.anchor == Anchor::start    ? x
+                    : st.anchor == Anchor::middle ? x - w / 2
+                                                  : x - w;
+  return {x0 - 1.5, y - 0.76 * st.size - 1.5, x0 + w + 1.5, y + 0.24 * st.size + 1.5};
+}
+
+std::string text_attrs(const TextStyle& st) {
+  constexpr std::string_view kAnchor[] = {"", " text-anchor=\"middle\"", " text-anchor=\"end\""};
+  return fmt::format("font-size=\"{}\"{}{} {}", st.size, st.bold ? " font-weight=\"bold\"" : "",
+                     kAnchor[static_cast<int>(st.anchor)], st.attrs);
+}
+
+// A point every `step` px along a polyline, with its distance from the start.
+struct Station {
+  Px p;
+  double s;
+};
+std::vector<Station> stations(const std::vector<Px>& pts, double step) {
+  std::vector<Station> out;
+  double s0 = 0.0, next = 0.0;
+  for (std::size_t i = 0; i + 1 < pts.size(); ++i) {
+    const double len = std::hypot(pts[i + 1].x - pts[i].x, pts[i + 1].y - pts[i].y);
+    for (; next <= s0 + len; next += step) {
+      const double u = len > 0 ? (next - s0) / len : 0.0;
+      out.push_back(
+          {{pts[i].x + u * (pts[i + 1].x - pts[i].x), pts[i].y + u * (pts[i + 1].y - pts[i].y)},
+           next});
+    }
+    s0 += len;
+  }
+  if (!pts.empty() && (out.empty() || out.back().s < s0 - 1e-9)) out.push_back({pts.back(), s0});
+  return out;
+}
+
+double path_length(const std::vector<Px>& pts) {
+  double s = 0.0;
+  for (std::size_t i = 0; i + 1 < pts.size(); ++i)
+    s += std::hypot(pts[i + 1].x - pts[i].x, pts[i + 1].y - pts[i].y);
+  return s;
+}
+
+// The boxes placed so far, and the lines labels keep off (a label's halo would cut a
+// high-limit or the saturation curve; a badge sits on its own line on purpose).
+class Layout {
+ public:
+  Layout(const ChartGeometry& g, const Psy& psy) : g_(g), psy_(psy) {}
+
+  void take(const Box& b) { taken_.push_back(b); }
+  void keep_off_line(const std::vector<Px>& pts) {
+    for (const auto& st : stations(pts, 2.5)) lines_.push_back(around(st.p.x, st.p.y, 1.0, 1.0));
+  }
+  bool clear(const Box& b, bool of_lines) const {
+    auto hit = [&](const Box& o) { return b.hits(o); };
+    return std::none_of(taken_.begin(), taken_.end(), hit) &&
+           (!of_lines || std::none_of(lines_.begin(), lines_.end(), hit));
+  }
+  bool in_plot(const Box& b) const {
+    const auto& a = g_.area();
+    return b.x0 >= a.left + 1 && b.x1 <= a.left + a.width - 1 && b.y0 >= a.top + 1 &&
+           b.y1 <= a.top + a.height - 1;
+  }
+  // Every corner on or under the saturation curve: no air exists above it.
+  bool under_saturation(const Box& b) const {
+    for (const double x : {b.x0, b.x1})
+      for (const double y : {b.y0, b.y1})
+        if (g_.humidity_ratio(y) > psy_.w_sat(g_.dry_bulb_c(x))) return false;
+    return true;
+  }
+
+ private:
+  const ChartGeometry& g_;
+  const Psy& psy_;
+  std::vector<Box> taken_;
+  std::vector<Box> lines_;
+};
+
+// A label of a family of lines, with the places it may go, best first.
+struct LabelRequest {
+  std::string cls;  // the group it is written in
+  std::string text;
+  TextStyle style;
+  bool halo = true;
+  bool in_plot = true;
+  std::vector<Px> places;  // baseline anchors
+};
+
+// The labels that found a clear place, as SVG, grouped by class.
+std::string place_labels(const std::vector<LabelRequest>& requests, Layout& lay) {
+  std::map<std::string, std::string> groups;
+  std::vector<std::string> order;
+  for (const auto& r : requests) {
+    if (!groups.count(r.cls)) order.push_back(r.cls);
+    auto& out = groups[r.cls];
+    for (const Px& p : r.places) {
+      const Box b = text_box(p.x, p.y, r.text, r.style);
+      if ((r.in_plot && !lay.in_plot(b)) || !lay.clear(b, true)) continue;
+      lay.take(b);
+      out += text(p.x, p.y, r.text, text_attrs(r.style) + box_attr(b), r.halo);
+      break;
+    }
+  }
+  std::string svg;
+  for (const auto& cls : order) svg += fmt::format("<g class=\"{}\">\n{}</g>\n", cls, groups[cls]);
+  return svg;
+}
+
 // --- Drawing pieces ---------------------------------------------------------------------
 
 struct Ctx {
@@ -419,6 +692,7 @@ struct Ctx {
   const AxisStyle& ax;
   System s;
   std::string out;
+  std::vector<LabelRequest> labels;  // placed after the badges
 };
 
 double w_of_display(const Ctx& c, double d) { return d / c.ax.w_per_kgkg; }
@@ -480,11 +754,12 @@ void draw_grid(Ctx& c) {
   c.out += "</g>\n";
 }
 
-void draw_rh(Ctx& c, const std::vector<double>& verticals) {
+void draw_rh(Ctx& c) {
   c.out += fmt::format(
       "<g class=\"relative-humidity\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.8\">\n", kRh);
-  // Labels stacked on one dry-bulb: where the 90 % curve is at 85 % of the height, or near
-  // the right edge when it stays lower.
+  // Labels stacked on one dry-bulb where they can: where the 90 % curve is at 85 % of the
+  // height, or near the right edge when it stays lower; each moves along its own curve off
+  // whatever is there.
   const double span = c.g.dry_bulb_max_c() - c.g.dry_bulb_min_c();
   double t_lab = c.g.dry_bulb_max_c() - 0.05 * span;
   auto below = [&](double t) {
@@ -494,25 +769,28 @@ void draw_rh(Ctx& c, const std::vector<double>& verticals) {
   if (!below(t_lab))
     t_lab = below(c.g.dry_bulb_min_c()) ? bisect(c.g.dry_bulb_min_c(), t_lab, below)
                                         : c.g.dry_bulb_min_c();
-  // Off any vertical line (a dry-bulb limit, the mixed-air target) that would hide them.
-  for (int tries = 0; tries < 8; ++tries) {
-    bool clash = false;
-    for (double x : verticals)
-      if (std::fabs(c.g.x(t_lab) - x) < 14.0) clash = true;
-    if (!clash) break;
-    t_lab += 14.0 * span / c.g.area().width;
-  }
-  std::string labels;
+  const double x_pref = c.g.x(t_lab);
+  constexpr double kReach = 160.0;  // px either way along the curve
   for (int k = 1; k <= 9; ++k) {
     const double rh = k / 10.0;
-    for (const auto& run : clip(rh_curve(c.g, c.psy, rh), c.g))
-      c.out += fmt::format("<path d=\"{}\"/>\n", path_d(to_px(run, c.g)));
-    const double w_lab = psychro::humidity_ratio_from_relative_humidity(t_lab, rh, c.psy.p);
-    if (w_lab < c.g.humidity_ratio_max())
-      labels += text(c.g.x(t_lab), c.g.y(w_lab) - 3, fmt::format("{}%", k * 10),
-                     "font-size=\"9.5\" fill=\"#4f6d8a\" text-anchor=\"middle\"", true);
+    LabelRequest req{"relative-humidity-labels",
+                     fmt::format("{}%", k * 10),
+                     {9.5, false, Anchor::middle, "fill=\"#4f6d8a\""},
+                     true,
+                     true,
+                     {}};
+    for (const auto& run : clip(rh_curve(c.g, c.psy, rh), c.g)) {
+      const auto pts = to_px(run, c.g);
+      c.out += fmt::format("<path d=\"{}\"/>\n", path_d(pts));
+      for (const auto& st : stations(pts, 2.0))
+        if (std::fabs(st.p.x - x_pref) <= kReach) req.places.push_back({st.p.x, st.p.y - 3});
+    }
+    std::stable_sort(req.places.begin(), req.places.end(), [&](const Px& a, const Px& b) {
+      return std::fabs(a.x - x_pref) < std::fabs(b.x - x_pref);
+    });
+    c.labels.push_back(std::move(req));
   }
-  c.out += "</g>\n<g class=\"relative-humidity-labels\">\n" + labels + "</g>\n";
+  c.out += "</g>\n";
 }
 
 void draw_enthalpy(Ctx& c) {
@@ -526,7 +804,6 @@ void draw_enthalpy(Ctx& c) {
       "<g class=\"enthalpy\" fill=\"none\" stroke=\"{}\" stroke-width=\"0.7\" "
       "stroke-opacity=\"0.8\">\n",
       kEnthalpy);
-  std::string labels;
   for (double d = std::ceil(lo / c.ax.h_step) * c.ax.h_step; d <= hi; d += c.ax.h_step) {
     const Curve line = enthalpy_curve(g, c.psy, h_si(d));
     if (line.size() < 2) continue;
@@ -535,12 +812,16 @@ void draw_enthalpy(Ctx& c) {
     const bool on_curve = std::fabs(start.humidity_ratio - c.psy.w_sat(start.dry_bulb_c)) < 1e-6;
     const bool on_top = start.humidity_ratio >= g.humidity_ratio_max() - 1e-12;
     if (!on_curve && !on_top) continue;
-    labels +=
-        text(g.x(start.dry_bulb_c) - 3, g.y(start.humidity_ratio) - 4, fmt::format("{:.0f}", d),
-             fmt::format("font-size=\"9.5\" fill=\"{}\" text-anchor=\"end\" font-style=\"italic\"",
-                         "#8a5f22"));
+    LabelRequest req{"enthalpy-labels",
+                     fmt::format("{:.0f}", d),
+                     {9.5, false, Anchor::end, "fill=\"#8a5f22\" font-style=\"italic\""},
+                     false,
+                     false,
+                     {}};
+    req.places.push_back({g.x(start.dry_bulb_c) - 3, g.y(start.humidity_ratio) - 4});
+    c.labels.push_back(std::move(req));
   }
-  c.out += "</g>\n<g class=\"enthalpy-labels\">\n" + labels + "</g>\n";
+  c.out += "</g>\n";
 }
 
 void draw_wet_bulb(Ctx& c) {
@@ -551,21 +832,28 @@ void draw_wet_bulb(Ctx& c) {
       "stroke-dasharray=\"1.2 2.8\" "
       "stroke-linecap=\"round\">\n",
       kWetBulb);
-  std::string labels;
   for (double d = std::ceil(d0 / c.ax.wb_step) * c.ax.wb_step; d < d1; d += c.ax.wb_step) {
     const double wb = t_si(d, c.s);
     const Curve line = wet_bulb_curve(g, c.psy, wb);
     for (const auto& run : clip(line, g)) {
       c.out +=
           fmt::format("<path data-wet-bulb=\"{}\" d=\"{}\"/>\n", num(d), path_d(to_px(run, g)));
-      if (std::fabs(run.front().dry_bulb_c - wb) < 1e-9 &&
-          run.front().humidity_ratio < g.humidity_ratio_max())
-        labels +=
-            text(g.x(wb) + 4, g.y(run.front().humidity_ratio) + 11, fmt::format("wb {:.0f}", d),
-                 fmt::format("font-size=\"8.5\" fill=\"{}\"", "#3f6f61"), true);
+      if (std::fabs(run.front().dry_bulb_c - wb) >= 1e-9 ||
+          run.front().humidity_ratio >= g.humidity_ratio_max())
+        continue;
+      // From where the line leaves saturation, down along it when that place is taken.
+      LabelRequest req{"wet-bulb-labels",
+                       fmt::format("wb {:.0f}", d),
+                       {8.5, false, Anchor::start, "fill=\"#3f6f61\""},
+                       true,
+                       true,
+                       {}};
+      for (const auto& st : stations(to_px(run, g), 3.0))
+        if (st.s <= 120.0) req.places.push_back({st.p.x + 4, st.p.y + 11});
+      c.labels.push_back(std::move(req));
     }
   }
-  c.out += "</g>\n<g class=\"wet-bulb-labels\">\n" + labels + "</g>\n";
+  c.out += "</g>\n";
 }
 
 struct BinTally {
@@ -607,6 +895,22 @@ double stripe_share(std::span<const ClimateHour> climate, double step, auto&& co
 // More than this share of stripes is the recording's resolution showing, not the climate.
 constexpr double kStripeShare = 0.05;
 
+// Whether nearly every occupied hour's dry-bulb is a whole degree of `recorded`, give or take
+// the 0.05 °C of a file that stores the reading in tenths of the other unit (TMY3 keeps whole
+// °F readings as tenths of °C).
+bool on_whole_degrees(std::span<const ClimateHour> climate, System recorded) {
+  constexpr double kToleranceC = 0.06;
+  constexpr double kShare = 0.95;
+  double on = 0.0, all = 0.0;
+  for (const auto& h : climate) {
+    const double d = t_disp(h.outdoor.dry_bulb_c, recorded);
+    const double off_c = std::fabs(t_si(d, recorded) - t_si(std::round(d), recorded));
+    if (off_c <= kToleranceC) on += h.hours;
+    all += h.hours;
+  }
+  return all > 0.0 && on >= kShare * all;
+}
+
 OverlaySummary draw_climate(Ctx& c) {
   OverlaySummary sum;
   if (c.in.climate.empty()) return sum;
@@ -616,7 +920,8 @@ OverlaySummary draw_climate(Ctx& c) {
   for (const auto& h : c.in.climate) {
     const double td = t_disp(h.outdoor.dry_bulb_c, c.s);
     const double wd = h.outdoor.humidity_ratio * c.ax.w_per_kgkg;
-    const auto key = std::make_pair(bin_of(td, bin.dry_bulb), bin_of(wd, bin.humidity_ratio));
+    const auto key = std::make_pair(bin_of(td - bin.dry_bulb_origin, bin.dry_bulb),
+                                    bin_of(wd, bin.humidity_ratio));
     cells[key].hours[static_cast<std::size_t>(h.outcome)] += h.hours;
     sum.hours[static_cast<std::size_t>(h.outcome)] += h.hours;
   }
@@ -634,8 +939,8 @@ OverlaySummary draw_climate(Ctx& c) {
     second = dom == 0 ? 1 : 0;
     for (std::size_t i = 0; i < kHourOutcomeCount; ++i)
       if (i != dom && t.hours[i] > t.hours[second]) second = i;
-    const double x0 = c.g.x(t_si(k.first * bin.dry_bulb, c.s));
-    const double x1 = c.g.x(t_si((k.first + 1) * bin.dry_bulb, c.s));
+    const double x0 = c.g.x(t_si(bin.dry_bulb_origin + k.first * bin.dry_bulb, c.s));
+    const double x1 = c.g.x(t_si(bin.dry_bulb_origin + (k.first + 1) * bin.dry_bulb, c.s));
     const double y0 = c.g.y((k.second + 1) * bin.humidity_ratio / c.ax.w_per_kgkg);
     const double y1 = c.g.y(k.second * bin.humidity_ratio / c.ax.w_per_kgkg);
     c.out += fmt::format(
@@ -662,7 +967,9 @@ void draw_saturation(Ctx& c) {
 
 std::string fmt_t(double c, System s) { return units::format(units::Kind::temperature, s, c, 1); }
 
-void draw_target(Ctx& c) {
+// The mixed-air target line, and its label along it (rotated, reading upwards); the label's
+// box is taken so nothing is placed over it.
+void draw_target(Ctx& c, Layout& lay) {
   const double t = c.in.mixed_air_target_c;
   if (t < c.g.dry_bulb_min_c() || t > c.g.dry_bulb_max_c()) return;
   const double top = std::min(c.psy.w_sat(t), c.g.humidity_ratio_max());
@@ -671,20 +978,15 @@ void draw_target(Ctx& c) {
       "<path class=\"mixed-air-target\" d=\"M{} {} L{} {}\" stroke=\"{}\" stroke-width=\"1.4\" "
       "stroke-dasharray=\"6 3 1.5 3\" fill=\"none\"/>\n",
       num(x), num(c.g.y(0)), num(x), num(c.g.y(top)), kTarget);
+  const std::string label = "mixed-air target " + fmt_t(t, c.s);
+  const double len = text_width(label, 10, false);
+  const Box box{x - 4 - 7.6 - 1.5, c.g.y(0) - 8 - len - 1.5, x - 4 + 2.4 + 1.5, c.g.y(0) - 8 + 1.5};
+  lay.take(box);
   c.out += fmt::format(
-      "<text transform=\"translate({} {}) rotate(-90)\" font-size=\"10\" fill=\"{}\" stroke=\"{}\" "
-      "stroke-width=\"3\" paint-order=\"stroke\">mixed-air target {}</text>\n",
-      num(x - 4), num(c.g.y(0) - 8), kTarget, kPaper, esc(fmt_t(t, c.s)));
-}
-
-// Boxes the badges and labels keep clear of, in SVG units.
-struct Box {
-  double x0, y0, x1, y1;
-  bool hits(const Box& o) const { return x0 < o.x1 && o.x0 < x1 && y0 < o.y1 && o.y0 < y1; }
-};
-Box around(double x, double y, double r) { return {x - r, y - r, x + r, y + r}; }
-bool clear_of(const Box& b, const std::vector<Box>& taken) {
-  return std::none_of(taken.begin(), taken.end(), [&](const Box& o) { return b.hits(o); });
+      "<text class=\"mixed-air-target-label\" transform=\"translate({} {}) rotate(-90)\" "
+      "font-size=\"10\" fill=\"{}\" stroke=\"{}\" stroke-width=\"3\" paint-order=\"stroke\"{}>{}"
+      "</text>\n",
+      num(x - 4), num(c.g.y(0) - 8), kTarget, kPaper, box_attr(box), esc(label));
 }
 
 struct Mark {
@@ -692,13 +994,15 @@ struct Mark {
   std::string_view shape, fill, cls;
   std::string label;
   double dx = 9, dy = -8;  // label offset
+  Box box{};               // of the label
 };
 
-// Label box of 10.5 px bold text: about 6.4 px a character.
-Box label_box(double x, double y, double dx, double dy, const std::string& label) {
-  const double w = 6.4 * static_cast<double>(label.size());
-  const double lx = dx < 0 ? x + dx - w : x + dx;
-  return {lx, y + dy - 10, lx + w, y + dy + 3};
+const TextStyle kMarkText{10.5, true, Anchor::start, ""};
+
+Box mark_label_box(double x, double y, const Mark& m) {
+  TextStyle st = kMarkText;
+  st.anchor = m.dx < 0 ? Anchor::end : Anchor::start;
+  return text_box(x + m.dx, y + m.dy, m.label, st);
 }
 
 std::string state_text(const ChartPoint& p, double pressure, System s) {
@@ -707,9 +1011,8 @@ std::string state_text(const ChartPoint& p, double pressure, System s) {
   return fmt::format("{}, {:.0f}% RH", fmt_t(p.dry_bulb_c, s), 100.0 * rh);
 }
 
-// The marks and where their labels go: the first of four places around each mark that is
-// clear of the marks and labels before it. Their boxes are added to `taken`.
-std::vector<Mark> layout_marks(const Ctx& c, std::vector<Box>& taken) {
+// The marks of the chart; their symbols' boxes are taken.
+std::vector<Mark> layout_marks(const Ctx& c, Layout& lay) {
   std::vector<Mark> marks;
   if (c.in.check) {
     const auto& k = *c.in.check;
@@ -725,95 +1028,155 @@ std::vector<Mark> layout_marks(const Ctx& c, std::vector<Box>& taken) {
                      "return air " + state_text(c.in.return_air, c.psy.p, c.s)});
   }
   for (const auto& m : marks)
-    taken.push_back(around(c.g.x(m.p.dry_bulb_c), c.g.y(m.p.humidity_ratio), 8));
-  constexpr std::pair<double, double> kPlaces[] = {{10, 18},  {10, -9}, {-10, -9},
-                                                   {-10, 18}, {10, 32}, {-10, 32}};
-  for (auto& m : marks) {
-    const double x = c.g.x(m.p.dry_bulb_c), y = c.g.y(m.p.humidity_ratio);
-    for (const auto& [dx, dy] : kPlaces) {
-      m.dx = dx;
-      m.dy = dy;
-      if (clear_of(label_box(x, y, dx, dy, m.label), taken)) break;
-    }
-    taken.push_back(label_box(x, y, m.dx, m.dy, m.label));
-  }
+    lay.take(around(c.g.x(m.p.dry_bulb_c), c.g.y(m.p.humidity_ratio), 8, 8));
   return marks;
 }
 
-void draw_boundaries(Ctx& c, const std::vector<Boundary>& bs, std::vector<bool>& drawn,
-                     std::vector<Box>& taken) {
-  // Lines several strategies share are drawn as interleaved dashes so each stays visible.
-  std::map<std::pair<int, long long>, std::vector<std::size_t>> shared;
-  auto group_key = [](const Boundary& b) {
-    const double scale = b.family == Family::horizontal ? 1e6 : 100.0;
-    return std::make_pair(static_cast<int>(b.family), std::llround(b.key * scale));
-  };
-  for (const auto& b : bs)
-    if (!b.runs.empty()) {
-      auto& v = shared[group_key(b)];
-      if (std::find(v.begin(), v.end(), b.strategy) == v.end()) v.push_back(b.strategy);
-    }
-  std::string badges, casing;
-  const std::size_t casing_at = c.out.size();
-  c.out += "<g class=\"high-limits\" fill=\"none\" stroke-width=\"2.2\" stroke-linecap=\"butt\">\n";
-  for (const auto& b : bs) {
-    if (b.runs.empty()) continue;
-    drawn[b.strategy] = true;
-    const auto& st = c.in.strategies[b.strategy];
-    const auto& cond = st.conditions[b.condition];
-    const auto& group = shared[group_key(b)];
-    const std::size_t k = group.size();
-    const std::size_t pos =
-        static_cast<std::size_t>(std::find(group.begin(), group.end(), b.strategy) - group.begin());
-    std::string dash;
-    if (k > 1) {
-      constexpr double kDash = 9.0;
-      dash = fmt::format(" stroke-dasharray=\"{} {}\" stroke-dashoffset=\"{}\"", num(kDash),
-                         num(kDash * (k - 1)), num(-kDash * pos));
-    }
-    const std::string_view colour = strategy_colour(b.strategy);
-    for (const auto& run : b.runs) {
-      const auto pts = to_px(simplified(run, b.family), c.g);
-      casing += fmt::format("<path d=\"{}\"/>\n", path_d(pts));
-      c.out += fmt::format(
-          "<path class=\"boundary\" data-strategy=\"{}\" data-quantity=\"{}\" "
-          "data-reference=\"{}\" data-line-si=\"{}\" "
-          "d=\"{}\" stroke=\"{}\"{}/>\n",
-          esc(st.name), quantity_attr(cond.quantity), highlimit::reference_name(cond.reference),
-          fmt::format("{:.8g}", b.key), path_d(pts), colour, dash);
-      // Badge just above the upper end of the run, or the nearest place around it that is
-      // clear of the marks, labels and badges already placed.
-      const Px top = pts.front().y < pts.back().y ? pts.front() : pts.back();
-      Px bd{top.x, std::max(top.y - 12, c.g.area().top - 6.0)};
-      for (int ring = 0; ring < 6; ++ring) {
-        bool found = false;
-        for (double sx : {0.0, -1.0, 1.0}) {
-          const Px cand{top.x + sx * 17.0 * (ring + (sx != 0.0 ? 1 : 0)),
-                        std::max(top.y - 12 - 17.0 * ring, c.g.area().top - 6.0)};
-          if (clear_of(around(cand.x, cand.y, 8.5), taken)) {
-            bd = cand;
-            found = true;
-            break;
-          }
-        }
-        if (found) break;
+// Where the marks' labels go: the first place around each mark that is clear of what is
+// placed before it and of the lines, else clear of the boxes alone, else the first place.
+void place_mark_labels(const Ctx& c, std::vector<Mark>& marks, Layout& lay) {
+  // Below right, above right, above left, below left of the mark, then further down and up.
+  std::vector<std::pair<double, double>> places = {{10, 18}, {10, -9}, {-10, -9}, {-10, 18}};
+  for (double step = 14; step <= 84; step += 14)
+    for (const double dx : {10.0, -10.0})
+      for (const double dy : {18 + step, -9 - step}) places.push_back({dx, dy});
+  for (auto& m : marks) {
+    const double x = c.g.x(m.p.dry_bulb_c), y = c.g.y(m.p.humidity_ratio);
+    // A label next to its mark may cross a line; one far from it reads as no one's.
+    constexpr std::size_t kNear = 6;
+    bool placed = false;
+    for (const auto& [reach, of_lines] :
+         {std::pair{kNear, true}, std::pair{kNear, false}, std::pair{places.size(), true},
+          std::pair{places.size(), false}}) {
+      for (std::size_t i = 0; i < reach && !placed; ++i) {
+        std::tie(m.dx, m.dy) = places[i];
+        placed = lay.clear(mark_label_box(x, y, m), of_lines);
       }
-      taken.push_back(around(bd.x, bd.y, 8.5));
-      badges += fmt::format(
-          "<g class=\"badge\"><circle cx=\"{}\" cy=\"{}\" r=\"7.5\" fill=\"{}\" stroke=\"{}\" "
-          "stroke-width=\"1.5\"/>"
-          "<text x=\"{}\" y=\"{}\" font-size=\"9.5\" font-weight=\"bold\" fill=\"#ffffff\" "
-          "text-anchor=\"middle\">{}</text></g>\n",
-          num(bd.x), num(bd.y), colour, kPaper, num(bd.x), num(bd.y + 3.4), b.strategy + 1);
+      if (placed) break;
     }
+    if (!placed) std::tie(m.dx, m.dy) = places.front();
+    m.box = mark_label_box(x, y, m);
+    lay.take(m.box);
   }
-  c.out += "</g>\n<g class=\"badges\">\n" + badges + "</g>\n";
-  // Paper-coloured casing under every high-limit line, so each reads over the cells.
-  c.out.insert(
-      casing_at,
-      fmt::format("<g class=\"high-limit-casing\" fill=\"none\" stroke=\"{}\" stroke-width=\"5\" "
-                  "stroke-opacity=\"0.9\">\n{}</g>\n",
-                  kPaper, casing));
+}
+
+// --- Strategy lines and their badges -----------------------------------------------------
+
+constexpr std::string_view kSharedLine = "#3d3832";  // graphite: a line of several strategies
+constexpr double kBadgeStep = 15.0;                  // one number of a badge group
+constexpr double kBadgeHalfHeight = 9.0;
+// A piece this short is left without a badge when its strategies are numbered elsewhere.
+constexpr double kMinBadgedPx = 18.0;
+
+double badge_half_width(std::size_t n) { return n == 1 ? 9.0 : (kBadgeStep * n + 4.0) / 2; }
+
+// Where a segment's badge goes: the centre on its own path, nearest to a point a little in
+// from its upper end (the end nearest the saturation curve, where lines are furthest apart),
+// inside the plot, wholly under saturation and clear of everything placed before it.
+std::optional<Px> badge_place(const Segment& seg, const Layout& lay) {
+  std::vector<Px> pts = seg.pts;
+  const bool reverse =
+      pts.back().y < pts.front().y - 1e-9 ||
+      (std::fabs(pts.back().y - pts.front().y) <= 1e-9 && pts.back().x < pts.front().x);
+  if (reverse) std::reverse(pts.begin(), pts.end());
+  const double len = path_length(pts);
+  const double preferred = std::min(26.0, len / 2);
+  auto sts = stations(pts, 1.5);
+  std::stable_sort(sts.begin(), sts.end(), [&](const Station& a, const Station& b) {
+    return std::fabs(a.s - preferred) < std::fabs(b.s - preferred);
+  });
+  const double hw = badge_half_width(seg.members.size());
+  // Then, on a crowded line, a place with only its centre under saturation.
+  for (const bool whole : {true, false})
+    for (const auto& st : sts) {
+      const Box b = around(st.p.x, st.p.y, hw, kBadgeHalfHeight);
+      const bool under =
+          whole ? lay.under_saturation(b) : lay.under_saturation(around(st.p.x, st.p.y, 0, 0));
+      if (lay.in_plot(b) && under && lay.clear(b, false)) return st.p;
+    }
+  return std::nullopt;
+}
+
+// A badge group; `in_plot` ones carry their place for tests, the legend's sample does not.
+std::string badge_svg(const std::vector<std::size_t>& members, Px at, const Box& box,
+                      bool in_plot = true) {
+  std::string s =
+      in_plot ? fmt::format(
+                    "<g class=\"badge\" data-strategies=\"{}\" data-cx=\"{}\" data-cy=\"{}\"{}>",
+                    members_attr(members), num(at.x), num(at.y), box_attr(box))
+              : std::string("<g class=\"badge-sample\">");
+  const std::size_t n = members.size();
+  if (n > 1)
+    s += fmt::format(
+        "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" rx=\"{}\" fill=\"{}\" stroke=\"{}\" "
+        "stroke-width=\"1.5\"/>",
+        num(box.x0), num(box.y0), num(box.x1 - box.x0), num(box.y1 - box.y0), num(kBadgeHalfHeight),
+        kSharedLine, kPaper);
+  for (std::size_t i = 0; i < n; ++i) {
+    const double x = box.x0 + (n == 1 ? 9.0 : 2.0 + kBadgeStep * (i + 0.5));
+    s += fmt::format(
+        "<circle cx=\"{}\" cy=\"{}\" r=\"7.2\" fill=\"{}\"{}/>"
+        "<text x=\"{}\" y=\"{}\" font-size=\"9.5\" font-weight=\"bold\" fill=\"#ffffff\" "
+        "text-anchor=\"middle\">{}</text>",
+        num(x), num(at.y), strategy_colour(members[i]),
+        n == 1 ? fmt::format(" stroke=\"{}\" stroke-width=\"1.5\"", kPaper) : "", num(x),
+        num(at.y + 3.4), members[i] + 1);
+  }
+  return s + "</g>\n";
+}
+
+// Draws the segments, cased in paper colour so each reads over the cells, and places their
+// badges. A segment whose badge finds no clear place still gets one, at its preferred place
+// on its line, so no strategy goes unnamed.
+void draw_boundaries(Ctx& c, const std::vector<Segment>& segs, std::vector<bool>& drawn,
+                     Layout& lay) {
+  std::string casing, lines, badges;
+  std::vector<bool> badged(c.in.strategies.size(), false);
+  std::vector<std::size_t> order(segs.size());
+  for (std::size_t i = 0; i < segs.size(); ++i) order[i] = i;
+  // Longer pieces first: a short piece may then go without a badge of its own.
+  std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+    return path_length(segs[a].pts) > path_length(segs[b].pts);
+  });
+  for (const std::size_t i : order) {
+    const Segment& seg = segs[i];
+    const bool shared = seg.members.size() > 1;
+    const auto& st0 = c.in.strategies[seg.members.front()];
+    casing += fmt::format("<path d=\"{}\"/>\n", path_d(seg.pts));
+    std::string names;
+    for (const std::size_t m : seg.members) {
+      drawn[m] = true;
+      names += (names.empty() ? "" : "; ") + c.in.strategies[m].name;
+    }
+    lines += fmt::format(
+        "<path class=\"boundary\" data-strategies=\"{}\" data-strategy=\"{}\" "
+        "data-quantity=\"{}\" data-reference=\"{}\" data-line-si=\"{}\" d=\"{}\" stroke=\"{}\" "
+        "stroke-width=\"{}\"/>\n",
+        members_attr(seg.members), esc(shared ? names : st0.name), quantity_attr(seg.quantity),
+        seg.references, fmt::format("{:.8g}", seg.key), path_d(seg.pts),
+        shared ? kSharedLine : strategy_colour(seg.members.front()), shared ? "3.8" : "2.2");
+    // A shared line is hollow, a rail of graphite round a paper core: no strategy's colour.
+    if (shared)
+      lines +=
+          fmt::format("<path class=\"shared-core\" d=\"{}\" stroke=\"{}\" stroke-width=\"1.2\"/>\n",
+                      path_d(seg.pts), kPaper);
+    const bool all_named = std::all_of(seg.members.begin(), seg.members.end(),
+                                       [&](std::size_t m) { return badged[m]; });
+    if (path_length(seg.pts) < kMinBadgedPx && all_named) continue;
+    const std::optional<Px> at = badge_place(seg, lay);
+    if (!at && all_named) continue;
+    const Px p = at ? *at : seg.pts[seg.pts.size() / 2];
+    const Box box = around(p.x, p.y, badge_half_width(seg.members.size()), kBadgeHalfHeight);
+    lay.take(box);
+    badges += badge_svg(seg.members, p, box);
+    for (const std::size_t m : seg.members) badged[m] = true;
+  }
+  c.out += fmt::format(
+      "<g class=\"high-limit-casing\" fill=\"none\" stroke=\"{}\" stroke-width=\"5\" "
+      "stroke-opacity=\"0.9\">\n{}</g>\n",
+      kPaper, casing);
+  c.out += "<g class=\"high-limits\" fill=\"none\" stroke-linecap=\"butt\">\n" + lines + "</g>\n";
+  c.out += "<g class=\"badges\">\n" + badges + "</g>\n";
 }
 
 void draw_marks(Ctx& c, const std::vector<Mark>& marks) {
@@ -845,8 +1208,8 @@ void draw_marks(Ctx& c, const std::vector<Mark>& marks) {
           "stroke-width=\"1.5\"/>\n",
           m.cls, num(x), num(y), m.fill, kPaper);
     c.out += text(x + m.dx, y + m.dy, m.label,
-                  fmt::format("font-size=\"10.5\" font-weight=\"bold\" fill=\"{}\"{}", m.fill,
-                              m.dx < 0 ? " text-anchor=\"end\"" : ""),
+                  fmt::format("font-size=\"10.5\" font-weight=\"bold\" fill=\"{}\"{}{}", m.fill,
+                              m.dx < 0 ? " text-anchor=\"end\"" : "", box_attr(m.box)),
                   true);
   }
 }
@@ -913,7 +1276,8 @@ void draw_title(Ctx& c) {
 std::string hours_text(double h) { return fmt::format("{:.0f} h", h); }
 
 // The legend under the plot; returns the height used.
-double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const OverlaySummary& ov) {
+double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn,
+                   const std::vector<std::size_t>& shared, const OverlaySummary& ov) {
   const double x = kPlot.left;
   const std::string head = fmt::format(
       "font-size=\"10\" font-weight=\"bold\" fill=\"{}\" letter-spacing=\"1.1\"", kInkSoft);
@@ -945,6 +1309,22 @@ double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const Overl
       }
       y += 2;
     }
+    if (!shared.empty()) {
+      // A sample of a shared line with the badge group of one on this chart.
+      const double hw = badge_half_width(shared.size());
+      const double cx = x + std::max(24.0, hw + 2);
+      const std::vector<Px> rail = {{cx - hw - 6, y - 4}, {cx + hw + 6, y - 4}};
+      c.out += fmt::format(
+          "<path d=\"{0}\" stroke=\"{1}\" stroke-width=\"3.8\"/><path d=\"{0}\" "
+          "stroke=\"{2}\" stroke-width=\"1.2\"/>\n",
+          path_d(rail), kSharedLine, kPaper);
+      c.out += badge_svg(shared, {cx, y - 4}, around(cx, y - 4, hw, kBadgeHalfHeight), false);
+      c.out += text(std::max(x + 54, cx + hw + 14), y,
+                    "hollow graphite line: shared by the strategies whose numbers its badge "
+                    "group carries, drawn once",
+                    body);
+      y += 17;
+    }
     y += 10;
   }
   if (!c.in.climate.empty()) {
@@ -968,8 +1348,8 @@ double draw_legend(Ctx& c, double y, const std::vector<bool>& drawn, const Overl
     y += 20;
     // Density key: four cells from one hour to the fullest cell.
     const BinSize bin = ov.bin;
-    const std::string cell = fmt::format("one cell = {} {} × {} {}", tick_label(bin.dry_bulb),
-                                         t_unit(c.s), tick_label(bin.humidity_ratio), c.ax.w_unit);
+    const std::string cell = fmt::format("one cell = {:.3g} {} × {:.3g} {}", bin.dry_bulb,
+                                         t_unit(c.s), bin.humidity_ratio, c.ax.w_unit);
     const double qs[] = {std::min(1.0, ov.max_cell), ov.max_cell / 4, ov.max_cell / 2, ov.max_cell};
     double kx = x;
     for (double q : qs) {
@@ -1056,11 +1436,18 @@ std::vector<ClimateHour> climate_hours(const annual::Prepared& prepared) {
 BinSize overlay_bin_size(std::span<const ClimateHour> climate, System s) {
   const AxisStyle& ax = axis_style(s);
   BinSize bin = ax.bin;
-  for (int k = 0; k < 2 && stripe_share(climate, bin.dry_bulb,
-                                        [&](const ClimateHour& h) {
-                                          return t_disp(h.outdoor.dry_bulb_c, s);
-                                        }) > kStripeShare;
-       ++k)
+  // Readings in whole degrees of either system: one column per reading step, centred on the
+  // readings, so every column holds the same readings and none is empty between full ones.
+  for (const System recorded : {System::ip, System::si}) {
+    if (!on_whole_degrees(climate, recorded)) continue;
+    bin.dry_bulb = t_disp(t_si(1.0, recorded), s) - t_disp(t_si(0.0, recorded), s);
+    bin.dry_bulb_origin = t_disp(t_si(-0.5, recorded), s);
+    break;
+  }
+  auto dry_bulb = [&](const ClimateHour& h) {
+    return t_disp(h.outdoor.dry_bulb_c, s) - bin.dry_bulb_origin;
+  };
+  for (int k = 0; k < 2 && stripe_share(climate, bin.dry_bulb, dry_bulb) > kStripeShare; ++k)
     bin.dry_bulb *= 2;
   for (int k = 0; k < 2 && stripe_share(climate, bin.humidity_ratio,
                                         [&](const ClimateHour& h) {
@@ -1115,30 +1502,41 @@ ChartGeometry chart_geometry(const ChartInput& in) {
 std::string psychrometric_chart_svg(const ChartInput& in) {
   psychro::check_pressure(in.pressure_kpa, "chart pressure");
   const ChartGeometry g = chart_geometry(in);
-  Ctx c{in, g, Psy{in.pressure_kpa}, axis_style(in.units), in.units, {}};
+  Ctx c{in, g, Psy{in.pressure_kpa}, axis_style(in.units), in.units, {}, {}};
   const highlimit::AirValues ret = values_at(in.return_air, in.pressure_kpa);
-  const auto bs = boundaries(in.strategies, ret, g, c.psy);
+  const auto segs = shared_segments(boundaries(in.strategies, ret, g, c.psy), in.strategies, g);
+
+  Layout lay(g, c.psy);
+  for (const auto& run : clip(saturation_curve(g, c.psy), g)) lay.keep_off_line(to_px(run, g));
+  for (const auto& seg : segs) lay.keep_off_line(seg.pts);
+  if (in.mixed_air_target_c >= g.dry_bulb_min_c() && in.mixed_air_target_c <= g.dry_bulb_max_c())
+    lay.keep_off_line({{g.x(in.mixed_air_target_c), g.y(0)},
+                       {g.x(in.mixed_air_target_c), g.y(std::min(c.psy.w_sat(in.mixed_air_target_c),
+                                                                 g.humidity_ratio_max()))}});
 
   draw_paper(c);
   draw_grid(c);
-  std::vector<double> verticals = {g.x(in.mixed_air_target_c)};
-  for (const auto& b : bs)
-    if (b.family == Family::vertical && !b.runs.empty()) verticals.push_back(g.x(b.key));
-  draw_rh(c, verticals);
+  draw_rh(c);
   draw_enthalpy(c);
   draw_wet_bulb(c);
   const OverlaySummary ov = draw_climate(c);
   draw_saturation(c);
-  draw_target(c);
+  std::vector<Mark> marks = layout_marks(c, lay);
+  draw_target(c, lay);
   std::vector<bool> drawn(in.strategies.size(), false);
-  std::vector<Box> taken;
-  const std::vector<Mark> marks = layout_marks(c, taken);
-  draw_boundaries(c, bs, drawn, taken);
+  draw_boundaries(c, segs, drawn, lay);
+  place_mark_labels(c, marks, lay);
   draw_marks(c, marks);
+  c.out += place_labels(c.labels, lay);
   draw_axes(c);
   draw_title(c);
   const double legend_top = g.area().top + g.area().height + 66;
-  const double legend_h = draw_legend(c, legend_top, drawn, ov);
+  // The legend explains shared lines with the smallest group on the chart.
+  std::vector<std::size_t> shared;
+  for (const auto& seg : segs)
+    if (seg.members.size() > 1 && (shared.empty() || seg.members.size() < shared.size()))
+      shared = seg.members;
+  const double legend_h = draw_legend(c, legend_top, drawn, shared, ov);
   const double height = legend_top + legend_h + 14;
 
   const std::string pressure = units::format(units::Kind::pressure, in.units, in.pressure_kpa, 3);

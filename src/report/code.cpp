@@ -352,6 +352,7 @@ std::string fault_detection_text(Format f, const codes::Edition& e, System compa
     out += fmt::format("{}the unit controller shows:\n", bullet);
     for (const auto& x : d.status) out += fmt::format("{}{}\n", sub, x);
   }
+  if (!d.testing.empty()) out += fmt::format("{}testing: {}\n", bullet, d.testing);
   out += fmt::format(
       "{}faults it must detect (the code's terms in quotes, limitline's name in "
       "brackets):\n",
@@ -411,7 +412,7 @@ void json_fault_detection(Json& j, const codes::Edition& e, System compare_in,
         .field("description", codes::fault_description(r.fault))
         .end_object();
   j.end_array();
-  j.field("reporting", d.reporting).field("provenance", d.provenance);
+  j.field("testing", d.testing).field("reporting", d.reporting).field("provenance", d.provenance);
   j.end_object();
 }
 

@@ -460,32 +460,42 @@ std::string markdown_to_html(std::string_view md) {
   return out;
 }
 
-std::string report_html(const annual::YearResult& year, const ReportDocument& doc) {
-  std::string intro;
-  const auto bs = blocks(year, doc, intro);
+std::string html_page(const PageHead& head, const std::vector<PageSection>& sections) {
   std::string out =
       "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\"/>\n"
       "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\"/>\n";
-  out += fmt::format("<title>Economizer high-limit study — {}</title>\n",
-                     html_escape(doc.context.title));
-  out += "<style>\n" + std::string(kCss) + "\n</style>\n</head>\n<body>\n<main>\n";
+  out += fmt::format("<title>{} — {}</title>\n", html_escape(head.kicker), html_escape(head.title));
+  out += "<style>\n" + std::string(kCss) + "\n" + head.extra_css +
+         "\n</style>\n</head>\n<body>\n<main>\n";
   out += fmt::format(
-      "<header class=\"title\">\n<p class=\"kicker\">Economizer high-limit "
-      "study</p>\n<h1>{}</h1>\n<p class=\"intro\">{}</p>\n"
-      "</header>\n",
-      html_escape(doc.context.title), html_escape(intro));
-  for (const auto& b : bs) {
-    out += fmt::format("<section id=\"{}\"{}>\n<h2>{}</h2>\n", b.id,
-                       b.css.empty() ? "" : " class=\"" + b.css + "\"", html_escape(b.heading));
-    out += figure_html(b.figure, doc);
-    out += b.html.empty() ? with_swatches(markdown_to_html(b.md), doc) : b.html;
-    out += "</section>\n";
+      "<header class=\"title\">\n<p class=\"kicker\">{}</p>\n<h1>{}</h1>\n<p "
+      "class=\"intro\">{}</p>\n</header>\n",
+      html_escape(head.kicker), html_escape(head.title), html_escape(head.intro));
+  for (const auto& sec : sections) {
+    out += fmt::format("<section id=\"{}\"{}>\n<h2>{}</h2>\n", sec.id,
+                       sec.css_class.empty() ? "" : " class=\"" + sec.css_class + "\"",
+                       html_escape(sec.heading));
+    out += sec.html + "</section>\n";
   }
-  if (!doc.generator.empty())
-    out += fmt::format("<footer>Written by {} from the inputs listed above.</footer>\n",
-                       html_escape(doc.generator));
+  if (!head.footer.empty()) out += fmt::format("<footer>{}</footer>\n", html_escape(head.footer));
   out += "</main>\n</body>\n</html>\n";
   return out;
+}
+
+std::string report_html(const annual::YearResult& year, const ReportDocument& doc) {
+  PageHead head;
+  head.kicker = "Economizer high-limit study";
+  head.title = doc.context.title;
+  const auto bs = blocks(year, doc, head.intro);
+  if (!doc.generator.empty())
+    head.footer = fmt::format("Written by {} from the inputs listed above.", doc.generator);
+  std::vector<PageSection> sections;
+  for (const auto& b : bs)
+    sections.push_back({b.id, b.heading,
+                        figure_html(b.figure, doc) +
+                            (b.html.empty() ? with_swatches(markdown_to_html(b.md), doc) : b.html),
+                        b.css});
+  return html_page(head, sections);
 }
 
 std::string report_markdown(const annual::YearResult& year, const ReportDocument& doc,

@@ -45,6 +45,7 @@ constexpr Precision kPrecision[] = {
     {Kind::humidity_ratio, 5, 5, 4, 4, 0.0001, 0.0001},
     {Kind::pressure, 3, 3, 2, 1, 0.01, 0.1},
     {Kind::length, 0, 1, 0, 0, 1.0, 1.0},
+    {Kind::power, 1, 1, 1, 1, 1.0, 0.1},
 };
 
 const Precision& precision(Kind k) {
@@ -167,6 +168,9 @@ constexpr double kLowLimitMarginF = 3.0;  // "a few degrees" below the mixed-air
 constexpr double kLowLimitMarginK = 1.5;
 constexpr double kFreezeExampleF = 38.0;  // common practice for low-temperature detection
 constexpr FixedFigure kSensorRange{"-40 °F or above 130 °F", "-40 °C or above 55 °C"};
+// Below this outdoor-to-return difference the fraction from temperatures is mostly sensor error
+// (common practice).
+constexpr FixedFigure kFractionGate{"10 °F", "5 K"};
 
 // --- Sensors, as data -------------------------------------------------------------------
 
@@ -853,7 +857,7 @@ void protection(const Context& ctx, Section& sec) {
                "Freeze protection: when the low-temperature detection of section 7 senses air "
                "below its setpoint along any part of its element, the outdoor damper shall close "
                "fully, overriding the ventilation minimum, the return damper shall open, and an "
-               "alarm shall be raised (paragraph 8.6); fan and heating-valve actions follow the "
+               "alarm shall be raised (paragraph 8.7); fan and heating-valve actions follow the "
                "unit's freeze-protection design. The device shall act without the controller and "
                "reset only by hand. The setpoint is the designer's responsibility; {} is common "
                "practice.",
@@ -906,36 +910,129 @@ void sensor_list(const Context& ctx, Section& sec) {
   }
 }
 
-// --- Section 8 ---
+// --- Sections 8 and 9 ---
+
+// The alarms of section 8 that find a fault of an energy code's fault-detection list, in this
+// sequence's words; section 9 cites them by fault. Paragraph 8.1 introduces them, so the
+// alarm at index i is paragraph 8.(i + 2); the low-temperature alarm follows them.
+struct Alarm {
+  codes::Fault fault;
+  std::string (*text)(const Context&);
+};
+constexpr Alarm kAlarms[] = {
+    {codes::Fault::sensor_fault,
+     [](const Context& ctx) {
+       return fmt::format(
+           "Sensor out of range: raise an alarm when any sensor of section 7 reads outside its "
+           "physical range (an open or short circuit, a temperature below {}, a humidity below "
+           "0% or above 100% RH) or does not change at all for 24 hours. While a sensor the "
+           "high-limit reads is in alarm, the economizer shall stay locked out.",
+           kSensorRange.pick(ctx.s));
+     }},
+    {codes::Fault::damper_not_modulating,
+     [](const Context&) {
+       return std::string(
+           "Damper not following command: raise an alarm when the outdoor-damper position "
+           "differs from its command by more than 10% of stroke for more than 5 minutes.");
+     }},
+    {codes::Fault::economizing_when_locked_out,
+     [](const Context&) {
+       return std::string(
+           "Damper open while locked out: raise an alarm when the outdoor damper stands more "
+           "than 10% of stroke above its ventilation-minimum position for more than 15 minutes "
+           "while (a) the high-limit of section 3 has locked the economizer out, or (b) the "
+           "outdoor-air dry-bulb temperature is above the return-air dry-bulb temperature.");
+     }},
+    {codes::Fault::not_economizing_when_allowed,
+     [](const Context&) {
+       return std::string(
+           "Damper shut while enabled: raise an alarm when the outdoor damper stays at its "
+           "ventilation-minimum position for more than 15 minutes while paragraph 2.1 enables "
+           "the economizer, or when the high-limit reports a lockout although the readings put "
+           "every condition of section 3 below its limit.");
+     }},
+    {codes::Fault::outdoor_air_above_minimum,
+     [](const Context& ctx) {
+       return fmt::format(
+           "Outdoor air above the minimum: while the economizer is disabled, compute the "
+           "outdoor-air fraction from the outdoor, return and mixed-air temperatures, only "
+           "while outdoor and return air differ by at least {}; raise an alarm when it exceeds "
+           "the ventilation minimum of section 5 by more than 10 percentage points for more "
+           "than 15 minutes.",
+           kFractionGate.pick(ctx.s));
+     }},
+};
+
+std::string alarm_paragraph(std::size_t index) { return fmt::format("8.{}", index + 2); }
 
 void alarms(const Context& ctx, Section& sec) {
   add(sec,
       "The alarms below report faults that waste energy or starve the ventilation. Their "
       "thresholds and delays are design choices, to be tuned in commissioning.");
-  add(sec,
-      fmt::format("Sensor out of range: raise an alarm when any sensor of section 7 reads "
-                  "outside its physical range (an open or short circuit, a temperature below {}, "
-                  "a humidity below 0% or above 100% RH) or does not change at all for 24 hours. "
-                  "While a sensor the high-limit reads is in alarm, the economizer shall stay "
-                  "locked out.",
-                  kSensorRange.pick(ctx.s)));
-  add(sec,
-      "Damper not following command: raise an alarm when the outdoor-damper position differs "
-      "from its command by more than 10% of stroke for more than 5 minutes.");
-  add(sec,
-      "Economizing when it should not: raise an alarm when the outdoor damper stands more "
-      "than 10% of stroke above its ventilation-minimum position for more than 15 minutes "
-      "while (a) the high-limit of section 3 has locked the economizer out, or (b) the "
-      "outdoor-air dry-bulb temperature is above the return-air dry-bulb temperature.");
-  add(sec,
-      "Not economizing when it should: raise an alarm when the outdoor damper stays at its "
-      "ventilation-minimum position for more than 15 minutes while paragraph 2.1 enables the "
-      "economizer, or when the high-limit reports a lockout although the readings put every "
-      "condition of section 3 below its limit.");
+  for (const Alarm& a : kAlarms) add(sec, a.text(ctx));
   add(sec,
       "Low temperature: raise an alarm whenever the freeze protection of paragraph 6.2 acts; "
       "it shall stay in alarm until reset by hand.");
 }
+
+void fault_detection(const Context& ctx, Section& sec) {
+  const codes::Edition* e = ctx.code.zone ? ctx.code.zone->edition : nullptr;
+  if (!e || !e->fault_detection) {
+    add(sec, e ? fmt::format("{} has no economizer fault-detection clause in limitline's code "
+                             "tables (from memory). The alarms of section 8 are common "
+                             "practice all the same.",
+                             e->title)
+               : std::string("The unit file names no energy code, so no fault-detection clause "
+                             "is cited. The alarms of section 8 are common practice all the "
+                             "same; where the adopted code requires economizer fault detection, "
+                             "its clause governs."));
+    return;
+  }
+  const codes::FaultDetection& d = *e->fault_detection;
+  const System compare_in = ctx.code.zone->compare_in;
+  const int last = 4 + (d.status.empty() ? 0 : 1) + (d.testing.empty() ? 0 : 1);
+  std::string scope = fmt::format(
+      "{}, {}, requires economizer fault detection and diagnostics (the clause is recalled "
+      "from memory; the adopted edition governs). The units it covers: {}",
+      e->title, d.clause, d.applies_to);
+  if (d.capacity_ip)
+    scope += fmt::format(" It applies from a cooling capacity of {}.",
+                         written(Kind::power, ctx.s,
+                                 compare_in == System::ip
+                                     ? units::from_display(Kind::power, System::ip, *d.capacity_ip)
+                                     : *d.capacity_si));
+  add(sec,
+      scope + fmt::format(" Where this unit is one of them, paragraphs 9.2 to 9.{} apply.", last));
+  std::string sensors = "Sensors: " + join(d.sensors, ", ") + " shall be installed permanently";
+  if (d.sensor_accuracy_ip)
+    sensors += fmt::format(
+        ", each accurate to within {}{}",
+        written(Kind::temperature_difference, ctx.s,
+                compare_in == System::ip ? units::from_display(Kind::temperature_difference,
+                                                               System::ip, *d.sensor_accuracy_ip)
+                                         : *d.sensor_accuracy_si),
+        d.accuracy_range.empty() ? "" : " over " + d.accuracy_range);
+  add(sec, sensors + "; where section 7 asks for better, section 7 governs.");
+  if (!d.status.empty())
+    add(sec, "Status: the unit controller shall show " + join(d.status, "; ") + ".");
+  if (!d.testing.empty()) add(sec, "Testing: " + d.testing);
+  std::string faults = "Faults: the controller shall detect and report";
+  for (std::size_t k = 0; k < d.faults.size(); ++k) {
+    const codes::RequiredFault& f = d.faults[k];
+    std::string where;
+    for (std::size_t i = 0; i < std::size(kAlarms); ++i)
+      if (kAlarms[i].fault == f.fault) where = ", the alarm of paragraph " + alarm_paragraph(i);
+    faults += fmt::format("{} ({}) {} (the code's \"{}\"{})", k == 0 ? ":" : ";",
+                          static_cast<char>('a' + k), codes::fault_description(f.fault),
+                          f.code_term, where);
+  }
+  add(sec, faults + ".");
+  add(sec, "Reporting: " + d.reporting);
+  // 9.1 cites the paragraphs just written.
+  if (sec.paragraphs.size() != static_cast<std::size_t>(last))
+    throw std::logic_error("sequence: section 9 has a paragraph 9.1 does not cite");
+}
+
 // The sections in their order: numbers, titles and the function that writes each.
 struct SectionSpec {
   int number;
@@ -951,6 +1048,7 @@ constexpr SectionSpec kSections[] = {
     {6, "Mixed-air low-limit and freeze protection", protection},
     {7, "Sensors", sensor_list},
     {8, "Alarms", alarms},
+    {9, "Fault detection and diagnostics", fault_detection},
 };
 
 Document build(const Context& ctx) {

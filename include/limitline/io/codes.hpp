@@ -193,6 +193,7 @@ struct FaultDetection {
   std::optional<double> sensor_accuracy_ip, sensor_accuracy_si;
   std::string accuracy_range;       // over which the accuracy holds, as text ("40–80 °F")
   std::vector<std::string> status;  // what the unit controller displays
+  std::string testing;              // how each mode can be tested; empty: not stated
   std::string reporting;            // where faults are reported
   std::vector<RequiredFault> faults;
   std::string provenance;

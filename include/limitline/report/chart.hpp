@@ -75,14 +75,17 @@ std::vector<ClimateHour> climate_hours(const annual::Prepared& prepared);
 
 // Size of one overlay cell in display units.
 struct BinSize {
-  double dry_bulb;        // °F or °C
-  double humidity_ratio;  // gr/lb or g/kg
+  double dry_bulb;               // °F or °C
+  double humidity_ratio;         // gr/lb or g/kg
+  double dry_bulb_origin = 0.0;  // a column edge, °F or °C: columns start here every dry_bulb
 };
 
-// The cell size the chart uses for `climate`: 1 °F × 5 gr/lb (IP) or 0.5 °C × 0.5 g/kg (SI),
-// each side doubled (up to four times) while the data leave empty stripes between filled
-// cells — weather recorded in whole degrees of the other unit system does, and the stripes
-// would be an artefact of the recording, not of the climate.
+// The cell size the chart uses for `climate`: 1 °F × 5 gr/lb (IP) or 0.5 °C × 0.5 g/kg (SI).
+// Dry-bulbs recorded in whole degrees (of either system, also when stored as tenths of the
+// other) get columns one reading step wide, centred on the readings: 1 °F or 5/9 °C for whole
+// °F, 1.8 °F or 1 °C for whole °C. Each side is then doubled (up to four times) while the data
+// still leave empty stripes between filled cells, which would be an artefact of the
+// recording, not of the climate.
 BinSize overlay_bin_size(std::span<const ClimateHour> climate, units::System s);
 
 // One operating point checked on its own: outdoor and return air and the mixed air the

@@ -48,6 +48,23 @@ struct ReportDocument {
   std::string generator;  // "limitline 0.1.0"
 };
 
+// A page in the report's style (its CSS, title block and footer) around sections of HTML:
+// what the study report and the audit record share. `extra_css` is added after the house CSS.
+struct PageHead {
+  std::string kicker;  // the small line above the title: "Economizer high-limit study"
+  std::string title;
+  std::string intro;   // one paragraph of text (escaped here)
+  std::string footer;  // text (escaped here); empty: none
+  std::string extra_css;
+};
+struct PageSection {
+  std::string id;
+  std::string heading;  // text (escaped here)
+  std::string html;     // the section's body, already HTML
+  std::string css_class;
+};
+std::string html_page(const PageHead& head, const std::vector<PageSection>& sections);
+
 // The whole page: HTML5 that is also well-formed XML (void elements closed, no named entities
 // beyond the five of XML), with print rules for A4 and Letter and a layout for phones.
 std::string report_html(const annual::YearResult& year, const ReportDocument& doc);
