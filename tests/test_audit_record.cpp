@@ -3,7 +3,9 @@
 // are checks of agreement (the picture and the record show what the audit found), not check
 // values: the example is demo data.
 #include <limitline/analysis/audit.hpp>
+#include <limitline/analysis/audit_faults.hpp>
 #include <limitline/analysis/audit_timeline.hpp>
+#include <limitline/io/codes.hpp>
 #include <limitline/io/trend.hpp>
 #include <limitline/io/unit_file.hpp>
 #include <limitline/report/audit_record.hpp>
@@ -39,8 +41,15 @@ const Example& example() {
 }
 
 report::AuditContext context(const Example& e) {
-  return {e.unit.path, "the example's first strategy", "first strategy of the unit file",
-          e.options.accuracy, units::System::ip};
+  report::AuditContext c;
+  c.unit_path = e.unit.path;
+  c.strategy_text = "the example's first strategy";
+  c.strategy_source = "first strategy of the unit file";
+  c.accuracy = e.options.accuracy;
+  c.significance = e.options.significance;
+  c.supply_tolerance_k = e.options.supply_tolerance_k;
+  c.fault_code_note = "no code named";
+  return c;
 }
 
 }  // namespace
@@ -151,4 +160,66 @@ TEST_CASE("limitline audit --format html writes the record, whole, to -o") {
                            "audit_record");
   CHECK(bad.rc == 1);
   CHECK(contains(bad.err, "text, md, json, html"));
+}
+
+TEST_CASE("which of a code's required faults a log can show depends on its columns") {
+  // 90.1-2019 6.4.3.12 lists five faults (from memory; data/codes).
+  const auto tables = codes::CodeTables::load(kSource + "/data/codes");
+  const auto& required = *tables.edition("ashrae-90.1-2019").fault_detection;
+  const Example& e = example();
+  const audit::Result full = audit::run(e.unit, e.log, e.options);
+  const auto all = audit::fault_evidence(required, e.log, full);
+  REQUIRE(all.size() == required.faults.size());
+  for (const auto& f : all) CHECK_MESSAGE(f.can_show(), codes::fault_name(f.fault));
+  // The example's injected stuck damper is found as the code's damper fault.
+  const auto damper = std::find_if(all.begin(), all.end(), [](const audit::FaultEvidence& f) {
+    return f.fault == codes::Fault::damper_not_modulating;
+  });
+  REQUIRE(damper != all.end());
+  CHECK(damper->found == std::vector{audit::FindingKind::damper_not_following});
+
+  // A log of outdoor air and the damper signal alone: the damper's state is known, but no
+  // outdoor-air fraction can be measured, so neither a sensor fault, a damper that does not
+  // follow, nor excess outdoor air can be shown.
+  const std::string csv =
+      "Timestamp,OAT (°F),OA Damper Cmd (%),SF Status\n"
+      "2026-05-04 08:00,60,20,on\n2026-05-04 08:15,61,20,on\n2026-05-04 08:30,62,20,on\n";
+  const trend::TrendLog thin = trend::parse_trend(csv, "thin.csv", {});
+  const audit::Result r = audit::run(e.unit, thin, e.options);
+  const auto some = audit::fault_evidence(required, thin, r);
+  for (const auto& f : some) {
+    CAPTURE(codes::fault_name(f.fault));
+    const bool needs_fraction = f.fault == codes::Fault::sensor_fault ||
+                                f.fault == codes::Fault::damper_not_modulating ||
+                                f.fault == codes::Fault::outdoor_air_above_minimum;
+    CHECK(f.can_show() == !needs_fraction);
+    if (needs_fraction) CHECK(!f.not_judged.empty());
+  }
+  CHECK(audit::needs_text(audit::FindingKind::excess_outdoor_air) ==
+        "outdoor-dry-bulb, return-dry-bulb and mixed-air");
+}
+
+TEST_CASE("audit names the code's fault-detection clause and what the log shows of it") {
+  const std::vector<std::string> base = {"audit", kSource + "/examples/audit-office.toml",
+                                         kSource + "/examples/trend-office.csv"};
+  auto with = [&](std::initializer_list<std::string> extra) {
+    auto a = base;
+    a.insert(a.end(), extra.begin(), extra.end());
+    return run_cli(a, "audit_record");
+  };
+  const auto text = with({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--wide"});
+  REQUIRE(text.rc == 0);
+  CHECK(contains(text.out, "Fault detection the code requires:"));
+  CHECK(contains(text.out, "required by ANSI/ASHRAE/IES Standard 90.1-2019, 6.4.3.12"));
+  CHECK(contains(text.out,
+                 "\"damper not modulating\" [damper-not-modulating]: this log can show "
+                 "it (Measured outdoor air unlike the damper command); found: "));
+  const auto json = with({"--edition", "ashrae-90.1-2019", "--zone", "4A", "--format", "json"});
+  CHECK(contains(json.out, "\"fault_detection\": {"));
+  CHECK(contains(json.out, "\"log_can_show\": true"));
+  const auto none = with({"--format", "json"});
+  CHECK(contains(none.out, "\"fault_detection\": null"));
+  const auto old = with({"--edition", "ashrae-90.1-2010", "--zone", "4A"});
+  REQUIRE(old.rc == 0);
+  CHECK(contains(old.out, "ashrae-90.1-2010 has no economizer fault-detection clause"));
 }

@@ -11,6 +11,8 @@
 
 #include "support/cli.hpp"
 
+#include <fmt/format.h>
+
 #include <memory>
 #include <optional>
 #include <string>
@@ -60,12 +62,16 @@ std::vector<audit::SampleVerdict> judge_all(const Audit& a) {
   return out;
 }
 
-// A heap object, so the context's pointers to the unit, log and options stay valid.
-std::unique_ptr<Audit> make_audit(const std::string& rows) {
+// A heap object, so the context's pointers to the unit, log and options stay valid. Sensors
+// of ±0.1 K put the high-limit's decision in doubt only within 0.3 K of its edges, and no
+// significance minimum hides the few samples these logs have.
+std::unique_ptr<Audit> make_audit(const std::string& rows,
+                                  audit::Accuracy accuracy = {0.1, 0.1, 0.1, 0.1},
+                                  audit::Significance significance = {0, 0.0}) {
   auto a = std::make_unique<Audit>();
   a->unit = limitline::parse_unit_file(kUnit, "steps.toml");
   a->log = trend::parse_trend(kHeader + rows, "steps.csv", {});
-  a->options = {a->unit.strategies.front(), {}};
+  a->options = {a->unit.strategies.front(), accuracy, significance};
   a->context = audit::sample_context(a->unit, a->log, a->options);
   return a;
 }
@@ -173,4 +179,49 @@ TEST_CASE("judging every sample and tallying the verdicts is the audit") {
     CHECK(stepwise.findings[k].energy_kwh == whole.findings[k].energy_kwh);
   }
   CHECK(whole.find(FindingKind::economizing_when_disabled)->intervals == 2);
+}
+
+TEST_CASE("a sample exactly at the limit is no finding; the same samples clear of it are") {
+  // Six samples at 70.0 °F, the configured limit, with the damper at its 20 % minimum: the
+  // strategy allows the economizer at the limit and the model would open the damper, but a
+  // reading at the limit may have been either side of it for the controller's sensor.
+  std::string at, clear;
+  for (int k = 0; k < 6; ++k) {
+    at += fmt::format("2026-05-04 {:02}:{:02},70.0,74,20,On\n", 10 + k / 4, 15 * (k % 4));
+    clear += fmt::format("2026-05-04 {:02}:{:02},65.0,74,20,On\n", 10 + k / 4, 15 * (k % 4));
+  }
+  for (const audit::Accuracy acc : {audit::Accuracy{}, audit::Accuracy{0.01, 0.01, 0.01, 0.01}}) {
+    const auto a = make_audit(at, acc, {});
+    const audit::Result r = audit::run(a->unit, a->log, a->options);
+    CHECK(r.findings.empty());
+    CHECK(r.below_significance.empty());
+  }
+  // 65 °F is 2.8 K below the limit, beyond 3 × 0.5 K: 6 samples, 1.5 h, a finding.
+  const auto c = make_audit(clear, {}, {});
+  const audit::Result r = audit::run(c->unit, c->log, c->options);
+  REQUIRE(r.find(FindingKind::not_economizing_when_enabled));
+  CHECK(r.find(FindingKind::not_economizing_when_enabled)->intervals == 6);
+}
+
+TEST_CASE("a finding needs more samples and hours than the significance minimum") {
+  // Three samples 15 minutes apart with the damper open at 75 °F: 3 samples, 0.75 h.
+  const std::string rows =
+      "2026-05-04 10:00,75,74,60,On\n2026-05-04 10:15,75,74,60,On\n"
+      "2026-05-04 10:30,75,74,60,On\n";
+  struct Case {
+    audit::Significance sig;
+    bool reported;
+  };
+  for (const Case c : {Case{{2, 0.5}, true}, Case{{3, 0.5}, false}, Case{{2, 0.75}, false},
+                       Case{{0, 0.7}, true}}) {
+    const auto a = make_audit(rows, {}, c.sig);
+    const audit::Result r = audit::run(a->unit, a->log, a->options);
+    CAPTURE(c.sig.min_samples);
+    CAPTURE(c.sig.min_hours);
+    CHECK((r.find(FindingKind::economizing_when_disabled) != nullptr) == c.reported);
+    CHECK(r.below_significance.size() == (c.reported ? 0u : 1u));
+    bool noted = false;
+    for (const auto& n : r.notes) noted = noted || contains(n, "economizing-when-disabled (3");
+    CHECK(noted == !c.reported);
+  }
 }

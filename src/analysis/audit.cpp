@@ -16,38 +16,68 @@ using trend::Channel;
 struct KindText {
   std::string_view key, title, rule;
 };
+// Titles and rules in limitline's own words (no energy code's fault list is quoted here);
+// the keys are stable, as JSON and CSV carry them.
 constexpr KindText kKinds[kFindingKindCount] = {
-    {"economizing-when-disabled", "Economizing while the high-limit says off",
-     "fan on, the configured strategy disables the economizer, and the damper is open more "
+    {"economizing-when-disabled", "Damper opened past the minimum against the high-limit",
+     "fan on, the high-limit clearly locks the economizer out, and the damper is open more "
      "than 5 % points above the minimum"},
-    {"not-economizing-when-enabled", "Not economizing while the high-limit allows it",
-     "fan on, the strategy enables the economizer and the model opens the damper at least "
-     "10 % points above the minimum, but the damper stays within 5 % points of the minimum"},
-    {"damper-not-following", "Damper not following its command",
+    {"not-economizing-when-enabled", "Damper held at minimum though the high-limit allows it",
+     "fan on, no cooling logged running, the high-limit clearly allows the economizer and the "
+     "model opens the damper at least 10 % points above the minimum, but the damper stays "
+     "within 5 % points of the minimum"},
+    {"damper-not-following", "Measured outdoor air unlike the damper command",
      "the measured outdoor-air fraction differs from the commanded one by more than 3σ + 0.15 "
      "(the damper signal read as the fraction it commands)"},
-    {"excess-outdoor-air", "Outdoor air above the minimum with the economizer off",
+    {"excess-outdoor-air", "More outdoor air than the minimum with the damper at minimum",
      "damper signal at the minimum (or the strategy off, with no damper column) and the "
      "measured fraction above the minimum by more than 3σ + 0.05"},
-    {"below-minimum", "Outdoor air below the ventilation minimum",
+    {"below-minimum", "Outdoor air short of the ventilation minimum",
      "the measured fraction below the minimum by more than 3σ + 0.05"},
-    {"mixed-air-out-of-range", "Mixed air outside the outdoor–return range",
+    {"mixed-air-out-of-range", "Mixed-air reading outside the outdoor–return span",
      "the mixed-air reading below the lower or above the higher of outdoor and return by more "
      "than 3 combined standard uncertainties: a sensor fault or stratification"},
-    {"high-limit-elsewhere", "High-limit apparently set elsewhere than configured",
+    {"high-limit-elsewhere", "Switching point away from the configured high-limit",
      "at least 4 samples (cooling needed, the other conditions clear) with the damper open "
      "above the configured limit, or at minimum below limit − deadband, by more than the "
-     "tolerance (1 K / 2.3 kJ/kg); hours are the samples on the wrong side of the configured limit "
-     "or band (they overlap the first two findings)"},
+     "condition's expanded uncertainty; hours are the samples on the wrong side of the configured "
+     "limit or band (they "
+     "overlap the first two findings)"},
+    {"cooling-while-outdoor-air-would-do",
+     "Mechanical cooling while outdoor air alone could meet the mixed-air target",
+     "fan on, cooling logged running, and outdoor air at the damper's maximum would mix below "
+     "the mixed-air target (supply setpoint − fan heat) by more than 3σ; energy is the cooling "
+     "the model puts on the observed damper position"},
+    {"minimum-outdoor-air-while-cooling",
+     "Economizer at minimum while cooling runs and the high-limit allows it",
+     "fan on, cooling logged running, the high-limit clearly allows the economizer, the model "
+     "opens the damper at least 10 % points above the minimum, and the damper stays within "
+     "5 % points of the minimum (such samples do not move the switching point)"},
+    {"supply-air-off-setpoint", "Supply air persistently off its setpoint",
+     "fan on, cooling logged running (without a cooling column: the model needs cooling), and "
+     "the supply reading off the unit's supply setpoint by more than the supply tolerance + "
+     "3σ_supply; persistent means more samples and hours than the significance minimum"},
+    {"fan-heat-unlike-the-unit", "Supply minus mixed air unlike the unit's fan heat",
+     "fan on, the coil idle (cooling logged off, or the model needs none; mixed air not below "
+     "the target by more than 3σ_mix, so no heating), and supply − mixed differs from the "
+     "unit's fan heat by more than 0.5 K + 3·√(σ_supply² + σ_mix²)"},
 };
 
-double switch_tolerance(highlimit::Quantity q) {
-  return q == highlimit::Quantity::enthalpy         ? kSwitchToleranceKjPerKg
-         : q == highlimit::Quantity::humidity_ratio ? 0.0005  // about 0.5 g/kg, common practice
-                                                    : kSwitchToleranceK;
-}
-
 }  // namespace
+
+double limit_uncertainty(const highlimit::Condition& c, const Accuracy& a) {
+  const bool differential = c.reference == highlimit::Reference::return_air;
+  const double t =
+      kCoverageFactor * (differential ? std::hypot(a.outdoor_k, a.return_k) : a.outdoor_k);
+  switch (c.quantity) {
+    // dh/dt at constant W is c_p of moist air, 1.006 + 1.86·W kJ/(kg·K) (ASHRAE Fundamentals
+    // ch. 1 eq. 32), taken at W = 0.010 as an air handler's usual humidity.
+    case highlimit::Quantity::enthalpy:
+      return std::hypot((1.006 + 1.86 * 0.010) * t, kEnthalpyHumidityPartKjPerKg);
+    case highlimit::Quantity::humidity_ratio: return kHumidityRatioUncertainty;
+    default: return t;
+  }
+}
 
 std::string_view finding_key(FindingKind k) { return kKinds[static_cast<std::size_t>(k)].key; }
 std::string_view finding_title(FindingKind k) { return kKinds[static_cast<std::size_t>(k)].title; }
@@ -160,10 +190,24 @@ std::optional<double> logged_humidity_ratio(const trend::Sample& smp, const char
   return std::min(w, psychro::saturation_humidity_ratio(t, p));
 }
 
+// The high-limit's decision is clear when every condition's value lies farther than its
+// expanded uncertainty from both edges of its band (limit, and limit − deadband): nearer,
+// the controller's sensors may have read the other side, and the damper's state is no
+// evidence of a fault.
+bool decision_clear(const highlimit::Strategy& s, const highlimit::AirValues& out,
+                    const highlimit::AirValues& ret, const Accuracy& a) {
+  for (const auto& cond : s.conditions) {
+    const double u = limit_uncertainty(cond, a);
+    const double v = out[cond.quantity], limit = cond.effective_limit(ret);
+    if (!(std::abs(v - limit) > u) || !(std::abs(v - (limit - cond.deadband)) > u)) return false;
+  }
+  return true;
+}
+
 // The rules on a fan-on sample, given the air and the strategy's decision on it.
 void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_s,
                      const airside::AirState& out, const airside::AirState& ret, bool enabled,
-                     SampleVerdict& v) {
+                     bool clear, SampleVerdict& v) {
   const auto& ah = c.unit->air_handler;
   const Accuracy& acc = c.options->accuracy;
   auto found = [&](FindingKind k, double excess, std::optional<double> energy_kwh) {
@@ -212,12 +256,25 @@ void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_
   const airside::CoilLoads loads = airside::coil_loads(ah, c.coil, airside::mix(out, ret, x_obs));
   const double e_obs = c.unit->weights.cooling * loads.cooling_kj_per_kg +
                        c.unit->weights.heating * loads.heating_kj_per_kg;
-  const double impact = (e_obs - expected.weighted_kj_per_kg) * c.dry_air_kg_per_s * w_s / 3600.0;
+  const double kwh_per_kj_per_kg = c.dry_air_kg_per_s * w_s / 3600.0;
+  const double impact = (e_obs - expected.weighted_kj_per_kg) * kwh_per_kj_per_kg;
   v.energy_kwh = impact;
 
-  if (observed && *observed && !enabled)
+  // Cooling as the log has it; without a cooling column, as the model expects it.
+  const auto cooling_logged = smp[Channel::cooling];
+  const bool cooling = cooling_logged ? *cooling_logged >= 0.5 : expected.mechanical_cooling;
+  const bool model_opens = choice.enabled.oa_fraction > x_min + kShouldOpenMargin;
+  const bool at_minimum = observed && !*observed;
+  // Cooling running with the damper at minimum while it may open is the economizer yielding
+  // to cooling: its own finding, and no evidence of where the high-limit switches.
+  const bool yields_to_cooling =
+      cooling_logged && cooling && at_minimum && enabled && clear && model_opens;
+
+  if (observed && *observed && !enabled && clear)
     found(FindingKind::economizing_when_disabled, (damper ? *damper : x_obs) - x_min, impact);
-  if (observed && !*observed && enabled && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
+  if (yields_to_cooling)
+    found(FindingKind::minimum_while_cooling, choice.enabled.oa_fraction - x_obs, impact);
+  else if (at_minimum && enabled && clear && model_opens)
     found(FindingKind::not_economizing_when_enabled, choice.enabled.oa_fraction - x_obs, impact);
   if (meas && damper) {
     const double dev = std::abs(meas->fraction - *damper) -
@@ -232,8 +289,31 @@ void judge_operation(const SampleContext& c, const trend::Sample& smp, double w_
     const double below = x_min - band - meas->fraction;
     if (below > 0) found(FindingKind::below_minimum, below, impact);
   }
-  if (observed && choice.cooling_needed && choice.enabled.oa_fraction > x_min + kShouldOpenMargin)
+  if (observed && choice.cooling_needed && model_opens && !yields_to_cooling)
     v.switch_open = *observed;
+
+  // Outdoor air alone carries the load when it mixes below the target at the damper's
+  // maximum, beyond the uncertainty of that mix.
+  const double target = ah.mixed_air_target_c();
+  if (cooling_logged && cooling) {
+    const double x = ah.max_oa_fraction;
+    const double t_mix_max = airside::mix(out, ret, x).dry_bulb_c;
+    const double u = kCoverageFactor * std::hypot(x * acc.outdoor_k, (1 - x) * acc.return_k);
+    if (target - t_mix_max > u)
+      found(FindingKind::cooling_with_free_air, target - t_mix_max - u,
+            loads.cooling_kj_per_kg * kwh_per_kj_per_kg);
+  }
+  const auto t_s = smp[Channel::supply_air];
+  if (!t_s) return;
+  if (cooling) {
+    const double off = std::abs(*t_s - ah.supply_air_temp_c) -
+                       (c.options->supply_tolerance_k + kCoverageFactor * acc.supply_k);
+    if (off > 0) found(FindingKind::supply_off_setpoint, off, std::nullopt);
+  } else if (t_m && !mixed_bad && *t_m >= target - kCoverageFactor * acc.mixed_k) {
+    const double off = std::abs(*t_s - *t_m - ah.fan_heat_k) -
+                       (kFanHeatMarginK + kCoverageFactor * std::hypot(acc.supply_k, acc.mixed_k));
+    if (off > 0) found(FindingKind::fan_heat_mismatch, off, std::nullopt);
+  }
 }
 
 }  // namespace
@@ -269,6 +349,7 @@ SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::Str
     v.ret = values(ret);
     // The deadband state follows every sample with readings, fan on or off, as a controller's.
     const bool enabled = highlimit::permits(c.options->strategy, v.outdoor, v.ret, state);
+    const bool clear = decision_clear(c.options->strategy, v.outdoor, v.ret, c.options->accuracy);
 
     const auto fan = smp[Channel::fan];
     if (log.has(Channel::fan) && !fan) return v;
@@ -277,7 +358,7 @@ SampleVerdict judge_sample(const SampleContext& c, std::size_t i, highlimit::Str
       return v;
     }
     v.use = SampleUse::operating;
-    judge_operation(c, smp, log.weight_s(i), out, ret, enabled, v);
+    judge_operation(c, smp, log.weight_s(i), out, ret, enabled, clear, v);
   } catch (const RangeError& e) {
     throw InputError(fmt::format("{}:{}: {}", log.path, smp.line, e.what()));
   } catch (const InputError& e) {
@@ -341,7 +422,7 @@ void FindingsTally::add(std::size_t i, const SampleVerdict& v) {
 
 std::optional<SwitchPoint> FindingsTally::switch_point(const highlimit::Condition& cond, int index,
                                                        std::vector<Point> pts,
-                                                       std::vector<Beyond>& beyond) {
+                                                       std::vector<Beyond>& beyond, double tol) {
   int n_open = 0;
   for (const auto& q : pts) n_open += q.open;
   const int n_closed = static_cast<int>(pts.size()) - n_open;
@@ -358,7 +439,6 @@ std::optional<SwitchPoint> FindingsTally::switch_point(const highlimit::Conditio
   // The estimate is the split that misclassifies fewest samples; the verdict rests on the
   // samples themselves: enough of them open above the limit, or closed below the band.
   double below_open = -1e300, above_closed = 1e300, hi_open = -1e300, lo_closed = 1e300;
-  const double tol = switch_tolerance(cond.quantity);
   int open_beyond = 0, closed_beyond = 0;
   for (std::size_t k = 0; k < pts.size(); ++k) {
     if (pts[k].open)
@@ -375,8 +455,9 @@ std::optional<SwitchPoint> FindingsTally::switch_point(const highlimit::Conditio
                               ? (below_open + above_closed) / 2
                           : below_open > -1e299 ? below_open
                                                 : above_closed;
-  SwitchPoint sp{index,   cond.quantity, cond.reference, cond.limit, cond.deadband, estimate,
-                 hi_open, lo_closed,     n_open,         n_closed,   best_err,      false};
+  SwitchPoint sp{index,    cond.quantity, cond.reference, cond.limit, cond.deadband,
+                 estimate, hi_open,       lo_closed,      n_open,     n_closed,
+                 best_err, tol,           false};
   sp.differs = open_beyond >= kSwitchMinimumSamples || closed_beyond >= kSwitchMinimumSamples;
   if (sp.differs)
     for (const auto& q : pts) {
@@ -407,7 +488,8 @@ Result FindingsTally::finish() {
   std::vector<Beyond> hl_beyond;
   for (std::size_t c = 0; c < s.conditions.size(); ++c)
     if (auto sp =
-            switch_point(s.conditions[c], static_cast<int>(c), std::move(points_[c]), hl_beyond))
+            switch_point(s.conditions[c], static_cast<int>(c), std::move(points_[c]), hl_beyond,
+                         limit_uncertainty(s.conditions[c], c_->options->accuracy)))
       r.switch_points.push_back(*sp);
   // In time order, a sample beyond two conditions once, by the farther.
   std::sort(hl_beyond.begin(), hl_beyond.end(),
@@ -419,10 +501,22 @@ Result FindingsTally::finish() {
     record(FindingKind::high_limit_elsewhere, b.sample, b.beyond, b.energy_kwh);
   }
 
+  const Significance& sig = c_->options->significance;
   for (auto& f : findings_) {
     if (f.intervals == 0) continue;
     f.share_of_operating = r.operating_hours > 0 ? f.hours / r.operating_hours : 0.0;
-    r.findings.push_back(f);
+    const bool significant = f.intervals > sig.min_samples && f.hours > sig.min_hours;
+    (significant ? r.findings : r.below_significance).push_back(f);
+  }
+  if (!r.below_significance.empty()) {
+    std::string seen;
+    for (const auto& f : r.below_significance)
+      seen += fmt::format("{}{} ({} sample(s), {:.2f} h)", seen.empty() ? "" : "; ",
+                          finding_key(f.kind), f.intervals, f.hours);
+    r.notes.push_back(
+        fmt::format("seen in too few samples or hours to report (a finding needs more than {} "
+                    "sample(s) and more than {:.2f} h): {}",
+                    sig.min_samples, sig.min_hours, seen));
   }
   for (std::size_t i = 0; i < log.size(); ++i) r.covered_hours += log.weight_s(i) / 3600.0;
   return r;

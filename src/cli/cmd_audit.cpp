@@ -2,6 +2,7 @@
 #include "common.hpp"
 
 #include <limitline/analysis/audit.hpp>
+#include <limitline/analysis/audit_faults.hpp>
 #include <limitline/io/codes.hpp>
 #include <limitline/report/audit.hpp>
 #include <limitline/report/audit_record.hpp>
@@ -11,6 +12,9 @@
 #include <limitline/text.hpp>
 
 #include <fmt/format.h>
+
+#include <cmath>
+#include <tuple>
 
 namespace limitline::cli {
 namespace {
@@ -27,7 +31,10 @@ constexpr std::string_view kDetails =
     "'SA Temp', 'OA Damper Cmd (%)', 'SF Status', 'Clg Valve (%)'; a 'Timestamp' or 'Date' and\n"
     "'Time' column). Set any of them with --column QUANTITY=HEADER[:UNIT], QUANTITY one of\n"
     "outdoor-dry-bulb, outdoor-rh, outdoor-dew-point, return-dry-bulb, return-rh,\n"
-    "return-dew-point, mixed-air, supply-air, damper, fan, cooling; UNIT F, C, % or fraction.\n\n"
+    "return-dew-point, mixed-air, supply-air, damper, fan, cooling; UNIT F, C, % or fraction.\n"
+    "The unit file's [audit] table can hold the same settings (columns, accuracies, max gap,\n"
+    "the log's UTC offset, the significance minimums, the supply tolerance); an option\n"
+    "overrides its key, so one unit file and one log reproduce a record.\n\n"
     "Examples:\n"
     "  limitline audit examples/audit-office.toml examples/trend-office.csv\n"
     "  limitline audit examples/audit-office.toml examples/trend-office.csv --edition "
@@ -115,6 +122,15 @@ int run_audit(const std::vector<std::string>& args) {
       "return-air temperature sensor accuracy (default 0.9F / 0.5K)")(
       "mixed-accuracy", po::value<std::string>(),
       "mixed-air temperature sensor accuracy (default 0.9F / 0.5K)")(
+      "supply-accuracy", po::value<std::string>(),
+      "supply-air temperature sensor accuracy (default 0.9F / 0.5K)")(
+      "supply-tolerance", po::value<std::string>(),
+      "supply air may stray this far from its setpoint, beyond its sensor (default 1.8F / 1K)")(
+      "min-samples", po::value<std::string>(),
+      "a finding needs more samples than this (default 2)")(
+      "min-hours", po::value<std::string>(), "a finding needs more hours than this (default 0.5)")(
+      "utc-offset", po::value<std::string>(),
+      "the log's clock, e.g. -05:00 (recorded in the report)")(
       "output,o", po::value<std::string>()->default_value("-"),
       "file to write, whole or not at all (default -: standard output)");
   add_common_options(options, "text, md, json, html (the record to sign)");
@@ -132,11 +148,18 @@ int run_audit(const std::vector<std::string>& args) {
   codes::check_site_code(unit.site.energy_code, unit.site.energy_code_origin,
                          unit.site.climate_zone, unit.site.climate_zone_origin);
   const units::System system = common.units.resolve(unit);
+  const AuditSettings set = unit.audit.value_or(AuditSettings{});
   trend::ReadOptions read;
   read.bare = system;
+  read.columns = set.columns;
   if (vm.count("column"))
-    for (const auto& c : vm["column"].as<std::vector<std::string>>())
-      read.columns.push_back(trend::parse_column_override(c, "--column"));
+    for (const auto& c : vm["column"].as<std::vector<std::string>>()) {
+      const auto o = trend::parse_column_override(c, "--column");
+      std::erase_if(read.columns,
+                    [&](const trend::ColumnOverride& u) { return u.channel == o.channel; });
+      read.columns.push_back(o);
+    }
+  read.max_gap_s = set.max_gap_s;
   if (vm.count("max-gap")) {
     const double minutes = units::parse_number(vm["max-gap"].as<std::string>(), "--max-gap");
     if (!(minutes > 0) || !(minutes * 60.0 <= trend::kMaxGapLimitS))
@@ -148,24 +171,79 @@ int run_audit(const std::vector<std::string>& args) {
   audit::Options opt;
   std::string source;
   opt.strategy = pick_strategy(unit, vm, source);
-  for (auto [name, slot] : {std::pair{"outdoor-accuracy", &opt.accuracy.outdoor_k},
-                            std::pair{"return-accuracy", &opt.accuracy.return_k},
-                            std::pair{"mixed-accuracy", &opt.accuracy.mixed_k}}) {
+  opt.accuracy.outdoor_k = set.outdoor_accuracy_k.value_or(opt.accuracy.outdoor_k);
+  opt.accuracy.return_k = set.return_accuracy_k.value_or(opt.accuracy.return_k);
+  opt.accuracy.mixed_k = set.mixed_accuracy_k.value_or(opt.accuracy.mixed_k);
+  opt.accuracy.supply_k = set.supply_accuracy_k.value_or(opt.accuracy.supply_k);
+  opt.supply_tolerance_k = set.supply_tolerance_k.value_or(opt.supply_tolerance_k);
+  opt.significance.min_samples = set.min_samples.value_or(opt.significance.min_samples);
+  opt.significance.min_hours = set.min_hours.value_or(opt.significance.min_hours);
+  for (auto [name, slot, lo_open, hi] :
+       {std::tuple{"outdoor-accuracy", &opt.accuracy.outdoor_k, true, 5.0},
+        std::tuple{"return-accuracy", &opt.accuracy.return_k, true, 5.0},
+        std::tuple{"mixed-accuracy", &opt.accuracy.mixed_k, true, 5.0},
+        std::tuple{"supply-accuracy", &opt.accuracy.supply_k, true, 5.0},
+        std::tuple{"supply-tolerance", &opt.supply_tolerance_k, false, 10.0}}) {
     if (!vm.count(name)) continue;
     const double a = quantity(vm, name, units::Kind::temperature_difference, system);
-    if (!(a > 0) || a > 5.0)
+    if (!(lo_open ? a > 0 : a >= 0) || a > hi)
       throw InputError(
-          fmt::format("--{}: {} is outside the allowed range (more than 0 to {})", name,
-                      echo(vm[name].as<std::string>()),
-                      units::format(units::Kind::temperature_difference, system, 5.0, 1)));
+          fmt::format("--{}: {} is outside the allowed range ({} 0 to {})", name,
+                      echo(vm[name].as<std::string>()), lo_open ? "more than" : "from",
+                      units::format(units::Kind::temperature_difference, system, hi, 1)));
     *slot = a;
   }
+  if (vm.count("min-samples")) {
+    const std::string t = vm["min-samples"].as<std::string>();
+    const double n = units::parse_number(t, "--min-samples");
+    if (!(n >= 0 && n <= 100000 && n == std::floor(n)))
+      throw InputError(fmt::format(
+          "--min-samples: {} is not a whole number of samples from 0 to 100000", echo(t)));
+    opt.significance.min_samples = static_cast<int>(n);
+  }
+  if (vm.count("min-hours")) {
+    const std::string t = vm["min-hours"].as<std::string>();
+    const double h = units::parse_number(t, "--min-hours");
+    if (!(h >= 0 && h <= 8784))
+      throw InputError(fmt::format(
+          "--min-hours: {} is outside the allowed range (hours from 0 to 8784)", echo(t)));
+    opt.significance.min_hours = h;
+  }
+  std::optional<int> offset = set.utc_offset_min;
+  if (vm.count("utc-offset"))
+    offset = trend::parse_utc_offset(vm["utc-offset"].as<std::string>(), "--utc-offset");
   const trend::TrendLog log = trend::load_trend(vm["trend"].as<std::string>(), read);
   const audit::Result r = audit::run(unit, log, opt);
 
-  report::AuditContext ctx{unit.path, report::describe_strategy(opt.strategy, system),
-                           source,    opt.accuracy,
-                           system,    common.text_width()};
+  report::AuditContext ctx;
+  ctx.unit_path = unit.path;
+  ctx.strategy_text = report::describe_strategy(opt.strategy, system);
+  ctx.strategy_source = source;
+  ctx.accuracy = opt.accuracy;
+  ctx.units = system;
+  ctx.significance = opt.significance;
+  ctx.supply_tolerance_k = opt.supply_tolerance_k;
+  ctx.log_clock = offset ? trend::format_utc_offset(*offset) : std::string();
+  ctx.text_width = common.text_width();
+  // The fault-detection clause of the code the audit is held against: --edition, else the
+  // unit's [site].
+  const std::string edition =
+      vm.count("edition") ? vm["edition"].as<std::string>() : unit.site.energy_code;
+  if (edition.empty()) {
+    ctx.fault_code_note =
+        "the unit file names no energy code: no fault-detection clause to compare the log with";
+  } else {
+    const auto tables = codes::CodeTables::load_installed();
+    const auto& ed =
+        tables.edition(edition, vm.count("edition") ? "--edition" : "site.energy_code");
+    if (!ed.fault_detection) {
+      ctx.fault_code_note = fmt::format(
+          "{} has no economizer fault-detection clause in limitline's tables (from memory)", ed.id);
+    } else {
+      ctx.fault_code = fmt::format("{}, {}", ed.title, ed.fault_detection->clause);
+      ctx.fault_evidence = audit::fault_evidence(*ed.fault_detection, log, r);
+    }
+  }
   const std::string output = vm["output"].as<std::string>();
   switch (common.format) {
     case Format::json: write_file(output, report::audit_json(r, log, ctx), "--output"); break;

@@ -294,6 +294,40 @@ std::optional<std::int64_t> read_timestamp(std::string_view text) {
 
 }  // namespace
 
+int parse_utc_offset(std::string_view text, std::string_view origin) {
+  std::string_view t = text::trim(text);
+  if (t.size() >= 3 && text::to_lower(t.substr(0, 3)) == "utc") t.remove_prefix(3);
+  if (t.empty() || t == "Z" || t == "z") return 0;
+  int hh = -1, mm = 0;
+  const bool sign = t[0] == '+' || t[0] == '-';
+  std::string_view d = sign ? t.substr(1) : std::string_view();
+  auto digits = [](std::string_view x) {
+    return !x.empty() &&
+           std::all_of(x.begin(), x.end(), [](char ch) { return ch >= '0' && ch <= '9'; });
+  };
+  std::string compact;
+  for (char ch : d)
+    if (ch != ':') compact += ch;
+  const bool colon_ok = d.find(':') == std::string_view::npos || (d.size() == 5 && d[2] == ':');
+  if (sign && colon_ok && digits(compact) && (compact.size() == 2 || compact.size() == 4)) {
+    hh = (compact[0] - '0') * 10 + (compact[1] - '0');
+    if (compact.size() == 4) mm = (compact[2] - '0') * 10 + (compact[3] - '0');
+  }
+  const int minutes = (t[0] == '-' ? -1 : 1) * (hh * 60 + mm);
+  if (hh < 0 || mm >= 60 || minutes < -12 * 60 || minutes > 14 * 60)
+    throw InputError(fmt::format(
+        "{}: {} is not an offset from UTC (allowed: UTC, Z, ±HH:MM, ±HHMM or ±HH from −12:00 "
+        "to +14:00, e.g. -05:00)",
+        origin, echo(text)));
+  return minutes;
+}
+
+std::string format_utc_offset(int minutes) {
+  if (minutes == 0) return "UTC";
+  const int a = std::abs(minutes);
+  return fmt::format("UTC{}{:02}:{:02}", minutes < 0 ? "−" : "+", a / 60, a % 60);
+}
+
 std::int64_t parse_timestamp(std::string_view text, std::string_view origin) {
   if (const auto t = read_timestamp(text)) return *t;
   throw InputError(fmt::format(

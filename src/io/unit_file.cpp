@@ -21,6 +21,7 @@
 #include <iterator>
 #include <span>
 #include <sstream>
+#include <tuple>
 
 namespace limitline {
 namespace {
@@ -33,9 +34,15 @@ using units::Kind;
 // The largest design_cooling_capacity accepted at all: 50 MW, far beyond one air handler.
 constexpr double kMaxCoolingCapacityKw = 50000.0;
 
-constexpr std::string_view kTopKeys[] = {"units",    "site",   "air_handler", "loads",
-                                         "plant",    "energy", "strategy",    "weather",
-                                         "schedule", "sensors"};
+constexpr std::string_view kTopKeys[] = {"units",    "site",    "air_handler", "loads",
+                                         "plant",    "energy",  "strategy",    "weather",
+                                         "schedule", "sensors", "audit"};
+constexpr std::string_view kAuditKeys[] = {
+    "columns",         "outdoor_accuracy", "return_accuracy", "mixed_accuracy", "supply_accuracy",
+    "max_gap_minutes", "utc_offset",       "min_samples",     "min_hours",      "supply_tolerance"};
+// The most an accuracy or tolerance may be: beyond 5 K a sensor tells nothing of an economizer.
+constexpr double kAuditMaxAccuracyK = 5.0;
+constexpr double kAuditMaxToleranceK = 10.0;
 constexpr std::string_view kSiteKeys[] = {"name",        "elevation",    "pressure",
                                           "energy_code", "climate_zone", "units"};
 constexpr std::string_view kAirHandlerKeys[] = {"supply_airflow",
@@ -1071,6 +1078,69 @@ std::vector<highlimit::Strategy> read_strategies(const Reader& r, const toml::ta
   return out;
 }
 
+// [audit]: every key checked here, as the other tables are; the audit command applies them.
+std::optional<AuditSettings> read_audit(const Reader& r, const toml::table* t) {
+  if (t == nullptr) return std::nullopt;
+  constexpr std::string_view P = "audit";
+  r.check_keys(*t, P, kAuditKeys, "[audit]");
+  AuditSettings a;
+  if (const toml::table* cols = r.table(*t, "columns", P))
+    for (auto&& [k, v] : *cols) {
+      const std::string path = fmt::format("audit.columns.{}", k.str());
+      const auto* header = v.as_string();
+      if (header == nullptr)
+        r.fail(v.source(), path,
+               fmt::format("must be a string \"HEADER[:UNIT]\" in quotes, not {}",
+                           Reader::type_name(v)));
+      a.columns.push_back(trend::parse_column_override(
+          fmt::format("{}={}", text::normalise_name(k.str()), header->get()),
+          r.origin(v.source(), path)));
+    }
+  for (auto [key, slot, hi] :
+       {std::tuple{"outdoor_accuracy", &a.outdoor_accuracy_k, kAuditMaxAccuracyK},
+        std::tuple{"return_accuracy", &a.return_accuracy_k, kAuditMaxAccuracyK},
+        std::tuple{"mixed_accuracy", &a.mixed_accuracy_k, kAuditMaxAccuracyK},
+        std::tuple{"supply_accuracy", &a.supply_accuracy_k, kAuditMaxAccuracyK},
+        std::tuple{"supply_tolerance", &a.supply_tolerance_k, kAuditMaxToleranceK}}) {
+    *slot = r.quantity(*t, key, P, Kind::temperature_difference);
+    if (!*slot) continue;
+    // An accuracy of zero would make every reading exact; a tolerance of zero is a choice.
+    const bool accuracy = std::string_view(key) != "supply_tolerance";
+    if ((accuracy && !(**slot > 0)) || **slot < 0 || **slot > hi + 1e-9)
+      r.fail(t->get(key)->source(), Reader::join_path(P, key),
+             fmt::format("{} is outside the allowed range ({} {} to {})",
+                         r.show(Kind::temperature_difference, **slot),
+                         accuracy ? "more than" : "from", r.show(Kind::temperature_difference, 0.0),
+                         r.show(Kind::temperature_difference, hi)));
+  }
+  auto plain = [&](std::string_view key, double lo, double hi, bool lo_open,
+                   std::string_view allowed) -> std::optional<double> {
+    const auto v = r.number(*t, key, P);
+    if (!v) return v;
+    const std::string path = Reader::join_path(P, key);
+    const toml::node* n = t->get(key);
+    if (!(lo_open ? *v > lo : *v >= lo) || !(*v <= hi))
+      r.fail(n->source(), path, fmt::format("{:g} is outside the allowed range ({})", *v, allowed));
+    if (const plausible::NumberBand* b = plausible::find_number(path))
+      plausible::weigh(*b, *v, r.origin(n->source(), path), r.warnings);
+    return v;
+  };
+  if (const auto m = plain("max_gap_minutes", 0.0, trend::kMaxGapLimitS / 60.0, true,
+                           "minutes above 0, at most 527040, a year"))
+    a.max_gap_s = *m * 60.0;
+  if (const auto n = plain("min_samples", 0.0, 100000.0, false, "a whole number 0 to 100000")) {
+    if (*n != std::floor(*n))
+      r.fail(t->get("min_samples")->source(), "audit.min_samples",
+             fmt::format("{:g} is not a whole number of samples", *n));
+    a.min_samples = static_cast<int>(*n);
+  }
+  a.min_hours = plain("min_hours", 0.0, 8784.0, false, "hours from 0 to 8784, a leap year");
+  if (const auto z = r.text(*t, "utc_offset", P))
+    a.utc_offset_min =
+        trend::parse_utc_offset(*z, r.origin(t->get("utc_offset")->source(), "audit.utc_offset"));
+  return a;
+}
+
 }  // namespace
 
 double Site::design_pressure_kpa() const {
@@ -1114,6 +1184,7 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
   u.plant = read_plant(r, r.table(root, "plant", ""), energy);
   u.strategies = read_strategies(r, root);
   u.strategies_defaulted = u.strategies.empty();
+  u.audit = read_audit(r, r.table(root, "audit", ""));
   u.warnings = std::move(r.warnings);
   for (auto [key, slot] : {std::pair{"weather", &u.weather}, std::pair{"schedule", &u.schedule},
                            std::pair{"sensors", &u.sensors}})

@@ -87,12 +87,28 @@ constexpr Band kBands[] = {
      "a dew-point sensor accuracy"},
     {"sensors.outdoor_enthalpy", Kind::enthalpy_difference, 0.0, 10.0,
      "an enthalpy sensor accuracy"},
+    // The audit's sensors: duct and outdoor temperature sensors of ±0.1 to ±1 K, a few times
+    // that installed; a discharge loop holds its setpoint within a few kelvin.
+    {"audit.outdoor_accuracy", Kind::temperature_difference, 0.05, 2.0,
+     "a temperature sensor accuracy"},
+    {"audit.return_accuracy", Kind::temperature_difference, 0.05, 2.0,
+     "a temperature sensor accuracy"},
+    {"audit.mixed_accuracy", Kind::temperature_difference, 0.05, 2.0,
+     "a temperature sensor accuracy"},
+    {"audit.supply_accuracy", Kind::temperature_difference, 0.05, 2.0,
+     "a temperature sensor accuracy"},
+    {"audit.supply_tolerance", Kind::temperature_difference, 0.0, 3.0, "a supply-air tolerance"},
 };
 
 // Plain numbers of the plant (common practice): chillers and packaged units run at a COP of
 // about 2 to 7 with their auxiliaries, boilers and furnaces at 80–98 %; energy prices lie
 // between a cent and a unit of currency per kWh.
 constexpr NumberBand kNumberBands[] = {
+    // Trend logs sample every 1 to 60 minutes; a gap of hours stands for nothing measured.
+    {"audit.max_gap_minutes", 1.0, 240.0, "a trend log's longest sample weight", ""},
+    // A finding resting on more than a day or a hundred samples hides real faults.
+    {"audit.min_hours", 0.0, 24.0, "a finding's minimum hours", ""},
+    {"audit.min_samples", 0.0, 100.0, "a finding's minimum samples", ""},
     {"plant.cooling_cop", 1.5, 10.0, "a cooling COP", ""},
     // The same band as kW per ton: 3.516852842/10 to 3.516852842/1.5.
     {"plant.cooling_kw_per_ton", 0.35, 2.35, "a cooling plant's kW per ton", ""},

@@ -19,6 +19,9 @@ using audit::FindingKind;
 std::string worst_text(const audit::Finding& f, const audit::Result& r, units::System s) {
   switch (f.kind) {
     case FindingKind::mixed_air_out_of_range:
+    case FindingKind::cooling_with_free_air:
+    case FindingKind::supply_off_setpoint:
+    case FindingKind::fan_heat_mismatch:
       return units::format(units::Kind::temperature_difference, s, f.worst_excess, 1);
     case FindingKind::high_limit_elsewhere:
       for (const auto& sp : r.switch_points)
@@ -47,11 +50,22 @@ std::string value_text(const audit::SwitchPoint& sp, double v, units::System s) 
                                                           : format_value(sp.quantity, v, s);
 }
 
-std::vector<std::string> coverage_lines(const audit::Result& r, const trend::TrendLog& log) {
+std::string clock_text(const AuditContext& ctx) {
+  return ctx.log_clock.empty()
+             ? std::string("not stated; stamps are used as logged")
+             : fmt::format(
+                   "{} as stated; stamps are used as logged (the audit aligns with no "
+                   "weather), a stamp written with its own offset is read as UTC",
+                   ctx.log_clock);
+}
+
+std::vector<std::string> coverage_lines(const audit::Result& r, const trend::TrendLog& log,
+                                        const AuditContext& ctx) {
   const auto& c = log.coverage;
   std::vector<std::string> out;
   out.push_back(fmt::format("log: {} ({} samples, {} to {})", log.path, c.rows,
                             trend::format_timestamp(c.first_s), trend::format_timestamp(c.last_s)));
+  out.push_back("log clock: " + clock_text(ctx));
   out.push_back(fmt::format("median interval {:.1f} min; a sample counts for at most {:.1f} min",
                             c.median_interval_s / 60.0, c.max_gap_s / 60.0));
   out.push_back(
@@ -85,7 +99,7 @@ Table mapping_table(const trend::TrendLog& log) {
            {"how", Align::left}});
   for (const auto& u : log.columns)
     t.add_row({std::string(trend::channel_name(u.channel)), u.header, u.unit,
-               u.overridden ? "--column" : (u.note.empty() ? "from the header" : u.note)});
+               u.overridden ? "set by the user" : (u.note.empty() ? "from the header" : u.note)});
   return t;
 }
 
@@ -111,25 +125,40 @@ Table switch_table(const audit::Result& r, units::System s) {
            {"open up to", Align::right},
            {"closed from", Align::right},
            {"estimate", Align::right},
+           {"uncertainty", Align::right},
            {"samples open/closed", Align::right},
            {"verdict", Align::left}});
   for (const auto& sp : r.switch_points)
     t.add_row({condition_label(sp), value_text(sp, sp.configured, s),
                format_difference(sp.quantity, sp.deadband, s), value_text(sp, sp.highest_open, s),
                value_text(sp, sp.lowest_closed, s), value_text(sp, sp.estimate, s),
+               "±" + format_difference(sp.quantity, sp.tolerance, s),
                fmt::format("{}/{}", sp.open_samples, sp.closed_samples),
-               sp.differs ? "differs from the configured limit" : "consistent"});
+               sp.differs ? "differs from the configured limit"
+                          : "consistent with the configured limit"});
   return t;
 }
 
 std::vector<std::string> rule_lines(const AuditContext& c) {
   std::vector<std::string> out;
   const auto& a = c.accuracy;
+  const auto dt = [&](double k) {
+    return units::format(units::Kind::temperature_difference, c.units, k, 2);
+  };
+  out.push_back(fmt::format(
+      "sensor accuracy (one standard uncertainty): outdoor {}, return {}, mixed {}, supply {}",
+      dt(a.outdoor_k), dt(a.return_k), dt(a.mixed_k), dt(a.supply_k)));
+  out.push_back(fmt::format(
+      "significance: a finding needs more than {} sample(s) and more than {:.2f} h; the damper "
+      "is judged against the high-limit only where every condition's value is farther than "
+      "{:.0f} × the root-sum-square of its sensors' accuracies from both edges of its band, so "
+      "a sample at the limit is no finding; a switching point differs only beyond the same "
+      "uncertainty and the deadband",
+      c.significance.min_samples, c.significance.min_hours, audit::kCoverageFactor));
   out.push_back(
-      fmt::format("sensor accuracy (one standard uncertainty): outdoor {}, return {}, mixed {}",
-                  units::format(units::Kind::temperature_difference, c.units, a.outdoor_k, 2),
-                  units::format(units::Kind::temperature_difference, c.units, a.return_k, 2),
-                  units::format(units::Kind::temperature_difference, c.units, a.mixed_k, 2)));
+      fmt::format("supply-air tolerance {} (plus 3σ_supply) around the unit's supply setpoint "
+                  "(air_handler.supply_air_temp; a reset schedule is not followed)",
+                  dt(c.supply_tolerance_k)));
   out.push_back(fmt::format(
       "measured fraction x = (t_mix − t_ret)/(t_out − t_ret), used where |t_out − t_ret| ≥ {:.0f} "
       "× "
@@ -152,13 +181,45 @@ std::vector<std::string> rule_lines(const AuditContext& c) {
   return out;
 }
 
+// What the code's fault-detection clause requires and which of it this log can show.
+std::vector<std::string> fault_lines(const AuditContext& c) {
+  std::vector<std::string> out;
+  if (c.fault_code.empty()) {
+    out.push_back(c.fault_code_note);
+    return out;
+  }
+  out.push_back(
+      fmt::format("required by {} (recalled from memory; the adopted edition governs); "
+                  "the code's terms in quotes:",
+                  c.fault_code));
+  for (const auto& e : c.fault_evidence) {
+    std::string line = fmt::format("\"{}\" [{}]: ", e.code_term, codes::fault_name(e.fault));
+    const auto titles = [](const std::vector<audit::FindingKind>& ks) {
+      std::string t;
+      for (auto k : ks) t += (t.empty() ? "" : "; ") + std::string(audit::finding_title(k));
+      return t;
+    };
+    if (e.can_show()) {
+      line += "this log can show it (" + titles(e.judged) + ")";
+      line += e.found.empty() ? "; not found in this log" : "; found: " + titles(e.found);
+    } else {
+      std::string needs;
+      for (auto k : e.not_judged) needs += (needs.empty() ? "" : "; or ") + audit::needs_text(k);
+      line += "this log cannot show it; it needs " + needs +
+              " (check it by a functional test or the controller's own fault report)";
+    }
+    out.push_back(line);
+  }
+  return out;
+}
+
 }  // namespace
 
 std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const AuditContext& c) {
   std::string out = fmt::format("limitline audit — {} against {}\n\n", log.path, c.unit_path);
   out +=
       fmt::format("strategy: {} ({}), {}\n", r.strategy_name, c.strategy_source, c.strategy_text);
-  for (const auto& l : coverage_lines(r, log)) out += l + "\n";
+  for (const auto& l : coverage_lines(r, log, c)) out += l + "\n";
   if (const auto g = gap_lines(log); !g.empty()) {
     out += "gaps:\n";
     for (const auto& l : g) out += "  " + l + "\n";
@@ -170,6 +231,8 @@ std::string audit_text(const audit::Result& r, const trend::TrendLog& log, const
     out += "\nFindings:\n" + findings_table(r, c.units).text(c.text_width);
   if (!r.switch_points.empty())
     out += "\nSwitching points seen in the log:\n" + switch_table(r, c.units).text(c.text_width);
+  out += "\nFault detection the code requires:\n";
+  for (const auto& l : fault_lines(c)) out += "  - " + l + "\n";
   out += "\nRules:\n";
   for (const auto& l : rule_lines(c)) out += "  - " + l + "\n";
   if (!r.notes.empty()) {
@@ -188,7 +251,7 @@ std::string audit_markdown(const audit::Result& r, const trend::TrendLog& log,
   out += fmt::format("Unit file {}; strategy **{}** ({}): {}.\n\n", md(c.unit_path),
                      md(r.strategy_name), md(c.strategy_source), md(c.strategy_text));
   out += "## Coverage\n\n";
-  for (const auto& l : coverage_lines(r, log)) out += "- " + md(l) + "\n";
+  for (const auto& l : coverage_lines(r, log, c)) out += "- " + md(l) + "\n";
   for (const auto& l : gap_lines(log)) out += "- gap: " + md(l) + "\n";
   out += "\n## Columns used\n\n" + mapping_table(log).markdown();
   out += "\n## Findings\n\n";
@@ -196,6 +259,8 @@ std::string audit_markdown(const audit::Result& r, const trend::TrendLog& log,
                             : findings_table(r, c.units).markdown();
   if (!r.switch_points.empty())
     out += "\n## Switching points seen in the log\n\n" + switch_table(r, c.units).markdown();
+  out += "\n## Fault detection the code requires\n\n";
+  for (const auto& l : fault_lines(c)) out += "- " + md(l) + "\n";
   out += "\n## Rules\n\n";
   for (const auto& l : rule_lines(c)) out += "- " + md(l) + "\n";
   if (!r.notes.empty()) {
@@ -212,7 +277,7 @@ std::string audit_json(const audit::Result& r, const trend::TrendLog& log, const
   Json j;
   j.begin_object();
   j.field("unit_file", c.unit_path).field("trend_log", log.path);
-  j.field("units", units::system_name(s));
+  j.field("units", units::system_name(s)).field("log_clock", c.log_clock);
   j.key("strategy")
       .begin_object()
       .field("name", r.strategy_name)
@@ -288,14 +353,40 @@ std::string audit_json(const audit::Result& r, const trend::TrendLog& log, const
          {std::pair{"configured", sp.configured}, std::pair{"estimate", sp.estimate},
           std::pair{"open_up_to", sp.highest_open}, std::pair{"closed_from", sp.lowest_closed}})
       j.field(std::string(name) + "_" + suffix, units::to_display(kind, s, v), 6);
-    j.field("deadband_" + std::string(units::key_suffix(difference_kind(sp.quantity), s)),
-            units::to_display(difference_kind(sp.quantity), s, sp.deadband), 6)
+    const std::string dsuffix(units::key_suffix(difference_kind(sp.quantity), s));
+    j.field("deadband_" + dsuffix, units::to_display(difference_kind(sp.quantity), s, sp.deadband),
+            6)
+        .field("uncertainty_" + dsuffix,
+               units::to_display(difference_kind(sp.quantity), s, sp.tolerance), 6)
         .field("open_samples", sp.open_samples)
         .field("closed_samples", sp.closed_samples)
         .field("differs", sp.differs)
+        .field("verdict", sp.differs ? "differs from the configured limit"
+                                     : "consistent with the configured limit")
         .end_object();
   }
   j.end_array();
+  j.key("fault_detection");
+  if (c.fault_code.empty()) {
+    j.null();
+  } else {
+    j.begin_object().field("required_by", c.fault_code).key("faults").begin_array();
+    for (const auto& e : c.fault_evidence) {
+      j.begin_object()
+          .field("fault", codes::fault_name(e.fault))
+          .field("code_term", e.code_term)
+          .field("log_can_show", e.can_show());
+      for (const auto& [key, kinds] :
+           {std::pair{"judged_by", &e.judged}, std::pair{"cannot_judge", &e.not_judged},
+            std::pair{"found", &e.found}}) {
+        j.key(key).begin_array();
+        for (auto k : *kinds) j.value(audit::finding_key(k));
+        j.end_array();
+      }
+      j.end_object();
+    }
+    j.end_array().end_object();
+  }
   j.key("rules").begin_array();
   for (const auto& l : rule_lines(c)) j.value(l);
   j.end_array();

@@ -22,7 +22,8 @@ using svg::text;
 
 // One colour per finding kind, in FindingKind order; our own, apart from the line inks.
 constexpr std::array<std::string_view, audit::kFindingKindCount> kKindColours = {
-    "#c8623c", "#3d7fae", "#8e5bb5", "#d1a21a", "#b8325a", "#5b8c3a", "#6b6b6b"};
+    "#c8623c", "#3d7fae", "#8e5bb5", "#d1a21a", "#b8325a", "#5b8c3a",
+    "#6b6b6b", "#2f8f8f", "#a0522d", "#4b5fa8", "#9a8a3a"};
 
 constexpr double kWidth = 960;
 constexpr double kLeft = 64, kRight = 24;

@@ -54,7 +54,7 @@ void BM_ReadTrendYear(benchmark::State& state) {
 void BM_AuditTrendYear(benchmark::State& state) {
   const auto& s = setup();
   const auto log = trend::parse_trend(s.csv, "bench.csv", {});
-  const audit::Options opt{s.unit.strategies.front(), {}};
+  const audit::Options opt{s.unit.strategies.front(), {}, {}, audit::kSupplyToleranceK};
   for (auto _ : state) {
     auto r = audit::run(s.unit, log, opt);
     benchmark::DoNotOptimize(r.findings.data());

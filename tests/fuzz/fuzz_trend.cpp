@@ -90,7 +90,8 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
   check_log(log);
   for (const auto& strategy : unit().strategies) {
     try {
-      check_result(audit::run(unit(), log, audit::Options{strategy, {}}));
+      check_result(
+          audit::run(unit(), log, audit::Options{strategy, {}, {}, audit::kSupplyToleranceK}));
     } catch (const limitline::InputError&) {
     }
   }

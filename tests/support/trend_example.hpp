@@ -28,6 +28,9 @@ enum class FaultKind {
   damper_stuck_at,        // amount: the fraction the damper gives whatever its command
   economizer_locked_out,  // the controller never enables
   minimum_set_to,         // amount: the fraction the damper gives at its minimum command
+  cooling_stuck_on,       // the cooling status reads On whenever the fan runs
+  supply_off_setpoint,    // amount: K the supply air stands above its setpoint while cooling
+  fan_heat_is,            // amount: K the supply air reads above the mixed air, coil idle
 };
 
 struct Fault {
@@ -46,6 +49,8 @@ struct GeneratedRow {
   double x_enabled;                        // fraction the model gives with the economizer enabled
   double t_out_log, t_ret_log, t_mix_log;  // °C, as the log reads back
   bool in_fault;
+  bool cooling = false;    // the cooling status as logged
+  double t_sup_log = 0.0;  // °C, as the log reads back (fan on)
 };
 
 struct Generated {
@@ -65,8 +70,10 @@ struct Lcg {
 
 inline double round_to(double v, double step) { return std::round(v / step) * step; }
 
+// `cooler_k` lowers every outdoor temperature (and dew point) by that much: a cooler season
+// in which outdoor air alone often carries the load and the coil idles.
 inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& faults, int days,
-                                std::uint64_t seed = 20260504) {
+                                std::uint64_t seed = 20260504, double cooler_k = 0.0) {
   const auto& ah = unit.air_handler;
   const double p = unit.site.design_pressure_kpa();
   const auto coil = airside::coil_limits(ah, p);
@@ -101,8 +108,8 @@ inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& 
     const bool fan = weekday && hour >= 6.0 && hour < 19.0;
 
     const double t_out_true =
-        day_mean + 6.5 * std::sin(2.0 * 3.14159265358979 * (hour - 9.0) / 24.0);
-    const double dew_true = std::min(day_dew, t_out_true - 0.5);
+        day_mean - cooler_k + 6.5 * std::sin(2.0 * 3.14159265358979 * (hour - 9.0) / 24.0);
+    const double dew_true = std::min(day_dew - cooler_k, t_out_true - 0.5);
     const double t_ret_true = 23.3 + 0.4 * std::sin(2.0 * 3.14159265358979 * (hour - 11.0) / 24.0);
     double offset = 0.0;
     bool in_fault = false;
@@ -164,9 +171,20 @@ inline Generated generate_trend(const UnitFile& unit, const std::vector<Fault>& 
       row.t_mix_log = units::celsius_from_fahrenheit(mat_f);
       mat = fmt::format("{:.1f}", mat_f);
       const auto loads = airside::coil_loads(ah, coil, mixed);
-      sat = fmt::format("{:.1f}", units::fahrenheit_from_celsius(ah.supply_air_temp_c));
+      // A controller stages cooling on for a load of some size, not for the rounding of its
+      // own readings: 0.5 kJ/kg is about 0.5 K of sensible cooling (an invented threshold).
+      row.cooling =
+          loads.cooling_kj_per_kg > 0.5 || (active && active->kind == FaultKind::cooling_stuck_on);
+      double sat_f = round_to(units::fahrenheit_from_celsius(ah.supply_air_temp_c), 0.1);
+      if (active && active->kind == FaultKind::supply_off_setpoint && row.cooling)
+        sat_f =
+            round_to(units::fahrenheit_from_celsius(ah.supply_air_temp_c + active->amount), 0.1);
+      if (active && active->kind == FaultKind::fan_heat_is && !row.cooling)
+        sat_f = round_to(mat_f + active->amount * 1.8, 0.1);
+      row.t_sup_log = units::celsius_from_fahrenheit(sat_f);
+      sat = fmt::format("{:.1f}", sat_f);
       damper = fmt::format("{:.1f}", round_to(row.x_command * 100.0, 0.1));
-      clg = loads.cooling_kj_per_kg > 0 ? "On" : "Off";
+      clg = row.cooling ? "On" : "Off";
       // The log carries the command rounded; the row keeps what the audit will read back.
       row.x_command = round_to(row.x_command * 100.0, 0.1) / 100.0;
     }

@@ -12,6 +12,11 @@
 //    first-order: σ_x² = (σ_m² + x²·σ_o² + (1 − x)²·σ_r²)/(t_o − t_r)².
 //  - A reading beyond a limit counts only when it is beyond it by three standard
 //    uncertainties plus the margin the rule names.
+//  - The damper is judged against the high-limit's decision only where that decision is
+//    clear: every condition's value farther than its uncertainty (limit_uncertainty) from
+//    both edges of its band, so a sample at the limit is no finding.
+//  - A finding is reported only with more than Significance::min_samples samples and more
+//    than Significance::min_hours hours; smaller ones are named in the notes.
 #include <limitline/model/airside.hpp>
 #include <limitline/model/highlimit.hpp>
 #include <limitline/io/trend.hpp>
@@ -31,12 +36,19 @@ inline constexpr double kCoverageFactor = 3.0;         // standard uncertainties
 inline constexpr double kDamperTrackingMargin = 0.15;  // measured vs commanded fraction
 inline constexpr double kVentilationMargin = 0.05;     // fraction above/below the minimum
 inline constexpr double kShouldOpenMargin = 0.10;      // model opens the damper by at least
-// The switching point found in the log differs from the configured limit when it lies beyond
-// the configured band [limit − deadband, limit] by more than this (common practice: about
-// 2 °F, 1 Btu/lb).
-inline constexpr double kSwitchToleranceK = 1.0;
-inline constexpr double kSwitchToleranceKjPerKg = 2.3;
+// The humidity sensor's share of an enthalpy reading's uncertainty, which the stated
+// temperature accuracies leave out: about 5 % RH at 24 °C, 0.47 kJ/kg per % RH from the
+// saturation humidity ratio there (ASHRAE Fundamentals ch. 1 eq. 23, table 2), so 2.3 kJ/kg
+// (about 1 Btu/lb). The same for a humidity-ratio limit: 0.0005 kg/kg (common practice).
+inline constexpr double kEnthalpyHumidityPartKjPerKg = 2.3;
+inline constexpr double kHumidityRatioUncertainty = 0.0005;
 inline constexpr int kSwitchMinimumSamples = 4;  // each side of the switching point
+// Supply air off its setpoint by more than this, beyond its sensor's uncertainty (common
+// practice: a discharge loop holds about ±2 °F). Default of Options::supply_tolerance_k.
+inline constexpr double kSupplyToleranceK = 1.0;
+// Supply − mixed air with the coil idle may differ from the unit's fan heat by this, beyond
+// the two sensors' combined uncertainty (duct gains and stratification, common practice).
+inline constexpr double kFanHeatMarginK = 0.5;
 
 // Stated accuracies of the temperature sensors, read as one standard uncertainty, K.
 // Defaults: ±0.5 K, a common-practice figure for air-temperature sensors in a duct.
@@ -44,7 +56,22 @@ struct Accuracy {
   double outdoor_k = 0.5;
   double return_k = 0.5;
   double mixed_k = 0.5;
+  double supply_k = 0.5;
 };
+
+// What a finding needs to be reported: more samples and more hours than these (defaults:
+// 2 samples, 0.5 h, so a lone sample or two of noise is never a finding).
+struct Significance {
+  int min_samples = 2;
+  double min_hours = 0.5;
+};
+
+// The expanded uncertainty of a condition's value against its limit: kCoverageFactor × the
+// root-sum-square of the sensors it reads (outdoor; and return for a differential one), in
+// the condition's quantity (an enthalpy adds kEnthalpyHumidityPartKjPerKg in quadrature; a
+// humidity ratio is kHumidityRatioUncertainty). A dew point is read with the dry-bulb
+// accuracies, as the log gives no dew-point sensor's.
+[[nodiscard]] double limit_uncertainty(const highlimit::Condition& c, const Accuracy& a);
 
 struct MeasuredFraction {
   double fraction;
@@ -63,8 +90,12 @@ enum class FindingKind : std::uint8_t {
   below_minimum,                 // measured fraction below the ventilation minimum
   mixed_air_out_of_range,        // mixed air outside [min(t_o, t_r), max(t_o, t_r)]
   high_limit_elsewhere,          // switching point in the log ≠ the configured limit
+  cooling_with_free_air,         // cooling on while outdoor air alone meets the target
+  minimum_while_cooling,         // cooling on, damper at minimum, high-limit allows it
+  supply_off_setpoint,           // supply air off its setpoint while the coil should hold it
+  fan_heat_mismatch,             // supply − mixed with the coil idle ≠ the unit's fan heat
 };
-inline constexpr std::size_t kFindingKindCount = 7;
+inline constexpr std::size_t kFindingKindCount = 11;
 [[nodiscard]] std::string_view finding_key(FindingKind k);    // "economizing-when-disabled", ...
 [[nodiscard]] std::string_view finding_title(FindingKind k);  // one line, for reports
 [[nodiscard]] std::string_view finding_rule(FindingKind k);   // the rule, one sentence
@@ -93,14 +124,19 @@ struct SwitchPoint {
   double highest_open;   // highest value with the damper open
   double lowest_closed;  // lowest value with the damper at minimum
   int open_samples, closed_samples, misclassified;
-  // At least kSwitchMinimumSamples open above limit + tolerance, or closed below
-  // limit − deadband − tolerance.
+  double tolerance;  // limit_uncertainty of the condition
+  // At least kSwitchMinimumSamples open above limit + tolerance, or closed below limit −
+  // deadband − tolerance; otherwise the switching point is consistent with the configured
+  // limit. (The estimate is not required beyond the band: in a log whose limit changed part
+  // way, the split follows the longer setting.)
   bool differs;
 };
 
 struct Options {
   highlimit::Strategy strategy;
   Accuracy accuracy;
+  Significance significance;
+  double supply_tolerance_k = kSupplyToleranceK;
 };
 
 struct Result {
@@ -108,8 +144,9 @@ struct Result {
   double operating_hours = 0;  // fan-on weight
   double covered_hours = 0;
   int operating_intervals = 0;
-  int fraction_intervals = 0;     // where the measured fraction passed the gate
-  std::vector<Finding> findings;  // kinds with at least one interval, in FindingKind order
+  int fraction_intervals = 0;               // where the measured fraction passed the gate
+  std::vector<Finding> findings;            // significant kinds, in FindingKind order
+  std::vector<Finding> below_significance;  // kinds seen, too few samples or hours
   std::vector<SwitchPoint> switch_points;
   std::vector<std::string>
       notes;  // assumptions taken (no fan column, return air from the unit file)
@@ -206,7 +243,8 @@ class FindingsTally {
   // little), adding the samples beyond it when it differs from the configured one.
   [[nodiscard]] static std::optional<SwitchPoint> switch_point(const highlimit::Condition& cond,
                                                                int index, std::vector<Point> points,
-                                                               std::vector<Beyond>& beyond);
+                                                               std::vector<Beyond>& beyond,
+                                                               double tolerance);
 
   const SampleContext* c_;
   std::array<Finding, kFindingKindCount> findings_{};

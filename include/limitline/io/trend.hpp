@@ -132,4 +132,10 @@ std::int64_t parse_timestamp(std::string_view text, std::string_view origin);
 // "YYYY-MM-DD HH:MM".
 std::string format_timestamp(std::int64_t time_s);
 
+// The offset of a log's clock from UTC, minutes: "UTC", "Z", "±HH:MM", "±HHMM", "±HH" or
+// "UTC±HH:MM", within −12:00 to +14:00 (the offsets in use). InputError naming `origin`.
+int parse_utc_offset(std::string_view text, std::string_view origin);
+// "UTC", "UTC+05:30", "UTC−05:00".
+std::string format_utc_offset(int minutes);
+
 }  // namespace limitline::trend

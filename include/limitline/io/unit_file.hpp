@@ -14,6 +14,7 @@
 #include <limitline/model/units.hpp>
 #include <limitline/text.hpp>
 #include <limitline/io/raw_table.hpp>
+#include <limitline/io/trend.hpp>
 #include <limitline/io/weather.hpp>
 
 #include <optional>
@@ -39,6 +40,20 @@ struct Site {
   // The pressure every state of the site is computed at: `pressure` when given, else the
   // standard pressure at `elevation` (ASHRAE Fundamentals ch. 1 eq. 3), else sea level.
   double design_pressure_kpa() const;
+};
+
+// [audit]: how the unit's trend logs are read and judged, so that one unit file and one log
+// reproduce an audit record. Every key is optional; an option of the audit command overrides
+// its key. Each `*_origin` is "FILE:LINE: audit.KEY" for the messages of later checks.
+struct AuditSettings {
+  std::vector<trend::ColumnOverride> columns;  // [audit.columns] QUANTITY = "HEADER[:UNIT]"
+  // Sensor accuracies, one standard uncertainty, K.
+  std::optional<double> outdoor_accuracy_k, return_accuracy_k, mixed_accuracy_k, supply_accuracy_k;
+  std::optional<double> max_gap_s;    // max_gap_minutes
+  std::optional<int> utc_offset_min;  // the log's clock
+  std::optional<int> min_samples;     // significance
+  std::optional<double> min_hours;    // significance
+  std::optional<double> supply_tolerance_k;
 };
 
 // The return air the unit is designed around (air_handler.return_air_*).
@@ -84,6 +99,7 @@ struct UnitFile {
   std::vector<highlimit::Strategy> strategies;         // as written; empty when none are given
   bool strategies_defaulted = true;                    // no [[strategy]] in the file
   std::optional<RawTable> weather, schedule, sensors;  // raw, validated by their layers
+  std::optional<AuditSettings> audit;                  // [audit]
   units::System units = units::System::ip;  // the system bare numbers in the file are read in
   // Values that are physically valid but implausible for an air handler, one line each
   // ("FILE:LINE: KEY: ..."): shown in every report's context block and on stderr, errors
