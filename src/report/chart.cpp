@@ -4,6 +4,8 @@
 #include <limitline/report/html.hpp>
 #include <limitline/report/strategy.hpp>
 
+#include "svg_draw.hpp"
+
 #include <fmt/format.h>
 
 #include <algorithm>
@@ -24,13 +26,12 @@ using units::System;
 // sage dotted wet-bulb lines; climate cells in moss / terracotta / slate; high-limits in
 // dark inks with numbered badges.
 
-constexpr std::string_view kFont = "'DejaVu Sans', 'Segoe UI', 'Helvetica Neue', Arial, sans-serif";
-constexpr std::string_view kPaper = "#fbf8f1";
+using svg::kGridMajor;
+using svg::kGridMinor;
+using svg::kInk;
+using svg::kInkSoft;
+using svg::kPaper;
 constexpr std::string_view kPaperAbove = "#efe9dc";
-constexpr std::string_view kInk = "#1f3347";
-constexpr std::string_view kInkSoft = "#55606b";
-constexpr std::string_view kGridMinor = "#ebe4d6";
-constexpr std::string_view kGridMajor = "#d6ccb8";
 constexpr std::string_view kRh = "#8ea6bd";
 constexpr std::string_view kEnthalpy = "#bf8a3f";
 constexpr std::string_view kWetBulb = "#5f8f80";
@@ -42,9 +43,9 @@ struct OutcomeStyle {
   std::string_view colour;
 };
 constexpr OutcomeStyle kOutcomes[] = {
-    {HourOutcome::economize, "economize", "#3d8f62"},
-    {HourOutcome::do_not_economize, "do not economize", "#c8623c"},
-    {HourOutcome::no_cooling_needed, "no cooling needed", "#7288ad"},
+    {HourOutcome::economize, "economize", svg::kEconomize},
+    {HourOutcome::do_not_economize, "do not economize", svg::kDoNotEconomize},
+    {HourOutcome::no_cooling_needed, "no cooling needed", svg::kNoCooling},
 };
 
 // Dark inks that stay apart from the three cell colours; each line is cased in paper colour.
@@ -75,11 +76,9 @@ constexpr PlotArea kPlot{48.0, 84.0, 812.0, 500.0};
 
 // --- SVG text --------------------------------------------------------------------------
 
-std::string num(double v) {
-  if (!std::isfinite(v)) throw std::logic_error("chart: non-finite coordinate");
-  if (std::fabs(v) < 0.005) v = 0.0;
-  return fmt::format("{:.2f}", v);
-}
+using svg::num;
+using svg::text;
+using svg::tick_label;
 
 std::string esc(std::string_view s) { return html_escape(s); }
 
@@ -94,23 +93,8 @@ std::string path_d(const std::vector<Px>& pts) {
   return d;
 }
 
-// Text with a paper-coloured halo so it reads over lines and cells.
-std::string text(double x, double y, std::string_view s, std::string_view attrs,
-                 bool halo = false) {
-  return fmt::format(
-      "<text x=\"{}\" y=\"{}\" {}{}>{}</text>\n", num(x), num(y), attrs,
-      halo ? fmt::format(" stroke=\"{}\" stroke-width=\"3\" stroke-linejoin=\"round\" "
-                         "paint-order=\"stroke\"",
-                         kPaper)
-           : "",
-      esc(s));
-}
-
 std::string svg_open(double height, std::string_view label) {
-  return fmt::format(
-      "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 {} {}\" width=\"{}\" "
-      "height=\"{}\" font-family=\"{}\" role=\"img\" aria-label=\"{}\">\n",
-      num(kWidth), num(height), num(kWidth), num(height), esc(kFont), esc(label));
+  return svg::open(kWidth, height, label);
 }
 
 // Greedy word wrap at `width` characters.
@@ -1212,11 +1196,6 @@ void draw_marks(Ctx& c, const std::vector<Mark>& marks) {
                               m.dx < 0 ? " text-anchor=\"end\"" : "", box_attr(m.box)),
                   true);
   }
-}
-
-std::string tick_label(double v) {
-  if (std::fabs(v) < 1e-9) v = 0.0;
-  return std::fabs(v - std::round(v)) < 1e-9 ? fmt::format("{:.0f}", v) : fmt::format("{:.1f}", v);
 }
 
 void draw_axes(Ctx& c) {

@@ -18,7 +18,10 @@ std::string num(double v) {
 std::string text(double x, double y, std::string_view content, std::string_view attrs, bool halo) {
   return fmt::format(
       "<text x=\"{}\" y=\"{}\" {}{}>{}</text>\n", num(x), num(y), attrs,
-      halo ? fmt::format(" stroke=\"{}\" stroke-width=\"3\" paint-order=\"stroke\"", kPaper) : "",
+      halo ? fmt::format(" stroke=\"{}\" stroke-width=\"3\" stroke-linejoin=\"round\" "
+                         "paint-order=\"stroke\"",
+                         kPaper)
+           : "",
       html_escape(content));
 }
 
