@@ -136,7 +136,7 @@ TEST_CASE("--batch tunes every weather file and lists the one it cannot read") {
   std::filesystem::copy_file(data("pvgis-tmy-45n-8e.csv"), dir / "b-pvgis.csv");
   std::ofstream(dir / "c-broken.csv") << "not,a,weather,file\n1,2,3,4\n";
   const auto unit = write_unit("batch.toml");
-  const auto r = run_cli({"tune", unit.string(), "--batch", dir.string()}, kSuite);
+  const auto r = run_cli({"tune", unit.string(), "--batch", dir.string(), "--wide"}, kSuite);
   CHECK(r.rc == 2);
   CHECK(contains(r.out, "a-greensboro.csv"));
   CHECK(contains(r.out, "b-pvgis.csv"));

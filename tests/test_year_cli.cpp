@@ -124,7 +124,7 @@ TEST_CASE("--batch evaluates every weather file of a folder, in name order") {
   CHECK(a < b);
   // A bad file is reported by name and the run exits 2, the other sites still reported.
   std::ofstream(dir / "c-broken.csv") << "not,a,weather,file\n1,2,3,4\n";
-  const auto bad = run_cli({"year", unit.string(), "--batch", dir.string()}, "year_cli");
+  const auto bad = run_cli({"year", unit.string(), "--batch", dir.string(), "--wide"}, "year_cli");
   CHECK(bad.rc == 2);
   CHECK(contains(bad.out, "c-broken.csv"));
   CHECK(contains(bad.out, "a-greensboro.csv"));
@@ -187,7 +187,7 @@ TEST_CASE(
   std::filesystem::create_directory(dir / "b-folder.csv");
   std::filesystem::create_symlink("no-such-weather.csv", dir / "c-dangling.csv");
   SUBCASE("text: every failing site with its reason, after the good ones") {
-    const auto r = run_cli({"year", unit.string(), "--batch", dir.string()}, "year_cli");
+    const auto r = run_cli({"year", unit.string(), "--batch", dir.string(), "--wide"}, "year_cli");
     CHECK(r.rc == 2);
     CHECK(contains(r.out, "a-greensboro.csv"));
     CHECK(contains(r.out, "Sites that could not be evaluated"));

@@ -456,7 +456,9 @@ std::vector<Segment> shared_segments(const std::vector<Boundary>& bs,
     }
   }
   std::vector<Segment> out;
-  for (auto& [k, line] : lines) {
+  for (auto& entry : lines) {
+    // A plain reference, not a structured binding: the lambdas below capture it (clang 14).
+    auto& line = entry.second;
     // Ends closer than a quarter pixel are one end: the same edge found by two bisections.
     const double px_per_unit = line.family == Family::vertical
                                    ? g.area().height / g.humidity_ratio_max()

@@ -269,16 +269,15 @@ std::vector<Block> blocks(const annual::YearResult& year, const ReportDocument& 
                                                                     : body.find_first_not_of('\n'));
     Block b{slug(s.heading), s.heading, body, {}, Figure::none, ""};
     if (heading_is(s.heading, "Strategies ranked")) {
-      // The decision figures in the table; the hours and energies behind them folded under
-      // it, so the table fits a laptop screen without scrolling.
+      // The decision figures in the table; the hours and energies behind them in a second
+      // one under it (not folded away: a folded part would not print), so each fits a laptop
+      // screen without scrolling.
       b.css = "ranked";
       const auto parts = ranked_table(year, doc.context).parts();
       b.html = with_swatches(markdown_to_html(parts.front().markdown()), doc);
       for (std::size_t k = 1; k < parts.size(); ++k)
-        b.html +=
-            "<details class=\"more\"><summary>Hours and energy of each strategy and "
-            "reference</summary>\n" +
-            with_swatches(markdown_to_html(parts[k].markdown()), doc) + "</details>\n";
+        b.html += "<p class=\"more\">Hours and energy behind the ranking:</p>\n" +
+                  with_swatches(markdown_to_html(parts[k].markdown()), doc);
     }
     if (heading_is(s.heading, "Cautions")) b.css = "cautions";
     if (heading_is(s.heading, "Economizing hours by month")) b.figure = Figure::monthly;
@@ -339,7 +338,7 @@ background:#e3e6ee;color:#394766}
 .verdict.complies{background:#d9eedf;color:#1f5f3a}
 .verdict.not-allowed,.verdict.set-wrong{background:#f6ddd2;color:#8a2f14}
 .ranked th{white-space:normal;min-width:4.5em}
-details.more{margin:.2rem 0 1rem}details.more summary{font:.8rem var(--sans);color:var(--soft);cursor:pointer}
+p.more{font:.8rem var(--sans);color:var(--soft);margin:1rem 0 .2rem}
 section.cautions{border:1.5px solid var(--ink);padding:.2rem 1.2rem .6rem;background:#fffdf8;margin-top:2.2rem}
 section.cautions h2{border-left:0;padding-left:0}
 footer{margin-top:2rem;font:.75rem var(--sans);color:var(--soft);border-top:1px solid var(--rule);padding-top:.5rem}
