@@ -5,6 +5,7 @@
 // Include after the limitline headers and support/cli.hpp.
 #include "cli.hpp"
 
+#include <cctype>
 #include <cmath>
 #include <fstream>
 #include <regex>
@@ -27,13 +28,20 @@ inline std::vector<Xy> path_points(const std::string& d) {
 }
 
 // Every element opening tag that carries all the attribute fragments, e.g. class="boundary".
+// A plain scan, not std::regex: libstdc++'s regex recurses per character and overflows the
+// stack on the long path data of a picture (under the sanitizers first).
 inline std::vector<std::string> tags_with(const std::string& svg,
                                           const std::vector<std::string>& fragments) {
-  static const std::regex tag(R"(<[a-z]+\s[^>]*>)");
   std::vector<std::string> out;
-  for (auto it = std::sregex_iterator(svg.begin(), svg.end(), tag); it != std::sregex_iterator();
-       ++it) {
-    const std::string t = it->str();
+  for (std::size_t at = svg.find('<'); at != std::string::npos; at = svg.find('<', at + 1)) {
+    std::size_t name_end = at + 1;
+    while (name_end < svg.size() && svg[name_end] >= 'a' && svg[name_end] <= 'z') ++name_end;
+    if (name_end == at + 1 || name_end >= svg.size() ||
+        !std::isspace(static_cast<unsigned char>(svg[name_end])))
+      continue;
+    const std::size_t close = svg.find('>', name_end);
+    if (close == std::string::npos) break;
+    const std::string t = svg.substr(at, close - at + 1);
     bool all = true;
     for (const auto& f : fragments) all = all && contains(t, f);
     if (all) out.push_back(t);
@@ -42,9 +50,14 @@ inline std::vector<std::string> tags_with(const std::string& svg,
 }
 
 inline std::string attr(const std::string& tag, const std::string& name) {
-  const std::regex re("\\s" + name + "=\"([^\"]*)\"");
-  std::smatch m;
-  return std::regex_search(tag, m, re) ? m[1].str() : std::string();
+  for (std::size_t at = tag.find(name + "=\""); at != std::string::npos;
+       at = tag.find(name + "=\"", at + 1)) {
+    if (at == 0 || !std::isspace(static_cast<unsigned char>(tag[at - 1]))) continue;
+    const std::size_t from = at + name.size() + 2, to = tag.find('"', from);
+    if (to == std::string::npos) return {};
+    return tag.substr(from, to - from);
+  }
+  return {};
 }
 
 inline int sh(const std::string& cmd) {
