@@ -103,8 +103,9 @@ std::vector<FaultEvidence> fault_evidence(const codes::FaultDetection& required,
   for (const auto& r : required.faults) {
     FaultEvidence e{r.fault, r.code_term, {}, {}, {}};
     for (FindingKind k : findings_showing(r.fault)) {
-      (can_judge(k, log) ? e.judged : e.not_judged).push_back(k);
-      if (can_judge(k, log) && result.find(k)) e.found.push_back(k);
+      const bool judged = can_judge(k, log);
+      (judged ? e.judged : e.not_judged).push_back(k);
+      if (judged && result.find(k)) e.found.push_back(k);
     }
     out.push_back(std::move(e));
   }

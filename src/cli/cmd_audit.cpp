@@ -43,7 +43,7 @@ constexpr std::string_view kDetails =
     "mixed-air=\"MA Temp (°F):F\" --max-gap 45";
 
 highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map& vm,
-                                  std::string& source) {
+                                  const codes::CodeTables* tables, std::string& source) {
   const bool code = vm.count("edition") || vm.count("zone");
   if (code) {
     const std::string edition =
@@ -52,9 +52,8 @@ highlimit::Strategy pick_strategy(const UnitFile& unit, const po::variables_map&
         vm.count("zone") ? vm["zone"].as<std::string>() : unit.site.climate_zone;
     if (edition.empty()) throw UsageError("--zone needs --edition (or [site] energy_code)");
     if (zone.empty()) throw UsageError("--edition needs --zone (or [site] climate_zone)");
-    const auto tables = codes::CodeTables::load_installed();
     const auto& ed =
-        tables.edition(edition, vm.count("edition") ? "--edition" : "site.energy_code");
+        tables->edition(edition, vm.count("edition") ? "--edition" : "site.energy_code");
     codes::SiteConditions site;
     site.pressure_kpa = unit.site.design_pressure_kpa();
     const auto req =
@@ -170,7 +169,12 @@ int run_audit(const std::vector<std::string>& args) {
   }
   audit::Options opt;
   std::string source;
-  opt.strategy = pick_strategy(unit, vm, source);
+  // The code tables, read once when a code is named: for --edition's strategy and for the
+  // fault-detection clause.
+  std::optional<codes::CodeTables> tables;
+  if (vm.count("edition") || vm.count("zone") || !unit.site.energy_code.empty())
+    tables = codes::CodeTables::load_installed();
+  opt.strategy = pick_strategy(unit, vm, tables ? &*tables : nullptr, source);
   opt.accuracy.outdoor_k = set.outdoor_accuracy_k.value_or(opt.accuracy.outdoor_k);
   opt.accuracy.return_k = set.return_accuracy_k.value_or(opt.accuracy.return_k);
   opt.accuracy.mixed_k = set.mixed_accuracy_k.value_or(opt.accuracy.mixed_k);
@@ -233,9 +237,8 @@ int run_audit(const std::vector<std::string>& args) {
     ctx.fault_code_note =
         "the unit file names no energy code: no fault-detection clause to compare the log with";
   } else {
-    const auto tables = codes::CodeTables::load_installed();
     const auto& ed =
-        tables.edition(edition, vm.count("edition") ? "--edition" : "site.energy_code");
+        tables->edition(edition, vm.count("edition") ? "--edition" : "site.energy_code");
     if (!ed.fault_detection) {
       ctx.fault_code_note = fmt::format(
           "{} has no economizer fault-detection clause in limitline's tables (from memory)", ed.id);

@@ -486,12 +486,22 @@ const RequiredFault* FaultDetection::find(Fault f) const {
   return nullptr;
 }
 
+std::optional<double> FaultDetection::threshold_kw(System compare_in) const {
+  if (!capacity_ip) return std::nullopt;
+  return compare_in == System::ip ? units::from_display(Kind::power, System::ip, *capacity_ip)
+                                  : *capacity_si;
+}
+
+std::optional<double> FaultDetection::sensor_accuracy_k(System compare_in) const {
+  if (!sensor_accuracy_ip) return std::nullopt;
+  return compare_in == System::ip
+             ? units::from_display(Kind::temperature_difference, System::ip, *sensor_accuracy_ip)
+             : *sensor_accuracy_si;
+}
+
 bool FaultDetection::covers_capacity(double capacity_kw, System compare_in) const {
-  if (!capacity_ip) return true;
-  const double threshold = compare_in == System::ip
-                               ? units::from_display(Kind::power, System::ip, *capacity_ip)
-                               : *capacity_si;
-  return capacity_kw >= threshold;
+  const auto threshold = threshold_kw(compare_in);
+  return !threshold || capacity_kw >= *threshold;
 }
 
 namespace {

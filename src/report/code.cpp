@@ -320,13 +320,9 @@ std::string fault_detection_text(Format f, const codes::Edition& e, System compa
   }
   const codes::FaultDetection& d = *e.fault_detection;
   out += fmt::format("{}{} {}: {}\n", bullet, e.id, d.clause, d.applies_to);
-  if (d.capacity_ip) {
-    const double kw = compare_in == System::ip
-                          ? units::from_display(Kind::power, System::ip, *d.capacity_ip)
-                          : *d.capacity_si;
+  if (const auto kw = d.threshold_kw(compare_in))
     out += fmt::format("{}from a cooling capacity of {}\n", bullet,
-                       units::format(Kind::power, s, kw, 1));
-  }
+                       units::format(Kind::power, s, *kw, 1));
   if (u) {
     const bool covered = d.covers_capacity(u->capacity_kw, compare_in);
     out += fmt::format(
@@ -341,13 +337,9 @@ std::string fault_detection_text(Format f, const codes::Edition& e, System compa
   }
   out += fmt::format("{}sensors to install permanently:\n", bullet);
   for (const auto& x : d.sensors) out += fmt::format("{}{}\n", sub, x);
-  if (d.sensor_accuracy_ip) {
-    const double acc =
-        compare_in == System::ip
-            ? units::from_display(Kind::temperature_difference, System::ip, *d.sensor_accuracy_ip)
-            : *d.sensor_accuracy_si;
+  if (const auto acc = d.sensor_accuracy_k(compare_in)) {
     out += fmt::format("{}temperature sensor accuracy: ±{}{}\n", bullet,
-                       units::format(Kind::temperature_difference, s, acc, 1),
+                       units::format(Kind::temperature_difference, s, *acc, 1),
                        d.accuracy_range.empty() ? "" : " over " + d.accuracy_range);
   }
   if (!d.status.empty()) {
@@ -378,14 +370,10 @@ void json_fault_detection(Json& j, const codes::Edition& e, System compare_in,
   j.begin_object();
   j.field("clause", d.clause).field("applies_to", d.applies_to);
   j.key("capacity_threshold" + power_key);
-  if (d.capacity_ip) {
-    const double kw = compare_in == System::ip
-                          ? units::from_display(Kind::power, System::ip, *d.capacity_ip)
-                          : *d.capacity_si;
-    j.value(units::to_display(Kind::power, s, kw), 3);
-  } else {
+  if (const auto kw = d.threshold_kw(compare_in))
+    j.value(units::to_display(Kind::power, s, *kw), 3);
+  else
     j.null();
-  }
   if (u) j.field("covers_unit_capacity", d.covers_capacity(u->capacity_kw, compare_in));
   j.key("sensors").begin_array();
   for (const auto& x : d.sensors) j.value(x);
@@ -393,13 +381,8 @@ void json_fault_detection(Json& j, const codes::Edition& e, System compare_in,
   const std::string acc_key =
       fmt::format("sensor_accuracy_{}", units::key_suffix(Kind::temperature_difference, s));
   j.key(acc_key);
-  if (d.sensor_accuracy_ip)
-    j.value(units::to_display(Kind::temperature_difference, s,
-                              compare_in == System::ip
-                                  ? units::from_display(Kind::temperature_difference, System::ip,
-                                                        *d.sensor_accuracy_ip)
-                                  : *d.sensor_accuracy_si),
-            3);
+  if (const auto acc = d.sensor_accuracy_k(compare_in))
+    j.value(units::to_display(Kind::temperature_difference, s, *acc), 3);
   else
     j.null();
   j.field("accuracy_range", d.accuracy_range);

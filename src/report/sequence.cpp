@@ -995,23 +995,16 @@ void fault_detection(const Context& ctx, Section& sec) {
       "{}, {}, requires economizer fault detection and diagnostics (the clause is recalled "
       "from memory; the adopted edition governs). The units it covers: {}",
       e->title, d.clause, d.applies_to);
-  if (d.capacity_ip)
-    scope += fmt::format(" It applies from a cooling capacity of {}.",
-                         written(Kind::power, ctx.s,
-                                 compare_in == System::ip
-                                     ? units::from_display(Kind::power, System::ip, *d.capacity_ip)
-                                     : *d.capacity_si));
+  if (const auto kw = d.threshold_kw(compare_in))
+    scope +=
+        fmt::format(" It applies from a cooling capacity of {}.", written(Kind::power, ctx.s, *kw));
   add(sec,
       scope + fmt::format(" Where this unit is one of them, paragraphs 9.2 to 9.{} apply.", last));
   std::string sensors = "Sensors: " + join(d.sensors, ", ") + " shall be installed permanently";
-  if (d.sensor_accuracy_ip)
-    sensors += fmt::format(
-        ", each accurate to within {}{}",
-        written(Kind::temperature_difference, ctx.s,
-                compare_in == System::ip ? units::from_display(Kind::temperature_difference,
-                                                               System::ip, *d.sensor_accuracy_ip)
-                                         : *d.sensor_accuracy_si),
-        d.accuracy_range.empty() ? "" : " over " + d.accuracy_range);
+  if (const auto acc = d.sensor_accuracy_k(compare_in))
+    sensors += fmt::format(", each accurate to within {}{}",
+                           written(Kind::temperature_difference, ctx.s, *acc),
+                           d.accuracy_range.empty() ? "" : " over " + d.accuracy_range);
   add(sec, sensors + "; where section 7 asks for better, section 7 governs.");
   if (!d.status.empty())
     add(sec, "Status: the unit controller shall show " + join(d.status, "; ") + ".");

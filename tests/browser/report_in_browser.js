@@ -46,8 +46,8 @@ function browser(args) {
   ], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'ignore'], timeout: 60000, maxBuffer: 1 << 28 });
 }
 
-// The page with a probe that writes its measurements into the DOM once laid out; folded
-// details are opened first, so the secondary tables are measured too.
+// The page with a probe that posts its measurements once laid out; any folded details are
+// opened first, so every table is measured.
 const kProbe = `<script>
 window.addEventListener('load', function () {
   document.querySelectorAll('details').forEach(function (d) { d.open = true; });

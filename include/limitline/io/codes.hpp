@@ -203,6 +203,10 @@ struct FaultDetection {
   // with the stored figure of `compare_in`; true when the clause has no threshold. Whether
   // the unit is of the type the clause covers (`applies_to`) is for the reader to judge.
   [[nodiscard]] bool covers_capacity(double capacity_kw, units::System compare_in) const;
+  // The threshold (kW) and the sensor accuracy (K) from the stored figure of `compare_in`;
+  // none where the clause states none.
+  [[nodiscard]] std::optional<double> threshold_kw(units::System compare_in) const;
+  [[nodiscard]] std::optional<double> sensor_accuracy_k(units::System compare_in) const;
 };
 
 struct Edition {
