@@ -201,6 +201,17 @@ weather::WeatherSeries read_unit_weather(const UnitFile& unit, std::string& labe
   return read_weather(unit, false, mapping_for(unit, true, {}), std::nullopt, label);
 }
 
+YearInputs batch_base(const UnitFile& unit, std::string label) {
+  YearInputs base;
+  base.unit = unit;
+  base.unit_label = std::move(label);
+  if (unit.schedule) base.schedule = read_schedule(*unit.schedule, unit.path);
+  base.strategies = strategies_or_presets(unit);
+  // Read once, matched to each site's weather.
+  base.loads_table = read_unit_loads(unit, false, base.loads_label);
+  return base;
+}
+
 std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w) {
   std::vector<annual::OutdoorInterval> out;
   out.reserve(w.hours.size());
@@ -261,10 +272,10 @@ report::YearContext year_context(const YearInputs& in, units::System s) {
 
 namespace limitline {
 
-std::vector<std::string> batch_weather_files(const std::string& dir) {
+std::vector<std::string> batch_weather_files(const std::string& dir, std::string_view option) {
   std::error_code ec;
   if (!fs::is_directory(dir, ec))
-    throw InputError(fmt::format("--batch: {} is not a folder", echo(dir)));
+    throw InputError(fmt::format("{}: {} is not a folder", option, echo(dir)));
   std::vector<std::string> files;
   fs::directory_iterator it(dir, ec);
   // Every entry named *.csv is a site, whatever it is: the weather reader names what is
@@ -273,9 +284,9 @@ std::vector<std::string> batch_weather_files(const std::string& dir) {
     if (text::iequals(it->path().extension().string(), ".csv"))
       files.push_back(it->path().string());
   }
-  if (ec) throw InputError(fmt::format("--batch: cannot list {}: {}", echo(dir), ec.message()));
+  if (ec) throw InputError(fmt::format("{}: cannot list {}: {}", option, echo(dir), ec.message()));
   std::sort(files.begin(), files.end());
-  if (files.empty()) throw InputError(fmt::format("--batch: no .csv files in {}", echo(dir)));
+  if (files.empty()) throw InputError(fmt::format("{}: no .csv files in {}", option, echo(dir)));
   return files;
 }
 

@@ -69,12 +69,7 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
   UnitFile unit = load_unit_file(source.path);
   report_warnings(unit.warnings, common.strict);
   options.units = common.units.resolve(unit);
-  YearInputs base;
-  base.unit = unit;
-  base.unit_label = source.path;
-  if (unit.schedule) base.schedule = read_schedule(*unit.schedule, unit.path);
-  base.strategies = strategies_or_presets(unit);
-  if (unit.loads_file) base.loads_table = read_unit_loads(unit, false, base.loads_label);
+  const YearInputs base = batch_base(unit, source.path);
   const InterruptGuard guard;
   options.cancel = &InterruptGuard::flag();
   const auto sites =

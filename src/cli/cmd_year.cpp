@@ -153,13 +153,7 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
   UnitFile unit = load_unit_file(source.path);
   report_warnings(unit.warnings, common.strict);
   const units::System system = common.units.resolve(unit);
-  YearInputs base;
-  base.unit = unit;
-  base.unit_label = source.path;
-  if (unit.schedule) base.schedule = read_schedule(*unit.schedule, unit.path);
-  base.strategies = strategies_or_presets(unit);
-  // Read once, matched to each site's weather.
-  base.loads_table = read_unit_loads(unit, false, base.loads_label);
+  const YearInputs base = batch_base(unit, source.path);
   const bool tty = isatty(fileno(stderr));
   const InterruptGuard guard;
   const auto sites =

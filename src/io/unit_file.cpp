@@ -1199,15 +1199,28 @@ UnitFile load_unit_file(const std::string& path) {
   return parse_unit_file(read_input_file(path, "the unit file", kMaxUnitFileBytes), path);
 }
 
+namespace {
+std::vector<highlimit::Strategy> written_or_presets(const UnitFile& unit) {
+  return unit.strategies.empty() ? highlimit::all_presets(highlimit::preset_defaults())
+                                 : unit.strategies;
+}
+// Only a site that names both takes defaults from the code; a site naming one of them is
+// refused by each command that judges compliance, with the key at fault.
+bool names_code(const Site& site) {
+  return !site.energy_code.empty() && !site.climate_zone.empty();
+}
+}  // namespace
+
 std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit) {
-  std::vector<highlimit::Strategy> out = unit.strategies.empty()
-                                             ? highlimit::all_presets(highlimit::preset_defaults())
-                                             : unit.strategies;
+  if (!names_code(unit.site)) return written_or_presets(unit);
+  return strategies_or_presets(unit, codes::CodeTables::load_installed());
+}
+
+std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit,
+                                                       const codes::CodeTables& tables) {
+  std::vector<highlimit::Strategy> out = written_or_presets(unit);
   const Site& site = unit.site;
-  // Only a site that names both takes defaults from the code; a site naming one of them is
-  // refused by each command that judges compliance, with the key at fault.
-  if (site.energy_code.empty() || site.climate_zone.empty()) return out;
-  const codes::CodeTables tables = codes::CodeTables::load_installed();
+  if (!names_code(site)) return out;
   std::optional<double> pressure;
   if (site.pressure_kpa || site.elevation_m) pressure = site.design_pressure_kpa();
   const codes::ZoneRequirements zone =

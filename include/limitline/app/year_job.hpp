@@ -91,6 +91,10 @@ YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& ov
 YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
                         const WeatherOverrides& overrides);
 
+// The unit of a batch or survey (every site evaluated with it): its schedule, strategies and
+// loads file read once, no weather yet. `label` names it in the reports.
+YearInputs batch_base(const UnitFile& unit, std::string label);
+
 // The weather series as the annual engine's intervals.
 std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w);
 
@@ -122,7 +126,8 @@ namespace limitline {
 
 // Every *.csv entry of `dir`, sorted by name: the sites of a batch run. InputError when `dir`
 // is no folder, cannot be listed or holds none.
-std::vector<std::string> batch_weather_files(const std::string& dir);
+std::vector<std::string> batch_weather_files(const std::string& dir,
+                                             std::string_view option = "--batch");
 
 // One site of a batch run: its result, or the one-line error that stopped it.
 struct BatchSite {

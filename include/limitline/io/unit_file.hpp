@@ -118,6 +118,12 @@ UnitFile load_unit_file(const std::string& path);
 // installed tables, at the site pressure when the site gives one), so every command sees the
 // same strategies; an unknown edition or zone is an InputError naming the [site] key.
 [[nodiscard]] std::vector<highlimit::Strategy> strategies_or_presets(const UnitFile& unit);
+// The same with the code tables already loaded (a survey judges many sites with one set).
+namespace codes {
+class CodeTables;
+}
+[[nodiscard]] std::vector<highlimit::Strategy> strategies_or_presets(
+    const UnitFile& unit, const codes::CodeTables& tables);
 
 // The cooling capacity the economizer requirement is weighed on: design_cooling_capacity as
 // written, or an estimate from the airflow (airside::return_air_coil_load_kw at the design

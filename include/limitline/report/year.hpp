@@ -58,6 +58,8 @@ class Measure {
   Measure(units::System s, const std::optional<Plant>& plant)
       : s_(s), currency_(plant ? plant->currency : std::string()) {}
   explicit Measure(const YearContext& c) : Measure(c.units, c.plant) {}
+  // The measure of a survey, which records only the currency (empty: weighted energy).
+  Measure(units::System s, std::string currency) : s_(s), currency_(std::move(currency)) {}
   [[nodiscard]] bool is_cost() const { return !currency_.empty(); }
   [[nodiscard]] double display(double v) const;
   [[nodiscard]] std::string format(double v) const;  // rounded for a table
