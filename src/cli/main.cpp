@@ -34,6 +34,10 @@ const Command kCommands[] = {
      limitline::cli::run_sensors},
     {"audit", "a trend log checked against the unit's high-limit: findings for an inspector",
      limitline::cli::run_audit},
+    {"survey", "one unit at many sites: the best high-limit and setpoint by climate zone",
+     limitline::cli::run_survey},
+    {"merge", "the partial results of a sharded survey combined into its report",
+     limitline::cli::run_merge},
 };
 
 void print_overview() {

@@ -20,6 +20,10 @@ const char* const kSequence =
 const char* const kAudit =
     "Findings come from trend data whose sensors may themselves be wrong; confirm each one in "
     "the field before acting on it.";
+const char* const kSurvey =
+    "A survey judges every site with one air handler and the weather files given; a zone's "
+    "summary is a guide for a specification or a review of a code table, not a design for any "
+    "one building: study each project with its own unit, loads and weather.";
 
 }  // namespace
 
@@ -27,6 +31,7 @@ std::vector<std::string> cautions(CautionTopic topic) {
   std::vector<std::string> out;
   if (topic == CautionTopic::sequence) out.emplace_back(kSequence);
   if (topic == CautionTopic::audit) out.emplace_back(kAudit);
+  if (topic == CautionTopic::survey) out.emplace_back(kSurvey);
   for (const char* c : kCommon) out.emplace_back(c);
   return out;
 }

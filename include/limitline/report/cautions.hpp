@@ -5,7 +5,7 @@
 
 namespace limitline::report {
 
-enum class CautionTopic { design, code, sequence, audit };
+enum class CautionTopic { design, code, sequence, audit, survey };
 
 // The paragraphs for a topic, in order, as plain sentences.
 std::vector<std::string> cautions(CautionTopic topic);
