@@ -36,18 +36,23 @@ constexpr std::string_view kSurveyDetails =
     "the report of the whole survey. A shard exits 0 once its partial is complete, failed\n"
     "sites included (they are in the partial); merge exits 2 when any site failed.\n\n"
     "Examples:\n"
-    "  limitline survey examples/survey-sites.csv examples/office-humid-coast.toml\n"
-    "  limitline survey sites.csv unit.toml --format html -o survey.html\n"
-    "  limitline survey sites.csv unit.toml --shard 3/8 -o part-3.jsonl\n"
-    "  limitline merge part-*.jsonl --format html -o survey.html";
+    "  limitline survey examples/survey-sites.csv examples/survey-office.toml\n"
+    "  limitline survey examples/survey-sites.csv examples/survey-office.toml --format html -o "
+    "survey.html\n"
+    "  limitline survey examples/survey-sites.csv examples/survey-office.toml --shard 1/2 -o "
+    "part-1.jsonl";
 
 constexpr std::string_view kMergeDetails =
     "Combines the partial results of every shard of one survey (limitline survey --shard K/N,\n"
     "any order) into its report, the same bytes the whole survey on one machine writes. It\n"
     "refuses partials of another survey (manifest, unit, settings or limitline version), a shard\n"
-    "missing or given twice, an interrupted shard and a cut file, naming the file and line.\n\n"
-    "Example:\n"
-    "  limitline merge part-*.jsonl --format html -o survey.html";
+    "missing or given twice, an interrupted shard and a cut file, naming the file and line.\n"
+    "examples/survey-parts/ holds the two shards of examples/survey-sites.csv as --shard 1/2\n"
+    "and 2/2 write them.\n\n"
+    "Examples:\n"
+    "  limitline merge examples/survey-parts/part-1.jsonl examples/survey-parts/part-2.jsonl\n"
+    "  limitline merge examples/survey-parts/part-2.jsonl examples/survey-parts/part-1.jsonl "
+    "--format html -o survey.html";
 
 void add_report_options(po::options_description& options) {
   options.add_options()("output,o", po::value<std::string>()->default_value("-"),

@@ -411,9 +411,8 @@ std::string survey_json(const SurveyReport& r) {
   return j.str();
 }
 
-std::string zone_picture_svg(const ZoneSummary& z, const survey::SurveyInfo& info) {
-  (void)info;
-  constexpr double kWidth = 860, kLeft = 230, kRight = 150, kTop = 46, kLane = 30, kBottom = 44;
+std::string zone_picture_svg(const ZoneSummary& z) {
+  constexpr double kWidth = 860, kLeft = 230, kRight = 150, kTop = 46, kLane = 30, kBottom = 62;
   const double plot_w = kWidth - kLeft - kRight;
   const double height = kTop + kLane * static_cast<double>(z.strategies.size()) + kBottom;
   double peak = 0;
@@ -440,7 +439,7 @@ std::string zone_picture_svg(const ZoneSummary& z, const survey::SurveyInfo& inf
         svg::text(x(v), y_axis + 16, svg::tick_label(v) + "%",
                   fmt::format(R"(font-size="11" text-anchor="middle" fill="{}")", svg::kInkSoft));
   }
-  out += svg::text(kLeft + plot_w / 2, y_axis + 34,
+  out += svg::text(kLeft + plot_w / 2, y_axis + 32,
                    "shortfall against the perfect changeover, % of each site's possible savings",
                    fmt::format(R"(font-size="11" text-anchor="middle" fill="{}")", svg::kInkSoft));
   for (std::size_t i = 0; i < z.strategies.size(); ++i) {
@@ -467,7 +466,7 @@ std::string zone_picture_svg(const ZoneSummary& z, const survey::SurveyInfo& inf
                                  s.wins ? R"( font-weight="bold")" : ""));
     out += "</g>";
   }
-  out += svg::text(kLeft, height - 6, "each dot a site; the bar is the median",
+  out += svg::text(kLeft, y_axis + 52, "each dot a site; the bar is the median",
                    fmt::format(R"(font-size="10" fill="{}")", svg::kInkSoft));
   out += "</svg>\n";
   return out;
@@ -488,7 +487,7 @@ std::string survey_html(const SurveyReport& r) {
     for (const std::string& l : zone_lines(z)) md += "- " + markdown_escape(l) + "\n";
     zones += markdown_to_html(md);
     if (!z.strategies.empty()) {
-      zones += R"(<div class="zone-figure">)" + zone_picture_svg(z, r.info) + "</div>";
+      zones += R"(<div class="zone-figure">)" + zone_picture_svg(z) + "</div>";
       zones += markdown_to_html(zone_table(z, r).markdown());
     }
   }

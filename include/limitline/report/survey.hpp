@@ -27,6 +27,6 @@ std::string survey_html(const SurveyReport& r);
 // One zone's picture: for each strategy a lane on one scale of shortfall as a share of each
 // site's perfect-changeover savings, a dot per site, the median marked, and how often it is
 // best. Standalone SVG.
-std::string zone_picture_svg(const survey::ZoneSummary& zone, const survey::SurveyInfo& info);
+std::string zone_picture_svg(const survey::ZoneSummary& zone);
 
 }  // namespace limitline::report
