@@ -8,6 +8,8 @@
 #include <limitline/app/survey.hpp>
 #include <limitline/io/json_read.hpp>
 
+#include <sys/stat.h>
+
 #include <bit>
 #include <cmath>
 #include <fstream>
@@ -360,4 +362,54 @@ TEST_CASE("examples/survey-parts holds what --shard 1/2 and 2/2 write today") {
     CHECK(slurp(out) == slurp(std::filesystem::path(LIMITLINE_SOURCE_DIR) / "examples" /
                               "survey-parts" / (std::string("part-") + k + ".jsonl")));
   }
+}
+
+TEST_CASE("a folder is a manifest of its .csv files, each named by its file") {
+  const auto dir = scratch_dir(kSuite) / "folder";
+  std::filesystem::remove_all(dir);
+  std::filesystem::create_directories(dir);
+  std::filesystem::copy_file(data("greensboro-nc-tmy3.csv"), dir / "b-greensboro.csv");
+  std::filesystem::copy_file(data("pvgis-tmy-45n-8e.csv"), dir / "a-piedmont.csv");
+  std::ofstream(dir / "c-broken.csv") << "not a weather file\n";
+  std::ofstream(dir / "notes.txt") << "not a site\n";
+  const Files f = files();
+  const auto r = run_cli(
+      {"survey", dir.string(), f.unit.string(), "--format", "csv", "--table", "sites"}, kSuite);
+  CHECK(r.rc == 2);
+  // Sorted by name; the broken file is a failed site with its error, the text file no site.
+  CHECK(r.out.find("a-piedmont") < r.out.find("b-greensboro"));
+  CHECK(r.out.find("c-broken,") != std::string::npos);
+  CHECK(r.out.find(",failed,") != std::string::npos);
+  CHECK(r.out.find("notes") == std::string::npos);
+  CHECK(r.err.find("1 site failed") != std::string::npos);
+}
+
+TEST_CASE("a shard stopped by Ctrl-C writes the sites it finished, marked incomplete (exit 130)") {
+  // The second site is a named pipe: when the command opens it the first site is done, and it
+  // waits there for the interrupt.
+  const auto dir = scratch_dir(kSuite) / "interrupt";
+  std::filesystem::remove_all(dir);
+  std::filesystem::create_directories(dir);
+  REQUIRE(::mkfifo((dir / "pipe.csv").c_str(), 0600) == 0);
+  const auto manifest =
+      write("interrupt/sites.csv", "weather\n" + data("greensboro-nc-tmy3.csv") + "\npipe.csv\n" +
+                                       data("pvgis-tmy-45n-8e.csv") + "\n");
+  const Files f = files();
+  const auto part = dir / "part.jsonl";
+  const pid_t pid =
+      limitline::test::spawn_cli({"survey", manifest.string(), f.unit.string(), "--threads", "1",
+                                  "--shard", "1/1", "-o", part.string()},
+                                 "/dev/null", (dir / "err").string());
+  const int w = ::open((dir / "pipe.csv").c_str(), O_WRONLY);
+  REQUIRE(w >= 0);
+  limitline::test::signal_and_wait_taken(pid, SIGINT);
+  ::close(w);
+  CHECK(limitline::test::wait_cli(pid) == 130);
+  const std::string text = slurp(part);
+  CHECK(text.find("\"row\":0,") != std::string::npos);
+  CHECK(text.find("\"row\":2,") == std::string::npos);  // not started after the interrupt
+  CHECK(text.find("{\"end\":true,\"sites\":2,\"complete\":false}") != std::string::npos);
+  const auto m = run_cli({"merge", part.string()}, kSuite);
+  CHECK(m.rc == 2);
+  CHECK(m.err.find("was interrupted before its last site; run it again") != std::string::npos);
 }
