@@ -368,6 +368,7 @@ bool Survey::run(const Shard& shard, const std::function<void(const SiteRecord&)
       if (!finished[i]) return false;
       emit(done[i]);
     }
+    if (options_.progress) options_.progress(from + n, rows.size());
     if (options_.cancel && options_.cancel->load()) return from + n == rows.size();
   }
   return true;

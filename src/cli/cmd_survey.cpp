@@ -8,6 +8,8 @@
 
 #include <fmt/format.h>
 
+#include <unistd.h>
+
 #include <cstdio>
 
 namespace limitline::cli {
@@ -142,6 +144,7 @@ int run_survey(const std::vector<std::string>& args) {
   o.units = common.units.resolve(unit);
   o.tune = vm["tune"].as<bool>();
   o.threads = bounded<unsigned>(vm, "threads", 0, kMaxThreads);
+  if (isatty(fileno(stderr))) o.progress = show_site_progress;
   survey::Manifest manifest = survey::read_manifest(manifest_path, o.units);
   const InterruptGuard guard;
   o.cancel = &InterruptGuard::flag();

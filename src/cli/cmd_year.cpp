@@ -44,11 +44,6 @@ constexpr std::string_view kDetails =
     "  limitline year examples/office-humid-coast.toml --weather tests/data/greensboro-nc-tmy3.csv "
     "--hourly hours.csv";
 
-void show_progress(std::size_t done, std::size_t total) {
-  std::fprintf(stderr, "\r  %zu of %zu sites", done, total);
-  if (done == total) std::fputc('\n', stderr);
-}
-
 // What the batch came to: how many sites finished, failed, or never started.
 struct BatchTally {
   std::size_t run = 0, failed = 0;
@@ -158,7 +153,7 @@ int run_batch(const po::variables_map& vm, const Common& common, const UnitSourc
   const InterruptGuard guard;
   const auto sites =
       run_year_batch(base, vm["batch"].as<std::string>(), overrides, vm["threads"].as<unsigned>(),
-                     tty ? show_progress : nullptr, &InterruptGuard::flag());
+                     tty ? show_site_progress : nullptr, &InterruptGuard::flag());
   const bool interrupted = guard.interrupted();
   const BatchTally tally(sites);
   const report::Measure measure(system, unit.plant);

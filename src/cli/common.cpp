@@ -211,6 +211,11 @@ extern "C" void on_interrupt(int) {
 
 }  // namespace
 
+void show_site_progress(std::size_t done, std::size_t total) {
+  std::fprintf(stderr, "\r  %zu of %zu sites", done, total);
+  if (done == total) std::fputc('\n', stderr);
+}
+
 void prepare_process() {
   // A site-year allocates a few vectors of about a megabyte and frees them; above the
   // default threshold each would be a fresh mmap whose pages fault in again, for every site

@@ -164,6 +164,9 @@ void write_out(const std::string& text);
 // `rc` into exit 2 with a one-line error.
 int finish_output(int rc);
 
+// "  N of M sites" on standard error, rewritten in place (for a terminal only).
+void show_site_progress(std::size_t done, std::size_t total);
+
 // 128 + SIGINT, as shells report an interrupted command.
 constexpr int kInterruptedExit = 130;
 

@@ -64,6 +64,8 @@ struct SurveyOptions {
   unsigned threads = 0;  // 0: all cores
   const std::atomic<bool>* cancel = nullptr;
   std::size_t chunk = 64;  // sites evaluated together before their lines are written
+  // Called with (done, total) of the shard's sites after each chunk, on the calling thread.
+  std::function<void(std::size_t, std::size_t)> progress;
 };
 
 // Everything every site shares: the template unit as read, the code tables, the settings.
