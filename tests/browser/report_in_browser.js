@@ -1,4 +1,4 @@
-// The study report and the audit record opened in a real browser: headless Chromium (Debian
+// The study report, the audit record and the survey page opened in a real browser: headless Chromium (Debian
 // package `chromium`, installed by .ci/setup) renders each page at 1280 px and 390 px wide,
 // a small script in the page measures it, and screenshots are checked for content.
 //
@@ -143,6 +143,11 @@ const record = path.join(work, 'audit-record.html');
 limitline(['audit', 'examples/audit-office.toml', 'examples/trend-office.csv', '--format', 'html',
   '-o', record]);
 checkPage('audit-record', record, { minHeight: 2000, maxHeight: 20000, svgs: 1, tables: 3, pages: 2 });
+
+const survey = path.join(work, 'survey.html');
+limitline(['survey', 'examples/survey-sites.csv', 'examples/survey-office.toml', '--tune',
+  '--format', 'html', '-o', survey]);
+checkPage('survey', survey, { minHeight: 1500, maxHeight: 20000, svgs: 1, tables: 3, pages: 2 });
 
 if (failures) {
   console.error(`${failures} check(s) failed; screenshots in ${work}`);
