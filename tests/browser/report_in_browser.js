@@ -1,7 +1,6 @@
 // The study report, the audit record and the survey page opened in a real browser: headless
 // Chromium (Debian package `chromium`, installed by .ci/setup) renders each page at 1280 px and
-// 390 px wide,
-// a small script in the page measures it, and screenshots are checked for content.
+// 390 px wide, a small script in the page measures it, and screenshots are checked for content.
 //
 // At 1280 px no table may scroll sideways (each table's, and its wrapper's, scrollWidth within
 // its clientWidth) and the page may not be wider than the window; at 390 px (a phone) the page
