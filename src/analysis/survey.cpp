@@ -55,7 +55,7 @@ void SummaryBuilder::add(const SiteRecord& r) {
   const std::string key = zone_key(r.zone);
   auto z = std::find_if(zones_.begin(), zones_.end(), [&](const Zone& x) { return x.key == key; });
   if (z == zones_.end()) {
-    zones_.push_back({key, r.zone, 0, 0, {}, {}});
+    zones_.push_back({key, r.zone, 0, 0, 0, 0, {}, {}});
     z = zones_.end() - 1;
   }
   if (!r.ok) {
@@ -63,6 +63,10 @@ void SummaryBuilder::add(const SiteRecord& r) {
     return;
   }
   ++z->ok;
+  if (!r.economizer.empty()) {
+    ++z->judged;
+    if (r.economizer == "required") ++z->required;
+  }
   if (!r.code.empty() && !contains(z->codes, r.code)) z->codes.push_back(r.code);
   for (const StrategyFigures& f : r.strategies) {
     auto v = std::find_if(z->strategies.begin(), z->strategies.end(),
@@ -98,6 +102,8 @@ std::vector<ZoneSummary> SummaryBuilder::zones() const {
     s.sites_ok = z.ok;
     s.sites_failed = z.failed;
     s.codes = z.codes;
+    s.economizer_required = z.required;
+    s.economizer_judged = z.judged;
     for (const Values& v : z.strategies) {
       StrategySummary t;
       t.name = v.name;

@@ -292,6 +292,11 @@ SiteRecord Survey::evaluate(const ManifestRow& row) const {
       words =
           codes::compliance_words(*tables_, site.energy_code, site.climate_zone, pressure,
                                   in.strategies, site.energy_code_origin, site.climate_zone_origin);
+      const codes::ZoneRequirements zone = codes::requirements(
+          tables_->edition(site.energy_code, site.energy_code_origin), site.climate_zone,
+          {pressure, std::nullopt}, site.climate_zone_origin);
+      r.economizer = std::string(
+          codes::need_text(codes::economizer_need(zone, cooling_capacity(in.unit).kw).need));
     }
     r.operating_hours = year.operating_hours;
     r.perfect_savings = year.perfect_changeover.savings_vs_no_economizer_kwh;
@@ -466,6 +471,7 @@ std::string record_line(const SiteRecord& r) {
     j.field("error", r.error);
   } else {
     strings(j, "warnings", r.warnings);
+    j.field("economizer", r.economizer);
     j.field("operating_hours", r.operating_hours, kExact);
     j.field("perfect_savings", r.perfect_savings, kExact);
     j.field("tolerance", r.tolerance, kExact);
@@ -557,6 +563,7 @@ SiteRecord parse_record(std::string_view line, std::string_view where) {
     return r;
   }
   r.warnings = strings(o, "warnings", where);
+  r.economizer = text_of(o, "economizer", where);
   r.operating_hours = number_of(o, "operating_hours", where);
   r.perfect_savings = number_of(o, "perfect_savings", where);
   r.tolerance = number_of(o, "tolerance", where);

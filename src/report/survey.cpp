@@ -92,7 +92,13 @@ std::vector<std::string> zone_lines(const ZoneSummary& z) {
   const int n = z.sites_ok;
   out.push_back(fmt::format("{} site{} evaluated{}{}", n, n == 1 ? "" : "s",
                             z.sites_failed ? fmt::format(", {} failed", z.sites_failed) : "",
-                            any_code(z) ? "; code: " + join(z.codes, ", ") : "; no energy code"));
+                            n == 0        ? ""
+                            : any_code(z) ? "; code: " + join(z.codes, ", ")
+                                          : "; no energy code"));
+  if (z.economizer_judged)
+    out.push_back(fmt::format("The code requires an economizer on this unit at {} of {} site{}",
+                              z.economizer_required, z.economizer_judged,
+                              z.economizer_judged == 1 ? "" : "s"));
   if (z.strategies.empty()) return out;
   const auto most = [&](int StrategySummary::*count) {
     return std::max_element(
@@ -248,7 +254,7 @@ std::string survey_csv(const SurveyReport& r, bool sites) {
   }
   std::vector<Column> cols;
   for (const char* c : {"row", "line", "site", "weather", "zone", "code", "status", "error",
-                        "strategy", "rank", "compliance", "best", "best_allowed"})
+                        "economizer", "strategy", "rank", "compliance", "best", "best_allowed"})
     cols.push_back({c, Align::left});
   for (const std::string c : {"shortfall", "savings"}) cols.push_back({c + "_" + u, Align::left});
   cols.push_back({"harmful_h", Align::left});
@@ -269,7 +275,8 @@ std::string survey_csv(const SurveyReport& r, bool sites) {
                                            s.zone,
                                            s.code,
                                            s.ok ? "ok" : "failed",
-                                           s.error};
+                                           s.error,
+                                           s.economizer};
     if (!s.ok) {
       std::vector<std::string> row = lead;
       row.resize(cols.size());
@@ -326,6 +333,8 @@ std::string survey_json(const SurveyReport& r) {
     j.field("zone", z.zone);
     j.field("sites_ok", z.sites_ok);
     j.field("sites_failed", z.sites_failed);
+    j.field("economizer_required", z.economizer_required);
+    j.field("economizer_judged", z.economizer_judged);
     j.key("codes").begin_array();
     for (const auto& c : z.codes) j.value(c);
     j.end_array();
@@ -369,6 +378,7 @@ std::string survey_json(const SurveyReport& r) {
       j.end_object();
       continue;
     }
+    if (!s.economizer.empty()) j.field("economizer", s.economizer);
     j.field("operating_hours", s.operating_hours, 8);
     figure("perfect_savings", s.perfect_savings);
     figure("tie_tolerance", s.tolerance);

@@ -57,6 +57,10 @@ struct SiteRecord {
   bool ok = false;
   std::string error;                  // the one-line error of a failed site
   std::vector<std::string> warnings;  // implausible values and mismatches, one line each
+  // Whether the site's code requires an economizer on this unit (its cooling capacity in
+  // its zone): codes::need_text, "required", "not required in this zone", ...; empty
+  // without a code.
+  std::string economizer;
   double operating_hours = 0;
   double perfect_savings = 0;  // the perfect changeover's savings (the tie tolerance's scale)
   double tolerance = 0;        // the tie tolerance (analysis/decision.hpp)
@@ -83,8 +87,9 @@ struct StrategySummary {
 struct ZoneSummary {
   std::string zone;  // as the first site wrote it; "" for sites with no zone
   int sites_ok = 0, sites_failed = 0;
-  std::vector<std::string> codes;           // the editions its sites name, in order seen
-  std::vector<StrategySummary> strategies;  // by median shortfall, then first seen
+  int economizer_required = 0, economizer_judged = 0;  // sites whose code says, of this unit
+  std::vector<std::string> codes;                      // the editions its sites name, in order seen
+  std::vector<StrategySummary> strategies;             // by median shortfall, then first seen
 };
 
 // Accumulates records (any order) into one summary per zone. Zones are compared without
@@ -106,7 +111,7 @@ class SummaryBuilder {
   };
   struct Zone {
     std::string key, zone;
-    int ok = 0, failed = 0;
+    int ok = 0, failed = 0, required = 0, judged = 0;
     std::vector<std::string> codes;
     std::vector<Values> strategies;
   };
