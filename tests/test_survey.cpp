@@ -287,6 +287,10 @@ TEST_CASE("merge refuses another survey, a missing or repeated shard, a cut or i
   const auto p2b =
       write("p2b.jsonl", sv::header_line(other.info(), {2, 2}) + sv::end_line(0, true));
   CHECK(error_of({p1.string(), p2b.string()}).find("another survey") != std::string::npos);
+  // A line no partial of ours would hold.
+  const auto huge =
+      write("huge.jsonl", t1.substr(0, t1.find('\n') + 1) + std::string(2 << 20, ' '));
+  CHECK(error_of({huge.string(), p2.string()}).find(":2: a line longer than") != std::string::npos);
   // Not a partial at all.
   const auto junk = write("junk.jsonl", "{\"a\":1}\n");
   CHECK(error_of({junk.string()}).find("not a partial survey result") != std::string::npos);

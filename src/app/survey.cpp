@@ -658,8 +658,26 @@ class PartialReader {
   }
 
  private:
+  // A record is a few kilobytes; a longer line is no partial of ours, and is refused before
+  // it can take the memory a merge promises not to.
+  static constexpr std::size_t kMaxLine = 1u << 20;
   bool next(std::string& line) {
-    if (!std::getline(in_, line)) return false;
+    line.clear();
+    std::streambuf* sb = in_.rdbuf();
+    for (;;) {
+      const auto c = sb->sbumpc();
+      if (c == std::char_traits<char>::eof()) {
+        if (line.empty()) return false;
+        break;
+      }
+      if (c == '\n') break;
+      line.push_back(static_cast<char>(c));
+      if (line.size() > kMaxLine)
+        throw InputError(
+            fmt::format("{}:{}: a line longer than {} bytes; allowed: the lines "
+                        "limitline survey --shard writes",
+                        path_, line_no_ + 1, kMaxLine));
+    }
     ++line_no_;
     return true;
   }
