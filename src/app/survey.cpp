@@ -19,6 +19,7 @@
 #include <cstdint>
 #include <filesystem>
 #include <fstream>
+#include <thread>
 
 namespace limitline::survey {
 namespace fs = std::filesystem;
@@ -360,7 +361,10 @@ bool Survey::run(const Shard& shard, const std::function<void(const SiteRecord&)
   std::vector<const ManifestRow*> rows;
   for (const ManifestRow& r : manifest_.rows)
     if (shard.has(r.index)) rows.push_back(&r);
-  const std::size_t chunk = std::max<std::size_t>(options_.chunk, 1);
+  const std::size_t threads =
+      options_.threads ? options_.threads : std::max(1u, std::thread::hardware_concurrency());
+  const std::size_t chunk =
+      options_.chunk ? options_.chunk : std::max<std::size_t>(64, 8 * threads);
   std::vector<SiteRecord> done;
   for (std::size_t from = 0; from < rows.size(); from += chunk) {
     const std::size_t n = std::min(chunk, rows.size() - from);

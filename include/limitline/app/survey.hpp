@@ -63,7 +63,9 @@ struct SurveyOptions {
   bool tune = false;
   unsigned threads = 0;  // 0: all cores
   const std::atomic<bool>* cancel = nullptr;
-  std::size_t chunk = 64;  // sites evaluated together before their lines are written
+  // Sites evaluated together before their lines are written; 0: 64, or 8 per thread when
+  // there are more than 8 threads, so that the last site of a chunk idles few of them.
+  std::size_t chunk = 0;
   // Called with (done, total) of the shard's sites after each chunk, on the calling thread.
   std::function<void(std::size_t, std::size_t)> progress;
 };
