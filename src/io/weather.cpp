@@ -8,6 +8,7 @@
 #include <limitline/calendar.hpp>
 #include <limitline/io/input_file.hpp>
 #include <limitline/io/timeseries.hpp>
+#include <limitline/memo.hpp>
 #include <limitline/names.hpp>
 #include <limitline/text.hpp>
 #include <limitline/io/detail/raw_table.hpp>
@@ -17,7 +18,6 @@
 #include <fmt/format.h>
 
 #include <algorithm>
-#include <bit>
 #include <cmath>
 #include <cstdint>
 
@@ -1250,30 +1250,6 @@ struct State {
   double t, w, p;
 };
 
-// Saturation pressures already computed, by temperature: a year written to a tenth of a
-// degree holds a few hundred distinct values, and each new one costs an exp and a log.
-// A value that fails (out of the model's range) throws and is not kept.
-class SaturationMemo {
- public:
-  SaturationMemo() { keys_.fill(kEmpty); }
-  double kpa(double t_c) {
-    const auto bits = std::bit_cast<std::uint64_t>(t_c);
-    const std::size_t i = (bits * 0x9E3779B97F4A7C15ULL) >> (64 - kBits);
-    if (keys_[i] == bits) return values_[i];
-    const double v = psychro::saturation_pressure_kpa(t_c);
-    keys_[i] = bits;
-    values_[i] = v;
-    return v;
-  }
-
- private:
-  static constexpr int kBits = 10;
-  // A NaN pattern: the temperatures looked up are finite, so it never matches one.
-  static constexpr std::uint64_t kEmpty = ~std::uint64_t{0};
-  std::array<std::uint64_t, std::size_t{1} << kBits> keys_;
-  std::array<double, std::size_t{1} << kBits> values_{};
-};
-
 enum class Saturation { none, tolerance, rounding };
 
 // Turns one row into a moist-air state with the units, tolerances and humidity source found
@@ -1303,7 +1279,12 @@ class Resolver {
   bool file_pressure_;
   double site_pressure_;
   const WeatherInfo& inf_;
-  mutable SaturationMemo saturation_;
+  // Saturation pressures by temperature: a year written to a tenth of a degree holds a few
+  // hundred distinct values.
+  mutable Memo<double, 10> saturation_;
+  double saturation_kpa(double t_c) const {
+    return saturation_.get(t_c, [&] { return psychro::saturation_pressure_kpa(t_c); });
+  }
   // The vapour pressure of saturated air at -100 °C, the driest state the model reaches.
   double min_vapor_pressure_kpa_ = psychro::saturation_pressure_kpa(-100.0);
 };
@@ -1364,7 +1345,7 @@ bool Resolver::humidity(double h, State& s, Saturation& sat, std::string& why) c
         sat = excess > kTemperatureToleranceK + 1e-9 ? Saturation::rounding : Saturation::tolerance;
       }
       // psychro::humidity_ratio_from_dew_point, with the saturation pressure remembered.
-      s.w = dew ? psychro::humidity_ratio_from_vapor_pressure(saturation_.kpa(h), s.p)
+      s.w = dew ? psychro::humidity_ratio_from_vapor_pressure(saturation_kpa(h), s.p)
                 : psychro::humidity_ratio_from_wet_bulb(s.t, h, s.p);
       return true;
     }
@@ -1387,7 +1368,7 @@ bool Resolver::humidity(double h, State& s, Saturation& sat, std::string& why) c
       }
       // psychro::humidity_ratio_from_relative_humidity (h is within 0–1 here, as it
       // requires), with the saturation pressure remembered.
-      s.w = psychro::humidity_ratio_from_vapor_pressure(h * saturation_.kpa(s.t), s.p);
+      s.w = psychro::humidity_ratio_from_vapor_pressure(h * saturation_kpa(s.t), s.p);
       return true;
     }
     case HumiditySource::humidity_ratio: {
