@@ -99,7 +99,8 @@ bool fast_decimal(std::string_view s, double& v, Decimal& digits) {
     count += decimals;
   }
   if (p != e || count == 0 || count > 15) return false;
-  v = static_cast<double>(mantissa) / kPow10[decimals];
+  // Below 10^15, so the signed conversion (one instruction) is exact.
+  v = static_cast<double>(static_cast<std::int64_t>(mantissa)) / kPow10[decimals];
   if (negative) v = -v;
   digits = {mantissa, static_cast<int>(decimals)};
   return true;
