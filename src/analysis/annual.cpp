@@ -1,6 +1,7 @@
 #include <limitline/analysis/annual.hpp>
 
 #include <limitline/error.hpp>
+#include <limitline/memo.hpp>
 
 #include <fmt/format.h>
 
@@ -217,6 +218,16 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
   airside::HourAir air{};
   highlimit::AirValues ret_values{};
   airside::AirHandler u = unit;
+  // The design return air depends on the pressure alone, and a year holds a few hundred
+  // distinct pressures; the outdoor dew point on the humidity ratio and the pressure, which
+  // repeat in files that give the dew point to a tenth of a degree. Each costs an exp or a log.
+  struct DesignReturn {
+    double w;
+    airside::AirState air;
+    highlimit::AirValues values;
+  };
+  Memo<DesignReturn, 9> design_return;
+  Memo<double, 11> outdoor_dew_point;
 
   for (std::size_t i = 0; i < weather.size(); ++i) {
     const OutdoorInterval& w = weather[i];
@@ -248,18 +259,25 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
                             unit.coil_leaving_rh_max * pws_coil, w.pressure_kpa)};
     if (pressure_changed) {
       last_pressure = w.pressure_kpa;
-      w_design_ret =
-          design_return_humidity_ratio(ret_spec, pws_return, pws_return_dew, w.pressure_kpa);
-      psychro::check_humidity_ratio(w_design_ret, ret_spec.dry_bulb_c, w.pressure_kpa,
-                                    "return-air humidity ratio");
+      const DesignReturn& d = design_return.get(w.pressure_kpa, [&] {
+        DesignReturn r{};
+        r.w = design_return_humidity_ratio(ret_spec, pws_return, pws_return_dew, w.pressure_kpa);
+        psychro::check_humidity_ratio(r.w, ret_spec.dry_bulb_c, w.pressure_kpa,
+                                      "return-air humidity ratio");
+        if (!space) {
+          r.air = airside::air_state(ret_spec.dry_bulb_c, r.w);
+          r.values = highlimit::air_values(
+              r.air.dry_bulb_c, r.air.enthalpy_kj_per_kg,
+              opt.compute_dew_point ? psychro::dew_point_from_humidity_ratio_c(r.w, w.pressure_kpa)
+                                    : 0.0,
+              r.w);
+        }
+        return r;
+      });
+      w_design_ret = d.w;
       if (!space) {
-        air.ret = airside::air_state(ret_spec.dry_bulb_c, w_design_ret);
-        ret_values = highlimit::air_values(
-            air.ret.dry_bulb_c, air.ret.enthalpy_kj_per_kg,
-            opt.compute_dew_point
-                ? psychro::dew_point_from_humidity_ratio_c(w_design_ret, w.pressure_kpa)
-                : 0.0,
-            w_design_ret);
+        air.ret = d.air;
+        ret_values = d.values;
       }
     }
     air.outdoor = airside::air_state(w.dry_bulb_c, w.humidity_ratio);
@@ -267,7 +285,8 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
     const double rho = part_load::air_density_kg_per_m3(control.basis, w.pressure_kpa);
     const double design_flow = unit.supply_airflow_m3_per_s * rho;
     double mass_flow = design_flow;
-    PreparedInterval iv{};
+    // Built in place: the interval is a few hundred bytes, too many to copy every hour.
+    PreparedInterval& iv = p.intervals.emplace_back();
     if (space) {
       const part_load::SpaceLoads loads =
           space->coefficients ? space->coefficients->at(w.dry_bulb_c, space->space_temp_c)
@@ -314,32 +333,78 @@ Prepared prepare(const airside::AirHandler& unit, const AirPoint& ret_spec,
     iv.outdoor = highlimit::air_values(
         w.dry_bulb_c, air.outdoor.enthalpy_kj_per_kg,
         opt.compute_dew_point
-            ? psychro::dew_point_from_humidity_ratio_c(w.humidity_ratio, w.pressure_kpa)
+            ? outdoor_dew_point.get(w.humidity_ratio, w.pressure_kpa,
+                                    [&] {
+                                      return psychro::dew_point_from_humidity_ratio_c(
+                                          w.humidity_ratio, w.pressure_kpa);
+                                    })
             : 0.0,
         w.humidity_ratio);
     iv.ret = ret_values;
     p.model.space_sensible_kwh += iv.sensible_kwh;
     p.model.space_latent_kwh += iv.latent_kwh;
     p.model.zone_heating_kwh += iv.zone_heating_kwh;
-    p.intervals.push_back(iv);
   }
   return p;
 }
 
-StrategyResult run(const highlimit::Strategy& strategy, const Prepared& p, const RunOptions& opt) {
+namespace {
+
+// One interval of one strategy: its decision (updating the deadband state) and the totals of
+// the interval's month. Returns whether it enabled.
+inline bool step(const highlimit::Strategy& strategy, highlimit::StrategyState& state,
+                 const PreparedInterval& iv, StrategyResult& r) {
+  const bool enabled = highlimit::permits(strategy, iv.outdoor, iv.ret, state);
+  Totals& t = r.monthly[iv.month - 1u];
+  accumulate(t, iv, enabled ? iv.enabled : iv.disabled, enabled);
+  score(t, iv, enabled);
+  return enabled;
+}
+
+// One interval of a reference. Returns whether it enabled.
+inline bool step(Kind reference, const PreparedInterval& iv, StrategyResult& r) {
+  Totals& t = r.monthly[iv.month - 1u];
+  bool enabled = false;
+  switch (reference) {
+    case Kind::no_economizer:
+      accumulate(t, iv, iv.disabled, false);
+      score(t, iv, false);
+      break;
+    case Kind::perfect_changeover:
+      enabled = iv.enabling_pays();
+      accumulate(t, iv, enabled ? iv.enabled : iv.disabled, enabled);
+      break;
+    case Kind::optimal_damper:
+      // Not a changeover: "enabled" means the damper is above the minimum; no scoring.
+      enabled = iv.optimal.economizing;
+      accumulate(t, iv, iv.optimal, enabled);
+      break;
+    case Kind::strategy: throw std::logic_error("annual::run_reference: not a reference");
+  }
+  return enabled;
+}
+
+void check_dew_points(const highlimit::Strategy& strategy, const Prepared& p) {
   if (!p.has_dew_point && strategy.needs(highlimit::Quantity::dew_point))
     throw std::logic_error("annual::run: dew points were not prepared for a dew-point strategy");
+}
+
+StrategyResult start(std::string name, Kind kind, const Prepared& p, const RunOptions& opt) {
   StrategyResult r;
-  r.name = strategy.name;
-  r.kind = Kind::strategy;
+  r.name = std::move(name);
+  r.kind = kind;
   if (opt.keep_decisions) r.enabled_by_interval.resize(p.intervals.size());
+  return r;
+}
+
+}  // namespace
+
+StrategyResult run(const highlimit::Strategy& strategy, const Prepared& p, const RunOptions& opt) {
+  check_dew_points(strategy, p);
+  StrategyResult r = start(strategy.name, Kind::strategy, p, opt);
   highlimit::StrategyState state(strategy);
   for (std::size_t i = 0; i < p.intervals.size(); ++i) {
-    const PreparedInterval& iv = p.intervals[i];
-    const bool enabled = highlimit::permits(strategy, iv.outdoor, iv.ret, state);
-    Totals& t = r.monthly[iv.month - 1u];
-    accumulate(t, iv, enabled ? iv.enabled : iv.disabled, enabled);
-    score(t, iv, enabled);
+    const bool enabled = step(strategy, state, p.intervals[i], r);
     if (opt.keep_decisions) r.enabled_by_interval[i] = enabled;
   }
   finish(r);
@@ -347,30 +412,9 @@ StrategyResult run(const highlimit::Strategy& strategy, const Prepared& p, const
 }
 
 StrategyResult run_reference(Kind reference, const Prepared& p, const RunOptions& opt) {
-  StrategyResult r;
-  r.name = std::string(reference_name(reference));
-  r.kind = reference;
-  if (opt.keep_decisions) r.enabled_by_interval.resize(p.intervals.size());
+  StrategyResult r = start(std::string(reference_name(reference)), reference, p, opt);
   for (std::size_t i = 0; i < p.intervals.size(); ++i) {
-    const PreparedInterval& iv = p.intervals[i];
-    Totals& t = r.monthly[iv.month - 1u];
-    bool enabled = false;
-    switch (reference) {
-      case Kind::no_economizer:
-        accumulate(t, iv, iv.disabled, false);
-        score(t, iv, false);
-        break;
-      case Kind::perfect_changeover:
-        enabled = iv.enabling_pays();
-        accumulate(t, iv, enabled ? iv.enabled : iv.disabled, enabled);
-        break;
-      case Kind::optimal_damper:
-        // Not a changeover: "enabled" means the damper is above the minimum; no scoring.
-        enabled = iv.optimal.economizing;
-        accumulate(t, iv, iv.optimal, enabled);
-        break;
-      case Kind::strategy: throw std::logic_error("annual::run_reference: not a reference");
-    }
+    const bool enabled = step(reference, p.intervals[i], r);
     if (opt.keep_decisions) r.enabled_by_interval[i] = enabled;
   }
   finish(r);
@@ -383,9 +427,37 @@ YearResult evaluate(std::span<const highlimit::Strategy> strategies, const Prepa
   y.total_hours = p.total_hours;
   y.operating_hours = p.operating_hours;
   y.model = p.model;
-  y.no_economizer = run_reference(Kind::no_economizer, p, opt);
-  y.perfect_changeover = run_reference(Kind::perfect_changeover, p, opt);
-  y.optimal_damper = run_reference(Kind::optimal_damper, p, opt);
+  for (const auto& s : strategies) check_dew_points(s, p);
+  // One pass over the year for the references and every strategy together: each interval is
+  // read from memory once rather than once per strategy. Each result's totals still add the
+  // intervals in the same order as run() and run_reference(), so the sums are the same.
+  y.no_economizer =
+      start(std::string(reference_name(Kind::no_economizer)), Kind::no_economizer, p, opt);
+  y.perfect_changeover = start(std::string(reference_name(Kind::perfect_changeover)),
+                               Kind::perfect_changeover, p, opt);
+  y.optimal_damper =
+      start(std::string(reference_name(Kind::optimal_damper)), Kind::optimal_damper, p, opt);
+  y.strategies.reserve(strategies.size());
+  std::vector<highlimit::StrategyState> states;
+  states.reserve(strategies.size());
+  for (const auto& s : strategies) {
+    y.strategies.push_back(start(s.name, Kind::strategy, p, opt));
+    states.emplace_back(s);
+  }
+  StrategyResult* const refs[] = {&y.no_economizer, &y.perfect_changeover, &y.optimal_damper};
+  for (std::size_t i = 0; i < p.intervals.size(); ++i) {
+    const PreparedInterval& iv = p.intervals[i];
+    for (StrategyResult* r : refs) {
+      const bool enabled = step(r->kind, iv, *r);
+      if (opt.keep_decisions) r->enabled_by_interval[i] = enabled;
+    }
+    for (std::size_t k = 0; k < strategies.size(); ++k) {
+      const bool enabled = step(strategies[k], states[k], iv, y.strategies[k]);
+      if (opt.keep_decisions) y.strategies[k].enabled_by_interval[i] = enabled;
+    }
+  }
+  for (StrategyResult* r : refs) finish(*r);
+  for (StrategyResult& r : y.strategies) finish(r);
   const double e_none = y.no_economizer.annual.energy_kwh;
   const double e_perfect = y.perfect_changeover.annual.energy_kwh;
   auto settle = [&](StrategyResult& r) {
@@ -395,11 +467,7 @@ YearResult evaluate(std::span<const highlimit::Strategy> strategies, const Prepa
   settle(y.no_economizer);
   settle(y.perfect_changeover);
   settle(y.optimal_damper);
-  y.strategies.reserve(strategies.size());
-  for (const auto& s : strategies) {
-    y.strategies.push_back(run(s, p, opt));
-    settle(y.strategies.back());
-  }
+  for (StrategyResult& r : y.strategies) settle(r);
   // Rank by shortfall; equal shortfalls keep the unit file's order.
   std::stable_sort(y.strategies.begin(), y.strategies.end(), [](const auto& a, const auto& b) {
     return a.shortfall_vs_perfect_kwh < b.shortfall_vs_perfect_kwh;

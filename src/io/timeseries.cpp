@@ -9,6 +9,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <bit>
 #include <cctype>
 #include <charconv>
 #include <chrono>
@@ -69,32 +70,39 @@ bool is_sentinel(double v) {
 // Decimal numbers as series files write them ("-12.5", "99870.0"): the digits as an integer
 // and one division by a power of ten. That is correctly rounded, as std::from_chars is, while
 // both operands are exact doubles (at most 15 digits, so below 2^53; powers up to 1e15).
-// Anything else (exponents, long numbers, words) is left to std::from_chars.
-bool fast_decimal(std::string_view s, double& v) {
-  constexpr double kPow10[] = {1e0, 1e1, 1e2,  1e3,  1e4,  1e5,  1e6,  1e7,
-                               1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15};
+// Anything else (exponents, long numbers, words) is left to std::from_chars. The digits read
+// are kept in `digits` for callers that judge the written resolution without rounding.
+bool fast_decimal(std::string_view s, double& v, Decimal& digits) {
+  static constexpr double kPow10[] = {1e0, 1e1, 1e2,  1e3,  1e4,  1e5,  1e6,  1e7,
+                                      1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15};
   const char* p = s.data();
   const char* const e = p + s.size();
   const bool negative = p < e && *p == '-';
   if (negative) ++p;
+  // Integer part, then fraction: two tight loops. More than 15 digits is refused once at
+  // the end (the unsigned mantissa may have wrapped by then; it is not used).
   std::uint64_t mantissa = 0;
-  int digits = 0, decimals = 0;
-  bool point = false;
-  for (; p < e; ++p) {
-    const char c = *p;
-    if (c >= '0' && c <= '9') {
-      if (++digits > 15) return false;
-      mantissa = mantissa * 10 + static_cast<std::uint64_t>(c - '0');
-      decimals += point;
-    } else if (c == '.' && !point) {
-      point = true;
-    } else {
-      return false;
-    }
+  const char* const int_start = p;
+  while (p < e && static_cast<unsigned char>(*p - '0') < 10) {
+    mantissa = mantissa * 10 + static_cast<std::uint64_t>(*p - '0');
+    ++p;
   }
-  if (digits == 0) return false;
-  v = static_cast<double>(mantissa) / kPow10[decimals];
+  std::ptrdiff_t decimals = 0;
+  std::ptrdiff_t count = p - int_start;
+  if (p < e && *p == '.') {
+    const char* const frac_start = ++p;
+    while (p < e && static_cast<unsigned char>(*p - '0') < 10) {
+      mantissa = mantissa * 10 + static_cast<std::uint64_t>(*p - '0');
+      ++p;
+    }
+    decimals = p - frac_start;
+    count += decimals;
+  }
+  if (p != e || count == 0 || count > 15) return false;
+  // Below 10^15, so the signed conversion (one instruction) is exact.
+  v = static_cast<double>(static_cast<std::int64_t>(mantissa)) / kPow10[decimals];
   if (negative) v = -v;
+  digits = {mantissa, static_cast<int>(decimals)};
   return true;
 }
 
@@ -229,8 +237,10 @@ HeaderLine read_header_line(std::string_view line) {
   return h;
 }
 
-void split_fields(std::string_view line, char delim, std::vector<std::string_view>& out) {
-  out.clear();
+namespace {
+
+// The general split: quotes, text after a closing quote, blanks before a field.
+void split_quoted(std::string_view line, char delim, std::vector<std::string_view>& out) {
   const char* p = line.data();
   const char* const end = p + line.size();
   for (;;) {
@@ -259,6 +269,65 @@ void split_fields(std::string_view line, char delim, std::vector<std::string_vie
     if (p >= end) break;
     ++p;
   }
+}
+
+// A field of a line without quotes: the text between two delimiters, blanks (' ', tab)
+// before it and white space after it dropped, exactly as split_quoted cuts it.
+inline void push_plain(const char* p, const char* q, std::vector<std::string_view>& out) {
+  while (p < q && (*p == ' ' || *p == '\t')) ++p;
+  while (q > p && is_space(q[-1])) --q;
+  out.emplace_back(p, static_cast<std::size_t>(q - p));
+}
+
+// The top bit of each byte of `word` that equals the byte repeated in `pattern`, exactly
+// (no borrow from one byte into the next, unlike the shorter zero-byte test).
+inline std::uint64_t bytes_equal(std::uint64_t word, std::uint64_t pattern) {
+  constexpr std::uint64_t kLow7 = 0x7F7F7F7F7F7F7F7FULL;
+  const std::uint64_t x = word ^ pattern;
+  return ~(((x & kLow7) + kLow7) | x | kLow7);
+}
+
+// Most data rows hold no quote: their delimiters are found eight bytes at a time. Returns
+// false, with `out` partly filled, at the first quote, which needs the general split.
+bool split_plain(std::string_view line, char delim, std::vector<std::string_view>& out) {
+  constexpr std::uint64_t kOnes = 0x0101010101010101ULL;
+  const std::uint64_t delims = kOnes * static_cast<unsigned char>(delim);
+  const std::uint64_t quotes = kOnes * static_cast<unsigned char>('"');
+  const char* const begin = line.data();
+  const char* const end = begin + line.size();
+  const char* field = begin;
+  const char* p = begin;
+  for (; end - p >= 8; p += 8) {
+    std::uint64_t word;
+    std::memcpy(&word, p, 8);
+    if (bytes_equal(word, quotes) != 0) return false;
+    for (std::uint64_t hits = bytes_equal(word, delims); hits != 0; hits &= hits - 1) {
+      const char* const at = p + std::countr_zero(hits) / 8;
+      push_plain(field, at, out);
+      field = at + 1;
+    }
+  }
+  for (; p < end; ++p) {
+    if (*p == '"') return false;
+    if (*p == delim) {
+      push_plain(field, p, out);
+      field = p + 1;
+    }
+  }
+  push_plain(field, end, out);
+  return true;
+}
+
+}  // namespace
+
+void split_fields(std::string_view line, char delim, std::vector<std::string_view>& out) {
+  out.clear();
+  // The word-at-a-time scan reads bytes in memory order from the low end of the word.
+  if constexpr (std::endian::native == std::endian::little) {
+    if (split_plain(line, delim, out)) return;
+    out.clear();
+  }
+  split_quoted(line, delim, out);
 }
 
 TimeColumns resolve_time(const std::array<int, kTimeRoleCount>& column) {
@@ -358,10 +427,11 @@ bool parse_date(std::string_view s, bool day_first, Stamp& st, DateForm& form) {
 
 bool parse_clock(std::string_view s, int& minute_of_day, ClockForm& form) {
   // Fractional seconds, if any, must be zero too ("13:00:00.000").
-  if (const std::size_t dot = s.find('.'); dot != std::string_view::npos) {
-    const std::string_view frac = s.substr(dot + 1);
+  // A short field: a plain scan, not a library call.
+  if (const auto dot = std::find(s.begin(), s.end(), '.'); dot != s.end()) {
+    const std::string_view frac(dot + 1, s.end());
     if (!all_digits(frac) || frac.find_first_not_of('0') != std::string_view::npos) return false;
-    s = s.substr(0, dot);
+    s = std::string_view(s.begin(), dot);
   }
   DigitGroups g;
   if (!digit_groups(s, g)) return false;
@@ -545,7 +615,9 @@ Conversion conversion(const UnitSpelling& u) {
   return {at("1") - zero, zero, u.label};
 }
 
-Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_comma) {
+Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_comma,
+               Decimal& digits) {
+  digits = {};
   if (s.empty()) return Cell::empty;
   std::string_view n = s.front() == '+' ? s.substr(1) : s;
   char buf[64];
@@ -556,7 +628,7 @@ Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_com
     n = std::string_view(buf, n.size());
     used_comma = true;
   }
-  if (fast_decimal(n, v)) return is_sentinel(v) ? Cell::sentinel : Cell::ok;
+  if (fast_decimal(n, v, digits)) return is_sentinel(v) ? Cell::sentinel : Cell::ok;
   const auto r = std::from_chars(n.data(), n.data() + n.size(), v);
   if (r.ec == std::errc() && r.ptr == n.data() + n.size()) {
     if (std::isnan(v)) return Cell::marker;
@@ -568,9 +640,15 @@ Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_com
   return Cell::not_number;
 }
 
+Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_comma) {
+  Decimal digits;
+  return read_cell(s, decimal_comma, v, used_comma, digits);
+}
+
 bool read_number(std::string_view s, double& v) {
   if (!s.empty() && s.front() == '+') s.remove_prefix(1);
-  if (fast_decimal(s, v)) return true;
+  Decimal digits;
+  if (fast_decimal(s, v, digits)) return true;
   const auto r = std::from_chars(s.data(), s.data() + s.size(), v);
   return r.ec == std::errc() && r.ptr == s.data() + s.size() && std::isfinite(v);
 }

@@ -8,6 +8,7 @@
 #include <limitline/calendar.hpp>
 #include <limitline/io/input_file.hpp>
 #include <limitline/io/timeseries.hpp>
+#include <limitline/memo.hpp>
 #include <limitline/names.hpp>
 #include <limitline/text.hpp>
 #include <limitline/io/detail/raw_table.hpp>
@@ -427,6 +428,55 @@ Layout choose_columns(const Context& cx, const Header& h) {
   return out;
 }
 
+// --- Written steps: what each cell's digits say about its resolution (stage 4b) -----------
+
+// The steps a column's values may have been written to, coarsest first: 1/kStepDivisor[k].
+constexpr double kSteps[] = {1.0, 0.5, 0.1, 0.05, 0.01, 0.001};
+constexpr int kStepDivisor[] = {1, 2, 10, 20, 100, 1000};
+constexpr std::uint8_t kAllSteps = (1u << std::size(kSteps)) - 1;
+
+// The steps `v` is a whole multiple of (bit k: kSteps[k]), within 1e-6 of a multiple.
+std::uint8_t steps_by_division(double v) {
+  std::uint8_t m = 0;
+  for (std::size_t k = 0; k < std::size(kSteps); ++k) {
+    const double q = v / kSteps[k];
+    if (!(std::fabs(q - std::round(q)) > 1e-6)) m |= static_cast<std::uint8_t>(1u << k);
+  }
+  return m;
+}
+
+// steps_by_division() of M / 10^d for d ≤ 3 from the digits alone: M/10^d is a multiple of
+// 1/c when M·c is one of 10^d, which only the last d digits r = M mod 10^d decide. The table
+// holds the steps of each (d, r), at offset (10^d − 1)/9.
+constexpr std::array<std::uint8_t, 1111> kStepsByDigits = [] {
+  std::array<std::uint8_t, 1111> t{};
+  int offset = 0;
+  for (int pow = 1; pow <= 1000; offset += pow, pow *= 10)
+    for (int r = 0; r < pow; ++r)
+      for (std::size_t k = 0; k < std::size(kSteps); ++k)
+        if (r * kStepDivisor[k] % pow == 0)
+          t[static_cast<std::size_t>(offset + r)] |= static_cast<std::uint8_t>(1u << k);
+  return t;
+}();
+constexpr std::uint8_t kStepsUnknown = 0x80;
+
+// The steps of a cell from the digits it was written with. Both ways agree while d ≤ 3 and
+// the quotient v/step stays below 1e9: a quotient that is whole in decimal is then within
+// 4e-7 of a whole number in floating point (three roundings of 2^-53 each), and one that is
+// not is at least 10^-d = 1e-3 from one. Anything else is left to the division.
+std::uint8_t steps_of(const ts::Decimal& digits) {
+  constexpr std::uint64_t kMaxMantissa[] = {1'000'000, 10'000'000, 100'000'000, 1'000'000'000};
+  const int d = digits.decimals;
+  if (d < 0 || d > 3 || digits.mantissa > kMaxMantissa[d]) return kStepsUnknown;
+  const std::uint64_t m = digits.mantissa;
+  switch (d) {
+    case 0: return kStepsByDigits[0];
+    case 1: return kStepsByDigits[1 + m % 10];
+    case 2: return kStepsByDigits[11 + m % 100];
+    default: return kStepsByDigits[111 + m % 1000];
+  }
+}
+
 // --- Stage 3a: the rows and their stamps ---------------------------------------------------
 
 // Where a row sits in time once the stamp convention is applied.
@@ -440,6 +490,7 @@ struct Row {
   Stamp stamp;  // as written
   std::array<double, 3> raw{};
   std::array<Cell, 3> cell{};
+  std::array<std::uint8_t, 3> steps{};  // steps_of() the digits of each cell
   std::array<std::string_view, 3> text{};
   Interval at{};  // set by the time axis
 };
@@ -497,7 +548,9 @@ Table read_rows(const Context& cx, const std::vector<ts::Line>& lines, const Hea
       if (layout.slot_column[s] < 0) continue;
       const std::string_view cell = f[static_cast<std::size_t>(layout.slot_column[s])];
       r.text[s] = cell;
-      r.cell[s] = ts::read_cell(cell, comma_decimal, r.raw[s], out.decimal_comma);
+      ts::Decimal digits;
+      r.cell[s] = ts::read_cell(cell, comma_decimal, r.raw[s], out.decimal_comma, digits);
+      r.steps[s] = steps_of(digits);
     }
     out.last_data_line = l.number;
     out.rows.push_back(r);
@@ -869,18 +922,13 @@ std::array<Conversion, 3> resolve_units(const Context& cx, const std::vector<ts:
 // every value is a whole multiple. Under a day of values says nothing (a few whole numbers
 // are whole by chance), so it is 0 then, as for values finer than a thousandth.
 double resolution_of(const std::vector<Row>& rows, std::size_t slot) {
-  constexpr double kSteps[] = {1.0, 0.5, 0.1, 0.05, 0.01, 0.001};
-  constexpr unsigned kAll = (1u << std::size(kSteps)) - 1;
-  unsigned alive = kAll;
+  unsigned alive = kAllSteps;
   int n = 0;
   for (const Row& r : rows) {
     if (r.cell[slot] != Cell::ok) continue;
     ++n;
-    for (std::size_t k = 0; k < std::size(kSteps); ++k) {
-      if (!(alive >> k & 1u)) continue;
-      const double q = r.raw[slot] / kSteps[k];
-      if (std::fabs(q - std::round(q)) > 1e-6) alive &= ~(1u << k);
-    }
+    const std::uint8_t steps = r.steps[slot];
+    alive &= steps == kStepsUnknown ? steps_by_division(r.raw[slot]) : steps;
     if (alive == 0) return 0.0;
   }
   if (n < kMinStatisticRows) return 0.0;
@@ -939,20 +987,42 @@ struct LabelInputs {
   const WeatherInfo& info;
 };
 
+// The band of a quantity's median, if it has one (each has at most one).
+const MedianBand* median_band(Quantity q) {
+  for (const MedianBand& b : kMedianBands)
+    if (b.quantity == q) return &b;
+  return nullptr;
+}
+constexpr bool one_band_each() {
+  for (std::size_t i = 0; i < std::size(kMedianBands); ++i)
+    for (std::size_t j = i + 1; j < std::size(kMedianBands); ++j)
+      if (kMedianBands[i].quantity == kMedianBands[j].quantity) return false;
+  return true;
+}
+static_assert(one_band_each());
+
 struct Stats {
   int n = 0, impossible = 0;
-  double median = 0.0, max = 0.0;
+  double max = 0.0;
+  // Values below and above the quantity's median band. The upper median (index n/2 of the
+  // sorted values) is at least lo when at most n/2 values are below lo, and at most hi when
+  // at most n − 1 − n/2 are above hi: the band test needs no sort, only a message the median.
+  int below_band = 0, above_band = 0;
+  [[nodiscard]] bool median_in_band() const {
+    return below_band <= n / 2 && above_band <= n - 1 - n / 2;
+  }
 };
 
 // The readable values of `slot` converted with `c` (the dry-bulb with `dry`): how many are
-// impossible for the quantity, their median and their largest.
+// impossible for the quantity, how many lie outside its median band, and their largest.
 Stats stats_of(const LabelInputs& in, std::size_t slot, const Conversion& c,
                const Conversion& dry) {
-  const Kind kind = info(in.layout.slot_quantity[slot]).kind;
+  const Quantity q = in.layout.slot_quantity[slot];
+  const Kind kind = info(q).kind;
   const Plausible& pl = plausible(kind);
+  const MedianBand* band = median_band(q);
+  const double band_lo = band ? band->lo : -HUGE_VAL, band_hi = band ? band->hi : HUGE_VAL;
   Stats st;
-  std::vector<double> v;
-  v.reserve(in.rows.size());
   for (const Row& r : in.rows) {
     if (r.cell[slot] != Cell::ok) continue;
     const double x = r.raw[slot] * c.scale + c.offset;
@@ -962,13 +1032,20 @@ Stats stats_of(const LabelInputs& in, std::size_t slot, const Conversion& c,
     if (slot == kHumidity && kind == Kind::fraction)
       bad = bad || x <= 0.0 || x > 1.0 + in.info.relative_humidity_tolerance;
     st.impossible += bad;
-    v.push_back(x);
+    st.below_band += x < band_lo;
+    st.above_band += x > band_hi;
+    if (st.n++ == 0 || x > st.max) st.max = x;
   }
-  st.n = static_cast<int>(v.size());
-  if (v.empty()) return st;
-  st.median = ts::median(v);
-  st.max = *std::max_element(v.begin(), v.end());
   return st;
+}
+
+// The upper median of the readable values of `slot` converted with `c`, for a message.
+double median_of(const LabelInputs& in, std::size_t slot, const Conversion& c) {
+  std::vector<double> v;
+  v.reserve(in.rows.size());
+  for (const Row& r : in.rows)
+    if (r.cell[slot] == Cell::ok) v.push_back(r.raw[slot] * c.scale + c.offset);
+  return ts::median(v);
 }
 
 std::string si_text(Kind kind, double v) {
@@ -989,8 +1066,8 @@ bool whole_year(const std::vector<Row>& rows) {
 // Why the values of `slot`, read with a unit, cannot be the quantity in that unit; empty when
 // they can. `statistical` says whether the reason is the column as a whole (its median or
 // its year's highest value) rather than a share of impossible rows.
-std::string implausible(const LabelInputs& in, std::size_t slot, const Stats& st,
-                        bool& statistical) {
+std::string implausible(const LabelInputs& in, std::size_t slot, const Conversion& c,
+                        const Stats& st, bool& statistical) {
   statistical = false;
   if (st.n < kMinStatisticRows) return "";
   const Quantity q = in.layout.slot_quantity[slot];
@@ -999,13 +1076,12 @@ std::string implausible(const LabelInputs& in, std::size_t slot, const Stats& st
   if (st.impossible > kLabelImpossibleShare * st.n)
     why.push_back(fmt::format("{} of {} rows ({:.1f} %) are impossible for a {}", st.impossible,
                               st.n, 100.0 * st.impossible / st.n, info(q).label));
-  for (const MedianBand& b : kMedianBands)
-    if (b.quantity == q && !(st.median >= b.lo && st.median <= b.hi)) {
-      why.push_back(fmt::format("its median is {}, where {} lies between {} and {}",
-                                si_text(kind, st.median), b.what, si_text(kind, b.lo),
-                                si_text(kind, b.hi)));
-      statistical = true;
-    }
+  if (const MedianBand* b = median_band(q); b && !st.median_in_band()) {
+    why.push_back(fmt::format("its median is {}, where {} lies between {} and {}",
+                              si_text(kind, median_of(in, slot, c)), b->what, si_text(kind, b->lo),
+                              si_text(kind, b->hi)));
+    statistical = true;
+  }
   const Plausible& pl = plausible(kind);
   // A dew point can stay low all year on a cold dry plateau; the dry-bulb and the RH
   // cannot stay below their floors through a whole year anywhere an economizer runs.
@@ -1090,7 +1166,7 @@ Judgement judge(const LabelInputs& in, const std::vector<Choice>& combo) {
   for (const Choice& c : combo) {
     const Stats st = stats_of(in, c.slot, c.conv, dry);
     bool s = false;
-    j.why.push_back(implausible(in, c.slot, st, s));
+    j.why.push_back(implausible(in, c.slot, c.conv, st, s));
     j.statistical = j.statistical || s;
     j.impossible += st.impossible;
   }
@@ -1131,9 +1207,8 @@ void check_group(const LabelInputs& in, const std::vector<std::size_t>& group, L
         as_read.why[i].empty() ? "read with the other column's unit" : as_read.why[i]);
     if (changed) {
       const UnitSpelling& h = *(*best)[i].unit;
-      const Stats st = stats_of(in, slot, (*best)[i].conv, dry_of(in, *best));
       text += fmt::format("; read in {} its values are plausible (median {})", h.label,
-                          si_text(info(q).kind, st.median));
+                          si_text(info(q).kind, median_of(in, slot, (*best)[i].conv)));
       const std::string_view key = info(q).key;
       out.mapping_fix.push_back(fmt::format("{} = {{ unit = \"{}\" }}", key, h.help));
       out.cli_fix.push_back("--column " + echo(fmt::format("{}={}:{}", key, u->header, h.help)));
@@ -1204,6 +1279,12 @@ class Resolver {
   bool file_pressure_;
   double site_pressure_;
   const WeatherInfo& inf_;
+  // Saturation pressures by temperature: a year written to a tenth of a degree holds a few
+  // hundred distinct values.
+  mutable Memo<double, 10> saturation_;
+  double saturation_kpa(double t_c) const {
+    return saturation_.get(t_c, [&] { return psychro::saturation_pressure_kpa(t_c); });
+  }
   // The vapour pressure of saturated air at -100 °C, the driest state the model reaches.
   double min_vapor_pressure_kpa_ = psychro::saturation_pressure_kpa(-100.0);
 };
@@ -1263,7 +1344,8 @@ bool Resolver::humidity(double h, State& s, Saturation& sat, std::string& why) c
         h = s.t;
         sat = excess > kTemperatureToleranceK + 1e-9 ? Saturation::rounding : Saturation::tolerance;
       }
-      s.w = dew ? psychro::humidity_ratio_from_dew_point(h, s.p)
+      // psychro::humidity_ratio_from_dew_point, with the saturation pressure remembered.
+      s.w = dew ? psychro::humidity_ratio_from_vapor_pressure(saturation_kpa(h), s.p)
                 : psychro::humidity_ratio_from_wet_bulb(s.t, h, s.p);
       return true;
     }
@@ -1284,7 +1366,9 @@ bool Resolver::humidity(double h, State& s, Saturation& sat, std::string& why) c
                                                           : Saturation::tolerance;
         h = 1.0;
       }
-      s.w = psychro::humidity_ratio_from_relative_humidity(s.t, h, s.p);
+      // psychro::humidity_ratio_from_relative_humidity (h is within 0–1 here, as it
+      // requires), with the saturation pressure remembered.
+      s.w = psychro::humidity_ratio_from_vapor_pressure(h * saturation_kpa(s.t), s.p);
       return true;
     }
     case HumiditySource::humidity_ratio: {

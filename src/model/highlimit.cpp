@@ -101,16 +101,6 @@ double deadband_for(const PresetSettings& s, Quantity q) {
   return 0.0;
 }
 
-// One condition's new status given its previous tripped flag: trips above the limit, clears
-// below limit − deadband, holds in between. Without a deadband there is nothing to hold: a
-// value back at the limit is clear whatever came before (weather on a 0.1 °C grid sits exactly
-// on a 24 °C limit often enough for this to matter).
-inline ConditionStatus evaluate(double outdoor, double limit, double deadband, bool was_tripped) {
-  if (outdoor > limit) return ConditionStatus::tripped;
-  if (was_tripped && deadband > 0.0 && outdoor >= limit - deadband) return ConditionStatus::held;
-  return ConditionStatus::clear;
-}
-
 }  // namespace
 
 std::string_view quantity_name(Quantity q) { return name_in(kQuantityNames, q); }
@@ -210,7 +200,7 @@ Decision decide(const Strategy& s, const AirValues& outdoor, const AirValues& re
     const Condition& c = s.conditions[i];
     const double limit = c.effective_limit(ret);
     const double value = outdoor[c.quantity];
-    const ConditionStatus st = evaluate(value, limit, c.deadband, state.tripped[i] != 0);
+    const ConditionStatus st = condition_status(value, limit, c.deadband, state.tripped[i] != 0);
     d.results.push_back({value, limit, value - limit, st});
     state.tripped[i] = st != ConditionStatus::clear;
     if (st != ConditionStatus::clear && d.enabled) {
@@ -219,21 +209,6 @@ Decision decide(const Strategy& s, const AirValues& outdoor, const AirValues& re
     }
   }
   return d;
-}
-
-bool permits(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
-             StrategyState& state) {
-  if (state.tripped.size() != s.conditions.size()) state = StrategyState(s);
-  bool enabled = true;
-  // Every condition is evaluated (not short-circuited) so each one's deadband state stays true.
-  for (std::size_t i = 0; i < s.conditions.size(); ++i) {
-    const Condition& c = s.conditions[i];
-    const bool off = evaluate(outdoor[c.quantity], c.effective_limit(ret), c.deadband,
-                              state.tripped[i] != 0) != ConditionStatus::clear;
-    state.tripped[i] = off;
-    enabled = enabled && !off;
-  }
-  return enabled;
 }
 
 }  // namespace limitline::highlimit

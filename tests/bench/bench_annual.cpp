@@ -143,4 +143,39 @@ void BM_StrategiesOnPreparedYear(benchmark::State& state) {
 }
 BENCHMARK(BM_StrategiesOnPreparedYear)->Unit(benchmark::kMicrosecond);
 
+// evaluate() alone on a prepared year: the three references and all presets in its one pass
+// over the intervals, what a batch site costs after prepare (issue 18).
+void BM_EvaluatePreparedYear(benchmark::State& state) {
+  const UnitFile unit = parse_unit_file(kUnit, "bench.toml");
+  const Schedule schedule;  // always occupied: 8760 fan-on hours
+  const auto strategies = strategies_or_presets(unit);
+  const auto w = weather::read_text(weather_text(), "greensboro", weather::Mapping{},
+                                    unit.site.design_pressure_kpa());
+  const auto p =
+      annual::prepare(unit.air_handler, unit.return_air, outdoor_intervals(w), schedule, {});
+  for (auto _ : state) {
+    auto y = annual::evaluate(strategies, p);
+    benchmark::DoNotOptimize(y);
+  }
+  state.counters["ns_per_hour_result"] = benchmark::Counter(
+      static_cast<double>(p.intervals.size() * (strategies.size() + 3)),
+      benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert);
+}
+BENCHMARK(BM_EvaluatePreparedYear)->Unit(benchmark::kMicrosecond);
+
+// prepare() alone on the same always-occupied year: per hour the damper rule, the optimal
+// damper and the dew points every strategy reads.
+void BM_PrepareYear(benchmark::State& state) {
+  const UnitFile unit = parse_unit_file(kUnit, "bench.toml");
+  const Schedule schedule;
+  const auto w = weather::read_text(weather_text(), "greensboro", weather::Mapping{},
+                                    unit.site.design_pressure_kpa());
+  const auto iv = outdoor_intervals(w);
+  for (auto _ : state) {
+    auto p = annual::prepare(unit.air_handler, unit.return_air, iv, schedule, {});
+    benchmark::DoNotOptimize(p);
+  }
+}
+BENCHMARK(BM_PrepareYear)->Unit(benchmark::kMicrosecond);
+
 }  // namespace

@@ -286,6 +286,15 @@ enum class Cell : unsigned char { ok, sentinel, empty, marker, not_number };
 // -9999, -9900, 9999, 99999 are sentinels (common practice in TMY, station and NOAA ISD
 // exports).
 [[nodiscard]] Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_comma);
+// The digits of a plain decimal cell as written: v = ±mantissa / 10^decimals exactly before
+// rounding to a double. `decimals` is -1 when the cell was not read as one (an exponent, more
+// than 15 digits, a word), and then nothing is known without the double.
+struct Decimal {
+  std::uint64_t mantissa = 0;
+  int decimals = -1;
+};
+[[nodiscard]] Cell read_cell(std::string_view s, bool decimal_comma, double& v, bool& used_comma,
+                             Decimal& digits);
 // A finite number ("-12.5", "+3", "1e3"), as read_cell reads it; false for anything else.
 [[nodiscard]] bool read_number(std::string_view s, double& v);
 

@@ -141,12 +141,36 @@ struct Decision {
   int deciding_condition;
 };
 
+// One condition's new status given its previous tripped flag: trips above the limit, clears
+// below limit − deadband, holds in between. Without a deadband there is nothing to hold: a
+// value back at the limit is clear whatever came before (weather on a 0.1 °C grid sits exactly
+// on a 24 °C limit often enough for this to matter).
+[[nodiscard]] inline ConditionStatus condition_status(double outdoor, double limit, double deadband,
+                                                      bool was_tripped) {
+  if (outdoor > limit) return ConditionStatus::tripped;
+  if (was_tripped && deadband > 0.0 && outdoor >= limit - deadband) return ConditionStatus::held;
+  return ConditionStatus::clear;
+}
+
 // Evaluates the strategy and updates its state (the full account, for reports).
 [[nodiscard]] Decision decide(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
                               StrategyState& state);
 
-// The same decision without the account, for annual loops: returns enabled.
-[[nodiscard]] bool permits(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
-                           StrategyState& state);
+// The same decision without the account, for annual loops: returns enabled. Inline: it runs
+// for every strategy in every hour of a year.
+[[nodiscard]] inline bool permits(const Strategy& s, const AirValues& outdoor, const AirValues& ret,
+                                  StrategyState& state) {
+  if (state.tripped.size() != s.conditions.size()) state = StrategyState(s);
+  bool enabled = true;
+  // Every condition is evaluated (not short-circuited) so each one's deadband state stays true.
+  for (std::size_t i = 0; i < s.conditions.size(); ++i) {
+    const Condition& c = s.conditions[i];
+    const bool off = condition_status(outdoor[c.quantity], c.effective_limit(ret), c.deadband,
+                                      state.tripped[i] != 0) != ConditionStatus::clear;
+    state.tripped[i] = off;
+    enabled = enabled && !off;
+  }
+  return enabled;
+}
 
 }  // namespace limitline::highlimit
