@@ -66,6 +66,7 @@ int run_report(const std::vector<std::string>& args);
 int run_sensors(const std::vector<std::string>& args);
 int run_tune(const std::vector<std::string>& args);
 int run_audit(const std::vector<std::string>& args);
+int run_serve(const std::vector<std::string>& args);
 
 // Parses `args` against `options` (and positionals). When --help is present it prints
 // `usage`, the options and `details` and returns false; otherwise fills `vm` and returns true.

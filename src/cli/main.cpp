@@ -34,6 +34,8 @@ const Command kCommands[] = {
      limitline::cli::run_sensors},
     {"audit", "a trend log checked against the unit's high-limit: findings for an inspector",
      limitline::cli::run_audit},
+    {"serve", "the study page in a browser: a local web server with a JSON API",
+     limitline::cli::run_serve},
 };
 
 void print_overview() {
