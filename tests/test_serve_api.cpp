@@ -226,3 +226,36 @@ TEST_CASE("/api/start gives the start state and the demos; /api/report the HTML 
   CHECK(r.download_name == "limitline-study.html");
   CHECK(r.body.rfind("<!DOCTYPE html>", 0) == 0);
 }
+
+TEST_CASE("the downloaded unit file, saved beside the weather, reproduces the page") {
+  // The demo unit with a real weather file read by its own header, as the page does when a
+  // weather file is dropped on a demo.
+  const Api a = api();
+  const auto& start = a.start();
+  Fields f = {{"unit", start.unit_text},
+              {"unit_name", start.unit_name},
+              {"weather", source(kWeatherPath)},
+              {"weather_name", "greensboro-nc-tmy3.csv"},
+              {"weather_by_header", "1"}};
+  const auto page = a.handle("year", f);
+  REQUIRE(page.status == 200);
+  f.emplace("weather_file", "C:\\Users\\x/../greensboro-nc-tmy3.csv");
+  const auto unit = a.handle("unit", f);
+  REQUIRE(unit.status == 200);
+  CHECK(unit.download_name == "demo-harbourside.toml");
+  CHECK(contains(unit.body, "file = 'greensboro-nc-tmy3.csv'"));
+  CHECK_FALSE(contains(unit.body, "dry_bulb_c"));
+  const auto dir = limitline::test::scratch_dir("serve_api_download");
+  write(dir / "study.toml", unit.body);
+  std::filesystem::copy_file(std::filesystem::path(LIMITLINE_SOURCE_DIR) / kWeatherPath,
+                             dir / "greensboro-nc-tmy3.csv",
+                             std::filesystem::copy_options::overwrite_existing);
+  const auto cmd = run_cli({"year", (dir / "study.toml").string(), "--format", "json"});
+  REQUIRE(cmd.rc == 0);
+  CHECK(numbers(page.body) == numbers(cmd.out));
+  SUBCASE("a weather file name that is no name") {
+    f.erase("weather_file");
+    f.emplace("weather_file", "..");
+    CHECK(a.handle("unit", f).status == 422);
+  }
+}

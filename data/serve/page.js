@@ -69,6 +69,7 @@ async function loadStart(data) {
   state.weatherName = data.weather_name;
   state.byHeader = data.weather_by_header;
   state.demo = data.demo;
+  state.weatherFile = data.weather_file;
   showInputs();
   await loadFields();
   await refresh();
@@ -321,7 +322,8 @@ async function init() {
   });
   $("weather-file").addEventListener("change", async (ev) => {
     const f = await readFile(ev.target);
-    Object.assign(state, { weather: f.text, weatherName: f.name, byHeader: state.demo || state.byHeader });
+    Object.assign(state, { weather: f.text, weatherName: f.name, weatherFile: f.name,
+                           byHeader: state.demo || state.byHeader });
     showInputs();
     await refresh();
   });
@@ -334,9 +336,16 @@ async function init() {
     if (r.ok) await loadStart(r.data); else inputError(r.data.error);
   });
   $("chart").addEventListener("click", checkClick);
-  $("dl-unit").addEventListener("click", () => {
+  $("dl-unit").addEventListener("click", async () => {
+    const f = unitFields();
+    if (state.weatherFile) {
+      f.push(["weather_file", state.weatherFile]);
+      if (state.byHeader) f.push(["weather_by_header", "1"]);
+    }
+    const r = await api("unit", f, true);
+    if (!r.ok) { status("unit file: " + r.data.error, "bad"); return; }
     const base = state.unitName.replace(/ \(edited\)$/, "").replace(/.*[\\/]/, "").replace(/\.toml$/i, "");
-    download(new Blob([state.unit], { type: "application/toml" }), (base || "unit") + ".toml");
+    download(r.data, (base || "unit") + ".toml");
   });
   $("dl-report").addEventListener("click", async () => {
     status("writing the report…", "busy");

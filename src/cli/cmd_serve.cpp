@@ -63,6 +63,7 @@ serve::StartState start_state(const UnitSource& source, const WeatherOverrides& 
   s.weather_name = in.weather_label;
   s.weather_text = read_input_file(in.weather_label, "the weather file", max_upload);
   s.weather_by_header = source.embedded;
+  if (overrides.file) s.weather_file = *overrides.file;
   // What the page will send back must read as it did here (a [loads] file would not).
   TextSources check{s.unit_text, s.unit_name, s.weather_text, s.weather_name, s.weather_by_header};
   (void)load_year_inputs(check);

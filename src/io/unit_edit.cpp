@@ -169,6 +169,28 @@ std::vector<UnitField> editable_fields(std::string_view text, std::string_view n
   return out;
 }
 
+namespace {
+
+std::string written(const toml::table& root) {
+  std::ostringstream out;
+  out << toml::toml_formatter(root) << '\n';
+  return out.str();
+}
+
+}  // namespace
+
+std::string with_weather_file(std::string_view text, std::string_view name,
+                              std::string_view weather_file, bool columns_by_header) {
+  toml::table root = parse(text, name);
+  toml::table* w = root["weather"].as_table();
+  if (!w || columns_by_header) {
+    root.insert_or_assign("weather", toml::table{});
+    w = root["weather"].as_table();
+  }
+  w->insert_or_assign("file", std::string(weather_file));
+  return written(root);
+}
+
 std::string edit_unit_text(std::string_view text, std::string_view name,
                            std::span<const UnitEdit> edits) {
   if (edits.empty()) return std::string(text);
@@ -192,9 +214,7 @@ std::string edit_unit_text(std::string_view text, std::string_view name,
       at.table->insert_or_assign(at.key, *number);
     }
   }
-  std::ostringstream out;
-  out << toml::toml_formatter(root) << '\n';
-  return out.str();
+  return written(root);
 }
 
 }  // namespace limitline

@@ -16,6 +16,7 @@
 
 #include <fmt/format.h>
 
+#include <filesystem>
 #include <optional>
 
 namespace limitline::serve {
@@ -107,6 +108,7 @@ void start_json(report::Json& j, const StartState& s) {
   j.field("weather_name", s.weather_name);
   j.field("weather_by_header", s.weather_by_header);
   j.field("demo", s.demo);
+  j.field("weather_file", s.weather_file);
   j.key("demos").begin_array();
   for (const auto& d : demo_names()) j.value(d);
   j.end_array();
@@ -166,6 +168,25 @@ Response edit(const Api&, const Fields& f) {
   report::Json j;
   j.begin_object().field("unit", out).end_object();
   return json(j.str());
+}
+
+// The unit file to download: the page's text, naming the uploaded weather file by its name
+// (without any folder) when the page read one, so that the two saved side by side reproduce
+// the page through `limitline year UNIT.toml`.
+Response unit_download(const Api&, const Fields& f) {
+  const std::string& text = field(f, "unit");
+  const std::string name = unit_name(f);
+  std::string out = text;
+  if (const auto w = optional_field(f, "weather_file")) {
+    const std::string file = std::filesystem::path(*w).filename().string();
+    if (file.empty() || file == "." || file == "..")
+      throw InputError(fmt::format("weather_file: {} is not a file name", echo(*w)));
+    out = with_weather_file(text, name, file,
+                            optional_field(f, "weather_by_header").value_or("") == "1");
+  }
+  (void)parse_unit_file(out, name);
+  const std::string base = std::filesystem::path(name).filename().string();
+  return {200, "application/toml", out, base.ends_with(".toml") ? base : "unit.toml"};
 }
 
 Response year(const Api&, const Fields& f) {
@@ -254,6 +275,9 @@ const Route kRoutes[] = {
     {{"demo", "POST", "an embedded demo's unit and weather (field: name)"}, demo},
     {{"fields", "POST", "the settings of a unit file the form shows (field: unit)"}, fields},
     {{"edit", "POST", "a unit file with settings changed (fields: unit, path, value, ...)"}, edit},
+    {{"unit", "POST",
+      "the unit file of the page, as an attachment (fields: unit, weather_file, ...)"},
+     unit_download},
     {{"year", "POST", "the annual results: year --format json (fields: unit, weather)"}, year},
     {{"study", "POST", "annual results, chart and its axes, monthly and tuning pictures"}, study},
     {{"check", "POST", "check --format json at one outdoor state (fields: unit, outdoor)"}, check},
@@ -280,7 +304,8 @@ StartState demo_start(std::string_view name) {
           std::string(*weather_text),
           weather_file + " (embedded invented demo climate)",
           false,
-          true};
+          true,
+          ""};
 }
 
 std::vector<Endpoint> endpoints() {

@@ -36,4 +36,11 @@ struct UnitEdit {
 std::string edit_unit_text(std::string_view text, std::string_view name,
                            std::span<const UnitEdit> edits);
 
+// `text` naming `weather_file` in its [weather] table, so that the unit file saved beside that
+// file reproduces a study run on it: with `columns_by_header` the table holds only the file (the
+// weather was read by its own header), else its column settings stay. Re-written as
+// edit_unit_text does; InputError as parse_unit_file when the text is no valid TOML.
+std::string with_weather_file(std::string_view text, std::string_view name,
+                              std::string_view weather_file, bool columns_by_header);
+
 }  // namespace limitline

@@ -31,6 +31,9 @@ struct StartState {
   std::string weather_name;
   bool weather_by_header = false;  // a demo unit: a file of the user's is read by its header
   bool demo = false;
+  // The weather file the downloaded unit file names (a file the unit does not name itself),
+  // or empty: the unit's own [weather] file.
+  std::string weather_file;
 };
 
 // The start state of an embedded demo ("harbourside", "mesa-alta"); InputError for another name.
