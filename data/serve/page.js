@@ -233,6 +233,8 @@ async function refresh() {
   state.axes = d.chart.axes;
   state.chartBox = viewBox(d.chart.svg);
   svgImage($("chart"), d.chart.svg);
+  // The map of the chart's axes, for tools that place a point on it as the click handler does.
+  $("chart").dataset.axes = JSON.stringify(Object.assign({ view_box: state.chartBox }, state.axes));
   svgImage($("monthly"), d.monthly_svg);
   const t = $("tuning");
   t.textContent = "";

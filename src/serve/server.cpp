@@ -135,7 +135,7 @@ struct Server::Impl {
     // them can run; fetches go to this server alone.
     res.set_header("Content-Security-Policy",
                    "default-src 'none'; script-src 'self'; style-src 'self'; img-src blob: data:; "
-                   "connect-src 'self'; form-action 'none'; frame-ancestors 'none'; "
+                   "connect-src 'self' blob:; form-action 'none'; frame-ancestors 'none'; "
                    "base-uri 'none'");
     res.set_content(page, "text/html; charset=utf-8");
   }
