@@ -70,6 +70,8 @@ async function loadStart(data) {
   state.byHeader = data.weather_by_header;
   state.demo = data.demo;
   state.weatherFile = data.weather_file;
+  if (data.units) state.units = data.units;
+  $("units").value = state.units;
   showInputs();
   await loadFields();
   await refresh();

@@ -35,7 +35,7 @@ constexpr std::string_view kDetails =
     "  limitline serve\n"
     "  limitline serve examples/office-humid-coast.toml --weather "
     "tests/data/greensboro-nc-tmy3.csv\n"
-    "  limitline serve --port 8460";
+    "  limitline serve --demo mesa-alta --units si --max-upload 32";
 
 constexpr unsigned kMaxWorkers = 16;
 constexpr unsigned kMaxUploadMib = 256;
@@ -82,6 +82,8 @@ int run_serve(const std::vector<std::string>& args) {
                         "unit file the page starts with (TOML); omit for the demo")(
       "demo", po::value<std::string>(), "embedded demo to start with: harbourside or mesa-alta")(
       "weather", po::value<std::string>(), "weather CSV to start with (instead of the unit's)")(
+      "units", po::value<std::string>(),
+      "units the page starts in: ip or si (default: the unit file's)")(
       "host", po::value<std::string>()->default_value("127.0.0.1"),
       "address to listen on (another than 127.0.0.1 prints a warning)")(
       "port", po::value<int>()->default_value(0), "port (0: a free one)")(
@@ -117,6 +119,8 @@ int run_serve(const std::vector<std::string>& args) {
   WeatherOverrides overrides;
   if (vm.count("weather")) overrides.file = vm["weather"].as<std::string>();
   serve::StartState start = start_state(source, overrides, so.max_upload_bytes);
+  if (vm.count("units"))
+    start.units = units::system_name(system_option(vm["units"].as<std::string>(), "--units"));
 
   serve::Server server(serve::Api(std::move(start), "limitline " LIMITLINE_CLI_VERSION), so);
   if (!loopback(so.host))

@@ -109,6 +109,7 @@ void start_json(report::Json& j, const StartState& s) {
   j.field("weather_by_header", s.weather_by_header);
   j.field("demo", s.demo);
   j.field("weather_file", s.weather_file);
+  j.field("units", s.units);
   j.key("demos").begin_array();
   for (const auto& d : demo_names()) j.value(d);
   j.end_array();
@@ -305,6 +306,7 @@ StartState demo_start(std::string_view name) {
           weather_file + " (embedded invented demo climate)",
           false,
           true,
+          "",
           ""};
 }
 

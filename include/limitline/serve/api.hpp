@@ -34,6 +34,7 @@ struct StartState {
   // The weather file the downloaded unit file names (a file the unit does not name itself),
   // or empty: the unit's own [weather] file.
   std::string weather_file;
+  std::string units;  // "ip" or "si": the page's first choice; empty: the unit file's
 };
 
 // The start state of an embedded demo ("harbourside", "mesa-alta"); InputError for another name.
