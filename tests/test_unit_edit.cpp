@@ -81,6 +81,22 @@ TEST_CASE("a path the form does not offer is refused, naming it") {
   }
 }
 
+TEST_CASE("a table that is no table is refused, not written into") {
+  for (const std::string& text :
+       std::vector<std::string>{"air_handler = 5\n", "strategy = [1]\n"}) {
+    CAPTURE(text);
+    CHECK_THROWS_AS(
+        (void)limitline::edit_unit_text(
+            text, "odd.toml",
+            std::vector<UnitEdit>{{"air_handler.fan_heat", "1F"}, {"strategy[1].deadband", "1F"}}),
+        limitline::InputError);
+  }
+  CHECK_THROWS_AS(
+      (void)limitline::edit_unit_text("strategy = [1]\n", "odd.toml",
+                                      std::vector<UnitEdit>{{"strategy[1].deadband", "1F"}}),
+      limitline::InputError);
+}
+
 TEST_CASE("the weather file of a download replaces the [weather] table when read by header") {
   const auto by_header = limitline::with_weather_file(demo(), "demo.toml", "site.csv", true);
   CHECK(by_header.find("[weather]\nfile = 'site.csv'") != std::string::npos);

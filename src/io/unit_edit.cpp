@@ -129,11 +129,9 @@ Target locate(toml::table& root, std::string_view path, std::string_view name) {
   }
   for (const auto& f : kFields) {
     if (f.table != where || f.key != key) continue;
+    if (!root.contains(f.table)) root.insert(f.table, toml::table{});
     auto* t = root[f.table].as_table();
-    if (!t) {
-      root.insert(f.table, toml::table{});
-      t = root[f.table].as_table();
-    }
+    if (!t) throw bad(fmt::format("[{}] is not a table in this file", f.table));
     return {t, std::string(key)};
   }
   throw bad("not a setting of the page's form");
