@@ -69,12 +69,20 @@ fs::path example_folder() {
   return dir;
 }
 
-// Runs one example line through the shell, as a user would type it.
+// Runs one example line through the shell, as a user would type it. `limitline serve` runs
+// until stopped: it is stopped with SIGTERM once its first line (the URL) is out, and must then
+// end with exit 0.
 CliRun run_example(const fs::path& dir, const std::string& example) {
+  const std::string script =
+      example.rfind("limitline serve", 0) == 0
+          ? example +
+                " & pid=$!; until grep -q 'token=' out.txt || ! kill -0 $pid; do sleep 0.1; "
+                "done; kill -TERM $pid; wait $pid"
+          : example;
   const std::string cmd =
       "cd " + shell_quote(dir.string()) + " && PATH=" + shell_quote((dir / "bin").string()) +
       ":\"$PATH\" LIMITLINE_DATA_DIR=" + shell_quote(std::string(LIMITLINE_SOURCE_DIR) + "/data") +
-      " sh -c " + shell_quote(example) + " < /dev/null > out.txt 2> err.txt";
+      " sh -c " + shell_quote(script) + " < /dev/null > out.txt 2> err.txt";
   const int status = std::system(cmd.c_str());
   REQUIRE(WIFEXITED(status));
   CliRun r{WEXITSTATUS(status), slurp(dir / "out.txt"), slurp(dir / "err.txt")};
@@ -86,8 +94,8 @@ CliRun run_example(const fs::path& dir, const std::string& example) {
 
 TEST_CASE("the top-level help lists every command") {
   const auto names = commands();
-  for (const char* expected :
-       {"state", "check", "year", "sequence", "code", "chart", "report", "sensors", "audit"})
+  for (const char* expected : {"state", "check", "year", "sequence", "code", "chart", "report",
+                               "sensors", "audit", "serve"})
     CHECK(std::find(names.begin(), names.end(), expected) != names.end());
 }
 

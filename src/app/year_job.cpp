@@ -142,6 +142,26 @@ YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& ov
   return in;
 }
 
+YearInputs load_year_inputs(const TextSources& src) {
+  YearInputs in;
+  in.unit = parse_unit_file(src.unit_text, src.unit_name);
+  in.unit_label = src.unit_name;
+  if (in.unit.loads_file)
+    throw InputError(fmt::format(
+        "{}: the study page reads no file a unit file names; give the loads in the [loads] "
+        "table itself, or run limitline year on the files",
+        in.unit.loads_file->origin));
+  const weather::Mapping m = mapping_for(in.unit, !src.weather_by_header, {});
+  in.weather =
+      weather::read_text(src.weather_text, src.weather_name, m, in.unit.site.design_pressure_kpa());
+  in.weather_label = src.weather_name;
+  if (in.unit.schedule) in.schedule = read_schedule(*in.unit.schedule, in.unit.path);
+  in.strategies = strategies_or_presets(in.unit);
+  in.warnings = in.unit.warnings;
+  if (auto w = site_pressure_warning(in.unit, in.weather.info)) in.warnings.push_back(*w);
+  return in;
+}
+
 YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
                         const WeatherOverrides& overrides) {
   YearInputs in;

@@ -68,6 +68,7 @@ int run_tune(const std::vector<std::string>& args);
 int run_audit(const std::vector<std::string>& args);
 int run_survey(const std::vector<std::string>& args);
 int run_merge(const std::vector<std::string>& args);
+int run_serve(const std::vector<std::string>& args);
 
 // Parses `args` against `options` (and positionals). When --help is present it prints
 // `usage`, the options and `details` and returns false; otherwise fills `vm` and returns true.

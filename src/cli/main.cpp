@@ -38,6 +38,8 @@ const Command kCommands[] = {
      limitline::cli::run_survey},
     {"merge", "the partial results of a sharded survey combined into its report",
      limitline::cli::run_merge},
+    {"serve", "the study page in a browser: a local web server with a JSON API",
+     limitline::cli::run_serve},
 };
 
 void print_overview() {

@@ -86,6 +86,19 @@ std::shared_ptr<const loads::LoadsTable> read_unit_loads(const UnitFile& unit, b
 // loads (matched to the weather). `weather_file` replaces the weather file named by the unit
 // (used by batch runs).
 YearInputs load_year_inputs(const UnitSource& source, const WeatherOverrides& overrides);
+// A unit file and its weather given as text (the study page's uploads): nothing is read from
+// disk. Errors name `unit_name` and `weather_name` where the command names the paths. The
+// unit's [weather] columns apply unless `weather_by_header` (as for a demo unit with a file
+// of the user's, which `year --demo NAME --weather FILE` reads by its own header); its
+// `file` key is not read. A [loads] file is refused: a request never names a file on disk.
+struct TextSources {
+  std::string_view unit_text;
+  std::string unit_name = "uploaded unit file";
+  std::string_view weather_text;
+  std::string weather_name = "uploaded weather file";
+  bool weather_by_header = false;
+};
+YearInputs load_year_inputs(const TextSources& sources);
 // The same unit with another weather file (batch mode): reuses the parsed unit and its loads
 // file as read (read here when `base` has none), matched to the new weather.
 YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
