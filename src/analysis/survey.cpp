@@ -8,13 +8,6 @@
 namespace limitline::survey {
 namespace {
 
-std::string zone_key(std::string_view zone) {
-  std::string k;
-  for (const char c : zone)
-    if (c != ' ' && c != '\t') k += static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
-  return k;
-}
-
 // Natural order: the leading number as a number ("2A" before "10"), then the rest; no zone
 // last.
 bool zone_before(const std::string& a, const std::string& b) {
@@ -52,7 +45,7 @@ double median(std::vector<double> v) {
 }
 
 void SummaryBuilder::add(const SiteRecord& r) {
-  const std::string key = zone_key(r.zone);
+  const std::string key = text::lower_without_space(r.zone);
   auto z = std::find_if(zones_.begin(), zones_.end(), [&](const Zone& x) { return x.key == key; });
   if (z == zones_.end()) {
     zones_.push_back({key, r.zone, 0, 0, 0, 0, {}, {}});

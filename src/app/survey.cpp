@@ -203,9 +203,11 @@ Shard parse_shard(std::string_view text, std::string_view origin) {
 Survey::Survey(Manifest manifest, const std::string& unit_path, const WeatherOverrides& overrides,
                const SurveyOptions& options)
     : manifest_(std::move(manifest)), options_(options), overrides_(overrides) {
-  const UnitFile file = load_unit_file(unit_path);
-  base_ = batch_base(file, unit_path);
+  // Read once: the fingerprint covers the bytes the unit was parsed from.
+  const std::string unit_text = read_input_file(unit_path, "the unit file", kMaxUnitFileBytes);
+  const UnitFile file = parse_unit_file(unit_text, unit_path);
   tables_ = std::make_unique<codes::CodeTables>(codes::CodeTables::load_installed());
+  base_ = batch_base(file, unit_path, tables_.get());
   info_.manifest = manifest_.source;
   info_.unit = unit_path;
   info_.rows = manifest_.rows.size();
@@ -216,7 +218,7 @@ Survey::Survey(Manifest manifest, const std::string& unit_path, const WeatherOve
   info_.version = version();
   Fingerprint f;
   f.add(manifest_.bytes);
-  f.add(read_input_file(unit_path, "the unit file", 1u << 20));
+  f.add(unit_text);
   f.add(units::system_name(options.units));
   f.add(options.tune ? "tune" : "no-tune");
   info_.fingerprint = f.hex();
@@ -234,8 +236,9 @@ std::string condition_label(const highlimit::Condition& c) {
 // The site's unit: the row's own file, else the template; then the manifest's [site] values.
 YearInputs site_base(const YearInputs& tmpl, const ManifestRow& row,
                      const codes::CodeTables& tables) {
-  YearInputs base =
-      row.unit_path.empty() ? tmpl : batch_base(load_unit_file(row.unit_path), row.unit_path);
+  YearInputs base = row.unit_path.empty()
+                        ? tmpl
+                        : batch_base(load_unit_file(row.unit_path), row.unit_path, &tables);
   Site& site = base.unit.site;
   const auto set = [&](std::string& value, std::string& origin, const std::string& from,
                        std::string_view column) {
@@ -290,12 +293,10 @@ SiteRecord Survey::evaluate(const ManifestRow& row) const {
                         row.origin, site.energy_code.empty() ? "climate_zone" : "energy_code"));
       std::optional<double> pressure;
       if (site.elevation_m || site.pressure_kpa) pressure = site.design_pressure_kpa();
-      words =
-          codes::compliance_words(*tables_, site.energy_code, site.climate_zone, pressure,
-                                  in.strategies, site.energy_code_origin, site.climate_zone_origin);
       const codes::ZoneRequirements zone = codes::requirements(
           tables_->edition(site.energy_code, site.energy_code_origin), site.climate_zone,
           {pressure, std::nullopt}, site.climate_zone_origin);
+      words = codes::compliance_words(zone, in.strategies);
       r.economizer = std::string(
           codes::need_text(codes::economizer_need(zone, cooling_capacity(in.unit).kw).need));
     }
@@ -408,12 +409,6 @@ std::string_view kind_key(units::Kind k) {
   throw std::logic_error("survey: a setting of an unexpected kind");
 }
 
-void strings(report::Json& j, std::string_view key, const std::vector<std::string>& v) {
-  j.key(key).begin_array();
-  for (const auto& s : v) j.value(s);
-  j.end_array();
-}
-
 std::vector<std::string> strings(const json::Object& o, std::string_view key,
                                  std::string_view where) {
   std::vector<std::string> out;
@@ -454,7 +449,7 @@ std::string header_line(const SurveyInfo& info, const Shard& shard) {
   j.field("units", units::system_name(info.units));
   j.field("tune", info.tune);
   j.field("currency", info.currency);
-  strings(j, "unit_warnings", info.unit_warnings);
+  j.strings("unit_warnings", info.unit_warnings);
   j.field("shard", shard.index);
   j.field("shards", shard.count);
   j.end_object();
@@ -474,13 +469,13 @@ std::string record_line(const SiteRecord& r) {
   if (!r.ok) {
     j.field("error", r.error);
   } else {
-    strings(j, "warnings", r.warnings);
+    j.strings("warnings", r.warnings);
     j.field("economizer", r.economizer);
     j.field("operating_hours", r.operating_hours, kExact);
     j.field("perfect_savings", r.perfect_savings, kExact);
     j.field("tolerance", r.tolerance, kExact);
-    strings(j, "best", r.best);
-    strings(j, "best_compliant", r.best_compliant);
+    j.strings("best", r.best);
+    j.strings("best_compliant", r.best_compliant);
     j.key("strategies").begin_array();
     for (const StrategyFigures& f : r.strategies) {
       j.begin_object();

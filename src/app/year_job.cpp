@@ -221,12 +221,12 @@ weather::WeatherSeries read_unit_weather(const UnitFile& unit, std::string& labe
   return read_weather(unit, false, mapping_for(unit, true, {}), std::nullopt, label);
 }
 
-YearInputs batch_base(const UnitFile& unit, std::string label) {
+YearInputs batch_base(const UnitFile& unit, std::string label, const codes::CodeTables* tables) {
   YearInputs base;
   base.unit = unit;
   base.unit_label = std::move(label);
   if (unit.schedule) base.schedule = read_schedule(*unit.schedule, unit.path);
-  base.strategies = strategies_or_presets(unit);
+  base.strategies = tables ? strategies_or_presets(unit, *tables) : strategies_or_presets(unit);
   // Read once, matched to each site's weather.
   base.loads_table = read_unit_loads(unit, false, base.loads_label);
   return base;

@@ -1218,10 +1218,15 @@ std::vector<std::string> compliance_words(const CodeTables& tables, std::string_
                                           std::span<const highlimit::Strategy> strategies,
                                           std::string_view edition_origin,
                                           std::string_view zone_origin) {
-  const ZoneRequirements req = requirements(tables.edition(edition, edition_origin), zone,
-                                            SiteConditions{pressure_kpa, {}}, zone_origin);
+  return compliance_words(requirements(tables.edition(edition, edition_origin), zone,
+                                       SiteConditions{pressure_kpa, {}}, zone_origin),
+                          strategies);
+}
+
+std::vector<std::string> compliance_words(const ZoneRequirements& zone,
+                                          std::span<const highlimit::Strategy> strategies) {
   std::vector<std::string> out;
-  for (const auto& s : strategies) out.emplace_back(verdict_word(check_strategy(req, s).verdict));
+  for (const auto& s : strategies) out.emplace_back(verdict_word(check_strategy(zone, s).verdict));
   return out;
 }
 

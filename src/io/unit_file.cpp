@@ -1194,8 +1194,6 @@ UnitFile parse_unit_file(std::string_view text, std::string_view name) {
 }
 
 UnitFile load_unit_file(const std::string& path) {
-  // A unit file is a page of settings; anything near this size is not one.
-  constexpr std::uintmax_t kMaxUnitFileBytes = 1u << 20;
   return parse_unit_file(read_input_file(path, "the unit file", kMaxUnitFileBytes), path);
 }
 

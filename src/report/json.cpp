@@ -102,6 +102,12 @@ Json& Json::value(double v, int significant) {
   return *this;
 }
 
+Json& Json::strings(std::string_view k, std::span<const std::string> values) {
+  key(k).begin_array();
+  for (const std::string& s : values) value(s);
+  return end_array();
+}
+
 Json& Json::value(long long v) {
   before_value();
   out_ += fmt::format("{}", v);

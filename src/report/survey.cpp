@@ -335,9 +335,7 @@ std::string survey_json(const SurveyReport& r) {
     j.field("sites_failed", z.sites_failed);
     j.field("economizer_required", z.economizer_required);
     j.field("economizer_judged", z.economizer_judged);
-    j.key("codes").begin_array();
-    for (const auto& c : z.codes) j.value(c);
-    j.end_array();
+    j.strings("codes", z.codes);
     j.key("strategies").begin_array();
     for (const StrategySummary& s : z.strategies) {
       j.begin_object();
@@ -382,15 +380,9 @@ std::string survey_json(const SurveyReport& r) {
     j.field("operating_hours", s.operating_hours, 8);
     figure("perfect_savings", s.perfect_savings);
     figure("tie_tolerance", s.tolerance);
-    j.key("best").begin_array();
-    for (const auto& b : s.best) j.value(b);
-    j.end_array();
-    j.key("best_compliant").begin_array();
-    for (const auto& b : s.best_compliant) j.value(b);
-    j.end_array();
-    j.key("warnings").begin_array();
-    for (const auto& w : s.warnings) j.value(w);
-    j.end_array();
+    j.strings("best", s.best);
+    j.strings("best_compliant", s.best_compliant);
+    j.strings("warnings", s.warnings);
     j.key("strategies").begin_array();
     for (const auto& f : s.strategies) {
       j.begin_object();
@@ -411,12 +403,8 @@ std::string survey_json(const SurveyReport& r) {
     j.end_object();
   }
   j.end_array();
-  j.key("unit_warnings").begin_array();
-  for (const auto& w : r.info.unit_warnings) j.value(w);
-  j.end_array();
-  j.key("cautions").begin_array();
-  for (const auto& c : cautions(CautionTopic::survey)) j.value(c);
-  j.end_array();
+  j.strings("unit_warnings", r.info.unit_warnings);
+  j.strings("cautions", cautions(CautionTopic::survey));
   j.end_object();
   return j.str();
 }

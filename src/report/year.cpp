@@ -337,15 +337,11 @@ void json_context(Json& j, const YearContext& c) {
   j.field("unit_file", c.unit_source);
   j.field("site", c.site);
   j.field("weather", c.weather_source);
-  j.key("weather_notes").begin_array();
-  for (const auto& n : c.weather_notes) j.value(n);
-  j.end_array();
+  j.strings("weather_notes", c.weather_notes);
   j.field("schedule", c.schedule);
   j.field("units", std::string(units::system_name(c.units)));
   j.field("air_handler_model", c.model);
-  j.key("warnings").begin_array();
-  for (const auto& w : c.warnings) j.value(w);
-  j.end_array();
+  j.strings("warnings", c.warnings);
 }
 
 std::vector<std::string> context_lines(const YearContext& c) {
@@ -554,9 +550,7 @@ std::string year_json(const annual::YearResult& y, const YearContext& c) {
     j.key("best_compliant_group");
     names(rec.best_compliant);
     j.field("best_not_allowed", rec.best_not_allowed());
-    j.key("lines").begin_array();
-    for (const auto& l : recommendation_lines(y, c)) j.value(l);
-    j.end_array();
+    j.strings("lines", recommendation_lines(y, c));
     j.end_object();
   }
   j.key("results").begin_object();
@@ -581,9 +575,7 @@ std::string year_json(const annual::YearResult& y, const YearContext& c) {
     j.end_object();
   }
   j.end_object();
-  j.key("cautions").begin_array();
-  for (const auto& s : cautions(CautionTopic::design)) j.value(s);
-  j.end_array();
+  j.strings("cautions", cautions(CautionTopic::design));
   j.end_object();
   return j.str();
 }

@@ -110,9 +110,7 @@ void start_json(report::Json& j, const StartState& s) {
   j.field("demo", s.demo);
   j.field("weather_file", s.weather_file);
   j.field("units", s.units);
-  j.key("demos").begin_array();
-  for (const auto& d : demo_names()) j.value(d);
-  j.end_array();
+  j.strings("demos", demo_names());
   j.end_object();
 }
 
@@ -143,9 +141,7 @@ Response fields(const Api&, const Fields& f) {
         .field("value", u.value)
         .end_object();
   j.end_array();
-  j.key("warnings").begin_array();
-  for (const auto& w : unit.warnings) j.value(w);
-  j.end_array();
+  j.strings("warnings", unit.warnings);
   j.end_object();
   return json(j.str());
 }

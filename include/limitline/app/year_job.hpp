@@ -105,8 +105,10 @@ YearInputs with_weather(const YearInputs& base, const std::string& weather_path,
                         const WeatherOverrides& overrides);
 
 // The unit of a batch or survey (every site evaluated with it): its schedule, strategies and
-// loads file read once, no weather yet. `label` names it in the reports.
-YearInputs batch_base(const UnitFile& unit, std::string label);
+// loads file read once, no weather yet. `label` names it in the reports. With `tables`, the
+// code tables already loaded are used instead of reading them again.
+YearInputs batch_base(const UnitFile& unit, std::string label,
+                      const codes::CodeTables* tables = nullptr);
 
 // The weather series as the annual engine's intervals.
 std::vector<annual::OutdoorInterval> outdoor_intervals(const weather::WeatherSeries& w);

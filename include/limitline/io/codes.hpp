@@ -386,6 +386,9 @@ std::vector<std::string> compliance_words(const CodeTables& tables, std::string_
                                           std::span<const highlimit::Strategy> strategies,
                                           std::string_view edition_origin = "energy_code",
                                           std::string_view zone_origin = "climate_zone");
+// The same for requirements already looked up.
+std::vector<std::string> compliance_words(const ZoneRequirements& zone,
+                                          std::span<const highlimit::Strategy> strategies);
 
 // --- Economizer requirement of a unit ----------------------------------------------------
 

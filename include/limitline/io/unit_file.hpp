@@ -17,6 +17,7 @@
 #include <limitline/io/trend.hpp>
 #include <limitline/io/weather.hpp>
 
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -109,6 +110,8 @@ struct UnitFile {
 
 // Parses a unit file from text; `name` is the file name used in messages.
 UnitFile parse_unit_file(std::string_view text, std::string_view name);
+// A unit file is a page of settings; anything near this size is not one.
+inline constexpr std::uintmax_t kMaxUnitFileBytes = 1u << 20;
 // Reads and parses a file; an unreadable file is an InputError naming the path.
 UnitFile load_unit_file(const std::string& path);
 

@@ -2,6 +2,7 @@
 // A small streaming JSON writer: objects, arrays, strings, finite numbers, booleans, null.
 // Non-finite numbers are a programming error here (std::logic_error): the tool never prints
 // NaN or inf, so a value that could be undefined must be written as null by the caller.
+#include <span>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -38,6 +39,8 @@ class Json {
     key(k);
     return value(v, significant);
   }
+  // key + an array of strings.
+  Json& strings(std::string_view k, std::span<const std::string> values);
 
   // The document so far, with a final newline once the outermost value is closed.
   const std::string& str() const { return out_; }
